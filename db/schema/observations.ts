@@ -1,0 +1,51 @@
+import { date, decimal, index, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { createdAt, id, ref, updatedAt } from "./columns";
+import { MISSING_REASONS } from "./enums";
+import { traits } from "./traits";
+import { plots } from "./trials";
+import { users } from "./users";
+
+/**
+ * One recorded value. `occasion` separates repeated observations of a trait on the same plot: the day
+ * after sowing for scheduled counts (emergence on days 5, 7, 10, 14), 0 for a trait recorded once.
+ * Exactly one of the value columns is used, chosen by the trait's type; a missing plot has none and a reason.
+ */
+export const observations = mysqlTable(
+  "observations",
+  {
+    id: id(),
+    plotId: ref("plot_id").notNull().references(() => plots.id, { onDelete: "cascade" }),
+    traitId: ref("trait_id").notNull().references(() => traits.id, { onDelete: "restrict" }),
+    occasion: smallint("occasion").notNull().default(0),
+    observedOn: date("observed_on", { mode: "string" }),
+    valueNumber: decimal("value_number", { precision: 14, scale: 4, mode: "number" }),
+    valueDate: date("value_date", { mode: "string" }),
+    valueText: varchar("value_text", { length: 1000 }),
+    missingReason: mysqlEnum("missing_reason", MISSING_REASONS),
+    note: text("note"),
+    recordedById: ref("recorded_by_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex("observations_plot_trait_occasion_unique").on(t.plotId, t.traitId, t.occasion),
+    index("observations_trait_idx").on(t.traitId),
+  ],
+);
+
+/** Earlier values of an observation, written whenever it changes, so a corrected upload never erases history. */
+export const observationHistory = mysqlTable(
+  "observation_history",
+  {
+    id: id(),
+    observationId: ref("observation_id").notNull().references(() => observations.id, { onDelete: "cascade" }),
+    valueNumber: decimal("value_number", { precision: 14, scale: 4, mode: "number" }),
+    valueDate: date("value_date", { mode: "string" }),
+    valueText: varchar("value_text", { length: 1000 }),
+    changedById: ref("changed_by_id").references(() => users.id, { onDelete: "set null" }),
+    changedAt: timestamp("changed_at", { mode: "date" }).notNull().defaultNow(),
+  },
+  (t) => [index("observation_history_obs_idx").on(t.observationId)],
+);
+
+export type Observation = typeof observations.$inferSelect;
