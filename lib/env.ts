@@ -25,7 +25,8 @@ function parseEnv(): Env {
     const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
     throw new Error(`Seedplot settings are invalid: ${problems}`);
   }
-  if (parsed.data.NODE_ENV === "production" && parsed.data.NEXTAUTH_SECRET.includes("development-secret")) {
+  const building = process.env.NEXT_PHASE === "phase-production-build";
+  if (!building && parsed.data.NODE_ENV === "production" && parsed.data.NEXTAUTH_SECRET.includes("development-secret")) {
     // A production server with the development secret would accept forged sessions.
     if (process.env.SEEDPLOT_ALLOW_DEV_SECRET !== "1") throw new Error("Set NEXTAUTH_SECRET for production.");
   }

@@ -1,0 +1,42 @@
+import Link from "next/link";
+import { Logo } from "@/components/layout/logo";
+import { SignOutButton } from "@/components/layout/sign-out-button";
+import { requireUser } from "@/lib/auth/guards";
+import { ROLE_LABELS } from "@/lib/labels";
+import { env } from "@/lib/env";
+
+export default async function PortalLayout({ children }: { children: React.ReactNode }) {
+  const viewer = await requireUser();
+  const staff = viewer.role !== "cooperator";
+  const links: [string, string][] = [["/portal", "Home"]];
+  if (staff) links.push(["/portal/cooperators", "Growers"]);
+  if (viewer.role === "admin") links.push(["/portal/admin/users", "Users & roles"]);
+  if (staff && env.MAIL_MODE === "capture") links.push(["/portal/mailbox", "Test mailbox"]);
+  return (
+    <div className="min-h-screen">
+      <header className="border-b border-husk-200 bg-white">
+        <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-4 py-2">
+          <Link href="/portal" className="no-underline" aria-label="Portal home">
+            <Logo />
+          </Link>
+          <div className="flex items-center gap-3 text-sm">
+            <span className="text-loam-700">
+              {viewer.name} · <span className="font-semibold">{ROLE_LABELS[viewer.role]}</span>
+            </span>
+            <SignOutButton />
+          </div>
+        </div>
+        <nav aria-label="Portal" className="mx-auto flex max-w-6xl gap-1 overflow-x-auto px-4">
+          {links.map(([href, label]) => (
+            <Link key={href} href={href} className="whitespace-nowrap rounded-t-lg px-3 py-2 font-semibold text-loam-700 no-underline hover:bg-husk-100">
+              {label}
+            </Link>
+          ))}
+        </nav>
+      </header>
+      <main id="main" className="mx-auto max-w-6xl px-4 py-8">
+        {children}
+      </main>
+    </div>
+  );
+}

@@ -1,0 +1,47 @@
+import type { Metadata } from "next";
+import { requireUser } from "@/lib/auth/guards";
+import { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import { listUsersForAdmin } from "@/db/queries/users";
+import { Card } from "@/components/ui/card";
+import { LateSitesList, MySchedules, SectionLink, TrialsTable, UsersSummary } from "@/components/portal/home-sections";
+
+export const metadata: Metadata = { title: "Portal" };
+
+export default async function PortalHome() {
+  const viewer = await requireUser();
+
+  if (viewer.role === "cooperator") {
+    const [schedules, sites] = await Promise.all([listMySchedules(viewer), listMySites(viewer)]);
+    return (
+      <div className="space-y-6">
+        <h1 className="text-3xl font-bold">Hello, {viewer.name.split(" ")[0]}</h1>
+        <p className="text-loam-700">Your sites and the counts due next. Dates follow your own sowing date.</p>
+        <MySchedules schedules={schedules} sites={sites} />
+      </div>
+    );
+  }
+
+  const [trials, lateSites, users] = await Promise.all([
+    listTrialsForViewer(viewer),
+    listLateSites(viewer),
+    viewer.role === "admin" ? listUsersForAdmin(viewer) : Promise.resolve([]),
+  ]);
+  return (
+    <div className="space-y-6">
+      <h1 className="text-3xl font-bold">{viewer.role === "admin" ? "Administration" : "Program overview"}</h1>
+      {viewer.role === "admin" && (
+        <Card title="Users and roles" actions={<SectionLink href="/portal/admin/users">Manage users</SectionLink>}>
+          <UsersSummary users={users} />
+        </Card>
+      )}
+      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
+        <Card title="Trials">
+          <TrialsTable trials={trials} />
+        </Card>
+        <Card title="Sites behind schedule">
+          <LateSitesList sites={lateSites} />
+        </Card>
+      </div>
+    </div>
+  );
+}

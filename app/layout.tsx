@@ -1,0 +1,35 @@
+import type { Metadata, Viewport } from "next";
+import localFont from "next/font/local";
+import "./globals.css";
+
+// Inter is shipped with the app (public/fonts, SIL Open Font License); nothing is downloaded at build.
+const inter = localFont({
+  src: [
+    { path: "../public/fonts/inter/inter-latin-400-normal.woff2", weight: "400", style: "normal" },
+    { path: "../public/fonts/inter/inter-latin-600-normal.woff2", weight: "600", style: "normal" },
+    { path: "../public/fonts/inter/inter-latin-700-normal.woff2", weight: "700", style: "normal" },
+  ],
+  variable: "--font-inter",
+  display: "swap",
+});
+
+export const metadata: Metadata = {
+  title: { default: "Seedplot · On-farm variety trials", template: "%s · Seedplot" },
+  description:
+    "Seedplot runs the Tamarack Valley Extension District's on-farm vegetable and flower variety trials with partner farms and gardens, and publishes the results for growers.",
+};
+
+export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#1b5c2e" };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={inter.variable}>
+      <body className="min-h-screen font-sans">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2">
+          Skip to content
+        </a>
+        {children}
+      </body>
+    </html>
+  );
+}

@@ -1,0 +1,10 @@
+"use client";
+import { signOut } from "next-auth/react";
+
+export function SignOutButton() {
+  return (
+    <button type="button" onClick={() => signOut({ callbackUrl: "/" })} className="min-h-11 rounded-lg px-3 font-semibold text-loam-700 hover:bg-husk-100">
+      Sign out
+    </button>
+  );
+}

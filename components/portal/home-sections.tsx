@@ -1,0 +1,147 @@
+import Link from "next/link";
+import { Card } from "@/components/ui/card";
+import { Badge, type BadgeTone } from "@/components/ui/badge";
+import { formatDate, ROLE_LABELS, SETUP_LABELS, STATUS_LABELS } from "@/lib/labels";
+import type { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import type { listUsersForAdmin } from "@/db/queries/users";
+import type { TrialStatus } from "@/db/schema/enums";
+
+const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
+  draft: "neutral",
+  open: "info",
+  collecting: "info",
+  analysing: "warn",
+  published: "good",
+  archived: "neutral",
+};
+
+type Trials = Awaited<ReturnType<typeof listTrialsForViewer>>;
+type LateSites = Awaited<ReturnType<typeof listLateSites>>;
+
+export function TrialsTable({ trials }: { trials: Trials }) {
+  if (trials.length === 0) return <p className="text-loam-700">No trials yet in your programs.</p>;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-left text-sm">
+        <caption className="sr-only">Trials in your programs</caption>
+        <thead className="border-b border-husk-200 text-loam-700">
+          <tr>
+            <th scope="col" className="py-2 pr-3">Trial</th>
+            <th scope="col" className="py-2 pr-3">Crop</th>
+            <th scope="col" className="py-2 pr-3">Season</th>
+            <th scope="col" className="py-2 pr-3 text-right">Entries</th>
+            <th scope="col" className="py-2 pr-3 text-right">Sites</th>
+            <th scope="col" className="py-2">Status</th>
+          </tr>
+        </thead>
+        <tbody>
+          {trials.map((t) => (
+            <tr key={t.id} className="border-b border-husk-100">
+              <td className="py-2 pr-3">
+                <span className="font-semibold">{t.title}</span>
+                <span className="block font-mono text-xs text-loam-700">{t.code}</span>
+              </td>
+              <td className="py-2 pr-3">{t.crop}</td>
+              <td className="py-2 pr-3">{t.season}</td>
+              <td className="py-2 pr-3 text-right tabular-nums">{t.entries}</td>
+              <td className="py-2 pr-3 text-right tabular-nums">{t.sites}</td>
+              <td className="py-2"><Badge tone={STATUS_TONE[t.status]}>{STATUS_LABELS[t.status]}</Badge></td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+export function LateSitesList({ sites }: { sites: LateSites }) {
+  if (sites.length === 0) return <p className="text-loam-700">Every site is up to date. Nothing is overdue.</p>;
+  return (
+    <ul className="divide-y divide-husk-100">
+      {sites.map((s) => {
+        const missing = s.late.reduce((sum, i) => sum + (i.expected - i.recorded), 0);
+        return (
+          <li key={s.enrolmentId} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
+            <div>
+              <span className="font-semibold">{s.siteName}</span> <span className="text-sm text-loam-700">· {s.trialCode}</span>
+              <span className="block text-sm text-loam-700">
+                {s.late.length} overdue {s.late.length === 1 ? "count" : "counts"}, oldest due {formatDate(s.late[0]!.dueOn)}
+              </span>
+            </div>
+            <Badge tone="bad">{missing} values missing</Badge>
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
+
+export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnType<typeof listMySchedules>>; sites: Awaited<ReturnType<typeof listMySites>> }) {
+  return (
+    <div className="grid gap-6 md:grid-cols-2">
+      <Card title="What to record next">
+        {schedules.length === 0 ? (
+          <p className="text-loam-700">No active trials at your sites right now.</p>
+        ) : (
+          <ul className="space-y-4">
+            {schedules.map((s) => (
+              <li key={s.enrolmentId} className="rounded-lg border border-husk-200 p-3">
+                <p className="font-semibold">{s.trialTitle}</p>
+                <p className="text-sm text-loam-700">
+                  {s.siteName} · sown {formatDate(s.sownOn)} · {s.plotCount} plots
+                </p>
+                {s.late.length > 0 && (
+                  <p className="mt-2 text-sm font-semibold text-beet-700">
+                    Overdue: {s.late.map((i) => `${i.traitName} (day ${i.occasion})`).join(", ")}
+                  </p>
+                )}
+                {s.next ? (
+                  <p className="mt-1 text-sm">
+                    Next: <span className="font-semibold">{s.next.traitName}, day {s.next.occasion}</span> — due {formatDate(s.next.dueOn)} ({s.next.recorded} of {s.next.expected} plots recorded)
+                  </p>
+                ) : (
+                  <p className="mt-1 text-sm text-sprout-700">All scheduled counts are in. Thank you!</p>
+                )}
+              </li>
+            ))}
+          </ul>
+        )}
+      </Card>
+      <Card title="My sites">
+        <ul className="space-y-2">
+          {sites.map((s) => (
+            <li key={s.id}>
+              <span className="font-semibold">{s.name}</span>
+              <span className="block text-sm text-loam-700">
+                {s.region} · {SETUP_LABELS[s.growingSetup]}
+              </span>
+            </li>
+          ))}
+        </ul>
+      </Card>
+    </div>
+  );
+}
+
+export function UsersSummary({ users }: { users: Awaited<ReturnType<typeof listUsersForAdmin>> }) {
+  return (
+    <ul className="divide-y divide-husk-100 text-sm">
+      {users.map((u) => (
+        <li key={u.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
+          <span>
+            <span className="font-semibold">{u.name}</span> <span className="text-loam-700">{u.email}</span>
+          </span>
+          <span className="flex gap-2">
+            <Badge tone={u.role === "admin" ? "warn" : u.role === "coordinator" ? "info" : "neutral"}>{ROLE_LABELS[u.role]}</Badge>
+            {!u.active && <Badge tone="bad">Inactive</Badge>}
+            {u.invited && <Badge>Invited</Badge>}
+          </span>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+export function SectionLink({ href, children }: { href: string; children: React.ReactNode }) {
+  return <Link href={href} className="text-sm font-semibold">{children}</Link>;
+}

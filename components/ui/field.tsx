@@ -1,0 +1,60 @@
+import type { InputHTMLAttributes, SelectHTMLAttributes } from "react";
+import { cn } from "@/lib/cn";
+
+const inputClasses = (invalid: boolean) =>
+  cn(
+    "block w-full min-h-11 rounded-lg border bg-white px-3 py-2 text-base text-loam-900 placeholder:text-loam-500",
+    invalid ? "border-beet-600" : "border-loam-300",
+  );
+
+interface FieldProps {
+  label: string;
+  name: string;
+  errors?: string[];
+  hint?: string;
+}
+
+/** A labelled input with its hint and errors linked through aria-describedby. */
+export function TextField({ label, name, errors, hint, className, ...props }: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
+  const errorId = `${name}-error`;
+  const hintId = `${name}-hint`;
+  const describedBy = [hint ? hintId : null, errors?.length ? errorId : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className={cn("space-y-1", className)}>
+      <label htmlFor={name} className="block text-sm font-semibold text-loam-900">
+        {label}
+      </label>
+      {hint && (
+        <p id={hintId} className="text-sm text-loam-700">
+          {hint}
+        </p>
+      )}
+      <input id={name} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={describedBy} className={inputClasses(!!errors?.length)} {...props} />
+      {errors?.length ? (
+        <p id={errorId} className="text-sm font-medium text-beet-700">
+          {errors.join(" ")}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+export function SelectField({ label, name, errors, hint, className, children, ...props }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
+  const errorId = `${name}-error`;
+  return (
+    <div className={cn("space-y-1", className)}>
+      <label htmlFor={name} className="block text-sm font-semibold text-loam-900">
+        {label}
+      </label>
+      {hint && <p className="text-sm text-loam-700">{hint}</p>}
+      <select id={name} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={errors?.length ? errorId : undefined} className={inputClasses(!!errors?.length)} {...props}>
+        {children}
+      </select>
+      {errors?.length ? (
+        <p id={errorId} className="text-sm font-medium text-beet-700">
+          {errors.join(" ")}
+        </p>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,138 @@
+import "server-only";
+import { and, eq, isNull } from "drizzle-orm";
+import { db } from "../index";
+import { siteCooperators, sites, users, userTokens } from "../schema";
+import type { Role } from "../schema/enums";
+import { insertAudit } from "../audit";
+import { insertMail, type OutgoingMail } from "./mail";
+import { AppError } from "@/lib/errors";
+import { hashToken } from "@/lib/auth/tokens";
+
+const INVITE_DAYS = 7;
+const RESET_MINUTES = 60;
+
+/**
+ * Creates (or re-invites) a cooperator account without a password, attaches it to a site, stores an
+ * invite token and queues the invitation mail, all in one transaction.
+ */
+export async function insertCooperatorInvite(p: {
+  actorId: number;
+  name: string;
+  email: string;
+  siteId?: number;
+  token: string;
+  buildMail: (siteName: string | null) => OutgoingMail;
+}) {
+  return db.transaction(async (tx) => {
+    const [existing] = await tx
+      .select({ id: users.id, role: users.role, passwordHash: users.passwordHash })
+      .from(users)
+      .where(eq(users.email, p.email))
+      .for("update");
+    if (existing && existing.passwordHash !== null) {
+      throw new AppError("conflict", "This person already has a Seedplot account; attach them to a site instead.", {
+        email: ["An account with this e-mail already exists."],
+      });
+    }
+    if (existing && existing.role !== "cooperator") {
+      throw new AppError("conflict", "This e-mail belongs to a staff account.", { email: ["This e-mail belongs to a staff account."] });
+    }
+    let siteName: string | null = null;
+    if (p.siteId !== undefined) {
+      const [site] = await tx.select({ name: sites.name }).from(sites).where(eq(sites.id, p.siteId));
+      if (!site) throw new AppError("bad_request", "That site does not exist.", { siteId: ["Choose a site from the list."] });
+      siteName = site.name;
+    }
+    let userId: number;
+    if (existing) {
+      userId = existing.id;
+      await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
+      // Earlier links stop working once a new one is sent.
+      await tx
+        .update(userTokens)
+        .set({ usedAt: new Date() })
+        .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, "invite"), isNull(userTokens.usedAt)));
+    } else {
+      const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
+      userId = inserted!.id;
+    }
+    if (p.siteId !== undefined) {
+      await tx.insert(siteCooperators).values({ siteId: p.siteId, userId }).onDuplicateKeyUpdate({ set: { userId } });
+    }
+    await tx.insert(userTokens).values({
+      userId,
+      kind: "invite",
+      tokenHash: hashToken(p.token),
+      expiresAt: new Date(Date.now() + INVITE_DAYS * 86400_000),
+      createdById: p.actorId,
+    });
+    await insertMail(tx, p.buildMail(siteName));
+    await insertAudit(tx, { actorId: p.actorId, action: "invite", entity: "user", entityId: userId, newValue: { email: p.email, siteId: p.siteId ?? null } });
+    return { userId };
+  });
+}
+
+/** Uses a one-time token: sets the password (and name for invites) and marks the token used. */
+export async function updatePasswordWithToken(p: { token: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string }) {
+  return db.transaction(async (tx) => {
+    const [row] = await tx
+      .select({ id: userTokens.id, userId: userTokens.userId, expiresAt: userTokens.expiresAt, usedAt: userTokens.usedAt })
+      .from(userTokens)
+      .where(and(eq(userTokens.tokenHash, hashToken(p.token)), eq(userTokens.kind, p.kind)))
+      .for("update");
+    if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now()) {
+      throw new AppError(
+        "bad_request",
+        p.kind === "invite"
+          ? "This invitation link has expired or was already used. Ask your coordinator to send a new one."
+          : "This reset link has expired or was already used. Ask for a new one.",
+      );
+    }
+    await tx.update(userTokens).set({ usedAt: new Date() }).where(eq(userTokens.id, row.id));
+    await tx
+      .update(users)
+      .set({ passwordHash: p.passwordHash, ...(p.name ? { name: p.name } : {}) })
+      .where(eq(users.id, row.userId));
+    await insertAudit(tx, { actorId: row.userId, action: p.kind === "invite" ? "accept_invite" : "reset_password", entity: "user", entityId: row.userId });
+    return { userId: row.userId };
+  });
+}
+
+/** Stores a reset token and queues its mail when the e-mail belongs to an active account with a password. */
+export async function insertPasswordReset(p: { email: string; token: string; buildMail: (name: string) => OutgoingMail }) {
+  return db.transaction(async (tx) => {
+    const [user] = await tx
+      .select({ id: users.id, name: users.name, passwordHash: users.passwordHash })
+      .from(users)
+      .where(and(eq(users.email, p.email), eq(users.active, true)));
+    if (!user || user.passwordHash === null) return false;
+    await tx.insert(userTokens).values({
+      userId: user.id,
+      kind: "password_reset",
+      tokenHash: hashToken(p.token),
+      expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000),
+    });
+    await insertMail(tx, p.buildMail(user.name));
+    return true;
+  });
+}
+
+/** Changes a user's role (admin only; checked by the caller) and records it. */
+export async function updateUserRole(p: { actorId: number; userId: number; role: Role }) {
+  await db.transaction(async (tx) => {
+    const [user] = await tx.select({ role: users.role }).from(users).where(eq(users.id, p.userId)).for("update");
+    if (!user) throw new AppError("not_found", "That account no longer exists.");
+    await tx.update(users).set({ role: p.role }).where(eq(users.id, p.userId));
+    await insertAudit(tx, { actorId: p.actorId, action: "change_role", entity: "user", entityId: p.userId, oldValue: { role: user.role }, newValue: { role: p.role } });
+  });
+}
+
+/** Activates or deactivates an account (admin only; checked by the caller). */
+export async function updateUserActive(p: { actorId: number; userId: number; active: boolean }) {
+  await db.transaction(async (tx) => {
+    const [user] = await tx.select({ active: users.active }).from(users).where(eq(users.id, p.userId)).for("update");
+    if (!user) throw new AppError("not_found", "That account no longer exists.");
+    await tx.update(users).set({ active: p.active }).where(eq(users.id, p.userId));
+    await insertAudit(tx, { actorId: p.actorId, action: p.active ? "activate" : "deactivate", entity: "user", entityId: p.userId, oldValue: { active: user.active }, newValue: { active: p.active } });
+  });
+}

@@ -1,0 +1,158 @@
+import "server-only";
+import { and, asc, count, countDistinct, desc, eq, inArray, isNotNull, or, sql } from "drizzle-orm";
+import { db } from "../index";
+import {
+  crops,
+  enrolments,
+  observations,
+  plots,
+  programCoordinators,
+  programs,
+  seasons,
+  siteCooperators,
+  sites,
+  trialEntries,
+  trialTraits,
+  traits,
+  trials,
+} from "../schema";
+import type { Viewer } from "@/lib/auth/types";
+import { scheduleForSite, todayIso, type DueItem } from "@/lib/schedule";
+
+/** Trials a staff member may see: all for admins, their programs' trials for coordinators. */
+function staffTrialScope(viewer: Viewer) {
+  if (viewer.role === "admin") return sql`true`;
+  return inArray(trials.programId, db.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id)));
+}
+
+/** Trials in the coordinator's programs with entry and site counts, newest season first. */
+export async function listTrialsForViewer(viewer: Viewer) {
+  if (viewer.role === "cooperator") return [];
+  const rows = await db
+    .select({
+      id: trials.id,
+      code: trials.code,
+      title: trials.title,
+      status: trials.status,
+      crop: crops.name,
+      season: seasons.name,
+      year: seasons.year,
+      program: programs.name,
+      entries: countDistinct(trialEntries.id),
+      sites: countDistinct(enrolments.id),
+    })
+    .from(trials)
+    .innerJoin(crops, eq(crops.id, trials.cropId))
+    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
+    .innerJoin(programs, eq(programs.id, trials.programId))
+    .leftJoin(trialEntries, eq(trialEntries.trialId, trials.id))
+    .leftJoin(enrolments, eq(enrolments.trialId, trials.id))
+    .where(staffTrialScope(viewer))
+    .groupBy(trials.id, crops.name, seasons.name, seasons.year, programs.name)
+    .orderBy(desc(seasons.year), desc(seasons.id), asc(trials.code));
+  return rows;
+}
+
+export interface SiteSchedule {
+  enrolmentId: number;
+  trialId: number;
+  trialCode: string;
+  trialTitle: string;
+  siteId: number;
+  siteName: string;
+  sownOn: string | null;
+  plotCount: number;
+  items: DueItem[];
+  late: DueItem[];
+  next: DueItem | null;
+}
+
+/** Due and late scheduled counts per enrolment, for the enrolments the viewer may see. */
+async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedule[]> {
+  const scope =
+    viewer.role === "cooperator"
+      ? or(
+          eq(enrolments.cooperatorId, viewer.id),
+          inArray(enrolments.siteId, db.select({ id: siteCooperators.siteId }).from(siteCooperators).where(eq(siteCooperators.userId, viewer.id))),
+        )
+      : staffTrialScope(viewer);
+  const rows = await db
+    .select({
+      enrolmentId: enrolments.id,
+      trialId: trials.id,
+      trialCode: trials.code,
+      trialTitle: trials.title,
+      siteId: sites.id,
+      siteName: sites.name,
+      sownOn: enrolments.sownOn,
+      plotCount: count(plots.id),
+    })
+    .from(enrolments)
+    .innerJoin(trials, eq(trials.id, enrolments.trialId))
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .leftJoin(plots, eq(plots.enrolmentId, enrolments.id))
+    .where(and(scope, inArray(trials.status, ["open", "collecting"])))
+    .groupBy(enrolments.id, trials.id, sites.id)
+    .orderBy(asc(trials.code), asc(sites.name));
+  if (rows.length === 0) return [];
+
+  const trialIds = [...new Set(rows.map((r) => r.trialId))];
+  const traitRows = await db
+    .select({ trialId: trialTraits.trialId, id: traits.id, name: traits.name, dueDaysAfterSowing: traits.dueDaysAfterSowing })
+    .from(trialTraits)
+    .innerJoin(traits, eq(traits.id, trialTraits.traitId))
+    .where(and(inArray(trialTraits.trialId, trialIds), isNotNull(traits.dueDaysAfterSowing)))
+    .orderBy(asc(trialTraits.sortOrder));
+  const counts = await db
+    .select({ enrolmentId: plots.enrolmentId, traitId: observations.traitId, occasion: observations.occasion, n: count() })
+    .from(observations)
+    .innerJoin(plots, eq(plots.id, observations.plotId))
+    .where(and(inArray(plots.enrolmentId, rows.map((r) => r.enrolmentId)), or(isNotNull(observations.valueNumber), isNotNull(observations.valueDate), isNotNull(observations.missingReason))))
+    .groupBy(plots.enrolmentId, observations.traitId, observations.occasion);
+
+  const recordedByEnrolment = new Map<number, Map<string, number>>();
+  for (const c of counts) {
+    const m = recordedByEnrolment.get(c.enrolmentId) ?? new Map<string, number>();
+    m.set(`${c.traitId}:${c.occasion}`, c.n);
+    recordedByEnrolment.set(c.enrolmentId, m);
+  }
+  return rows.map((r) => {
+    const items = scheduleForSite({
+      sownOn: r.sownOn,
+      plotCount: r.plotCount,
+      traits: traitRows.filter((t) => t.trialId === r.trialId),
+      recorded: recordedByEnrolment.get(r.enrolmentId) ?? new Map(),
+      today,
+    });
+    return { ...r, items, late: items.filter((i) => i.status === "late"), next: items.find((i) => i.status !== "done") ?? null };
+  });
+}
+
+/** Sites with overdue counts in the coordinator's active trials. */
+export async function listLateSites(viewer: Viewer, today: string = todayIso()) {
+  if (viewer.role === "cooperator") return [];
+  return (await listSchedules(viewer, today)).filter((s) => s.late.length > 0);
+}
+
+/** The cooperator's own sites with what to record next. */
+export async function listMySchedules(viewer: Viewer, today: string = todayIso()) {
+  if (viewer.role !== "cooperator") return [];
+  return listSchedules(viewer, today);
+}
+
+/** Sites the cooperator is attached to, with their public facts. */
+export async function listMySites(viewer: Viewer) {
+  if (viewer.role !== "cooperator") return [];
+  return db
+    .select({ id: sites.id, name: sites.name, region: sites.region, growingSetup: sites.growingSetup, kind: sites.kind })
+    .from(sites)
+    .innerJoin(siteCooperators, eq(siteCooperators.siteId, sites.id))
+    .where(eq(siteCooperators.userId, viewer.id))
+    .orderBy(asc(sites.name));
+}
+
+/** Sites for staff pick lists (ids and names only). */
+export async function listSiteOptions(viewer: Viewer) {
+  if (viewer.role === "cooperator") return [];
+  return db.select({ id: sites.id, name: sites.name }).from(sites).orderBy(asc(sites.name));
+}

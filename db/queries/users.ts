@@ -1,0 +1,81 @@
+import "server-only";
+import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
+import { db } from "../index";
+import { siteCooperators, sites, users, userTokens } from "../schema";
+import type { TokenKind } from "../schema/enums";
+import type { Viewer } from "@/lib/auth/types";
+import { hashToken } from "@/lib/auth/tokens";
+
+/** Credentials row for the sign-in check only; the hash never leaves the auth module. */
+export async function getSignInRecord(email: string) {
+  const [row] = await db
+    .select({ id: users.id, email: users.email, name: users.name, role: users.role, passwordHash: users.passwordHash, active: users.active })
+    .from(users)
+    .where(eq(users.email, email))
+    .limit(1);
+  return row ?? null;
+}
+
+/** The current, active account behind a session (roles can change after sign-in). */
+export async function getActiveViewer(userId: number): Promise<Viewer | null> {
+  const [row] = await db
+    .select({ id: users.id, email: users.email, name: users.name, role: users.role })
+    .from(users)
+    .where(and(eq(users.id, userId), eq(users.active, true)))
+    .limit(1);
+  return row ?? null;
+}
+
+/** Every account with its role, for the admin's user list (admin only; checked by the caller). */
+export async function listUsersForAdmin(viewer: Viewer) {
+  if (viewer.role !== "admin") return [];
+  return db
+    .select({ id: users.id, email: users.email, name: users.name, role: users.role, active: users.active, hasPassword: users.passwordHash, createdAt: users.createdAt })
+    .from(users)
+    .orderBy(asc(users.role), asc(users.name))
+    .then((rows) => rows.map(({ hasPassword, ...r }) => ({ ...r, invited: hasPassword === null })));
+}
+
+/** Counts accounts by role, for the admin's overview. */
+export async function countUsersByRole(viewer: Viewer) {
+  if (viewer.role !== "admin") return [];
+  return db.select({ role: users.role, total: count() }).from(users).groupBy(users.role);
+}
+
+/** An unused, unexpired token of the given kind, with the person it belongs to. */
+export async function getValidToken(token: string, kind: TokenKind) {
+  const [row] = await db
+    .select({ tokenId: userTokens.id, userId: users.id, email: users.email, name: users.name })
+    .from(userTokens)
+    .innerJoin(users, eq(users.id, userTokens.userId))
+    .where(
+      and(
+        eq(userTokens.tokenHash, hashToken(token)),
+        eq(userTokens.kind, kind),
+        isNull(userTokens.usedAt),
+        gt(userTokens.expiresAt, new Date()),
+        eq(users.active, true),
+      ),
+    )
+    .limit(1);
+  return row ?? null;
+}
+
+/** Cooperators with their sites, for coordinators managing the network. */
+export async function listCooperators(viewer: Viewer) {
+  if (viewer.role !== "coordinator" && viewer.role !== "admin") return [];
+  const rows = await db
+    .select({ id: users.id, name: users.name, email: users.email, active: users.active, passwordHash: users.passwordHash, siteName: sites.name })
+    .from(users)
+    .leftJoin(siteCooperators, eq(siteCooperators.userId, users.id))
+    .leftJoin(sites, eq(sites.id, siteCooperators.siteId))
+    .where(eq(users.role, "cooperator"))
+    .orderBy(asc(users.name));
+  const byId = new Map<number, { id: number; name: string; email: string; active: boolean; invited: boolean; sites: string[] }>();
+  for (const r of rows) {
+    const existing = byId.get(r.id) ?? { id: r.id, name: r.name, email: r.email, active: r.active, invited: r.passwordHash === null, sites: [] };
+    if (r.siteName) existing.sites.push(r.siteName);
+    byId.set(r.id, existing);
+  }
+  return [...byId.values()];
+}

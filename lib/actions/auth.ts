@@ -1,0 +1,43 @@
+"use server";
+import { redirect } from "next/navigation";
+import { defineAction } from "./define-action";
+import { acceptInviteSchema, forgotPasswordSchema, resetPasswordSchema } from "@/lib/validation/auth";
+import { hashPassword } from "@/lib/auth/password";
+import { newToken } from "@/lib/auth/tokens";
+import { insertPasswordReset, updatePasswordWithToken } from "@/db/mutations/users";
+import { passwordResetMail } from "@/lib/mail/templates";
+import { deliverSoon } from "@/lib/mail/outbox";
+import { env } from "@/lib/env";
+import type { Viewer } from "@/lib/auth/types";
+
+/** An invited grower chooses their name and password through the link in their invitation. */
+export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
+  { roles: "public", schema: acceptInviteSchema },
+  async (input) => {
+    await updatePasswordWithToken({ token: input.token, kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
+    redirect("/sign-in?welcome=1");
+  },
+);
+
+/** Sends a reset link; answers the same whether or not the e-mail has an account. */
+export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
+  { roles: "public", schema: forgotPasswordSchema },
+  async (input) => {
+    const token = newToken();
+    const queued = await insertPasswordReset({
+      email: input.email,
+      token,
+      buildMail: (name) => passwordResetMail({ to: input.email, name, link: `${env.APP_URL}/reset-password/${token}` }),
+    });
+    if (queued) await deliverSoon();
+    return { ok: true, message: "If that e-mail belongs to a Seedplot account, a reset link is on its way. It works for one hour." };
+  },
+);
+
+export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
+  { roles: "public", schema: resetPasswordSchema },
+  async (input) => {
+    await updatePasswordWithToken({ token: input.token, kind: "password_reset", passwordHash: await hashPassword(input.password) });
+    redirect("/sign-in?reset=1");
+  },
+);

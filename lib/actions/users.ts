@@ -1,0 +1,42 @@
+"use server";
+import { revalidatePath } from "next/cache";
+import { defineAction } from "./define-action";
+import { changeRoleSchema, inviteCooperatorSchema, setActiveSchema } from "@/lib/validation/auth";
+import { insertCooperatorInvite, updateUserActive, updateUserRole } from "@/db/mutations/users";
+import { newToken } from "@/lib/auth/tokens";
+import { inviteMail } from "@/lib/mail/templates";
+import { deliverSoon } from "@/lib/mail/outbox";
+import { canChangeRole } from "@/lib/auth/permissions";
+import { AppError } from "@/lib/errors";
+import { env } from "@/lib/env";
+
+/** A coordinator invites a partner grower by e-mail, optionally attaching them to a site. */
+export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], schema: inviteCooperatorSchema }, async (input, viewer) => {
+  const token = newToken();
+  await insertCooperatorInvite({
+    actorId: viewer.id,
+    name: input.name,
+    email: input.email,
+    siteId: input.siteId,
+    token,
+    buildMail: (siteName) =>
+      inviteMail({ to: input.email, name: input.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
+  });
+  await deliverSoon();
+  revalidatePath("/portal/cooperators");
+  return { ok: true, message: `Invitation sent to ${input.email}.` };
+});
+
+export const changeUserRole = defineAction({ roles: ["admin"], schema: changeRoleSchema }, async (input, viewer) => {
+  if (!canChangeRole(viewer, { id: input.userId })) throw new AppError("forbidden", "You cannot change your own role.");
+  await updateUserRole({ actorId: viewer.id, userId: input.userId, role: input.role });
+  revalidatePath("/portal/admin/users");
+  return { ok: true, message: "Role updated." };
+});
+
+export const setUserActive = defineAction({ roles: ["admin"], schema: setActiveSchema }, async (input, viewer) => {
+  if (!canChangeRole(viewer, { id: input.userId })) throw new AppError("forbidden", "You cannot deactivate your own account.");
+  await updateUserActive({ actorId: viewer.id, userId: input.userId, active: input.active });
+  revalidatePath("/portal/admin/users");
+  return { ok: true, message: input.active ? "Account activated." : "Account deactivated." };
+});

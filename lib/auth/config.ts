@@ -1,0 +1,57 @@
+import type { NextAuthOptions } from "next-auth";
+import CredentialsProvider from "next-auth/providers/credentials";
+import { env } from "@/lib/env";
+import { getSignInRecord } from "@/db/queries/users";
+import { signInSchema } from "@/lib/validation/auth";
+import { verifyPassword } from "./password";
+import { isThrottled, recordAttempt } from "./throttle";
+import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "./messages";
+import type { Role } from "@/db/schema/enums";
+
+function clientAddress(headers: Record<string, unknown> | undefined): string {
+  const forwarded = headers?.["x-forwarded-for"];
+  if (typeof forwarded === "string" && forwarded.length > 0) return forwarded.split(",")[0]!.trim();
+  const real = headers?.["x-real-ip"];
+  return typeof real === "string" && real ? real : "local";
+}
+
+export const authOptions: NextAuthOptions = {
+  secret: env.NEXTAUTH_SECRET,
+  session: { strategy: "jwt", maxAge: 8 * 3600 },
+  pages: { signIn: "/sign-in" },
+  providers: [
+    CredentialsProvider({
+      name: "E-mail and password",
+      credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
+      async authorize(credentials, req) {
+        const parsed = signInSchema.safeParse(credentials ?? {});
+        if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
+        const { email, password } = parsed.data;
+        const address = clientAddress(req?.headers as Record<string, unknown> | undefined);
+        if (await isThrottled(email, address)) throw new Error(SIGN_IN_THROTTLED);
+        const record = await getSignInRecord(email);
+        // The hash check runs even for unknown e-mails so timing does not reveal which accounts exist.
+        const ok = await verifyPassword(record?.passwordHash ?? null, password);
+        if (!record || !ok || !record.active) {
+          await recordAttempt(email, address, false);
+          throw new Error(SIGN_IN_FAILED);
+        }
+        await recordAttempt(email, address, true);
+        return { id: String(record.id), email: record.email, name: record.name, role: record.role };
+      },
+    }),
+  ],
+  callbacks: {
+    jwt({ token, user }) {
+      if (user) {
+        token.uid = Number(user.id);
+        token.role = user.role as Role;
+      }
+      return token;
+    },
+    session({ session, token }) {
+      session.user = { id: token.uid ?? 0, email: token.email ?? "", name: token.name ?? "", role: token.role ?? "cooperator" };
+      return session;
+    },
+  },
+};

@@ -1,0 +1,5 @@
+// Sign-in answers shown to people. One message for every credential failure, so the form never
+// reveals whether an e-mail address has an account.
+export const SIGN_IN_FAILED = "That e-mail and password do not match an account. Check both and try again.";
+export const SIGN_IN_THROTTLED =
+  "Too many sign-in attempts. Please wait 15 minutes, or reset your password from the link below.";

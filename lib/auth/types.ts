@@ -1,0 +1,30 @@
+import type { Role } from "@/db/schema/enums";
+import "next-auth";
+import "next-auth/jwt";
+
+/** The signed-in person as the rest of the app sees them. */
+export interface Viewer {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+}
+
+declare module "next-auth" {
+  interface Session {
+    user: { id: number; email: string; name: string; role: Role };
+  }
+  interface User {
+    id: string;
+    email: string;
+    name: string;
+    role: Role;
+  }
+}
+
+declare module "next-auth/jwt" {
+  interface JWT {
+    uid?: number;
+    role?: Role;
+  }
+}

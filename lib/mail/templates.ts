@@ -1,0 +1,30 @@
+import type { OutgoingMail } from "@/db/mutations/mail";
+
+const SIGNATURE = "\n\n-- \nSeedplot, on-farm variety trials of the Tamarack Valley Extension District";
+
+/** Invitation for a partner grower, with the one-time link to set a password. */
+export function inviteMail(p: { to: string; name: string; inviterName: string; link: string; siteName?: string | null }): OutgoingMail {
+  const site = p.siteName ? ` for ${p.siteName}` : "";
+  return {
+    to: p.to,
+    subject: "You're invited to record variety trial data in Seedplot",
+    text:
+      `Hello ${p.name},\n\n${p.inviterName} has invited you to Seedplot${site}, where partner growers record ` +
+      `their variety trial plots.\n\nSet your password and sign in here (the link works once, for 7 days):\n${p.link}\n\n` +
+      `If you were not expecting this, you can ignore this message.` +
+      SIGNATURE,
+  };
+}
+
+/** Password-reset link; valid for one hour. */
+export function passwordResetMail(p: { to: string; name: string; link: string }): OutgoingMail {
+  return {
+    to: p.to,
+    subject: "Reset your Seedplot password",
+    text:
+      `Hello ${p.name},\n\nSomeone (hopefully you) asked to reset the password of your Seedplot account.\n\n` +
+      `Choose a new password here (the link works once, for 1 hour):\n${p.link}\n\n` +
+      `If you did not ask for this, ignore this message; your password stays as it is.` +
+      SIGNATURE,
+  };
+}

@@ -1,0 +1,57 @@
+import { z } from "zod";
+
+const email = z
+  .string({ error: "Enter your e-mail address." })
+  .trim()
+  .toLowerCase()
+  .min(1, "Enter your e-mail address.")
+  .max(254, "That e-mail address is too long.")
+  .pipe(z.email({ error: "Enter an e-mail address like name@example.org." }));
+
+export const signInSchema = z.object({
+  email,
+  password: z.string({ error: "Enter your password." }).min(1, "Enter your password.").max(200, "That password is too long."),
+});
+
+export const newPasswordSchema = z
+  .object({
+    password: z
+      .string({ error: "Choose a password." })
+      .min(10, "Use at least 10 characters.")
+      .max(200, "Use at most 200 characters."),
+    confirm: z.string({ error: "Type the password again." }),
+  })
+  .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords are not the same." });
+
+export const tokenSchema = z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, "This link is not valid.");
+
+export const acceptInviteSchema = z.intersection(
+  newPasswordSchema,
+  z.object({
+    token: tokenSchema,
+    name: z.string().trim().min(2, "Enter your name.").max(120, "Use at most 120 characters."),
+  }),
+);
+
+export const resetPasswordSchema = z.intersection(newPasswordSchema, z.object({ token: tokenSchema }));
+
+export const forgotPasswordSchema = z.object({ email });
+
+export const inviteCooperatorSchema = z.object({
+  name: z.string({ error: "Enter the grower's name." }).trim().min(2, "Enter the grower's name.").max(120, "Use at most 120 characters."),
+  email,
+  siteId: z.preprocess(
+    (v) => (v === "" || v === null || v === undefined ? undefined : v),
+    z.coerce.number({ error: "Choose a site from the list." }).int().positive("Choose a site from the list.").optional(),
+  ),
+});
+
+export const changeRoleSchema = z.object({
+  userId: z.coerce.number().int().positive(),
+  role: z.enum(["admin", "coordinator", "cooperator"], { error: "Choose admin, coordinator or cooperator." }),
+});
+
+export const setActiveSchema = z.object({
+  userId: z.coerce.number().int().positive(),
+  active: z.enum(["true", "false"]).transform((v) => v === "true"),
+});
