@@ -183,8 +183,10 @@ export function normalRangeUpper(w: number, k: number): number {
   });
 }
 
-// Pieces of [0, 64] on which log P(W >= w) is interpolated; beyond 64 the tail is below 1e-400.
-const RANGE_PIECES = [0, 0.5, 1, 2, 3, 4, 6, 8, 12, 16, 24, 32, 48, 64];
+// Pieces of [0, 40] on which log P(W >= w) is interpolated. Beyond 40 the tail is below 1e-150
+// and is integrated directly (slower, but only reached for p-values of that size).
+const RANGE_PIECES = [0, 0.5, 1, 2, 3, 4, 6, 8, 12, 16, 24, 32, 40];
+const INTERPOLATED_RANGE_LIMIT = 40;
 const CHEBYSHEV_DEGREE = 28;
 const rangeTailCache = new Map<number, Float64Array[]>();
 
@@ -221,7 +223,7 @@ function rangeTailTable(k: number): Float64Array[] {
 /** P(W >= w) for the range of k standard normals, from the cached Chebyshev table (Clenshaw sum). */
 function rangeUpperInterpolated(w: number, table: Float64Array[], k: number): number {
   if (!(w > 0)) return 1;
-  if (w >= 64) return normalRangeUpper(w, k);
+  if (w >= INTERPOLATED_RANGE_LIMIT) return normalRangeUpper(w, k);
   let piece = 0;
   while (w > RANGE_PIECES[piece + 1]) piece++;
   const from = RANGE_PIECES[piece];
