@@ -1,0 +1,274 @@
+/**
+ * Comparisons of entry means after an ANOVA: Fisher's protected LSD and Tukey's HSD, with
+ * compact letter displays. Both use the same error term and df as the entry F test (the entry x
+ * site mean square when sites are random). With missing plots they compare the LS means with the
+ * exact standard error of each difference (Tukey-Kramer form for Tukey).
+ */
+import type { AnovaTable, Source } from "./anova";
+import { studentizedRangeQuantile, studentizedRangeUpper, studentTQuantile, studentTTwoSided } from "./distributions";
+import { StatsError } from "./errors";
+
+interface ComparisonBasis {
+  labels: string[];
+  means: number[];
+  /** variance of mean i - mean j per unit error variance */
+  differenceVariance: (i: number, j: number) => number;
+  errorMs: number;
+  errorDf: number;
+  errorSource: Source;
+  entryP: number | null;
+  /** all differences share one standard error */
+  equalPrecision: boolean;
+}
+
+function requireAlpha(alpha: number): void {
+  if (!(alpha > 0 && alpha < 1)) {
+    throw new StatsError("INVALID_PROBABILITY", `The significance level must be between 0 and 1 (got ${alpha}).`, { alpha });
+  }
+}
+
+/** Error term of the entry test, means to compare and the variance of their differences. */
+function comparisonBasis(table: AnovaTable): ComparisonBasis {
+  const entryRow = table.rows.find((r) => r.source === "entry");
+  if (!entryRow) throw new StatsError("INVALID_ARGUMENT", "The ANOVA table has no entry row to compare means from.");
+  const errorSource: Source = entryRow.testedAgainst ?? "residual";
+  const errorRow = table.rows.find((r) => r.source === errorSource);
+  const errorMs = errorSource === "residual" ? table.errorMs : errorRow?.ms;
+  const errorDf = errorSource === "residual" ? table.errorDf : errorRow?.df;
+  if (!(errorMs !== undefined && errorMs > 0 && errorDf !== undefined && errorDf > 0)) {
+    throw new StatsError("NO_RESIDUAL_DF", "The entry error term has no degrees of freedom, so means cannot be compared.");
+  }
+  if (table.lsMeans === null) {
+    throw new StatsError(
+      "NOT_ESTIMABLE",
+      "Entry means cannot all be estimated: some entry contrast is confounded with blocks, so LSD and Tukey comparisons are not available.",
+    );
+  }
+  if (table.lsMeans && table.lsMeanCovariance) {
+    const covariance = table.lsMeanCovariance;
+    const k = table.lsMeans.length;
+    let first = -1;
+    let equal = true;
+    for (let i = 0; i < k && equal; i++) {
+      for (let j = 0; j < i; j++) {
+        const v = covariance[i][i] + covariance[j][j] - 2 * covariance[i][j];
+        if (first < 0) first = v;
+        else if (Math.abs(v - first) > 1e-12 * first) {
+          equal = false;
+          break;
+        }
+      }
+    }
+    return {
+      labels: table.lsMeans.map((m) => m.entry),
+      means: table.lsMeans.map((m) => m.mean),
+      differenceVariance: (i, j) => covariance[i][i] + covariance[j][j] - 2 * covariance[i][j],
+      errorMs,
+      errorDf,
+      errorSource,
+      entryP: entryRow.p,
+      equalPrecision: equal,
+    };
+  }
+  // hand-built table: plain means with 1/n_i + 1/n_j
+  const counts = table.entryMeans.map((m) => m.n);
+  return {
+    labels: table.entryMeans.map((m) => m.entry),
+    means: table.entryMeans.map((m) => m.mean),
+    differenceVariance: (i, j) => 1 / counts[i] + 1 / counts[j],
+    errorMs,
+    errorDf,
+    errorSource,
+    entryP: entryRow.p,
+    equalPrecision: counts.every((n) => n === counts[0]),
+  };
+}
+
+export interface LsdPair {
+  /** later entry (in order of first appearance) */
+  a: string;
+  b: string;
+  /** mean(a) - mean(b), in the data's units */
+  diff: number;
+  /** standard error of the difference */
+  sed: number;
+  /** least significant difference for this pair */
+  lsd: number;
+  t: number;
+  /** two-sided p-value of the pairwise t test, unadjusted */
+  p: number;
+  significant: boolean;
+}
+
+/**
+ * Every pairwise t test behind Fisher's LSD, in TukeyHSD's pair order, plus letters ('a' marks the
+ * highest mean; entries sharing a letter do not differ at alpha). Not protected: see lsd().
+ */
+export function pairwiseLsd(
+  table: AnovaTable,
+  alpha = 0.05,
+): { t: number; df: number; ms: number; errorSource: Source; pairs: LsdPair[]; letters: Record<string, string> } {
+  requireAlpha(alpha);
+  const basis = comparisonBasis(table);
+  const t = studentTQuantile(1 - alpha / 2, basis.errorDf);
+  const pairs: LsdPair[] = [];
+  forEachPair(basis.labels.length, (i, j) => {
+    const diff = basis.means[i] - basis.means[j];
+    const sed = Math.sqrt(basis.errorMs * basis.differenceVariance(i, j));
+    const tValue = diff / sed;
+    pairs.push({
+      a: basis.labels[i],
+      b: basis.labels[j],
+      diff,
+      sed,
+      lsd: t * sed,
+      t: tValue,
+      p: studentTTwoSided(tValue, basis.errorDf),
+      significant: Math.abs(diff) > t * sed,
+    });
+  });
+  const letters = compactLetters(basis.labels, basis.means, pairs.map((p) => ({ a: p.a, b: p.b, differ: p.significant })));
+  return { t, df: basis.errorDf, ms: basis.errorMs, errorSource: basis.errorSource, pairs, letters };
+}
+
+/**
+ * Fisher's protected LSD at level alpha, in the data's units: null when the entry F test is not
+ * significant. With missing plots the pairs differ; `lsd` is then the mean over pairs (use
+ * pairwiseLsd for each pair's own value). Uses the entry test's error MS and df.
+ */
+export function lsd(
+  table: AnovaTable,
+  alpha = 0.05,
+): { lsd: number; df: number; t: number; ms: number; equalReplication: boolean } | null {
+  requireAlpha(alpha);
+  const basis = comparisonBasis(table);
+  if (basis.entryP === null || !(basis.entryP < alpha)) return null;
+  const t = studentTQuantile(1 - alpha / 2, basis.errorDf);
+  let sedSum = 0;
+  let pairCount = 0;
+  forEachPair(basis.labels.length, (i, j) => {
+    sedSum += Math.sqrt(basis.errorMs * basis.differenceVariance(i, j));
+    pairCount++;
+  });
+  const sed = basis.equalPrecision ? Math.sqrt(basis.errorMs * basis.differenceVariance(1, 0)) : sedSum / pairCount;
+  return { lsd: t * sed, df: basis.errorDf, t, ms: basis.errorMs, equalReplication: basis.equalPrecision };
+}
+
+/**
+ * Tukey's honestly significant difference at family level alpha: simultaneous intervals for every
+ * pair (Tukey-Kramer with unequal precision), adjusted p-values and compact letters. Uses the
+ * entry test's error MS and df; intervals and diffs are in the data's units.
+ */
+export function tukeyHsd(
+  table: AnovaTable,
+  alpha = 0.05,
+): {
+  pairs: { a: string; b: string; diff: number; lower: number; upper: number; pAdj: number }[];
+  letters: Record<string, string>;
+  q: number;
+  df: number;
+  ms: number;
+  errorSource: Source;
+} {
+  requireAlpha(alpha);
+  const basis = comparisonBasis(table);
+  const k = basis.labels.length;
+  const q = studentizedRangeQuantile(1 - alpha, k, basis.errorDf);
+  const pairs: { a: string; b: string; diff: number; lower: number; upper: number; pAdj: number }[] = [];
+  forEachPair(k, (i, j) => {
+    const diff = basis.means[i] - basis.means[j];
+    const se = Math.sqrt((basis.errorMs * basis.differenceVariance(i, j)) / 2);
+    pairs.push({
+      a: basis.labels[i],
+      b: basis.labels[j],
+      diff,
+      lower: diff - q * se,
+      upper: diff + q * se,
+      pAdj: Math.min(1, studentizedRangeUpper(Math.abs(diff) / se, k, basis.errorDf)),
+    });
+  });
+  const letters = compactLetters(basis.labels, basis.means, pairs.map((p) => ({ a: p.a, b: p.b, differ: p.pAdj < alpha })));
+  return { pairs, letters, q, df: basis.errorDf, ms: basis.errorMs, errorSource: basis.errorSource };
+}
+
+/** Pairs (i, j) with i > j, ordered by j then i: the order of R's TukeyHSD. */
+function forEachPair(k: number, visit: (i: number, j: number) => void): void {
+  for (let j = 0; j < k; j++) for (let i = j + 1; i < k; i++) visit(i, j);
+}
+
+/**
+ * Compact letter display by insert-and-absorb (Piepho 2004, J. Comput. Graph. Stat. 13, 456-466):
+ * two entries share a letter exactly when they do not differ. Letters are assigned so that 'a'
+ * marks the set holding the highest mean.
+ */
+export function compactLetters(
+  labels: string[],
+  means: number[],
+  comparisons: { a: string; b: string; differ: boolean }[],
+): Record<string, string> {
+  const k = labels.length;
+  // rank entries by mean, highest first (stable for ties)
+  const order = labels.map((_, i) => i).sort((x, y) => means[y] - means[x] || x - y);
+  const position = new Array<number>(k);
+  order.forEach((entryIndex, rank) => (position[entryIndex] = rank));
+  const labelIndex = new Map(labels.map((label, i) => [label, i]));
+  const differ: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
+  for (const c of comparisons) {
+    const x = position[labelIndex.get(c.a)!];
+    const y = position[labelIndex.get(c.b)!];
+    differ[x][y] = c.differ;
+    differ[y][x] = c.differ;
+  }
+  let columns: boolean[][] = [new Array<boolean>(k).fill(true)];
+  for (let i = 0; i < k - 1; i++) {
+    for (let j = i + 1; j < k; j++) {
+      if (!differ[i][j]) continue;
+      const split: boolean[][] = [];
+      for (const column of columns) {
+        if (column[i] && column[j]) {
+          const withoutI = column.slice();
+          withoutI[i] = false;
+          const withoutJ = column.slice();
+          withoutJ[j] = false;
+          split.push(withoutI, withoutJ);
+        } else split.push(column);
+      }
+      // absorb: drop a column contained in another (keeping the first of two equal columns)
+      const keep = split.map(() => true);
+      for (let p = 0; p < split.length; p++) {
+        for (let r = 0; r < split.length; r++) {
+          if (p === r || !keep[p] || !keep[r]) continue;
+          let subset = true;
+          let strict = false;
+          for (let x = 0; x < k; x++) {
+            if (split[p][x] && !split[r][x]) {
+              subset = false;
+              break;
+            }
+            if (!split[p][x] && split[r][x]) strict = true;
+          }
+          if (subset && (strict || p > r)) keep[p] = false;
+        }
+      }
+      columns = split.filter((_, p) => keep[p]);
+    }
+  }
+  columns.sort((x, y) => x.indexOf(true) - y.indexOf(true));
+  const result: Record<string, string> = {};
+  for (let rank = 0; rank < k; rank++) {
+    let text = "";
+    columns.forEach((column, c) => {
+      if (column[rank]) text += letterName(c);
+    });
+    result[labels[order[rank]]] = text;
+  }
+  // same key order as the input labels
+  return Object.fromEntries(labels.map((label) => [label, result[label]]));
+}
+
+function letterName(index: number): string {
+  const alphabet = "abcdefghijklmnopqrstuvwxyz";
+  if (index < 26) return alphabet[index];
+  if (index < 52) return alphabet[index - 26].toUpperCase();
+  return `${alphabet[index % 26]}${Math.floor(index / 26) - 1}`;
+}
