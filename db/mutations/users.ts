@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq, isNull } from "drizzle-orm";
-import { db } from "../index";
+import { db, type Tx } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "../schema/enums";
 import { insertAudit } from "../audit";
@@ -23,7 +23,15 @@ export async function insertCooperatorInvite(p: {
   token: string;
   buildMail: (siteName: string | null) => OutgoingMail;
 }) {
-  return db.transaction(async (tx) => {
+  return db.transaction((tx) => insertCooperatorInviteInTx(tx, p));
+}
+
+/** The invitation itself, inside a caller's transaction (enrolling a site invites its grower this way). */
+export async function insertCooperatorInviteInTx(
+  tx: Tx,
+  p: { actorId: number; name: string; email: string; siteId?: number; token: string; buildMail: (siteName: string | null) => OutgoingMail },
+) {
+  {
     const [existing] = await tx
       .select({ id: users.id, role: users.role, passwordHash: users.passwordHash })
       .from(users)
@@ -69,7 +77,7 @@ export async function insertCooperatorInvite(p: {
     await insertMail(tx, p.buildMail(siteName));
     await insertAudit(tx, { actorId: p.actorId, action: "invite", entity: "user", entityId: userId, newValue: { email: p.email, siteId: p.siteId ?? null } });
     return { userId };
-  });
+  }
 }
 
 /** Uses a one-time token: sets the password (and name for invites) and marks the token used. */

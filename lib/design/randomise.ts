@@ -24,3 +24,14 @@ export function randomiseBlocks(p: { entryCount: number; blocks: number; seed: n
 export function plotCode(siteNumber: number, block: number, position: number): string {
   return `S${String(siteNumber).padStart(2, "0")}-${block}-${String(position).padStart(2, "0")}`;
 }
+
+/**
+ * Completely randomised design (e.g. a germination-chamber test): `replicates` copies of every entry in one
+ * random order with no blocking. Stored as block 1 so the layout order is still a single sequence.
+ */
+export function randomiseCompletely(p: { entryCount: number; replicates: number; seed: number }): PlotPlacement[] {
+  const random = seededRandom(p.seed);
+  const all: number[] = [];
+  for (let r = 0; r < p.replicates; r += 1) for (let e = 0; e < p.entryCount; e += 1) all.push(e);
+  return shuffled(all, random).map((entryIndex, i) => ({ block: 1, position: i + 1, entryIndex }));
+}

@@ -1,0 +1,41 @@
+import "server-only";
+import { db } from "../index";
+import { sites } from "../schema";
+import { insertAudit } from "../audit";
+import { isDuplicateKey, requireStaff } from "../access";
+import { AppError } from "@/lib/errors";
+import type { Viewer } from "@/lib/auth/types";
+import type { z } from "zod";
+import type { siteSchema } from "@/lib/validation/sites";
+
+/**
+ * Adds a partner site. The grower named here is only a contact until the site joins a trial; enrolment
+ * sends the invitation, so nobody gets mail for a site that never takes part.
+ */
+export async function insertSite(viewer: Viewer, input: z.infer<typeof siteSchema>) {
+  requireStaff(viewer);
+  try {
+    return await db.transaction(async (tx) => {
+      const [row] = await tx
+        .insert(sites)
+        .values({
+          name: input.name,
+          kind: input.kind,
+          region: input.region,
+          latitude: input.latitude ?? null,
+          longitude: input.longitude ?? null,
+          growingSetup: input.growingSetup,
+          soil: input.soil ?? null,
+          irrigation: input.irrigation ?? null,
+          contactName: input.cooperatorName ?? null,
+          contactEmail: input.cooperatorEmail ?? null,
+        })
+        .$returningId();
+      await insertAudit(tx, { actorId: viewer.id, action: "create", entity: "site", entityId: row!.id, newValue: { ...input, cooperatorEmail: input.cooperatorEmail ? "(set)" : null } });
+      return row!.id;
+    });
+  } catch (e) {
+    if (isDuplicateKey(e)) throw new AppError("conflict", "A site with this name already exists.", { name: ["A site with this name already exists."] });
+    throw e;
+  }
+}

@@ -1,0 +1,275 @@
+import "server-only";
+import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { db } from "../index";
+import { crops, enrolments, observations, plots, programCoordinators, programs, seasons, seedLots, sites, trialEntries, trialTraits, traits, trials, users, varieties } from "../schema";
+import { cooperatorEnrolmentScope, staffTrialScope, trialProgress } from "../access";
+import type { Viewer } from "@/lib/auth/types";
+import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
+
+/** Seasons of the viewer's programs, crops and the trait library, for the new-trial form (staff only). */
+export async function getTrialFormOptions(viewer: Viewer) {
+  if (!isStaff(viewer)) return null;
+  const seasonRows = await db
+    .select({ id: seasons.id, name: seasons.name, year: seasons.year, program: programs.name })
+    .from(seasons)
+    .innerJoin(programs, eq(programs.id, seasons.programId))
+    .where(
+      viewer.role === "admin"
+        ? sql`true`
+        : inArray(seasons.programId, db.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id))),
+    )
+    .orderBy(sql`${seasons.year} desc`, asc(seasons.name));
+  const cropRows = await db.select({ id: crops.id, name: crops.name }).from(crops).orderBy(asc(crops.name));
+  const traitRows = await db
+    .select({ id: traits.id, name: traits.name, unit: traits.unit, valueType: traits.valueType, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
+    .from(traits)
+    .orderBy(asc(traits.name));
+  return { seasons: seasonRows, crops: cropRows, traits: traitRows };
+}
+
+/**
+ * One trial for staff: design, status inputs, entries (with the blind-code key), traits and enrolled
+ * sites with their layout state. Null when the trial is not in the viewer's programs.
+ */
+export async function getTrialDetail(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return null;
+  const [trial] = await db
+    .select({
+      id: trials.id,
+      code: trials.code,
+      title: trials.title,
+      purpose: trials.purpose,
+      design: trials.design,
+      blocks: trials.blocks,
+      plotUnit: trials.plotUnit,
+      plotSize: trials.plotSize,
+      seedsPerCell: trials.seedsPerCell,
+      protocol: trials.protocol,
+      status: trials.status,
+      cropId: trials.cropId,
+      crop: crops.name,
+      season: seasons.name,
+      program: programs.name,
+    })
+    .from(trials)
+    .innerJoin(crops, eq(crops.id, trials.cropId))
+    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
+    .innerJoin(programs, eq(programs.id, trials.programId))
+    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+  if (!trial) return null;
+  const [entryRows, traitRows, siteRows, progress] = await Promise.all([
+    db
+      .select({
+        id: trialEntries.id,
+        entryNumber: trialEntries.entryNumber,
+        blindCode: trialEntries.blindCode,
+        isCheck: trialEntries.isCheck,
+        variety: varieties.name,
+        seedLotId: seedLots.id,
+        source: seedLots.source,
+        lotCode: seedLots.lotCode,
+        labelGerminationPct: seedLots.labelGerminationPct,
+        treated: seedLots.treated,
+      })
+      .from(trialEntries)
+      .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
+      .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+      .where(eq(trialEntries.trialId, trial.id))
+      .orderBy(asc(trialEntries.entryNumber)),
+    db
+      .select({ id: traits.id, name: traits.name, unit: traits.unit, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
+      .from(trialTraits)
+      .innerJoin(traits, eq(traits.id, trialTraits.traitId))
+      .where(eq(trialTraits.trialId, trial.id))
+      .orderBy(asc(trialTraits.sortOrder)),
+    db
+      .select({
+        enrolmentId: enrolments.id,
+        siteId: sites.id,
+        site: sites.name,
+        region: sites.region,
+        growingSetup: sites.growingSetup,
+        cooperator: users.name,
+        cooperatorInvited: sql<boolean>`${users.passwordHash} IS NULL`,
+        sownOn: enrolments.sownOn,
+        randomSeed: enrolments.randomSeed,
+        randomisedAt: enrolments.randomisedAt,
+        plots: sql<number>`(SELECT COUNT(*) FROM ${plots} WHERE ${plots.enrolmentId} = ${enrolments.id})`.mapWith(Number),
+        observations: sql<number>`(SELECT COUNT(*) FROM ${observations} INNER JOIN ${plots} ON ${plots.id} = ${observations.plotId} WHERE ${plots.enrolmentId} = ${enrolments.id})`.mapWith(Number),
+      })
+      .from(enrolments)
+      .innerJoin(sites, eq(sites.id, enrolments.siteId))
+      .leftJoin(users, eq(users.id, enrolments.cooperatorId))
+      .where(eq(enrolments.trialId, trial.id))
+      .orderBy(asc(enrolments.id)),
+    trialProgress(db, trial.id),
+  ]);
+  return { trial, entries: entryRows, traits: traitRows, sites: siteRows, progress };
+}
+export type TrialDetail = NonNullable<Awaited<ReturnType<typeof getTrialDetail>>>;
+
+/** Varieties of the trial's crop with their seed lots, for the add-entry form (staff only). */
+export async function listEntryOptions(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return [];
+  const rows = await db
+    .select({ varietyId: varieties.id, variety: varieties.name, seedLotId: seedLots.id, source: seedLots.source, lotCode: seedLots.lotCode, treated: seedLots.treated })
+    .from(trials)
+    .innerJoin(varieties, eq(varieties.cropId, trials.cropId))
+    .leftJoin(seedLots, eq(seedLots.varietyId, varieties.id))
+    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)))
+    .orderBy(asc(varieties.name), asc(seedLots.lotCode));
+  const byVariety = new Map<number, { id: number; name: string; lots: { id: number; label: string; treated: boolean }[] }>();
+  for (const r of rows) {
+    const v = byVariety.get(r.varietyId) ?? { id: r.varietyId, name: r.variety, lots: [] };
+    if (r.seedLotId !== null) v.lots.push({ id: r.seedLotId, label: `${r.source} · ${r.lotCode}${r.treated ? " (treated)" : ""}`, treated: !!r.treated });
+    byVariety.set(r.varietyId, v);
+  }
+  return [...byVariety.values()];
+}
+
+/** Sites not yet enrolled in the trial, for the enrol form (staff only). */
+export async function listEnrolableSites(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return [];
+  return db
+    .select({ id: sites.id, name: sites.name, region: sites.region })
+    .from(sites)
+    .where(sql`${sites.id} NOT IN (SELECT ${enrolments.siteId} FROM ${enrolments} WHERE ${enrolments.trialId} = ${trialId})`)
+    .orderBy(asc(sites.name));
+}
+
+export interface LayoutPlot {
+  id: number;
+  plotCode: string;
+  block: number;
+  position: number;
+  tray: number | null;
+  traySlot: number | null;
+  blindCode: string;
+  /** Only for viewers allowed the blind-code key; null otherwise. */
+  variety: string | null;
+  isCheck: boolean | null;
+}
+
+/**
+ * Everything the printables and the layout page need for one site. Staff see their programs' sites;
+ * a cooperator only their own sites, and only blind codes (never variety names or seed sources).
+ * Null when the viewer may not see it.
+ */
+export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId: number }) {
+  const scope = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : staffTrialScope(viewer);
+  const [row] = await db
+    .select({
+      enrolmentId: enrolments.id,
+      sownOn: enrolments.sownOn,
+      randomSeed: enrolments.randomSeed,
+      randomisedAt: enrolments.randomisedAt,
+      trialId: trials.id,
+      code: trials.code,
+      title: trials.title,
+      status: trials.status,
+      design: trials.design,
+      blocks: trials.blocks,
+      plotUnit: trials.plotUnit,
+      plotSize: trials.plotSize,
+      seedsPerCell: trials.seedsPerCell,
+      protocol: trials.protocol,
+      crop: crops.name,
+      season: seasons.name,
+      siteId: sites.id,
+      siteName: sites.name,
+      region: sites.region,
+      growingSetup: sites.growingSetup,
+    })
+    .from(enrolments)
+    .innerJoin(trials, eq(trials.id, enrolments.trialId))
+    .innerJoin(crops, eq(crops.id, trials.cropId))
+    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), scope));
+  if (!row) return null;
+  const showKey = viewer.role !== "cooperator" && canSeeBlindKey(viewer, row);
+  const plotRows = await db
+    .select({
+      id: plots.id,
+      plotCode: plots.plotCode,
+      block: plots.block,
+      position: plots.position,
+      tray: plots.tray,
+      traySlot: plots.traySlot,
+      blindCode: trialEntries.blindCode,
+      variety: varieties.name,
+      isCheck: trialEntries.isCheck,
+      treated: seedLots.treated,
+    })
+    .from(plots)
+    .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
+    .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
+    .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+    .where(eq(plots.enrolmentId, row.enrolmentId))
+    .orderBy(asc(plots.block), asc(plots.position));
+  const traitRows = await db
+    .select({ id: traits.id, name: traits.name, unit: traits.unit, valueType: traits.valueType, minValue: traits.minValue, maxValue: traits.maxValue, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
+    .from(trialTraits)
+    .innerJoin(traits, eq(traits.id, trialTraits.traitId))
+    .where(eq(trialTraits.trialId, row.trialId))
+    .orderBy(asc(trialTraits.sortOrder));
+  const [treated] = await db
+    .select({ n: count() })
+    .from(trialEntries)
+    .innerJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+    .where(and(eq(trialEntries.trialId, row.trialId), eq(seedLots.treated, true)));
+  const layoutPlots: LayoutPlot[] = plotRows.map((r) => ({
+    id: r.id,
+    plotCode: r.plotCode,
+    block: r.block,
+    position: r.position,
+    tray: r.tray,
+    traySlot: r.traySlot,
+    blindCode: r.blindCode,
+    variety: showKey ? r.variety : null,
+    isCheck: showKey ? r.isCheck : null,
+  }));
+  return { ...row, showKey, plots: layoutPlots, traits: traitRows, hasTreatedSeed: (treated?.n ?? 0) > 0 };
+}
+export type SiteLayout = NonNullable<Awaited<ReturnType<typeof getSiteLayout>>>;
+
+/** One plot for its data-entry page: staff of the trial's program or a cooperator of the plot's site. */
+export async function getPlotForViewer(viewer: Viewer, plotId: number) {
+  const scope = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : staffTrialScope(viewer);
+  const [row] = await db
+    .select({
+      id: plots.id,
+      plotCode: plots.plotCode,
+      block: plots.block,
+      position: plots.position,
+      tray: plots.tray,
+      traySlot: plots.traySlot,
+      blindCode: trialEntries.blindCode,
+      trialId: trials.id,
+      trialTitle: trials.title,
+      trialCode: trials.code,
+      plotUnit: trials.plotUnit,
+      siteId: sites.id,
+      siteName: sites.name,
+    })
+    .from(plots)
+    .innerJoin(enrolments, eq(enrolments.id, plots.enrolmentId))
+    .innerJoin(trials, eq(trials.id, plots.trialId))
+    .innerJoin(sites, eq(sites.id, plots.siteId))
+    .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
+    .where(and(eq(plots.id, plotId), scope));
+  return row ?? null;
+}
+
+/** A cooperator's enrolments with a layout, for links to their printables. */
+export async function listMyLayouts(viewer: Viewer) {
+  if (viewer.role !== "cooperator") return [];
+  return db
+    .select({ trialId: trials.id, trialTitle: trials.title, siteId: sites.id, siteName: sites.name })
+    .from(enrolments)
+    .innerJoin(trials, eq(trials.id, enrolments.trialId))
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .where(and(cooperatorEnrolmentScope(viewer), sql`${enrolments.randomisedAt} IS NOT NULL`))
+    .orderBy(asc(trials.title), asc(sites.name));
+}
+
