@@ -61,7 +61,11 @@ export function wilsonInterval(successes: number, trials: number, confidence = 0
   const denominator = 1 + z2 / trials;
   const centre = (p + z2 / (2 * trials)) / denominator;
   const half = (z / denominator) * Math.sqrt((p * (1 - p)) / trials + z2 / (4 * trials * trials));
-  return { lower: Math.max(0, centre - half), upper: Math.min(1, centre + half) };
+  // the bounds are exactly 0 and 1 at the extremes; the formula would leave rounding dust there
+  return {
+    lower: successes === 0 ? 0 : Math.max(0, centre - half),
+    upper: successes === trials ? 1 : Math.min(1, centre + half),
+  };
 }
 
 /** Germination % per entry (pooled over plots and sites) with a Wilson interval, in percent. */
