@@ -1,0 +1,96 @@
+/**
+ * Benchmark of the statistics engine (npm run bench:stats). On the same data in one run:
+ * one-way ANOVA of 1,000,000 values in 10 entries by Seedplot, by jStat.anovafscore (given the
+ * values already split into groups, which favours jstat) and by a loop that only sums the values
+ * (the floor); then anovaMultiSite on 50 sites x 40 entries x 4 blocks, balanced and with 5% of
+ * plots missing. Times are medians of repeated runs after a warm-up; the first run is shown too.
+ */
+import jstatPkg from "jstat";
+import { anovaMultiSite, anovaOneWay, type MultiSitePlot } from "../lib/stats";
+
+const { jStat } = jstatPkg;
+
+/** Deterministic pseudo-random numbers (mulberry32) so every run times the same data. */
+function random(seed: number): () => number {
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let t = state;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function time<T>(run: () => T, repeats: number): { median: number; first: number; result: T } {
+  const times: number[] = [];
+  let result = run();
+  for (let i = 0; i < repeats; i++) {
+    const start = performance.now();
+    result = run();
+    times.push(performance.now() - start);
+  }
+  const first = times[0];
+  times.sort((a, b) => a - b);
+  return { median: times[Math.floor(times.length / 2)], first, result };
+}
+
+const format = (ms: number) => `${ms.toFixed(2).padStart(8)} ms`;
+
+// ---------------------------------------------------------------- one-way, 1,000,000 values
+const next = random(20250611);
+const entryNames = Array.from({ length: 10 }, (_, i) => `Entry ${i + 1}`);
+const oneWay = Array.from({ length: 1_000_000 }, () => {
+  const g = Math.floor(next() * 10);
+  return { entry: entryNames[g], value: 50 + g * 0.3 + 10 * next() };
+});
+const groups = entryNames.map(() => [] as number[]);
+for (const plot of oneWay) groups[entryNames.indexOf(plot.entry)].push(plot.value);
+
+const floor = time(() => {
+  let sum = 0;
+  for (let i = 0; i < oneWay.length; i++) sum += oneWay[i].value;
+  return sum;
+}, 15);
+const seedplot = time(() => anovaOneWay(oneWay), 15);
+const jstat = time(() => jStat.anovafscore(...groups) as number, 7);
+
+console.log("One-way ANOVA, 1,000,000 values, 10 entries (median of repeats after warm-up)");
+console.log(`  floor (sum the values only)   ${format(floor.median)}`);
+console.log(`  Seedplot anovaOneWay          ${format(seedplot.median)}   ${(seedplot.median / floor.median).toFixed(2)}x the floor (target <= 3x)`);
+console.log(
+  `  jStat.anovafscore (pre-split) ${format(jstat.median)}   Seedplot is ${(jstat.median / seedplot.median).toFixed(1)}x faster (target > 1x)`,
+);
+console.log(`  F: Seedplot ${seedplot.result.rows[0].f}, jstat ${jstat.result}`);
+
+// ---------------------------------------------------------------- multi-site, 8,000 plots
+function multiSite(missingFraction: number): MultiSitePlot[] {
+  const draw = random(20250612);
+  const plots: MultiSitePlot[] = [];
+  for (let s = 0; s < 50; s++) {
+    const siteEffect = 3 * draw();
+    for (let b = 0; b < 4; b++) {
+      const blockEffect = draw();
+      for (let e = 0; e < 40; e++) {
+        const value = 20 + siteEffect + blockEffect + 0.05 * e + 2 * draw();
+        plots.push({ site: `Site ${s + 1}`, block: `${b + 1}`, entry: `Entry ${e + 1}`, value });
+      }
+    }
+  }
+  if (missingFraction > 0) {
+    // drop a fixed-seed random 5% of plots
+    const order = plots.map((_, i) => i).sort((a, b) => ((a * 2654435761) % 8009) - ((b * 2654435761) % 8009));
+    for (const i of order.slice(0, Math.round(missingFraction * plots.length))) plots[i] = { ...plots[i], value: null };
+  }
+  return plots;
+}
+
+const balanced = multiSite(0);
+const missing = multiSite(0.05);
+const balancedTime = time(() => anovaMultiSite(balanced), 9);
+const missingTime = time(() => anovaMultiSite(missing), 9);
+console.log("\nanovaMultiSite, 50 sites x 40 entries x 4 blocks = 8,000 plots, random sites");
+console.log(`  balanced                ${format(balancedTime.median)}   (first timed run ${format(balancedTime.first).trim()})`);
+console.log(
+  `  5% plots missing (${missingTime.result.missing})  ${format(missingTime.median)}   (first timed run ${format(missingTime.first).trim()}; target < 100 ms)`,
+);
