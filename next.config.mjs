@@ -7,6 +7,8 @@ const securityHeaders = [
 ];
 
 const nextConfig = {
+  // Test runs build into their own folder so they never replace the build a running server uses.
+  distDir: process.env.NEXT_DIST_DIR || ".next",
   poweredByHeader: false,
   reactStrictMode: true,
   serverExternalPackages: ["mysql2", "exceljs", "smtp-server", "mailparser"],

@@ -61,15 +61,30 @@ wait_for_http() {
   done
 }
 
-# Stops a background process recorded in a pid file, if it is still running.
+# Starts a command in the background in its own process group (so that stopping it also stops the
+# children that npx, tsx and next spawn), logging to $2 and recording the group id in $1.
+start_background() {
+  local pidfile="$1" logfile="$2"; shift 2
+  setsid "$@" > "$logfile" 2>&1 < /dev/null &
+  echo $! > "$pidfile"
+}
+
+# Stops a background process group recorded in a pid file, if it is still running.
 stop_pidfile() {
   local pidfile="$1" pid
   [ -f "$pidfile" ] || return 0
   pid="$(cat "$pidfile")"
   if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
-    kill -TERM "$pid" 2>/dev/null || true
+    kill -TERM -- "-$pid" 2>/dev/null || kill -TERM "$pid" 2>/dev/null || true
     for _ in $(seq 1 50); do kill -0 "$pid" 2>/dev/null || break; sleep 0.2; done
-    kill -0 "$pid" 2>/dev/null && kill -KILL "$pid" 2>/dev/null || true
+    kill -KILL -- "-$pid" 2>/dev/null || true
   fi
   rm -f "$pidfile"
+}
+
+# Fails with a clear message when a TCP port on 127.0.0.1 is already taken.
+require_free_port() {
+  if node -e "const s=require('net').connect(+process.argv[1],'127.0.0.1');s.on('connect',()=>process.exit(0));s.on('error',()=>process.exit(1))" "$1"; then
+    die "Port $1 on 127.0.0.1 is already in use (by an earlier run?). Stop that program or choose another port with $2."
+  fi
 }

@@ -34,8 +34,8 @@ cleanup() {
 trap cleanup EXIT INT TERM
 
 stop_pidfile .data/fake-smtp.pid
-npx tsx scripts/fake-smtp.ts > .data/fake-smtp.log 2>&1 &
-echo $! > .data/fake-smtp.pid
+require_free_port "$SMTP_PORT" SMTP_PORT
+start_background .data/fake-smtp.pid .data/fake-smtp.log node_modules/.bin/tsx scripts/fake-smtp.ts
 
 log "Applying migrations"
 npx tsx db/migrate.ts
@@ -47,4 +47,5 @@ if [ "${1:-}" != "--no-build" ] || [ ! -f .next/BUILD_ID ]; then
 fi
 
 log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md). Ctrl-C to stop."
-npx next start -H 127.0.0.1 -p "$PORT"
+require_free_port "$PORT" PORT
+node_modules/.bin/next start -H 127.0.0.1 -p "$PORT"

@@ -24,7 +24,7 @@ export default function HomePage() {
               publishes which varieties did well where — and how sure we are.
             </p>
             <div className="mt-8 flex flex-wrap gap-3">
-              <Link href="/sign-in" className={buttonClasses("primary", "bg-marigold-400 text-loam-900 hover:bg-marigold-100")}>
+              <Link href="/sign-in" className={buttonClasses("primary")}>
                 Partner sign-in
               </Link>
             </div>

@@ -1,0 +1,25 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { isThrottled, MAX_FAILURES_PER_ACCOUNT, recordAttempt } from "@/lib/auth/throttle";
+import { pool } from "@/db/index";
+import { unique } from "../helpers/db";
+
+afterAll(() => pool.end());
+
+describe("sign-in throttling", () => {
+  it("blocks an account after repeated failures and not before", async () => {
+    const email = `${unique("guess")}@example.org`;
+    for (let i = 0; i < MAX_FAILURES_PER_ACCOUNT - 1; i += 1) await recordAttempt(email, "10.0.0.1", false);
+    expect(await isThrottled(email, "10.0.0.2")).toBe(false);
+    await recordAttempt(email, "10.0.0.1", false);
+    // Throttled by account even from another address.
+    expect(await isThrottled(email, "10.0.0.3")).toBe(true);
+  });
+
+  it("clears the account's failures after a successful sign-in", async () => {
+    const email = `${unique("typo")}@example.org`;
+    for (let i = 0; i < 3; i += 1) await recordAttempt(email, "10.0.1.1", false);
+    await recordAttempt(email, "10.0.1.1", true);
+    for (let i = 0; i < 3; i += 1) await recordAttempt(email, "10.0.1.1", false);
+    expect(await isThrottled(email, "10.0.1.9")).toBe(false);
+  });
+});

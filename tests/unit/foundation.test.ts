@@ -1,0 +1,95 @@
+import { describe, expect, it } from "vitest";
+import { canChangeRole, canRecordForSite, canSeeBlindKey, canSeeSiteContact, isStaff } from "@/lib/auth/permissions";
+import { acceptInviteSchema, inviteCooperatorSchema, signInSchema } from "@/lib/validation/auth";
+import { addDays, scheduleForSite } from "@/lib/schedule";
+import { randomiseBlocks } from "@/lib/design/randomise";
+import { blindCodes } from "@/lib/design/blind-codes";
+import type { Viewer } from "@/lib/auth/types";
+
+const admin: Viewer = { id: 1, email: "a@x.org", name: "A", role: "admin" };
+const coordinator: Viewer = { id: 2, email: "c@x.org", name: "C", role: "coordinator" };
+const grower: Viewer = { id: 3, email: "g@x.org", name: "G", role: "cooperator" };
+
+describe("permissions", () => {
+  it("lets a cooperator record only for their own sites", () => {
+    expect(canRecordForSite(grower, { cooperatorIds: [3] })).toBe(true);
+    expect(canRecordForSite(grower, { cooperatorIds: [4] })).toBe(false);
+    expect(canRecordForSite(null, { cooperatorIds: [3] })).toBe(false);
+    expect(canRecordForSite(coordinator, { cooperatorIds: [] })).toBe(true);
+    expect(canSeeSiteContact(grower, { cooperatorIds: [9] })).toBe(false);
+  });
+  it("keeps the blind key from growers and the public until publication", () => {
+    expect(canSeeBlindKey(grower, { status: "collecting" })).toBe(false);
+    expect(canSeeBlindKey(null, { status: "analysing" })).toBe(false);
+    expect(canSeeBlindKey(null, { status: "published" })).toBe(true);
+    expect(canSeeBlindKey(coordinator, { status: "draft" })).toBe(true);
+  });
+  it("stops an admin from changing their own role", () => {
+    expect(canChangeRole(admin, { id: 1 })).toBe(false);
+    expect(canChangeRole(admin, { id: 2 })).toBe(true);
+    expect(canChangeRole(coordinator, { id: 3 })).toBe(false);
+    expect(isStaff(grower)).toBe(false);
+  });
+});
+
+describe("form validation answers in plain words", () => {
+  it("explains a malformed e-mail and a missing password", () => {
+    const r = signInSchema.safeParse({ email: "not-an-email", password: "" });
+    expect(r.success).toBe(false);
+    const messages = r.error!.issues.map((i) => i.message);
+    expect(messages).toContain("Enter an e-mail address like name@example.org.");
+    expect(messages).toContain("Enter your password.");
+  });
+  it("normalises e-mail case and spaces", () => {
+    expect(signInSchema.parse({ email: "  Rosa@Example.ORG ", password: "x" }).email).toBe("rosa@example.org");
+  });
+  it("requires matching passwords of at least 10 characters", () => {
+    const short = acceptInviteSchema.safeParse({ token: "a".repeat(43), name: "Al Grower", password: "short", confirm: "short" });
+    expect(short.error!.issues[0]!.message).toBe("Use at least 10 characters.");
+    const mismatch = acceptInviteSchema.safeParse({ token: "a".repeat(43), name: "Al Grower", password: "long-enough-1", confirm: "long-enough-2" });
+    expect(mismatch.error!.issues[0]!.message).toBe("The two passwords are not the same.");
+  });
+  it("treats a blank site as no site and rejects a non-numeric one", () => {
+    expect(inviteCooperatorSchema.parse({ name: "Jo Grower", email: "jo@x.org", siteId: "" }).siteId).toBeUndefined();
+    expect(inviteCooperatorSchema.safeParse({ name: "Jo Grower", email: "jo@x.org", siteId: "abc" }).success).toBe(false);
+  });
+});
+
+describe("schedule of scheduled counts", () => {
+  it("marks counts late, due today, upcoming or done from the site's own sowing date", () => {
+    const items = scheduleForSite({
+      sownOn: "2026-11-20",
+      plotCount: 18,
+      traits: [{ id: 7, name: "Emergence", dueDaysAfterSowing: [5, 7, 10, 14] }],
+      recorded: new Map([["7:5", 18], ["7:7", 10]]),
+      today: "2026-11-30",
+    });
+    expect(items.map((i) => [i.occasion, i.dueOn, i.status])).toEqual([
+      [5, "2026-11-25", "done"],
+      [7, "2026-11-27", "late"],
+      [10, "2026-11-30", "due_today"],
+      [14, "2026-12-04", "upcoming"],
+    ]);
+  });
+  it("has nothing due before sowing", () => {
+    expect(scheduleForSite({ sownOn: null, plotCount: 10, traits: [{ id: 1, name: "x", dueDaysAfterSowing: [5] }], recorded: new Map(), today: "2026-01-01" })).toEqual([]);
+  });
+  it("adds days across month and year ends", () => {
+    expect(addDays("2026-12-30", 3)).toBe("2027-01-02");
+    expect(addDays("2028-02-27", 2)).toBe("2028-02-29");
+  });
+});
+
+describe("randomisation helpers", () => {
+  it("puts every entry once in every block and repeats from the same seed", () => {
+    const a = randomiseBlocks({ entryCount: 6, blocks: 4, seed: 42 });
+    for (let b = 1; b <= 4; b += 1) expect(a.filter((p) => p.block === b).map((p) => p.entryIndex).sort()).toEqual([0, 1, 2, 3, 4, 5]);
+    expect(randomiseBlocks({ entryCount: 6, blocks: 4, seed: 42 })).toEqual(a);
+    expect(randomiseBlocks({ entryCount: 6, blocks: 4, seed: 43 })).not.toEqual(a);
+  });
+  it("makes distinct codes without look-alike characters", () => {
+    const codes = blindCodes(40, 1);
+    expect(new Set(codes).size).toBe(40);
+    for (const c of codes) expect(c).toMatch(/^[ACDEFGHJKMNPQRTWXY34679]{3}$/);
+  });
+});
