@@ -1,0 +1,59 @@
+import { Document, Page, Text, View } from "@react-pdf/renderer";
+import type { SiteSheetData } from "../shared/sheet-data";
+import { base, Cautions, Footer, Protocol, RULE, SHADE, SheetHeader, registerFonts } from "../shared/pdf";
+
+// Enough writing room per value on a clipboard; more columns go on a following table.
+const COLUMNS_PER_TABLE = 6;
+
+function chunk<T>(items: T[], size: number): T[][] {
+  const out: T[][] = [];
+  for (let i = 0; i < items.length; i += size) out.push(items.slice(i, i + size));
+  return out.length ? out : [[]];
+}
+
+const cell = { borderRightWidth: 0.75, borderColor: RULE, padding: 3 } as const;
+
+/** The field data sheet: every plot of the site with a box for each trait on each due date. */
+export function FieldSheetDocument({ data }: { data: SiteSheetData }) {
+  registerFonts();
+  const groups = chunk(data.columns, COLUMNS_PER_TABLE);
+  return (
+    <Document title={`Field data sheet – ${data.trialCode} – ${data.siteName}`} author="Seedplot">
+      <Page size={data.pageSize} orientation="landscape" style={base.page}>
+        <SheetHeader data={data} title="Field data sheet" />
+        <Text style={{ marginBottom: 4 }}>
+          Write one value per box. Leave a box empty if you could not record it and note why in the margin (e.g. animal damage, lost label).
+        </Text>
+        {groups.map((cols, g) => (
+          <View key={g} style={{ marginBottom: 10 }} break={g > 0}>
+            {g > 0 ? <SheetHeader data={data} title={`Field data sheet (continued ${g + 1}/${groups.length})`} /> : null}
+            <View style={{ flexDirection: "row", borderWidth: 0.75, borderColor: RULE, backgroundColor: SHADE }} fixed>
+              <Text style={{ ...cell, width: 62, fontWeight: 700 }}>Plot</Text>
+              <Text style={{ ...cell, width: 36, fontWeight: 700 }}>Block</Text>
+              <Text style={{ ...cell, width: 40, fontWeight: 700 }}>Code</Text>
+              {cols.map((c, i) => (
+                <View key={i} style={{ ...cell, flex: 1 }}>
+                  <Text style={{ fontWeight: 700 }}>{c.heading}</Text>
+                  <Text style={{ fontSize: 7 }}>{c.when}</Text>
+                </View>
+              ))}
+            </View>
+            {data.plots.map((p) => (
+              <View key={p.id} wrap={false} style={{ flexDirection: "row", borderWidth: 0.75, borderTopWidth: 0, borderColor: RULE, minHeight: 20, backgroundColor: p.block % 2 === 0 ? SHADE : "#ffffff" }}>
+                <Text style={{ ...cell, width: 62 }}>{p.plotCode}</Text>
+                <Text style={{ ...cell, width: 36 }}>{p.block}</Text>
+                <Text style={{ ...cell, width: 40, fontWeight: 700 }}>{p.blindCode}</Text>
+                {cols.map((_, i) => (
+                  <View key={i} style={{ ...cell, flex: 1, minHeight: 20 }} />
+                ))}
+              </View>
+            ))}
+          </View>
+        ))}
+        <Protocol data={data} />
+        <Cautions data={data} />
+        <Footer data={data} />
+      </Page>
+    </Document>
+  );
+}

@@ -1,0 +1,92 @@
+import path from "node:path";
+import { Font, StyleSheet, Text, View } from "@react-pdf/renderer";
+import type { SiteSheetData } from "./sheet-data";
+
+// Fonts ship with the app; nothing is fetched at render time.
+let registered = false;
+export function registerFonts() {
+  if (registered) return;
+  const dir = path.join(process.cwd(), "public", "fonts", "inter");
+  Font.register({
+    family: "Inter",
+    fonts: [
+      { src: path.join(dir, "inter-latin-400-normal.woff"), fontWeight: 400 },
+      { src: path.join(dir, "inter-latin-600-normal.woff"), fontWeight: 600 },
+      { src: path.join(dir, "inter-latin-700-normal.woff"), fontWeight: 700 },
+    ],
+  });
+  // Codes such as "S01-2-03" must never be split across lines.
+  Font.registerHyphenationCallback((word) => [word]);
+  registered = true;
+}
+
+// Print colours: near-black ink and one green accent (loam-900 / sprout-700 of the app palette).
+export const INK = "#1b2618";
+export const ACCENT = "#1b5c2e";
+export const RULE = "#9aab8f";
+export const SHADE = "#f3f5f1";
+
+export const base = StyleSheet.create({
+  page: { fontFamily: "Inter", fontSize: 9, color: INK, padding: 28, paddingBottom: 40 },
+  h1: { fontSize: 15, fontWeight: 700, marginBottom: 2 },
+  h2: { fontSize: 11, fontWeight: 700, marginTop: 8, marginBottom: 4, color: ACCENT },
+  muted: { color: "#4f6446" },
+  footer: { position: "absolute", bottom: 16, left: 28, right: 28, fontSize: 7, color: "#4f6446", flexDirection: "row", justifyContent: "space-between" },
+});
+
+export function SheetHeader({ data, title }: { data: SiteSheetData; title: string }) {
+  return (
+    <View style={{ marginBottom: 6 }}>
+      <Text style={base.h1}>{title}</Text>
+      <Text>
+        {data.trialTitle} ({data.trialCode}) · {data.crop} · {data.season}
+      </Text>
+      <Text style={base.muted}>
+        Site: {data.siteName}, {data.region} · Sown: {data.sownOn ?? "not yet recorded"} · Layout seed: {data.randomSeed ?? "not randomised"}
+      </Text>
+    </View>
+  );
+}
+
+export function Footer({ data }: { data: SiteSheetData }) {
+  return (
+    <View style={base.footer} fixed>
+      <Text>
+        Seedplot · {data.trialCode} · {data.siteName} · printed {data.generatedOn}
+      </Text>
+      <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
+    </View>
+  );
+}
+
+export function Cautions({ data }: { data: SiteSheetData }) {
+  return (
+    <View wrap={false} style={{ marginTop: 8, borderWidth: 1, borderColor: "#b5740d", backgroundColor: "#fdf0d5", padding: 6 }}>
+      <Text style={{ fontWeight: 700, marginBottom: 2 }}>Safety and handling</Text>
+      {data.cautions.map((c) => (
+        <Text key={c.title} style={{ marginBottom: 2 }}>
+          <Text style={{ fontWeight: 600 }}>{c.title}: </Text>
+          {c.text}
+        </Text>
+      ))}
+    </View>
+  );
+}
+
+export function Protocol({ data }: { data: SiteSheetData }) {
+  const unit =
+    data.plotUnit === "insert"
+      ? `one six-cell insert per plot, ${data.seedsPerCell} seed${data.seedsPerCell === 1 ? "" : "s"} per cell`
+      : data.plotUnit === "cells"
+        ? `${data.plotSize} cells per plot, ${data.seedsPerCell} seed${data.seedsPerCell === 1 ? "" : "s"} per cell`
+        : `a bed row of ${data.plotSize} plants per plot`;
+  return (
+    <View wrap={false}>
+      <Text style={base.h2}>Protocol</Text>
+      <Text>
+        {data.design === "rcbd" ? `${data.blocks} blocks; every entry once in each block` : `${data.blocks} replicates, completely randomised`}; {unit}.
+      </Text>
+      {data.protocol ? <Text style={{ marginTop: 2 }}>{data.protocol}</Text> : null}
+    </View>
+  );
+}

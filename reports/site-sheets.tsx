@@ -1,0 +1,16 @@
+import { renderToBuffer } from "@react-pdf/renderer";
+import type { SiteSheetData } from "./shared/sheet-data";
+import { TrayMapDocument } from "./tray-map/document";
+import { PlotLabelsDocument } from "./plot-labels/document";
+import { FieldSheetDocument } from "./field-sheet/document";
+
+export type SheetKind = "map" | "labels" | "sheet";
+
+export const SHEET_FILE_NAMES: Record<SheetKind, string> = { map: "tray-map", labels: "plot-labels", sheet: "field-sheet" };
+
+/** Renders one site printable to PDF bytes. */
+export async function renderSiteSheet(kind: SheetKind, data: SiteSheetData): Promise<Buffer> {
+  const doc =
+    kind === "map" ? <TrayMapDocument data={data} /> : kind === "labels" ? <PlotLabelsDocument data={data} /> : <FieldSheetDocument data={data} />;
+  return renderToBuffer(doc);
+}

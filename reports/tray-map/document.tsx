@@ -1,0 +1,118 @@
+import { Document, Page, Text, View } from "@react-pdf/renderer";
+import type { SheetPlot, SiteSheetData } from "../shared/sheet-data";
+import { ACCENT, base, Cautions, Footer, Protocol, RULE, SHADE, SheetHeader, registerFonts } from "../shared/pdf";
+
+// A 1020 flat seen from above, long side left to right: 4 inserts along, 3 across (12 six-cell inserts);
+// a 72-cell view is 12 cells along and 6 across.
+const INSERTS_ALONG = 4;
+const CELL_COLS = 12;
+
+const blockShade = (block: number) => (block % 2 === 0 ? SHADE : "#ffffff");
+
+function groupBy<T, K>(items: T[], key: (t: T) => K): Map<K, T[]> {
+  const m = new Map<K, T[]>();
+  for (const i of items) m.set(key(i), [...(m.get(key(i)) ?? []), i]);
+  return m;
+}
+
+function InsertFlat({ tray, plots }: { tray: number; plots: SheetPlot[] }) {
+  const bySlot = new Map(plots.map((p) => [p.traySlot ?? 0, p]));
+  return (
+    <View wrap={false} style={{ marginBottom: 10 }}>
+      <Text style={{ fontWeight: 700, marginBottom: 3 }}>Flat {tray}</Text>
+      <View style={{ borderWidth: 2, borderColor: ACCENT, flexDirection: "row", flexWrap: "wrap", width: INSERTS_ALONG * 128 + 4 }}>
+        {Array.from({ length: 12 }, (_, i) => {
+          const p = bySlot.get(i + 1);
+          return (
+            <View key={i} style={{ width: 128, height: 64, borderWidth: 0.5, borderColor: RULE, padding: 4, backgroundColor: p ? blockShade(p.block) : "#ffffff" }}>
+              <Text style={{ fontSize: 7, color: "#4f6446" }}>Insert {i + 1}</Text>
+              {p ? (
+                <>
+                  <Text style={{ fontSize: 18, fontWeight: 700, letterSpacing: 1 }}>{p.blindCode}</Text>
+                  <Text style={{ fontSize: 7.5 }}>
+                    Plot {p.plotCode} · Block {p.block}
+                  </Text>
+                </>
+              ) : (
+                <Text style={{ fontSize: 8, color: "#4f6446", marginTop: 10 }}>empty</Text>
+              )}
+            </View>
+          );
+        })}
+      </View>
+      <Text style={{ fontSize: 7, color: "#4f6446", marginTop: 2 }}>Inserts numbered left to right, top row first, with the flat's long side facing you.</Text>
+    </View>
+  );
+}
+
+function CellFlat({ tray, plots, cellsPerPlot }: { tray: number; plots: SheetPlot[]; cellsPerPlot: number }) {
+  // Cell plots are stored by their first cell; the plot fills the cells that follow it.
+  const owner = new Map<number, SheetPlot>();
+  for (const p of plots) for (let c = p.traySlot ?? 1; c < (p.traySlot ?? 1) + cellsPerPlot; c += 1) owner.set(c, p);
+  return (
+    <View wrap={false} style={{ marginBottom: 10 }}>
+      <Text style={{ fontWeight: 700, marginBottom: 3 }}>Flat {tray} (72 cells)</Text>
+      <View style={{ borderWidth: 2, borderColor: ACCENT, flexDirection: "row", flexWrap: "wrap", width: CELL_COLS * 44 + 4 }}>
+        {Array.from({ length: 72 }, (_, i) => {
+          const p = owner.get(i + 1);
+          return (
+            <View key={i} style={{ width: 44, height: 30, borderWidth: 0.5, borderColor: RULE, padding: 2, backgroundColor: p ? blockShade(p.block) : "#ffffff" }}>
+              <Text style={{ fontSize: 6, color: "#4f6446" }}>{i + 1}</Text>
+              <Text style={{ fontSize: 9, fontWeight: 700 }}>{p?.blindCode ?? ""}</Text>
+            </View>
+          );
+        })}
+      </View>
+    </View>
+  );
+}
+
+function BedRows({ plots }: { plots: SheetPlot[] }) {
+  return (
+    <View>
+      {[...groupBy(plots, (p) => p.block)].map(([block, inBlock]) => (
+        <View key={block} wrap={false} style={{ marginBottom: 8 }}>
+          <Text style={{ fontWeight: 700, marginBottom: 3 }}>Block {block} — plant from the marked start of the bed</Text>
+          <View style={{ flexDirection: "row", flexWrap: "wrap" }}>
+            {inBlock.map((p) => (
+              <View key={p.id} style={{ width: 78, height: 46, borderWidth: 1, borderColor: ACCENT, marginRight: 3, marginBottom: 3, padding: 3, backgroundColor: blockShade(block) }}>
+                <Text style={{ fontSize: 7, color: "#4f6446" }}>#{p.position}</Text>
+                <Text style={{ fontSize: 15, fontWeight: 700 }}>{p.blindCode}</Text>
+                <Text style={{ fontSize: 7 }}>{p.plotCode}</Text>
+              </View>
+            ))}
+          </View>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+/** Where each coded entry goes at one site: flats for tray trials, blocks of bed rows for field trials. */
+export function TrayMapDocument({ data }: { data: SiteSheetData }) {
+  registerFonts();
+  const trays = [...groupBy(data.plots.filter((p) => p.tray !== null), (p) => p.tray!)];
+  const title = data.plotUnit === "bed_row" ? "Field map" : "Tray map";
+  return (
+    <Document title={`${title} – ${data.trialCode} – ${data.siteName}`} author="Seedplot">
+      <Page size={data.pageSize} orientation="landscape" style={base.page}>
+        <SheetHeader data={data} title={title} />
+        {data.plots.length === 0 ? (
+          <Text>This site has no layout yet. Ask your coordinator to randomise it.</Text>
+        ) : data.plotUnit === "bed_row" ? (
+          <BedRows plots={data.plots} />
+        ) : (
+          trays.map(([tray, plots]) =>
+            data.plotUnit === "insert" ? <InsertFlat key={tray} tray={tray} plots={plots} /> : <CellFlat key={tray} tray={tray} plots={plots} cellsPerPlot={data.plotSize} />,
+          )
+        )}
+        <Text style={{ fontSize: 7.5, marginTop: 2 }}>
+          Shading changes from block to block. Codes are blind on purpose: sow each packet where its code appears.
+        </Text>
+        <Protocol data={data} />
+        <Cautions data={data} />
+        <Footer data={data} />
+      </Page>
+    </Document>
+  );
+}

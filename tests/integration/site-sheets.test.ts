@@ -1,0 +1,92 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { testDatabase, unique } from "../helpers/db";
+import * as s from "@/db/schema";
+import type { Viewer } from "@/lib/auth/types";
+import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
+import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
+import { insertSite } from "@/db/mutations/sites";
+import { getSiteLayout } from "@/db/queries/trials";
+import { createTrialSchema } from "@/lib/validation/trials";
+import { traitSchema } from "@/lib/validation/catalogue";
+import { buildSiteSheetData, plotPageUrl } from "@/lib/design/sheets";
+import { renderSiteSheet } from "@/reports/site-sheets";
+
+const { db, pool } = testDatabase();
+const dir = mkdtempSync(path.join(tmpdir(), "seedplot-sheets-"));
+let coordinator: Viewer;
+let trialId: number;
+let siteId: number;
+const varietyNames: string[] = [];
+
+const pdfText = (pdf: Buffer, name: string) => {
+  const file = path.join(dir, `${name}.pdf`);
+  writeFileSync(file, pdf);
+  return execFileSync("pdftotext", ["-layout", file, "-"]).toString();
+};
+
+beforeAll(async () => {
+  const email = `${unique("coord")}@example.test`;
+  const [u] = await db.insert(s.users).values({ email, name: "Coord", role: "coordinator", passwordHash: "x" }).$returningId();
+  coordinator = { id: u!.id, email, name: "Coord", role: "coordinator" };
+  const [program] = await db.insert(s.programs).values({ slug: unique("p"), name: unique("P") }).$returningId();
+  await db.insert(s.programCoordinators).values({ programId: program!.id, userId: coordinator.id });
+  const [season] = await db.insert(s.seasons).values({ programId: program!.id, name: "Spring", year: 2027 }).$returningId();
+  const cropId = await insertCrop(coordinator, { name: unique("Basil"), cropGroup: "herbs" });
+  const traitId = await insertTrait(coordinator, traitSchema.parse({ name: "Seedlings up", code: unique("up").replace(/-/g, "_").slice(0, 38), valueType: "count", dueDaysAfterSowing: "5, 7, 10" }));
+  trialId = await insertTrial(
+    coordinator,
+    createTrialSchema.parse({ seasonId: String(season!.id), cropId: String(cropId), code: unique("B").toUpperCase().slice(0, 30), title: "Basil emergence", design: "rcbd", blocks: "4", plotUnit: "insert", plotSize: "6", seedsPerCell: "1", [`trait_${traitId}`]: "on" }),
+  );
+  for (let i = 0; i < 4; i += 1) {
+    const name = `Secret Basil ${i}`;
+    varietyNames.push(name);
+    const v = await insertVariety(coordinator, { cropId, name });
+    const lot = await insertSeedLot(coordinator, { varietyId: v, source: "Seed House", lotCode: `B${i}`, treated: i === 2, treatment: i === 2 ? "Fungicide" : undefined });
+    await insertTrialEntry(coordinator, { trialId, varietyId: v, seedLotId: lot, isCheck: false });
+  }
+  siteId = await insertSite(coordinator, { name: unique("Sheet farm"), kind: "farm", region: "Valley", growingSetup: "indoor_lights" });
+  await insertEnrolment(coordinator, { trialId, siteId, sownOn: "2027-03-18" }, { invite: () => ({ token: "t".repeat(40), buildMail: () => ({ to: "x@example.test", subject: "", text: "" }) }), notice: () => ({ to: "x@example.test", subject: "", text: "" }) });
+  await updateSiteRandomisation(coordinator, { trialId, siteId, seed: 20270318 });
+});
+
+afterAll(async () => {
+  await pool.end();
+});
+
+describe("site printables", () => {
+  it("the tray map shows every blind code, the seed and the cautions, and never a variety name", async () => {
+    const layout = (await getSiteLayout(coordinator, { trialId, siteId }))!;
+    const data = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "LETTER", withQr: false, today: "2027-03-01" });
+    const text = pdfText(await renderSiteSheet("map", data), "map");
+    for (const code of new Set(layout.plots.map((p) => p.blindCode))) expect(text).toContain(code);
+    expect(text).toContain("20270318");
+    expect(text).toContain("Flat 2");
+    expect(text).toMatch(/Treated seed/);
+    expect(text).toMatch(/GFCI/);
+    for (const name of varietyNames) expect(text).not.toContain(name);
+    execFileSync("pdftoppm", ["-png", "-r", "60", "-f", "1", "-l", "1", path.join(dir, "map.pdf"), path.join(dir, "map")]);
+  });
+
+  it("labels carry plot id, code, block and a QR code of the plot page; the data sheet lists due dates", async () => {
+    const layout = (await getSiteLayout(coordinator, { trialId, siteId }))!;
+    const labels = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "A4", withQr: true });
+    expect(Object.keys(labels.qrCodes!)).toHaveLength(16);
+    expect(labels.qrCodes![layout.plots[0]!.id]).toMatch(/^data:image\/png;base64,/);
+    expect(plotPageUrl("http://seedplot.test/", 12)).toBe("http://seedplot.test/portal/plots/12");
+    const labelText = pdfText(await renderSiteSheet("labels", labels), "labels");
+    for (const p of layout.plots) expect(labelText).toContain(p.plotCode);
+    const sheet = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "LETTER", withQr: false });
+    const sheetText = pdfText(await renderSiteSheet("sheet", sheet), "sheet");
+    expect(sheetText).toContain("Day 5");
+    expect(sheetText).toMatch(/23 Mar 2027/);
+    for (const p of layout.plots) expect(sheetText).toContain(p.plotCode);
+  });
+
+  it("writes its files for a look", () => {
+    console.log(`PDFs and PNG in ${dir}`);
+  });
+});
