@@ -36,6 +36,9 @@ ensure_debian_packages() {
 # Installs node_modules when they are missing or older than the lockfile.
 ensure_node_modules() {
   cd "$ROOT"
+  command -v node >/dev/null 2>&1 || die "Node.js 20.9 or newer is needed; install it first."
+  node -e 'const [a,b]=process.versions.node.split(".").map(Number); process.exit(a>20||(a===20&&b>=9)?0:1)' \
+    || die "Node.js 20.9 or newer is needed; this is $(node --version)."
   if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
     log "Installing npm packages (npm ci)"
     npm ci --no-audit --no-fund --loglevel=error
