@@ -6,6 +6,9 @@
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 cd "$ROOT"
 mkdir -p .data
+# One run at a time per checkout: a second run waits instead of fighting over ports and databases.
+exec 9> .data/test.lock
+flock -n 9 || { log "Another test run is in progress here; waiting for it"; flock 9; }
 
 ensure_debian_packages "mariadbd:mariadb-server" "mariadb:mariadb-client" "chromium:chromium" "pdftoppm:poppler-utils" "fc-list:fontconfig"
 ensure_node_modules
@@ -17,6 +20,7 @@ export TEST_DATABASE_URL="$DB_BASE/seedplot_test"
 E2E_DATABASE_URL="$DB_BASE/seedplot_e2e"
 E2E_PORT="${E2E_PORT:-3100}"
 E2E_SMTP_PORT="${E2E_SMTP_PORT:-2535}"
+INT_SMTP_PORT="${INT_SMTP_PORT:-2545}"
 E2E_MAILBOX="$ROOT/.data/test-mailbox-e2e"
 rm -rf "$E2E_MAILBOX" "$ROOT/.data/test-mailbox-int" "$ROOT/.data/test-storage"
 
@@ -53,7 +57,7 @@ wait_for_http "http://127.0.0.1:$E2E_PORT/" 60 || { tail -20 .data/test-next.log
 log "Running the tests"
 set +e
 DATABASE_URL="$TEST_DATABASE_URL" E2E_BASE_URL="http://localhost:$E2E_PORT" E2E_DATABASE_URL="$E2E_DATABASE_URL" \
-  E2E_MAILBOX_DIR="$E2E_MAILBOX" SMTP_PORT=2545 MAILBOX_DIR="$ROOT/.data/test-mailbox-int" STORAGE_DIR="$ROOT/.data/test-storage" \
+  E2E_MAILBOX_DIR="$E2E_MAILBOX" SMTP_PORT="$INT_SMTP_PORT" MAILBOX_DIR="$ROOT/.data/test-mailbox-int" STORAGE_DIR="$ROOT/.data/test-storage" \
   npx vitest run --reporter=default --reporter=json --outputFile=.data/test-results.json "$@"
 status=$?
 set -e
