@@ -4,6 +4,7 @@ import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { formatDate, ROLE_LABELS, SETUP_LABELS, STATUS_LABELS } from "@/lib/labels";
 import type { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import type { listUsersForAdmin } from "@/db/queries/users";
+import type { listMyLayouts } from "@/db/queries/trials";
 import type { TrialStatus } from "@/db/schema/enums";
 
 const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
@@ -38,7 +39,9 @@ export function TrialsTable({ trials }: { trials: Trials }) {
           {trials.map((t) => (
             <tr key={t.id} className="border-b border-husk-100">
               <td className="py-2 pr-3">
-                <span className="font-semibold">{t.title}</span>
+                <Link href={`/portal/trials/${t.id}`} className="font-semibold">
+                  {t.title}
+                </Link>
                 <span className="block font-mono text-xs text-loam-700">{t.code}</span>
               </td>
               <td className="py-2 pr-3">{t.crop}</td>
@@ -120,6 +123,21 @@ export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnTyp
         </ul>
       </Card>
     </div>
+  );
+}
+
+export function MyLayouts({ layouts }: { layouts: Awaited<ReturnType<typeof listMyLayouts>> }) {
+  return (
+    <ul className="space-y-1">
+      {layouts.map((l) => (
+        <li key={`${l.trialId}-${l.siteId}`}>
+          <Link href={`/portal/trials/${l.trialId}/sites/${l.siteId}`} className="font-semibold">
+            {l.trialTitle}
+          </Link>{" "}
+          <span className="text-sm text-loam-700">· {l.siteName}</span>
+        </li>
+      ))}
+    </ul>
   );
 }
 

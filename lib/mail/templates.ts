@@ -28,3 +28,15 @@ export function passwordResetMail(p: { to: string; name: string; link: string })
       SIGNATURE,
   };
 }
+
+/** Tells a grower who already has an account that their site joined a trial. */
+export function enrolmentNoticeMail(p: { to: string; name: string; siteName: string; trialTitle: string; link: string }): OutgoingMail {
+  return {
+    to: p.to,
+    subject: `${p.siteName} is taking part in "${p.trialTitle}"`,
+    text:
+      `Hello ${p.name},\n\n${p.siteName} has been enrolled in the variety trial "${p.trialTitle}". Once your coordinator ` +
+      `has laid out the plots, your tray or field map, plot labels and data sheet will be ready to print in Seedplot:\n${p.link}` +
+      SIGNATURE,
+  };
+}

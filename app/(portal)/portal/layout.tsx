@@ -9,12 +9,12 @@ export default async function PortalLayout({ children }: { children: React.React
   const viewer = await requireUser();
   const staff = viewer.role !== "cooperator";
   const links: [string, string][] = [["/portal", "Home"]];
-  if (staff) links.push(["/portal/cooperators", "Growers"]);
+  if (staff) links.push(["/portal/trials", "Trials"], ["/portal/sites", "Sites"], ["/portal/catalogue", "Catalogue"], ["/portal/cooperators", "Growers"]);
   if (viewer.role === "admin") links.push(["/portal/admin/users", "Users & roles"]);
   if (staff && env.MAIL_MODE === "capture") links.push(["/portal/mailbox", "Test mailbox"]);
   return (
     <div className="min-h-screen">
-      <header className="border-b border-husk-200 bg-white">
+      <header className="no-print border-b border-husk-200 bg-white">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-4 py-2">
           <Link href="/portal" className="no-underline" aria-label="Portal home">
             <Logo />

@@ -2,8 +2,9 @@ import type { Metadata } from "next";
 import { requireUser } from "@/lib/auth/guards";
 import { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import { listUsersForAdmin } from "@/db/queries/users";
+import { listMyLayouts } from "@/db/queries/trials";
 import { Card } from "@/components/ui/card";
-import { LateSitesList, MySchedules, SectionLink, TrialsTable, UsersSummary } from "@/components/portal/home-sections";
+import { LateSitesList, MyLayouts, MySchedules, SectionLink, TrialsTable, UsersSummary } from "@/components/portal/home-sections";
 
 export const metadata: Metadata = { title: "Portal" };
 
@@ -11,12 +12,17 @@ export default async function PortalHome() {
   const viewer = await requireUser();
 
   if (viewer.role === "cooperator") {
-    const [schedules, sites] = await Promise.all([listMySchedules(viewer), listMySites(viewer)]);
+    const [schedules, sites, layouts] = await Promise.all([listMySchedules(viewer), listMySites(viewer), listMyLayouts(viewer)]);
     return (
       <div className="space-y-6">
         <h1 className="text-3xl font-bold">Hello, {viewer.name.split(" ")[0]}</h1>
         <p className="text-loam-700">Your sites and the counts due next. Dates follow your own sowing date.</p>
         <MySchedules schedules={schedules} sites={sites} />
+        {layouts.length > 0 && (
+          <Card title="Maps, labels and data sheets">
+            <MyLayouts layouts={layouts} />
+          </Card>
+        )}
       </div>
     );
   }

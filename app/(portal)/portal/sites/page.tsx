@@ -1,0 +1,24 @@
+import type { Metadata } from "next";
+import { requireRole } from "@/lib/auth/guards";
+import { listSitesForStaff } from "@/db/queries/sites";
+import { Card } from "@/components/ui/card";
+import { SiteTable } from "@/components/sites/site-table";
+import { SiteForm } from "@/components/sites/site-form";
+
+export const metadata: Metadata = { title: "Sites" };
+
+export default async function SitesPage() {
+  const viewer = await requireRole("coordinator", "admin");
+  const sites = await listSitesForStaff(viewer);
+  return (
+    <div className="space-y-6">
+      <h1 className="text-3xl font-bold">Partner sites</h1>
+      <Card>
+        <SiteTable rows={sites} />
+      </Card>
+      <Card title="Add a site">
+        <SiteForm />
+      </Card>
+    </div>
+  );
+}

@@ -1,0 +1,11 @@
+import type { BadgeTone } from "@/components/ui/badge";
+import type { TrialStatus } from "@/db/schema/enums";
+
+export const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
+  draft: "neutral",
+  open: "info",
+  collecting: "info",
+  analysing: "warn",
+  published: "good",
+  archived: "neutral",
+};

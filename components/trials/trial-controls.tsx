@@ -1,0 +1,111 @@
+"use client";
+import { useActionState, useState } from "react";
+import { SelectField, TextField } from "@/components/ui/field";
+import { CheckboxField } from "@/components/ui/checkbox-field";
+import { SubmitButton } from "@/components/ui/submit-button";
+import { FormMessage } from "@/components/ui/form-message";
+import { addEntry, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/lib/actions/trials";
+import type { TrialStatus } from "@/db/schema/enums";
+import { STATUS_LABELS } from "@/lib/labels";
+
+export function AddEntryForm({ trialId, varieties }: { trialId: number; varieties: { id: number; name: string; lots: { id: number; label: string }[] }[] }) {
+  const [state, action] = useActionState(addEntry, null);
+  const f = state && !state.ok ? state : null;
+  const [varietyId, setVarietyId] = useState(f?.values?.varietyId ?? "");
+  const lots = varieties.find((v) => String(v.id) === varietyId)?.lots ?? [];
+  return (
+    <form action={action} noValidate className="space-y-3" key={state?.ok ? `saved-${state.message}` : "editing"}>
+      <input type="hidden" name="trialId" value={trialId} />
+      <SelectField label="Variety" name="varietyId" value={varietyId} onChange={(e) => setVarietyId(e.target.value)} errors={f?.fieldErrors?.varietyId}>
+        <option value="">Choose…</option>
+        {varieties.map((v) => (
+          <option key={v.id} value={v.id}>
+            {v.name}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField label="Seed lot" name="seedLotId" defaultValue={f?.values?.seedLotId ?? ""} errors={f?.fieldErrors?.seedLotId} key={varietyId}>
+        <option value="">{lots.length ? "Choose…" : "No lot recorded yet"}</option>
+        {lots.map((l) => (
+          <option key={l.id} value={l.id}>
+            {l.label}
+          </option>
+        ))}
+      </SelectField>
+      <CheckboxField label="Local check variety" name="isCheck" defaultChecked={f?.values?.isCheck === "on"} hint="The standard the others are compared with." />
+      <FormMessage state={state} />
+      <SubmitButton>Add entry</SubmitButton>
+    </form>
+  );
+}
+
+export function RemoveEntryButton({ trialId, entryId, label }: { trialId: number; entryId: number; label: string }) {
+  const [state, action] = useActionState(removeEntry, null);
+  return (
+    <form action={action}>
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="entryId" value={entryId} />
+      <SubmitButton variant="ghost" pendingText="Removing…">
+        <span className="sr-only">Remove {label}</span>
+        <span aria-hidden>Remove</span>
+      </SubmitButton>
+      {state && !state.ok && <p className="text-sm text-beet-700">{state.formError}</p>}
+    </form>
+  );
+}
+
+export function EnrolSiteForm({ trialId, sites }: { trialId: number; sites: { id: number; name: string; region: string }[] }) {
+  const [state, action] = useActionState(enrolSite, null);
+  const f = state && !state.ok ? state : null;
+  return (
+    <form action={action} noValidate className="space-y-3" key={state?.ok ? `saved-${state.message}` : "editing"}>
+      <input type="hidden" name="trialId" value={trialId} />
+      <SelectField label="Site" name="siteId" defaultValue={f?.values?.siteId ?? ""} errors={f?.fieldErrors?.siteId}>
+        <option value="">Choose…</option>
+        {sites.map((s) => (
+          <option key={s.id} value={s.id}>
+            {s.name} ({s.region})
+          </option>
+        ))}
+      </SelectField>
+      <TextField label="Planned sowing date (optional)" name="sownOn" type="date" defaultValue={f?.values?.sownOn} errors={f?.fieldErrors?.sownOn} />
+      <FormMessage state={state} />
+      <SubmitButton pendingText="Enrolling…">Enrol site</SubmitButton>
+    </form>
+  );
+}
+
+export function RandomiseButton({ trialId, siteId, again, siteName }: { trialId: number; siteId: number; again: boolean; siteName: string }) {
+  const [state, action] = useActionState(randomiseSite, null);
+  return (
+    <form
+      action={action}
+      onSubmit={(e) => {
+        if (again && !window.confirm(`Draw a new layout for ${siteName}? Printed maps and labels for this site will no longer match.`)) e.preventDefault();
+      }}
+      className="space-y-1"
+    >
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="siteId" value={siteId} />
+      <SubmitButton variant={again ? "secondary" : "primary"} pendingText="Randomising…">
+        {again ? "Re-randomise" : "Randomise"}
+        <span className="sr-only"> {siteName}</span>
+      </SubmitButton>
+      <FormMessage state={state} />
+    </form>
+  );
+}
+
+export function StatusButton({ trialId, to, label }: { trialId: number; to: TrialStatus; label?: string }) {
+  const [state, action] = useActionState(changeTrialStatus, null);
+  return (
+    <form action={action} className="space-y-2">
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="status" value={to} />
+      <SubmitButton variant="secondary" pendingText="Saving…">
+        {label ?? `Move to “${STATUS_LABELS[to]}”`}
+      </SubmitButton>
+      <FormMessage state={state} />
+    </form>
+  );
+}

@@ -1,0 +1,96 @@
+"use client";
+import { useActionState, useState } from "react";
+import { TextField, SelectField } from "@/components/ui/field";
+import { SubmitButton } from "@/components/ui/submit-button";
+import { FormMessage } from "@/components/ui/form-message";
+import { createTrial } from "@/lib/actions/trials";
+import { PLOT_UNITS, TRIAL_DESIGNS } from "@/db/schema/enums";
+import { DESIGN_LABELS, PLOT_UNIT_LABELS } from "@/lib/labels";
+
+interface Options {
+  seasons: { id: number; name: string; program: string }[];
+  crops: { id: number; name: string }[];
+  traits: { id: number; name: string; unit: string | null; dueNote: string | null; dueDaysAfterSowing: number[] | null }[];
+}
+
+export function TrialForm({ options }: { options: Options }) {
+  const [state, action] = useActionState(createTrial, null);
+  const f = state && !state.ok ? state : null;
+  const [plotUnit, setPlotUnit] = useState(f?.values?.plotUnit ?? "insert");
+  return (
+    <form action={action} noValidate className="grid gap-4 sm:grid-cols-2">
+      <SelectField label="Season" name="seasonId" defaultValue={f?.values?.seasonId ?? ""} errors={f?.fieldErrors?.seasonId}>
+        <option value="">Choose…</option>
+        {options.seasons.map((s) => (
+          <option key={s.id} value={s.id}>
+            {s.name} · {s.program}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField label="Crop" name="cropId" defaultValue={f?.values?.cropId ?? ""} errors={f?.fieldErrors?.cropId}>
+        <option value="">Choose…</option>
+        {options.crops.map((c) => (
+          <option key={c.id} value={c.id}>
+            {c.name}
+          </option>
+        ))}
+      </SelectField>
+      <TextField label="Trial code" name="code" hint="Short and unique, e.g. TV27-KAL" defaultValue={f?.values?.code} errors={f?.fieldErrors?.code} />
+      <TextField label="Title" name="title" defaultValue={f?.values?.title} errors={f?.fieldErrors?.title} />
+      <TextField label="Purpose (the question the trial answers)" name="purpose" className="sm:col-span-2" defaultValue={f?.values?.purpose} errors={f?.fieldErrors?.purpose} />
+      <SelectField label="Design" name="design" defaultValue={f?.values?.design ?? "rcbd"} errors={f?.fieldErrors?.design}>
+        {TRIAL_DESIGNS.map((d) => (
+          <option key={d} value={d}>
+            {DESIGN_LABELS[d]}
+          </option>
+        ))}
+      </SelectField>
+      <TextField
+        label="Blocks (replicates) per site"
+        name="blocks"
+        inputMode="numeric"
+        hint="Four or more is the usual minimum."
+        defaultValue={f?.values?.blocks ?? "4"}
+        errors={f?.fieldErrors?.blocks}
+      />
+      <SelectField label="Plot unit" name="plotUnit" value={plotUnit} onChange={(e) => setPlotUnit(e.target.value)} errors={f?.fieldErrors?.plotUnit}>
+        {PLOT_UNITS.map((u) => (
+          <option key={u} value={u}>
+            {PLOT_UNIT_LABELS[u]}
+          </option>
+        ))}
+      </SelectField>
+      <TextField
+        key={plotUnit}
+        label={plotUnit === "bed_row" ? "Plants per bed-row plot" : "Cells per plot"}
+        name="plotSize"
+        inputMode="numeric"
+        hint={plotUnit === "insert" ? "A six-cell insert has 6 cells." : plotUnit === "cells" ? "At most 72 (one 1020 flat)." : undefined}
+        defaultValue={f?.values?.plotSize ?? (plotUnit === "insert" ? "6" : plotUnit === "cells" ? "12" : "10")}
+        readOnly={plotUnit === "insert"}
+        errors={f?.fieldErrors?.plotSize}
+      />
+      <TextField label="Seeds per cell" name="seedsPerCell" inputMode="numeric" defaultValue={f?.values?.seedsPerCell ?? "1"} errors={f?.fieldErrors?.seedsPerCell} />
+      <TextField label="Protocol notes for growers (optional)" name="protocol" className="sm:col-span-2" defaultValue={f?.values?.protocol} errors={f?.fieldErrors?.protocol} />
+      <fieldset className="sm:col-span-2">
+        <legend className="text-sm font-semibold">Traits to record</legend>
+        {f?.fieldErrors?.traitIds && <p className="text-sm font-medium text-beet-700">{f.fieldErrors.traitIds.join(" ")}</p>}
+        <div className="mt-2 grid gap-2 sm:grid-cols-2">
+          {options.traits.map((t) => (
+            <label key={t.id} className="flex items-start gap-2 text-sm">
+              <input type="checkbox" name={`trait_${t.id}`} defaultChecked={f?.values?.[`trait_${t.id}`] === "on"} className="mt-1 size-5 accent-sprout-600" />
+              <span>
+                <span className="font-semibold">{t.name}</span>
+                <span className="block text-loam-700">{t.dueDaysAfterSowing?.length ? `Days ${t.dueDaysAfterSowing.join(", ")} after sowing` : (t.dueNote ?? "")}</span>
+              </span>
+            </label>
+          ))}
+        </div>
+      </fieldset>
+      <div className="space-y-3 sm:col-span-2">
+        <FormMessage state={state} />
+        <SubmitButton>Create draft trial</SubmitButton>
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,34 @@
+"use client";
+import Link from "next/link";
+import type { ColumnDef } from "@tanstack/react-table";
+import { DataTable } from "@/components/ui/data-table";
+import { Badge } from "@/components/ui/badge";
+import { STATUS_LABELS } from "@/lib/labels";
+import type { listTrialsForViewer } from "@/db/queries/overview";
+import { STATUS_TONE } from "./status-tone";
+
+type Row = Awaited<ReturnType<typeof listTrialsForViewer>>[number];
+
+const columns: ColumnDef<Row, unknown>[] = [
+  {
+    accessorKey: "title",
+    header: "Trial",
+    cell: (c) => (
+      <>
+        <Link href={`/portal/trials/${c.row.original.id}`} className="font-semibold">
+          {c.row.original.title}
+        </Link>
+        <span className="block font-mono text-xs text-loam-700">{c.row.original.code}</span>
+      </>
+    ),
+  },
+  { accessorKey: "crop", header: "Crop" },
+  { accessorKey: "season", header: "Season" },
+  { accessorKey: "entries", header: "Entries" },
+  { accessorKey: "sites", header: "Sites" },
+  { id: "status", accessorFn: (r) => STATUS_LABELS[r.status], header: "Status", cell: (c) => <Badge tone={STATUS_TONE[c.row.original.status]}>{STATUS_LABELS[c.row.original.status]}</Badge> },
+];
+
+export function TrialList({ rows }: { rows: Row[] }) {
+  return <DataTable data={rows} columns={columns} caption="Trials in your programs" filterLabel="Filter trials" empty="No trials yet. Create the first one." />;
+}

@@ -1,0 +1,16 @@
+/** A labelled checkbox; sends "on" when ticked, which the shared zod `checkbox` reads as true. */
+export function CheckboxField({ label, name, defaultChecked, hint }: { label: string; name: string; defaultChecked?: boolean; hint?: string }) {
+  return (
+    <div className="flex items-start gap-2">
+      <input id={name} name={name} type="checkbox" defaultChecked={defaultChecked} className="mt-1 size-5 accent-sprout-600" aria-describedby={hint ? `${name}-hint` : undefined} />
+      <label htmlFor={name} className="text-sm">
+        <span className="font-semibold">{label}</span>
+        {hint && (
+          <span id={`${name}-hint`} className="block text-loam-700">
+            {hint}
+          </span>
+        )}
+      </label>
+    </div>
+  );
+}

@@ -1,0 +1,124 @@
+"use client";
+import { useState } from "react";
+import {
+  flexRender,
+  getCoreRowModel,
+  getFilteredRowModel,
+  getPaginationRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type ColumnDef,
+  type SortingState,
+} from "@tanstack/react-table";
+import { Button } from "./button";
+
+/**
+ * A sortable, filterable, paginated table. Column headers are buttons so sorting works from the keyboard,
+ * and aria-sort tells screen readers the current order.
+ */
+export function DataTable<T>({
+  data,
+  columns,
+  caption,
+  filterLabel = "Filter",
+  pageSize = 15,
+  empty = "Nothing here yet.",
+}: {
+  data: T[];
+  columns: ColumnDef<T, unknown>[];
+  caption: string;
+  filterLabel?: string;
+  pageSize?: number;
+  empty?: string;
+}) {
+  const [sorting, setSorting] = useState<SortingState>([]);
+  const [filter, setFilter] = useState("");
+  const table = useReactTable({
+    data,
+    columns,
+    state: { sorting, globalFilter: filter },
+    onSortingChange: setSorting,
+    onGlobalFilterChange: setFilter,
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+    getFilteredRowModel: getFilteredRowModel(),
+    getPaginationRowModel: getPaginationRowModel(),
+    initialState: { pagination: { pageSize } },
+  });
+  const filterId = `filter-${caption.replace(/\W+/g, "-").toLowerCase()}`;
+  const rows = table.getRowModel().rows;
+  return (
+    <div className="space-y-3">
+      <div className="no-print max-w-xs">
+        <label htmlFor={filterId} className="block text-sm font-semibold">
+          {filterLabel}
+        </label>
+        <input
+          id={filterId}
+          type="search"
+          value={filter}
+          onChange={(e) => setFilter(e.target.value)}
+          className="block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3 py-2"
+        />
+      </div>
+      <div className="overflow-x-auto">
+        <table className="w-full text-left text-sm">
+          <caption className="sr-only">{caption}</caption>
+          <thead className="border-b border-husk-200 text-loam-700">
+            {table.getHeaderGroups().map((group) => (
+              <tr key={group.id}>
+                {group.headers.map((header) => {
+                  const sorted = header.column.getIsSorted();
+                  return (
+                    <th key={header.id} scope="col" className="py-2 pr-3" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
+                      {header.isPlaceholder ? null : header.column.getCanSort() ? (
+                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 font-semibold hover:text-loam-900">
+                          {flexRender(header.column.columnDef.header, header.getContext())}
+                          <span aria-hidden>{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                        </button>
+                      ) : (
+                        flexRender(header.column.columnDef.header, header.getContext())
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {rows.length === 0 ? (
+              <tr>
+                <td colSpan={columns.length} className="py-4 text-loam-700">
+                  {filter ? "No rows match the filter." : empty}
+                </td>
+              </tr>
+            ) : (
+              rows.map((row) => (
+                <tr key={row.id} className="border-b border-husk-100 align-top">
+                  {row.getVisibleCells().map((cell) => (
+                    <td key={cell.id} className="py-2 pr-3">
+                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                    </td>
+                  ))}
+                </tr>
+              ))
+            )}
+          </tbody>
+        </table>
+      </div>
+      {table.getPageCount() > 1 && (
+        <div className="no-print flex flex-wrap items-center gap-3 text-sm">
+          <Button variant="secondary" type="button" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()}>
+            Previous
+          </Button>
+          <span>
+            Page {table.getState().pagination.pageIndex + 1} of {table.getPageCount()} · {table.getFilteredRowModel().rows.length} rows
+          </span>
+          <Button variant="secondary" type="button" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()}>
+            Next
+          </Button>
+        </div>
+      )}
+    </div>
+  );
+}
