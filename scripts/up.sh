@@ -28,6 +28,7 @@ bash scripts/db.sh start dev
 
 cleanup() {
   log "Stopping"
+  stop_pidfile "$ROOT/.data/next.pid"
   stop_pidfile "$ROOT/.data/fake-smtp.pid"
   bash "$ROOT/scripts/db.sh" stop dev
 }
@@ -48,4 +49,7 @@ fi
 
 log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md). Ctrl-C to stop."
 require_free_port "$PORT" PORT
-node_modules/.bin/next start -H 127.0.0.1 -p "$PORT"
+# In the background with `wait`, so Ctrl-C or a TERM to this script stops everything at once.
+setsid node_modules/.bin/next start -H 127.0.0.1 -p "$PORT" &
+echo $! > .data/next.pid
+wait "$(cat .data/next.pid)"
