@@ -8,7 +8,8 @@ import { env } from "@/lib/env";
 export default async function PortalLayout({ children }: { children: React.ReactNode }) {
   const viewer = await requireUser();
   const staff = viewer.role !== "cooperator";
-  const links: [string, string][] = [["/portal", "Home"]];
+  const links: [string, string][] = [["/portal", "Home"], ["/portal/record", "Record data"]];
+  if (staff) links.push(["/portal/review", "Review"]);
   if (staff) links.push(["/portal/trials", "Trials"], ["/portal/sites", "Sites"], ["/portal/catalogue", "Catalogue"], ["/portal/cooperators", "Growers"]);
   if (viewer.role === "admin") links.push(["/portal/admin/users", "Users & roles"]);
   if (staff && env.MAIL_MODE === "capture") links.push(["/portal/mailbox", "Test mailbox"]);

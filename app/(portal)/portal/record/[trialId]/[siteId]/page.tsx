@@ -1,0 +1,73 @@
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requireUser } from "@/lib/auth/guards";
+import { getRecordingSheet } from "@/db/queries/observations";
+import { idParam } from "@/lib/validation/common";
+import { EntryForm } from "@/components/record/entry-form";
+import { DuePanel, lockMessage, SiteHeader } from "@/components/record/site-panels";
+import { displayValue } from "@/lib/observations/values";
+import { buttonClasses } from "@/components/ui/button";
+
+export const dynamic = "force-dynamic";
+
+export default async function RecordSitePage({ params, searchParams }: { params: Promise<{ trialId: string; siteId: string }>; searchParams: Promise<{ plot?: string }> }) {
+  const viewer = await requireUser();
+  const p = await params;
+  const trialId = idParam.safeParse(p.trialId);
+  const siteId = idParam.safeParse(p.siteId);
+  if (!trialId.success || !siteId.success) notFound();
+  const sheet = await getRecordingSheet(viewer, { trialId: trialId.data, siteId: siteId.data });
+  if (!sheet) notFound();
+
+  const plotFilter = idParam.safeParse((await searchParams).plot);
+  const plots = plotFilter.success ? sheet.plots.filter((x) => x.id === plotFilter.data) : sheet.plots;
+  const initial: Record<string, string> = {};
+  for (const [plotId, byKey] of Object.entries(sheet.values)) {
+    for (const [key, v] of Object.entries(byKey)) {
+      const col = sheet.columns.find((c) => c.key === key);
+      if (col) initial[`${plotId}:${key}`] = displayValue(col, v);
+    }
+  }
+  // Open the form on the oldest late count, else today's, else the first column.
+  const pending = sheet.due.find((d) => d.status === "late") ?? sheet.due.find((d) => d.status === "due_today");
+  const defaultColumn = (pending && sheet.columns.find((c) => c.traitId === pending.traitId && c.occasion === pending.occasion)?.key) ?? sheet.columns[0]?.key ?? "all";
+  const comments: Record<number, string[]> = {};
+  for (const c of sheet.comments) if (c.plotId) (comments[c.plotId] ??= []).push(c.body);
+  const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
+
+  return (
+    <div className="space-y-6">
+      <SiteHeader sheet={sheet} />
+      <DuePanel sheet={sheet} />
+      <div className="flex flex-wrap gap-2">
+        <a className={buttonClasses("secondary")} href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>
+          Download spreadsheet (.xlsx)
+        </a>
+        <Link className={buttonClasses("secondary")} href={`${base}/upload`}>
+          Upload a filled-in sheet
+        </Link>
+      </div>
+      {plotFilter.success && (
+        <p>
+          Showing one plot. <Link href={base}>Show all {sheet.plots.length} plots</Link>
+        </p>
+      )}
+      {plots.length === 0 ? (
+        <p className="text-loam-700">This site has no plot layout yet. Your coordinator lays out the plots before data can be recorded.</p>
+      ) : (
+        <EntryForm
+          trialId={sheet.enrolment.trialId}
+          siteId={sheet.enrolment.siteId}
+          columns={sheet.columns}
+          plots={plots}
+          initial={initial}
+          defaultColumn={plotFilter.success ? "all" : defaultColumn}
+          sownOn={sheet.enrolment.sownOn}
+          today={sheet.today}
+          locked={lockMessage(viewer.role, sheet)}
+          comments={comments}
+        />
+      )}
+    </div>
+  );
+}

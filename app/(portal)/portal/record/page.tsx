@@ -1,0 +1,23 @@
+import Link from "next/link";
+import { requireUser } from "@/lib/auth/guards";
+import { listRecordableSites } from "@/db/queries/observations";
+import { RecordableSitesList } from "@/components/record/sites-list";
+
+export const dynamic = "force-dynamic";
+
+export default async function RecordIndexPage() {
+  const viewer = await requireUser();
+  const sites = await listRecordableSites(viewer);
+  return (
+    <div className="space-y-6">
+      <div>
+        <h1 className="text-2xl font-bold text-loam-900">Record data</h1>
+        <p className="text-loam-700">Pick a site and trial. What is due today and anything late is listed first.</p>
+      </div>
+      <RecordableSitesList sites={sites} />
+      <p className="text-sm text-loam-700">
+        Scanning a plot label opens that plot directly. <Link href="/portal">Back to the portal home</Link>.
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,28 @@
+import { assertRole } from "@/lib/auth/guards";
+import { toResponse } from "@/lib/errors";
+import { getRecordingSheetForApi, saveObservationsForViewer } from "@/lib/observations/api";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+/** The data-entry sheet of one site as JSON (`?trialId=&siteId=`), for the client to refresh. */
+export async function GET(request: Request) {
+  try {
+    const viewer = await assertRole();
+    const search = new URL(request.url).searchParams;
+    return Response.json(await getRecordingSheetForApi(viewer, { trialId: search.get("trialId"), siteId: search.get("siteId") }), { headers: { "Cache-Control": "private, no-store" } });
+  } catch (e) {
+    return toResponse(e);
+  }
+}
+
+/** Saves values typed in the data-entry form; answers per-field problems with 400 and writes nothing then. */
+export async function POST(request: Request) {
+  try {
+    const viewer = await assertRole();
+    const body = await request.json().catch(() => null);
+    return Response.json(await saveObservationsForViewer(viewer, body));
+  } catch (e) {
+    return toResponse(e);
+  }
+}

@@ -1,0 +1,298 @@
+"use client";
+
+import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { cn } from "@/lib/cn";
+import { describeRange, type EntryColumn } from "@/lib/observations/columns";
+import { parseCell } from "@/lib/observations/values";
+import { Button } from "@/components/ui/button";
+
+export interface EntryPlot {
+  id: number;
+  plotCode: string;
+  block: number;
+  blindCode: string;
+  tray: number | null;
+  traySlot: number | null;
+}
+
+type SlotStatus = "saving" | "saved" | "queued" | "error";
+interface Pending {
+  plotId: number;
+  key: string;
+  value: string;
+}
+
+const RETRY_MS = 20_000;
+const slotOf = (plotId: number, key: string) => `${plotId}:${key}`;
+
+/**
+ * Plot-by-plot entry in layout order. Every value is saved on its own as soon as the grower leaves the
+ * field; a save that fails for want of a connection stays in this device's storage and is retried until it
+ * lands, so a dropped signal in the greenhouse never loses a count.
+ */
+export function EntryForm(props: {
+  trialId: number;
+  siteId: number;
+  columns: EntryColumn[];
+  plots: EntryPlot[];
+  initial: Record<string, string>;
+  defaultColumn: string;
+  sownOn: string | null;
+  today: string;
+  locked: string | null;
+  comments: Record<number, string[]>;
+}) {
+  const { trialId, siteId, columns, plots } = props;
+  const storageKey = `seedplot:unsaved:${trialId}:${siteId}`;
+  const [choice, setChoice] = useState(props.defaultColumn);
+  const [inputs, setInputs] = useState<Record<string, string>>(props.initial);
+  const [status, setStatus] = useState<Record<string, SlotStatus>>({});
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [queue, setQueue] = useState<Record<string, Pending>>({});
+  const [notice, setNotice] = useState<string | null>(null);
+  const saved = useRef<Record<string, string>>({ ...props.initial });
+  const inFlight = useRef(new Set<string>());
+
+  const shown = useMemo(() => (choice === "all" ? columns : columns.filter((c) => c.key === choice)), [choice, columns]);
+
+  const persist = useCallback(
+    (next: Record<string, Pending>) => {
+      try {
+        if (Object.keys(next).length === 0) localStorage.removeItem(storageKey);
+        else localStorage.setItem(storageKey, JSON.stringify(next));
+      } catch {
+        // Private browsing can refuse storage; the on-screen queue still retries while the page is open.
+      }
+    },
+    [storageKey],
+  );
+
+  const updateQueue = useCallback(
+    (fn: (q: Record<string, Pending>) => Record<string, Pending>) => {
+      setQueue((q) => {
+        const next = fn(q);
+        persist(next);
+        return next;
+      });
+    },
+    [persist],
+  );
+
+  const send = useCallback(
+    async (item: Pending) => {
+      const slot = slotOf(item.plotId, item.key);
+      if (inFlight.current.has(slot)) return;
+      inFlight.current.add(slot);
+      setStatus((s) => ({ ...s, [slot]: "saving" }));
+      try {
+        const res = await fetch("/api/observations", {
+          method: "POST",
+          headers: { "Content-Type": "application/json" },
+          body: JSON.stringify({ trialId, siteId, values: [{ plotId: item.plotId, key: item.key, value: item.value === "" ? null : item.value }] }),
+        });
+        if (res.ok) {
+          saved.current[slot] = item.value;
+          setStatus((s) => ({ ...s, [slot]: "saved" }));
+          setErrors((e) => {
+            const { [slot]: _gone, ...rest } = e;
+            return rest;
+          });
+          updateQueue((q) => {
+            // A newer value typed while this one was in flight stays queued.
+            if (q[slot]?.value !== item.value) return q;
+            const { [slot]: _done, ...rest } = q;
+            return rest;
+          });
+          return;
+        }
+        const body = (await res.json().catch(() => ({}))) as { error?: string; fieldErrors?: Record<string, string[]> };
+        if (res.status === 400 || res.status === 409 || res.status === 404 || res.status === 403) {
+          // The server refused the value itself: retrying would not help, the grower needs to fix it.
+          const message = body.fieldErrors?.[slot]?.join(" ") ?? body.error ?? "This value was not accepted.";
+          setErrors((e) => ({ ...e, [slot]: message }));
+          setStatus((s) => ({ ...s, [slot]: "error" }));
+          updateQueue((q) => {
+            const { [slot]: _drop, ...rest } = q;
+            return rest;
+          });
+          return;
+        }
+        if (res.status === 401) setNotice("You have been signed out. Your unsaved values are kept on this device; sign in again in another tab and press Retry.");
+        setStatus((s) => ({ ...s, [slot]: "queued" }));
+      } catch {
+        setStatus((s) => ({ ...s, [slot]: "queued" }));
+      } finally {
+        inFlight.current.delete(slot);
+      }
+    },
+    [trialId, siteId, updateQueue],
+  );
+
+  const retryAll = useCallback(() => {
+    setQueue((q) => {
+      for (const item of Object.values(q)) void send(item);
+      return q;
+    });
+  }, [send]);
+
+  // Values left unsaved on this device (page closed while offline) come back and are sent again.
+  useEffect(() => {
+    let stored: Record<string, Pending> = {};
+    try {
+      stored = JSON.parse(localStorage.getItem(storageKey) ?? "{}") as Record<string, Pending>;
+    } catch {
+      stored = {};
+    }
+    if (Object.keys(stored).length > 0) {
+      setQueue(stored);
+      setInputs((i) => ({ ...i, ...Object.fromEntries(Object.entries(stored).map(([k, v]) => [k, v.value])) }));
+      setStatus((s) => ({ ...s, ...Object.fromEntries(Object.keys(stored).map((k) => [k, "queued" as const])) }));
+      for (const item of Object.values(stored)) void send(item);
+    }
+    const onOnline = () => retryAll();
+    window.addEventListener("online", onOnline);
+    const timer = setInterval(retryAll, RETRY_MS);
+    return () => {
+      window.removeEventListener("online", onOnline);
+      clearInterval(timer);
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
+
+  function commit(plotId: number, column: EntryColumn, value: string) {
+    const slot = slotOf(plotId, column.key);
+    if ((saved.current[slot] ?? "") === value && !queue[slot]) return;
+    const parsed = parseCell(column, value, { sownOn: props.sownOn, today: props.today });
+    if (!parsed.ok) {
+      setErrors((e) => ({ ...e, [slot]: parsed.message }));
+      setStatus((s) => ({ ...s, [slot]: "error" }));
+      return;
+    }
+    setErrors((e) => {
+      const { [slot]: _ok, ...rest } = e;
+      return rest;
+    });
+    const item = { plotId, key: column.key, value };
+    updateQueue((q) => ({ ...q, [slot]: item }));
+    void send(item);
+  }
+
+  function focusNext(current: HTMLElement) {
+    const all = Array.from(document.querySelectorAll<HTMLElement>("[data-entry-input]"));
+    const i = all.indexOf(current);
+    all[i + 1]?.focus();
+  }
+
+  const queued = Object.keys(queue).length;
+  const visiblePlots = plots;
+
+  return (
+    <div className="space-y-4">
+      <div className="sticky top-0 z-10 -mx-4 space-y-3 border-b border-husk-200 bg-husk-50 px-4 py-3">
+        <div>
+          <label htmlFor="entry-column" className="block text-sm font-semibold text-loam-900">
+            What are you recording?
+          </label>
+          <select id="entry-column" value={choice} onChange={(e) => setChoice(e.target.value)} className="mt-1 block min-h-12 w-full rounded-lg border border-loam-300 bg-white px-3 text-base">
+            {columns.map((c) => (
+              <option key={c.key} value={c.key}>
+                {c.name}
+                {c.unit ? ` (${c.unit})` : ""}
+              </option>
+            ))}
+            <option value="all">All values, plot by plot</option>
+          </select>
+          {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">Valid: {describeRange(shown[0])}.</p>}
+        </div>
+        <div aria-live="polite" role="status" className="text-sm">
+          {queued > 0 ? (
+            <div className="flex flex-wrap items-center gap-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
+              <span className="font-semibold">
+                {queued} {queued === 1 ? "value is" : "values are"} not saved yet. They are kept on this device and retried automatically.
+              </span>
+              <Button type="button" variant="secondary" onClick={retryAll}>
+                Retry now
+              </Button>
+            </div>
+          ) : (
+            <span className="text-loam-700">Values save as you go.</span>
+          )}
+          {notice && <p className="mt-2 font-semibold text-beet-700">{notice}</p>}
+        </div>
+      </div>
+      {props.locked && <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 text-sky-800">{props.locked}</p>}
+      <ol className="space-y-3">
+        {visiblePlots.map((p) => (
+          <li key={p.id} id={`plot-${p.id}`} className="rounded-xl border border-husk-200 bg-white p-3 shadow-sm">
+            <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
+              <span className="font-mono text-lg font-bold text-loam-900">{p.plotCode}</span>
+              <span className="text-sm text-loam-700">
+                Block {p.block} · Code <span className="font-semibold">{p.blindCode}</span>
+                {p.tray !== null ? ` · Flat ${p.tray}, slot ${p.traySlot}` : ""}
+              </span>
+            </div>
+            {props.comments[p.id]?.map((c, i) => (
+              <p key={i} className="mb-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
+                Coordinator: {c}
+              </p>
+            ))}
+            <div className={cn("grid gap-3", choice === "all" && "sm:grid-cols-2")}>
+              {shown.map((c) => {
+                const slot = slotOf(p.id, c.key);
+                const id = `v-${p.id}-${c.key.replace(/[^A-Za-z0-9]/g, "_")}`;
+                const st = status[slot];
+                const err = errors[slot];
+                const common = {
+                  id,
+                  "data-entry-input": "",
+                  disabled: !!props.locked,
+                  "aria-invalid": err ? true : undefined,
+                  "aria-describedby": `${id}-state`,
+                  className: cn("block min-h-12 w-full rounded-lg border bg-white px-3 text-lg", err ? "border-beet-600" : "border-loam-300"),
+                };
+                return (
+                  <div key={c.key}>
+                    <label htmlFor={id} className={cn("block text-sm font-semibold text-loam-900", choice !== "all" && "sr-only")}>
+                      {choice !== "all" ? `${p.plotCode}: ` : ""}
+                      {c.name}
+                      {c.unit ? ` (${c.unit})` : ""}
+                    </label>
+                    {c.valueType === "yes_no" ? (
+                      <select {...common} value={inputs[slot] ?? ""} onChange={(e) => { setInputs((i) => ({ ...i, [slot]: e.target.value })); commit(p.id, c, e.target.value); }}>
+                        <option value="">—</option>
+                        <option value="yes">Yes</option>
+                        <option value="no">No</option>
+                      </select>
+                    ) : (
+                      <input
+                        {...common}
+                        type={c.valueType === "date" ? "date" : "text"}
+                        inputMode={c.valueType === "count" || c.valueType === "rating" ? "numeric" : c.valueType === "number" ? "decimal" : undefined}
+                        autoComplete="off"
+                        enterKeyHint="next"
+                        value={inputs[slot] ?? ""}
+                        onChange={(e) => setInputs((i) => ({ ...i, [slot]: e.target.value }))}
+                        onBlur={(e) => commit(p.id, c, e.target.value)}
+                        onKeyDown={(e) => {
+                          if (e.key === "Enter") {
+                            e.preventDefault();
+                            commit(p.id, c, (e.target as HTMLInputElement).value);
+                            focusNext(e.target as HTMLElement);
+                          }
+                        }}
+                      />
+                    )}
+                    <p id={`${id}-state`} className={cn("mt-1 min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
+                      {err ??
+                        (st === "saving" ? "Saving…" : st === "saved" ? "Saved" : st === "queued" ? "Not saved yet — will retry" : choice === "all" ? describeRange(c) : "")}
+                    </p>
+                  </div>
+                );
+              })}
+            </div>
+          </li>
+        ))}
+      </ol>
+    </div>
+  );
+}

@@ -1,0 +1,11 @@
+import type { BadgeTone } from "@/components/ui/badge";
+import type { SubmissionStatus } from "@/db/schema/enums";
+
+export const SUBMISSION_LABELS: Record<SubmissionStatus, string> = {
+  draft: "Being recorded",
+  submitted: "Sent for review",
+  returned: "Returned for corrections",
+  accepted: "Accepted",
+};
+
+export const SUBMISSION_TONES: Record<SubmissionStatus, BadgeTone> = { draft: "neutral", submitted: "info", returned: "warn", accepted: "good" };

@@ -1,0 +1,33 @@
+import Link from "next/link";
+import { Badge } from "@/components/ui/badge";
+import { formatDate } from "@/lib/labels";
+import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
+import type { listRecordableSites } from "@/db/queries/observations";
+
+type Sites = Awaited<ReturnType<typeof listRecordableSites>>;
+
+/** The viewer's sites in trials taking data, late ones first. */
+export function RecordableSitesList({ sites }: { sites: Sites }) {
+  if (sites.length === 0) return <p className="text-loam-700">No trials are taking data at your sites right now.</p>;
+  const ordered = [...sites].sort((a, b) => b.late.length - a.late.length || b.dueToday.length - a.dueToday.length);
+  return (
+    <ul className="space-y-3">
+      {ordered.map((s) => (
+        <li key={s.enrolmentId}>
+          <Link href={`/portal/record/${s.trialId}/${s.siteId}`} className="block rounded-xl border border-husk-200 bg-white p-4 no-underline shadow-sm hover:border-sprout-500">
+            <span className="flex flex-wrap items-center justify-between gap-2">
+              <span className="text-lg font-bold text-loam-900">{s.siteName}</span>
+              <Badge tone={SUBMISSION_TONES[s.submissionStatus ?? "draft"]}>{SUBMISSION_LABELS[s.submissionStatus ?? "draft"]}</Badge>
+            </span>
+            <span className="block text-loam-700">
+              {s.trialTitle} <span className="font-mono text-sm">{s.trialCode}</span> · sown {formatDate(s.sownOn)} · {s.plotCount} plots
+            </span>
+            {s.late.length > 0 && <span className="mt-1 block font-semibold text-beet-700">Late: {s.late.map((d) => `${d.traitName} day ${d.occasion}`).join(", ")}</span>}
+            {s.dueToday.length > 0 && <span className="mt-1 block font-semibold text-marigold-800">Due today: {s.dueToday.map((d) => `${d.traitName} day ${d.occasion}`).join(", ")}</span>}
+            {s.openComments > 0 && <span className="mt-1 block font-semibold text-sky-800">{s.openComments} comment(s) from your coordinator</span>}
+          </Link>
+        </li>
+      ))}
+    </ul>
+  );
+}

@@ -1,0 +1,208 @@
+import type { EntryColumn } from "./columns";
+
+// Turning what a grower typed (or a spreadsheet cell) into a stored value, with messages a grower
+// understands. Pure, so the browser gives the same answer as the server, which always re-checks.
+
+export interface CellValue {
+  valueNumber: number | null;
+  valueDate: string | null;
+  valueText: string | null;
+}
+
+export type ParseResult = { ok: true; value: CellValue | null } | { ok: false; message: string };
+
+export interface ParseContext {
+  /** The site's sowing date (YYYY-MM-DD); dates before it are refused. */
+  sownOn: string | null;
+  /** Today (YYYY-MM-DD); observation dates after it are refused. */
+  today: string;
+}
+
+/** Seedling counts that can never exceed the seeds sown in the same plot. */
+export const EMERGED_TRAIT_CODES = ["emergence_count", "emerged_final"];
+export const SEEDS_SOWN_CODE = "seeds_sown";
+export const MAX_TEXT = 1000;
+
+const MONTHS = ["january", "february", "march", "april", "may", "june", "july", "august", "september", "october", "november", "december"];
+const MONTH_NAMES = MONTHS.map((m) => m[0]!.toUpperCase() + m.slice(1));
+
+const num = (n: number): CellValue => ({ valueNumber: n, valueDate: null, valueText: null });
+const fail = (message: string): ParseResult => ({ ok: false, message });
+
+function isoFromParts(y: number, m: number, d: number): string | null {
+  if (m < 1 || m > 12 || d < 1 || d > 31 || y < 1900 || y > 2200) return null;
+  const date = new Date(Date.UTC(y, m - 1, d));
+  if (date.getUTCMonth() !== m - 1 || date.getUTCDate() !== d) return null;
+  return date.toISOString().slice(0, 10);
+}
+
+const spoken = (iso: string) => {
+  const [y, m, d] = iso.split("-").map(Number);
+  return `${d} ${MONTH_NAMES[m! - 1]} ${y}`;
+};
+
+/**
+ * Reads a date typed in any common unambiguous way. Day/month order is only guessed when one of the two
+ * numbers is above 12; "03/04/2026" could be either, so the grower is asked to write it as YYYY-MM-DD.
+ */
+export function parseDateText(raw: string): { ok: true; iso: string } | { ok: false; message: string } {
+  const s = raw.trim().replace(/\s+/g, " ");
+  const bad = { ok: false as const, message: `"${raw}" is not a date we can read. Write it like 2026-04-03.` };
+  let m = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})$/.exec(s);
+  if (m) {
+    const iso = isoFromParts(+m[1]!, +m[2]!, +m[3]!);
+    return iso ? { ok: true, iso } : bad;
+  }
+  m = /^(\d{1,2})[-/.](\d{1,2})[-/.](\d{2}|\d{4})$/.exec(s);
+  if (m) {
+    if (m[3]!.length === 2) return { ok: false, message: `"${raw}" has a two-digit year. Write the year in full, like 2026-04-03.` };
+    const a = +m[1]!;
+    const b = +m[2]!;
+    const y = +m[3]!;
+    if (a <= 12 && b <= 12 && a !== b) {
+      const dayFirst = isoFromParts(y, b, a);
+      const monthFirst = isoFromParts(y, a, b);
+      if (dayFirst && monthFirst) {
+        return { ok: false, message: `"${raw}" could be ${spoken(dayFirst)} or ${spoken(monthFirst)}. Write it as ${dayFirst} or ${monthFirst}.` };
+      }
+    }
+    const iso = a > 12 ? isoFromParts(y, b, a) : b > 12 ? isoFromParts(y, a, b) : isoFromParts(y, b, a);
+    return iso ? { ok: true, iso } : bad;
+  }
+  // "4 March 2026", "4 Mar 2026", "March 4, 2026", "Mar 4 2026"
+  const monthIndex = (word: string) => {
+    const w = word.toLowerCase().replace(/\.$/, "");
+    if (w.length < 3) return -1;
+    return MONTHS.findIndex((name) => name.startsWith(w));
+  };
+  m = /^(\d{1,2}) ([A-Za-z.]+),? (\d{4})$/.exec(s);
+  if (m && monthIndex(m[2]!) >= 0) {
+    const iso = isoFromParts(+m[3]!, monthIndex(m[2]!) + 1, +m[1]!);
+    return iso ? { ok: true, iso } : bad;
+  }
+  m = /^([A-Za-z.]+) (\d{1,2}),? (\d{4})$/.exec(s);
+  if (m && monthIndex(m[1]!) >= 0) {
+    const iso = isoFromParts(+m[3]!, monthIndex(m[1]!) + 1, +m[2]!);
+    return iso ? { ok: true, iso } : bad;
+  }
+  return bad;
+}
+
+/**
+ * Reads a number typed with a point or a decimal comma ("12,5"). A comma followed by exactly three
+ * digits ("1,250") could be a thousands separator or a decimal comma, so it is refused with both readings.
+ */
+export function parseNumberText(raw: string): { ok: true; n: number } | { ok: false; message: string } {
+  const s = raw.trim().replace(/\s/g, "");
+  if (/^[+-]?\d+(\.\d+)?$/.test(s)) return { ok: true, n: Number(s) };
+  if (/^[+-]?\.\d+$/.test(s)) return { ok: true, n: Number(s) };
+  const comma = /^([+-]?\d+),(\d+)$/.exec(s);
+  if (comma) {
+    if (comma[2]!.length === 3) {
+      return { ok: false, message: `"${raw}" could mean ${comma[1]}${comma[2]} or ${comma[1]}.${comma[2]}. Write it without the comma, or with a point for decimals.` };
+    }
+    return { ok: true, n: Number(`${comma[1]}.${comma[2]}`) };
+  }
+  return { ok: false, message: `"${raw}" is not a number. Type digits only, like 12 or 12.5.` };
+}
+
+function checkRange(c: EntryColumn, n: number): string | null {
+  const unit = c.unit ? ` ${c.unit}` : "";
+  if (c.valueType === "rating") {
+    if (!Number.isInteger(n) || (c.min !== null && n < c.min) || (c.max !== null && n > c.max)) {
+      return `Ratings are whole numbers from ${c.min ?? 1} to ${c.max ?? 9}; ${n} is not one of them.`;
+    }
+    return null;
+  }
+  if (c.valueType === "count" && !Number.isInteger(n)) return `${n} is not a whole number. Counts are whole numbers.`;
+  if (c.min !== null && n < c.min) return c.max !== null ? `${n} is outside the valid range ${c.min} to ${c.max}${unit}.` : `${n} is below the smallest valid value, ${c.min}${unit}.`;
+  if (c.max !== null && n > c.max) return c.min !== null ? `${n} is outside the valid range ${c.min} to ${c.max}${unit}.` : `${n} is above the largest valid value, ${c.max}${unit}.`;
+  return null;
+}
+
+function dateFromSheet(d: Date): string {
+  return d.toISOString().slice(0, 10);
+}
+
+/** Parses one value for one column. A blank value parses to null (it clears the value). */
+export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): ParseResult {
+  if (raw === null || raw === undefined) return { ok: true, value: null };
+  if (typeof raw === "string" && raw.trim() === "") return { ok: true, value: null };
+
+  switch (c.valueType) {
+    case "count":
+    case "number":
+    case "rating": {
+      let n: number;
+      if (typeof raw === "number") n = raw;
+      else if (typeof raw === "string") {
+        const parsed = parseNumberText(raw);
+        if (!parsed.ok) return fail(parsed.message);
+        n = parsed.n;
+      } else if (raw instanceof Date) return fail("This is a date, but a number belongs here.");
+      else return fail("A number belongs here.");
+      if (!Number.isFinite(n)) return fail("A number belongs here.");
+      const problem = checkRange(c, n);
+      return problem ? fail(problem) : { ok: true, value: num(n) };
+    }
+    case "date": {
+      let iso: string;
+      if (raw instanceof Date) {
+        if (Number.isNaN(raw.getTime())) return fail("This is not a date we can read. Write it like 2026-04-03.");
+        iso = dateFromSheet(raw);
+      } else if (typeof raw === "string") {
+        const parsed = parseDateText(raw);
+        if (!parsed.ok) return fail(parsed.message);
+        iso = parsed.iso;
+      } else return fail(`${String(raw)} is not a date. Write it like 2026-04-03.`);
+      if (ctx.sownOn && iso < ctx.sownOn) return fail(`${iso} is before the sowing date (${ctx.sownOn}). Check the date.`);
+      if (iso > ctx.today) return fail(`${iso} is in the future. Record a date once it has happened.`);
+      return { ok: true, value: { valueNumber: null, valueDate: iso, valueText: null } };
+    }
+    case "yes_no": {
+      const s = String(raw).trim().toLowerCase();
+      if (["yes", "y", "1", "true"].includes(s)) return { ok: true, value: num(1) };
+      if (["no", "n", "0", "false"].includes(s)) return { ok: true, value: num(0) };
+      return fail(`"${String(raw)}" is not yes or no. Write yes or no.`);
+    }
+    case "text": {
+      const s = raw instanceof Date ? dateFromSheet(raw) : String(raw).trim();
+      if (s.length > MAX_TEXT) return fail(`This note is ${s.length} characters long; keep it under ${MAX_TEXT}.`);
+      return { ok: true, value: { valueNumber: null, valueDate: null, valueText: s } };
+    }
+  }
+}
+
+/**
+ * Checks between values of one plot: seedlings emerged can never exceed seeds sown. Problems are
+ * reported on the changed value, so the grower sees the message where they just typed.
+ */
+export function crossCheckPlot(columns: EntryColumn[], values: Map<string, CellValue | null>, changed: Set<string>): { key: string; message: string }[] {
+  const sownCol = columns.find((c) => c.traitCode === SEEDS_SOWN_CODE);
+  const sown = sownCol ? values.get(sownCol.key)?.valueNumber ?? null : null;
+  if (sown === null || !sownCol) return [];
+  const out: { key: string; message: string }[] = [];
+  for (const c of columns) {
+    if (!EMERGED_TRAIT_CODES.includes(c.traitCode)) continue;
+    const emerged = values.get(c.key)?.valueNumber ?? null;
+    if (emerged === null || emerged <= sown) continue;
+    const message = `${emerged} seedlings emerged is more than the ${sown} seeds sown in this plot. Check both numbers.`;
+    if (changed.has(c.key)) out.push({ key: c.key, message });
+    else if (changed.has(sownCol.key)) out.push({ key: sownCol.key, message });
+  }
+  return out;
+}
+
+export const sameValue = (a: CellValue | null, b: CellValue | null): boolean =>
+  (a?.valueNumber ?? null) === (b?.valueNumber ?? null) && (a?.valueDate ?? null) === (b?.valueDate ?? null) && (a?.valueText ?? null) === (b?.valueText ?? null);
+
+export const isBlank = (v: CellValue | null): boolean => v === null || (v.valueNumber === null && v.valueDate === null && v.valueText === null);
+
+/** The value as a grower would type it, for inputs and previews. */
+export function displayValue(c: Pick<EntryColumn, "valueType">, v: CellValue | null): string {
+  if (!v) return "";
+  if (c.valueType === "date") return v.valueDate ?? "";
+  if (c.valueType === "text") return v.valueText ?? "";
+  if (c.valueType === "yes_no") return v.valueNumber === null ? "" : v.valueNumber ? "yes" : "no";
+  return v.valueNumber === null ? "" : String(v.valueNumber);
+}

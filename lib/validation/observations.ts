@@ -1,0 +1,23 @@
+import { z } from "zod";
+import { idParam } from "./common";
+
+// Requests from the data-entry form and the review page. Values stay strings here: how a string becomes a
+// count, date or rating depends on the trait, which lib/observations/values.ts decides with the trait row.
+
+export const saveObservationsSchema = z.object({
+  trialId: idParam,
+  siteId: idParam,
+  values: z
+    .array(
+      z.object({
+        plotId: z.number({ error: "Each value needs its plot." }).int().positive(),
+        key: z.string().min(1).max(80),
+        value: z.string().max(2000, "That value is too long.").nullable(),
+      }),
+    )
+    .min(1, "There is nothing to save.")
+    .max(1000, "Save at most 1,000 values at a time."),
+});
+export type SaveObservationsInput = z.infer<typeof saveObservationsSchema>;
+
+export const siteParamsSchema = z.object({ trialId: idParam, siteId: idParam });
