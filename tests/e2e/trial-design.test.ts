@@ -1,0 +1,86 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { execFileSync } from "node:child_process";
+import { existsSync, mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import type { Browser } from "playwright-core";
+import { launchBrowser, newPage, signIn } from "../helpers/browser";
+import { unique } from "../helpers/db";
+
+let browser: Browser;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("coordinator sets up a trial in the browser", () => {
+  it("creates a trial with four entries, enrols two sites, randomises and downloads a map with every blind code", async () => {
+    const { page, context } = await newPage(browser);
+    try {
+      await signIn(page, "rosa.delgado@tamarack-valley.example", "seedplot-coordinator-demo");
+      await page.goto("/portal/trials/new");
+      await page.getByLabel("Season").selectOption({ index: 1 });
+      await page.getByLabel("Crop", { exact: true }).selectOption({ label: "Lettuce" });
+      const code = unique("E2E").toUpperCase().replace(/[^A-Z0-9-]/g, "").slice(0, 30);
+      await page.getByLabel("Trial code").fill(code);
+      await page.getByLabel("Title").fill("Browser-made lettuce trial");
+      await page.getByLabel("Blocks (replicates) per site").fill("3");
+      await page.getByLabel(/Seedlings emerged \(count\)/).check();
+      await page.getByRole("button", { name: "Create draft trial" }).click();
+      await page.waitForURL(/\/portal\/trials\/\d+$/, { timeout: 30_000 });
+
+      for (let i = 0; i < 4; i += 1) {
+        await page.getByLabel("Variety", { exact: true }).selectOption({ index: 1 });
+        await page.getByRole("button", { name: "Add entry" }).click();
+        await expect.poll(() => page.getByRole("cell", { name: /^[A-Z0-9]{3}$/ }).count(), { timeout: 20_000 }).toBe(i + 1);
+      }
+
+      for (let i = 0; i < 2; i += 1) {
+        await page.getByLabel("Site", { exact: true }).selectOption({ index: 1 });
+        await page.getByRole("button", { name: "Enrol site" }).click();
+        await expect.poll(() => page.getByText("Not laid out yet").count(), { timeout: 20_000 }).toBe(i + 1);
+      }
+
+      for (let i = 0; i < 2; i += 1) {
+        await page.getByRole("button", { name: /^Randomise/ }).first().click();
+        await expect.poll(() => page.getByRole("link", { name: "Layout and printables" }).count(), { timeout: 20_000 }).toBe(i + 1);
+      }
+
+      await page.getByRole("link", { name: "Layout and printables" }).first().click();
+      await page.waitForURL(/\/sites\/\d+$/);
+      const codes = [...new Set((await page.locator("tbody td.font-mono").allTextContents()).map((t) => t.trim()))];
+      expect(codes).toHaveLength(4);
+      const href = await page.getByRole("link", { name: /map \(PDF\)/ }).getAttribute("href");
+      const response = await page.request.get(href!);
+      expect(response.status()).toBe(200);
+      expect(response.headers()["content-type"]).toBe("application/pdf");
+
+      const dir = mkdtempSync(path.join(tmpdir(), "seedplot-e2e-"));
+      const file = path.join(dir, "map.pdf");
+      writeFileSync(file, await response.body());
+      execFileSync("pdftoppm", ["-png", "-r", "50", "-f", "1", "-l", "1", file, path.join(dir, "map")]);
+      expect(existsSync(path.join(dir, "map-1.png"))).toBe(true);
+      const text = execFileSync("pdftotext", [file, "-"]).toString();
+      for (const c of codes) expect(text).toContain(c);
+    } finally {
+      await context.close();
+    }
+  }, 120_000);
+
+  it("keeps a grower out of another site's printables", async () => {
+    const { page, context } = await newPage(browser);
+    try {
+      await signIn(page, "tomas@willowbend.example", "seedplot-grower-demo");
+      const response = await page.request.get("/portal/trials/999999/sites/999999/sheets?kind=map");
+      expect(response.status()).toBe(404);
+      const bad = await page.request.get("/portal/trials/1/sites/1/sheets?kind=poster");
+      expect(bad.status()).toBe(400);
+    } finally {
+      await context.close();
+    }
+  }, 60_000);
+});
