@@ -13,6 +13,9 @@ const inter = localFont({
   display: "swap",
 });
 
+// Every page is rendered per request so Next can put the CSP nonce from proxy.ts on its scripts.
+export const dynamic = "force-dynamic";
+
 export const metadata: Metadata = {
   title: { default: "Seedplot · On-farm variety trials", template: "%s · Seedplot" },
   description:
