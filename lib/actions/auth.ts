@@ -9,6 +9,8 @@ import { passwordResetMail } from "@/lib/mail/templates";
 import { deliverSoon } from "@/lib/mail/outbox";
 import { env } from "@/lib/env";
 import type { Viewer } from "@/lib/auth/types";
+import { consumeRateLimit } from "@/lib/auth/throttle";
+import { requestAddress } from "@/lib/auth/request-address";
 
 /** An invited grower chooses their name and password through the link in their invitation. */
 export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
@@ -23,6 +25,16 @@ export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | nul
 export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
   { roles: "public", schema: forgotPasswordSchema },
   async (input) => {
+    const sameAnswer = { ok: true as const, message: "If that e-mail belongs to a Seedplot account, a reset link is on its way. It works for one hour." };
+    const allowed = await consumeRateLimit(
+      [
+        { key: `reset-to:${input.email}`, max: 3 },
+        { key: `reset-from:${await requestAddress()}`, max: 20 },
+      ],
+      60,
+    );
+    // Past the limit the answer stays the same, so it reveals nothing, but no more mail is sent.
+    if (!allowed) return sameAnswer;
     const token = newToken();
     const queued = await insertPasswordReset({
       email: input.email,
@@ -30,7 +42,7 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
       buildMail: (name) => passwordResetMail({ to: input.email, name, link: `${env.APP_URL}/reset-password/${token}` }),
     });
     if (queued) await deliverSoon();
-    return { ok: true, message: "If that e-mail belongs to a Seedplot account, a reset link is on its way. It works for one hour." };
+    return sameAnswer;
   },
 );
 

@@ -9,9 +9,18 @@ import { deliverSoon } from "@/lib/mail/outbox";
 import { canChangeRole } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
+import { consumeRateLimit } from "@/lib/auth/throttle";
 
 /** A coordinator invites a partner grower by e-mail, optionally attaching them to a site. */
 export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], schema: inviteCooperatorSchema }, async (input, viewer) => {
+  const allowed = await consumeRateLimit(
+    [
+      { key: `invite-by:${viewer.id}`, max: 40 },
+      { key: `invite-to:${input.email}`, max: 3 },
+    ],
+    60,
+  );
+  if (!allowed) throw new AppError("too_many_requests", "Too many invitations in the last hour. Please wait before sending more.");
   const token = newToken();
   await insertCooperatorInvite({
     actorId: viewer.id,

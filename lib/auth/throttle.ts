@@ -24,3 +24,17 @@ export async function isThrottled(email: string, address: string): Promise<boole
 export async function recordAttempt(email: string, address: string, succeeded: boolean) {
   await insertSignInAttempt([accountKey(email), addressKey(address)], succeeded);
 }
+
+/**
+ * Counts one use of a rate-limited action under each key and refuses (returns false) once any key has
+ * reached its limit within the window. Used for invitations and password-reset mails, so nobody can
+ * flood an inbox through Seedplot.
+ */
+export async function consumeRateLimit(limits: { key: string; max: number }[], windowMinutes: number): Promise<boolean> {
+  const since = new Date(Date.now() - windowMinutes * 60_000);
+  const counts = await Promise.all(limits.map((l) => countRecentFailures(`rate:${l.key}`, since)));
+  if (counts.some((n, i) => n >= limits[i]!.max)) return false;
+  // Stored as "failed" attempts so the same counting query serves both throttles.
+  await insertSignInAttempt(limits.map((l) => `rate:${l.key}`), false);
+  return true;
+}

@@ -23,3 +23,17 @@ describe("sign-in throttling", () => {
     expect(await isThrottled(email, "10.0.1.9")).toBe(false);
   });
 });
+
+describe("rate limits on mail-sending actions", () => {
+  it("allows up to the limit per key within the window, then refuses", async () => {
+    const { consumeRateLimit } = await import("@/lib/auth/throttle");
+    const target = unique("invite-to");
+    const limits = [{ key: target, max: 3 }];
+    expect(await consumeRateLimit(limits, 60)).toBe(true);
+    expect(await consumeRateLimit(limits, 60)).toBe(true);
+    expect(await consumeRateLimit(limits, 60)).toBe(true);
+    expect(await consumeRateLimit(limits, 60)).toBe(false);
+    // Another key is unaffected.
+    expect(await consumeRateLimit([{ key: unique("other"), max: 3 }], 60)).toBe(true);
+  });
+});
