@@ -1,0 +1,61 @@
+import "server-only";
+import { and, eq } from "drizzle-orm";
+import { db } from "../index";
+import { analysisExclusions, enrolments, plots, trialTraits } from "../schema";
+import { insertAudit } from "../audit";
+import { lockTrialForStaff } from "../access";
+import { AppError } from "@/lib/errors";
+import type { Viewer } from "@/lib/auth/types";
+
+/**
+ * Leaves a site or a plot out of a trial's analyses (all traits, or one) with the coordinator's
+ * reason. The observations stay untouched; the exclusion is audited in the same transaction.
+ */
+export async function insertExclusion(
+  viewer: Viewer,
+  input: { trialId: number; siteId: number | null; plotId: number | null; traitId: number | null; reason: string },
+): Promise<number> {
+  if ((input.siteId === null) === (input.plotId === null)) throw new AppError("bad_request", "Exclude either a site or a plot.");
+  return db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    if (input.siteId !== null) {
+      const [enrolled] = await tx.select({ id: enrolments.id }).from(enrolments).where(and(eq(enrolments.trialId, trial.id), eq(enrolments.siteId, input.siteId)));
+      if (!enrolled) throw new AppError("not_found", "That site is not part of this trial.");
+    }
+    if (input.plotId !== null) {
+      const [plot] = await tx.select({ id: plots.id }).from(plots).where(and(eq(plots.trialId, trial.id), eq(plots.id, input.plotId)));
+      if (!plot) throw new AppError("not_found", "That plot is not part of this trial.");
+    }
+    if (input.traitId !== null) {
+      const [recorded] = await tx.select({ id: trialTraits.id }).from(trialTraits).where(and(eq(trialTraits.trialId, trial.id), eq(trialTraits.traitId, input.traitId)));
+      if (!recorded) throw new AppError("not_found", "That trait is not recorded in this trial.");
+    }
+    const existing = await tx
+      .select({ id: analysisExclusions.id, siteId: analysisExclusions.siteId, plotId: analysisExclusions.plotId, traitId: analysisExclusions.traitId })
+      .from(analysisExclusions)
+      .where(eq(analysisExclusions.trialId, trial.id));
+    if (existing.some((x) => x.siteId === input.siteId && x.plotId === input.plotId && x.traitId === input.traitId)) {
+      throw new AppError("conflict", "That exclusion is already recorded. Remove it first to change the reason.");
+    }
+    const [row] = await tx
+      .insert(analysisExclusions)
+      .values({ trialId: trial.id, siteId: input.siteId, plotId: input.plotId, traitId: input.traitId, reason: input.reason, createdById: viewer.id })
+      .$returningId();
+    await insertAudit(tx, { actorId: viewer.id, action: "exclude", entity: "analysis_exclusion", entityId: row!.id, trialId: trial.id, newValue: input });
+    return row!.id;
+  });
+}
+
+/** Brings an excluded site or plot back into the analyses; the removed exclusion is kept in the audit log. */
+export async function deleteExclusion(viewer: Viewer, input: { trialId: number; exclusionId: number }): Promise<void> {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    const [row] = await tx
+      .select({ id: analysisExclusions.id, siteId: analysisExclusions.siteId, plotId: analysisExclusions.plotId, traitId: analysisExclusions.traitId, reason: analysisExclusions.reason })
+      .from(analysisExclusions)
+      .where(and(eq(analysisExclusions.id, input.exclusionId), eq(analysisExclusions.trialId, trial.id)));
+    if (!row) throw new AppError("not_found", "That exclusion no longer exists.");
+    await tx.delete(analysisExclusions).where(eq(analysisExclusions.id, row.id));
+    await insertAudit(tx, { actorId: viewer.id, action: "include_again", entity: "analysis_exclusion", entityId: row.id, trialId: trial.id, oldValue: row });
+  });
+}

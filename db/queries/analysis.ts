@@ -1,0 +1,232 @@
+import "server-only";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { db } from "../index";
+import {
+  analysisExclusions,
+  crops,
+  enrolments,
+  observations,
+  plots,
+  seasons,
+  seedLots,
+  sites,
+  submissions,
+  trialEntries,
+  trialTraits,
+  traits,
+  trials,
+  users,
+  varieties,
+} from "../schema";
+import { staffTrialScope } from "../access";
+import type { Viewer } from "@/lib/auth/types";
+import { isStaff } from "@/lib/auth/permissions";
+import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
+
+// Analysis reads are staff-only for now: cooperators are denied (results sharing per site is not modelled yet).
+
+/** Trait codes whose counts feed the germination and emergence sections whatever trait is chosen. */
+export const SEED_COUNT_TRAITS = ["seeds_sown", "emerged_final", "emergence_count"] as const;
+
+async function scopedTrial(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return null;
+  const [trial] = await db
+    .select({ id: trials.id, code: trials.code, title: trials.title, crop: crops.name, blocks: trials.blocks })
+    .from(trials)
+    .innerJoin(crops, eq(crops.id, trials.cropId))
+    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+  return trial ?? null;
+}
+
+/** The trial's recorded traits in display order (staff only); null when the trial is not the viewer's. */
+export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promise<(InputTrait & { recorded: number })[] | null> {
+  const trial = await scopedTrial(viewer, trialId);
+  if (!trial) return null;
+  const [traitRows, counts] = await Promise.all([
+    loadTraits(trialId),
+    db
+      .select({ traitId: observations.traitId, n: sql<number>`COUNT(*)`.mapWith(Number) })
+      .from(observations)
+      .innerJoin(plots, eq(plots.id, observations.plotId))
+      .where(and(eq(plots.trialId, trialId), sql`(${observations.valueNumber} IS NOT NULL OR ${observations.valueDate} IS NOT NULL)`))
+      .groupBy(observations.traitId),
+  ]);
+  const byTrait = new Map(counts.map((c) => [c.traitId, c.n]));
+  return traitRows.map((t) => ({ ...t, recorded: byTrait.get(t.id) ?? 0 }));
+}
+
+function loadTraits(trialId: number): Promise<InputTrait[]> {
+  return db
+    .select({ id: traits.id, code: traits.code, name: traits.name, unit: traits.unit, valueType: traits.valueType, computation: traits.computation })
+    .from(trialTraits)
+    .innerJoin(traits, eq(traits.id, trialTraits.traitId))
+    .where(eq(trialTraits.trialId, trialId))
+    .orderBy(asc(trialTraits.sortOrder), asc(traits.id));
+}
+
+/**
+ * Everything one trait's analysis needs, for staff of the trial's program: entries (with variety
+ * names and seed lots), sites with sowing dates and submission status, plots, the trait's and the
+ * seed counts' observations, and exclusions. Null when the trial is not the viewer's.
+ */
+export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number }): Promise<AnalysisInput | null> {
+  const trial = await scopedTrial(viewer, p.trialId);
+  if (!trial) return null;
+  const traitRows = await loadTraits(p.trialId);
+  const wanted = traitRows.filter((t) => t.id === p.traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
+  const [entryRows, siteRows, plotRows, obsRows, exclusionRows] = await Promise.all([
+    db
+      .select({
+        id: trialEntries.id,
+        blindCode: trialEntries.blindCode,
+        entryNumber: trialEntries.entryNumber,
+        varietyName: varieties.name,
+        varietyId: varieties.id,
+        isCheck: trialEntries.isCheck,
+        labelGermination: seedLots.labelGerminationPct,
+        seedSource: seedLots.source,
+        lotCode: seedLots.lotCode,
+      })
+      .from(trialEntries)
+      .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
+      .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+      .where(eq(trialEntries.trialId, p.trialId))
+      .orderBy(asc(trialEntries.entryNumber)),
+    db
+      .select({ id: sites.id, name: sites.name, sownOn: enrolments.sownOn, transplantedOn: enrolments.transplantedOn, status: submissions.status })
+      .from(enrolments)
+      .innerJoin(sites, eq(sites.id, enrolments.siteId))
+      .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
+      .where(eq(enrolments.trialId, p.trialId))
+      .orderBy(asc(enrolments.id)),
+    db
+      .select({ id: plots.id, plotCode: plots.plotCode, siteId: plots.siteId, entryId: plots.entryId, block: plots.block })
+      .from(plots)
+      .where(eq(plots.trialId, p.trialId))
+      .orderBy(asc(plots.siteId), asc(plots.block), asc(plots.position)),
+    wanted.length === 0
+      ? Promise.resolve([])
+      : db
+          .select({
+            plotId: observations.plotId,
+            traitId: observations.traitId,
+            occasion: observations.occasion,
+            valueNumber: observations.valueNumber,
+            valueDate: observations.valueDate,
+            missingReason: observations.missingReason,
+          })
+          .from(observations)
+          .innerJoin(plots, eq(plots.id, observations.plotId))
+          .where(and(eq(plots.trialId, p.trialId), inArray(observations.traitId, wanted))),
+    db
+      .select({
+        id: analysisExclusions.id,
+        siteId: analysisExclusions.siteId,
+        plotId: analysisExclusions.plotId,
+        traitId: analysisExclusions.traitId,
+        reason: analysisExclusions.reason,
+        createdAt: analysisExclusions.createdAt,
+        createdBy: users.name,
+      })
+      .from(analysisExclusions)
+      .leftJoin(users, eq(users.id, analysisExclusions.createdById))
+      .where(eq(analysisExclusions.trialId, p.trialId))
+      .orderBy(asc(analysisExclusions.id)),
+  ]);
+  return {
+    trial,
+    traits: traitRows,
+    entries: entryRows.map((e) => ({
+      id: e.id,
+      blindCode: e.blindCode,
+      entryNumber: e.entryNumber,
+      varietyName: e.varietyName,
+      varietyId: e.varietyId,
+      isCheck: e.isCheck,
+      labelGermination: e.labelGermination,
+      seedLot: e.seedSource ? `${e.seedSource} ${e.lotCode}` : null,
+    })),
+    sites: siteRows.map((s) => ({ ...s, status: s.status ?? "draft" })),
+    plots: plotRows,
+    observations: obsRows,
+    exclusions: exclusionRows.map((x) => ({ ...x, createdAt: x.createdAt.toISOString() })),
+  };
+}
+
+/**
+ * A short fingerprint of everything an analysis of the trial reads (observations, submission
+ * statuses, sowing dates, entries and seed lots, exclusions). It changes whenever the data do, so it
+ * serves as the cache key and ETag. Value sums are part of it because timestamps have whole-second
+ * resolution and two edits can land in the same second. Null when the trial is not the viewer's.
+ */
+export async function getAnalysisVersion(viewer: Viewer, trialId: number): Promise<string | null> {
+  const trial = await scopedTrial(viewer, trialId);
+  if (!trial) return null;
+  const [row] = await db.execute<Record<string, unknown>[]>(sql`
+    SELECT
+      (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(o.updated_at), ''), '/', COALESCE(SUM(o.id), 0), '/', COALESCE(SUM(o.value_number), 0), '/', COALESCE(SUM(TO_DAYS(o.value_date)), 0), '/', COALESCE(SUM(o.missing_reason IS NOT NULL), 0))
+         FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId}) AS obs,
+      (SELECT COALESCE(GROUP_CONCAT(CONCAT(e.id, ':', COALESCE(e.sown_on, ''), ':', COALESCE(e.transplanted_on, ''), ':', COALESCE(s.status, ''), ':', COALESCE(s.updated_at, '')) ORDER BY e.id), '')
+         FROM enrolments e LEFT JOIN submissions s ON s.enrolment_id = e.id WHERE e.trial_id = ${trialId}) AS sites,
+      (SELECT CONCAT(COUNT(*), '/', COALESCE(SUM(x.id), 0), '/', COALESCE(MAX(x.created_at), ''))
+         FROM analysis_exclusions x WHERE x.trial_id = ${trialId}) AS exclusions,
+      (SELECT COALESCE(GROUP_CONCAT(CONCAT(te.id, ':', te.blind_code, ':', COALESCE(sl.label_germination_pct, '')) ORDER BY te.id), '')
+         FROM trial_entries te LEFT JOIN seed_lots sl ON sl.id = te.seed_lot_id WHERE te.trial_id = ${trialId}) AS entries,
+      (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(p.id), 0)) FROM plots p WHERE p.trial_id = ${trialId}) AS plots,
+      (SELECT updated_at FROM trials WHERE id = ${trialId}) AS trial
+  `);
+  const first = (row as unknown as Record<string, unknown>[])[0] ?? {};
+  return Object.values(first).map((v) => (v instanceof Date ? v.toISOString() : String(v ?? ""))).join("|");
+}
+
+/** Sites and plots of a trial for the exclusion form (staff only). */
+export async function listExclusionTargets(viewer: Viewer, trialId: number) {
+  const trial = await scopedTrial(viewer, trialId);
+  if (!trial) return null;
+  const [siteRows, plotRows] = await Promise.all([
+    db.select({ id: sites.id, name: sites.name }).from(enrolments).innerJoin(sites, eq(sites.id, enrolments.siteId)).where(eq(enrolments.trialId, trialId)).orderBy(asc(sites.name)),
+    db
+      .select({ id: plots.id, plotCode: plots.plotCode, siteName: sites.name })
+      .from(plots)
+      .innerJoin(sites, eq(sites.id, plots.siteId))
+      .where(eq(plots.trialId, trialId))
+      .orderBy(asc(plots.plotCode)),
+  ]);
+  return { sites: siteRows, plots: plotRows };
+}
+
+/**
+ * A variety's results across trials and seasons in the viewer's programs: the trials it was entered in,
+ * with season and site count. Null when the variety is unknown or in no trial the viewer may see.
+ */
+export async function getVarietyHistory(viewer: Viewer, varietyId: number) {
+  if (!isStaff(viewer)) return null;
+  const [variety] = await db
+    .select({ id: varieties.id, name: varieties.name, crop: crops.name })
+    .from(varieties)
+    .innerJoin(crops, eq(crops.id, varieties.cropId))
+    .where(eq(varieties.id, varietyId));
+  if (!variety) return null;
+  const rows = await db
+    .select({
+      trialId: trials.id,
+      trialCode: trials.code,
+      trialTitle: trials.title,
+      status: trials.status,
+      season: seasons.name,
+      year: seasons.year,
+      entryId: trialEntries.id,
+      blindCode: trialEntries.blindCode,
+      isCheck: trialEntries.isCheck,
+      entries: sql<number>`(SELECT COUNT(*) FROM trial_entries te2 WHERE te2.trial_id = ${trials.id})`.mapWith(Number),
+      sites: sql<number>`(SELECT COUNT(*) FROM enrolments e2 WHERE e2.trial_id = ${trials.id})`.mapWith(Number),
+    })
+    .from(trialEntries)
+    .innerJoin(trials, eq(trials.id, trialEntries.trialId))
+    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
+    .where(and(eq(trialEntries.varietyId, varietyId), staffTrialScope(viewer)))
+    .orderBy(desc(seasons.year), desc(seasons.id), asc(trials.code));
+  // A coordinator learns nothing about varieties that only appear in other programs' trials.
+  if (rows.length === 0 && viewer.role !== "admin") return null;
+  return { variety, trials: rows };
+}

@@ -1,0 +1,49 @@
+import { z } from "zod";
+import { idParam } from "./common";
+
+// Analysis settings arrive as URL search parameters (the page's controls and outside tools alike).
+
+const flag = z.enum(["1", "0", "true", "false"]).transform((v) => v === "1" || v === "true");
+
+export const analysisQuerySchema = z.object({
+  trait: idParam.optional(),
+  sites: z
+    .string()
+    .regex(/^\d+(,\d+)*$/, "List sites as ids separated by commas.")
+    .transform((s) => [...new Set(s.split(",").map(Number))])
+    .optional(),
+  unaccepted: flag.optional(),
+  model: z.enum(["random", "fixed"], { error: "Sites must be random or fixed." }).optional(),
+  compare: z.enum(["lsd", "tukey"], { error: "Compare means with lsd or tukey." }).optional(),
+});
+
+export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
+
+/** Reads URL search parameters into analysis settings, with a plain message on the first problem. */
+export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: AnalysisQuery } | { ok: false; message: string } {
+  const raw: Record<string, string> = {};
+  for (const key of ["trait", "sites", "unaccepted", "model", "compare"]) {
+    const v = search.get(key);
+    if (v !== null && v !== "") raw[key] = v;
+  }
+  const parsed = analysisQuerySchema.safeParse(raw);
+  if (parsed.success) return { ok: true, data: parsed.data };
+  const issue = parsed.error.issues[0]!;
+  const field = String(issue.path[0] ?? "settings");
+  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" ? "unaccepted must be 1 or 0." : issue.message;
+  return { ok: false, message };
+}
+
+export const exclusionSchema = z
+  .object({
+    trialId: z.coerce.number().int().positive(),
+    target: z.string().regex(/^(site|plot):\d+$/, "Choose a site or a plot to exclude."),
+    traitId: z.preprocess((v) => (v === "" || v === "all" ? undefined : v), z.coerce.number().int().positive().optional()),
+    reason: z.string().trim().min(5, "Give a reason of at least 5 characters, e.g. \"hail damage in block 2\".").max(500, "Keep the reason under 500 characters."),
+  })
+  .transform((v) => {
+    const [kind, id] = v.target.split(":");
+    return { trialId: v.trialId, traitId: v.traitId ?? null, reason: v.reason, siteId: kind === "site" ? Number(id) : null, plotId: kind === "plot" ? Number(id) : null };
+  });
+
+export const removeExclusionSchema = z.object({ trialId: z.coerce.number().int().positive(), exclusionId: z.coerce.number().int().positive() });
