@@ -1,0 +1,35 @@
+import { z } from "zod";
+import { assertRole } from "@/lib/auth/guards";
+import { AppError, toResponse } from "@/lib/errors";
+import { idParam } from "@/lib/validation/common";
+import { parseAnalysisQuery } from "@/lib/validation/analysis";
+import { computeAnalysis, prepareAnalysis } from "@/lib/analysis-service";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+const paramsSchema = z.object({ trialId: idParam });
+
+/**
+ * One trait's analysis as JSON, for staff of the trial's program. The ETag changes whenever the
+ * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
+ */
+export async function GET(request: Request, context: { params: Promise<{ trialId: string }> }) {
+  try {
+    const viewer = await assertRole("coordinator", "admin");
+    const params = paramsSchema.safeParse(await context.params);
+    if (!params.success) throw new AppError("not_found", "That trial does not exist.");
+    const query = parseAnalysisQuery(new URL(request.url).searchParams);
+    if (!query.ok) throw new AppError("bad_request", query.message);
+    const prepared = await prepareAnalysis(viewer, params.data.trialId, query.data);
+    if (!prepared) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const headers = { ETag: prepared.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
+    const match = request.headers.get("if-none-match");
+    if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });
+    const result = await computeAnalysis(viewer, params.data.trialId, prepared);
+    if (!result) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    return Response.json(result, { headers });
+  } catch (e) {
+    return toResponse(e);
+  }
+}

@@ -1,0 +1,76 @@
+import "server-only";
+import { createHash } from "node:crypto";
+import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
+import { AppError } from "@/lib/errors";
+import { runAnalysis } from "@/lib/analysis/run";
+import { isAnalysable } from "@/lib/analysis/values";
+import type { AnalysisResult, AnalysisSettings, InputTrait } from "@/lib/analysis/types";
+import type { AnalysisQuery } from "@/lib/validation/analysis";
+import type { Viewer } from "@/lib/auth/types";
+
+// Results are kept per (trial, data version, settings): a new observation, review decision or
+// exclusion changes the version, so stale results are never served, and old keys simply age out.
+const CACHE_LIMIT = 200;
+const cache = new Map<string, AnalysisResult>();
+
+/** The trait shown when none is asked for: the first measured number with data, else any analysable trait with data. */
+export function defaultTrait(traits: (InputTrait & { recorded: number })[]): InputTrait | null {
+  const candidates = traits.filter((t) => isAnalysable(t) && t.code !== "seeds_sown");
+  return (
+    candidates.find((t) => t.valueType === "number" && t.recorded > 0) ??
+    candidates.find((t) => t.recorded > 0) ??
+    candidates[0] ??
+    null
+  );
+}
+
+export interface PreparedAnalysis {
+  settings: AnalysisSettings;
+  etag: string;
+  version: string;
+}
+
+/**
+ * Resolves the settings and the cache tag without running the analysis, so a client that already
+ * has this version gets a 304. Null when the trial is not the viewer's.
+ */
+export async function prepareAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery): Promise<PreparedAnalysis | null> {
+  const traits = await listAnalysisTraits(viewer, trialId);
+  if (!traits) return null;
+  let traitId = query.trait;
+  if (traitId !== undefined && !traits.some((t) => t.id === traitId)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
+  traitId ??= defaultTrait(traits)?.id;
+  if (traitId === undefined) throw new AppError("conflict", "This trial records no traits yet, so there is nothing to analyse.");
+  const settings: AnalysisSettings = {
+    traitId,
+    siteIds: query.sites ? [...query.sites].sort((a, b) => a - b) : null,
+    includeUnaccepted: query.unaccepted ?? false,
+    siteModel: query.model ?? "random",
+    separation: query.compare ?? "lsd",
+  };
+  const version = await getAnalysisVersion(viewer, trialId);
+  if (version === null) return null;
+  const etag = `W/"${createHash("sha1").update(`${trialId}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27)}"`;
+  return { settings, etag, version };
+}
+
+/** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
+export async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
+  const key = `${trialId}|${prepared.etag}|${viewer.role === "admin" ? "admin" : "staff"}`;
+  const hit = cache.get(key);
+  if (hit) return hit;
+  const input = await getAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
+  if (!input) return null;
+  const result = runAnalysis(input, prepared.settings);
+  cache.set(key, result);
+  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+  return result;
+}
+
+/** Both steps, for the page's first render and for exports. */
+export async function loadAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery) {
+  const prepared = await prepareAnalysis(viewer, trialId, query);
+  if (!prepared) return null;
+  const result = await computeAnalysis(viewer, trialId, prepared);
+  return result ? { result, etag: prepared.etag } : null;
+}

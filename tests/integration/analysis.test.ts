@@ -1,0 +1,230 @@
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { eq, sql } from "drizzle-orm";
+import * as s from "@/db/schema";
+import type { Viewer } from "@/lib/auth/types";
+import { anovaMultiSite, anovaRcbd, lsd, type MultiSitePlot } from "@/lib/stats";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import { testDatabase, unique } from "../helpers/db";
+import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
+
+// The route handler's guard reads the session; tests set the viewer directly instead.
+const auth = vi.hoisted(() => ({ viewer: null as Viewer | null }));
+vi.mock("@/lib/auth/guards", async () => {
+  const { AppError } = await import("@/lib/errors");
+  return {
+    getViewer: async () => auth.viewer,
+    assertRole: async (...roles: string[]) => {
+      if (!auth.viewer) throw new AppError("unauthenticated", "Please sign in first.");
+      if (roles.length > 0 && !roles.includes(auth.viewer.role)) throw new AppError("forbidden", "Your account does not have access to this.");
+      return auth.viewer;
+    },
+  };
+});
+
+const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
+const { insertExclusion, deleteExclusion } = await import("@/db/mutations/exclusions");
+const { pool: appPool } = await import("@/db/index");
+
+const { db, pool } = testDatabase();
+let coordinator: Viewer;
+let lettuceId: number;
+let yieldId: number;
+
+async function viewerByEmail(email: string): Promise<Viewer> {
+  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
+  return u!;
+}
+
+async function call(query: string, headers: Record<string, string> = {}, trialId = lettuceId) {
+  return GET(new Request(`http://test.local/api/trials/${trialId}/analysis?${query}`, { headers }), { params: Promise.resolve({ trialId: String(trialId) }) });
+}
+
+async function analysis(query: string): Promise<AnalysisResult> {
+  const res = await call(query);
+  expect(res.status).toBe(200);
+  return (await res.json()) as AnalysisResult;
+}
+
+/** Lettuce yield rows read with plain SQL: accepted sites only (unless asked), null for a missing value. */
+async function plainRows(includeUnaccepted = false) {
+  const [rows] = (await db.execute(sql`
+    SELECT p.site_id AS siteId, p.block AS block, p.entry_id AS entryId, o.value_number AS value, sub.status AS status
+    FROM plots p
+    JOIN enrolments e ON e.id = p.enrolment_id
+    LEFT JOIN submissions sub ON sub.enrolment_id = e.id
+    LEFT JOIN observations o ON o.plot_id = p.id AND o.trait_id = ${yieldId}
+    WHERE p.trial_id = ${lettuceId}
+    ORDER BY p.site_id, p.block, p.position`)) as unknown as [{ siteId: number; block: number; entryId: number; value: string | number | null; status: string | null }[]];
+  return rows
+    .filter((r) => includeUnaccepted || r.status === "accepted")
+    .map((r) => ({ site: String(r.siteId), block: String(r.block), entry: String(r.entryId), value: r.value === null ? null : Number(r.value) }));
+}
+
+beforeAll(async () => {
+  coordinator = await viewerByEmail(DEMO_STAFF[1].email);
+  const [trial] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
+  lettuceId = trial!.id;
+  const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
+  yieldId = trait!.id;
+  auth.viewer = coordinator;
+});
+
+afterAll(async () => {
+  await pool.end();
+  await appPool.end();
+});
+
+describe("analysis API numbers equal lib/stats on rows read straight from the database", () => {
+  it("matches per-site and combined F, CV, means and LSD for lettuce marketable yield", async () => {
+    const result = await analysis(`trait=${yieldId}`);
+    const data = await plainRows();
+    const siteIds = [...new Set(data.map((d) => d.site))];
+    expect(result.perSite.map((p) => String(p.siteId)).sort()).toEqual(siteIds.sort());
+    for (const site of result.perSite) {
+      const table = anovaRcbd(data.filter((d) => d.site === String(site.siteId)));
+      const entryRow = table.rows.find((r) => r.source === "entry")!;
+      expect(site.result!.entryF).toBeCloseTo(entryRow.f!, 8);
+      expect(site.result!.cv).toBeCloseTo(table.cv, 8);
+      for (const m of table.entryMeans) expect(site.result!.means.find((x) => String(x.entryId) === m.entry)!.mean).toBeCloseTo(m.mean, 8);
+      const l = lsd(table, 0.05);
+      if (l) expect(site.result!.lsd).toBeCloseTo(l.lsd, 8);
+      else expect(site.result!.lsd).toBeNull();
+    }
+    const combined = anovaMultiSite(data as MultiSitePlot[], { sites: "random" });
+    expect(result.combined!.entryF).toBeCloseTo(combined.rows.find((r) => r.source === "entry")!.f!, 8);
+    expect(result.combined!.interactionF).toBeCloseTo(combined.rows.find((r) => r.source === "entry:site")!.f!, 8);
+    expect(result.combined!.cv).toBeCloseTo(combined.cv, 8);
+    for (const m of combined.lsMeans!) expect(result.combined!.means.find((x) => String(x.entryId) === m.entry)!.lsMean).toBeCloseTo(m.mean, 8);
+    const l = lsd(combined, 0.05);
+    if (l) expect(result.combined!.lsd).toBeCloseTo(l.lsd, 8);
+    // Every plot without a value is listed with how it was handled.
+    expect(result.missing.length).toBe(data.filter((d) => d.value === null).length);
+    expect(result.notes[0]).toMatch(/^Entries differed in marketable yield \(g per plot\) at \d of 5 sites/);
+  });
+
+  it("fixed sites test entries against the pooled error", async () => {
+    const result = await analysis(`trait=${yieldId}&model=fixed&compare=tukey`);
+    const combined = anovaMultiSite((await plainRows()) as MultiSitePlot[], { sites: "fixed" });
+    expect(result.combined!.entryF).toBeCloseTo(combined.rows.find((r) => r.source === "entry")!.f!, 8);
+    expect(result.combined!.means.every((m) => m.letter !== null)).toBe(true);
+  });
+
+  it("include-unaccepted brings the submitted site in, clearly marked", async () => {
+    const accepted = await analysis(`trait=${yieldId}`);
+    const all = await analysis(`trait=${yieldId}&unaccepted=1`);
+    expect(accepted.perSite.length).toBe(5);
+    expect(all.perSite.length).toBe(6);
+    const extra = all.perSite.find((p) => p.status !== "accepted")!;
+    expect(accepted.sites.find((x) => x.id === extra.siteId)!.why).toMatch(/not accepted yet/);
+    expect(all.warnings.join(" ")).toMatch(/not yet accepted/);
+    const combined = anovaMultiSite((await plainRows(true)) as MultiSitePlot[]);
+    expect(all.combined!.entryF).toBeCloseTo(combined.rows.find((r) => r.source === "entry")!.f!, 8);
+  });
+
+  it("germination figures come from the seed counts with Wilson intervals, chi-square and CMH", async () => {
+    const result = await analysis(`trait=${yieldId}`);
+    const g = result.germination!;
+    expect(g.byEntry).toHaveLength(6);
+    for (const r of g.byEntry) {
+      expect(r.lower).toBeLessThan(r.percent);
+      expect(r.upper).toBeGreaterThan(r.percent);
+    }
+    expect(g.chiSquare!.df).toBe(5);
+    expect(g.cmh!.sites).toBe(5);
+    expect(g.labels.find((x) => x.labelPercent === null)!.note).toMatch(/not|no germination/i);
+  });
+});
+
+describe("exclusions", () => {
+  it("leave a site out, are listed, and change the results until removed", async () => {
+    const before = await analysis(`trait=${yieldId}`);
+    const site = before.perSite[0]!;
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: site.siteId, plotId: null, traitId: null, reason: `Hail flattened the beds ${unique("x")}` });
+    try {
+      const after = await analysis(`trait=${yieldId}`);
+      expect(after.perSite.map((p) => p.siteId)).not.toContain(site.siteId);
+      expect(after.sites.find((x) => x.id === site.siteId)!.why).toMatch(/^excluded: Hail flattened/);
+      expect(after.exclusions.map((x) => x.id)).toContain(id);
+      expect(after.combined!.entryF).not.toBeCloseTo(before.combined!.entryF!, 6);
+      const [audit] = await db.select({ action: s.auditLog.action }).from(s.auditLog).where(sql`${s.auditLog.entity} = 'analysis_exclusion' AND ${s.auditLog.entityId} = ${String(id)}`);
+      expect(audit!.action).toBe("exclude");
+    } finally {
+      await deleteExclusion(coordinator, { trialId: lettuceId, exclusionId: id });
+    }
+    const restored = await analysis(`trait=${yieldId}`);
+    expect(restored.combined!.entryF).toBeCloseTo(before.combined!.entryF!, 10);
+  });
+
+  it("leave a plot out and list it as excluded among the missing plots", async () => {
+    const before = await analysis(`trait=${yieldId}`);
+    const plot = before.plots.find((p) => p.status === "used")!;
+    const [row] = await db.select({ id: s.plots.id }).from(s.plots).where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.plots.plotCode} = ${plot.plotCode}`);
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, reason: "Irrigation line burst on this plot" });
+    try {
+      const after = await analysis(`trait=${yieldId}`);
+      expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: Irrigation line burst on this plot");
+      expect(after.plots.find((p) => p.plotCode === plot.plotCode)!.status).toBe("excluded");
+      const site = after.perSite.find((p) => p.siteId === plot.siteId)!;
+      expect(site.result!.n).toBe(before.perSite.find((p) => p.siteId === plot.siteId)!.result!.n - 1);
+    } finally {
+      await deleteExclusion(coordinator, { trialId: lettuceId, exclusionId: id });
+    }
+  });
+});
+
+describe("caching", () => {
+  it("answers 304 to a matching If-None-Match and a new ETag after a data change", async () => {
+    const first = await call(`trait=${yieldId}`);
+    const etag = first.headers.get("etag")!;
+    expect(etag).toMatch(/^W\/"/);
+    const again = await call(`trait=${yieldId}`, { "If-None-Match": etag });
+    expect(again.status).toBe(304);
+    const other = await call(`trait=${yieldId}&compare=tukey`, { "If-None-Match": etag });
+    expect(other.status).toBe(200);
+
+    const [obs] = await db
+      .select({ id: s.observations.id, value: s.observations.valueNumber })
+      .from(s.observations)
+      .innerJoin(s.plots, eq(s.plots.id, s.observations.plotId))
+      .where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.observations.traitId} = ${yieldId} AND ${s.observations.valueNumber} IS NOT NULL`)
+      .limit(1);
+    await db.update(s.observations).set({ valueNumber: obs!.value! + 7 }).where(eq(s.observations.id, obs!.id));
+    try {
+      const changed = await call(`trait=${yieldId}`, { "If-None-Match": etag });
+      expect(changed.status).toBe(200);
+      expect(changed.headers.get("etag")).not.toBe(etag);
+    } finally {
+      await db.update(s.observations).set({ valueNumber: obs!.value }).where(eq(s.observations.id, obs!.id));
+    }
+  });
+});
+
+describe("who may read an analysis", () => {
+  it("refuses signed-out visitors, cooperators (even of a site in the trial) and coordinators of other programs", async () => {
+    try {
+      auth.viewer = null;
+      expect((await call(`trait=${yieldId}`)).status).toBe(401);
+      auth.viewer = await viewerByEmail(DEMO_SITES[0].grower.email);
+      expect((await call(`trait=${yieldId}`)).status).toBe(403);
+      const email = `${unique("other")}@example.test`;
+      const [u] = await db.insert(s.users).values({ email, name: "Other Coordinator", role: "coordinator", passwordHash: "x" }).$returningId();
+      const [program] = await db.insert(s.programs).values({ slug: unique("other"), name: unique("Other program") }).$returningId();
+      await db.insert(s.programCoordinators).values({ programId: program!.id, userId: u!.id });
+      auth.viewer = { id: u!.id, email, name: "Other Coordinator", role: "coordinator" };
+      const res = await call(`trait=${yieldId}`);
+      expect(res.status).toBe(404);
+      expect(JSON.stringify(await res.json())).not.toContain("Copper Ruffle");
+      await expect(insertExclusion(auth.viewer, { trialId: lettuceId, siteId: null, plotId: 1, traitId: null, reason: "not mine to exclude" })).rejects.toThrow(/not in your programs/);
+    } finally {
+      auth.viewer = coordinator;
+    }
+  });
+
+  it("answers bad settings in plain words", async () => {
+    const res = await call(`trait=${yieldId}&model=sometimes`);
+    expect(res.status).toBe(400);
+    expect((await res.json()).error).toBe("Sites must be random or fixed.");
+    const wrongTrait = await call(`trait=999999`);
+    expect(wrongTrait.status).toBe(400);
+  });
+});
