@@ -16,7 +16,7 @@ export function CropForm() {
   const f = failedOf(state);
   return (
     <form action={action} noValidate className="space-y-3" key={state?.ok ? `saved-${state.message ?? ""}` : "editing"}>
-      <TextField label="Crop name" name="name" required defaultValue={f?.values?.name} errors={f?.fieldErrors?.name} />
+      <TextField label="Crop name" name="name" id="crop-name" required defaultValue={f?.values?.name} errors={f?.fieldErrors?.name} />
       <SelectField label="Crop group" name="cropGroup" defaultValue={f?.values?.cropGroup ?? ""} errors={f?.fieldErrors?.cropGroup}>
         <option value="">Choose…</option>
         {CROP_GROUPS.map((g) => (
@@ -37,7 +37,7 @@ export function VarietyForm({ crops }: { crops: { id: number; name: string }[] }
   const f = failedOf(state);
   return (
     <form action={action} noValidate className="space-y-3" key={state?.ok ? `saved-${state.message ?? ""}` : "editing"}>
-      <SelectField label="Crop" name="cropId" defaultValue={f?.values?.cropId ?? ""} errors={f?.fieldErrors?.cropId}>
+      <SelectField label="Crop" name="cropId" id="variety-crop" defaultValue={f?.values?.cropId ?? ""} errors={f?.fieldErrors?.cropId}>
         <option value="">Choose…</option>
         {crops.map((c) => (
           <option key={c.id} value={c.id}>
@@ -45,7 +45,7 @@ export function VarietyForm({ crops }: { crops: { id: number; name: string }[] }
           </option>
         ))}
       </SelectField>
-      <TextField label="Variety name" name="name" defaultValue={f?.values?.name} errors={f?.fieldErrors?.name} />
+      <TextField label="Variety name" name="name" id="variety-name" defaultValue={f?.values?.name} errors={f?.fieldErrors?.name} />
       <TextField label="Notes (optional)" name="description" defaultValue={f?.values?.description} errors={f?.fieldErrors?.description} />
       <FormMessage state={state} />
       <SubmitButton>Add variety</SubmitButton>

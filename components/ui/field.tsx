@@ -12,16 +12,19 @@ interface FieldProps {
   name: string;
   errors?: string[];
   hint?: string;
+  /** Needed when two forms on one page share a field name, so ids stay unique. */
+  id?: string;
 }
 
 /** A labelled input with its hint and errors linked through aria-describedby. */
-export function TextField({ label, name, errors, hint, className, ...props }: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
-  const errorId = `${name}-error`;
-  const hintId = `${name}-hint`;
+export function TextField({ label, name, errors, hint, className, id, ...props }: FieldProps & InputHTMLAttributes<HTMLInputElement>) {
+  const fieldId = id ?? name;
+  const errorId = `${fieldId}-error`;
+  const hintId = `${fieldId}-hint`;
   const describedBy = [hint ? hintId : null, errors?.length ? errorId : null].filter(Boolean).join(" ") || undefined;
   return (
     <div className={cn("space-y-1", className)}>
-      <label htmlFor={name} className="block text-sm font-semibold text-loam-900">
+      <label htmlFor={fieldId} className="block text-sm font-semibold text-loam-900">
         {label}
       </label>
       {hint && (
@@ -29,7 +32,7 @@ export function TextField({ label, name, errors, hint, className, ...props }: Fi
           {hint}
         </p>
       )}
-      <input id={name} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={describedBy} className={inputClasses(!!errors?.length)} {...props} />
+      <input id={fieldId} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={describedBy} className={inputClasses(!!errors?.length)} {...props} />
       {errors?.length ? (
         <p id={errorId} className="text-sm font-medium text-beet-700">
           {errors.join(" ")}
@@ -39,15 +42,17 @@ export function TextField({ label, name, errors, hint, className, ...props }: Fi
   );
 }
 
-export function SelectField({ label, name, errors, hint, className, children, ...props }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
-  const errorId = `${name}-error`;
+export function SelectField({ label, name, errors, hint, className, children, id, ...props }: FieldProps & SelectHTMLAttributes<HTMLSelectElement>) {
+  const fieldId = id ?? name;
+  const errorId = `${fieldId}-error`;
   return (
     <div className={cn("space-y-1", className)}>
-      <label htmlFor={name} className="block text-sm font-semibold text-loam-900">
+      <label htmlFor={fieldId} className="block text-sm font-semibold text-loam-900">
         {label}
       </label>
       {hint && <p className="text-sm text-loam-700">{hint}</p>}
-      <select id={name} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={errors?.length ? errorId : undefined} className={inputClasses(!!errors?.length)} {...props}>
+      {/* Remounting on a new default keeps a choice after a failed submit; React's form reset would otherwise restore the first default. */}
+      <select key={typeof props.defaultValue === "string" ? props.defaultValue : undefined} id={fieldId} name={name} aria-invalid={errors?.length ? true : undefined} aria-describedby={errors?.length ? errorId : undefined} className={inputClasses(!!errors?.length)} {...props}>
         {children}
       </select>
       {errors?.length ? (
