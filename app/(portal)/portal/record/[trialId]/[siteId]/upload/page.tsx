@@ -1,0 +1,42 @@
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requireUser } from "@/lib/auth/guards";
+import { getRecordingSheet } from "@/db/queries/observations";
+import { idParam } from "@/lib/validation/common";
+import { UploadForm } from "@/components/record/upload-form";
+import { lockMessage, SiteHeader } from "@/components/record/site-panels";
+import { MAX_UPLOAD_BYTES } from "@/lib/spreadsheets/safety";
+
+export const dynamic = "force-dynamic";
+
+export default async function UploadPage({ params }: { params: Promise<{ trialId: string; siteId: string }> }) {
+  const viewer = await requireUser();
+  const p = await params;
+  const trialId = idParam.safeParse(p.trialId);
+  const siteId = idParam.safeParse(p.siteId);
+  if (!trialId.success || !siteId.success) notFound();
+  const sheet = await getRecordingSheet(viewer, { trialId: trialId.data, siteId: siteId.data });
+  if (!sheet) notFound();
+  const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
+  const locked = lockMessage(viewer.role, sheet);
+  return (
+    <div className="space-y-6">
+      <SiteHeader sheet={sheet} />
+      <div className="space-y-2 text-loam-900">
+        <h2 className="text-xl font-bold">Upload a filled-in sheet</h2>
+        <p>
+          Use the <a href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>Excel template for this site</a> (or a CSV with the same columns). You will see
+          what changes before anything is saved. Empty cells leave recorded values as they are.
+        </p>
+      </div>
+      {locked ? (
+        <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 text-sky-800">{locked}</p>
+      ) : (
+        <UploadForm endpoint={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/upload`} maxMb={MAX_UPLOAD_BYTES / 1024 / 1024} backHref={base} />
+      )}
+      <p>
+        <Link href={base}>Back to the plots</Link>
+      </p>
+    </div>
+  );
+}

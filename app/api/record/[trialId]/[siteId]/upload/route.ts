@@ -1,0 +1,38 @@
+import { z } from "zod";
+import { assertRole } from "@/lib/auth/guards";
+import { AppError, toResponse } from "@/lib/errors";
+import { siteParamsSchema } from "@/lib/validation/observations";
+import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
+import { MAX_UPLOAD_BYTES } from "@/lib/spreadsheets/safety";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+const modeSchema = z.enum(["preview", "commit"], { error: "Ask for a preview or to save." });
+
+/**
+ * Takes a filled-in sheet (multipart field `file`) with `mode` preview or commit. Preview never writes;
+ * commit writes every value in one transaction, or nothing and the list of problems.
+ */
+export async function POST(request: Request, context: { params: Promise<{ trialId: string; siteId: string }> }) {
+  try {
+    const viewer = await assertRole();
+    const params = siteParamsSchema.safeParse(await context.params);
+    if (!params.success) throw new AppError("not_found", "That site or trial does not exist.");
+    // Refuse oversized bodies before reading them into memory.
+    const declared = Number(request.headers.get("content-length") ?? 0);
+    if (declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new AppError("bad_request", `The file is larger than the ${MAX_UPLOAD_BYTES / 1024 / 1024} MB limit. Remove pictures or extra sheets, or upload a CSV.`);
+    const form = await request.formData().catch(() => null);
+    const file = form?.get("file");
+    if (!form || !(file instanceof File)) throw new AppError("bad_request", "Choose a file to upload.");
+    const mode = modeSchema.safeParse(form.get("mode") ?? "preview");
+    if (!mode.success) throw new AppError("bad_request", "Ask for a preview or to save.");
+    if (file.size > MAX_UPLOAD_BYTES) throw new AppError("bad_request", `The file is larger than the ${MAX_UPLOAD_BYTES / 1024 / 1024} MB limit. Remove pictures or extra sheets, or upload a CSV.`);
+    const target = { ...params.data, bytes: new Uint8Array(await file.arrayBuffer()), fileName: file.name };
+    if (mode.data === "preview") return Response.json(await previewUpload(viewer, target));
+    const result = await commitUpload(viewer, target);
+    return Response.json(result, { status: result.ok ? 200 : 400 });
+  } catch (e) {
+    return toResponse(e);
+  }
+}

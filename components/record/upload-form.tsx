@@ -1,0 +1,205 @@
+"use client";
+
+import { useRef, useState } from "react";
+import Link from "next/link";
+import { Button, buttonClasses } from "@/components/ui/button";
+import { Badge } from "@/components/ui/badge";
+
+interface Problem {
+  row: number | null;
+  column: string | null;
+  message: string;
+}
+interface Preview {
+  ok: boolean;
+  refused: string | null;
+  rows?: number;
+  blankRows?: number[];
+  counts?: { new: number; changed: number; unchanged: number };
+  problems: Problem[];
+  changes?: { row: number | null; plotCode: string; column: string; kind: "new" | "changed"; oldValue: string; newValue: string }[];
+}
+
+/** Sends the file with XMLHttpRequest, because fetch cannot report upload progress. */
+function post(endpoint: string, file: File, mode: "preview" | "commit", onProgress: (pct: number) => void): Promise<{ status: number; body: unknown }> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open("POST", endpoint);
+    xhr.upload.onprogress = (e) => {
+      if (e.lengthComputable) onProgress(Math.round((e.loaded / e.total) * 100));
+    };
+    xhr.onload = () => {
+      let body: unknown = null;
+      try {
+        body = JSON.parse(xhr.responseText);
+      } catch {
+        body = null;
+      }
+      resolve({ status: xhr.status, body });
+    };
+    xhr.onerror = () => reject(new Error("network"));
+    const form = new FormData();
+    form.set("file", file);
+    form.set("mode", mode);
+    xhr.send(form);
+  });
+}
+
+export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; maxMb: number; backHref: string }) {
+  const input = useRef<HTMLInputElement>(null);
+  const [file, setFile] = useState<File | null>(null);
+  const [progress, setProgress] = useState<number | null>(null);
+  const [phase, setPhase] = useState<"idle" | "uploading" | "checking" | "saving" | "done">("idle");
+  const [preview, setPreview] = useState<Preview | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [saved, setSaved] = useState<number | null>(null);
+
+  async function run(mode: "preview" | "commit") {
+    if (!file) return;
+    setError(null);
+    setProgress(0);
+    setPhase("uploading");
+    try {
+      const res = await post(endpoint, file, mode, (pct) => {
+        setProgress(pct);
+        if (pct >= 100) setPhase(mode === "preview" ? "checking" : "saving");
+      });
+      const body = res.body as (Preview & { error?: string; saved?: number; preview?: Preview }) | null;
+      if (!body) setError("The server did not answer as expected. Nothing was saved. Please try again.");
+      else if (mode === "preview") {
+        if (res.status >= 400) setError(body.error ?? "The file could not be checked.");
+        else setPreview(body);
+      } else if (res.status === 200) {
+        setSaved(body.saved ?? 0);
+        setPreview(null);
+      } else {
+        setError(body.error ?? "Nothing was saved: the file has problems. See the list below.");
+        if (body.preview) setPreview(body.preview);
+      }
+    } catch {
+      setError("The upload did not get through. Check your connection and try again; nothing was saved.");
+    } finally {
+      setPhase("done");
+      setProgress(null);
+    }
+  }
+
+  const busy = phase === "uploading" || phase === "checking" || phase === "saving";
+  return (
+    <div className="space-y-4">
+      <div className="space-y-2 rounded-xl border border-husk-200 bg-white p-4">
+        <label htmlFor="upload-file" className="block font-semibold text-loam-900">
+          Spreadsheet (.xlsx or .csv, up to {maxMb} MB)
+        </label>
+        <input
+          ref={input}
+          id="upload-file"
+          type="file"
+          accept=".xlsx,.csv,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet,text/csv"
+          className="block min-h-11 w-full text-base"
+          onChange={(e) => {
+            setFile(e.target.files?.[0] ?? null);
+            setPreview(null);
+            setSaved(null);
+            setError(null);
+          }}
+        />
+        <Button type="button" onClick={() => run("preview")} disabled={!file || busy}>
+          Check the file
+        </Button>
+        <div aria-live="polite" role="status" className="text-sm">
+          {progress !== null && phase === "uploading" && (
+            <div className="space-y-1">
+              <progress max={100} value={progress} className="h-3 w-full" aria-label="Upload progress" />
+              <span>Uploading… {progress}%</span>
+            </div>
+          )}
+          {phase === "checking" && <span>Checking every row…</span>}
+          {phase === "saving" && <span>Saving…</span>}
+        </div>
+      </div>
+
+      {error && <p className="rounded-lg border border-beet-600 bg-beet-50 px-3 py-2 font-medium text-beet-700">{error}</p>}
+      {saved !== null && (
+        <div className="rounded-lg border border-sprout-500 bg-sprout-50 px-3 py-2 text-sprout-700">
+          <p className="font-semibold">Saved: {saved} {saved === 1 ? "value" : "values"} recorded or corrected. Earlier values are kept in the history.</p>
+          <Link href={backHref} className={buttonClasses("secondary", "mt-2")}>
+            Back to the plots
+          </Link>
+        </div>
+      )}
+      {preview && <PreviewPanel preview={preview} busy={busy} onCommit={() => run("commit")} />}
+    </div>
+  );
+}
+
+function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boolean; onCommit: () => void }) {
+  if (preview.refused) {
+    return (
+      <div className="rounded-xl border border-beet-600 bg-beet-50 p-4 text-beet-700" role="alert">
+        <p className="font-bold">This file cannot be used. Nothing was saved.</p>
+        <p>{preview.refused}</p>
+      </div>
+    );
+  }
+  const c = preview.counts!;
+  return (
+    <section className="space-y-3 rounded-xl border border-husk-200 bg-white p-4" aria-label="What this file would change">
+      <h3 className="text-lg font-bold text-loam-900">What this file would change</h3>
+      <p className="flex flex-wrap gap-2">
+        <Badge tone="good">{c.new} new</Badge>
+        <Badge tone="warn">{c.changed} changed</Badge>
+        <Badge>{c.unchanged} unchanged</Badge>
+        {preview.blankRows && preview.blankRows.length > 0 && <Badge>{preview.blankRows.length} empty rows skipped</Badge>}
+      </p>
+      {preview.problems.length > 0 ? (
+        <div role="alert" className="space-y-2">
+          <p className="font-semibold text-beet-700">
+            {preview.problems.length} {preview.problems.length === 1 ? "problem needs" : "problems need"} fixing before anything can be saved. Correct the sheet and upload it again.
+          </p>
+          <ul className="list-disc space-y-1 pl-5 text-beet-700">
+            {preview.problems.slice(0, 200).map((p, i) => (
+              <li key={i}>
+                {p.row ? `Row ${p.row}` : "File"}
+                {p.column ? `, ${p.column}` : ""}: {p.message}
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : (
+        <>
+          {preview.changes && preview.changes.length > 0 && (
+            <div className="max-h-96 overflow-auto">
+              <table className="w-full text-left text-sm">
+                <caption className="sr-only">Values that would be saved</caption>
+                <thead className="border-b border-husk-200 text-loam-700">
+                  <tr>
+                    <th scope="col" className="py-1 pr-2">Row</th>
+                    <th scope="col" className="py-1 pr-2">Plot</th>
+                    <th scope="col" className="py-1 pr-2">Column</th>
+                    <th scope="col" className="py-1 pr-2">Now</th>
+                    <th scope="col" className="py-1">New</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {preview.changes.map((ch, i) => (
+                    <tr key={i} className="border-b border-husk-100">
+                      <td className="py-1 pr-2 tabular-nums">{ch.row}</td>
+                      <td className="py-1 pr-2 font-mono">{ch.plotCode}</td>
+                      <td className="py-1 pr-2">{ch.column}</td>
+                      <td className="py-1 pr-2">{ch.oldValue || "—"}</td>
+                      <td className="py-1 font-semibold">{ch.newValue}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+          <Button type="button" onClick={onCommit} disabled={busy || c.new + c.changed === 0}>
+            {c.new + c.changed === 0 ? "Nothing to save" : `Save ${c.new + c.changed} values`}
+          </Button>
+        </>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,99 @@
+import ExcelJS from "exceljs";
+import { describeRange, type EntryColumn } from "@/lib/observations/columns";
+import { displayValue, type CellValue } from "@/lib/observations/values";
+import { addDays } from "@/lib/schedule";
+import { TRAIT_TYPE_LABELS } from "@/lib/labels";
+import { FIXED_HEADINGS, PLOT_SHEET } from "./read";
+import { neutraliseCell } from "./safety";
+
+export interface TemplateInput {
+  trialCode: string;
+  trialTitle: string;
+  siteName: string;
+  sownOn: string | null;
+  columns: EntryColumn[];
+  plots: { id: number; plotCode: string; block: number; blindCode: string }[];
+  values: Record<number, Record<string, CellValue>>;
+}
+
+function validationFor(c: EntryColumn, sownOn: string | null): ExcelJS.DataValidation | null {
+  const error = `Enter ${describeRange(c)}.`;
+  const base = { allowBlank: true, showErrorMessage: true, errorStyle: "stop", errorTitle: c.name, error, showInputMessage: true, promptTitle: c.name, prompt: describeRange(c) } as const;
+  switch (c.valueType) {
+    case "count":
+    case "rating":
+      return { ...base, type: "whole", operator: "between", formulae: [c.min ?? 0, c.max ?? 1_000_000] };
+    case "number":
+      return { ...base, type: "decimal", operator: "between", formulae: [c.min ?? -1_000_000, c.max ?? 1_000_000] };
+    case "date":
+      return sownOn ? { ...base, type: "date", operator: "greaterThanOrEqual", formulae: [new Date(`${sownOn}T00:00:00Z`)] } : { ...base, type: "date", operator: "greaterThan", formulae: [new Date("2000-01-01T00:00:00Z")] };
+    case "yes_no":
+      return { ...base, type: "list", formulae: ['"yes,no"'] };
+    case "text":
+      return { ...base, type: "textLength", operator: "lessThanOrEqual", formulae: [1000] };
+  }
+}
+
+/**
+ * The site's data sheet as a workbook: plots in layout order with their blocks and blind codes, one column
+ * per value with its unit, Excel data validation, a frozen header and a data dictionary on a second sheet.
+ * Values already recorded are filled in, so a corrected sheet can be uploaded again.
+ */
+export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
+  const wb = new ExcelJS.Workbook();
+  wb.creator = "Seedplot";
+  const ws = wb.addWorksheet(PLOT_SHEET, { views: [{ state: "frozen", xSplit: 1, ySplit: 1 }] });
+  const headings = [...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)];
+  ws.addRow(headings);
+  ws.getRow(1).font = { bold: true };
+  ws.getRow(1).alignment = { wrapText: true, vertical: "top" };
+  ws.columns = headings.map((h, i) => ({ width: i < 3 ? 11 : Math.min(32, Math.max(14, h.length * 0.8)) }));
+  for (const p of t.plots) {
+    const cells: (string | number | Date | null)[] = [p.plotCode, p.block, p.blindCode];
+    for (const c of t.columns) {
+      const v = t.values[p.id]?.[c.key] ?? null;
+      if (!v) cells.push(null);
+      else if (c.valueType === "date" && v.valueDate) cells.push(new Date(`${v.valueDate}T00:00:00Z`));
+      else if (c.valueType === "text" || c.valueType === "yes_no") cells.push(neutraliseCell(displayValue(c, v)));
+      else cells.push(v.valueNumber);
+    }
+    ws.addRow(cells);
+  }
+  for (let r = 2; r <= t.plots.length + 1; r += 1) {
+    t.columns.forEach((c, i) => {
+      const cell = ws.getCell(r, FIXED_HEADINGS.length + i + 1);
+      const dv = validationFor(c, t.sownOn);
+      if (dv) cell.dataValidation = dv;
+      if (c.valueType === "date") cell.numFmt = "yyyy-mm-dd";
+    });
+  }
+
+  const dict = wb.addWorksheet("Data dictionary", { views: [{ state: "frozen", ySplit: 1 }] });
+  dict.addRow(["Column heading", "Trait", "Unit", "Type", "Valid values", "Due"]);
+  dict.getRow(1).font = { bold: true };
+  dict.addRow(["Plot", "Plot id from the label", "", "Text", "Do not change", ""]);
+  dict.addRow(["Block", "Block (replicate)", "", "Whole number", "Do not change", ""]);
+  dict.addRow(["Code", "Blind code of the variety", "", "Text", "Do not change", ""]);
+  for (const c of t.columns) {
+    const due = c.dueDay !== null ? `Day ${c.dueDay} after sowing${t.sownOn ? ` (${addDays(t.sownOn, c.dueDay)})` : ""}` : (c.dueNote ?? "");
+    dict.addRow([c.heading, c.name, c.unit ?? "", TRAIT_TYPE_LABELS[c.valueType], describeRange(c), due]);
+  }
+  dict.addRow([]);
+  dict.addRow([`${t.trialCode} · ${t.trialTitle} · ${t.siteName}${t.sownOn ? ` · sown ${t.sownOn}` : ""}`]);
+  dict.addRow(["Leave a cell empty when the value is not recorded. Dates as YYYY-MM-DD. Do not rename, add or remove columns, merge cells or use formulas."]);
+  dict.columns = [{ width: 40 }, { width: 30 }, { width: 14 }, { width: 14 }, { width: 30 }, { width: 34 }];
+  return Buffer.from(await wb.xlsx.writeBuffer());
+}
+
+/** The recorded values as CSV with the template's columns, every text cell neutralised for spreadsheets. */
+export function buildCsvExport(t: TemplateInput, line: (cells: (string | number | null)[]) => string): string {
+  const out = [line([...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)])];
+  for (const p of t.plots) {
+    out.push(line([p.plotCode, p.block, p.blindCode, ...t.columns.map((c) => {
+      const v = t.values[p.id]?.[c.key] ?? null;
+      if (!v) return null;
+      return c.valueType === "count" || c.valueType === "number" || c.valueType === "rating" ? v.valueNumber : displayValue(c, v);
+    })]));
+  }
+  return `\uFEFF${out.join("\r\n")}\r\n`;
+}
