@@ -8,6 +8,8 @@ import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { unique } from "../helpers/db";
 
 let browser: Browser;
+// The layout built by the coordinator below; no demo grower is attached to it.
+let foreignLayout: string | null = null;
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -52,6 +54,7 @@ describe("coordinator sets up a trial in the browser", () => {
 
       await page.getByRole("link", { name: "Layout and printables" }).first().click();
       await page.waitForURL(/\/sites\/\d+$/);
+      foreignLayout = new URL(page.url()).pathname.replace("/portal/trials/", "");
       const codes = [...new Set((await page.locator("tbody td.font-mono").allTextContents()).map((t) => t.trim()))];
       expect(codes).toHaveLength(4);
       const href = await page.getByRole("link", { name: /map \(PDF\)/ }).getAttribute("href");
@@ -71,16 +74,30 @@ describe("coordinator sets up a trial in the browser", () => {
     }
   }, 120_000);
 
-  it("keeps a grower out of another site's printables", async () => {
+  it("gives a grower their own site's printables with blind codes only, and nothing of other sites", async () => {
     const { page, context } = await newPage(browser);
     try {
       await signIn(page, "tomas@willowbend.example", "seedplot-grower-demo");
-      const response = await page.request.get("/portal/trials/999999/sites/999999/sheets?kind=map");
-      expect(response.status()).toBe(404);
-      const bad = await page.request.get("/portal/trials/1/sites/1/sheets?kind=poster");
-      expect(bad.status()).toBe(400);
+      const mine = (await (await page.request.get("/api/trials")).json()) as { trials: { trialId: number; siteId: number }[] };
+      expect(mine.trials.length).toBeGreaterThan(0);
+      const own = mine.trials[0]!;
+      const layout = (await (await page.request.get(`/api/trials/${own.trialId}/sites/${own.siteId}/layout`)).json()) as { showKey: boolean; plots: Record<string, unknown>[] };
+      expect(layout.showKey).toBe(false);
+      expect(layout.plots.length).toBeGreaterThan(0);
+      expect(layout.plots.every((p) => !("variety" in p) && typeof p.blindCode === "string")).toBe(true);
+      const labels = await page.request.get(`/portal/trials/${own.trialId}/sites/${own.siteId}/sheets?kind=labels`);
+      expect(labels.status()).toBe(200);
+      expect(labels.headers()["content-type"]).toBe("application/pdf");
+
+      expect((await page.request.get(`/api/trials/${own.trialId}`)).status()).toBe(403);
+      if (foreignLayout) {
+        expect((await page.request.get(`/portal/trials/${foreignLayout}/sheets?kind=map`)).status()).toBe(404);
+        expect((await page.request.get(`/api/trials/${foreignLayout}/layout`)).status()).toBe(404);
+      }
+      expect((await page.request.get("/portal/trials/999999/sites/999999/sheets?kind=map")).status()).toBe(404);
+      expect((await page.request.get(`/portal/trials/${own.trialId}/sites/${own.siteId}/sheets?kind=poster`)).status()).toBe(400);
     } finally {
       await context.close();
     }
-  }, 60_000);
+  }, 90_000);
 });
