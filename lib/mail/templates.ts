@@ -40,3 +40,16 @@ export function enrolmentNoticeMail(p: { to: string; name: string; siteName: str
       SIGNATURE,
   };
 }
+
+/** Notice to a trial's cooperators that results are out. */
+export function resultsPublishedMail(p: { to: string; name: string; trialTitle: string; version: number; link: string }): OutgoingMail {
+  const what = p.version > 1 ? `A corrected version (version ${p.version}) of the results` : "The results";
+  return {
+    to: p.to,
+    subject: `Results published: ${p.trialTitle}`,
+    text:
+      `Hello ${p.name},\n\n${what} of "${p.trialTitle}", which your site helped grow, are now public, with the ` +
+      `variety names revealed:\n${p.link}\n\nThank you for your plots and your careful counts.` +
+      SIGNATURE,
+  };
+}

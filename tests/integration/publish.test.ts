@@ -1,0 +1,136 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { execFileSync } from "node:child_process";
+import { promises as fs } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { and, eq, sql } from "drizzle-orm";
+import * as s from "@/db/schema";
+import { pool as appPool } from "@/db/index";
+import { insertPublishedReport, updateUnpublished } from "@/db/mutations/publish";
+import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/db/queries/public";
+import { buildSnapshot } from "@/lib/publish/build";
+import { renderTrialReport } from "@/reports/trial-report/render";
+import type { Viewer } from "@/lib/auth/types";
+import { DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
+import { testDatabase } from "../helpers/db";
+
+const { db, pool } = testDatabase();
+// The spinach trial is published here; the other test files leave it alone.
+const TRIAL = DEMO_TRIALS.find((t) => t.code === "TV26-SPN")!;
+let coordinator: Viewer;
+let trialId: number;
+
+async function publish(changeNote: string | null) {
+  return insertPublishedReport(coordinator, {
+    trialId,
+    traitId: null,
+    changeNote,
+    build: (version, publishedAt) => buildSnapshot(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version, changeNote, publishedAt }),
+    notices: () => [],
+  });
+}
+
+beforeAll(async () => {
+  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, DEMO_STAFF[1].email));
+  coordinator = u!;
+  const [t] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, TRIAL.code));
+  trialId = t!.id;
+});
+afterAll(async () => {
+  await pool.end();
+  await appPool.end();
+});
+
+describe("publishing a trial", () => {
+  it("keeps the published report unchanged by later data edits until it is republished as version 2", async () => {
+    expect(await getPublicReport(TRIAL.code)).toBeNull();
+    const first = await publish(null);
+    expect(first.version).toBe(1);
+
+    const v1 = await getPublicReport(TRIAL.code);
+    expect(v1?.kind).toBe("published");
+    if (v1?.kind !== "published") return;
+    expect(v1.snapshot.entries.map((e) => e.variety).sort()).toEqual(TRIAL.entries.map((e) => e.variety).sort());
+    const yieldResult = v1.snapshot.results.find((r) => r.result.trait.name === "Marketable yield")!.result;
+    const before = JSON.stringify(yieldResult.combined!.means);
+
+    // A grower's value changes after publication.
+    const [plot] = await db
+      .select({ id: s.observations.id, value: s.observations.valueNumber })
+      .from(s.observations)
+      .innerJoin(s.plots, eq(s.plots.id, s.observations.plotId))
+      .innerJoin(s.traits, eq(s.traits.id, s.observations.traitId))
+      .where(and(eq(s.plots.trialId, trialId), eq(s.traits.code, "marketable_yield"), sql`${s.observations.valueNumber} IS NOT NULL`))
+      .limit(1);
+    await db.update(s.observations).set({ valueNumber: plot!.value! + 5000 }).where(eq(s.observations.id, plot!.id));
+
+    const still = await getPublicReport(TRIAL.code);
+    if (still?.kind !== "published") throw new Error("expected published");
+    expect(JSON.stringify(still.snapshot.results.find((r) => r.result.trait.name === "Marketable yield")!.result.combined!.means)).toBe(before);
+    expect(still.latestVersion).toBe(1);
+
+    await expect(publish(null)).rejects.toThrow(/what changed/i);
+    const second = await publish("Corrected a yield value at one site.");
+    expect(second.version).toBe(2);
+    const v2 = await getPublicReport(TRIAL.code);
+    if (v2?.kind !== "published") throw new Error("expected published");
+    expect(v2.snapshot.version).toBe(2);
+    expect(v2.snapshot.changeNote).toBe("Corrected a yield value at one site.");
+    expect(JSON.stringify(v2.snapshot.results.find((r) => r.result.trait.name === "Marketable yield")!.result.combined!.means)).not.toBe(before);
+    expect(v2.versions.map((v) => v.version)).toEqual([2, 1]);
+    // Version 1 stays readable as it was.
+    const old = await getPublicReport(TRIAL.code, 1);
+    if (old?.kind !== "published") throw new Error("expected version 1");
+    expect(JSON.stringify(old.snapshot.results.find((r) => r.result.trait.name === "Marketable yield")!.result.combined!.means)).toBe(before);
+  }, 60_000);
+
+  it("renders a PDF that names every variety and carries the summary", async () => {
+    const report = await getPublicReport(TRIAL.code);
+    if (report?.kind !== "published") throw new Error("expected published");
+    const pdf = await renderTrialReport(report.snapshot);
+    const dir = await fs.mkdtemp(path.join(os.tmpdir(), "seedplot-report-"));
+    const file = path.join(dir, "report.pdf");
+    await fs.writeFile(file, pdf);
+    const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString();
+    for (const entry of TRIAL.entries) expect(text).toContain(entry.variety);
+    expect(text).toContain("Summary for growers");
+    expect(text).toContain(report.snapshot.summary[0]!.slice(0, 30));
+    expect(text).toMatch(/Page 1 of \d+/);
+    // Rendered to images as a grower would see it.
+    execFileSync("pdftoppm", ["-png", "-r", "40", file, path.join(dir, "page")]);
+    expect((await fs.readdir(dir)).filter((n) => n.endsWith(".png")).length).toBeGreaterThan(3);
+    if (process.env.SEEDPLOT_KEEP_PDF) await fs.copyFile(file, process.env.SEEDPLOT_KEEP_PDF);
+  }, 60_000);
+
+  it("lists published trials, varieties and sites publicly without contact details", async () => {
+    const index = await listPublicTrials({ q: "spinach" });
+    expect(index.trials.map((t) => t.code)).toContain(TRIAL.code);
+    expect((await listPublicTrials({ q: "no-such-variety-anywhere" })).trials).toEqual([]);
+    const report = await getPublicReport(TRIAL.code);
+    if (report?.kind !== "published") throw new Error("expected published");
+    const variety = await getPublicVariety(report.snapshot.entries[0]!.varietyId);
+    expect(variety?.trials.map((t) => t.code)).toEqual([TRIAL.code]);
+    const site = await getPublicSite(report.snapshot.sites[0]!.id);
+    expect(site?.site.name).toBe(report.snapshot.sites[0]!.name);
+    const serialised = JSON.stringify(report.snapshot) + JSON.stringify(site);
+    expect(serialised).not.toMatch(/@|555-01|contact/i);
+  });
+
+  it("withdraws the results with a reason and shows a notice instead", async () => {
+    await updateUnpublished(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
+    const notice = await getPublicReport(TRIAL.code);
+    expect(notice?.kind).toBe("withdrawn");
+    if (notice?.kind === "withdrawn") expect(notice.reason).toContain("labelling mix-up");
+    expect(await getPublicReport(TRIAL.code, 1)).toBeNull();
+    expect((await listPublicTrials({})).trials.map((t) => t.code)).not.toContain(TRIAL.code);
+    await expect(updateUnpublished(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
+  });
+
+  it("refuses a coordinator of another program and cooperators", async () => {
+    const grower: Viewer = { id: 999999, email: "x@example.org", name: "X", role: "cooperator" };
+    await expect(buildSnapshot(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version: 1, changeNote: null, publishedAt: new Date() })).rejects.toThrow(/not in your programs/);
+    const [other] = await db.insert(s.users).values({ email: `other-coord-${Date.now()}@example.org`, name: "Other", role: "coordinator" }).$returningId();
+    const outsider: Viewer = { id: other!.id, email: "o@example.org", name: "Other", role: "coordinator" };
+    await expect(updateUnpublished(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
+  });
+});
