@@ -86,7 +86,9 @@ export async function updateTrialDesign(viewer: Viewer, input: UpdateTrialInput)
     const designChanged = trial.design !== input.design || trial.blocks !== input.blocks || trial.plotUnit !== input.plotUnit || trial.plotSize !== input.plotSize;
     if (designChanged && !canEditDesign(state)) throw new AppError("conflict", designLockReason(state) ?? "The design can no longer change.");
     const currentTraits = (await tx.select({ id: trialTraits.traitId }).from(trialTraits).where(eq(trialTraits.trialId, trial.id)).orderBy(asc(trialTraits.sortOrder))).map((t) => t.id);
-    const traitsChanged = currentTraits.join(",") !== input.traitIds.join(",");
+    // The form lists traits in library order, so only a different set counts as a change.
+    const sortedIds = (ids: number[]) => [...new Set(ids)].sort((a, b) => a - b).join(",");
+    const traitsChanged = sortedIds(currentTraits) !== sortedIds(input.traitIds);
     if (traitsChanged && !canEditTraits(state)) throw new AppError("conflict", "The traits can no longer change because data collection has started.");
     await checkTraitsExist(tx, input.traitIds);
     await tx

@@ -207,3 +207,18 @@ describe("who sees a site's layout", () => {
     expect(await getPlotForViewer(otherGrower, mine!.plots[0]!.id)).toBeNull();
   });
 });
+
+describe("editing a trial", () => {
+  it("still saves a new title after layout, but not a different trait set once data exist", async () => {
+    const trialId = await trialWithEntries(2);
+    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
+    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
+    const form = trialInput();
+    await updateTrialDesign(coordinator, { ...form, trialId, title: "Renamed after layout" });
+    const [row] = await db.select({ title: s.trials.title }).from(s.trials).where(eq(s.trials.id, trialId));
+    expect(row!.title).toBe("Renamed after layout");
+    const [plot] = await db.select().from(s.plots).where(eq(s.plots.trialId, trialId));
+    await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 3 });
+    await expectAppError(updateTrialDesign(coordinator, { ...form, trialId, traitIds: [] }), "conflict", /traits can no longer change/);
+  });
+});

@@ -42,7 +42,10 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             <span className="font-mono">{trial.code}</span> · {trial.crop} · {trial.season} · {trial.program}
           </p>
         </div>
-        <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
+        <div className="flex items-center gap-3">
+          {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
+          <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
+        </div>
       </div>
 
       <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
