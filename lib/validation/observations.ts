@@ -21,3 +21,13 @@ export const saveObservationsSchema = z.object({
 export type SaveObservationsInput = z.infer<typeof saveObservationsSchema>;
 
 export const siteParamsSchema = z.object({ trialId: idParam, siteId: idParam });
+
+const optionalTextField = (max: number) => z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(max, `Use at most ${max} characters.`).optional());
+
+export const returnSubmissionSchema = siteParamsSchema.extend({ message: optionalTextField(2000) });
+
+export const reviewCommentSchema = siteParamsSchema.extend({
+  plotId: z.preprocess((v) => (v === "" ? undefined : v), idParam.optional()),
+  key: optionalTextField(80),
+  body: z.string({ error: "Write the comment." }).trim().min(1, "Write the comment.").max(2000, "Use at most 2,000 characters."),
+});

@@ -7,6 +7,8 @@ import { EntryForm } from "@/components/record/entry-form";
 import { DuePanel, lockMessage, SiteHeader } from "@/components/record/site-panels";
 import { displayValue } from "@/lib/observations/values";
 import { buttonClasses } from "@/components/ui/button";
+import { Card } from "@/components/ui/card";
+import { SubmitForReviewForm } from "@/components/review/review-forms";
 
 export const dynamic = "force-dynamic";
 
@@ -39,6 +41,20 @@ export default async function RecordSitePage({ params, searchParams }: { params:
     <div className="space-y-6">
       <SiteHeader sheet={sheet} />
       <DuePanel sheet={sheet} />
+      {sheet.submission?.status === "returned" && (
+        <Card title="Returned by your coordinator">
+          {sheet.submission.reviewComment && <p className="mb-2">{sheet.submission.reviewComment}</p>}
+          <ul className="list-disc pl-5">
+            {sheet.comments.map((c) => (
+              <li key={c.id}>
+                {c.plotId ? `Plot ${sheet.plots.find((x) => x.id === c.plotId)?.plotCode ?? ""}: ` : ""}
+                {c.body}
+              </li>
+            ))}
+          </ul>
+          <p className="mt-2 text-sm text-loam-700">Correct or confirm these values below, then send the data again.</p>
+        </Card>
+      )}
       <div className="flex flex-wrap gap-2">
         <a className={buttonClasses("secondary")} href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>
           Download spreadsheet (.xlsx)
@@ -47,6 +63,12 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           Upload a filled-in sheet
         </Link>
       </div>
+      {(sheet.submission?.status ?? "draft") !== "submitted" && sheet.submission?.status !== "accepted" && Object.keys(sheet.values).length > 0 && (
+        <Card title="When everything is in">
+          <p className="mb-3 text-loam-700">Send the data to your coordinator for review. The values are locked until they accept it or return it with questions.</p>
+          <SubmitForReviewForm site={{ trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }} />
+        </Card>
+      )}
       {plotFilter.success && (
         <p>
           Showing one plot. <Link href={base}>Show all {sheet.plots.length} plots</Link>
