@@ -1,0 +1,174 @@
+"use client";
+import * as Plot from "@observablehq/plot";
+import type { CombinedAnalysis, EmergenceAnalysis, EntryResult, GerminationAnalysis } from "@/lib/analysis/types";
+import { formatNumber } from "@/lib/analysis/format";
+import { Chart } from "./chart";
+import { ENTRY_COLOURS, ENTRY_SYMBOLS } from "./palette";
+import type { EntryLabel } from "./analysis-tables";
+
+const INK = "#1b2618";
+const leftMargin = (labels: string[], width: number) => Math.min(width < 500 ? 110 : 170, 12 + 7 * Math.max(4, ...labels.map((l) => l.length)));
+
+function entryScales(order: string[]) {
+  return {
+    color: { type: "ordinal" as const, domain: order, range: [...ENTRY_COLOURS], legend: true },
+    symbol: { type: "ordinal" as const, domain: order, range: [...ENTRY_SYMBOLS] },
+  };
+}
+
+/** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
+export function MeansChart({ means, lsd, label, unit, title, testId }: { means: EntryResult[]; lsd: number | null; label: EntryLabel; unit: string; title: string; testId?: string }) {
+  const rows = [...means]
+    .sort((a, b) => a.rank - b.rank)
+    .map((m) => {
+      const centre = m.lsMean ?? m.mean;
+      const half = lsd !== null ? lsd / 2 : m.se;
+      return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };
+    });
+  const bars = lsd !== null ? `Bars are half an LSD (${formatNumber(lsd)}) each side, so entries whose bars do not overlap differ.` : "Bars are ± one standard error.";
+  const summary = `${title}, highest first: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
+  return (
+    <Chart
+      title={title}
+      summary={summary}
+      testId={testId}
+      height={Math.max(180, 44 * rows.length + 60)}
+      build={(width) => ({
+        marginLeft: leftMargin(rows.map((r) => r.entry), width),
+        marginRight: 36,
+        x: { label: unit, grid: true, nice: true },
+        y: { label: null, domain: rows.map((r) => r.entry) },
+        marks: [
+          Plot.ruleY(rows, { y: "entry", x1: "low", x2: "high", stroke: INK, strokeWidth: 2 }),
+          Plot.dot(rows, { y: "entry", x: "centre", r: 6, fill: "#1d4f91", stroke: "white" }),
+          Plot.text(rows, { y: "entry", x: "high", text: "letter", dx: 8, textAnchor: "start", fill: INK, fontWeight: 600 }),
+        ],
+      })}
+    />
+  );
+}
+
+/** Entry means per site, sites ordered from poorest to best: crossing lines are the entry × site interaction. */
+export function InteractionChart({ combined, label, order, unit }: { combined: CombinedAnalysis; label: (entryId: number) => string; order: string[]; unit: string }) {
+  const siteMeans = siteMeanMap(combined);
+  const sites = [...siteMeans.entries()].sort((a, b) => a[1].mean - b[1].mean).map(([, s]) => s.name);
+  const data = combined.cellMeans.map((c) => ({ site: c.siteName, entry: label(c.entryId), mean: c.mean }));
+  const best = sites.map((site) => {
+    const top = data.filter((d) => d.site === site).sort((a, b) => b.mean - a.mean)[0];
+    return `${site}: ${top?.entry ?? "–"}`;
+  });
+  const summary = `Entry means at each site, sites ordered from lowest to highest site mean. Top entry per site — ${best.join("; ")}. Lines that cross show entries changing rank between sites.`;
+  return (
+    <Chart
+      title="Entry × site: means at each site"
+      summary={summary}
+      testId="interaction-chart"
+      height={360}
+      build={(width) => ({
+        marginLeft: 56,
+        marginBottom: 70,
+        x: { domain: sites, label: null, tickRotate: width < 600 ? -35 : -15 },
+        y: { label: unit, grid: true, nice: true },
+        ...entryScales(order),
+        marks: [
+          Plot.line(data, { x: "site", y: "mean", stroke: "entry", strokeWidth: 2 }),
+          Plot.dot(data, { x: "site", y: "mean", stroke: "entry", fill: "entry", symbol: "entry", r: 4 }),
+        ],
+      })}
+    />
+  );
+}
+
+function siteMeanMap(combined: CombinedAnalysis) {
+  const sites = new Map<number, { name: string; sum: number; n: number; mean: number }>();
+  for (const c of combined.cellMeans) {
+    const s = sites.get(c.siteId) ?? { name: c.siteName, sum: 0, n: 0, mean: 0 };
+    s.sum += c.mean;
+    s.n += 1;
+    s.mean = s.sum / s.n;
+    sites.set(c.siteId, s);
+  }
+  return sites;
+}
+
+/** Site mean on x, each entry's mean there on y: a steep line is an entry that responds to good sites. */
+export function SiteResponseChart({ combined, label, order, unit }: { combined: CombinedAnalysis; label: (entryId: number) => string; order: string[]; unit: string }) {
+  const siteMeans = siteMeanMap(combined);
+  const data = combined.cellMeans.map((c) => ({ siteMean: siteMeans.get(c.siteId)!.mean, site: c.siteName, entry: label(c.entryId), mean: c.mean }));
+  const ordered = [...siteMeans.values()].sort((a, b) => a.mean - b.mean);
+  const poorest = ordered[0]!;
+  const best = ordered.at(-1)!;
+  const topAt = (name: string) => data.filter((d) => d.site === name).sort((a, b) => b.mean - a.mean)[0]?.entry ?? "–";
+  const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. Top entry at the lowest-yielding site: ${topAt(poorest.name)}; at the highest: ${topAt(best.name)}.`;
+  return (
+    <Chart
+      title="Site comparison: entry response to site mean"
+      summary={summary}
+      testId="site-response-chart"
+      height={340}
+      build={() => ({
+        marginLeft: 56,
+        marginBottom: 44,
+        x: { label: `Site mean (${unit})`, labelAnchor: "center", labelOffset: 38, grid: true, nice: true },
+        y: { label: `Entry mean (${unit})`, grid: true, nice: true },
+        ...entryScales(order),
+        marks: [
+          Plot.linearRegressionY(data, { x: "siteMean", y: "mean", stroke: "entry", ci: 0 }),
+          Plot.dot(data, { x: "siteMean", y: "mean", stroke: "entry", fill: "entry", symbol: "entry", r: 4 }),
+        ],
+      })}
+    />
+  );
+}
+
+/** Pooled emergence % per entry with its 95% Wilson interval; small hollow marks are the single sites. */
+export function GerminationChart({ germination, label }: { germination: GerminationAnalysis; label: EntryLabel }) {
+  const pooled = germination.byEntry.map((r) => ({ entry: label(r), percent: r.percent, lower: r.lower, upper: r.upper }));
+  const sites = germination.bySite.map((r) => ({ entry: label(r), percent: r.percent, site: r.siteName ?? "" }));
+  const summary = `Emergence per entry, pooled over sites, with 95% intervals: ${pooled.map((p) => `${p.entry} ${formatNumber(p.percent, 1)}% (${formatNumber(p.lower, 1)}–${formatNumber(p.upper, 1)})`).join("; ")}. Hollow marks show each site.`;
+  return (
+    <Chart
+      title="Emergence % per entry and site"
+      summary={summary}
+      testId="germination-chart"
+      height={Math.max(180, 44 * pooled.length + 60)}
+      build={(width) => ({
+        marginLeft: leftMargin(pooled.map((p) => p.entry), width),
+        x: { label: "Emerged (% of seeds sown)", domain: [0, 100], grid: true },
+        y: { label: null, domain: pooled.map((p) => p.entry) },
+        marks: [
+          Plot.dot(sites, { y: "entry", x: "percent", r: 3.5, stroke: "#5fa8d3", fill: "none", title: "site" }),
+          Plot.ruleY(pooled, { y: "entry", x1: "lower", x2: "upper", stroke: INK, strokeWidth: 2 }),
+          Plot.dot(pooled, { y: "entry", x: "percent", r: 6, fill: "#e69a28", stroke: INK }),
+        ],
+      })}
+    />
+  );
+}
+
+/** Cumulative emergence by day after sowing, one line and symbol per entry. */
+export function EmergenceChart({ emergence, label, order }: { emergence: EmergenceAnalysis; label: EntryLabel; order: string[] }) {
+  const data = emergence.curve.map((c) => ({ day: c.day, percent: c.percent, entry: label(c) }));
+  const lastDay = emergence.days.at(-1);
+  const summary = `Cumulative emergence by day after sowing (days ${emergence.days.join(", ")}). On day ${lastDay}: ${data
+    .filter((d) => d.day === lastDay)
+    .map((d) => `${d.entry} ${formatNumber(d.percent, 1)}%`)
+    .join("; ")}.`;
+  return (
+    <Chart
+      title="Emergence curves"
+      summary={summary}
+      testId="emergence-chart"
+      height={320}
+      build={() => ({
+        x: { label: "Days after sowing", domain: [0, (lastDay ?? 14) + 1], grid: true },
+        y: { label: "Emerged (%)", domain: [0, 100], grid: true },
+        ...entryScales(order),
+        marks: [
+          Plot.line(data, { x: "day", y: "percent", stroke: "entry", strokeWidth: 2 }),
+          Plot.dot(data, { x: "day", y: "percent", stroke: "entry", fill: "entry", symbol: "entry", r: 4 }),
+        ],
+      })}
+    />
+  );
+}

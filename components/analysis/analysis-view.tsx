@@ -1,0 +1,292 @@
+"use client";
+import { useEffect, useMemo, useState } from "react";
+import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import type { AnalysisResult, AnalysisSettings } from "@/lib/analysis/types";
+import { formatNumber, formatP } from "@/lib/analysis/format";
+import { Card } from "@/components/ui/card";
+import { Badge } from "@/components/ui/badge";
+import { buttonClasses } from "@/components/ui/button";
+import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
+import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
+import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
+
+/** URL search string for settings; the same string is the API query, the export query and the page URL. */
+export function settingsQuery(s: AnalysisSettings): string {
+  const q = new URLSearchParams({ trait: String(s.traitId) });
+  if (s.siteIds) q.set("sites", s.siteIds.join(","));
+  if (s.includeUnaccepted) q.set("unaccepted", "1");
+  if (s.siteModel !== "random") q.set("model", s.siteModel);
+  if (s.separation !== "lsd") q.set("compare", s.separation);
+  return q.toString();
+}
+
+async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisResult> {
+  const res = await fetch(`/api/trials/${trialId}/analysis?${query}`, { headers: { Accept: "application/json" } });
+  const body = await res.json().catch(() => null);
+  if (!res.ok) throw new Error(body?.error ?? "The analysis could not be loaded. Try again in a moment.");
+  return body as AnalysisResult;
+}
+
+const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
+
+/** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
+export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisResult; targets: ExclusionTargets }) {
+  const [settings, setSettings] = useState<AnalysisSettings>(initial.settings);
+  const [names, setNames] = useState(false);
+  const query = settingsQuery(settings);
+  const initialQuery = settingsQuery(initial.settings);
+  const { data, isFetching, error } = useQuery({
+    queryKey: ["analysis", trialId, query],
+    queryFn: () => fetchAnalysis(trialId, query),
+    initialData: query === initialQuery ? initial : undefined,
+    placeholderData: keepPreviousData,
+  });
+  const result = data ?? initial;
+
+  // Keep the address bar in step so a view can be bookmarked or shared with another coordinator.
+  useEffect(() => {
+    window.history.replaceState(null, "", `?${query}`);
+  }, [query]);
+
+  const label: EntryLabel = (e) => (names && e.varietyName ? e.varietyName : e.blindCode);
+  const entryLabel = useMemo(() => {
+    const byId = new Map<number, { blindCode: string; varietyName: string | null }>();
+    for (const m of result.combined?.means ?? result.perSite.find((s) => s.result)?.result?.means ?? []) byId.set(m.entryId, m);
+    return (id: number) => (byId.has(id) ? label(byId.get(id)!) : String(id));
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [result, names]);
+  const order = (result.combined?.means ?? []).map((m) => label(m));
+  const emergenceOrder = [...new Set((result.emergence?.curve ?? []).map((c) => label(c)))];
+  const unit = result.trait.computation !== "none" || result.trait.valueType === "date" ? "days" : (result.trait.unit ?? "");
+  const update = (patch: Partial<AnalysisSettings>) => setSettings((s) => ({ ...s, ...patch }));
+  const selectedSites = settings.siteIds ?? result.sites.map((s) => s.id);
+  const toggleSite = (id: number) => {
+    const next = selectedSites.includes(id) ? selectedSites.filter((x) => x !== id) : [...selectedSites, id];
+    update({ siteIds: next.length === result.sites.length ? null : next.sort((a, b) => a - b) });
+  };
+
+  return (
+    <div className="space-y-6">
+      <Card title="What to analyse">
+        <div className="grid gap-4 lg:grid-cols-3">
+          <div className="space-y-1">
+            <label htmlFor="trait" className="block text-sm font-semibold">
+              Trait
+            </label>
+            <select
+              id="trait"
+              value={settings.traitId}
+              onChange={(e) => update({ traitId: Number(e.target.value) })}
+              className="block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3 text-base"
+            >
+              {result.traits.map((t) => (
+                <option key={t.id} value={t.id} disabled={!t.analysable}>
+                  {t.name}
+                  {t.analysable ? "" : " (text, not analysed)"}
+                </option>
+              ))}
+            </select>
+            <p className="text-sm text-loam-700">Analysed as {result.trait.analysedAs}.</p>
+          </div>
+          <fieldset className="space-y-1">
+            <legend className="text-sm font-semibold">Sites</legend>
+            <p className="text-sm text-loam-700">{result.explanations.siteModel}</p>
+            <div className="flex flex-wrap gap-2">
+              {(["random", "fixed"] as const).map((m) => (
+                <label key={m} className="flex min-h-11 items-center gap-2 rounded-lg border border-loam-300 px-3">
+                  <input type="radio" name="siteModel" checked={settings.siteModel === m} onChange={() => update({ siteModel: m })} />
+                  {m === "random" ? "Random (farms like these)" : "Fixed (these farms only)"}
+                </label>
+              ))}
+            </div>
+          </fieldset>
+          <fieldset className="space-y-1">
+            <legend className="text-sm font-semibold">Compare means with</legend>
+            <p className="text-sm text-loam-700">{result.explanations.separation}</p>
+            <div className="flex flex-wrap gap-2">
+              {(["lsd", "tukey"] as const).map((m) => (
+                <label key={m} className="flex min-h-11 items-center gap-2 rounded-lg border border-loam-300 px-3">
+                  <input type="radio" name="separation" checked={settings.separation === m} onChange={() => update({ separation: m })} />
+                  {m === "lsd" ? "Protected LSD 0.05" : "Tukey 0.05"}
+                </label>
+              ))}
+            </div>
+          </fieldset>
+        </div>
+        <fieldset className="mt-4 space-y-2">
+          <legend className="text-sm font-semibold">Sites in the analysis</legend>
+          <ul className="grid gap-2 sm:grid-cols-2 lg:grid-cols-3">
+            {result.sites.map((s) => (
+              <li key={s.id}>
+                <label className="flex min-h-11 items-start gap-2 rounded-lg border border-husk-200 px-3 py-2">
+                  <input type="checkbox" className="mt-1 size-5" checked={selectedSites.includes(s.id)} onChange={() => toggleSite(s.id)} />
+                  <span>
+                    <span className="font-semibold">{s.name}</span> <Badge tone={STATUS_TONE[s.status]}>{s.status}</Badge>
+                    {s.why && s.why !== "not selected" && <span className="block text-sm text-loam-700">Left out: {s.why}</span>}
+                  </span>
+                </label>
+              </li>
+            ))}
+          </ul>
+          <label className="flex min-h-11 items-center gap-2">
+            <input type="checkbox" className="size-5" checked={settings.includeUnaccepted} onChange={(e) => update({ includeUnaccepted: e.target.checked })} />
+            Include data not yet accepted (draft, submitted or returned)
+          </label>
+          <p className="text-sm text-loam-700">{result.explanations.unaccepted}</p>
+        </fieldset>
+        <div className="mt-4 flex flex-wrap items-center gap-3">
+          <label className="flex min-h-11 items-center gap-2">
+            <input type="checkbox" className="size-5" checked={names} onChange={(e) => setNames(e.target.checked)} />
+            Show variety names instead of blind codes
+          </label>
+          <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=xlsx`}>
+            Download .xlsx
+          </a>
+          <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv`}>
+            Download CSV
+          </a>
+        </div>
+      </Card>
+
+      <div aria-live="polite" className="min-h-6 text-sm text-loam-700">
+        {isFetching ? "Updating the analysis…" : error ? <span className="font-semibold text-beet-700">{error.message}</span> : null}
+      </div>
+
+      <div className={isFetching ? "space-y-6 opacity-60 transition-opacity" : "space-y-6"}>
+        {result.warnings.length > 0 && (
+          <section aria-labelledby="warnings-h" className="rounded-xl border border-marigold-400 bg-marigold-100 p-4">
+            <h2 id="warnings-h" className="font-bold text-marigold-800">
+              Check before you trust the figures
+            </h2>
+            <ul className="mt-2 list-disc space-y-1 pl-5">
+              {result.warnings.map((w) => (
+                <li key={w}>{w}</li>
+              ))}
+            </ul>
+          </section>
+        )}
+
+        <Card title={`What the data say: ${result.trait.name}`}>
+          <ul className="list-disc space-y-1 pl-5" data-testid="analysis-notes">
+            {result.notes.map((n) => (
+              <li key={n}>{n}</li>
+            ))}
+          </ul>
+          <p className="mt-2 text-sm text-loam-700">
+            {result.explanations.cv} {result.explanations.missing}
+          </p>
+        </Card>
+
+        {result.combined ? (
+          <Card title={`Across ${result.combined.sites} sites`}>
+            <div className="grid gap-6 xl:grid-cols-2">
+              <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} testId="means-chart" />
+              <div className="space-y-2">
+                <MeansTable means={result.combined.means} label={label} unit={unit} caption="Combined entry means" testId="means-table" />
+                <p className="text-sm">
+                  CV {formatNumber(result.combined.cv, 1)}% · {result.combined.n} plots · entries {formatP(result.combined.entryP)} · entry × site {formatP(result.combined.interactionP)}
+                  {result.combined.bartlett && ` · Bartlett ${formatP(result.combined.bartlett.p)}`} · {result.combined.comparisonNote}
+                </p>
+              </div>
+            </div>
+            <details className="mt-4">
+              <summary className="min-h-11 cursor-pointer py-2 font-semibold">Combined ANOVA table</summary>
+              <AnovaTable rows={result.combined.rows} caption="Combined analysis of variance" />
+            </details>
+            <div className="mt-6 grid gap-6 xl:grid-cols-2">
+              <InteractionChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
+              <SiteResponseChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
+            </div>
+          </Card>
+        ) : (
+          <Card title="Across sites">
+            <p>{result.combinedProblem}</p>
+          </Card>
+        )}
+
+        <Card title="Site by site">
+          <div className="space-y-3">
+            {result.perSite.map((s) => (
+              <details key={s.siteId} className="rounded-lg border border-husk-200 px-3" open={result.perSite.length === 1}>
+                <summary className="min-h-11 cursor-pointer py-2">
+                  <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
+                  {s.result ? (
+                    <span className="text-sm text-loam-700">
+                      CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
+                    </span>
+                  ) : (
+                    <span className="text-sm text-beet-700">{s.problem}</span>
+                  )}
+                </summary>
+                {s.result && (
+                  <div className="space-y-3 pb-3">
+                    <MeansTable means={s.result.means} label={label} unit={unit} caption={`Entry means at ${s.siteName}`} />
+                    <p className="text-sm">{s.result.comparisonNote.charAt(0).toUpperCase() + s.result.comparisonNote.slice(1)}</p>
+                    <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
+                  </div>
+                )}
+              </details>
+            ))}
+            {result.perSite.length === 0 && <p>No site is in the analysis. Tick sites above, or include data not yet accepted.</p>}
+          </div>
+        </Card>
+
+        <Card title={`Missing plots (${result.missing.length})`}>
+          {result.missing.length === 0 ? <p className="text-sm">Every plot in the analysed sites has a value.</p> : <MissingTable missing={result.missing} />}
+        </Card>
+
+        <Card title="Exclusions">
+          <ExclusionPanel trialId={trialId} result={result} targets={targets} />
+        </Card>
+
+        {result.germination && (
+          <Card title="Emergence (germination in the trial)">
+            <p className="mb-3">{result.germination.note}</p>
+            <div className="grid gap-6 xl:grid-cols-2">
+              <GerminationChart germination={result.germination} label={label} />
+              <GerminationTable rows={result.germination.byEntry} label={label} bySite={false} />
+            </div>
+            <h3 className="mt-6 mb-2 font-bold">Compared with the seed label</h3>
+            <LabelTable rows={result.germination.labels} label={label} />
+            <details className="mt-4">
+              <summary className="min-h-11 cursor-pointer py-2 font-semibold">Per site</summary>
+              <GerminationTable rows={result.germination.bySite} label={label} bySite />
+            </details>
+          </Card>
+        )}
+
+        {result.emergence && (
+          <Card title="Speed of emergence">
+            <p className="mb-3">{result.emergence.note}</p>
+            <div className="grid gap-6 xl:grid-cols-2">
+              <EmergenceChart emergence={result.emergence} label={label} order={emergenceOrder} />
+              <div className="overflow-x-auto">
+                <table className="w-full text-sm">
+                  <caption className="sr-only">Mean emergence time per entry</caption>
+                  <thead>
+                    <tr className="border-b border-husk-400 text-left">
+                      <th scope="col" className="px-2 py-1">Entry</th>
+                      <th scope="col" className="px-2 py-1">Mean emergence time (days)</th>
+                      <th scope="col" className="px-2 py-1">T50 (days)</th>
+                      <th scope="col" className="px-2 py-1">Plots</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {result.emergence.kinetics.map((k) => (
+                      <tr key={k.entryId} className="border-b border-husk-200 tabular-nums">
+                        <th scope="row" className="px-2 py-1 text-left font-normal">{label(k)}</th>
+                        <td className="px-2 py-1">{formatNumber(k.meanEmergenceTime, 2)}</td>
+                        <td className="px-2 py-1">{formatNumber(k.t50, 2)}</td>
+                        <td className="px-2 py-1">{k.plots}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </div>
+          </Card>
+        )}
+      </div>
+    </div>
+  );
+}

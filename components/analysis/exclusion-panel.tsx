@@ -1,0 +1,87 @@
+"use client";
+import { useActionState, useEffect } from "react";
+import { useQueryClient } from "@tanstack/react-query";
+import { excludeFromAnalysis, includeInAnalysis } from "@/lib/actions/exclusions";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import { SelectField, TextField } from "@/components/ui/field";
+import { SubmitButton } from "@/components/ui/submit-button";
+import { FormMessage } from "@/components/ui/form-message";
+
+export interface ExclusionTargets {
+  sites: { id: number; name: string }[];
+  plots: { id: number; plotCode: string; siteName: string }[];
+}
+
+/** Lists exclusions and lets a coordinator add or remove one; the analysis refetches after each change. */
+export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: AnalysisResult; targets: ExclusionTargets }) {
+  const client = useQueryClient();
+  const [state, action] = useActionState(excludeFromAnalysis, null);
+  const [removeState, removeAction] = useActionState(includeInAnalysis, null);
+  useEffect(() => {
+    if (state?.ok || removeState?.ok) void client.invalidateQueries({ queryKey: ["analysis", trialId] });
+  }, [state, removeState, client, trialId]);
+  const values = state && !state.ok ? state.values : undefined;
+  const errors = state && !state.ok ? state.fieldErrors : undefined;
+  return (
+    <div className="space-y-4">
+      {result.exclusions.length === 0 ? (
+        <p className="text-sm text-loam-700">Nothing is excluded. Every accepted plot counts.</p>
+      ) : (
+        <ul className="space-y-2" aria-label="Exclusions">
+          {result.exclusions.map((x) => (
+            <li key={x.id} className="flex flex-wrap items-center justify-between gap-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm">
+              <span>
+                <strong>{x.plotCode ? `Plot ${x.plotCode} (${x.siteName})` : x.siteName}</strong>
+                {" — "}
+                {x.traitName ? `${x.traitName} only` : "all traits"}: {x.reason}
+                <span className="text-loam-700">
+                  {" "}
+                  · {x.createdBy ?? "someone"}, {x.createdAt.slice(0, 10)}
+                </span>
+              </span>
+              <form action={removeAction}>
+                <input type="hidden" name="trialId" value={trialId} />
+                <input type="hidden" name="exclusionId" value={x.id} />
+                <SubmitButton variant="secondary" pendingText="Including…">
+                  Include again
+                </SubmitButton>
+              </form>
+            </li>
+          ))}
+        </ul>
+      )}
+      <FormMessage state={removeState} />
+      <form action={action} className="grid gap-3 md:grid-cols-[1fr_1fr_2fr_auto] md:items-end">
+        <input type="hidden" name="trialId" value={trialId} />
+        <SelectField label="Leave out" name="target" defaultValue={values?.target ?? ""} errors={errors?.target}>
+          <option value="">Choose a site or plot…</option>
+          <optgroup label="Whole site">
+            {targets.sites.map((s) => (
+              <option key={s.id} value={`site:${s.id}`}>
+                {s.name}
+              </option>
+            ))}
+          </optgroup>
+          <optgroup label="One plot">
+            {targets.plots.map((p) => (
+              <option key={p.id} value={`plot:${p.id}`}>
+                {p.plotCode} · {p.siteName}
+              </option>
+            ))}
+          </optgroup>
+        </SelectField>
+        <SelectField label="For" name="traitId" defaultValue={values?.traitId ?? "all"} errors={errors?.traitId}>
+          <option value="all">All traits</option>
+          {result.traits.map((t) => (
+            <option key={t.id} value={t.id}>
+              {t.name} only
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Reason (kept with the record)" name="reason" defaultValue={values?.reason} errors={errors?.reason} placeholder="e.g. flooded after transplanting" />
+        <SubmitButton pendingText="Excluding…">Exclude</SubmitButton>
+      </form>
+      <FormMessage state={state} />
+    </div>
+  );
+}

@@ -1,0 +1,19 @@
+"use server";
+import { revalidatePath } from "next/cache";
+import { defineAction } from "./define-action";
+import { exclusionSchema, removeExclusionSchema } from "@/lib/validation/analysis";
+import { deleteExclusion, insertExclusion } from "@/db/mutations/exclusions";
+
+const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
+
+export const excludeFromAnalysis = defineAction({ roles: STAFF, schema: exclusionSchema }, async (input, viewer) => {
+  await insertExclusion(viewer, input);
+  revalidatePath(`/portal/trials/${input.trialId}/analysis`);
+  return { ok: true, message: `${input.siteId !== null ? "Site" : "Plot"} excluded. The data stay stored; the analyses below now leave it out.` };
+});
+
+export const includeInAnalysis = defineAction({ roles: STAFF, schema: removeExclusionSchema }, async (input, viewer) => {
+  await deleteExclusion(viewer, input);
+  revalidatePath(`/portal/trials/${input.trialId}/analysis`);
+  return { ok: true, message: "Exclusion removed; the data are back in the analyses." };
+});

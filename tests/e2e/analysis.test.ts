@@ -1,0 +1,51 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import mysql from "mysql2/promise";
+import { launchBrowser, newPage, signIn } from "../helpers/browser";
+import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
+
+let browser: Browser;
+let lettuceId: number;
+beforeAll(async () => {
+  browser = await launchBrowser();
+  const connection = await mysql.createConnection(process.env.E2E_DATABASE_URL ?? process.env.DATABASE_URL!);
+  const [rows] = await connection.query("SELECT id FROM trials WHERE code = 'TV26-LET'");
+  lettuceId = (rows as { id: number }[])[0]!.id;
+  await connection.end();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("trial analysis in a real browser", () => {
+  it("shows means and charts, then updates them when the trait and sites change", async () => {
+    const { page, context } = await newPage(browser);
+    await signIn(page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
+    await page.goto(`/portal/trials/${lettuceId}/analysis`);
+    await page.getByRole("heading", { name: /^Analysis: Leaf lettuce/ }).waitFor();
+
+    const table = page.getByTestId("means-table");
+    await table.waitFor();
+    expect(await table.locator("tbody tr").count()).toBe(6);
+    const chart = page.getByTestId("means-chart");
+    await chart.locator("svg").first().waitFor();
+    const summary = chart.locator("[data-chart-summary]");
+    expect(await summary.textContent()).toMatch(/Combined means: Marketable yield \(g per plot\), highest first: /);
+
+    await page.getByLabel("Trait").selectOption({ label: "First harvest date" });
+    await page.getByRole("heading", { name: "What the data say: First harvest date" }).waitFor();
+    await chart.getByText(/Combined means: First harvest date \(days from sowing\)/).first().waitFor();
+    expect(await table.locator("thead").textContent()).toContain("Mean (days)");
+    expect(await page.getByTestId("interaction-chart").locator("[data-chart-summary]").textContent()).toMatch(/Top entry per site/);
+
+    await page.getByRole("heading", { name: "Across 5 sites" }).waitFor();
+    await page.getByRole("checkbox", { name: /Willow Bend Farm/ }).uncheck();
+    await page.getByRole("heading", { name: "Across 4 sites" }).waitFor();
+    expect(page.url()).toMatch(/sites=/);
+
+    // Staff can switch from blind codes to variety names.
+    await page.getByLabel("Show variety names instead of blind codes").check();
+    await table.getByText("Copper Ruffle").waitFor();
+    await context.close();
+  }, 90_000);
+});
