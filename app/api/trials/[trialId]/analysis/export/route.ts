@@ -1,0 +1,66 @@
+import { z } from "zod";
+import ExcelJS from "exceljs";
+import { assertRole } from "@/lib/auth/guards";
+import { AppError, toResponse } from "@/lib/errors";
+import { idParam } from "@/lib/validation/common";
+import { parseAnalysisQuery } from "@/lib/validation/analysis";
+import { loadAnalysis } from "@/lib/analysis-service";
+import { exportTables, neutraliseFormula, toCsv } from "@/lib/analysis/export";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+const paramsSchema = z.object({ trialId: idParam });
+const exportSchema = z.object({
+  format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
+  table: z.enum(["raw", "means", "anova", "emergence"], { error: "Ask for table raw, means, anova or emergence." }).default("means"),
+});
+const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence" } as const;
+
+/** The analysis as an .xlsx workbook (every table plus settings and a data dictionary) or one table as CSV. */
+export async function GET(request: Request, context: { params: Promise<{ trialId: string }> }) {
+  try {
+    const viewer = await assertRole("coordinator", "admin");
+    const params = paramsSchema.safeParse(await context.params);
+    if (!params.success) throw new AppError("not_found", "That trial does not exist.");
+    const search = new URL(request.url).searchParams;
+    const query = parseAnalysisQuery(search);
+    if (!query.ok) throw new AppError("bad_request", query.message);
+    const options = exportSchema.safeParse({ format: search.get("format") ?? undefined, table: search.get("table") ?? undefined });
+    if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
+    const loaded = await loadAnalysis(viewer, params.data.trialId, query.data);
+    if (!loaded) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const { result } = loaded;
+    const tables = exportTables(result, new Date().toISOString(), true);
+    const base = `${result.trial.code}-${result.trait.code}-analysis`.toLowerCase().replace(/[^a-z0-9-]+/g, "-");
+    const headers = { "Cache-Control": "private, no-store" };
+
+    if (options.data.format === "csv") {
+      const table = tables.find((t) => t.name === CSV_SHEETS[options.data.table]);
+      if (!table) throw new AppError("not_found", "This trial has no emergence counts to export.");
+      return new Response(toCsv(table), {
+        headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${options.data.table}.csv"` },
+      });
+    }
+
+    const workbook = new ExcelJS.Workbook();
+    workbook.creator = "Seedplot";
+    for (const table of tables) {
+      const sheet = workbook.addWorksheet(table.name);
+      sheet.addRow(table.columns).font = { bold: true };
+      for (const row of table.rows) sheet.addRow(row.map((v) => (typeof v === "number" && !Number.isFinite(v) ? null : neutraliseFormula(v))));
+      sheet.views = [{ state: "frozen", ySplit: 1 }];
+      sheet.columns.forEach((column, i) => (column.width = Math.min(60, Math.max(10, table.columns[i]!.length + 4))));
+    }
+    const buffer = await workbook.xlsx.writeBuffer();
+    return new Response(new Uint8Array(buffer as ArrayBuffer), {
+      headers: {
+        ...headers,
+        "Content-Type": "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet",
+        "Content-Disposition": `attachment; filename="${base}.xlsx"`,
+      },
+    });
+  } catch (e) {
+    return toResponse(e);
+  }
+}

@@ -1,0 +1,119 @@
+/**
+ * The analysis as plain tables for spreadsheets and CSV: the same result DTO the page shows, so the
+ * numbers cannot drift apart. Text cells that a spreadsheet would run as a formula are neutralised.
+ */
+import type { AnalysisResult } from "./types";
+
+export type Cell = string | number | boolean | null;
+export interface ExportTable {
+  name: string;
+  columns: string[];
+  rows: Cell[][];
+}
+
+/** Spreadsheet programs treat text starting with = + - @ (or a tab/CR) as a formula; a leading apostrophe keeps it text. */
+export function neutraliseFormula(value: Cell): Cell {
+  return typeof value === "string" && /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
+}
+
+const SOURCE_WORDS: Record<string, string> = {
+  site: "Sites",
+  block: "Blocks",
+  "block:site": "Blocks within sites",
+  entry: "Entries",
+  "entry:site": "Entry x site",
+  residual: "Error",
+};
+
+/** Every table of the export, in sheet order. `generatedAt` is passed in so this stays pure. */
+export function exportTables(result: AnalysisResult, generatedAt: string, withNames: boolean): ExportTable[] {
+  const name = (e: { varietyName: string | null }) => (withNames ? e.varietyName : null);
+  const s = result.settings;
+  const settings: ExportTable = {
+    name: "Settings",
+    columns: ["Setting", "Value"],
+    rows: [
+      ["Trial", `${result.trial.code} ${result.trial.title}`],
+      ["Crop", result.trial.crop],
+      ["Trait", result.trait.name],
+      ["Analysed as", result.trait.analysedAs],
+      ["Sites", s.siteModel === "random" ? "random (entries tested against entry x site)" : "fixed (entries tested against pooled error)"],
+      ["Mean comparison", s.separation === "lsd" ? "protected LSD, alpha 0.05" : "Tukey HSD, alpha 0.05"],
+      ["Data used", s.includeUnaccepted ? "accepted and not yet accepted" : "accepted only"],
+      ...result.sites.map((site): Cell[] => [`Site: ${site.name}`, site.included ? `included (${site.status})` : `left out: ${site.why}`]),
+      ...result.exclusions.map((x): Cell[] => [`Exclusion ${x.id}`, `${x.plotCode ? `plot ${x.plotCode}` : `site ${x.siteName}`}, ${x.traitName ?? "all traits"}: ${x.reason} (${x.createdBy ?? "unknown"}, ${x.createdAt.slice(0, 10)})`]),
+      ["Generated", generatedAt],
+    ],
+  };
+  const raw: ExportTable = {
+    name: "Raw data",
+    columns: ["Plot", "Site", "Block", "Entry code", "Variety", "Value", "Status"],
+    rows: result.plots.map((p) => [p.plotCode, p.siteName, p.block, p.blindCode, name(p), p.value, p.status]),
+  };
+  const scopes = [
+    ...(result.combined ? [{ scope: "All sites", block: result.combined }] : []),
+    ...result.perSite.filter((x) => x.result).map((x) => ({ scope: x.siteName, block: x.result! })),
+  ];
+  const means: ExportTable = {
+    name: "Means",
+    columns: ["Scope", "Entry code", "Variety", "Check", "Mean", "LS mean", "SE", "Plots", "Group", "Rank", "LSD 0.05", "CV %"],
+    rows: scopes.flatMap(({ scope, block }) =>
+      block.means.map((m): Cell[] => [scope, m.blindCode, name(m), m.isCheck, m.mean, m.lsMean, m.se, m.n, m.letter, m.rank, block.lsd, block.cv]),
+    ),
+  };
+  const anova: ExportTable = {
+    name: "ANOVA",
+    columns: ["Scope", "Source", "df", "Sum of squares", "Mean square", "F", "p", "Tested against"],
+    rows: scopes.flatMap(({ scope, block }) =>
+      block.rows.map((r): Cell[] => [scope, SOURCE_WORDS[r.source] ?? r.source, r.df, r.ss, r.ms, r.f, r.p, r.testedAgainst ? SOURCE_WORDS[r.testedAgainst] : null]),
+    ),
+  };
+  const tables = [settings, raw, means, anova];
+  if (result.germination) {
+    tables.push({
+      name: "Emergence",
+      columns: ["Site", "Entry code", "Variety", "Seeds sown", "Emerged", "Emergence %", "95% lower", "95% upper"],
+      rows: [...result.germination.byEntry, ...result.germination.bySite].map((g) => [g.siteName ?? "All sites", g.blindCode, name(g), g.sown, g.emerged, g.percent, g.lower, g.upper]),
+    });
+  }
+  if (result.missing.length > 0) {
+    tables.push({ name: "Missing plots", columns: ["Plot", "Site", "Block", "Entry code", "Why missing", "How handled"], rows: result.missing.map((m) => [m.plotCode, m.siteName, m.block, m.blindCode, m.reason, m.handling]) });
+  }
+  tables.push({ name: "Notes", columns: ["Kind", "Text"], rows: [...result.warnings.map((w): Cell[] => ["warning", w]), ...result.notes.map((n): Cell[] => ["note", n])] });
+  tables.push(dataDictionary(result));
+  return tables;
+}
+
+function dataDictionary(result: AnalysisResult): ExportTable {
+  const unit = result.trait.computation !== "none" || result.trait.valueType === "date" ? "days" : (result.trait.unit ?? "as recorded");
+  return {
+    name: "Data dictionary",
+    columns: ["Sheet", "Column", "Meaning"],
+    rows: [
+      ["Raw data", "Plot", "Plot code printed on the label: site, block and position."],
+      ["Raw data", "Block", "Randomised complete block within the site."],
+      ["Raw data", "Entry code", "Blind code growers saw; the variety column decodes it (staff only)."],
+      ["Raw data", "Value", `${result.trait.analysedAs}, in ${unit}. Dates are converted to whole days from the site's sowing date.`],
+      ["Raw data", "Status", "used; missing (nothing recorded or a missing-plot reason); excluded (left out by a coordinator, reason on the Settings sheet). Missing and excluded plots are blank in Value and are not imputed."],
+      ["Means", "Mean", "Arithmetic mean of the entry's plots used."],
+      ["Means", "LS mean", "Least-squares mean adjusted for blocks (and sites); equals Mean when no plot is missing."],
+      ["Means", "SE", "Standard error of the LS mean, from the entry test's error term."],
+      ["Means", "Group", "Entries sharing a letter do not differ at alpha 0.05 (protected LSD or Tukey, see Settings). Blank when the F test was not significant under protected LSD."],
+      ["Means", "LSD 0.05", "Least significant difference; blank when not given. With missing plots it is the average over pairs."],
+      ["Means", "CV %", "100 x square root of the error mean square / grand mean."],
+      ["ANOVA", "Tested against", "Error term of the F test: with random sites, entries are tested against entry x site."],
+      ["Emergence", "Emergence %", "Seedlings emerged / seeds sown x 100, pooled over plots; 95% Wilson score interval."],
+    ],
+  };
+}
+
+/** One table as RFC 4180 CSV with formula-like text neutralised. */
+export function toCsv(table: ExportTable): string {
+  const cell = (v: Cell) => {
+    const x = neutraliseFormula(v);
+    if (x === null) return "";
+    const text = typeof x === "number" ? (Number.isFinite(x) ? String(x) : "") : String(x);
+    return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+  };
+  return [table.columns, ...table.rows].map((r) => r.map(cell).join(",")).join("\r\n") + "\r\n";
+}
