@@ -12,6 +12,7 @@ export async function PublicHeader() {
         </Link>
         <nav aria-label="Main" className="flex items-center gap-4 text-base">
           <Link href="/">Home</Link>
+          <Link href="/results">Results</Link>
           {viewer ? <Link href="/portal">My portal</Link> : <Link href="/sign-in">Sign in</Link>}
         </nav>
       </div>

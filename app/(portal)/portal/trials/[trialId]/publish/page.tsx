@@ -1,0 +1,65 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { z } from "zod";
+import { requireRole } from "@/lib/auth/guards";
+import { getPublishContext, listReportVersions } from "@/db/queries/publish";
+import { listAnalysisTraits } from "@/db/queries/analysis";
+import { isAnalysable } from "@/lib/analysis/values";
+import { Card } from "@/components/ui/card";
+import { Badge } from "@/components/ui/badge";
+import { PublishForm, UnpublishForm } from "@/components/publish/publish-forms";
+
+export const metadata: Metadata = { title: "Publish results" };
+
+export default async function PublishPage({ params }: { params: Promise<{ trialId: string }> }) {
+  const viewer = await requireRole("coordinator", "admin");
+  const id = z.coerce.number().int().positive().safeParse((await params).trialId);
+  if (!id.success) notFound();
+  const [context, versions, traits] = await Promise.all([getPublishContext(viewer, id.data), listReportVersions(viewer, id.data), listAnalysisTraits(viewer, id.data)]);
+  if (!context || !traits) notFound();
+  const { trial } = context;
+  const live = versions.filter((v) => v.unpublishedAt === null);
+  const nextVersion = (versions[0]?.version ?? 0) + 1;
+  return (
+    <div className="space-y-6">
+      <p className="text-sm"><Link href={`/portal/trials/${trial.id}`}>← {trial.title}</Link></p>
+      <h1 className="text-3xl font-bold">Publish results: {trial.title}</h1>
+      <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
+        <Card title="Publish a new version">
+          {trial.status === "draft" || trial.status === "archived" ? (
+            <p>A {trial.status} trial cannot be published.</p>
+          ) : (
+            <PublishForm trialId={trial.id} traits={traits.filter((t) => isAnalysable(t) && t.recorded > 0 && t.code !== "seeds_sown").map((t) => ({ id: t.id, name: t.name }))} nextVersion={nextVersion} />
+          )}
+        </Card>
+        <div className="space-y-6">
+          <Card title="Versions">
+            {versions.length === 0 ? (
+              <p className="text-loam-700">Not published yet.</p>
+            ) : (
+              <ul className="space-y-3">
+                {versions.map((v) => (
+                  <li key={v.id}>
+                    <span className="font-semibold">Version {v.version}</span> · {v.publishedAt.toISOString().slice(0, 10)} by {v.publishedBy ?? "—"}{" "}
+                    {v.unpublishedAt ? <Badge tone="bad">Withdrawn</Badge> : <Badge tone="good">Public</Badge>}
+                    {v.changeNote && <span className="block text-sm text-loam-700">{v.changeNote}</span>}
+                    {v.unpublishReason && <span className="block text-sm text-beet-700">Withdrawn: {v.unpublishReason}</span>}
+                  </li>
+                ))}
+              </ul>
+            )}
+            {live.length > 0 && (
+              <p className="mt-4"><Link href={`/results/${trial.code}`}>Open the public page</Link></p>
+            )}
+          </Card>
+          {live.length > 0 && (
+            <Card title="Withdraw">
+              <UnpublishForm trialId={trial.id} />
+            </Card>
+          )}
+        </div>
+      </div>
+    </div>
+  );
+}

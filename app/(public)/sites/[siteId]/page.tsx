@@ -1,0 +1,44 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { z } from "zod";
+import { getPublicSite } from "@/db/queries/public";
+import { SETUP_LABELS } from "@/lib/labels";
+import type { GrowingSetup } from "@/db/schema/enums";
+
+type Params = Promise<{ siteId: string }>;
+const idSchema = z.coerce.number().int().positive().max(2_000_000_000);
+
+async function load(params: Params) {
+  const id = idSchema.safeParse((await params).siteId);
+  return id.success ? getPublicSite(id.data) : null;
+}
+
+export async function generateMetadata({ params }: { params: Params }): Promise<Metadata> {
+  const found = await load(params);
+  return found ? { title: `${found.site.name} — partner site`, description: found.site.publicDescription ?? undefined } : { title: "Not found" };
+}
+
+/** A partner site's public description only; growers' names and contacts are never shown. */
+export default async function PublicSitePage({ params }: { params: Params }) {
+  const found = await load(params);
+  if (!found) notFound();
+  const { site, trials } = found;
+  return (
+    <div className="mx-auto max-w-3xl px-4 py-10">
+      <p className="text-sm font-semibold text-sprout-700"><Link href="/results">Results</Link> · partner {site.kind}</p>
+      <h1 className="mt-1 text-3xl font-bold">{site.name}</h1>
+      {site.publicDescription && <p className="mt-3 text-lg">{site.publicDescription}</p>}
+      <dl className="mt-6 grid grid-cols-[auto_1fr] gap-x-6 gap-y-2 rounded-xl border border-husk-200 bg-white p-5">
+        <dt className="font-semibold">Region</dt><dd>{site.region}</dd>
+        <dt className="font-semibold">Growing setup</dt><dd>{SETUP_LABELS[site.growingSetup as GrowingSetup] ?? site.growingSetup}</dd>
+        {site.soil && (<><dt className="font-semibold">Soil or medium</dt><dd>{site.soil}</dd></>)}
+        {site.irrigation && (<><dt className="font-semibold">Watering</dt><dd>{site.irrigation}</dd></>)}
+      </dl>
+      <h2 className="mt-8 text-xl font-bold">Published trials grown here</h2>
+      <ul className="mt-2 list-disc pl-5">
+        {trials.map((t) => <li key={t.code}><Link href={`/results/${t.code}`}>{t.title}</Link> ({t.season})</li>)}
+      </ul>
+    </div>
+  );
+}

@@ -1,0 +1,58 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { z } from "zod";
+import { getPublicVariety } from "@/db/queries/public";
+import { formatNumber } from "@/lib/analysis/format";
+
+type Params = Promise<{ varietyId: string }>;
+const idSchema = z.coerce.number().int().positive().max(2_000_000_000);
+
+async function load(params: Params) {
+  const id = idSchema.safeParse((await params).varietyId);
+  return id.success ? getPublicVariety(id.data) : null;
+}
+
+export async function generateMetadata({ params }: { params: Params }): Promise<Metadata> {
+  const variety = await load(params);
+  if (!variety) return { title: "Not found" };
+  return { title: `${variety.name} (${variety.crop}) trial results`, description: `How ${variety.name} did in ${variety.trials.length} published on-farm variety trials.` };
+}
+
+export default async function PublicVarietyPage({ params }: { params: Params }) {
+  const variety = await load(params);
+  if (!variety) notFound();
+  return (
+    <div className="mx-auto max-w-5xl px-4 py-10">
+      <p className="text-sm font-semibold text-sprout-700"><Link href="/results">Results</Link> · {variety.crop}</p>
+      <h1 className="mt-1 text-3xl font-bold">{variety.name}</h1>
+      <p className="mt-2 text-loam-700">Results in {variety.trials.length} published {variety.trials.length === 1 ? "trial" : "trials"}. Rank 1 is the highest mean.</p>
+      {variety.trials.map((t) => (
+        <section key={t.code} className="mt-6 rounded-xl border border-husk-200 bg-white p-5" aria-labelledby={`t-${t.code}`}>
+          <h2 id={`t-${t.code}`} className="text-xl font-bold">
+            <Link href={`/results/${t.code}`}>{t.title}</Link>
+          </h2>
+          <p className="text-sm text-loam-700">{t.season} · {t.sites} sites · {t.entriesInTrial} varieties{t.isCheck ? " · grown as the check variety" : ""}</p>
+          <div className="mt-3 overflow-x-auto">
+            <table className="w-full text-left text-sm">
+              <caption className="sr-only">{variety.name} in {t.title}</caption>
+              <thead className="border-b border-husk-200 text-loam-700">
+                <tr><th scope="col" className="py-2 pr-3">Trait</th><th scope="col" className="py-2 pr-3 text-right">Mean</th><th scope="col" className="py-2 pr-3 text-right">Rank</th><th scope="col" className="py-2">Group</th></tr>
+              </thead>
+              <tbody>
+                {t.traits.map((r) => (
+                  <tr key={r.trait} className="border-b border-husk-100">
+                    <td className="py-2 pr-3">{r.trait}</td>
+                    <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(r.mean)}</td>
+                    <td className="py-2 pr-3 text-right tabular-nums">{r.rank ? `${r.rank} of ${r.of}` : "–"}</td>
+                    <td className="py-2 font-mono">{r.letter ?? "–"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </section>
+      ))}
+    </div>
+  );
+}

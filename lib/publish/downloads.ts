@@ -1,0 +1,67 @@
+import ExcelJS from "exceljs";
+import { csvLine } from "@/lib/spreadsheets/csv";
+import { neutraliseCell } from "@/lib/spreadsheets/safety";
+import type { PublishedSnapshot } from "./types";
+
+const DATA_COLUMNS = ["site", "block", "plot", "code", "variety", "trait", "unit", "value", "status"] as const;
+
+const DICTIONARY: [string, string][] = [
+  ["site", "Partner site (farm or garden) where the plot grew."],
+  ["block", "Replicate block within the site; every variety appears once per block, in random order."],
+  ["plot", "Plot code printed on the plot label: site number, block, position in the block."],
+  ["code", "Blind code the growers saw during the trial."],
+  ["variety", "Variety name, revealed at publication."],
+  ["trait", "What was measured. Dates are given as days from the site's sowing date."],
+  ["unit", "Unit of the value."],
+  ["value", "The value analysed for the plot. Empty when the plot is missing."],
+  ["status", "used = in the analysis; missing = no value (reason in the report); excluded = left out by the coordinator with a recorded reason."],
+];
+
+function dataRows(snapshot: PublishedSnapshot) {
+  return snapshot.data.map((d) => [d.site, d.block, d.plotCode, d.blindCode, d.variety, d.trait, d.unit, d.value, d.status] as (string | number | null)[]);
+}
+
+/** The published plot data as CSV, with the citation as a comment-style first line. */
+export function publishedCsv(snapshot: PublishedSnapshot): string {
+  const lines = [csvLine([`# ${snapshot.citation}`]), csvLine([...DATA_COLUMNS]), ...dataRows(snapshot).map(csvLine)];
+  return `\uFEFF${lines.join("\r\n")}\r\n`;
+}
+
+/** The published data as a workbook: plot data, means, a data dictionary and how to cite it. */
+export async function publishedXlsx(snapshot: PublishedSnapshot): Promise<Buffer> {
+  const book = new ExcelJS.Workbook();
+  book.creator = "Seedplot";
+  book.created = new Date(snapshot.publishedAt);
+  const text = (v: string | number | null) => (typeof v === "string" ? neutraliseCell(v) : v);
+
+  const data = book.addWorksheet("Plot data", { views: [{ state: "frozen", ySplit: 1 }] });
+  data.addRow([...DATA_COLUMNS]).font = { bold: true };
+  for (const row of dataRows(snapshot)) data.addRow(row.map(text));
+
+  const means = book.addWorksheet("Means", { views: [{ state: "frozen", ySplit: 1 }] });
+  means.addRow(["trait", "scope", "variety", "code", "mean", "SE", "plots", "group", "rank", "LSD 0.05", "CV %"]).font = { bold: true };
+  for (const { result } of snapshot.results) {
+    const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
+    if (!block) continue;
+    const scope = result.combined ? `combined, ${result.combined.sites} sites` : "one site";
+    for (const m of [...block.means].sort((a, b) => a.rank - b.rank)) {
+      means.addRow([result.trait.analysedAs, scope, m.varietyName ?? m.blindCode, m.blindCode, m.lsMean ?? m.mean, m.se, m.n, m.letter ?? "", m.rank, block.lsd, block.cv].map(text));
+    }
+  }
+
+  const dictionary = book.addWorksheet("Data dictionary");
+  dictionary.addRow(["column", "meaning"]).font = { bold: true };
+  for (const row of DICTIONARY) dictionary.addRow(row);
+  dictionary.addRow([]);
+  dictionary.addRow(["trait", "definition"]).font = { bold: true };
+  for (const t of snapshot.traits) dictionary.addRow([text(t.analysedAs), text(t.description ?? "")]);
+  dictionary.addRow([]);
+  dictionary.addRow(["settings", `sites ${snapshot.settings.siteModel}; mean separation ${snapshot.settings.separation === "lsd" ? "protected LSD" : "Tukey HSD"}; alpha 0.05; accepted data only`]);
+
+  const cite = book.addWorksheet("How to cite");
+  cite.addRow([text(snapshot.citation)]);
+  cite.addRow([`Version ${snapshot.version}, published ${snapshot.publishedAt.slice(0, 10)}.`]);
+  if (snapshot.changeNote) cite.addRow([text(`What changed: ${snapshot.changeNote}`)]);
+  for (const sheet of [data, means, dictionary, cite]) sheet.columns.forEach((c) => (c.width = 22));
+  return Buffer.from(await book.xlsx.writeBuffer());
+}
