@@ -31,3 +31,10 @@ export const reviewCommentSchema = siteParamsSchema.extend({
   key: optionalTextField(80),
   body: z.string({ error: "Write the comment." }).trim().min(1, "Write the comment.").max(2000, "Use at most 2,000 characters."),
 });
+
+export const photoFieldsSchema = siteParamsSchema.extend({
+  plotId: z.preprocess((v) => (v === "" || v === null ? undefined : v), idParam.optional()),
+  caption: optionalTextField(300),
+  takenOn: z.preprocess((v) => (v === "" || v === null ? undefined : v), z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Enter the date like 2026-11-30.").optional()),
+  keepLocation: z.preprocess((v) => v === "on" || v === "true" || v === true, z.boolean()),
+});

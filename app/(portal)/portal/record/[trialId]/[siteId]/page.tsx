@@ -9,6 +9,8 @@ import { displayValue } from "@/lib/observations/values";
 import { buttonClasses } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { SubmitForReviewForm } from "@/components/review/review-forms";
+import { PhotoForm } from "@/components/record/photo-form";
+import { listSitePhotos } from "@/db/queries/photos";
 
 export const dynamic = "force-dynamic";
 
@@ -22,6 +24,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   if (!sheet) notFound();
 
   const plotFilter = idParam.safeParse((await searchParams).plot);
+  const photos = await listSitePhotos(viewer, { trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId });
   const plots = plotFilter.success ? sheet.plots.filter((x) => x.id === plotFilter.data) : sheet.plots;
   const initial: Record<string, string> = {};
   for (const [plotId, byKey] of Object.entries(sheet.values)) {
@@ -89,6 +92,24 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           locked={lockMessage(viewer.role, sheet)}
           comments={comments}
         />
+      )}
+      {plots.length > 0 && (
+        <Card title="Photos">
+          {photos.length > 0 && (
+            <ul className="mb-4 flex flex-wrap gap-3">
+              {photos.slice(0, 24).map((ph) => (
+                <li key={ph.id} className="w-32 text-xs text-loam-700">
+                  <a href={`/api/photos/${ph.id}`}>
+                    {/* eslint-disable-next-line @next/next/no-img-element -- private photos are served by our own route, not the image optimiser */}
+                    <img src={`/api/photos/${ph.id}`} alt={ph.caption ?? `Photo of ${ph.plotCode ?? "the site"}`} className="h-24 w-32 rounded-lg object-cover" loading="lazy" />
+                  </a>
+                  {ph.plotCode ?? "Site"} {ph.caption ? `· ${ph.caption}` : ""}
+                </li>
+              ))}
+            </ul>
+          )}
+          <PhotoForm trialId={sheet.enrolment.trialId} siteId={sheet.enrolment.siteId} plots={sheet.plots} defaultPlot={plotFilter.success ? plotFilter.data : undefined} />
+        </Card>
       )}
     </div>
   );

@@ -1,0 +1,43 @@
+import "server-only";
+import { and, eq } from "drizzle-orm";
+import { db } from "../index";
+import { photos, plots } from "../schema";
+import { getRecordableEnrolment } from "../queries/observations";
+import { insertAudit } from "../audit";
+import { AppError } from "@/lib/errors";
+import type { Viewer } from "@/lib/auth/types";
+
+export interface PhotoTarget {
+  trialId: number;
+  siteId: number;
+  plotId?: number;
+}
+
+/** Checks, before any bytes are processed or stored, that the viewer may attach a photo here. */
+export async function assertPhotoTarget(viewer: Viewer, t: PhotoTarget) {
+  const enrolment = await getRecordableEnrolment(db, viewer, t);
+  if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  if (t.plotId !== undefined) {
+    const [plot] = await db.select({ id: plots.id }).from(plots).where(and(eq(plots.id, t.plotId), eq(plots.enrolmentId, enrolment.enrolmentId)));
+    if (!plot) throw new AppError("not_found", "That plot is not one of this site's plots.");
+  }
+  return enrolment;
+}
+
+/** Records a stored photo with an audit entry; ownership is checked again inside the transaction. */
+export async function insertPhoto(viewer: Viewer, t: PhotoTarget & { storageKey: string; contentType: string; bytes: number; caption?: string; takenOn?: string; keepLocation: boolean }) {
+  return db.transaction(async (tx) => {
+    const enrolment = await getRecordableEnrolment(tx, viewer, t, true);
+    if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+    if (t.plotId !== undefined) {
+      const [plot] = await tx.select({ id: plots.id }).from(plots).where(and(eq(plots.id, t.plotId), eq(plots.enrolmentId, enrolment.enrolmentId)));
+      if (!plot) throw new AppError("not_found", "That plot is not one of this site's plots.");
+    }
+    const [row] = await tx
+      .insert(photos)
+      .values({ enrolmentId: enrolment.enrolmentId, plotId: t.plotId ?? null, storageKey: t.storageKey, contentType: t.contentType, bytes: t.bytes, caption: t.caption ?? null, takenOn: t.takenOn ?? null, keptLocation: t.keepLocation, uploadedById: viewer.id })
+      .$returningId();
+    await insertAudit(tx, { actorId: viewer.id, action: "photo.add", entity: "photo", entityId: row!.id, trialId: enrolment.trialId, newValue: { plotId: t.plotId ?? null, bytes: t.bytes, keptLocation: t.keepLocation, caption: t.caption ?? null } });
+    return row!.id;
+  });
+}
