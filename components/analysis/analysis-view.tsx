@@ -179,7 +179,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
 
         {result.combined ? (
           <Card title={`Across ${result.combined.sites} sites`}>
-            <div className="grid gap-6 xl:grid-cols-2">
+            <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} testId="means-chart" />
               <div className="space-y-2">
                 <MeansTable means={result.combined.means} label={label} unit={unit} caption="Combined entry means" testId="means-table" />
@@ -189,11 +189,24 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 </p>
               </div>
             </div>
+            {names && (
+              <p className="mt-3 text-sm">
+                Variety histories:{" "}
+                {result.combined.means
+                  .filter((m) => m.varietyId !== null && m.varietyName)
+                  .map((m, i) => (
+                    <span key={m.entryId}>
+                      {i > 0 && " · "}
+                      <a href={`/portal/varieties/${m.varietyId}`}>{m.varietyName}</a>
+                    </span>
+                  ))}
+              </p>
+            )}
             <details className="mt-4">
               <summary className="min-h-11 cursor-pointer py-2 font-semibold">Combined ANOVA table</summary>
               <AnovaTable rows={result.combined.rows} caption="Combined analysis of variance" />
             </details>
-            <div className="mt-6 grid gap-6 xl:grid-cols-2">
+            <div className="mt-6 grid gap-6 *:min-w-0 xl:grid-cols-2">
               <InteractionChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
               <SiteResponseChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
             </div>
@@ -207,7 +220,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         <Card title="Site by site">
           <div className="space-y-3">
             {result.perSite.map((s) => (
-              <details key={s.siteId} className="rounded-lg border border-husk-200 px-3" open={result.perSite.length === 1}>
+              <details key={s.siteId} className="min-w-0 rounded-lg border border-husk-200 px-3" open={result.perSite.length === 1}>
                 <summary className="min-h-11 cursor-pointer py-2">
                   <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
                   {s.result ? (
@@ -242,7 +255,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         {result.germination && (
           <Card title="Emergence (germination in the trial)">
             <p className="mb-3">{result.germination.note}</p>
-            <div className="grid gap-6 xl:grid-cols-2">
+            <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <GerminationChart germination={result.germination} label={label} />
               <GerminationTable rows={result.germination.byEntry} label={label} bySite={false} />
             </div>
@@ -258,7 +271,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         {result.emergence && (
           <Card title="Speed of emergence">
             <p className="mb-3">{result.emergence.note}</p>
-            <div className="grid gap-6 xl:grid-cols-2">
+            <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <EmergenceChart emergence={result.emergence} label={label} order={emergenceOrder} />
               <div className="overflow-x-auto">
                 <table className="w-full text-sm">

@@ -354,6 +354,7 @@ function summarise(table: AnovaTable, settings: AnalysisSettings, entries: Map<n
       entryId: entry.id,
       blindCode: entry.blindCode,
       varietyName: entry.varietyName,
+      varietyId: entry.varietyId,
       isCheck: entry.isCheck,
       mean: m.mean,
       lsMean,

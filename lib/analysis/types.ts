@@ -90,6 +90,7 @@ export interface EntryResult {
   entryId: number;
   blindCode: string;
   varietyName: string | null;
+  varietyId: number | null;
   isCheck: boolean;
   /** arithmetic mean of observed plots */
   mean: number;

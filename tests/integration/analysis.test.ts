@@ -228,3 +228,23 @@ describe("who may read an analysis", () => {
     expect(wrongTrait.status).toBe(400);
   });
 });
+
+describe("variety history", () => {
+  it("shows staff of the program where a variety ranked, and nobody else", async () => {
+    const { getVarietyHistory } = await import("@/db/queries/analysis");
+    const { loadAnalysis } = await import("@/lib/analysis-service");
+    const { standingOf } = await import("@/lib/analysis/history");
+    const [variety] = await db.select({ id: s.varieties.id }).from(s.varieties).where(eq(s.varieties.name, "Copper Ruffle"));
+    const history = await getVarietyHistory(coordinator, variety!.id);
+    expect(history!.trials.map((t) => t.trialCode)).toContain("TV26-LET");
+    const row = history!.trials.find((t) => t.trialCode === "TV26-LET")!;
+    const loaded = await loadAnalysis(coordinator, row.trialId, { trait: yieldId });
+    const standing = standingOf(loaded!.result, row.entryId);
+    const combined = loaded!.result.combined!.means.find((m) => m.entryId === row.entryId)!;
+    expect(standing.rank).toBe(combined.rank);
+    expect(standing.of).toBe(6);
+    expect(standing.sitesAnalysed).toBe(5);
+    expect(standing.percentOfTrialMean).toBeCloseTo((100 * combined.lsMean!) / loaded!.result.combined!.grandMean, 9);
+    expect(await getVarietyHistory(await viewerByEmail(DEMO_SITES[0].grower.email), variety!.id)).toBeNull();
+  });
+});
