@@ -1,6 +1,6 @@
 import "server-only";
 import { createHash } from "node:crypto";
-import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
+import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits, SEED_COUNT_TRAITS } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/analysis/run";
 import { isAnalysable } from "@/lib/analysis/values";
@@ -48,7 +48,8 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
     siteModel: query.model ?? "random",
     separation: query.compare ?? "lsd",
   };
-  const version = await getAnalysisVersion(viewer, trialId);
+  const read = traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
+  const version = await getAnalysisVersion(viewer, trialId, read);
   if (version === null) return null;
   const etag = `W/"${createHash("sha1").update(`${trialId}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27)}"`;
   return { settings, etag, version };

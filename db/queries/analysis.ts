@@ -154,18 +154,20 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
 }
 
 /**
- * A short fingerprint of everything an analysis of the trial reads (observations, submission
+ * A short fingerprint of everything an analysis of the trial reads (the given traits' observations, submission
  * statuses, sowing dates, entries and seed lots, exclusions). It changes whenever the data do, so it
  * serves as the cache key and ETag. Value sums are part of it because timestamps have whole-second
  * resolution and two edits can land in the same second. Null when the trial is not the viewer's.
  */
-export async function getAnalysisVersion(viewer: Viewer, trialId: number): Promise<string | null> {
+export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitIds: number[]): Promise<string | null> {
   const trial = await scopedTrial(viewer, trialId);
   if (!trial) return null;
+  // Only the traits the analysis reads count, so a plot note typed elsewhere keeps the yield analysis cached.
+  const traitFilter = traitIds.length > 0 ? sql`AND o.trait_id IN (${sql.join(traitIds.map((id) => sql`${id}`), sql`, `)})` : sql``;
   const [row] = await db.execute<Record<string, unknown>[]>(sql`
     SELECT
       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(o.updated_at), ''), '/', COALESCE(SUM(o.id), 0), '/', COALESCE(SUM(o.value_number), 0), '/', COALESCE(SUM(TO_DAYS(o.value_date)), 0), '/', COALESCE(SUM(o.missing_reason IS NOT NULL), 0))
-         FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId}) AS obs,
+         FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId} ${traitFilter}) AS obs,
       (SELECT COALESCE(GROUP_CONCAT(CONCAT(e.id, ':', COALESCE(e.sown_on, ''), ':', COALESCE(e.transplanted_on, ''), ':', COALESCE(s.status, ''), ':', COALESCE(s.updated_at, '')) ORDER BY e.id), '')
          FROM enrolments e LEFT JOIN submissions s ON s.enrolment_id = e.id WHERE e.trial_id = ${trialId}) AS sites,
       (SELECT CONCAT(COUNT(*), '/', COALESCE(SUM(x.id), 0), '/', COALESCE(MAX(x.created_at), ''))

@@ -182,6 +182,23 @@ describe("caching", () => {
     const other = await call(`trait=${yieldId}&compare=tukey`, { "If-None-Match": etag });
     expect(other.status).toBe(200);
 
+    // A plot note is not read by the yield analysis, so editing one keeps the cached result.
+    const [note] = await db
+      .select({ id: s.observations.id, text: s.observations.valueText })
+      .from(s.observations)
+      .innerJoin(s.plots, eq(s.plots.id, s.observations.plotId))
+      .innerJoin(s.traits, eq(s.traits.id, s.observations.traitId))
+      .where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.traits.code} = 'plot_notes'`)
+      .limit(1);
+    if (note) {
+      await db.update(s.observations).set({ valueText: `${note.text} (checked)` }).where(eq(s.observations.id, note.id));
+      try {
+        expect((await call(`trait=${yieldId}`, { "If-None-Match": etag })).status).toBe(304);
+      } finally {
+        await db.update(s.observations).set({ valueText: note.text }).where(eq(s.observations.id, note.id));
+      }
+    }
+
     const [obs] = await db
       .select({ id: s.observations.id, value: s.observations.valueNumber })
       .from(s.observations)
