@@ -51,13 +51,15 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
   const read = traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
   const version = await getAnalysisVersion(viewer, trialId, read);
   if (version === null) return null;
-  const etag = `W/"${createHash("sha1").update(`${trialId}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27)}"`;
+  // Staff and each cooperator see different slices of the trial, so the tag (and cache key) names the scope.
+  const scope = viewer.role === "cooperator" ? `cooperator:${viewer.id}` : "staff";
+  const etag = `W/"${createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27)}"`;
   return { settings, etag, version };
 }
 
 /** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
 export async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
-  const key = `${trialId}|${prepared.etag}|${viewer.role === "admin" ? "admin" : "staff"}`;
+  const key = `${trialId}|${prepared.etag}`;
   const hit = cache.get(key);
   if (hit) return hit;
   const input = await getAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });

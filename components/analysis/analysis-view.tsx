@@ -9,6 +9,7 @@ import { buttonClasses } from "@/components/ui/button";
 import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
+import { SharingPanel } from "./sharing-panel";
 
 /** URL search string for settings; the same string is the API query, the export query and the page URL. */
 export function settingsQuery(s: AnalysisSettings): string {
@@ -30,7 +31,9 @@ async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisRe
 const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
 
 /** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
-export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisResult; targets: ExclusionTargets }) {
+export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisResult; targets: ExclusionTargets | null }) {
+  // Exclusions, sharing, exports and variety names are for staff; `targets` is only given to them.
+  const staff = targets !== null;
   const [settings, setSettings] = useState<AnalysisSettings>(initial.settings);
   const [names, setNames] = useState(false);
   const query = settingsQuery(settings);
@@ -134,7 +137,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           </label>
           <p className="text-sm text-loam-700">{result.explanations.unaccepted}</p>
         </fieldset>
-        <div className="mt-4 flex flex-wrap items-center gap-3">
+        {staff && <div className="mt-4 flex flex-wrap items-center gap-3">
           <label className="flex min-h-11 items-center gap-2">
             <input type="checkbox" className="size-5" checked={names} onChange={(e) => setNames(e.target.checked)} />
             Show variety names instead of blind codes
@@ -145,7 +148,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv`}>
             Download CSV
           </a>
-        </div>
+        </div>}
       </Card>
 
       <div aria-live="polite" className="min-h-6 text-sm text-loam-700">
@@ -248,9 +251,28 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           {result.missing.length === 0 ? <p className="text-sm">Every plot in the analysed sites has a value.</p> : <MissingTable missing={result.missing} />}
         </Card>
 
-        <Card title="Exclusions">
-          <ExclusionPanel trialId={trialId} result={result} targets={targets} />
-        </Card>
+        {staff ? (
+          <>
+            <Card title="Exclusions">
+              <ExclusionPanel trialId={trialId} result={result} targets={targets} />
+            </Card>
+            <Card title="Share site results with growers">
+              <SharingPanel trialId={trialId} sites={result.sites} />
+            </Card>
+          </>
+        ) : (
+          result.exclusions.length > 0 && (
+            <Card title="Left out by the coordinator">
+              <ul className="list-disc pl-5">
+                {result.exclusions.map((x) => (
+                  <li key={x.id}>
+                    {x.plotCode ? `Plot ${x.plotCode}` : x.siteName} ({x.traitName ?? "all traits"}): {x.reason}
+                  </li>
+                ))}
+              </ul>
+            </Card>
+          )
+        )}
 
         {result.germination && (
           <Card title="Emergence (germination in the trial)">

@@ -59,3 +59,18 @@ export async function deleteExclusion(viewer: Viewer, input: { trialId: number; 
     await insertAudit(tx, { actorId: viewer.id, action: "include_again", entity: "analysis_exclusion", entityId: row.id, trialId: trial.id, oldValue: row });
   });
 }
+
+/** Shows or hides one site's own analysis to its cooperators; audited. Other sites stay hidden from them. */
+export async function updateResultsShared(viewer: Viewer, input: { trialId: number; siteId: number; shared: boolean }): Promise<void> {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    const [enrolment] = await tx
+      .select({ id: enrolments.id, shared: enrolments.resultsShared })
+      .from(enrolments)
+      .where(and(eq(enrolments.trialId, trial.id), eq(enrolments.siteId, input.siteId)));
+    if (!enrolment) throw new AppError("not_found", "That site is not part of this trial.");
+    if (enrolment.shared === input.shared) return;
+    await tx.update(enrolments).set({ resultsShared: input.shared }).where(eq(enrolments.id, enrolment.id));
+    await insertAudit(tx, { actorId: viewer.id, action: input.shared ? "share_results" : "unshare_results", entity: "enrolment", entityId: enrolment.id, trialId: trial.id, oldValue: { shared: enrolment.shared }, newValue: { shared: input.shared } });
+  });
+}

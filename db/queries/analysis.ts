@@ -18,25 +18,46 @@ import {
   users,
   varieties,
 } from "../schema";
-import { staffTrialScope } from "../access";
+import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
+import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
 import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
 
-// Analysis reads are staff-only for now: cooperators are denied (results sharing per site is not modelled yet).
+// Staff read every site of their programs' trials; a cooperator reads only their own sites, and only
+// once a coordinator has shared that site's results (enrolments.results_shared), with blind codes only.
 
 /** Trait codes whose counts feed the germination and emergence sections whatever trait is chosen. */
 export const SEED_COUNT_TRAITS = ["seeds_sown", "emerged_final", "emergence_count"] as const;
 
-async function scopedTrial(viewer: Viewer, trialId: number) {
-  if (!isStaff(viewer)) return null;
-  const [trial] = await db
-    .select({ id: trials.id, code: trials.code, title: trials.title, crop: crops.name, blocks: trials.blocks })
-    .from(trials)
-    .innerJoin(crops, eq(crops.id, trials.cropId))
-    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
-  return trial ?? null;
+interface ScopedTrial {
+  id: number;
+  code: string;
+  title: string;
+  crop: string;
+  blocks: number;
+  status: string;
+  /** sites the viewer may see; null = every site (staff) */
+  siteIds: number[] | null;
 }
+
+async function scopedTrial(viewer: Viewer, trialId: number): Promise<ScopedTrial | null> {
+  const columns = { id: trials.id, code: trials.code, title: trials.title, crop: crops.name, blocks: trials.blocks, status: trials.status };
+  if (isStaff(viewer)) {
+    const [trial] = await db.select(columns).from(trials).innerJoin(crops, eq(crops.id, trials.cropId)).where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+    return trial ? { ...trial, siteIds: null } : null;
+  }
+  if (viewer.role !== "cooperator") return null;
+  const shared = await db
+    .select({ siteId: enrolments.siteId })
+    .from(enrolments)
+    .where(and(eq(enrolments.trialId, trialId), eq(enrolments.resultsShared, true), cooperatorEnrolmentScope(viewer)));
+  if (shared.length === 0) return null;
+  const [trial] = await db.select(columns).from(trials).innerJoin(crops, eq(crops.id, trials.cropId)).where(eq(trials.id, trialId));
+  return trial ? { ...trial, siteIds: shared.map((r) => r.siteId) } : null;
+}
+
+/** Restricts a plots/enrolments query to the viewer's visible sites. */
+const siteFilter = (trial: ScopedTrial, column: typeof plots.siteId | typeof enrolments.siteId) => (trial.siteIds === null ? sql`true` : inArray(column, trial.siteIds));
 
 /** The trial's recorded traits in display order (staff only); null when the trial is not the viewer's. */
 export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promise<(InputTrait & { recorded: number })[] | null> {
@@ -48,7 +69,7 @@ export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promi
       .select({ traitId: observations.traitId, n: sql<number>`COUNT(*)`.mapWith(Number) })
       .from(observations)
       .innerJoin(plots, eq(plots.id, observations.plotId))
-      .where(and(eq(plots.trialId, trialId), sql`(${observations.valueNumber} IS NOT NULL OR ${observations.valueDate} IS NOT NULL)`))
+      .where(and(eq(plots.trialId, trialId), siteFilter(trial, plots.siteId), sql`(${observations.valueNumber} IS NOT NULL OR ${observations.valueDate} IS NOT NULL)`))
       .groupBy(observations.traitId),
   ]);
   const byTrait = new Map(counts.map((c) => [c.traitId, c.n]));
@@ -93,16 +114,16 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .where(eq(trialEntries.trialId, p.trialId))
       .orderBy(asc(trialEntries.entryNumber)),
     db
-      .select({ id: sites.id, name: sites.name, sownOn: enrolments.sownOn, transplantedOn: enrolments.transplantedOn, status: submissions.status })
+      .select({ id: sites.id, name: sites.name, sownOn: enrolments.sownOn, transplantedOn: enrolments.transplantedOn, status: submissions.status, resultsShared: enrolments.resultsShared })
       .from(enrolments)
       .innerJoin(sites, eq(sites.id, enrolments.siteId))
       .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
-      .where(eq(enrolments.trialId, p.trialId))
+      .where(and(eq(enrolments.trialId, p.trialId), siteFilter(trial, enrolments.siteId)))
       .orderBy(asc(enrolments.id)),
     db
       .select({ id: plots.id, plotCode: plots.plotCode, siteId: plots.siteId, entryId: plots.entryId, block: plots.block })
       .from(plots)
-      .where(eq(plots.trialId, p.trialId))
+      .where(and(eq(plots.trialId, p.trialId), siteFilter(trial, plots.siteId)))
       .orderBy(asc(plots.siteId), asc(plots.block), asc(plots.position)),
     wanted.length === 0
       ? Promise.resolve([])
@@ -117,7 +138,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
           })
           .from(observations)
           .innerJoin(plots, eq(plots.id, observations.plotId))
-          .where(and(eq(plots.trialId, p.trialId), inArray(observations.traitId, wanted))),
+          .where(and(eq(plots.trialId, p.trialId), siteFilter(trial, plots.siteId), inArray(observations.traitId, wanted))),
     db
       .select({
         id: analysisExclusions.id,
@@ -133,23 +154,28 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .where(eq(analysisExclusions.trialId, p.trialId))
       .orderBy(asc(analysisExclusions.id)),
   ]);
+  // Cooperators see their own sites' exclusions only, and names only once the trial is published.
+  const names = canSeeBlindKey(viewer, trial);
+  const plotIds = new Set(plotRows.map((r) => r.id));
+  const visibleSites = new Set(siteRows.map((r) => r.id));
+  const exclusions = trial.siteIds === null ? exclusionRows : exclusionRows.filter((x) => (x.siteId !== null && visibleSites.has(x.siteId)) || (x.plotId !== null && plotIds.has(x.plotId)));
   return {
-    trial,
+    trial: { id: trial.id, code: trial.code, title: trial.title, crop: trial.crop, blocks: trial.blocks },
     traits: traitRows,
     entries: entryRows.map((e) => ({
       id: e.id,
       blindCode: e.blindCode,
       entryNumber: e.entryNumber,
-      varietyName: e.varietyName,
-      varietyId: e.varietyId,
+      varietyName: names ? e.varietyName : null,
+      varietyId: names ? e.varietyId : null,
       isCheck: e.isCheck,
       labelGermination: e.labelGermination,
-      seedLot: e.seedSource ? `${e.seedSource} ${e.lotCode}` : null,
+      seedLot: names && e.seedSource ? `${e.seedSource} ${e.lotCode}` : null,
     })),
     sites: siteRows.map((s) => ({ ...s, status: s.status ?? "draft" })),
     plots: plotRows,
     observations: obsRows,
-    exclusions: exclusionRows.map((x) => ({ ...x, createdAt: x.createdAt.toISOString() })),
+    exclusions: exclusions.map((x) => ({ ...x, createdBy: trial.siteIds === null ? x.createdBy : null, createdAt: x.createdAt.toISOString() })),
   };
 }
 
@@ -163,19 +189,21 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
   const trial = await scopedTrial(viewer, trialId);
   if (!trial) return null;
   // Only the traits the analysis reads count, so a plot note typed elsewhere keeps the yield analysis cached.
+  const enrolmentFilter = trial.siteIds === null ? sql`` : sql`AND e.site_id IN (${sql.join(trial.siteIds.map((id) => sql`${id}`), sql`, `)})`;
+  const plotFilter = trial.siteIds === null ? sql`` : sql`AND p.site_id IN (${sql.join(trial.siteIds.map((id) => sql`${id}`), sql`, `)})`;
   const traitFilter = traitIds.length > 0 ? sql`AND o.trait_id IN (${sql.join(traitIds.map((id) => sql`${id}`), sql`, `)})` : sql``;
   const [row] = await db.execute<Record<string, unknown>[]>(sql`
     SELECT
       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(o.updated_at), ''), '/', COALESCE(SUM(o.id), 0), '/', COALESCE(SUM(o.value_number), 0), '/', COALESCE(SUM(TO_DAYS(o.value_date)), 0), '/', COALESCE(SUM(o.missing_reason IS NOT NULL), 0))
-         FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId} ${traitFilter}) AS obs,
-      (SELECT COALESCE(GROUP_CONCAT(CONCAT(e.id, ':', COALESCE(e.sown_on, ''), ':', COALESCE(e.transplanted_on, ''), ':', COALESCE(s.status, ''), ':', COALESCE(s.updated_at, '')) ORDER BY e.id), '')
-         FROM enrolments e LEFT JOIN submissions s ON s.enrolment_id = e.id WHERE e.trial_id = ${trialId}) AS sites,
+         FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId} ${plotFilter} ${traitFilter}) AS obs,
+      (SELECT COALESCE(GROUP_CONCAT(CONCAT(e.id, ':', COALESCE(e.sown_on, ''), ':', COALESCE(e.transplanted_on, ''), ':', COALESCE(s.status, ''), ':', COALESCE(s.updated_at, ''), ':', e.results_shared) ORDER BY e.id), '')
+         FROM enrolments e LEFT JOIN submissions s ON s.enrolment_id = e.id WHERE e.trial_id = ${trialId} ${enrolmentFilter}) AS sites,
       (SELECT CONCAT(COUNT(*), '/', COALESCE(SUM(x.id), 0), '/', COALESCE(MAX(x.created_at), ''))
          FROM analysis_exclusions x WHERE x.trial_id = ${trialId}) AS exclusions,
       (SELECT COALESCE(GROUP_CONCAT(CONCAT(te.id, ':', te.blind_code, ':', COALESCE(sl.label_germination_pct, '')) ORDER BY te.id), '')
          FROM trial_entries te LEFT JOIN seed_lots sl ON sl.id = te.seed_lot_id WHERE te.trial_id = ${trialId}) AS entries,
       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(p.id), 0)) FROM plots p WHERE p.trial_id = ${trialId}) AS plots,
-      (SELECT updated_at FROM trials WHERE id = ${trialId}) AS trial
+      (SELECT CONCAT(updated_at, ':', status) FROM trials WHERE id = ${trialId}) AS trial
   `);
   const first = (row as unknown as Record<string, unknown>[])[0] ?? {};
   return Object.values(first).map((v) => (v instanceof Date ? v.toISOString() : String(v ?? ""))).join("|");
@@ -183,6 +211,7 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
 
 /** Sites and plots of a trial for the exclusion form (staff only). */
 export async function listExclusionTargets(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return null;
   const trial = await scopedTrial(viewer, trialId);
   if (!trial) return null;
   const [siteRows, plotRows] = await Promise.all([

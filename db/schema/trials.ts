@@ -79,6 +79,8 @@ export const enrolments = mysqlTable(
     transplantedOn: date("transplanted_on", { mode: "string" }),
     randomSeed: int("random_seed", { unsigned: true }),
     randomisedAt: timestamp("randomised_at", { mode: "date" }),
+    // The coordinator's choice to show this site's own analysis to its cooperators (never other sites').
+    resultsShared: boolean("results_shared").notNull().default(false),
     createdAt: createdAt(),
   },
   (t) => [

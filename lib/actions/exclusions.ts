@@ -1,8 +1,8 @@
 "use server";
 import { revalidatePath } from "next/cache";
 import { defineAction } from "./define-action";
-import { exclusionSchema, removeExclusionSchema } from "@/lib/validation/analysis";
-import { deleteExclusion, insertExclusion } from "@/db/mutations/exclusions";
+import { exclusionSchema, removeExclusionSchema, shareResultsSchema } from "@/lib/validation/analysis";
+import { deleteExclusion, insertExclusion, updateResultsShared } from "@/db/mutations/exclusions";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
 
@@ -16,4 +16,10 @@ export const includeInAnalysis = defineAction({ roles: STAFF, schema: removeExcl
   await deleteExclusion(viewer, input);
   revalidatePath(`/portal/trials/${input.trialId}/analysis`);
   return { ok: true, message: "Exclusion removed; the data are back in the analyses." };
+});
+
+export const shareSiteResults = defineAction({ roles: STAFF, schema: shareResultsSchema }, async (input, viewer) => {
+  await updateResultsShared(viewer, input);
+  revalidatePath(`/portal/trials/${input.trialId}/analysis`);
+  return { ok: true, message: input.shared ? "The site's growers can now see their own site's results (blind codes only)." : "The site's results are hidden from its growers again." };
 });

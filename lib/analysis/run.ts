@@ -76,7 +76,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
     if (settings.siteIds && !settings.siteIds.includes(site.id)) why = "not selected";
     else if (site.status !== "accepted" && !settings.includeUnaccepted) why = `data ${statusWords(site.status)}, not accepted yet`;
     else if (siteExclusions.has(site.id)) why = `excluded: ${siteExclusions.get(site.id)!.reason}`;
-    return { id: site.id, name: site.name, status: site.status, included: why === null, why };
+    return { id: site.id, name: site.name, status: site.status, included: why === null, why, shared: site.resultsShared ?? false };
   });
   const includedSites = input.sites.filter((s) => siteChoices.find((c) => c.id === s.id)!.included);
   const unacceptedIn = includedSites.filter((s) => s.status !== "accepted");

@@ -45,6 +45,8 @@ export interface InputSite {
   sownOn: string | null;
   transplantedOn: string | null;
   status: SubmissionState;
+  /** results shown to the site's cooperators */
+  resultsShared?: boolean;
 }
 
 export interface InputPlot {
@@ -157,6 +159,8 @@ export interface SiteChoice {
   status: SubmissionState;
   /** in the analysis after every rule (selection, acceptance, exclusion) */
   included: boolean;
+  /** results shown to the site's cooperators */
+  shared: boolean;
   why: string | null;
 }
 

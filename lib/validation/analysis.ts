@@ -47,3 +47,9 @@ export const exclusionSchema = z
   });
 
 export const removeExclusionSchema = z.object({ trialId: z.coerce.number().int().positive(), exclusionId: z.coerce.number().int().positive() });
+
+export const shareResultsSchema = z.object({
+  trialId: z.coerce.number().int().positive(),
+  siteId: z.coerce.number({ error: "Choose a site." }).int().positive("Choose a site."),
+  shared: z.enum(["1", "0"]).transform((v) => v === "1"),
+});

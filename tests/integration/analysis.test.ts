@@ -217,12 +217,12 @@ describe("caching", () => {
 });
 
 describe("who may read an analysis", () => {
-  it("refuses signed-out visitors, cooperators (even of a site in the trial) and coordinators of other programs", async () => {
+  it("refuses signed-out visitors, cooperators whose site is not shared and coordinators of other programs", async () => {
     try {
       auth.viewer = null;
       expect((await call(`trait=${yieldId}`)).status).toBe(401);
       auth.viewer = await viewerByEmail(DEMO_SITES[0].grower.email);
-      expect((await call(`trait=${yieldId}`)).status).toBe(403);
+      expect((await call(`trait=${yieldId}`)).status).toBe(404);
       const email = `${unique("other")}@example.test`;
       const [u] = await db.insert(s.users).values({ email, name: "Other Coordinator", role: "coordinator", passwordHash: "x" }).$returningId();
       const [program] = await db.insert(s.programs).values({ slug: unique("other"), name: unique("Other program") }).$returningId();
@@ -263,5 +263,40 @@ describe("variety history", () => {
     expect(standing.sitesAnalysed).toBe(5);
     expect(standing.percentOfTrialMean).toBeCloseTo((100 * combined.lsMean!) / loaded!.result.combined!.grandMean, 9);
     expect(await getVarietyHistory(await viewerByEmail(DEMO_SITES[0].grower.email), variety!.id)).toBeNull();
+  });
+});
+
+describe("sharing a site's results with its cooperators", () => {
+  it("shows a cooperator their own shared site only, with blind codes, and hides it again when unshared", async () => {
+    const { updateResultsShared } = await import("@/db/mutations/exclusions");
+    const [own] = await db.select({ id: s.sites.id }).from(s.sites).where(eq(s.sites.name, DEMO_SITES[0].name));
+    const grower = await viewerByEmail(DEMO_SITES[0].grower.email);
+    const neighbour = await viewerByEmail(DEMO_SITES[1].grower.email);
+    await updateResultsShared(coordinator, { trialId: lettuceId, siteId: own!.id, shared: true });
+    try {
+      const staffView = await analysis(`trait=${yieldId}`);
+      expect(staffView.sites.find((x) => x.id === own!.id)!.shared).toBe(true);
+      auth.viewer = grower;
+      const res = await call(`trait=${yieldId}`);
+      expect(res.status).toBe(200);
+      const mine = (await res.json()) as AnalysisResult;
+      expect(mine.sites.map((x) => x.id)).toEqual([own!.id]);
+      expect(mine.perSite).toHaveLength(1);
+      expect(mine.combined).toBeNull();
+      expect(JSON.stringify(mine)).not.toContain("Copper Ruffle");
+      expect(mine.plots.every((p) => p.siteId === own!.id)).toBe(true);
+      // Same numbers as the staff view of that site.
+      expect(mine.perSite[0]!.result!.entryF).toBeCloseTo(staffView.perSite.find((x) => x.siteId === own!.id)!.result!.entryF!, 10);
+      expect(res.headers.get("etag")).not.toBe((await (async () => { auth.viewer = coordinator; return call(`trait=${yieldId}`); })()).headers.get("etag"));
+      auth.viewer = neighbour;
+      expect((await call(`trait=${yieldId}`)).status).toBe(404);
+      await expect(updateResultsShared(grower, { trialId: lettuceId, siteId: own!.id, shared: false })).rejects.toThrow();
+    } finally {
+      auth.viewer = coordinator;
+      await updateResultsShared(coordinator, { trialId: lettuceId, siteId: own!.id, shared: false });
+    }
+    auth.viewer = grower;
+    expect((await call(`trait=${yieldId}`)).status).toBe(404);
+    auth.viewer = coordinator;
   });
 });

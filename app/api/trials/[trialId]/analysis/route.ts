@@ -11,18 +11,19 @@ export const dynamic = "force-dynamic";
 const paramsSchema = z.object({ trialId: idParam });
 
 /**
- * One trait's analysis as JSON, for staff of the trial's program. The ETag changes whenever the
+ * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
+ * once a coordinator has shared them (blind codes only). The ETag changes whenever the
  * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
  */
 export async function GET(request: Request, context: { params: Promise<{ trialId: string }> }) {
   try {
-    const viewer = await assertRole("coordinator", "admin");
+    const viewer = await assertRole("coordinator", "admin", "cooperator");
     const params = paramsSchema.safeParse(await context.params);
     if (!params.success) throw new AppError("not_found", "That trial does not exist.");
     const query = parseAnalysisQuery(new URL(request.url).searchParams);
     if (!query.ok) throw new AppError("bad_request", query.message);
     const prepared = await prepareAnalysis(viewer, params.data.trialId, query.data);
-    if (!prepared) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    if (!prepared) throw new AppError("not_found", "That trial does not exist, or its results have not been shared with you.");
     const headers = { ETag: prepared.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
     const match = request.headers.get("if-none-match");
     if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
+import { requireUser } from "@/lib/auth/guards";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { loadAnalysis } from "@/lib/analysis-service";
@@ -12,7 +12,8 @@ import { AnalysisView } from "@/components/analysis/analysis-view";
 export const metadata: Metadata = { title: "Analysis" };
 
 export default async function AnalysisPage({ params, searchParams }: { params: Promise<{ trialId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  const viewer = await requireRole("coordinator", "admin");
+  // Cooperators get their own shared sites only; the query layer decides what each viewer sees.
+  const viewer = await requireUser();
   const trialId = idParam.safeParse((await params).trialId);
   if (!trialId.success) notFound();
   const search = new URLSearchParams();
@@ -20,13 +21,15 @@ export default async function AnalysisPage({ params, searchParams }: { params: P
   const query = parseAnalysisQuery(search);
   // A hand-edited address with a bad setting falls back to the defaults and says so, rather than failing.
   const [loaded, targets] = await Promise.all([loadAnalysis(viewer, trialId.data, query.ok ? query.data : {}), listExclusionTargets(viewer, trialId.data)]);
-  if (!loaded || !targets) notFound();
+  if (!loaded) notFound();
   const { result } = loaded;
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link href={`/portal/trials/${result.trial.id}`}>← {result.trial.code}</Link>
-      </p>
+      {targets && (
+        <p className="text-sm">
+          <Link href={`/portal/trials/${result.trial.id}`}>← {result.trial.code}</Link>
+        </p>
+      )}
       <div>
         <h1 className="text-3xl font-bold">Analysis: {result.trial.title}</h1>
         <p className="text-loam-700">

@@ -1,0 +1,1 @@
+ALTER TABLE `enrolments` ADD `results_shared` boolean DEFAULT false NOT NULL;
