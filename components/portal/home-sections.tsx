@@ -66,7 +66,7 @@ export function LateSitesList({ sites }: { sites: LateSites }) {
         return (
           <li key={s.enrolmentId} className="flex flex-wrap items-baseline justify-between gap-2 py-2">
             <div>
-              <span className="font-semibold">{s.siteName}</span> <span className="text-sm text-loam-700">· {s.trialCode}</span>
+              <Link href={`/portal/review/${s.trialId}/${s.siteId}`} className="font-semibold">{s.siteName}</Link> <span className="text-sm text-loam-700">· {s.trialCode}</span>
               <span className="block text-sm text-loam-700">
                 {s.late.length} overdue {s.late.length === 1 ? "count" : "counts"}, oldest due {formatDate(s.late[0]!.dueOn)}
               </span>
@@ -89,7 +89,9 @@ export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnTyp
           <ul className="space-y-4">
             {schedules.map((s) => (
               <li key={s.enrolmentId} className="rounded-lg border border-husk-200 p-3">
-                <p className="font-semibold">{s.trialTitle}</p>
+                <p className="font-semibold">
+                  <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>{s.trialTitle}</Link>
+                </p>
                 <p className="text-sm text-loam-700">
                   {s.siteName} · sown {formatDate(s.sownOn)} · {s.plotCount} plots
                 </p>
