@@ -45,6 +45,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
         <div className="flex items-center gap-3">
           {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
           {progress.observationCount > 0 && <Link href={`/portal/trials/${trial.id}/analysis`}>Analysis</Link>}
+          {progress.observationCount > 0 && trial.status !== "draft" && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
           <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
         </div>
       </div>
