@@ -11,6 +11,8 @@ export function createDatabase(url: string, connectionLimit: number) {
     connectionLimit,
     waitForConnections: true,
     enableKeepAlive: true,
+    // A MariaDB that accepts the socket but never answers should fail a request in seconds, not hang it.
+    connectTimeout: 5000,
     // Dates come back as strings for DATE columns and as JS Dates (UTC) for timestamps.
     timezone: "Z",
     dateStrings: ["DATE"],

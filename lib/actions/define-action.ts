@@ -1,7 +1,7 @@
 import "server-only";
 import type { z } from "zod";
 import { getViewer } from "@/lib/auth/guards";
-import { isAppError } from "@/lib/errors";
+import { asAppError } from "@/lib/errors";
 import type { Role } from "@/db/schema/enums";
 import type { Viewer } from "@/lib/auth/types";
 import type { ActionResult } from "./result";
@@ -52,7 +52,8 @@ export function defineAction<S extends z.ZodType, V extends Viewer | null = View
       const result = await body(parsed.data, viewer as V);
       return result ?? { ok: true };
     } catch (e) {
-      if (isAppError(e)) return { ok: false, formError: e.message, fieldErrors: e.fieldErrors, values };
+      const known = asAppError(e);
+      if (known) return { ok: false, formError: known.message, fieldErrors: known.fieldErrors, values };
       // redirect() and notFound() signal by throwing; let Next handle them.
       if (e && typeof e === "object" && "digest" in e) throw e;
       console.error("[action] unexpected error", e);

@@ -1,0 +1,223 @@
+// Faults: a server killed during a large save, the database going away under a running app, and the mail
+// server being down. Runs against its own database (seedplot_fault) because the mail test drains the whole
+// outbox and the outage test points the app's pool at a relay it then cuts.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { spawn, execFileSync, type ChildProcess } from "node:child_process";
+import { mkdtempSync, writeFileSync, promises as fs } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { eq, sql } from "drizzle-orm";
+import type { SMTPServer } from "smtp-server";
+import mysql from "mysql2/promise";
+import * as s from "@/db/schema";
+import { createDatabase } from "@/db/client";
+import { runMigrations } from "@/db/migrate";
+import { bigSiteCsv, insertBigSite } from "../helpers/big-site";
+import { startTcpProxy, sparePort } from "../helpers/tcp-proxy";
+import { unique } from "../helpers/db";
+import { startFakeSmtp } from "../../scripts/fake-smtp";
+import { addDays, todayIso } from "@/lib/schedule";
+
+const base = process.env.TEST_DATABASE_URL ?? process.env.DATABASE_URL ?? "";
+if (!/seedplot_test/.test(base)) throw new Error("Fault tests need TEST_DATABASE_URL pointing at seedplot_test (run scripts/test.sh).");
+const faultUrl = base.replace(/\/seedplot_test(\?|$)/, "/seedplot_fault$1");
+const upstream = new URL(faultUrl);
+const ROWS = 10_000;
+const VALUES = ROWS * 3;
+const root = path.resolve(import.meta.dirname, "../..");
+const work = mkdtempSync(path.join(tmpdir(), "seedplot-fault-"));
+
+const { db, pool } = createDatabase(faultUrl, 4);
+let proxy: Awaited<ReturnType<typeof startTcpProxy>>;
+let smtpPort: number;
+let app: {
+  appPool: typeof import("@/db/index").pool;
+  publicTrials: typeof import("@/app/api/public/trials/route").GET;
+  insertPasswordReset: typeof import("@/db/mutations/users").insertPasswordReset;
+  deliverSoon: typeof import("@/lib/mail/outbox").deliverSoon;
+  deliverPendingMail: typeof import("@/lib/mail/outbox").deliverPendingMail;
+  asAppError: typeof import("@/lib/errors").asAppError;
+};
+
+beforeAll(async () => {
+  await runMigrations(faultUrl);
+  // Demo data gives the traits the big site records and a coordinator for the mail test; --reset keeps reruns clean.
+  execFileSync(path.join(root, "node_modules/.bin/tsx"), ["db/seed.ts", "--reset"], { cwd: root, env: { ...process.env, DATABASE_URL: faultUrl }, stdio: "ignore" });
+  proxy = await startTcpProxy({ host: upstream.hostname, port: Number(upstream.port) });
+  smtpPort = await sparePort();
+  // The app modules read settings once on import, so they are pointed at the relay and the spare mail port first.
+  const viaProxy = new URL(faultUrl);
+  viaProxy.port = String(proxy.port);
+  process.env.DATABASE_URL = viaProxy.toString();
+  process.env.SMTP_PORT = String(smtpPort);
+  process.env.MAILBOX_DIR = path.join(work, "mailbox");
+  const [index, route, users, outbox, errors] = await Promise.all([
+    import("@/db/index"),
+    import("@/app/api/public/trials/route"),
+    import("@/db/mutations/users"),
+    import("@/lib/mail/outbox"),
+    import("@/lib/errors"),
+  ]);
+  app = {
+    appPool: index.pool,
+    publicTrials: route.GET,
+    insertPasswordReset: users.insertPasswordReset,
+    deliverSoon: outbox.deliverSoon,
+    deliverPendingMail: outbox.deliverPendingMail,
+    asAppError: errors.asAppError,
+  };
+});
+
+afterAll(async () => {
+  await app?.appPool.end().catch(() => undefined);
+  await proxy?.close();
+  await pool.end();
+  await fs.rm(work, { recursive: true, force: true });
+});
+
+/** Runs the commit worker in its own process group so SIGKILL takes tsx and its node child together. */
+function startWorker(job: object) {
+  const jobPath = path.join(work, `job-${Date.now()}.json`);
+  writeFileSync(jobPath, JSON.stringify(job));
+  const child = spawn(path.join(root, "node_modules/.bin/tsx"), ["--conditions", "react-server", "tests/helpers/commit-worker.ts", jobPath], {
+    cwd: root,
+    env: { ...process.env, DATABASE_URL: faultUrl, SEEDPLOT_DISABLE_JOBS: "1" },
+    detached: true,
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let out = "";
+  child.stdout!.on("data", (d) => (out += d));
+  child.stderr!.on("data", (d) => (out += d));
+  const exited = new Promise<number | null>((resolve) => child.on("exit", (code, signal) => resolve(signal ? null : code)));
+  return { child, exited, output: () => out };
+}
+
+const killGroup = (child: ChildProcess) => {
+  try {
+    process.kill(-child.pid!, "SIGKILL");
+  } catch {
+    // Already gone: nothing left to kill.
+  }
+};
+
+describe("a server killed in the middle of a 10,000-row save", () => {
+  it("leaves all of the sheet or none of it, and the same sheet saves in full afterwards", async () => {
+    const site = await insertBigSite(db, { plots: ROWS, tag: unique("kill"), sownOn: addDays(todayIso(), -30) });
+    const csvPath = path.join(work, "big.csv");
+    writeFileSync(csvPath, bigSiteCsv(site));
+    const job = { viewer: site.viewer, trialId: site.trialId, siteId: site.siteId, csvPath };
+    const plotsOf = `SELECT id FROM plots WHERE enrolment_id = ${site.enrolmentId}`;
+    // A dirty read sees rows the save has written but not committed, which is the moment to kill it.
+    const watcher = await mysql.createConnection({ uri: faultUrl });
+    await watcher.query("SET SESSION TRANSACTION ISOLATION LEVEL READ UNCOMMITTED");
+    const uncommitted = async () => {
+      const [rows] = await watcher.query(`SELECT COUNT(*) AS n FROM observations WHERE plot_id IN (${plotsOf})`);
+      return Number((rows as { n: number }[])[0]!.n);
+    };
+
+    const first = startWorker(job);
+    let seenMidway = 0;
+    let exitCode: number | null = -1;
+    let finished = false;
+    void first.exited.then(() => (finished = true));
+    try {
+      while (!finished) {
+        const n = await uncommitted();
+        // A third of the way in, so the transaction holds many batches of rows when it dies.
+        if (n >= VALUES / 3) {
+          seenMidway = n;
+          killGroup(first.child);
+          break;
+        }
+        await new Promise((r) => setTimeout(r, 10));
+      }
+      exitCode = await first.exited;
+    } finally {
+      killGroup(first.child);
+      await watcher.end();
+    }
+    // The kill has to land inside the transaction, or this test proves nothing.
+    expect(seenMidway, first.output()).toBeGreaterThan(0);
+    expect(exitCode, "the worker ended by itself instead of being killed").toBeNull();
+
+    const committed = async () => {
+      const [rows] = (await db.execute(sql.raw(`SELECT COUNT(*) AS n FROM observations WHERE plot_id IN (${plotsOf})`))) as unknown as [[{ n: number }]];
+      return Number(rows[0]!.n);
+    };
+    const audits = async () => {
+      const [rows] = (await db.execute(sql.raw(`SELECT COUNT(*) AS n FROM audit_log WHERE trial_id = ${site.trialId}`))) as unknown as [[{ n: number }]];
+      return Number(rows[0]!.n);
+    };
+    // MariaDB rolls the dead connection's transaction back; until then its row locks make this read wait.
+    const afterKill = await committed();
+    console.log(`killed with ${seenMidway} of ${VALUES} values written but not committed; ${afterKill} committed after the kill`);
+    expect([0, VALUES]).toContain(afterKill);
+    expect([0, VALUES]).toContain(await audits());
+
+    // "Restarting the server": a fresh process saves the same sheet.
+    const second = startWorker(job);
+    const code = await second.exited;
+    expect(code, second.output()).toBe(0);
+    expect(second.output()).toContain(afterKill === 0 ? `"saved":${VALUES}` : `"saved":0`);
+    expect(await committed()).toBe(VALUES);
+    expect(await audits()).toBe(VALUES);
+  }, 60_000);
+});
+
+describe("the database going away under a running app", () => {
+  it("answers 503 with a plain message instead of hanging or a 500, and recovers without a restart", async () => {
+    const request = () => app.publicTrials(new Request("http://localhost/api/public/trials"));
+    const before = await request();
+    expect(before.status).toBe(200);
+
+    await proxy.cut();
+    const during = await request();
+    expect(during.status).toBe(503);
+    const body = (await during.json()) as { error: string; code: string };
+    expect(body.code).toBe("db_unavailable");
+    expect(body.error).toMatch(/cannot reach its database/);
+    expect(body.error).not.toMatch(/ECONN|select|Failed query|at /);
+    expect(during.headers.get("retry-after")).toBe("30");
+    // A write inside a transaction fails the same way and maps to the same error.
+    const failed = await app
+      .insertPasswordReset({ email: "nobody@example.test", token: "t", buildMail: () => ({ to: "x@example.test", subject: "s", text: "t" }) })
+      .then(() => null, (e: unknown) => e);
+    expect(app.asAppError(failed)?.code).toBe("db_unavailable");
+
+    await proxy.restore();
+    const after = await request();
+    expect(after.status).toBe(200);
+    expect(((await after.json()) as { trials: unknown[] }).trials).toBeInstanceOf(Array);
+  });
+});
+
+describe("the mail server being down", () => {
+  it("lets the action succeed, keeps the message queued, and sends it once the server is back", async () => {
+    const mailbox = process.env.MAILBOX_DIR!;
+    let smtp: SMTPServer = await startFakeSmtp({ port: smtpPort, dir: mailbox });
+    await new Promise<void>((resolve) => smtp.close(() => resolve()));
+
+    const [coordinator] = await db.select({ email: s.users.email, name: s.users.name }).from(s.users).where(eq(s.users.role, "coordinator")).limit(1);
+    const subject = unique("Reset");
+    const queued = await app.insertPasswordReset({ email: coordinator!.email, token: unique("tok"), buildMail: (name) => ({ to: coordinator!.email, subject, text: `Hello ${name}` }) });
+    expect(queued).toBe(true);
+    await expect(app.deliverSoon()).resolves.toBeUndefined();
+    const [pending] = await db.select().from(s.mailOutbox).where(eq(s.mailOutbox.subject, subject));
+    expect(pending).toMatchObject({ status: "pending", attempts: 1 });
+    expect(pending!.lastError).toMatch(/ECONNREFUSED|connect/i);
+    expect(await fs.readdir(mailbox).catch(() => [])).toEqual([]);
+
+    smtp = await startFakeSmtp({ port: smtpPort, dir: mailbox });
+    try {
+      // What the 30-second retry job calls.
+      expect(await app.deliverPendingMail()).toBeGreaterThanOrEqual(1);
+    } finally {
+      await new Promise<void>((resolve) => smtp.close(() => resolve()));
+    }
+    const [sent] = await db.select().from(s.mailOutbox).where(eq(s.mailOutbox.subject, subject));
+    expect(sent).toMatchObject({ status: "sent", attempts: 2, lastError: null });
+    const files = await fs.readdir(mailbox);
+    const messages = await Promise.all(files.map(async (f) => JSON.parse(await fs.readFile(path.join(mailbox, f), "utf8")) as { to: string[]; subject: string }));
+    expect(messages.filter((m) => m.subject === subject && m.to.includes(coordinator!.email))).toHaveLength(1);
+  });
+});
