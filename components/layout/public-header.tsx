@@ -11,9 +11,13 @@ export async function PublicHeader() {
           <Logo />
         </Link>
         <nav aria-label="Main" className="flex items-center gap-4 text-base">
-          <Link href="/">Home</Link>
-          <Link href="/results">Results</Link>
-          {viewer ? <Link href="/portal">My portal</Link> : <Link href="/sign-in">Sign in</Link>}
+          <Link href="/" className="font-semibold no-underline hover:underline">Home</Link>
+          <Link href="/results" className="font-semibold no-underline hover:underline">Results</Link>
+          {viewer ? (
+            <Link href="/portal" className="font-semibold no-underline hover:underline">My portal</Link>
+          ) : (
+            <Link href="/sign-in" className="font-semibold no-underline hover:underline">Sign in</Link>
+          )}
         </nav>
       </div>
     </header>

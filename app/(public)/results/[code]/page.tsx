@@ -1,0 +1,139 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { getPublicReport } from "@/db/queries/public";
+import { trialCodeSchema, versionParamSchema } from "@/lib/validation/publish";
+import { PublicTraitResults } from "@/components/public/trait-results";
+import { SETUP_LABELS } from "@/lib/labels";
+import type { GrowingSetup } from "@/db/schema/enums";
+
+type Params = Promise<{ code: string }>;
+type Search = Promise<Record<string, string | string[] | undefined>>;
+
+async function load(params: Params, searchParams: Search) {
+  const { code } = await params;
+  const search = await searchParams;
+  if (!trialCodeSchema.safeParse(code).success) return null;
+  const raw = Array.isArray(search.version) ? search.version[0] : search.version;
+  const version = raw === undefined ? undefined : versionParamSchema.safeParse(raw);
+  if (version && !version.success) return null;
+  return getPublicReport(code, version?.data);
+}
+
+export async function generateMetadata({ params, searchParams }: { params: Params; searchParams: Search }): Promise<Metadata> {
+  const report = await load(params, searchParams);
+  if (!report) return { title: "Not found" };
+  if (report.kind === "withdrawn") return { title: `${report.title} (withdrawn)`, robots: { index: false } };
+  const t = report.snapshot.trial;
+  return {
+    title: `${t.title} (${t.season})`,
+    description: report.snapshot.summary.join(" ").slice(0, 300),
+    openGraph: { title: `${t.title} — ${t.crop} variety trial results`, description: report.snapshot.summary[0] ?? "", type: "article" },
+  };
+}
+
+export default async function PublicTrialPage({ params, searchParams }: { params: Params; searchParams: Search }) {
+  const report = await load(params, searchParams);
+  if (!report) notFound();
+  if (report.kind === "withdrawn") {
+    return (
+      <div className="mx-auto max-w-3xl px-4 py-12">
+        <h1 className="text-3xl font-bold">{report.title}</h1>
+        <div role="status" className="mt-6 rounded-xl border border-marigold-400 bg-marigold-100 p-5">
+          <h2 className="text-lg font-bold">These results have been withdrawn</h2>
+          <p className="mt-2">{report.reason}</p>
+          <p className="mt-2 text-sm text-loam-700">Withdrawn on {report.withdrawnAt.toISOString().slice(0, 10)}. Please do not rely on copies downloaded earlier.</p>
+        </div>
+        <p className="mt-6"><Link href="/results">All published results</Link></p>
+      </div>
+    );
+  }
+  const { snapshot, versions, latestVersion } = report;
+  const t = snapshot.trial;
+  const isLatest = snapshot.version === latestVersion;
+  const versionQuery = isLatest ? "" : `?version=${snapshot.version}`;
+  return (
+    <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
+      <header>
+        <p className="text-sm font-semibold text-sprout-700">
+          <Link href="/results">Results</Link> · {t.crop} · {t.season}
+        </p>
+        <h1 className="mt-1 text-3xl font-bold">{t.title}</h1>
+        <p className="mt-1 text-loam-700">
+          {snapshot.program} · trial {t.code} · {snapshot.sites.length} sites · {snapshot.entries.length} varieties · {t.blocks} blocks per site
+        </p>
+        {!isLatest && (
+          <p role="status" className="mt-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2">
+            You are reading version {snapshot.version}. <Link href={`/results/${t.code}`}>See the latest version ({latestVersion})</Link>.
+          </p>
+        )}
+      </header>
+
+      <section aria-labelledby="summary" className="rounded-xl border border-husk-200 bg-white p-5">
+        <h2 id="summary" className="text-xl font-bold">Summary for growers</h2>
+        <ul className="mt-3 list-disc space-y-2 pl-5">
+          {snapshot.summary.map((line, i) => <li key={i}>{line}</li>)}
+        </ul>
+        <p className="mt-3 text-sm text-loam-700">
+          Varieties sharing a letter are not clearly different (5% level). These results come from these sites and this season; try a
+          small planting before changing a whole crop.
+        </p>
+        <div className="mt-4 flex flex-wrap gap-3">
+          <a className="inline-flex min-h-11 items-center rounded-lg bg-sprout-600 px-4 font-semibold text-white no-underline hover:bg-sprout-700" href={`/results/${t.code}/report${versionQuery}`}>
+            Download the PDF report
+          </a>
+          <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=csv${versionQuery ? `&version=${snapshot.version}` : ""}`}>
+            Data (CSV)
+          </a>
+          <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=xlsx${versionQuery ? `&version=${snapshot.version}` : ""}`}>
+            Data (Excel)
+          </a>
+        </div>
+      </section>
+
+      {snapshot.results.map(({ traitId, result }) => (
+        <section key={traitId} aria-labelledby={`trait-${traitId}`} className="rounded-xl border border-husk-200 bg-white p-5">
+          <h2 id={`trait-${traitId}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
+          <PublicTraitResults result={result} />
+        </section>
+      ))}
+
+      <section aria-labelledby="varieties" className="rounded-xl border border-husk-200 bg-white p-5">
+        <h2 id="varieties" className="text-xl font-bold">Varieties</h2>
+        <ul className="mt-3 grid gap-2 sm:grid-cols-2">
+          {snapshot.entries.map((e) => (
+            <li key={e.blindCode}>
+              <Link href={`/varieties/${e.varietyId}`}>{e.variety}</Link>
+              {e.isCheck && " (check)"} <span className="text-sm text-loam-700">— {e.seedSource ?? "source not recorded"}{e.treated ? ", treated seed" : ""}</span>
+            </li>
+          ))}
+        </ul>
+      </section>
+
+      <section aria-labelledby="sites" className="rounded-xl border border-husk-200 bg-white p-5">
+        <h2 id="sites" className="text-xl font-bold">Partner sites</h2>
+        <ul className="mt-3 grid gap-2 sm:grid-cols-2">
+          {snapshot.sites.map((s) => (
+            <li key={s.id}>
+              <Link href={`/sites/${s.id}`}>{s.name}</Link>{" "}
+              <span className="text-sm text-loam-700">— {s.region}, {SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup}</span>
+            </li>
+          ))}
+        </ul>
+      </section>
+
+      <section aria-labelledby="versions" className="text-sm text-loam-700">
+        <h2 id="versions" className="text-base font-bold text-loam-900">Versions</h2>
+        <ul className="mt-2 space-y-1">
+          {versions.map((v) => (
+            <li key={v.version}>
+              <Link href={`/results/${t.code}${v.version === latestVersion ? "" : `?version=${v.version}`}`}>Version {v.version}</Link>, {v.publishedAt.toISOString().slice(0, 10)}
+              {v.changeNote ? ` — ${v.changeNote}` : ""}
+            </li>
+          ))}
+        </ul>
+        <p className="mt-3">Cite as: {snapshot.citation}</p>
+      </section>
+    </div>
+  );
+}

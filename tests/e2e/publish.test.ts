@@ -1,0 +1,134 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { execFileSync } from "node:child_process";
+import { promises as fs } from "node:fs";
+import { createRequire } from "node:module";
+import os from "node:os";
+import path from "node:path";
+import { eq, inArray } from "drizzle-orm";
+import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
+import { createDatabase } from "@/db/client";
+import * as s from "@/db/schema";
+import { DEMO_PASSWORDS, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
+
+// The browser tests' server reads the seedplot_e2e database; this file checks it directly too.
+const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
+const PUBLISHED = DEMO_TRIALS.find((t) => t.code === "TV26-LET")!;
+const NEVER_PUBLISHED = DEMO_TRIALS.find((t) => t.code === "TV27-KAL")!;
+let browser: Browser;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await e2e.pool.end();
+});
+
+async function status(pathname: string) {
+  return (await fetch(new URL(pathname, baseUrl), { redirect: "manual" })).status;
+}
+
+/** Every public address that could show something of a trial, its varieties or its sites. */
+async function publicAddressesOf(code: string) {
+  const [trial] = await e2e.db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, code));
+  const entries = await e2e.db.select({ varietyId: s.trialEntries.varietyId }).from(s.trialEntries).where(eq(s.trialEntries.trialId, trial!.id));
+  return {
+    trialId: trial!.id,
+    pages: [`/results/${code}`, `/results/${code}?version=1`, `/results/${code}/report`, `/results/${code}/data?format=csv`, `/results/${code}/data?format=xlsx`, `/api/public/trials/${code}`],
+    varieties: entries.map((e) => `/varieties/${e.varietyId}`),
+  };
+}
+
+/** Sites that took part only in unpublished trials must not have a public page. */
+async function sitesOnlyIn(codes: string[]) {
+  const rows = await e2e.db
+    .select({ siteId: s.enrolments.siteId, code: s.trials.code })
+    .from(s.enrolments)
+    .innerJoin(s.trials, eq(s.trials.id, s.enrolments.trialId));
+  const bySite = new Map<number, Set<string>>();
+  for (const r of rows) bySite.set(r.siteId, (bySite.get(r.siteId) ?? new Set()).add(r.code));
+  return [...bySite.entries()].filter(([, c]) => [...c].every((x) => codes.includes(x))).map(([id]) => `/sites/${id}`);
+}
+
+async function expectNothingPublic(code: string) {
+  const { pages, varieties } = await publicAddressesOf(code);
+  for (const p of [...pages, ...varieties]) expect([p, await status(p)]).toEqual([p, 404]);
+  const index = await (await fetch(new URL(`/api/public/trials?q=${encodeURIComponent(code)}`, baseUrl))).json();
+  expect(index.trials).toEqual([]);
+  const html = await (await fetch(new URL(`/results?q=${encodeURIComponent(code)}`, baseUrl))).text();
+  expect(html).toContain("No published results match.");
+}
+
+describe("publishing and the public pages", () => {
+  it("shows nothing of unpublished trials at any public address, including guessed ids", async () => {
+    for (const t of DEMO_TRIALS) await expectNothingPublic(t.code);
+    for (const p of await sitesOnlyIn(DEMO_TRIALS.map((t) => t.code))) expect([p, await status(p)]).toEqual([p, 404]);
+    for (const p of ["/results/NOPE-123", "/results/..%2f..%2fetc", "/varieties/999999", "/varieties/abc", "/sites/0", "/api/public/trials/%27%20OR%201%3D1"]) {
+      expect([p, await status(p)]).toEqual([p, 404]);
+    }
+  }, 60_000);
+
+  it("lets a coordinator publish; the public page and its PDF show the summary and every variety", async () => {
+    const staff = await newPage(browser);
+    await signIn(staff.page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
+    const { trialId } = await publicAddressesOf(PUBLISHED.code);
+    await staff.page.goto(`/portal/trials/${trialId}/publish`);
+    await staff.page.getByRole("heading", { name: /Publish results/ }).waitFor();
+    await staff.page.getByRole("button", { name: "Publish version 1" }).click();
+    await staff.page.getByText("Published as version 1.").waitFor({ timeout: 60_000 });
+    await staff.context.close();
+
+    const visitor = await newPage(browser, { width: 390, height: 844 });
+    await visitor.page.goto(`/results/${PUBLISHED.code}`);
+    await visitor.page.getByRole("heading", { name: "Summary for growers" }).waitFor();
+    const summary = await visitor.page.getByRole("region", { name: "Summary for growers" }).innerText();
+    for (const entry of PUBLISHED.entries) expect(await visitor.page.getByRole("link", { name: entry.variety }).count()).toBeGreaterThan(0);
+    expect(await visitor.page.title()).toContain(PUBLISHED.title);
+
+    const download = await fetch(new URL(`/results/${PUBLISHED.code}/report`, baseUrl));
+    expect(download.status).toBe(200);
+    expect(download.headers.get("content-type")).toBe("application/pdf");
+    const dir = await fs.mkdtemp(path.join(os.tmpdir(), "seedplot-e2e-pdf-"));
+    const file = path.join(dir, "report.pdf");
+    await fs.writeFile(file, Buffer.from(await download.arrayBuffer()));
+    const text = execFileSync("pdftotext", ["-layout", file, "-"]).toString().replace(/\s+/g, " ");
+    for (const entry of PUBLISHED.entries) expect(text).toContain(entry.variety);
+    const firstLine = summary.split("\n").find((l) => l.includes(":"))!;
+    expect(text).toContain(firstLine.trim().slice(0, 40).replace(/\s+/g, " "));
+    execFileSync("pdftoppm", ["-png", "-r", "50", "-f", "1", "-l", "3", file, path.join(dir, "page")]);
+    expect((await fs.readdir(dir)).filter((n) => n.endsWith(".png")).length).toBe(3);
+
+    const csv = await (await fetch(new URL(`/results/${PUBLISHED.code}/data?format=csv`, baseUrl))).text();
+    expect(csv).toContain(PUBLISHED.title);
+    expect(csv.split("\n")[1]).toContain("site,block,plot,code,variety,trait,unit,value,status");
+    await visitor.context.close();
+
+    // Publishing revealed nothing of the other trials.
+    await expectNothingPublic(NEVER_PUBLISHED.code);
+  }, 180_000);
+
+  it("has no serious or critical accessibility problems on the public index, trial and variety pages", async () => {
+    const require = createRequire(import.meta.url);
+    const axeSource = await fs.readFile(require.resolve("axe-core/axe.min.js"), "utf8");
+    const [variety] = await e2e.db
+      .select({ id: s.varieties.id })
+      .from(s.varieties)
+      .where(inArray(s.varieties.name, PUBLISHED.entries.map((e) => e.variety)))
+      .limit(1);
+    const context = await browser.newContext({ baseURL: baseUrl, bypassCSP: true });
+    const page = await context.newPage();
+    for (const pathname of ["/", "/results", `/results/${PUBLISHED.code}`, `/varieties/${variety!.id}`]) {
+      await page.goto(pathname);
+      await page.waitForLoadState("networkidle");
+      await page.evaluate(axeSource);
+      const violations = (await page.evaluate(async () => {
+        // @ts-expect-error axe is injected above
+        const result = await window.axe.run(document, { resultTypes: ["violations"] });
+        return result.violations.map((v: { id: string; impact: string; nodes: unknown[] }) => ({ id: v.id, impact: v.impact, nodes: v.nodes.length }));
+      })) as { id: string; impact: string }[];
+      expect([pathname, violations.filter((v) => v.impact === "serious" || v.impact === "critical")]).toEqual([pathname, []]);
+    }
+    await context.close();
+  }, 120_000);
+});
