@@ -1,5 +1,6 @@
 import { deliverPendingMail } from "@/lib/mail/outbox";
 import { runDueReminders } from "@/lib/observations/reminders";
+import { deleteOldSignInAttempts } from "@/db/mutations/sign-in-attempts";
 
 const MAIL_RETRY_MS = 30_000;
 // Hourly is often enough for day-granular reminders; each site is reminded at most once a day.
@@ -15,7 +16,10 @@ export function startBackgroundJobs() {
     deliverPendingMail().catch((e) => console.error("[jobs] mail retry failed:", e instanceof Error ? e.message : e));
   }, MAIL_RETRY_MS);
   timer.unref();
-  const remind = () => runDueReminders().catch((e) => console.error("[jobs] reminders failed:", e instanceof Error ? e.message : e));
+  const remind = () => {
+    runDueReminders().catch((e) => console.error("[jobs] reminders failed:", e instanceof Error ? e.message : e));
+    deleteOldSignInAttempts().catch((e) => console.error("[jobs] sign-in log cleanup failed:", e instanceof Error ? e.message : e));
+  };
   setTimeout(remind, REMINDER_FIRST_MS).unref();
   setInterval(remind, REMINDER_MS).unref();
 }

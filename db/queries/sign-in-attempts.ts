@@ -1,13 +1,19 @@
 import "server-only";
-import { and, count, eq, gt } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import { db } from "../index";
-import { signInAttempts } from "../schema";
 
-/** Failed attempts for a throttle key (an account or an address) since the given time. */
+/**
+ * Failed attempts for a throttle key (an account or an address) since the given time that came after
+ * the key's last success, so a successful sign-in forgives earlier typos without deleting rows (which
+ * made concurrent sign-ins deadlock).
+ */
 export async function countRecentFailures(throttleKey: string, since: Date): Promise<number> {
-  const [row] = await db
-    .select({ n: count() })
-    .from(signInAttempts)
-    .where(and(eq(signInAttempts.throttleKey, throttleKey), eq(signInAttempts.succeeded, false), gt(signInAttempts.attemptedAt, since)));
-  return row?.n ?? 0;
+  const [rows] = (await db.execute(sql`
+    SELECT COUNT(*) AS n FROM sign_in_attempts f
+    WHERE f.throttle_key = ${throttleKey} AND f.succeeded = 0 AND f.attempted_at > ${since}
+      AND NOT EXISTS (
+        SELECT 1 FROM sign_in_attempts s
+        WHERE s.throttle_key = f.throttle_key AND s.succeeded = 1 AND s.attempted_at >= f.attempted_at
+      )`)) as unknown as [{ n: number }[]];
+  return Number(rows[0]?.n ?? 0);
 }

@@ -5,7 +5,7 @@ import { getSignInRecord } from "@/db/queries/users";
 import { signInSchema } from "@/lib/validation/auth";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
-import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "./messages";
+import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE } from "./messages";
 import type { Role } from "@/db/schema/enums";
 
 function clientAddress(headers: Record<string, unknown> | undefined): string {
@@ -28,16 +28,25 @@ export const authOptions: NextAuthOptions = {
         if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
         const { email, password } = parsed.data;
         const address = clientAddress(req?.headers as Record<string, unknown> | undefined);
-        if (await isThrottled(email, address)) throw new Error(SIGN_IN_THROTTLED);
-        const record = await getSignInRecord(email);
-        // The hash check runs even for unknown e-mails so timing does not reveal which accounts exist.
-        const ok = await verifyPassword(record?.passwordHash ?? null, password);
-        if (!record || !ok || !record.active) {
-          await recordAttempt(email, address, false);
-          throw new Error(SIGN_IN_FAILED);
+        let outcome: "throttled" | "failed" | { id: number; email: string; name: string; role: Role };
+        try {
+          if (await isThrottled(email, address)) outcome = "throttled";
+          else {
+            const record = await getSignInRecord(email);
+            // The hash check runs even for unknown e-mails so timing does not reveal which accounts exist.
+            const ok = await verifyPassword(record?.passwordHash ?? null, password);
+            const success = record !== null && ok && record.active;
+            await recordAttempt(email, address, success);
+            outcome = success ? record : "failed";
+          }
+        } catch (e) {
+          // next-auth puts the thrown message in the URL, so internals (SQL, hosts) must never reach it.
+          console.error("[auth] sign-in check failed:", e);
+          throw new Error(SIGN_IN_UNAVAILABLE);
         }
-        await recordAttempt(email, address, true);
-        return { id: String(record.id), email: record.email, name: record.name, role: record.role };
+        if (outcome === "throttled") throw new Error(SIGN_IN_THROTTLED);
+        if (outcome === "failed") throw new Error(SIGN_IN_FAILED);
+        return { id: String(outcome.id), email: outcome.email, name: outcome.name, role: outcome.role };
       },
     }),
   ],

@@ -3,3 +3,4 @@
 export const SIGN_IN_FAILED = "That e-mail and password do not match an account. Check both and try again.";
 export const SIGN_IN_THROTTLED =
   "Too many sign-in attempts. Please wait 15 minutes, or reset your password from the link below.";
+export const SIGN_IN_UNAVAILABLE = "Sign-in is not available right now. Please try again in a minute.";

@@ -37,3 +37,12 @@ describe("rate limits on mail-sending actions", () => {
     expect(await consumeRateLimit([{ key: unique("other"), max: 3 }], 60)).toBe(true);
   });
 });
+
+describe("concurrent sign-ins", () => {
+  it("record many attempts at once without deadlocking", async () => {
+    const email = `${unique("busy")}@example.org`;
+    const results = await Promise.allSettled(Array.from({ length: 12 }, (_, i) => recordAttempt(email, "10.0.2.1", i % 3 !== 0)));
+    expect(results.filter((r) => r.status === "rejected")).toEqual([]);
+    expect(await isThrottled(email, "10.0.2.2")).toBe(false);
+  });
+});
