@@ -1,11 +1,23 @@
 import "server-only";
-import { and, desc, eq, isNull } from "drizzle-orm";
+import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "../index";
 import { publishedReports, trials } from "../schema";
 import type { PublishedSnapshot } from "@/lib/publish/types";
 
 // Public reads come only from published snapshots, never from live tables, so nothing unpublished can
 // leak and later data changes cannot alter what was published.
+
+// A published version never changes, so its parsed snapshot can be kept for the life of the process.
+const parsedSnapshots = new Map<number, PublishedSnapshot>();
+
+async function snapshotsByReportId(ids: number[]): Promise<Map<number, PublishedSnapshot>> {
+  const missing = ids.filter((id) => !parsedSnapshots.has(id));
+  if (missing.length > 0) {
+    const rows = await db.select({ id: publishedReports.id, snapshot: publishedReports.snapshot }).from(publishedReports).where(inArray(publishedReports.id, missing));
+    for (const r of rows) parsedSnapshots.set(r.id, JSON.parse(r.snapshot) as PublishedSnapshot);
+  }
+  return new Map(ids.filter((id) => parsedSnapshots.has(id)).map((id) => [id, parsedSnapshots.get(id)!]));
+}
 
 export interface PublicVersion {
   version: number;
@@ -50,23 +62,26 @@ export async function getPublicReport(code: string, version?: number): Promise<P
   const wanted = version ?? live[0]!.version;
   if (!live.some((v) => v.version === wanted)) return null;
   const [row] = await db
-    .select({ snapshot: publishedReports.snapshot })
+    .select({ id: publishedReports.id })
     .from(publishedReports)
     .where(and(eq(publishedReports.trialId, trial.id), eq(publishedReports.version, wanted), isNull(publishedReports.unpublishedAt)));
   if (!row) return null;
-  return { kind: "published", snapshot: JSON.parse(row.snapshot) as PublishedSnapshot, versions: live, latestVersion: live[0]!.version };
+  const snapshot = (await snapshotsByReportId([row.id])).get(row.id);
+  if (!snapshot) return null;
+  return { kind: "published", snapshot, versions: live, latestVersion: live[0]!.version };
 }
 
 /** The latest live snapshot of every published trial. */
 async function listLatestSnapshots(): Promise<PublishedSnapshot[]> {
   const rows = await db
-    .select({ trialId: publishedReports.trialId, version: publishedReports.version, snapshot: publishedReports.snapshot })
+    .select({ id: publishedReports.id, trialId: publishedReports.trialId })
     .from(publishedReports)
     .where(isNull(publishedReports.unpublishedAt))
     .orderBy(desc(publishedReports.version));
-  const latest = new Map<number, string>();
-  for (const r of rows) if (!latest.has(r.trialId)) latest.set(r.trialId, r.snapshot);
-  return [...latest.values()].map((s) => JSON.parse(s) as PublishedSnapshot);
+  const latest = new Map<number, number>();
+  for (const r of rows) if (!latest.has(r.trialId)) latest.set(r.trialId, r.id);
+  const snapshots = await snapshotsByReportId([...latest.values()]);
+  return [...latest.values()].map((id) => snapshots.get(id)).filter((x): x is PublishedSnapshot => x !== undefined);
 }
 
 export interface PublicTrialCard {

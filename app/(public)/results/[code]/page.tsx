@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { getPublicReport } from "@/db/queries/public";
 import { trialCodeSchema, versionParamSchema } from "@/lib/validation/publish";
 import { PublicTraitResults } from "@/components/public/trait-results";
+import { toPublicTraitView } from "@/lib/publish/public-view";
 import { SETUP_LABELS } from "@/lib/labels";
 import type { GrowingSetup } from "@/db/schema/enums";
 
@@ -94,7 +95,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
       {snapshot.results.map(({ traitId, result }) => (
         <section key={traitId} aria-labelledby={`trait-${traitId}`} className="rounded-xl border border-husk-200 bg-white p-5">
           <h2 id={`trait-${traitId}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
-          <PublicTraitResults result={result} />
+          <PublicTraitResults view={toPublicTraitView(result)} />
         </section>
       ))}
 

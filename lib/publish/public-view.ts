@@ -1,0 +1,25 @@
+import type { AnalysisBlock, AnalysisResult, CombinedAnalysis } from "@/lib/analysis/types";
+
+/** Only what the public trait view shows, so the page does not ship every plot row to the browser. */
+export interface PublicTraitView {
+  analysedAs: string;
+  unit: string;
+  problem: string | null;
+  scope: string;
+  block: Pick<AnalysisBlock, "means" | "cv" | "lsd" | "entryP" | "comparisonNote"> | null;
+  combined: Pick<CombinedAnalysis, "cellMeans" | "sites"> | null;
+}
+
+/** Reduces a published analysis to the public trait view (runs on the server). */
+export function toPublicTraitView(result: AnalysisResult): PublicTraitView {
+  const block = result.combined ?? result.perSite.find((s) => s.result)?.result ?? null;
+  return {
+    analysedAs: result.trait.analysedAs,
+    unit: result.trait.computation !== "none" || result.trait.valueType === "date" ? "days" : (result.trait.unit ?? ""),
+    problem: result.combinedProblem,
+    scope: result.combined ? `across ${result.combined.sites} sites` : `at ${result.perSite.find((s) => s.result)?.siteName ?? "one site"}`,
+    block: block && { means: block.means, cv: block.cv, lsd: block.lsd, entryP: block.entryP, comparisonNote: block.comparisonNote },
+    combined: result.combined && { cellMeans: result.combined.cellMeans, sites: result.combined.sites },
+  };
+}
+
