@@ -40,7 +40,7 @@ export default async function PortalHome() {
           <UsersSummary users={users} />
         </Card>
       )}
-      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
+      <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
         <Card title="Trials">
           <TrialsTable trials={trials} />
         </Card>

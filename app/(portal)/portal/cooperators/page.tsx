@@ -14,7 +14,7 @@ export default async function CooperatorsPage() {
   return (
     <div className="space-y-6">
       <h1 className="text-3xl font-bold">Partner growers</h1>
-      <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
+      <div className="grid gap-6 lg:grid-cols-[3fr_2fr] [&>*]:min-w-0">
         <Card title="Growers in the network">
           <ul className="divide-y divide-husk-100">
             {cooperators.map((c) => (

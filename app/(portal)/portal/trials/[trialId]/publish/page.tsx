@@ -25,7 +25,7 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
     <div className="space-y-6">
       <p className="text-sm"><Link href={`/portal/trials/${trial.id}`}>← {trial.title}</Link></p>
       <h1 className="text-3xl font-bold">Publish results: {trial.title}</h1>
-      <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
+      <div className="grid gap-6 lg:grid-cols-[3fr_2fr] [&>*]:min-w-0">
         <Card title="Publish a new version">
           {trial.status === "draft" || trial.status === "archived" ? (
             <p>A {trial.status} trial cannot be published.</p>
