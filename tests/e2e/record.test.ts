@@ -68,9 +68,10 @@ describe("a grower records a day's counts on a phone", () => {
     await inputs.nth(4).fill("2");
     await inputs.nth(4).press("Enter");
     await page.getByText(/1 value is not saved yet/).waitFor();
+    await page.getByRole("button", { name: "Retry now" }).waitFor();
+    // Coming back online retries by itself (the button does the same on demand).
     await context.setOffline(false);
-    await page.getByRole("button", { name: "Retry now" }).click();
-    await page.getByText("Values save as you go.").waitFor();
+    await page.getByText("Values save as you go.").waitFor({ timeout: 30_000 });
 
     await page.reload();
     await inputs.first().waitFor();
