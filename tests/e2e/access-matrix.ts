@@ -1,0 +1,188 @@
+// Who may open what. Every page, route handler method and server action in the app must have an entry here;
+// access-matrix.test.ts finds them on disk and fails on any that is missing.
+
+export const ROLES = ["public", "coopA", "coopB", "coordinator", "admin"] as const;
+export type RoleKey = (typeof ROLES)[number];
+
+/**
+ * ok: 2xx. signin: redirect to /sign-in. deny: refused without showing anything (redirect to
+ * /portal/forbidden, 403 or 404). missing: 404 only. unauth: 401. refused: passed the access check and
+ * then refused for its content (400/409), so nothing was written. redirect: a redirect whose target starts so.
+ */
+export type Outcome = "ok" | "signin" | "deny" | "missing" | "unauth" | "refused" | { redirect: string };
+
+/** Demo rows the samples point at, read from the e2e database at test time. */
+export interface SampleIds {
+  /** Collecting, never published during the run. */
+  kal: number;
+  /** Analysing, never published during the run. */
+  spn: number;
+  /** Willow Bend Farm (cooperator A) and Cedar Hollow Market Garden (cooperator B), both in TV27-KAL. */
+  siteA: number;
+  siteB: number;
+  /** A site whose only trial is TV27-KAL, so it has no public page. */
+  unpublishedSite: number;
+  plotA: number;
+  plotB: number;
+  /** A variety entered only in unpublished trials. */
+  unpublishedVariety: number;
+  /** A variety id for the staff history page. */
+  variety: number;
+}
+
+export interface Sample {
+  note: string;
+  path: (ids: SampleIds) => string;
+  /** For POST: the body, built fresh per request. Always unacceptable in content, so an allowed role gets "refused" and nothing is written. */
+  body?: (ids: SampleIds) => BodyInit;
+  expect: Record<RoleKey, Outcome>;
+}
+
+const everyone = (o: Outcome): Record<RoleKey, Outcome> => ({ public: o, coopA: o, coopB: o, coordinator: o, admin: o });
+const signedIn = (o: Outcome, signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: o, coopB: o, coordinator: o, admin: o });
+const staffOnly = (signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: "deny", coopB: "deny", coordinator: "ok", admin: "ok" });
+/** Site B's object: cooperator A must not see it, cooperator B and staff may. */
+const siteBObject = (allowed: Outcome = "ok", signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: "deny", coopB: allowed, coordinator: allowed, admin: allowed });
+
+const form = (fields: Record<string, string>, file?: { name: string; type: string; text: string }) => {
+  const f = new FormData();
+  for (const [k, v] of Object.entries(fields)) f.set(k, v);
+  if (file) f.set("file", new Blob([file.text], { type: file.type }), file.name);
+  return f;
+};
+
+/** Keyed by "PAGE /pattern" for pages and "METHOD /pattern" for route handlers; route groups are left out of the pattern. */
+export const HTTP_MATRIX: Record<string, Sample[]> = {
+  // Public pages.
+  "PAGE /": [{ note: "home", path: () => "/", expect: everyone("ok") }],
+  "PAGE /results": [{ note: "index", path: () => "/results", expect: everyone("ok") }],
+  "PAGE /results/[code]": [
+    { note: "unpublished kale", path: () => "/results/TV27-KAL", expect: everyone("missing") },
+    { note: "unpublished spinach", path: () => "/results/TV26-SPN", expect: everyone("missing") },
+  ],
+  "GET /results/[code]/data": [{ note: "unpublished spinach csv", path: () => "/results/TV26-SPN/data?format=csv", expect: everyone("missing") }],
+  "GET /results/[code]/report": [{ note: "unpublished kale pdf", path: () => "/results/TV27-KAL/report", expect: everyone("missing") }],
+  "PAGE /sites/[siteId]": [{ note: "site only in an unpublished trial", path: (i) => `/sites/${i.unpublishedSite}`, expect: everyone("missing") }],
+  "PAGE /varieties/[varietyId]": [{ note: "variety only in unpublished trials", path: (i) => `/varieties/${i.unpublishedVariety}`, expect: everyone("missing") }],
+  "GET /api/public/trials": [{ note: "published list", path: () => "/api/public/trials", expect: everyone("ok") }],
+  "GET /api/public/trials/[code]": [
+    { note: "unpublished kale", path: () => "/api/public/trials/TV27-KAL", expect: everyone("missing") },
+    { note: "unpublished spinach", path: () => "/api/public/trials/TV26-SPN", expect: everyone("missing") },
+  ],
+
+  // Sign-in and account pages.
+  "PAGE /sign-in": [{ note: "signed-in people go home", path: () => "/sign-in", expect: signedIn({ redirect: "/portal" }, "ok") }],
+  "PAGE /forgot-password": [{ note: "form", path: () => "/forgot-password", expect: everyone("ok") }],
+  "PAGE /invite/[token]": [{ note: "unknown token shows the expiry notice", path: () => "/invite/not-a-real-token-0000000000000000", expect: everyone("ok") }],
+  "PAGE /reset-password/[token]": [{ note: "unknown token shows the expiry notice", path: () => "/reset-password/not-a-real-token-0000000000000000", expect: everyone("ok") }],
+  "GET /api/auth/[...nextauth]": [{ note: "csrf token", path: () => "/api/auth/csrf", expect: everyone("ok") }],
+  "POST /api/auth/[...nextauth]": [
+    {
+      note: "credentials without a csrf token are sent back untried",
+      path: () => "/api/auth/callback/credentials",
+      body: () => new URLSearchParams({ email: "nobody@example.org", password: "x" }),
+      expect: everyone({ redirect: "/api/auth/signin" }),
+    },
+  ],
+
+  // Portal pages for everyone signed in.
+  "PAGE /portal": [{ note: "home", path: () => "/portal", expect: signedIn("ok") }],
+  "PAGE /portal/forbidden": [{ note: "refusal page", path: () => "/portal/forbidden", expect: signedIn("ok") }],
+  "PAGE /portal/record": [{ note: "own sites", path: () => "/portal/record", expect: signedIn("ok") }],
+  "PAGE /portal/record/[trialId]/[siteId]": [
+    { note: "site B's entry page", path: (i) => `/portal/record/${i.kal}/${i.siteB}`, expect: siteBObject() },
+    { note: "site A's entry page is not cooperator B's", path: (i) => `/portal/record/${i.kal}/${i.siteA}`, expect: { public: "signin", coopA: "ok", coopB: "deny", coordinator: "ok", admin: "ok" } },
+  ],
+  "PAGE /portal/record/[trialId]/[siteId]/upload": [{ note: "site B's upload page", path: (i) => `/portal/record/${i.kal}/${i.siteB}/upload`, expect: siteBObject() }],
+  "PAGE /portal/plots/[plotId]": [
+    { note: "site B's plot", path: (i) => `/portal/plots/${i.plotB}`, expect: siteBObject({ redirect: "/portal/record/" }) },
+    { note: "site A's plot", path: (i) => `/portal/plots/${i.plotA}`, expect: { public: "signin", coopA: { redirect: "/portal/record/" }, coopB: "deny", coordinator: { redirect: "/portal/record/" }, admin: { redirect: "/portal/record/" } } },
+  ],
+  "PAGE /portal/trials/[trialId]/sites/[siteId]": [{ note: "site B's layout", path: (i) => `/portal/trials/${i.kal}/sites/${i.siteB}`, expect: siteBObject() }],
+  "GET /portal/trials/[trialId]/sites/[siteId]/sheets": [{ note: "site B's tray map", path: (i) => `/portal/trials/${i.kal}/sites/${i.siteB}/sheets?kind=map`, expect: siteBObject() }],
+  "PAGE /portal/trials/[trialId]/analysis": [{ note: "kale analysis, not shared with growers", path: (i) => `/portal/trials/${i.kal}/analysis`, expect: staffOnly() }],
+
+  // Staff pages.
+  "PAGE /portal/trials": [{ note: "list", path: () => "/portal/trials", expect: staffOnly() }],
+  "PAGE /portal/trials/new": [{ note: "form", path: () => "/portal/trials/new", expect: staffOnly() }],
+  "PAGE /portal/trials/[trialId]": [{ note: "kale detail with the code key", path: (i) => `/portal/trials/${i.kal}`, expect: staffOnly() }],
+  "PAGE /portal/trials/[trialId]/edit": [{ note: "kale edit", path: (i) => `/portal/trials/${i.kal}/edit`, expect: staffOnly() }],
+  "PAGE /portal/trials/[trialId]/publish": [{ note: "spinach publish", path: (i) => `/portal/trials/${i.spn}/publish`, expect: staffOnly() }],
+  "PAGE /portal/review": [{ note: "queue", path: () => "/portal/review", expect: staffOnly() }],
+  "PAGE /portal/review/[trialId]/[siteId]": [{ note: "site B's review", path: (i) => `/portal/review/${i.kal}/${i.siteB}`, expect: staffOnly() }],
+  "PAGE /portal/sites": [{ note: "all sites with contacts", path: () => "/portal/sites", expect: staffOnly() }],
+  "PAGE /portal/catalogue": [{ note: "catalogue", path: () => "/portal/catalogue", expect: staffOnly() }],
+  "PAGE /portal/catalogue/traits": [{ note: "trait library", path: () => "/portal/catalogue/traits", expect: staffOnly() }],
+  "PAGE /portal/cooperators": [{ note: "growers", path: () => "/portal/cooperators", expect: staffOnly() }],
+  "PAGE /portal/mailbox": [{ note: "captured mail", path: () => "/portal/mailbox", expect: staffOnly() }],
+  "PAGE /portal/varieties/[varietyId]": [{ note: "variety history", path: (i) => `/portal/varieties/${i.variety}`, expect: staffOnly() }],
+  "PAGE /portal/admin/users": [{ note: "users and roles", path: () => "/portal/admin/users", expect: { public: "signin", coopA: "deny", coopB: "deny", coordinator: "deny", admin: "ok" } }],
+
+  // JSON and file APIs.
+  "GET /api/trials": [{ note: "own trials", path: () => "/api/trials", expect: signedIn("ok", "unauth") }],
+  "GET /api/trials/[trialId]": [{ note: "kale with the code key", path: (i) => `/api/trials/${i.kal}`, expect: staffOnly("unauth") }],
+  "GET /api/trials/[trialId]/sites/[siteId]/layout": [{ note: "site B's layout", path: (i) => `/api/trials/${i.kal}/sites/${i.siteB}/layout`, expect: siteBObject("ok", "unauth") }],
+  "GET /api/trials/[trialId]/analysis": [{ note: "spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis`, expect: staffOnly("unauth") }],
+  "GET /api/trials/[trialId]/analysis/export": [{ note: "spinach means csv", path: (i) => `/api/trials/${i.spn}/analysis/export?format=csv&table=means`, expect: staffOnly("unauth") }],
+  "GET /api/sites": [{ note: "own sites", path: () => "/api/sites", expect: signedIn("ok", "unauth") }],
+  "GET /api/submissions": [{ note: "site B's review state", path: (i) => `/api/submissions?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],
+  "GET /api/observations": [{ note: "site B's sheet", path: (i) => `/api/observations?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],
+  "POST /api/observations": [
+    {
+      note: "an unreadable value for site B's plot",
+      path: () => "/api/observations",
+      body: (i) => JSON.stringify({ trialId: i.kal, siteId: i.siteB, values: [{ plotId: i.plotB, key: "seeds_sown", value: "not a count" }] }),
+      expect: siteBObject("refused", "unauth"),
+    },
+  ],
+  "GET /api/record/[trialId]/[siteId]/export": [{ note: "site B's csv", path: (i) => `/api/record/${i.kal}/${i.siteB}/export`, expect: siteBObject("ok", "unauth") }],
+  "GET /api/record/[trialId]/[siteId]/template": [{ note: "site B's workbook", path: (i) => `/api/record/${i.kal}/${i.siteB}/template`, expect: siteBObject("ok", "unauth") }],
+  "POST /api/record/[trialId]/[siteId]/upload": [
+    {
+      note: "a file that is not a sheet, saved to site B",
+      path: (i) => `/api/record/${i.kal}/${i.siteB}/upload`,
+      body: () => form({ mode: "commit" }, { name: "notes.csv", type: "text/csv", text: "this is not the template\n" }),
+      expect: siteBObject("refused", "unauth"),
+    },
+  ],
+  "POST /api/photos": [
+    {
+      note: "a text file as a photo of site B",
+      path: () => "/api/photos",
+      body: (i) => form({ trialId: String(i.kal), siteId: String(i.siteB) }, { name: "x.jpg", type: "image/jpeg", text: "not an image" }),
+      expect: siteBObject("refused", "unauth"),
+    },
+  ],
+  "GET /api/photos/[photoId]": [{ note: "no such photo", path: () => "/api/photos/99999999", expect: signedIn("missing", "unauth") }],
+};
+
+/** Server actions by "file#export": the roles defineAction must be given ("public" = anyone, even signed out). */
+export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
+  "auth.ts#acceptInvite": "public",
+  "auth.ts#requestPasswordReset": "public",
+  "auth.ts#resetPassword": "public",
+  "catalogue.ts#createCrop": ["coordinator", "admin"],
+  "catalogue.ts#createVariety": ["coordinator", "admin"],
+  "catalogue.ts#createSeedLot": ["coordinator", "admin"],
+  "catalogue.ts#createTrait": ["coordinator", "admin"],
+  "exclusions.ts#excludeFromAnalysis": ["coordinator", "admin"],
+  "exclusions.ts#includeInAnalysis": ["coordinator", "admin"],
+  "exclusions.ts#shareSiteResults": ["coordinator", "admin"],
+  "publish.ts#publishTrial": ["coordinator", "admin"],
+  "publish.ts#unpublishTrial": ["coordinator", "admin"],
+  "review.ts#submitForReview": ["cooperator", "coordinator", "admin"],
+  "review.ts#acceptSubmission": ["coordinator", "admin"],
+  "review.ts#returnSubmission": ["coordinator", "admin"],
+  "review.ts#addReviewComment": ["coordinator", "admin"],
+  "sites.ts#createSite": ["coordinator", "admin"],
+  "trials.ts#createTrial": ["coordinator", "admin"],
+  "trials.ts#editTrial": ["coordinator", "admin"],
+  "trials.ts#addEntry": ["coordinator", "admin"],
+  "trials.ts#removeEntry": ["coordinator", "admin"],
+  "trials.ts#enrolSite": ["coordinator", "admin"],
+  "trials.ts#randomiseSite": ["coordinator", "admin"],
+  "trials.ts#changeTrialStatus": ["coordinator", "admin"],
+  "users.ts#inviteCooperator": ["coordinator", "admin"],
+  "users.ts#changeUserRole": ["admin"],
+  "users.ts#setUserActive": ["admin"],
+};
