@@ -16,7 +16,8 @@ export async function isThrottled(email: string, address: string): Promise<boole
   const since = new Date(Date.now() - THROTTLE_WINDOW_MINUTES * 60_000);
   const [byAccount, byAddress] = await Promise.all([
     countRecentFailures(accountKey(email), since),
-    countRecentFailures(addressKey(address), since),
+    // One valid account must not reset the limit for everyone behind the same address.
+    countRecentFailures(addressKey(address), since, false),
   ]);
   return byAccount >= MAX_FAILURES_PER_ACCOUNT || byAddress >= MAX_FAILURES_PER_ADDRESS;
 }

@@ -54,7 +54,7 @@ interface Case {
   init: RequestInit;
 }
 
-// Lone surrogates are left out of path segments: Next answers their escapes with its own 500 before any route code runs.
+// Lone surrogates cannot be percent-encoded by encodeURIComponent; undecodable escapes are covered in security.test.ts.
 const encode = (s: string) => encodeURIComponent(s.replace(/[\ud800-\udfff]/g, "?"));
 
 function generator(random: () => number) {

@@ -30,14 +30,23 @@ describe("session cookies and security headers", () => {
 
   it("sends frame denial, no-sniff and a nonce policy with public, auth and portal pages", async () => {
     const session = await httpSession(DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
-    // /sign-in is left out: next-auth's middleware passes its own sign-in page through without running the proxy, so it has no policy yet.
-    for (const [path, who] of [["/", null], ["/results", null], ["/forgot-password", null], ["/portal/catalogue", session]] as const) {
+    for (const [path, who] of [["/", null], ["/results", null], ["/sign-in", null], ["/forgot-password", null], ["/portal/catalogue", session]] as const) {
       const response = await request(path, who);
       expect([path, response.status]).toEqual([path, 200]);
       expect([path, response.headers.get("x-frame-options")]).toEqual([path, "DENY"]);
       expect([path, response.headers.get("x-content-type-options")]).toEqual([path, "nosniff"]);
       expect([path, /script-src 'self' 'nonce-[^']+' 'strict-dynamic'.*frame-ancestors 'none'/.test(response.headers.get("content-security-policy") ?? "")]).toEqual([path, true]);
       await response.body?.cancel();
+    }
+  });
+});
+
+describe("undecodable addresses", () => {
+  it("answer 400 with a plain message instead of a server error", async () => {
+    for (const path of ["/api/trials/%ED%A0%80", "/results/%C3%28", "/portal/plots/%FF"]) {
+      const response = await request(path, null);
+      expect([path, response.status]).toEqual([path, 400]);
+      expect(await response.text()).toBe("That address is not valid.");
     }
   });
 });
