@@ -62,14 +62,14 @@ function Table<T>({ columns, rows }: { columns: Column<T>[]; rows: T[] }) {
   );
 }
 
-/** Records the page a section starts on during the first layout pass. */
-function SectionStart({ id, title, pages }: { id: string; title: string; pages: SectionPages | null }) {
+/** Records the page a section starts on while the document is paginated. */
+function SectionStart({ id, title, pages }: { id: string; title: string; pages: SectionPages }) {
   return (
     <View minPresenceAhead={80}>
       <Text
         style={base.h2}
         render={({ pageNumber }) => {
-          if (pages) pages[id] = pageNumber;
+          pages[id] = pageNumber;
           return title;
         }}
       />
@@ -120,7 +120,7 @@ function AnovaTable({ block }: { block: AnalysisBlock }) {
   );
 }
 
-function TraitSection({ result, pages, id }: { result: AnalysisResult; pages: SectionPages | null; id: string }) {
+function TraitSection({ result, pages, id }: { result: AnalysisResult; pages: SectionPages; id: string }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
   const unit = result.trait.valueType === "date" || result.trait.computation !== "none" ? "days" : result.trait.unit;
   return (
@@ -156,8 +156,12 @@ function TraitSection({ result, pages, id }: { result: AnalysisResult; pages: Se
   );
 }
 
-/** The whole published report. `pages` collects section start pages on the first pass; `toc` shows them on the second. */
-export function TrialReport({ snapshot, pages, toc }: { snapshot: PublishedSnapshot; pages: SectionPages | null; toc: SectionPages | null }) {
+/**
+ * The whole published report. Section headings record their page in `pages` while the document is paginated;
+ * the contents entries are render callbacks, which react-pdf resolves again once pagination is complete (as it
+ * does for "Page N of M"), so they read the finished page numbers in the same pass.
+ */
+export function TrialReport({ snapshot, pages }: { snapshot: PublishedSnapshot; pages: SectionPages }) {
   const t = snapshot.trial;
   const germination = snapshot.results.find((r) => r.result.germination)?.result.germination ?? null;
   const sections = [
@@ -196,7 +200,7 @@ export function TrialReport({ snapshot, pages, toc }: { snapshot: PublishedSnaps
         {sections.map((sec) => (
           <View key={sec.id} style={s.tocRow}>
             <Text>{sec.title}</Text>
-            <Text>{toc?.[sec.id] ?? ""}</Text>
+            <Text render={() => String(pages[sec.id] ?? "")} />
           </View>
         ))}
         {footer}

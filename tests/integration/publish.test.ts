@@ -96,6 +96,13 @@ describe("publishing a trial", () => {
     expect(text).toContain("Summary for growers");
     expect(text).toContain(report.snapshot.summary[0]!.slice(0, 30));
     expect(text).toMatch(/Page 1 of \d+/);
+    // The contents page numbers point at the pages where the sections really start.
+    const contents = execFileSync("pdftotext", ["-f", "1", "-l", "1", "-layout", file, "-"]).toString();
+    const entries = [...contents.matchAll(/^(Summary for growers|Methods|Site-by-site results|Cautions and disclaimer)\s+(\d+)\s*$/gm)];
+    expect(entries.map((m) => m[1])).toEqual(["Summary for growers", "Methods", "Site-by-site results", "Cautions and disclaimer"]);
+    for (const [, title, page] of entries) {
+      expect(execFileSync("pdftotext", ["-f", page!, "-l", page!, file, "-"]).toString()).toContain(title);
+    }
     // Rendered to images as a grower would see it.
     execFileSync("pdftoppm", ["-png", "-r", "40", file, path.join(dir, "page")]);
     expect((await fs.readdir(dir)).filter((n) => n.endsWith(".png")).length).toBeGreaterThan(3);
