@@ -9,6 +9,7 @@ import {
   type ColumnDef,
   type SortingState,
 } from "@tanstack/react-table";
+import { SortableHeader } from "@/components/ui/sortable-header";
 
 /** A sortable table with a text filter over every column, for means, germination and missing plots. */
 export function SortableTable<T>({
@@ -65,16 +66,7 @@ export function SortableTable<T>({
                   const sorted = header.column.getIsSorted();
                   return (
                     <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"} className="px-2 py-1 font-semibold whitespace-nowrap">
-                      {header.column.getCanSort() ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="min-h-11 text-left font-semibold hover:underline">
-                          {flexRender(header.column.columnDef.header, header.getContext())}
-                          <span aria-hidden className="ml-1 text-loam-500">
-                            {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
-                          </span>
-                        </button>
-                      ) : (
-                        flexRender(header.column.columnDef.header, header.getContext())
-                      )}
+                      <SortableHeader header={header} buttonClassName="min-h-11 text-left font-semibold hover:underline" arrowClassName="ml-1 text-loam-500" />
                     </th>
                   );
                 })}

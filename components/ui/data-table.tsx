@@ -11,6 +11,7 @@ import {
   type SortingState,
 } from "@tanstack/react-table";
 import { Button } from "./button";
+import { SortableHeader } from "./sortable-header";
 
 /**
  * A sortable, filterable, paginated table. Column headers are buttons so sorting works from the keyboard,
@@ -71,13 +72,8 @@ export function DataTable<T>({
                   const sorted = header.column.getIsSorted();
                   return (
                     <th key={header.id} scope="col" className="py-2 pr-3" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
-                      {header.isPlaceholder ? null : header.column.getCanSort() ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 font-semibold hover:text-loam-900">
-                          {flexRender(header.column.columnDef.header, header.getContext())}
-                          <span aria-hidden>{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                        </button>
-                      ) : (
-                        flexRender(header.column.columnDef.header, header.getContext())
+                      {header.isPlaceholder ? null : (
+                        <SortableHeader header={header} buttonClassName="inline-flex items-center gap-1 font-semibold hover:text-loam-900" />
                       )}
                     </th>
                   );
