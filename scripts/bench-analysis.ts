@@ -1,63 +1,302 @@
-// Times one trait's analysis for a large invented trial (50 sites x 40 entries x 4 blocks = 8,000 plots):
-// cold (first run) and cached (same data version and settings, as the API serves a repeat request).
-// Usage: npx tsx scripts/bench-analysis.ts [sites] [entries] [blocks]
-import { runAnalysis } from "../lib/analysis/run";
-import type { AnalysisInput, AnalysisResult, AnalysisSettings } from "../lib/analysis/types";
+// Analysis API latency against a running `next start` (it builds and starts nothing itself):
+//   npm run bench:analysis                      # the demo server from scripts/up.sh on :3000, database from .env.local
+//   BENCH_BASE_URL=http://127.0.0.1:3300 DATABASE_URL=mysql://... npm run bench:analysis
+// DATABASE_URL must be the database that server uses: the script adds a throwaway trial there (code ANBENCH-*,
+// 50 sites x 40 entries x 4 blocks, yield plus seed counts, every site accepted), signs in as the coordinator and
+// times GET /api/trials/<id>/analysis over loopback: the first request after the data appeared (computed), plain
+// repeats (served from the server's cache), conditional repeats answering 304, and requests straight after one
+// value was edited (new data version, computed again). It then times the same steps in-process (database read,
+// calculation, JSON) and removes the trial, also any left behind by an interrupted earlier run.
+// Settings: BENCH_SITES / BENCH_ENTRIES / BENCH_BLOCKS (default 50 / 40 / 4), BENCH_REPEATS (cached and 304
+// requests, default 20), BENCH_CHANGES (edit-then-request rounds, default 5), BENCH_SECONDS (overall cap, default 300).
+import http from "node:http";
+import { brotliDecompressSync, gunzipSync, inflateSync } from "node:zlib";
+import { and, eq, inArray, like } from "drizzle-orm";
+import { createDatabase } from "../db/client";
+import * as s from "../db/schema";
+import { addDays, todayIso } from "../lib/schedule";
 
-const [sites = 50, entries = 40, blocks = 4] = process.argv.slice(2).map(Number);
+const BASE = (process.env.BENCH_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
+const url = process.env.DATABASE_URL ?? "";
+const SITES = Number(process.env.BENCH_SITES ?? 50);
+const ENTRIES = Number(process.env.BENCH_ENTRIES ?? 40);
+const BLOCKS = Number(process.env.BENCH_BLOCKS ?? 4);
+const REPEATS = Number(process.env.BENCH_REPEATS ?? 20);
+const CHANGES = Number(process.env.BENCH_CHANGES ?? 5);
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 300);
+const COORDINATOR = { email: process.env.BENCH_COORDINATOR ?? "rosa.delgado@tamarack-valley.example", password: process.env.BENCH_COORDINATOR_PASSWORD ?? "seedplot-coordinator-demo" };
+const PREFIX = "ANBENCH-";
+
+if (!url) {
+  console.error("Set DATABASE_URL to the database the server at BENCH_BASE_URL uses (npm run bench:analysis reads .env.local).");
+  process.exit(1);
+}
+const deadline = Date.now() + SECONDS * 1000;
+const { db, pool } = createDatabase(url, 4);
+
+// ---------------------------------------------------------------- HTTP
+
+interface Timed {
+  status: number;
+  ms: number;
+  /** bytes on the wire (compressed when the server compressed) */
+  wire: number;
+  /** bytes of the decoded body */
+  raw: number;
+  encoding: string | null;
+  etag: string | null;
+  body: Buffer;
+}
+
+// One kept-alive socket, as a browser tab reuses its connection; the time runs to the last body byte.
+const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
+
+function get(path: string, headers: Record<string, string> = {}): Promise<Timed> {
+  if (Date.now() > deadline) throw new Error(`Stopped after BENCH_SECONDS=${SECONDS}.`);
+  return new Promise((resolve, reject) => {
+    const started = performance.now();
+    const req = http.get(`${BASE}${path}`, { agent, headers: { "accept-encoding": "gzip, deflate, br", ...headers }, timeout: 120_000 }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on("data", (c: Buffer) => chunks.push(c));
+      res.on("error", reject);
+      res.on("end", () => {
+        const ms = performance.now() - started;
+        const wire = Buffer.concat(chunks);
+        const encoding = res.headers["content-encoding"] ?? null;
+        const body = encoding === "gzip" ? gunzipSync(wire) : encoding === "br" ? brotliDecompressSync(wire) : encoding === "deflate" ? inflateSync(wire) : wire;
+        resolve({ status: res.statusCode ?? 0, ms, wire: wire.length, raw: body.length, encoding, etag: (res.headers.etag as string | undefined) ?? null, body });
+      });
+    });
+    req.on("timeout", () => req.destroy(new Error(`${path} took over 120 s`)));
+    req.on("error", reject);
+  });
+}
+
+/** Signs in through next-auth's credentials endpoint and returns the Cookie header of the session. */
+async function signIn(email: string, password: string): Promise<string> {
+  const jar = new Map<string, string>();
+  const keep = (res: Response) => {
+    for (const line of res.headers.getSetCookie()) {
+      const [pair] = line.split(";");
+      const i = pair!.indexOf("=");
+      jar.set(pair!.slice(0, i).trim(), pair!.slice(i + 1));
+    }
+    return [...jar].map(([k, v]) => `${k}=${v}`).join("; ");
+  };
+  const csrfRes = await fetch(`${BASE}/api/auth/csrf`);
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+  const res = await fetch(`${BASE}/api/auth/callback/credentials`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { "Content-Type": "application/x-www-form-urlencoded", Cookie: keep(csrfRes) },
+    body: new URLSearchParams({ csrfToken, email, password, json: "true" }),
+  });
+  const cookie = keep(res);
+  if (!/session-token=/.test(cookie)) throw new Error(`Sign-in failed for ${email} (HTTP ${res.status}); check the password and that the server uses DATABASE_URL.`);
+  return cookie;
+}
+
+// ---------------------------------------------------------------- figures
+
+const pct = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1))]!;
+const kib = (bytes: number) => (bytes >= 1024 * 1024 ? `${(bytes / 1024 / 1024).toFixed(2)} MiB` : `${(bytes / 1024).toFixed(1)} KiB`);
+
+function line(label: string, samples: number[], extra = "") {
+  const sorted = [...samples].sort((a, b) => a - b);
+  const figures = sorted.length === 1 ? `${sorted[0]!.toFixed(0)} ms` : `median ${pct(sorted, 50).toFixed(0)} ms  p95 ${pct(sorted, 95).toFixed(0)} ms  (n=${sorted.length})`;
+  console.log(`${label.padEnd(44)} ${figures}${extra ? `  ${extra}` : ""}`);
+}
+
+const sizes = (t: Timed) => `${t.raw.toLocaleString("en")} bytes (${kib(t.raw)})${t.encoding ? `, ${t.encoding} on the wire ${t.wire.toLocaleString("en")} bytes (${kib(t.wire)})` : ", not compressed"}`;
+
+// ---------------------------------------------------------------- data
 
 function lcg(seed: number) {
-  let s = seed >>> 0;
-  return () => ((s = (1664525 * s + 1013904223) >>> 0) / 2 ** 32);
+  let state = seed >>> 0;
+  return () => (state = (1664525 * state + 1013904223) >>> 0) / 2 ** 32;
 }
 
-function build(): AnalysisInput {
+/** Deletes a throwaway trial and everything added for it (sites, varieties, crop). */
+async function removeTrial(trialId: number) {
+  const [trial] = await db.select({ cropId: s.trials.cropId }).from(s.trials).where(eq(s.trials.id, trialId));
+  if (!trial) return;
+  const siteIds = (await db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, trialId))).map((r) => r.id);
+  // Children first: plots refer to entries and sites with ON DELETE RESTRICT.
+  await db.delete(s.analysisExclusions).where(eq(s.analysisExclusions.trialId, trialId));
+  await db.delete(s.plots).where(eq(s.plots.trialId, trialId));
+  await db.delete(s.enrolments).where(eq(s.enrolments.trialId, trialId));
+  await db.delete(s.trialEntries).where(eq(s.trialEntries.trialId, trialId));
+  await db.delete(s.trials).where(eq(s.trials.id, trialId));
+  if (siteIds.length > 0) await db.delete(s.sites).where(and(inArray(s.sites.id, siteIds), like(s.sites.name, "Analysis bench %")));
+  await db.delete(s.varieties).where(eq(s.varieties.cropId, trial.cropId));
+  await db.delete(s.crops).where(and(eq(s.crops.id, trial.cropId), like(s.crops.name, "Analysis bench %")));
+}
+
+/** A trial of SITES x ENTRIES x BLOCKS with yield (1% missing with a reason) and seed counts, every site accepted. */
+async function createTrial(tag: string, coordinatorId: number) {
+  const [membership] = await db.select({ programId: s.programCoordinators.programId }).from(s.programCoordinators).where(eq(s.programCoordinators.userId, coordinatorId)).limit(1);
+  if (!membership) throw new Error(`${COORDINATOR.email} coordinates no program.`);
+  const [season] = await db.select({ id: s.seasons.id }).from(s.seasons).where(eq(s.seasons.programId, membership.programId)).limit(1);
+  if (!season) throw new Error("The coordinator's program has no season.");
+  const traitRows = await db.select({ id: s.traits.id, code: s.traits.code }).from(s.traits).where(inArray(s.traits.code, ["marketable_yield", "seeds_sown", "emerged_final"]));
+  const traitId = Object.fromEntries(traitRows.map((t) => [t.code, t.id])) as Record<"marketable_yield" | "seeds_sown" | "emerged_final", number>;
+  if (traitRows.length !== 3) throw new Error("The trait library lacks marketable_yield, seeds_sown or emerged_final; load the demo data first.");
+
+  const [crop] = await db.insert(s.crops).values({ name: `Analysis bench ${tag}`, cropGroup: "leafy_greens" }).$returningId();
+  const [trial] = await db
+    .insert(s.trials)
+    .values({ programId: membership.programId, seasonId: season.id, cropId: crop!.id, code: `${PREFIX}${tag}`, title: `Analysis benchmark ${tag} (throwaway)`, blocks: BLOCKS, plotUnit: "bed_row", plotSize: 20, status: "analysing" })
+    .$returningId();
+  const trialId = trial!.id;
+  await db.insert(s.trialTraits).values([
+    { trialId, traitId: traitId.seeds_sown, sortOrder: 0 },
+    { trialId, traitId: traitId.emerged_final, sortOrder: 1 },
+    { trialId, traitId: traitId.marketable_yield, sortOrder: 2 },
+  ]);
+  const entryIds: number[] = [];
+  for (let i = 0; i < ENTRIES; i += 1) {
+    const [v] = await db.insert(s.varieties).values({ cropId: crop!.id, name: `Bench variety ${i + 1}` }).$returningId();
+    const [e] = await db.insert(s.trialEntries).values({ trialId, varietyId: v!.id, blindCode: `B${String(i + 1).padStart(3, "0")}`, entryNumber: i + 1, isCheck: i === 0 }).$returningId();
+    entryIds.push(e!.id);
+  }
   const random = lcg(20260401);
-  const traits = [
-    { id: 1, code: "seeds_sown", name: "Seeds sown", unit: "seeds", valueType: "count" as const, computation: "none" as const },
-    { id: 2, code: "emerged_final", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count" as const, computation: "none" as const },
-    { id: 3, code: "marketable_yield", name: "Marketable yield", unit: "g per plot", valueType: "number" as const, computation: "none" as const },
-  ];
-  const entryRows = Array.from({ length: entries }, (_, i) => ({ id: i + 1, blindCode: `E${i + 1}`, entryNumber: i + 1, varietyName: `Invented ${i + 1}`, varietyId: i + 1, isCheck: i === 0, labelGermination: 85, seedLot: null }));
-  const siteRows = Array.from({ length: sites }, (_, i) => ({ id: 1000 + i, name: `Site ${i + 1}`, sownOn: "2026-04-01", transplantedOn: null, status: "accepted" as const }));
-  const plots: AnalysisInput["plots"] = [];
-  const observations: AnalysisInput["observations"] = [];
-  let id = 1;
-  for (const site of siteRows) {
-    const siteEffect = 300 * (random() - 0.5);
-    for (let block = 1; block <= blocks; block++) {
-      for (const entry of entryRows) {
-        const plotId = id++;
-        plots.push({ id: plotId, plotCode: `${site.id}-${block}-${entry.entryNumber}`, siteId: site.id, entryId: entry.id, block });
-        const value = random() < 0.01 ? null : 2000 + siteEffect + entry.entryNumber * 5 + 150 * (random() - 0.5);
-        observations.push({ plotId, traitId: 3, occasion: 0, valueNumber: value, valueDate: null, missingReason: value === null ? "animal_damage" : null });
-        observations.push({ plotId, traitId: 1, occasion: 0, valueNumber: 20, valueDate: null, missingReason: null });
-        observations.push({ plotId, traitId: 2, occasion: 0, valueNumber: Math.round(14 + 5 * random()), valueDate: null, missingReason: null });
-      }
+  const plotRows: (typeof s.plots.$inferInsert)[] = [];
+  for (let site = 0; site < SITES; site += 1) {
+    const [siteRow] = await db.insert(s.sites).values({ name: `Analysis bench site ${tag} ${site + 1}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
+    const [enrolment] = await db.insert(s.enrolments).values({ trialId, siteId: siteRow!.id, sownOn: addDays(todayIso(), -70), randomisedAt: new Date() }).$returningId();
+    await db.insert(s.submissions).values({ enrolmentId: enrolment!.id, status: "accepted", submittedAt: new Date(), reviewedAt: new Date() });
+    for (let block = 1; block <= BLOCKS; block += 1) {
+      const order = entryIds.map((id) => ({ id, key: random() })).sort((a, b) => a.key - b.key);
+      order.forEach(({ id }, i) => plotRows.push({ enrolmentId: enrolment!.id, trialId, siteId: siteRow!.id, entryId: id, plotCode: `S${site + 1}-${block}${String(i + 1).padStart(2, "0")}`, block, position: i + 1 }));
     }
   }
-  return { trial: { id: 1, code: "BENCH", title: "Benchmark", crop: "Lettuce", blocks }, traits, entries: entryRows, sites: siteRows, plots, observations, exclusions: [] };
+  for (let i = 0; i < plotRows.length; i += 2000) await db.insert(s.plots).values(plotRows.slice(i, i + 2000));
+  const plots = await db.select({ id: s.plots.id, siteId: s.plots.siteId, entryId: s.plots.entryId }).from(s.plots).where(eq(s.plots.trialId, trialId));
+  const siteEffect = new Map<number, number>();
+  const obs: (typeof s.observations.$inferInsert)[] = [];
+  for (const p of plots) {
+    if (!siteEffect.has(p.siteId)) siteEffect.set(p.siteId, 600 * (random() - 0.5));
+    const entry = entryIds.indexOf(p.entryId);
+    const missing = random() < 0.01;
+    const value = Math.round((2000 + siteEffect.get(p.siteId)! + 6 * entry + 300 * (random() - 0.5)) * 10) / 10;
+    obs.push({ plotId: p.id, traitId: traitId.marketable_yield, valueNumber: missing ? null : value, missingReason: missing ? "animal_damage" : null });
+    obs.push({ plotId: p.id, traitId: traitId.seeds_sown, valueNumber: 20 });
+    obs.push({ plotId: p.id, traitId: traitId.emerged_final, valueNumber: Math.round(13 + 6 * random()) });
+  }
+  for (let i = 0; i < obs.length; i += 2000) await db.insert(s.observations).values(obs.slice(i, i + 2000));
+  return { trialId, traitId: traitId.marketable_yield, plots: plots.length, observations: obs.length };
 }
 
-const input = build();
-const settings: AnalysisSettings = { traitId: 3, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" };
-const cache = new Map<string, AnalysisResult>();
-const run = () => {
-  const key = JSON.stringify(settings);
-  const hit = cache.get(key);
-  if (hit) return hit;
-  const result = runAnalysis(input, settings);
-  cache.set(key, result);
-  return result;
-};
-let t = performance.now();
-const result = run();
-const cold = performance.now() - t;
-t = performance.now();
-for (let i = 0; i < 1000; i++) run();
-const cached = (performance.now() - t) / 1000;
-const json = JSON.stringify(result).length;
-console.log(`${sites} sites x ${entries} entries x ${blocks} blocks = ${input.plots.length} plots`);
-console.log(`cold analysis: ${cold.toFixed(0)} ms (per-site ANOVAs, combined ANOVA, LSD, germination); JSON ${(json / 1024).toFixed(0)} KiB`);
-console.log(`cached: ${(cached * 1000).toFixed(1)} µs per request before serialising (a 304 needs only the version query)`);
-console.log(`combined entry F = ${result.combined?.entryF?.toFixed(2)}, CV = ${result.combined?.cv.toFixed(1)}%`);
+// ---------------------------------------------------------------- run
+
+const tag = Date.now().toString(36).slice(-6);
+let trialId: number | null = null;
+let failed = false;
+try {
+  for (const old of await db.select({ id: s.trials.id, code: s.trials.code }).from(s.trials).where(like(s.trials.code, `${PREFIX}%`))) {
+    await removeTrial(old.id);
+    console.log(`Removed ${old.code}, left behind by an interrupted run.`);
+  }
+  const [coordinator] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, COORDINATOR.email));
+  if (!coordinator) throw new Error(`No coordinator ${COORDINATOR.email} in DATABASE_URL; set BENCH_COORDINATOR.`);
+  const cookie = await signIn(COORDINATOR.email, COORDINATOR.password);
+
+  // Warm the route (code loading, database pool) on a demo trial, so the first timed request is the analysis alone.
+  const [demo] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
+  if (demo) await get(`/api/trials/${demo.id}/analysis`, { cookie });
+
+  let t = performance.now();
+  const trial = await createTrial(tag, coordinator.id);
+  trialId = trial.trialId;
+  console.log(`Analysis API against ${BASE}: trial ${PREFIX}${tag}, ${SITES} sites x ${ENTRIES} entries x ${BLOCKS} blocks = ${trial.plots} plots, ${trial.observations} observations (added in ${((performance.now() - t) / 1000).toFixed(1)} s)\n`);
+  const path = `/api/trials/${trialId}/analysis?trait=${trial.traitId}`;
+  const expectStatus = (r: Timed, status: number, what: string) => {
+    if (r.status !== status) throw new Error(`${what}: expected HTTP ${status}, got ${r.status}: ${r.body.toString("utf8").slice(0, 300)}`);
+  };
+
+  const cold = await get(path, { cookie });
+  expectStatus(cold, 200, "first request");
+  const parsed = JSON.parse(cold.body.toString("utf8")) as { combined: { sites: number; n: number } | null; perSite: unknown[] };
+  if (parsed.combined?.sites !== SITES) throw new Error(`The combined analysis covers ${parsed.combined?.sites ?? 0} sites, not ${SITES}.`);
+
+  const cached: number[] = [];
+  for (let i = 0; i < REPEATS; i += 1) {
+    const r = await get(path, { cookie });
+    expectStatus(r, 200, "repeat");
+    if (r.etag !== cold.etag) throw new Error("The ETag changed although the data did not.");
+    cached.push(r.ms);
+  }
+  const notModified: number[] = [];
+  for (let i = 0; i < REPEATS; i += 1) {
+    const r = await get(path, { cookie, "if-none-match": cold.etag! });
+    expectStatus(r, 304, "conditional repeat");
+    notModified.push(r.ms);
+  }
+
+  // One yield value edited per round, as a grower correcting a plot would; always to a new value, so no
+  // round can land on an earlier round's version (timestamps have whole-second resolution).
+  const [target] = await db
+    .select({ id: s.observations.id, value: s.observations.valueNumber })
+    .from(s.observations)
+    .innerJoin(s.plots, eq(s.plots.id, s.observations.plotId))
+    .where(and(eq(s.plots.trialId, trialId), eq(s.observations.traitId, trial.traitId)))
+    .limit(1);
+  const changed: number[] = [];
+  let etag = cold.etag;
+  for (let i = 0; i < CHANGES; i += 1) {
+    await db.update(s.observations).set({ valueNumber: target!.value! + (i + 1) / 2 }).where(eq(s.observations.id, target!.id));
+    const r = await get(path, { cookie, "if-none-match": etag! });
+    expectStatus(r, 200, "request after an edit");
+    if (r.etag === etag) throw new Error("The ETag did not change after an edit.");
+    etag = r.etag;
+    changed.push(r.ms);
+  }
+  const withPlots = await get(`${path}&plots=1`, { cookie });
+  expectStatus(withPlots, 200, "request with plot rows");
+
+  line("first request after the data appeared", [cold.ms], "computed");
+  line("repeat, same settings", cached, "200 from the server's cache");
+  line("repeat with If-None-Match", notModified, "304, version check only");
+  line("first request after one value edited", changed, "computed again");
+  console.log(`\nresponse ${sizes(cold)}`);
+  console.log(`with raw plot rows (&plots=1): ${sizes(withPlots)}`);
+
+  // The same work in-process, to show where the cold time goes. Imported late: it opens the app's own pool.
+  const { getAnalysisInput, getAnalysisVersion } = await import("../db/queries/analysis");
+  const { runAnalysis } = await import("../lib/analysis/run");
+  const { pool: appPool } = await import("../db/index");
+  const viewer = { id: coordinator.id, email: coordinator.email, name: coordinator.name, role: coordinator.role };
+  const steps = { version: [] as number[], read: [] as number[], compute: [] as number[], json: [] as number[] };
+  let bytes = 0;
+  for (let i = 0; i < 3 && Date.now() < deadline; i += 1) {
+    t = performance.now();
+    await getAnalysisVersion(viewer, trialId, [trial.traitId]);
+    steps.version.push(performance.now() - t);
+    t = performance.now();
+    const input = await getAnalysisInput(viewer, { trialId, traitId: trial.traitId });
+    steps.read.push(performance.now() - t);
+    t = performance.now();
+    const result = runAnalysis(input!, { traitId: trial.traitId, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" });
+    steps.compute.push(performance.now() - t);
+    t = performance.now();
+    bytes = JSON.stringify(result).length;
+    steps.json.push(performance.now() - t);
+  }
+  await appPool.end();
+  console.log("\nin-process, same trial (3 runs):");
+  line("  data version query", steps.version);
+  line("  database read of plots and observations", steps.read);
+  line("  analysis (ANOVAs, separation, germination)", steps.compute);
+  line("  JSON of the full result", steps.json, `${kib(bytes)} with every plot row`);
+} catch (e) {
+  failed = true;
+  console.error(e instanceof Error ? e.message : e);
+} finally {
+  if (trialId !== null) {
+    await removeTrial(trialId);
+    console.log(`\nRemoved the throwaway trial ${PREFIX}${tag}.`);
+  }
+  agent.destroy();
+  await pool.end();
+}
+process.exit(failed ? 1 : 0);
