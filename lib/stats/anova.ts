@@ -82,13 +82,18 @@ export interface MultiSitePlot {
   value: number | null;
 }
 
-const STRIDE = 6; // per-entry accumulator layout: reference, sum, sum compensation, sum of squares, its compensation, count
-const REF = 0;
-const SUM = 1;
-const SUM_C = 2;
-const SQ = 3;
-const SQ_C = 4;
-const COUNT = 5;
+// One-way accumulators, one row of STRIDE per entry. The hot loop adds values shifted by one
+// reference (the first observed value) into plain partial sums; after each chunk of plots those are
+// folded into compensated totals, so no partial sum runs over more than a few dozen terms and the
+// per-plot work stays at three additions. Entries whose mean lies far from the reference relative to
+// their spread are caught by the cancellation check and recomputed two-pass.
+const STRIDE = 3;
+const PART_SUM = 0;
+const PART_SQ = 1;
+const COUNT = 2;
+// 256 plots (or 16 per entry when there are many) keeps NIST SmLs01-03 at full precision
+const MIN_CHUNK = 64;
+const CHUNK_PER_ENTRY = 16;
 /** within-entry SS is recomputed two-pass when the shifted sums cancel by more than this factor */
 const CANCELLATION_LIMIT = 1e3;
 
@@ -146,38 +151,27 @@ function requireResidual(df: number, ss: number): void {
 export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   requireArray(data, "one-way data");
   const entries = new LabelIndex("entry");
-  let acc = new Float64Array(STRIDE * 16);
+  let capacity = 16;
+  let acc = new Float64Array(capacity * STRIDE + 1); // last slot counts missing plots in a chunk
+  let totals = new Float64Array(capacity * 4); // sum, its compensation, sum of squares, its compensation
   let missing = 0;
-  for (let i = 0; i < data.length; i++) {
-    const plot = data[i];
-    const g = entries.indexOf(plot.entry) * STRIDE;
-    if (g >= acc.length) {
-      const grown = new Float64Array(acc.length * 4);
-      grown.set(acc);
-      acc = grown;
+  const reference = firstObservedValue(data);
+  for (let start = 0; start < data.length; ) {
+    const end = Math.min(data.length, start + Math.max(MIN_CHUNK, CHUNK_PER_ENTRY * entries.size));
+    const stopped = accumulateOneWay(data, start, end, entries, acc, capacity, reference);
+    missing += acc[capacity * STRIDE];
+    acc[capacity * STRIDE] = 0;
+    foldOneWay(acc, totals, entries.size < capacity ? entries.size : capacity);
+    if (stopped < end) {
+      capacity *= 4;
+      const grownAcc = new Float64Array(capacity * STRIDE + 1);
+      grownAcc.set(acc.subarray(0, (capacity / 4) * STRIDE));
+      acc = grownAcc;
+      const grownTotals = new Float64Array(capacity * 4);
+      grownTotals.set(totals);
+      totals = grownTotals;
     }
-    const x = plot.value;
-    if (typeof x !== "number") {
-      if (x === null || x === undefined) {
-        missing++;
-        continue;
-      }
-      nonFinite(i, x);
-    }
-    // shifting by the entry's first value keeps the sums small: no cancellation when the data
-    // carry many constant leading digits (NIST SmLs07-09)
-    if (acc[g + COUNT] === 0) acc[g + REF] = x;
-    const v = x - acc[g + REF];
-    const sum = acc[g + SUM];
-    const newSum = sum + v;
-    acc[g + SUM_C] += Math.abs(sum) >= Math.abs(v) ? sum - newSum + v : v - newSum + sum;
-    acc[g + SUM] = newSum;
-    const square = v * v;
-    const sq = acc[g + SQ];
-    const newSq = sq + square;
-    acc[g + SQ_C] += sq >= square ? sq - newSq + square : square - newSq + sq;
-    acc[g + SQ] = newSq;
-    acc[g + COUNT] += 1;
+    start = stopped;
   }
 
   const k = entries.size;
@@ -192,13 +186,12 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   const needsTwoPass: number[] = [];
   let n = 0;
   for (let e = 0; e < k; e++) {
-    const g = e * STRIDE;
-    const count = acc[g + COUNT];
+    const count = acc[e * STRIDE + COUNT];
     if (count === 0) {
       throw new StatsError("EMPTY_ENTRY", `Entry "${entries.labels[e]}" has no observed plots.`, { entry: entries.labels[e] });
     }
-    const sum = acc[g + SUM] + acc[g + SUM_C];
-    const squares = acc[g + SQ] + acc[g + SQ_C];
+    const sum = totals[e * 4] + totals[e * 4 + 1];
+    const squares = totals[e * 4 + 2] + totals[e * 4 + 3];
     if (!Number.isFinite(sum) || !Number.isFinite(squares)) {
       const index = data.findIndex((plot) => typeof plot.value === "number" && !Number.isFinite(plot.value));
       nonFinite(index, data[index]?.value);
@@ -210,14 +203,13 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
     if (correction > CANCELLATION_LIMIT * withinSs[e]) needsTwoPass.push(e);
     n += count;
   }
-  if (needsTwoPass.length > 0) recomputeWithinTwoPass(data, entries, needsTwoPass, acc, shiftedMeans, withinSs);
+  if (needsTwoPass.length > 0) recomputeWithinTwoPass(data, entries, needsTwoPass, reference, shiftedMeans, withinSs);
 
   // entry means relative to one common reference (the first entry's), kept small for accuracy
-  const commonRef = acc[REF];
   const centred = new Float64Array(k);
   let weighted = 0;
   for (let e = 0; e < k; e++) {
-    centred[e] = acc[e * STRIDE + REF] - commonRef + shiftedMeans[e];
+    centred[e] = shiftedMeans[e];
     weighted += counts[e] * centred[e];
   }
   const centre = weighted / n;
@@ -228,7 +220,7 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
     betweenSs += counts[e] * deviation * deviation;
     residualSs += Math.max(withinSs[e], 0);
   }
-  const grandMean = commonRef + centre;
+  const grandMean = reference + centre;
   const dfResidual = n - k;
   requireResidual(dfResidual, residualSs);
 
@@ -241,7 +233,7 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   const covariance: number[][] = [];
   let balanced = true;
   for (let e = 0; e < k; e++) {
-    const mean = acc[e * STRIDE + REF] + shiftedMeans[e];
+    const mean = reference + shiftedMeans[e];
     const se = Math.sqrt(errorMs / counts[e]);
     entryMeans.push({ entry: entries.labels[e], mean, n: counts[e], se });
     lsMeans.push({ entry: entries.labels[e], mean, se });
@@ -267,12 +259,80 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   };
 }
 
-/** Second pass for entries whose first value was far from their mean (shifted sums cancelled). */
+/** The first non-null value, used as the common shift (0 when every plot is missing). */
+function firstObservedValue(data: readonly OneWayPlot[]): number {
+  for (const plot of data) {
+    if (typeof plot.value === "number" && Number.isFinite(plot.value)) return plot.value;
+  }
+  return 0;
+}
+
+/**
+ * Adds plots start..end-1 into the per-entry partial sums. Returns end, or the index of the first
+ * plot whose entry does not fit in `capacity` (the caller grows the arrays and resumes there).
+ * Kept small and free of reallocation so the engine compiles it to a tight loop.
+ */
+function accumulateOneWay(
+  data: readonly OneWayPlot[],
+  start: number,
+  end: number,
+  entries: LabelIndex,
+  acc: Float64Array,
+  capacity: number,
+  reference: number,
+): number {
+  let missing = 0;
+  for (let i = start; i < end; i++) {
+    const plot = data[i];
+    const e = entries.indexOf(plot.entry);
+    if (e >= capacity) {
+      acc[capacity * STRIDE] += missing;
+      return i;
+    }
+    const x = plot.value;
+    if (typeof x !== "number") {
+      if (x === null || x === undefined) {
+        missing++;
+        continue;
+      }
+      nonFinite(i, x);
+    }
+    const g = e * STRIDE;
+    const v = x - reference;
+    acc[g + PART_SUM] += v;
+    acc[g + PART_SQ] += v * v;
+    acc[g + COUNT] += 1;
+  }
+  acc[capacity * STRIDE] += missing;
+  return end;
+}
+
+/** Moves the partial sums into the running totals with Neumaier's compensated addition. */
+function foldOneWay(acc: Float64Array, totals: Float64Array, size: number): void {
+  for (let e = 0; e < size; e++) {
+    const g = e * STRIDE;
+    const t = e * 4;
+    const v = acc[g + PART_SUM];
+    const sum = totals[t];
+    const newSum = sum + v;
+    totals[t + 1] += Math.abs(sum) >= Math.abs(v) ? sum - newSum + v : v - newSum + sum;
+    totals[t] = newSum;
+    acc[g + PART_SUM] = 0;
+    const square = acc[g + PART_SQ];
+    const sq = totals[t + 2];
+    const newSq = sq + square;
+    totals[t + 3] += sq >= square ? sq - newSq + square : square - newSq + sq;
+    totals[t + 2] = newSq;
+    acc[g + PART_SQ] = 0;
+  }
+}
+
+/** Second pass for entries whose mean lies far from the reference value (their shifted sums cancelled). */
 function recomputeWithinTwoPass(
   data: readonly OneWayPlot[],
   entries: LabelIndex,
   groups: number[],
-  acc: Float64Array,
+  reference: number,
   shiftedMeans: Float64Array,
   withinSs: Float64Array,
 ): void {
@@ -283,11 +343,10 @@ function recomputeWithinTwoPass(
     if (values) values.push(plot.value);
   }
   for (const [e, values] of wanted) {
-    const ref = acc[e * STRIDE + REF];
     let sum = 0;
     let compensation = 0;
     for (const value of values) {
-      const v = value - ref;
+      const v = value - reference;
       const t = sum + v;
       compensation += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
       sum = t;
@@ -296,7 +355,7 @@ function recomputeWithinTwoPass(
     let squares = 0;
     let squaresCompensation = 0;
     for (const value of values) {
-      const d = value - ref - mean;
+      const d = value - reference - mean;
       const square = d * d;
       const t = squares + square;
       squaresCompensation += squares >= square ? squares - t + square : square - t + squares;

@@ -23,6 +23,17 @@ export class LabelIndex {
 
   /** Index of `label`, adding it when new. Throws INVALID_LABEL for non-strings and empty labels. */
   indexOf(label: string, allowEmpty = false): number {
+    // Straight-line fast path for a label already in its home slot (nearly every call once the
+    // labels are known), small enough for the engine to inline into callers' loops.
+    if (typeof label === "string") {
+      const length = label.length;
+      const slot = (length * 0x9e37 + label.charCodeAt(length - 1)) & this.mask;
+      if (this.slots[slot] === label) return this.slotIndex[slot];
+    }
+    return this.probe(label, allowEmpty);
+  }
+
+  private probe(label: string, allowEmpty: boolean): number {
     if (typeof label !== "string") this.rejectLabel(label);
     // length and last character only: each extra charCodeAt costs as much as the rest of the probe
     const length = label.length;
