@@ -26,6 +26,9 @@ export function defaultTrait(traits: (InputTrait & { recorded: number })[]): Inp
 
 export interface PreparedAnalysis {
   settings: AnalysisSettings;
+  /** names the result: trial, viewer scope, data version and settings */
+  key: string;
+  /** names the response: the key plus whether plot rows were asked for, since the bodies differ */
   etag: string;
   version: string;
 }
@@ -53,13 +56,13 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
   if (version === null) return null;
   // Staff and each cooperator see different slices of the trial, so the tag (and cache key) names the scope.
   const scope = viewer.role === "cooperator" ? `cooperator:${viewer.id}` : "staff";
-  const etag = `W/"${createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27)}"`;
-  return { settings, etag, version };
+  const key = createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27);
+  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : ""}"`, version };
 }
 
 /** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
 export async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
-  const key = `${trialId}|${prepared.etag}`;
+  const key = `${trialId}|${prepared.key}`;
   const hit = cache.get(key);
   if (hit) return hit;
   const input = await getAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });

@@ -4,9 +4,10 @@
 // DATABASE_URL must be the database that server uses: the script adds a throwaway trial there (code ANBENCH-*,
 // 50 sites x 40 entries x 4 blocks, yield plus seed counts, every site accepted), signs in as the coordinator and
 // times GET /api/trials/<id>/analysis over loopback: the first request after the data appeared (computed), plain
-// repeats (served from the server's cache), conditional repeats answering 304, and requests straight after one
-// value was edited (new data version, computed again). It then times the same steps in-process (database read,
-// calculation, JSON) and removes the trial, also any left behind by an interrupted earlier run.
+// repeats (served from the server's cache), conditional repeats answering 304, requests straight after one value
+// was edited (new data version, computed again) and the analysis page once the result is cached. It then times
+// the same steps in-process (database read, calculation, JSON) and removes the trial, also any left behind by an
+// interrupted earlier run.
 // Settings: BENCH_SITES / BENCH_ENTRIES / BENCH_BLOCKS (default 50 / 40 / 4), BENCH_REPEATS (cached and 304
 // requests, default 20), BENCH_CHANGES (edit-then-request rounds, default 5), BENCH_SECONDS (overall cap, default 300).
 import http from "node:http";
@@ -253,6 +254,13 @@ try {
   }
   const withPlots = await get(`${path}&plots=1`, { cookie });
   expectStatus(withPlots, 200, "request with plot rows");
+  // The page embeds the same analysis for its first paint, so its weight follows the JSON's.
+  const page: Timed[] = [];
+  for (let i = 0; i < 3; i += 1) {
+    const r = await get(`/portal/trials/${trialId}/analysis?trait=${trial.traitId}`, { cookie, accept: "text/html" });
+    expectStatus(r, 200, "analysis page");
+    page.push(r);
+  }
 
   line("first request after the data appeared", [cold.ms], "computed");
   line("repeat, same settings", cached, "200 from the server's cache");
@@ -260,6 +268,7 @@ try {
   line("first request after one value edited", changed, "computed again");
   console.log(`\nresponse ${sizes(cold)}`);
   console.log(`with raw plot rows (&plots=1): ${sizes(withPlots)}`);
+  line("\nanalysis page, analysis already cached", page.map((p) => p.ms), `HTML ${sizes(page[0]!)}`);
 
   // The same work in-process, to show where the cold time goes. Imported late: it opens the app's own pool.
   const { getAnalysisInput, getAnalysisVersion } = await import("../db/queries/analysis");

@@ -1,7 +1,7 @@
 "use client";
 import { useEffect, useMemo, useState } from "react";
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { AnalysisResult, AnalysisSettings } from "@/lib/analysis/types";
+import type { AnalysisSettings, AnalysisPayload } from "@/lib/analysis/types";
 import { formatNumber, formatP } from "@/lib/analysis/format";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
@@ -21,17 +21,17 @@ export function settingsQuery(s: AnalysisSettings): string {
   return q.toString();
 }
 
-async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisResult> {
+async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisPayload> {
   const res = await fetch(`/api/trials/${trialId}/analysis?${query}`, { headers: { Accept: "application/json" } });
   const body = await res.json().catch(() => null);
   if (!res.ok) throw new Error(body?.error ?? "The analysis could not be loaded. Try again in a moment.");
-  return body as AnalysisResult;
+  return body as AnalysisPayload;
 }
 
 const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
 
 /** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
-export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisResult; targets: ExclusionTargets | null }) {
+export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisPayload; targets: ExclusionTargets | null }) {
   // Exclusions, sharing, exports and variety names are for staff; `targets` is only given to them.
   const staff = targets !== null;
   const [settings, setSettings] = useState<AnalysisSettings>(initial.settings);

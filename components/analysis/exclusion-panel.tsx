@@ -2,7 +2,7 @@
 import { useActionState, useEffect } from "react";
 import { useQueryClient } from "@tanstack/react-query";
 import { excludeFromAnalysis, includeInAnalysis } from "@/lib/actions/exclusions";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { AnalysisPayload } from "@/lib/analysis/types";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
@@ -13,7 +13,7 @@ export interface ExclusionTargets {
 }
 
 /** Lists exclusions and lets a coordinator add or remove one; the analysis refetches after each change. */
-export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: AnalysisResult; targets: ExclusionTargets }) {
+export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: AnalysisPayload; targets: ExclusionTargets }) {
   const client = useQueryClient();
   const [state, action] = useActionState(excludeFromAnalysis, null);
   const [removeState, removeAction] = useActionState(includeInAnalysis, null);

@@ -227,6 +227,26 @@ export interface AnalysisResult {
   explanations: Record<"siteModel" | "separation" | "missing" | "unaccepted" | "cv", string>;
   germination: GerminationAnalysis | null;
   emergence: EmergenceAnalysis | null;
-  /** raw plot values used (after exclusions), for tables and exports */
-  plots: { plotCode: string; siteId: number; siteName: string; block: number; entryId: number; blindCode: string; varietyName: string | null; value: number | null; status: "used" | "missing" | "excluded" }[];
+  /** raw plot values used (after exclusions), for exports and the published data download */
+  plots: PlotValue[];
 }
+
+/** One plot's value as the analysis read it. */
+export interface PlotValue {
+  plotCode: string;
+  siteId: number;
+  siteName: string;
+  block: number;
+  entryId: number;
+  blindCode: string;
+  varietyName: string | null;
+  value: number | null;
+  status: "used" | "missing" | "excluded";
+}
+
+/**
+ * What the analysis page and the JSON API send: the result without the plot rows, which are most of its
+ * size (8,000 rows for 50 sites x 40 entries x 4 blocks) and which the page never shows. Missing and
+ * excluded plots are still listed in `missing` and `exclusions`; the rows come only when asked for.
+ */
+export type AnalysisPayload = Omit<AnalysisResult, "plots"> & { plots?: PlotValue[] };

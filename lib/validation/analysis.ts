@@ -15,6 +15,8 @@ export const analysisQuerySchema = z.object({
   unaccepted: flag.optional(),
   model: z.enum(["random", "fixed"], { error: "Sites must be random or fixed." }).optional(),
   compare: z.enum(["lsd", "tukey"], { error: "Compare means with lsd or tukey." }).optional(),
+  // Not a setting: asks the JSON API to add every plot's value, which the page itself never needs.
+  plots: flag.optional(),
 });
 
 export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
@@ -22,7 +24,7 @@ export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
 /** Reads URL search parameters into analysis settings, with a plain message on the first problem. */
 export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: AnalysisQuery } | { ok: false; message: string } {
   const raw: Record<string, string> = {};
-  for (const key of ["trait", "sites", "unaccepted", "model", "compare"]) {
+  for (const key of ["trait", "sites", "unaccepted", "model", "compare", "plots"]) {
     const v = search.get(key);
     if (v !== null && v !== "") raw[key] = v;
   }
@@ -30,7 +32,7 @@ export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: A
   if (parsed.success) return { ok: true, data: parsed.data };
   const issue = parsed.error.issues[0]!;
   const field = String(issue.path[0] ?? "settings");
-  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" ? "unaccepted must be 1 or 0." : issue.message;
+  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" || field === "plots" ? `${field} must be 1 or 0.` : issue.message;
   return { ok: false, message };
 }
 

@@ -52,7 +52,7 @@ describe("analysis exports", () => {
     const [plot] = await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
     const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: plot!.id, traitId: yieldId, reason: '=HYPERLINK("http://example.test","x")' });
     try {
-      const json = (await (await getAnalysis(new Request(`http://t/api/trials/${lettuceId}/analysis?trait=${yieldId}`), ctx())).json()) as AnalysisResult;
+      const json = (await (await getAnalysis(new Request(`http://t/api/trials/${lettuceId}/analysis?trait=${yieldId}&plots=1`), ctx())).json()) as AnalysisResult;
       const res = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}&format=xlsx`), ctx());
       expect(res.status).toBe(200);
       expect(res.headers.get("content-disposition")).toMatch(/tv26-let-marketable-yield-analysis\.xlsx/);

@@ -156,12 +156,12 @@ describe("exclusions", () => {
   });
 
   it("leave a plot out and list it as excluded among the missing plots", async () => {
-    const before = await analysis(`trait=${yieldId}`);
+    const before = await analysis(`trait=${yieldId}&plots=1`);
     const plot = before.plots.find((p) => p.status === "used")!;
     const [row] = await db.select({ id: s.plots.id }).from(s.plots).where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.plots.plotCode} = ${plot.plotCode}`);
     const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, reason: "Irrigation line burst on this plot" });
     try {
-      const after = await analysis(`trait=${yieldId}`);
+      const after = await analysis(`trait=${yieldId}&plots=1`);
       expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: Irrigation line burst on this plot");
       expect(after.plots.find((p) => p.plotCode === plot.plotCode)!.status).toBe("excluded");
       const site = after.perSite.find((p) => p.siteId === plot.siteId)!;
@@ -213,6 +213,33 @@ describe("caching", () => {
     } finally {
       await db.update(s.observations).set({ valueNumber: obs!.value }).where(eq(s.observations.id, obs!.id));
     }
+  });
+});
+
+describe("plot rows", () => {
+  it("are left out of the JSON unless asked for, and come with their own ETag when they are", async () => {
+    const plain = await call(`trait=${yieldId}`);
+    const body = await plain.json();
+    expect(body).not.toHaveProperty("plots");
+    const withRows = await call(`trait=${yieldId}&plots=1`);
+    expect(withRows.status).toBe(200);
+    const full = (await withRows.json()) as AnalysisResult;
+    // One row per plot of the accepted sites, and the values used are the stored values.
+    const data = await plainRows();
+    expect(full.plots).toHaveLength(data.length);
+    const byValue = (a: number, b: number) => a - b;
+    expect(full.plots.filter((p) => p.status === "used").map((p) => p.value!).sort(byValue)).toEqual(data.filter((d) => d.value !== null).map((d) => d.value!).sort(byValue));
+    expect(full.plots.filter((p) => p.status === "missing")).toHaveLength(body.missing.length);
+    // Apart from the rows, both answers are the same analysis.
+    const { plots: _rows, ...rest } = full;
+    expect(rest).toEqual(body);
+    const etag = plain.headers.get("etag")!;
+    expect(withRows.headers.get("etag")).not.toBe(etag);
+    expect((await call(`trait=${yieldId}&plots=1`, { "If-None-Match": etag })).status).toBe(200);
+    expect((await call(`trait=${yieldId}&plots=1`, { "If-None-Match": withRows.headers.get("etag")! })).status).toBe(304);
+    const bad = await call(`trait=${yieldId}&plots=all`);
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error).toBe("plots must be 1 or 0.");
   });
 });
 
@@ -284,7 +311,10 @@ describe("sharing a site's results with its cooperators", () => {
       expect(mine.perSite).toHaveLength(1);
       expect(mine.combined).toBeNull();
       expect(JSON.stringify(mine)).not.toContain("Copper Ruffle");
-      expect(mine.plots.every((p) => p.siteId === own!.id)).toBe(true);
+      expect(mine).not.toHaveProperty("plots");
+      const rows = ((await (await call(`trait=${yieldId}&plots=1`)).json()) as AnalysisResult).plots;
+      expect(rows.length).toBeGreaterThan(0);
+      expect(rows.every((p) => p.siteId === own!.id)).toBe(true);
       // Same numbers as the staff view of that site.
       expect(mine.perSite[0]!.result!.entryF).toBeCloseTo(staffView.perSite.find((x) => x.siteId === own!.id)!.result!.entryF!, 10);
       expect(res.headers.get("etag")).not.toBe((await (async () => { auth.viewer = coordinator; return call(`trait=${yieldId}`); })()).headers.get("etag"));

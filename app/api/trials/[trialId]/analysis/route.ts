@@ -4,6 +4,7 @@ import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { computeAnalysis, prepareAnalysis } from "@/lib/analysis-service";
+import { toAnalysisPayload } from "@/lib/analysis/payload";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -14,6 +15,8 @@ const paramsSchema = z.object({ trialId: idParam });
  * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
  * once a coordinator has shared them (blind codes only). The ETag changes whenever the
  * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
+ * Plot rows are left out unless `plots=1` asks for them: the page does not show them and they are
+ * most of the body on a big trial (the exports carry them too).
  */
 export async function GET(request: Request, context: { params: Promise<{ trialId: string }> }) {
   try {
@@ -29,7 +32,7 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });
     const result = await computeAnalysis(viewer, params.data.trialId, prepared);
     if (!result) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-    return Response.json(result, { headers });
+    return Response.json(toAnalysisPayload(result, query.data.plots ?? false), { headers });
   } catch (e) {
     return toResponse(e);
   }

@@ -5,6 +5,7 @@ import { requireUser } from "@/lib/auth/guards";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { loadAnalysis } from "@/lib/analysis-service";
+import { toAnalysisPayload } from "@/lib/analysis/payload";
 import { listExclusionTargets } from "@/db/queries/analysis";
 import { AnalysisQueryProvider } from "@/components/analysis/query-provider";
 import { AnalysisView } from "@/components/analysis/analysis-view";
@@ -42,7 +43,7 @@ export default async function AnalysisPage({ params, searchParams }: { params: P
         </p>
       )}
       <AnalysisQueryProvider>
-        <AnalysisView trialId={result.trial.id} initial={result} targets={targets} />
+        <AnalysisView trialId={result.trial.id} initial={toAnalysisPayload(result)} targets={targets} />
       </AnalysisQueryProvider>
     </div>
   );
