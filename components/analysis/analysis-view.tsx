@@ -10,6 +10,7 @@ import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, typ
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { SharingPanel } from "./sharing-panel";
+import { LazyDetails } from "./lazy-details";
 
 /** URL search string for settings; the same string is the API query, the export query and the page URL. */
 export function settingsQuery(s: AnalysisSettings): string {
@@ -223,17 +224,24 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         <Card title="Site by site">
           <div className="space-y-3">
             {result.perSite.map((s) => (
-              <details key={s.siteId} className="min-w-0 rounded-lg border border-husk-200 px-3" open={result.perSite.length === 1}>
-                <summary className="min-h-11 cursor-pointer py-2">
-                  <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
-                  {s.result ? (
-                    <span className="text-sm text-loam-700">
-                      CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
-                    </span>
-                  ) : (
-                    <span className="text-sm text-beet-700">{s.problem}</span>
-                  )}
-                </summary>
+              <LazyDetails
+                key={s.siteId}
+                className="min-w-0 rounded-lg border border-husk-200 px-3"
+                summaryClassName="min-h-11 cursor-pointer py-2"
+                defaultOpen={result.perSite.length === 1}
+                summary={
+                  <>
+                    <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
+                    {s.result ? (
+                      <span className="text-sm text-loam-700">
+                        CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
+                      </span>
+                    ) : (
+                      <span className="text-sm text-beet-700">{s.problem}</span>
+                    )}
+                  </>
+                }
+              >
                 {s.result && (
                   <div className="space-y-3 pb-3">
                     <MeansTable means={s.result.means} label={label} unit={unit} caption={`Entry means at ${s.siteName}`} />
@@ -241,7 +249,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                     <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
                   </div>
                 )}
-              </details>
+              </LazyDetails>
             ))}
             {result.perSite.length === 0 && <p>No site is in the analysis. Tick sites above, or include data not yet accepted.</p>}
           </div>
@@ -283,10 +291,9 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             </div>
             <h3 className="mt-6 mb-2 font-bold">Compared with the seed label</h3>
             <LabelTable rows={result.germination.labels} label={label} />
-            <details className="mt-4">
-              <summary className="min-h-11 cursor-pointer py-2 font-semibold">Per site</summary>
+            <LazyDetails className="mt-4" summaryClassName="min-h-11 cursor-pointer py-2 font-semibold" summary="Per site">
               <GerminationTable rows={result.germination.bySite} label={label} bySite />
-            </details>
+            </LazyDetails>
           </Card>
         )}
 

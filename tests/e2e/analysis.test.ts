@@ -32,6 +32,13 @@ describe("trial analysis in a real browser", () => {
     const summary = chart.locator("[data-chart-summary]");
     expect(await summary.textContent()).toMatch(/Combined means: Marketable yield \(g per plot\), highest first: /);
 
+    // A site's tables are drawn when its section is opened, so a trial of many sites stays light.
+    expect(await page.locator("caption", { hasText: "Entry means at Cedar Hollow Market Garden" }).count()).toBe(0);
+    const siteTable = page.getByRole("table", { name: "Entry means at Cedar Hollow Market Garden" });
+    await page.locator("summary", { hasText: "Cedar Hollow Market Garden" }).click();
+    await siteTable.waitFor();
+    expect(await siteTable.locator("tbody tr").count()).toBe(6);
+
     await page.getByLabel("Trait").selectOption({ label: "First harvest date" });
     await page.getByRole("heading", { name: "What the data say: First harvest date" }).waitFor();
     await chart.getByText(/Combined means: First harvest date \(days from sowing\)/).first().waitFor();
