@@ -8,7 +8,7 @@ import { createDatabase, type Database } from "./client";
 import * as s from "./schema";
 import { DEMO_CROPS, DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF, DEMO_TRAITS, DEMO_TRIALS, type DemoTrial } from "./demo-data";
 import { seededRandom } from "@/lib/design/random";
-import { randomiseBlocks, plotCode } from "@/lib/design/randomise";
+import { siteLayout } from "@/lib/design/site-layout";
 import { blindCodes } from "@/lib/design/blind-codes";
 import { addDays, todayIso } from "@/lib/schedule";
 
@@ -215,18 +215,18 @@ async function seedTrial(
       .insert(s.enrolments)
       .values({ trialId, siteId, cooperatorId: p.growerIds[siteIndex]!, sownOn, randomSeed: seed, randomisedAt: new Date(`${addDays(sownOn, -10)}T12:00:00Z`) })
       .$returningId();
-    const placements = randomiseBlocks({ entryCount: entryIds.length, blocks: trial.blocks, seed });
-    const insertsPerFlat = 12;
-    const plotRows = placements.map((pl, i) => ({
+    // The same layout the randomise button would draw from this seed, flats and plot codes included.
+    const layout = siteLayout({ design: "rcbd", blocks: trial.blocks, plotUnit: trial.plotUnit, plotSize: trial.plotSize, entryCount: entryIds.length, seed, siteNumber: order + 1 });
+    const plotRows = layout.map((pl) => ({
       enrolmentId: enrolment!.id,
       trialId,
       siteId,
       entryId: entryIds[pl.entryIndex]!,
-      plotCode: plotCode(siteIndex + 1, pl.block, pl.position),
+      plotCode: pl.plotCode,
       block: pl.block,
       position: pl.position,
-      tray: trial.plotUnit === "insert" ? Math.floor(i / insertsPerFlat) + 1 : null,
-      traySlot: trial.plotUnit === "insert" ? (i % insertsPerFlat) + 1 : null,
+      tray: pl.tray,
+      traySlot: pl.traySlot,
     }));
     await tx.insert(s.plots).values(plotRows);
     const inserted = await tx

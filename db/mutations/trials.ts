@@ -11,9 +11,8 @@ import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/auth/types";
 import { blindCodes } from "@/lib/design/blind-codes";
 import { newSeed } from "@/lib/design/random";
-import { plotCode, randomiseBlocks, randomiseCompletely } from "@/lib/design/randomise";
+import { siteLayout } from "@/lib/design/site-layout";
 import { canEditDesign, canEditTraits, canEnrolSites, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/design/status";
-import { cellsPerPlot, insertNumber, packTrays } from "@/lib/design/trays";
 import type { z } from "zod";
 import type { addEntrySchema, createTrialSchema, updateTrialSchema } from "@/lib/validation/trials";
 
@@ -241,27 +240,20 @@ export async function updateSiteRandomisation(viewer: Viewer, input: { trialId: 
     const siteNumber = siblings.findIndex((s) => s.id === enrolment.id) + 1;
 
     const seed = (input.seed ?? newSeed()) >>> 0;
-    const placements =
-      trial.design === "crd"
-        ? randomiseCompletely({ entryCount: entries.length, replicates: trial.blocks, seed })
-        : randomiseBlocks({ entryCount: entries.length, blocks: trial.blocks, seed });
-    const cells = cellsPerPlot(trial.plotUnit, trial.plotSize);
-    const blockNumbers = [...new Set(placements.map((p) => p.block))];
-    const trays = cells === null ? null : packTrays({ blockSizes: blockNumbers.map((b) => placements.filter((p) => p.block === b).length), cellsPerPlot: cells }).flat();
+    const layout = siteLayout({ design: trial.design, blocks: trial.blocks, plotUnit: trial.plotUnit, plotSize: trial.plotSize, entryCount: entries.length, seed, siteNumber });
 
     await tx.delete(plots).where(eq(plots.enrolmentId, enrolment.id));
     await tx.insert(plots).values(
-      placements.map((p, i) => ({
+      layout.map((p) => ({
         enrolmentId: enrolment.id,
         trialId: trial.id,
         siteId: input.siteId,
         entryId: entries[p.entryIndex]!.id,
-        plotCode: plotCode(siteNumber, p.block, p.position),
+        plotCode: p.plotCode,
         block: p.block,
         position: p.position,
-        tray: trays ? trays[i]!.tray : null,
-        // Insert plots are addressed by insert (1-12), cell plots by their first cell (1-72).
-        traySlot: trays ? (trial.plotUnit === "insert" ? insertNumber(trays[i]!.firstCell) : trays[i]!.firstCell) : null,
+        tray: p.tray,
+        traySlot: p.traySlot,
       })),
     );
     await tx.update(enrolments).set({ randomSeed: seed, randomisedAt: new Date() }).where(eq(enrolments.id, enrolment.id));
@@ -272,9 +264,9 @@ export async function updateSiteRandomisation(viewer: Viewer, input: { trialId: 
       entityId: enrolment.id,
       trialId: trial.id,
       oldValue: enrolment.randomisedAt ? { seed: enrolment.randomSeed } : null,
-      newValue: { seed, plots: placements.length },
+      newValue: { seed, plots: layout.length },
     });
-    return { seed, plots: placements.length };
+    return { seed, plots: layout.length };
   });
 }
 
