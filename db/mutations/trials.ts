@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, eq, inArray } from "drizzle-orm";
+import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { enrolments, observations, plots, programCoordinators, seasons, seedLots, siteCooperators, sites, trialEntries, trialTraits, traits, trials, users, varieties, crops } from "../schema";
 import type { TrialStatus } from "../schema/enums";
@@ -12,7 +12,7 @@ import type { Viewer } from "@/lib/auth/types";
 import { blindCodes } from "@/lib/design/blind-codes";
 import { newSeed } from "@/lib/design/random";
 import { siteLayout } from "@/lib/design/site-layout";
-import { canEditDesign, canEditTraits, canEnrolSites, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/design/status";
+import { canChangeSowingDate, canEditDesign, canEditTraits, canEnrolSites, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/design/status";
 import type { z } from "zod";
 import type { addEntrySchema, createTrialSchema, updateTrialSchema } from "@/lib/validation/trials";
 
@@ -267,6 +267,58 @@ export async function updateSiteRandomisation(viewer: Viewer, input: { trialId: 
       newValue: { seed, plots: layout.length },
     });
     return { seed, plots: layout.length };
+  });
+}
+
+/**
+ * Changes a site's sowing date. Due dates are not stored: schedules, sheets and reminders compute them from
+ * this date, so they all move with it, and so do days-to-emergence and days-to-harvest, which the analysis
+ * counts from it. Refused once results are published or archived, and refused when a value at the site
+ * was recorded (or a recorded date falls) before the new date, since nothing can be observed before sowing.
+ */
+export async function updateSowingDate(viewer: Viewer, input: { trialId: number; siteId: number; sownOn: string }) {
+  return db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    if (!canChangeSowingDate(trial)) {
+      throw new AppError(
+        "conflict",
+        trial.status === "archived"
+          ? "This trial is archived, so its sowing dates can no longer change."
+          : "This trial's results are published with these sowing dates. Withdraw the published results first if a date was wrong.",
+      );
+    }
+    const [enrolment] = await tx
+      .select({ id: enrolments.id, sownOn: enrolments.sownOn })
+      .from(enrolments)
+      .where(and(eq(enrolments.trialId, trial.id), eq(enrolments.siteId, input.siteId)))
+      .for("update");
+    if (!enrolment) throw new AppError("not_found", "This site is not enrolled in the trial.");
+    const [recorded] = await tx
+      .select({
+        values: count(),
+        firstObserved: sql<string | null>`MIN(${observations.observedOn})`,
+        firstDate: sql<string | null>`MIN(${observations.valueDate})`,
+      })
+      .from(observations)
+      .innerJoin(plots, eq(plots.id, observations.plotId))
+      .where(eq(plots.enrolmentId, enrolment.id));
+    const earliest = [recorded?.firstObserved, recorded?.firstDate].map((d) => (d ? String(d).slice(0, 10) : null)).filter((d): d is string => d !== null).sort()[0];
+    if (earliest && input.sownOn > earliest) {
+      const message = `Values at this site were recorded for ${earliest}, before ${input.sownOn}. The sowing date must be on or before ${earliest}.`;
+      throw new AppError("conflict", message, { sownOn: [message] });
+    }
+    if (enrolment.sownOn === input.sownOn) return { changed: false, values: recorded?.values ?? 0 };
+    await tx.update(enrolments).set({ sownOn: input.sownOn }).where(eq(enrolments.id, enrolment.id));
+    await insertAudit(tx, {
+      actorId: viewer.id,
+      action: "change_sowing_date",
+      entity: "enrolment",
+      entityId: enrolment.id,
+      trialId: trial.id,
+      oldValue: { sownOn: enrolment.sownOn },
+      newValue: { sownOn: input.sownOn, valuesAtSite: recorded?.values ?? 0 },
+    });
+    return { changed: true, values: recorded?.values ?? 0 };
   });
 }
 

@@ -2,12 +2,12 @@
 import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
-import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, updateTrialSchema } from "@/lib/validation/trials";
-import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
+import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
 import { newToken } from "@/lib/auth/tokens";
 import { enrolmentNoticeMail, inviteMail } from "@/lib/mail/templates";
 import { deliverSoon } from "@/lib/mail/outbox";
-import { STATUS_LABELS } from "@/lib/labels";
+import { STATUS_LABELS, formatDate } from "@/lib/labels";
 import { env } from "@/lib/env";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
@@ -58,6 +58,19 @@ export const randomiseSite = defineAction({ roles: STAFF, schema: randomiseSchem
   revalidatePath(trialPath(input.trialId));
   revalidatePath(`${trialPath(input.trialId)}/sites/${input.siteId}`);
   return { ok: true, message: `Laid out ${plots} plots (seed ${seed}).` };
+});
+
+export const changeSowingDate = defineAction({ roles: STAFF, schema: sowingDateSchema }, async (input, viewer) => {
+  const { sownOn } = input;
+  const { changed, values } = await updateSowingDate(viewer, input);
+  if (!changed) return { ok: true, message: `The sowing date is already ${formatDate(sownOn)}.` };
+  // Every page that shows due dates or days from sowing reads the enrolment, so all of them refresh.
+  revalidatePath(trialPath(input.trialId));
+  revalidatePath(`${trialPath(input.trialId)}/sites/${input.siteId}`);
+  revalidatePath(`/portal/record/${input.trialId}/${input.siteId}`);
+  revalidatePath("/portal");
+  const recount = values > 0 ? ` Days to emergence and harvest for the ${values} values already recorded are now counted from it.` : "";
+  return { ok: true, message: `Sowing date set to ${formatDate(sownOn)}. Due dates follow it; reprint this site's field sheet.${recount}` };
 });
 
 export const changeTrialStatus = defineAction({ roles: STAFF, schema: changeStatusSchema }, async (input, viewer) => {

@@ -33,6 +33,12 @@ export const canEnrolSites = (t: TrialState) => ["draft", "open", "collecting"].
 export const canRandomiseSite = (t: { status: TrialStatus }, siteObservationCount: number) =>
   ["draft", "open", "collecting"].includes(t.status) && siteObservationCount === 0;
 
+/**
+ * A site's sowing date may be corrected until results are published: published reports carry the days
+ * counted from it, and archived trials are closed.
+ */
+export const canChangeSowingDate = (t: { status: TrialStatus }) => !["published", "archived"].includes(t.status);
+
 const NEXT: Partial<Record<TrialStatus, TrialStatus>> = {
   draft: "open",
   open: "collecting",

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/db/schema/enums";
-import { checkbox, id, optionalId, optionalIsoDate, optionalText, requiredText } from "./common";
+import { checkbox, id, isoDate, optionalId, optionalIsoDate, optionalText, requiredText } from "./common";
 
 /** Trait checkboxes are named `trait_<id>`; they are gathered into one ordered list. */
 const withTraitIds = (v: unknown) => {
@@ -72,6 +72,12 @@ export const enrolSiteSchema = z.object({
   trialId: id(),
   siteId: id("Choose the site."),
   sownOn: optionalIsoDate("Enter the sowing date like 2027-03-18."),
+});
+
+export const sowingDateSchema = z.object({
+  trialId: id(),
+  siteId: id(),
+  sownOn: z.preprocess((v) => v ?? "", isoDate("Enter the sowing date like 2027-03-18.")),
 });
 
 export const randomiseSchema = z.object({ trialId: id(), siteId: id() });

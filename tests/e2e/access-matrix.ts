@@ -181,6 +181,7 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "trials.ts#removeEntry": ["coordinator", "admin"],
   "trials.ts#enrolSite": ["coordinator", "admin"],
   "trials.ts#randomiseSite": ["coordinator", "admin"],
+  "trials.ts#changeSowingDate": ["coordinator", "admin"],
   "trials.ts#changeTrialStatus": ["coordinator", "admin"],
   "users.ts#inviteCooperator": ["coordinator", "admin"],
   "users.ts#changeUserRole": ["admin"],

@@ -4,10 +4,11 @@ import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/auth/types";
 import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
-import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
+import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
 import { insertSite } from "@/db/mutations/sites";
 import { getPlotForViewer, getSiteLayout, getTrialDetail } from "@/db/queries/trials";
-import { createTrialSchema } from "@/lib/validation/trials";
+import { createTrialSchema, sowingDateSchema } from "@/lib/validation/trials";
+import { scheduleForSite } from "@/lib/schedule";
 import { traitSchema } from "@/lib/validation/catalogue";
 import { isBlindCode } from "@/lib/design/blind-codes";
 import { AppError } from "@/lib/errors";
@@ -220,5 +221,72 @@ describe("editing a trial", () => {
     const [plot] = await db.select().from(s.plots).where(eq(s.plots.trialId, trialId));
     await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 3 });
     await expectAppError(updateTrialDesign(coordinator, { ...form, trialId, traitIds: [] }), "conflict", /traits can no longer change/);
+  });
+});
+
+describe("changing a site's sowing date", () => {
+  async function laidOutSite(sownOn?: string) {
+    const trialId = await trialWithEntries(3);
+    const { enrolmentId } = await insertEnrolment(coordinator, { trialId, siteId: siteA, sownOn }, mail);
+    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
+    return { trialId, enrolmentId };
+  }
+  const sowing = async (enrolmentId: number) => (await db.select({ sownOn: s.enrolments.sownOn }).from(s.enrolments).where(eq(s.enrolments.id, enrolmentId)))[0]!.sownOn;
+  const audits = async (trialId: number) => db.select().from(s.auditLog).where(and(eq(s.auditLog.trialId, trialId), eq(s.auditLog.action, "change_sowing_date")));
+
+  it("moves the site's due dates with the new date and logs the old and new dates", async () => {
+    const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
+    await updateTrialStatus(coordinator, { trialId, status: "open" });
+    await updateTrialStatus(coordinator, { trialId, status: "collecting" });
+    const result = await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-21" });
+    expect(result).toEqual({ changed: true, values: 0 });
+    expect(await sowing(enrolmentId)).toBe("2027-03-21");
+    const layout = (await getSiteLayout(coordinator, { trialId, siteId: siteA }))!;
+    const due = scheduleForSite({ sownOn: layout.sownOn, plotCount: layout.plots.length, traits: layout.traits, recorded: new Map(), today: "2027-03-01" });
+    expect(due.map((d) => d.dueOn)).toEqual(["2027-03-26", "2027-03-28", "2027-03-31", "2027-04-04"]);
+    const [entry] = await audits(trialId);
+    expect(entry!.oldValue).toEqual({ sownOn: "2027-03-18" });
+    expect(entry!.newValue).toMatchObject({ sownOn: "2027-03-21" });
+  });
+
+  it("sets a date on a site enrolled without one, and writes nothing when the date is unchanged", async () => {
+    const { trialId, enrolmentId } = await laidOutSite();
+    await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" });
+    expect(await sowing(enrolmentId)).toBe("2027-04-02");
+    expect(await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" })).toEqual({ changed: false, values: 0 });
+    expect(await audits(trialId)).toHaveLength(1);
+  });
+
+  it("allows an earlier date once values exist, but refuses one after a recorded value and writes nothing", async () => {
+    const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
+    const [plot] = await db.select().from(s.plots).where(eq(s.plots.enrolmentId, enrolmentId));
+    await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 4, observedOn: "2027-03-23" });
+    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-24" }), "conflict", /recorded for 2027-03-23.*on or before 2027-03-23/);
+    expect(await sowing(enrolmentId)).toBe("2027-03-18");
+    expect(await audits(trialId)).toHaveLength(0);
+    expect(await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-17" })).toEqual({ changed: true, values: 1 });
+    expect(await sowing(enrolmentId)).toBe("2027-03-17");
+  });
+
+  it("refuses once the trial is published or archived, and for people who do not manage the trial", async () => {
+    const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
+    for (const status of ["published", "archived"] as const) {
+      await db.update(s.trials).set({ status }).where(eq(s.trials.id, trialId));
+      await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "conflict", status === "published" ? /Withdraw the published results/ : /archived/);
+    }
+    await db.update(s.trials).set({ status: "collecting" }).where(eq(s.trials.id, trialId));
+    await expectAppError(updateSowingDate(outsider, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "not_found");
+    await expectAppError(updateSowingDate(grower, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "forbidden");
+    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteB, sownOn: "2027-03-10" }), "not_found", /not enrolled/);
+    expect(await sowing(enrolmentId)).toBe("2027-03-18");
+    expect(await audits(trialId)).toHaveLength(0);
+  });
+
+  it("asks for a real date", () => {
+    for (const bad of ["", "18/03/2027", "2027-02-30x", undefined]) {
+      const parsed = sowingDateSchema.safeParse({ trialId: "1", siteId: "2", sownOn: bad });
+      expect(parsed.success).toBe(false);
+      expect(parsed.error!.issues[0]!.message).toMatch(/Enter the sowing date like/);
+    }
   });
 });
