@@ -1,7 +1,7 @@
 import "server-only";
-import { eq } from "drizzle-orm";
-import { db } from "../index";
-import { crops, seedLots, traits, varieties } from "../schema";
+import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { db, type Tx } from "../index";
+import { crops, enrolments, observations, seedLots, trialEntries, trialTraits, traits, trials, varieties } from "../schema";
 import { insertAudit } from "../audit";
 import { isDuplicateKey, requireStaff } from "../access";
 import { AppError } from "@/lib/errors";
@@ -9,104 +9,371 @@ import type { Viewer } from "@/lib/auth/types";
 import type { z } from "zod";
 import type { cropSchema, seedLotSchema, traitSchema, varietySchema } from "@/lib/validation/catalogue";
 
-/** Runs a catalogue insert with its audit entry; a unique-key clash becomes a plain field error. */
-async function insertWithAudit<T extends Record<string, unknown>>(p: {
+type CropInput = z.infer<typeof cropSchema>;
+type VarietyInput = z.infer<typeof varietySchema>;
+type SeedLotInput = z.infer<typeof seedLotSchema>;
+type TraitInput = z.infer<typeof traitSchema>;
+
+// Form input to row values, shared by add and edit so the two can never store a field differently.
+const cropValues = (i: CropInput) => ({ name: i.name, cropGroup: i.cropGroup, scientificName: i.scientificName ?? null });
+const varietyValues = (i: VarietyInput) => ({ cropId: i.cropId, name: i.name, description: i.description ?? null });
+const seedLotValues = (i: SeedLotInput) => ({
+  varietyId: i.varietyId,
+  source: i.source,
+  lotCode: i.lotCode,
+  labelGerminationPct: i.labelGerminationPct ?? null,
+  germinationTestDate: i.germinationTestDate ?? null,
+  packetDaysToMaturity: i.packetDaysToMaturity ?? null,
+  treated: i.treated,
+  treatment: i.treated ? (i.treatment ?? null) : null,
+});
+const traitValues = (i: TraitInput) => ({
+  code: i.code,
+  name: i.name,
+  unit: i.unit ?? null,
+  valueType: i.valueType,
+  minValue: i.minValue ?? null,
+  maxValue: i.maxValue ?? null,
+  dueDaysAfterSowing: i.dueDaysAfterSowing ?? null,
+  dueNote: i.dueNote ?? null,
+  computation: i.computation,
+  description: i.description ?? null,
+});
+
+interface Change {
+  id: number;
+  oldValue?: unknown;
+  newValue?: unknown;
+}
+
+/**
+ * Every catalogue write: staff only, one transaction with its audit entry, and a unique-key clash turned
+ * into a plain field error. `write` does the checks and the write and says what changed.
+ */
+async function writeCatalogue(p: {
   viewer: Viewer;
   entity: string;
-  duplicate: { field: string; message: string };
-  write: (tx: Parameters<Parameters<typeof db.transaction>[0]>[0]) => Promise<number>;
-  values: T;
-}) {
+  action: "create" | "update" | "delete";
+  duplicate?: { field: string; message: string };
+  write: (tx: Tx) => Promise<Change>;
+}): Promise<number> {
   requireStaff(p.viewer);
   try {
     return await db.transaction(async (tx) => {
-      const id = await p.write(tx);
-      await insertAudit(tx, { actorId: p.viewer.id, action: "create", entity: p.entity, entityId: id, newValue: p.values });
-      return id;
+      const change = await p.write(tx);
+      await insertAudit(tx, { actorId: p.viewer.id, action: p.action, entity: p.entity, entityId: change.id, oldValue: change.oldValue ?? null, newValue: change.newValue ?? null });
+      return change.id;
     });
   } catch (e) {
-    if (isDuplicateKey(e)) throw new AppError("conflict", p.duplicate.message, { [p.duplicate.field]: [p.duplicate.message] });
+    if (p.duplicate && isDuplicateKey(e)) throw new AppError("conflict", p.duplicate.message, { [p.duplicate.field]: [p.duplicate.message] });
     throw e;
   }
 }
 
-export async function insertCrop(viewer: Viewer, input: z.infer<typeof cropSchema>) {
-  return insertWithAudit({
+const insertedId = (rows: { id: number }[]) => rows[0]!.id;
+
+/** "trial TV27-KAL", "trials TV26-LET and TV27-KAL", "trials A, B, C and 2 more". */
+function trialsPhrase(codes: string[]) {
+  const list = codes.length > 3 ? `${codes.slice(0, 3).join(", ")} and ${codes.length - 3} more` : codes.length > 1 ? `${codes.slice(0, -1).join(", ")} and ${codes.at(-1)}` : (codes[0] ?? "");
+  return `${codes.length === 1 ? "trial" : "trials"} ${list}`;
+}
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
+
+/** Codes of trials that use a variety or a seed lot as an entry, with their statuses. */
+async function trialsWithEntry(tx: Tx, where: ReturnType<typeof eq>) {
+  return tx
+    .selectDistinct({ code: trials.code, status: trials.status })
+    .from(trialEntries)
+    .innerJoin(trials, eq(trials.id, trialEntries.trialId))
+    .where(where)
+    .orderBy(asc(trials.code));
+}
+
+async function requireCrop(tx: Tx, cropId: number, field = "cropId") {
+  const [crop] = await tx.select({ id: crops.id, name: crops.name }).from(crops).where(eq(crops.id, cropId));
+  if (!crop) throw new AppError("bad_request", "That crop is not in the catalogue.", { [field]: ["Choose a crop from the list."] });
+  return crop;
+}
+
+async function requireVariety(tx: Tx, varietyId: number, field = "varietyId") {
+  const [variety] = await tx.select({ id: varieties.id }).from(varieties).where(eq(varieties.id, varietyId));
+  if (!variety) throw new AppError("bad_request", "That variety is not in the catalogue.", { [field]: ["Choose a variety from the list."] });
+}
+
+const CROP_DUPLICATE = { field: "name", message: "A crop with this name is already in the catalogue." };
+const VARIETY_DUPLICATE = { field: "name", message: "This crop already has a variety with this name." };
+const LOT_DUPLICATE = { field: "lotCode", message: "This lot from this source is already recorded for the variety." };
+const TRAIT_DUPLICATE = { field: "code", message: "A trait with this code already exists; choose another code." };
+
+export async function insertCrop(viewer: Viewer, input: CropInput) {
+  return writeCatalogue({
     viewer,
     entity: "crop",
-    values: input,
-    duplicate: { field: "name", message: "A crop with this name is already in the catalogue." },
-    write: async (tx) => (await tx.insert(crops).values({ name: input.name, cropGroup: input.cropGroup, scientificName: input.scientificName ?? null }).$returningId())[0]!.id,
+    action: "create",
+    duplicate: CROP_DUPLICATE,
+    write: async (tx) => ({ id: insertedId(await tx.insert(crops).values(cropValues(input)).$returningId()), newValue: input }),
   });
 }
 
-export async function insertVariety(viewer: Viewer, input: z.infer<typeof varietySchema>) {
-  return insertWithAudit({
+export async function insertVariety(viewer: Viewer, input: VarietyInput) {
+  return writeCatalogue({
     viewer,
     entity: "variety",
-    values: input,
-    duplicate: { field: "name", message: "This crop already has a variety with this name." },
+    action: "create",
+    duplicate: VARIETY_DUPLICATE,
     write: async (tx) => {
-      const [crop] = await tx.select({ id: crops.id }).from(crops).where(eq(crops.id, input.cropId));
-      if (!crop) throw new AppError("bad_request", "That crop is not in the catalogue.", { cropId: ["Choose a crop from the list."] });
-      return (await tx.insert(varieties).values({ cropId: input.cropId, name: input.name, description: input.description ?? null }).$returningId())[0]!.id;
+      await requireCrop(tx, input.cropId);
+      return { id: insertedId(await tx.insert(varieties).values(varietyValues(input)).$returningId()), newValue: input };
     },
   });
 }
 
-export async function insertSeedLot(viewer: Viewer, input: z.infer<typeof seedLotSchema>) {
-  return insertWithAudit({
+export async function insertSeedLot(viewer: Viewer, input: SeedLotInput) {
+  return writeCatalogue({
     viewer,
     entity: "seed_lot",
-    values: input,
-    duplicate: { field: "lotCode", message: "This lot from this source is already recorded for the variety." },
+    action: "create",
+    duplicate: LOT_DUPLICATE,
     write: async (tx) => {
-      const [variety] = await tx.select({ id: varieties.id }).from(varieties).where(eq(varieties.id, input.varietyId));
-      if (!variety) throw new AppError("bad_request", "That variety is not in the catalogue.", { varietyId: ["Choose a variety from the list."] });
-      return (
-        await tx
-          .insert(seedLots)
-          .values({
-            varietyId: input.varietyId,
-            source: input.source,
-            lotCode: input.lotCode,
-            labelGerminationPct: input.labelGerminationPct ?? null,
-            germinationTestDate: input.germinationTestDate ?? null,
-            packetDaysToMaturity: input.packetDaysToMaturity ?? null,
-            treated: input.treated,
-            treatment: input.treated ? (input.treatment ?? null) : null,
-          })
-          .$returningId()
-      )[0]!.id;
+      await requireVariety(tx, input.varietyId);
+      return { id: insertedId(await tx.insert(seedLots).values(seedLotValues(input)).$returningId()), newValue: input };
     },
   });
 }
 
 /** Adds a trait to the shared library; built-in traits come only from the seed script. */
-export async function insertTrait(viewer: Viewer, input: z.infer<typeof traitSchema>) {
-  return insertWithAudit({
+export async function insertTrait(viewer: Viewer, input: TraitInput) {
+  return writeCatalogue({
     viewer,
     entity: "trait",
-    values: input,
-    duplicate: { field: "code", message: "A trait with this code already exists; choose another code." },
-    write: async (tx) =>
-      (
-        await tx
-          .insert(traits)
-          .values({
-            code: input.code,
-            name: input.name,
-            unit: input.unit ?? null,
-            valueType: input.valueType,
-            minValue: input.minValue ?? null,
-            maxValue: input.maxValue ?? null,
-            dueDaysAfterSowing: input.dueDaysAfterSowing ?? null,
-            dueNote: input.dueNote ?? null,
-            computation: input.computation,
-            description: input.description ?? null,
-            builtIn: false,
-          })
-          .$returningId()
-      )[0]!.id,
+    action: "create",
+    duplicate: TRAIT_DUPLICATE,
+    write: async (tx) => ({ id: insertedId(await tx.insert(traits).values({ ...traitValues(input), builtIn: false }).$returningId()), newValue: input }),
+  });
+}
+
+// Edits and deletes lock the row first, so a check ("not used by any trial") and the write it allows
+// cannot be split by another coordinator's change.
+
+async function lockCrop(tx: Tx, cropId: number) {
+  const [row] = await tx.select().from(crops).where(eq(crops.id, cropId)).for("update");
+  if (!row) throw new AppError("not_found", "That crop is no longer in the catalogue.");
+  return row;
+}
+
+async function lockVariety(tx: Tx, varietyId: number) {
+  const [row] = await tx.select().from(varieties).where(eq(varieties.id, varietyId)).for("update");
+  if (!row) throw new AppError("not_found", "That variety is no longer in the catalogue.");
+  return row;
+}
+
+async function lockSeedLot(tx: Tx, seedLotId: number) {
+  const [row] = await tx.select().from(seedLots).where(eq(seedLots.id, seedLotId)).for("update");
+  if (!row) throw new AppError("not_found", "That seed lot is no longer in the catalogue.");
+  return row;
+}
+
+async function lockTrait(tx: Tx, traitId: number) {
+  const [row] = await tx.select().from(traits).where(eq(traits.id, traitId)).for("update");
+  if (!row) throw new AppError("not_found", "That trait is no longer in the library.");
+  return row;
+}
+
+/** Renames or regroups a crop. Trials show the current name; published reports keep the name they were published with. */
+export async function updateCrop(viewer: Viewer, input: CropInput & { cropId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "crop",
+    action: "update",
+    duplicate: CROP_DUPLICATE,
+    write: async (tx) => {
+      const old = await lockCrop(tx, input.cropId);
+      await tx.update(crops).set(cropValues(input)).where(eq(crops.id, old.id));
+      return { id: old.id, oldValue: old, newValue: input };
+    },
+  });
+}
+
+/** Deletes a crop that has no varieties and no trials. */
+export async function deleteCrop(viewer: Viewer, input: { cropId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "crop",
+    action: "delete",
+    write: async (tx) => {
+      const old = await lockCrop(tx, input.cropId);
+      const usedBy = await tx.select({ code: trials.code }).from(trials).where(eq(trials.cropId, old.id)).orderBy(asc(trials.code));
+      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is the crop of ${trialsPhrase(usedBy.map((t) => t.code))}.`);
+      const [kids] = await tx.select({ n: count() }).from(varieties).where(eq(varieties.cropId, old.id));
+      if ((kids?.n ?? 0) > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it still has ${plural(kids!.n, "variety", "varieties")}. Delete those first.`);
+      await tx.delete(crops).where(eq(crops.id, old.id));
+      return { id: old.id, oldValue: old };
+    },
+  });
+}
+
+/**
+ * Edits a variety. Its name and notes may always be corrected; it may move to another crop only while
+ * no trial has it as an entry, because an entry must be of its trial's crop.
+ */
+export async function updateVariety(viewer: Viewer, input: VarietyInput & { varietyId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "variety",
+    action: "update",
+    duplicate: VARIETY_DUPLICATE,
+    write: async (tx) => {
+      const old = await lockVariety(tx, input.varietyId);
+      if (old.cropId !== input.cropId) {
+        await requireCrop(tx, input.cropId);
+        const usedBy = await trialsWithEntry(tx, eq(trialEntries.varietyId, old.id));
+        if (usedBy.length > 0) {
+          const message = `${old.name} is an entry in ${trialsPhrase(usedBy.map((t) => t.code))}, so it must stay with its crop.`;
+          throw new AppError("conflict", message, { cropId: [message] });
+        }
+      }
+      await tx.update(varieties).set(varietyValues(input)).where(eq(varieties.id, old.id));
+      return { id: old.id, oldValue: old, newValue: input };
+    },
+  });
+}
+
+/** Deletes a variety that is in no trial and has no seed lots left. */
+export async function deleteVariety(viewer: Viewer, input: { varietyId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "variety",
+    action: "delete",
+    write: async (tx) => {
+      const old = await lockVariety(tx, input.varietyId);
+      const usedBy = await trialsWithEntry(tx, eq(trialEntries.varietyId, old.id));
+      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is an entry in ${trialsPhrase(usedBy.map((t) => t.code))}.`);
+      const [lots] = await tx.select({ n: count() }).from(seedLots).where(eq(seedLots.varietyId, old.id));
+      if ((lots?.n ?? 0) > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it still has ${plural(lots!.n, "seed lot")}. Delete those first.`);
+      await tx.delete(varieties).where(eq(varieties.id, old.id));
+      return { id: old.id, oldValue: old };
+    },
+  });
+}
+
+// Once a trial is published its report records the lot's label germination and treatment; changing them
+// underneath would make the trial disagree with what was published without anyone deciding so.
+const RECORDED_STATUSES = ["published", "archived"] as const;
+const LABEL_FIELDS = ["labelGerminationPct", "germinationTestDate", "treated", "treatment"] as const;
+
+/**
+ * Edits a seed lot. Source, lot code and days to maturity may always be corrected. A lot that an entry
+ * uses cannot move to another variety, and its label facts are fixed while a trial using it is published.
+ */
+export async function updateSeedLot(viewer: Viewer, input: SeedLotInput & { seedLotId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "seed_lot",
+    action: "update",
+    duplicate: LOT_DUPLICATE,
+    write: async (tx) => {
+      const old = await lockSeedLot(tx, input.seedLotId);
+      const next = seedLotValues(input);
+      const usedBy = await trialsWithEntry(tx, eq(trialEntries.seedLotId, old.id));
+      if (old.varietyId !== next.varietyId) {
+        await requireVariety(tx, next.varietyId);
+        if (usedBy.length > 0) {
+          const message = `Lot ${old.lotCode} is used by an entry in ${trialsPhrase(usedBy.map((t) => t.code))}, so it must stay with its variety.`;
+          throw new AppError("conflict", message, { varietyId: [message] });
+        }
+      }
+      const recorded = usedBy.filter((t) => (RECORDED_STATUSES as readonly string[]).includes(t.status));
+      const changedLabel = LABEL_FIELDS.filter((f) => String(old[f] ?? "") !== String(next[f] ?? ""));
+      if (recorded.length > 0 && changedLabel.length > 0) {
+        const message = `This lot's label germination and treatment are part of the published results of ${trialsPhrase(recorded.map((t) => t.code))}, so they cannot change. Withdraw the published results first if the label was entered wrong.`;
+        throw new AppError("conflict", message, Object.fromEntries(changedLabel.map((f) => [f, [message]])));
+      }
+      await tx.update(seedLots).set(next).where(eq(seedLots.id, old.id));
+      return { id: old.id, oldValue: old, newValue: input };
+    },
+  });
+}
+
+/** Deletes a seed lot that no trial entry uses. */
+export async function deleteSeedLot(viewer: Viewer, input: { seedLotId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "seed_lot",
+    action: "delete",
+    write: async (tx) => {
+      const old = await lockSeedLot(tx, input.seedLotId);
+      const usedBy = await trialsWithEntry(tx, eq(trialEntries.seedLotId, old.id));
+      if (usedBy.length > 0) throw new AppError("conflict", `Lot ${old.lotCode} cannot be deleted because an entry in ${trialsPhrase(usedBy.map((t) => t.code))} uses it.`);
+      await tx.delete(seedLots).where(eq(seedLots.id, old.id));
+      return { id: old.id, oldValue: old };
+    },
+  });
+}
+
+const BUILT_IN = "Built-in traits come with Seedplot and cannot be changed or deleted. Add your own trait instead.";
+// What a value means and when it is due: growers' sheets, templates and stored values depend on these.
+const MEANING_FIELDS = ["code", "valueType", "minValue", "maxValue", "dueDaysAfterSowing", "computation"] as const;
+
+/** Trials recording a trait, and whether any has a laid-out site or recorded values for it. */
+async function traitUsage(tx: Tx, traitId: number) {
+  const usedBy = await tx
+    .select({ code: trials.code })
+    .from(trialTraits)
+    .innerJoin(trials, eq(trials.id, trialTraits.trialId))
+    .where(eq(trialTraits.traitId, traitId))
+    .orderBy(asc(trials.code));
+  const [laidOut] = await tx
+    .select({ n: count() })
+    .from(enrolments)
+    .where(and(inArray(enrolments.trialId, tx.select({ id: trialTraits.trialId }).from(trialTraits).where(eq(trialTraits.traitId, traitId))), sql`${enrolments.randomisedAt} IS NOT NULL`));
+  const [values] = await tx.select({ n: count() }).from(observations).where(eq(observations.traitId, traitId));
+  return { codes: usedBy.map((t) => t.code), laidOutSites: laidOut?.n ?? 0, values: values?.n ?? 0 };
+}
+
+/**
+ * Edits a coordinator's trait. Name, unit, timing note and description may always change. Its code, kind,
+ * range, due days and computation are fixed once a trial using it has printed layouts or recorded values.
+ */
+export async function updateTrait(viewer: Viewer, input: TraitInput & { traitId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "trait",
+    action: "update",
+    duplicate: TRAIT_DUPLICATE,
+    write: async (tx) => {
+      const old = await lockTrait(tx, input.traitId);
+      if (old.builtIn) throw new AppError("conflict", BUILT_IN);
+      const next = traitValues(input);
+      const same = (a: unknown, b: unknown) => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
+      const changedMeaning = MEANING_FIELDS.filter((f) => !same(old[f], next[f]));
+      if (changedMeaning.length > 0) {
+        const usage = await traitUsage(tx, old.id);
+        if (usage.values > 0 || usage.laidOutSites > 0) {
+          const why = usage.values > 0 ? "values are already recorded for this trait" : `sites in ${trialsPhrase(usage.codes)} are already laid out with it`;
+          const message = `Only the name, unit, timing note and description can change now: ${why}.`;
+          throw new AppError("conflict", message, Object.fromEntries(changedMeaning.map((f) => [f, [message]])));
+        }
+      }
+      await tx.update(traits).set(next).where(eq(traits.id, old.id));
+      return { id: old.id, oldValue: old, newValue: input };
+    },
+  });
+}
+
+/** Deletes a coordinator's trait that no trial records. */
+export async function deleteTrait(viewer: Viewer, input: { traitId: number }) {
+  return writeCatalogue({
+    viewer,
+    entity: "trait",
+    action: "delete",
+    write: async (tx) => {
+      const old = await lockTrait(tx, input.traitId);
+      if (old.builtIn) throw new AppError("conflict", BUILT_IN);
+      const usage = await traitUsage(tx, old.id);
+      if (usage.codes.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is recorded in ${trialsPhrase(usage.codes)}. Take it off first.`);
+      if (usage.values > 0) throw new AppError("conflict", `${old.name} cannot be deleted because values are recorded for it.`);
+      await tx.delete(traits).where(eq(traits.id, old.id));
+      return { id: old.id, oldValue: old };
+    },
   });
 }

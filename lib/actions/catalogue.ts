@@ -1,10 +1,42 @@
 "use server";
 import { revalidatePath } from "next/cache";
 import { defineAction } from "./define-action";
-import { cropSchema, seedLotSchema, traitSchema, varietySchema } from "@/lib/validation/catalogue";
-import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
+import {
+  cropSchema,
+  deleteCropSchema,
+  deleteSeedLotSchema,
+  deleteTraitSchema,
+  deleteVarietySchema,
+  seedLotSchema,
+  traitSchema,
+  updateCropSchema,
+  updateSeedLotSchema,
+  updateTraitSchema,
+  updateVarietySchema,
+  varietySchema,
+} from "@/lib/validation/catalogue";
+import {
+  deleteCrop,
+  deleteSeedLot,
+  deleteTrait,
+  deleteVariety,
+  insertCrop,
+  insertSeedLot,
+  insertTrait,
+  insertVariety,
+  updateCrop,
+  updateSeedLot,
+  updateTrait,
+  updateVariety,
+} from "@/db/mutations/catalogue";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
+
+// Trial pages show catalogue names and lot details, so they are refreshed along with the catalogue.
+function refreshCatalogue(path = "/portal/catalogue") {
+  revalidatePath(path);
+  revalidatePath("/portal/trials", "layout");
+}
 
 export const createCrop = defineAction({ roles: STAFF, schema: cropSchema }, async (input, viewer) => {
   await insertCrop(viewer, input);
@@ -28,4 +60,52 @@ export const createTrait = defineAction({ roles: STAFF, schema: traitSchema }, a
   await insertTrait(viewer, input);
   revalidatePath("/portal/catalogue/traits");
   return { ok: true, message: `${input.name} added to the trait library.` };
+});
+
+export const editCrop = defineAction({ roles: STAFF, schema: updateCropSchema }, async (input, viewer) => {
+  await updateCrop(viewer, input);
+  refreshCatalogue();
+  return { ok: true, message: `${input.name} saved.` };
+});
+
+export const editVariety = defineAction({ roles: STAFF, schema: updateVarietySchema }, async (input, viewer) => {
+  await updateVariety(viewer, input);
+  refreshCatalogue();
+  return { ok: true, message: `${input.name} saved.` };
+});
+
+export const editSeedLot = defineAction({ roles: STAFF, schema: updateSeedLotSchema }, async (input, viewer) => {
+  await updateSeedLot(viewer, input);
+  refreshCatalogue();
+  return { ok: true, message: `Seed lot ${input.lotCode} saved.` };
+});
+
+export const editTrait = defineAction({ roles: STAFF, schema: updateTraitSchema }, async (input, viewer) => {
+  await updateTrait(viewer, input);
+  refreshCatalogue("/portal/catalogue/traits");
+  return { ok: true, message: `${input.name} saved.` };
+});
+
+export const removeCrop = defineAction({ roles: STAFF, schema: deleteCropSchema }, async (input, viewer) => {
+  await deleteCrop(viewer, input);
+  revalidatePath("/portal/catalogue");
+  return { ok: true, message: "Crop deleted." };
+});
+
+export const removeVariety = defineAction({ roles: STAFF, schema: deleteVarietySchema }, async (input, viewer) => {
+  await deleteVariety(viewer, input);
+  revalidatePath("/portal/catalogue");
+  return { ok: true, message: "Variety deleted." };
+});
+
+export const removeSeedLot = defineAction({ roles: STAFF, schema: deleteSeedLotSchema }, async (input, viewer) => {
+  await deleteSeedLot(viewer, input);
+  revalidatePath("/portal/catalogue");
+  return { ok: true, message: "Seed lot deleted." };
+});
+
+export const removeTrait = defineAction({ roles: STAFF, schema: deleteTraitSchema }, async (input, viewer) => {
+  await deleteTrait(viewer, input);
+  revalidatePath("/portal/catalogue/traits");
+  return { ok: true, message: "Trait deleted." };
 });

@@ -72,3 +72,14 @@ export const traitSchema = z
   });
 
 export type TraitInput = z.infer<typeof traitSchema>;
+
+// Edits carry the item's id with the same fields as the add forms; deletes carry only the id.
+export const updateCropSchema = cropSchema.extend({ cropId: id() });
+export const updateVarietySchema = varietySchema.extend({ varietyId: id() });
+export const updateSeedLotSchema = seedLotSchema.safeExtend({ seedLotId: id() });
+export const updateTraitSchema = traitSchema.safeExtend({ traitId: id() });
+
+export const deleteCropSchema = z.object({ cropId: id() });
+export const deleteVarietySchema = z.object({ varietyId: id() });
+export const deleteSeedLotSchema = z.object({ seedLotId: id() });
+export const deleteTraitSchema = z.object({ traitId: id() });
