@@ -11,6 +11,8 @@ export const metadata: Metadata = { title: "Catalogue" };
 export default async function CataloguePage() {
   const viewer = await requireRole("coordinator", "admin");
   const [crops, varieties, lots] = await Promise.all([listCrops(viewer), listVarieties(viewer), listSeedLots(viewer)]);
+  const cropOptions = crops.map(({ id, name }) => ({ id, name }));
+  const varietyOptions = varieties.map(({ id, name, crop }) => ({ id, name, crop }));
   return (
     <div className="space-y-6">
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -20,7 +22,7 @@ export default async function CataloguePage() {
         </Link>
       </div>
       <p className="text-loam-700">Crops, varieties and the seed lots that go into trial kits. Variety names stay with staff; growers only see blind codes.</p>
-      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
+      <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
         <Card title="Crops">
           <CropTable rows={crops} />
         </Card>
@@ -28,17 +30,17 @@ export default async function CataloguePage() {
           <CropForm />
         </Card>
         <Card title="Varieties">
-          <VarietyTable rows={varieties} />
+          <VarietyTable rows={varieties} crops={cropOptions} />
         </Card>
         <Card title="Add a variety">
-          <VarietyForm crops={crops.map(({ id, name }) => ({ id, name }))} />
+          <VarietyForm crops={cropOptions} />
         </Card>
       </div>
       <Card title="Seed lots">
-        <SeedLotTable rows={lots} />
+        <SeedLotTable rows={lots} varieties={varietyOptions} />
       </Card>
       <Card title="Record a seed lot">
-        <SeedLotForm varieties={varieties.map(({ id, name, crop }) => ({ id, name, crop }))} />
+        <SeedLotForm varieties={varietyOptions} />
       </Card>
     </div>
   );
