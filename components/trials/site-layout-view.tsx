@@ -1,4 +1,5 @@
-import type { SiteLayout } from "@/db/queries/trials";
+import type { LayoutPlot } from "@/db/queries/trials";
+import type { PlotUnit } from "@/db/schema/enums";
 import { cn } from "@/lib/cn";
 import type { Caution } from "@/lib/design/cautions";
 
@@ -11,7 +12,7 @@ function groupBy<T, K>(items: T[], key: (t: T) => K): [K, T[]][] {
 }
 
 /** The site's map on screen, drawn like the printed one: flats of twelve inserts, 72 cells, or bed rows. */
-export function SiteMap({ layout }: { layout: SiteLayout }) {
+export function SiteMap({ layout }: { layout: { plots: LayoutPlot[]; plotUnit: PlotUnit; plotSize: number } }) {
   if (layout.plots.length === 0) return <p className="text-loam-700">This site has no layout yet.</p>;
   if (layout.plotUnit === "bed_row") {
     return (

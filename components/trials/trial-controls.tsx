@@ -4,12 +4,14 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { CheckboxField } from "@/components/ui/checkbox-field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { addEntry, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/lib/actions/trials";
+import { addEntry, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/lib/actions/trials";
+import { useRefetchTrialAfter } from "./trial-data";
 import type { TrialStatus } from "@/db/schema/enums";
 import { STATUS_LABELS } from "@/lib/labels";
 
 export function AddEntryForm({ trialId, varieties }: { trialId: number; varieties: { id: number; name: string; lots: { id: number; label: string }[] }[] }) {
   const [state, action] = useActionState(addEntry, null);
+  useRefetchTrialAfter(trialId, state);
   const f = state && !state.ok ? state : null;
   const [varietyId, setVarietyId] = useState(f?.values?.varietyId ?? "");
   const lots = varieties.find((v) => String(v.id) === varietyId)?.lots ?? [];
@@ -41,6 +43,7 @@ export function AddEntryForm({ trialId, varieties }: { trialId: number; varietie
 
 export function RemoveEntryButton({ trialId, entryId, label }: { trialId: number; entryId: number; label: string }) {
   const [state, action] = useActionState(removeEntry, null);
+  useRefetchTrialAfter(trialId, state);
   return (
     <form action={action}>
       <input type="hidden" name="trialId" value={trialId} />
@@ -56,6 +59,7 @@ export function RemoveEntryButton({ trialId, entryId, label }: { trialId: number
 
 export function EnrolSiteForm({ trialId, sites }: { trialId: number; sites: { id: number; name: string; region: string }[] }) {
   const [state, action] = useActionState(enrolSite, null);
+  useRefetchTrialAfter(trialId, state);
   const f = state && !state.ok ? state : null;
   return (
     <form action={action} noValidate className="space-y-3" key={state?.ok ? `saved-${state.message}` : "editing"}>
@@ -75,8 +79,9 @@ export function EnrolSiteForm({ trialId, sites }: { trialId: number; sites: { id
   );
 }
 
-export function RandomiseButton({ trialId, siteId, again, siteName }: { trialId: number; siteId: number; again: boolean; siteName: string }) {
+export function RandomiseButton({ trialId, siteId, again, siteName, onDone }: { trialId: number; siteId: number; again: boolean; siteName: string; onDone?: () => void }) {
   const [state, action] = useActionState(randomiseSite, null);
+  useRefetchTrialAfter(trialId, state, onDone);
   return (
     <form
       action={action}
@@ -98,6 +103,7 @@ export function RandomiseButton({ trialId, siteId, again, siteName }: { trialId:
 
 export function StatusButton({ trialId, to, label }: { trialId: number; to: TrialStatus; label?: string }) {
   const [state, action] = useActionState(changeTrialStatus, null);
+  useRefetchTrialAfter(trialId, state);
   return (
     <form action={action} className="space-y-2">
       <input type="hidden" name="trialId" value={trialId} />
@@ -106,6 +112,54 @@ export function StatusButton({ trialId, to, label }: { trialId: number; to: Tria
         {label ?? `Move to “${STATUS_LABELS[to]}”`}
       </SubmitButton>
       <FormMessage state={state} />
+    </form>
+  );
+}
+
+/**
+ * Corrects a site's sowing date. Says what moves with it before the coordinator saves: due dates, and the
+ * days to emergence and harvest of values already recorded.
+ */
+export function SowingDateForm({
+  trialId,
+  siteId,
+  siteName,
+  sownOn,
+  values,
+  onDone,
+}: {
+  trialId: number;
+  siteId: number;
+  siteName: string;
+  sownOn: string | null;
+  values: number;
+  onDone: (message: string) => void;
+}) {
+  const [state, action] = useActionState(changeSowingDate, null);
+  useRefetchTrialAfter(trialId, state, () => onDone(state?.ok ? (state.message ?? "Sowing date saved.") : ""));
+  const f = state && !state.ok ? state : null;
+  const fieldId = `sown-on-${siteId}`;
+  return (
+    <form action={action} noValidate className="space-y-2 rounded-lg border border-husk-200 bg-husk-50 p-3">
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="siteId" value={siteId} />
+      <TextField
+        label={`Sowing date at ${siteName}`}
+        name="sownOn"
+        id={fieldId}
+        type="date"
+        required
+        defaultValue={f?.values?.sownOn ?? sownOn ?? ""}
+        errors={f?.fieldErrors?.sownOn}
+        hint={
+          values > 0
+            ? `Due dates move with it. Days to emergence and to harvest are counted from the sowing date, so the ${values} values already recorded here will be counted from the new date. Counts already entered stay under their day (day 5, 7 and so on).`
+            : "Due dates for counts and the dates on this site's field sheet move with it."
+        }
+      />
+      {/* A refusal about the date itself already shows under the field. */}
+      <FormMessage state={f && !f.fieldErrors?.sownOn ? state : null} />
+      <SubmitButton pendingText="Saving…">Save sowing date</SubmitButton>
     </form>
   );
 }

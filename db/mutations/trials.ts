@@ -304,7 +304,7 @@ export async function updateSowingDate(viewer: Viewer, input: { trialId: number;
       .where(eq(plots.enrolmentId, enrolment.id));
     const earliest = [recorded?.firstObserved, recorded?.firstDate].map((d) => (d ? String(d).slice(0, 10) : null)).filter((d): d is string => d !== null).sort()[0];
     if (earliest && input.sownOn > earliest) {
-      const message = `Values at this site were recorded for ${earliest}, before ${input.sownOn}. The sowing date must be on or before ${earliest}.`;
+      const message = `A value at this site is dated ${earliest}, before ${input.sownOn}. Nothing can be observed before sowing, so the sowing date must be on or before ${earliest}.`;
       throw new AppError("conflict", message, { sownOn: [message] });
     }
     if (enrolment.sownOn === input.sownOn) return { changed: false, values: recorded?.values ?? 0 };

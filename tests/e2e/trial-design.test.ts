@@ -47,10 +47,44 @@ describe("coordinator sets up a trial in the browser", () => {
         await expect.poll(() => page.getByText("Not laid out yet").count(), { timeout: 20_000 }).toBe(i + 1);
       }
 
+      // Entries, sites and layouts on this page are fetched from the JSON API and refetched after each
+      // action; a flag on the window proves the page itself was never reloaded.
+      const trialId = Number(new URL(page.url()).pathname.split("/").pop());
+      const entryCodes = (await page.getByRole("cell", { name: /^[A-Z0-9]{3}$/ }).allTextContents()).map((t) => t.trim());
+      expect(entryCodes).toHaveLength(4);
+      await page.evaluate(() => Object.assign(window, { seedplotSamePage: true }));
+      const isLayoutCall = (url: URL | string) => /^\/api\/trials\/\d+\/sites\/\d+\/layout$/.test(new URL(url).pathname);
       for (let i = 0; i < 2; i += 1) {
+        // The second site's layout first fails to load, to show the error state and its retry.
+        if (i === 1) {
+          await page.route(isLayoutCall, (route) => route.fulfill({ status: 503, contentType: "application/json", body: JSON.stringify({ error: "The database is not answering right now." }) }));
+        }
+        const trialRefetch = page.waitForResponse((r) => new URL(r.url()).pathname === `/api/trials/${trialId}` && r.request().method() === "GET" && r.ok(), { timeout: 20_000 });
         await page.getByRole("button", { name: /^Randomise/ }).first().click();
+        await trialRefetch;
         await expect.poll(() => page.getByRole("link", { name: "Layout and printables" }).count(), { timeout: 20_000 }).toBe(i + 1);
+        const layout = page.getByRole("region", { name: /^Layout of / }).nth(i);
+        if (i === 1) {
+          await layout.getByRole("alert").filter({ hasText: "The database is not answering right now." }).waitFor({ timeout: 20_000 });
+          await page.unroute(isLayoutCall);
+          const layoutFetch = page.waitForResponse((r) => isLayoutCall(r.url()) && r.ok(), { timeout: 20_000 });
+          await layout.getByRole("button", { name: "Try again" }).click();
+          await layoutFetch;
+        }
+        // Three blocks of four inserts fill one flat, each entry once per block.
+        await layout.getByRole("heading", { name: "Flat 1" }).waitFor({ timeout: 20_000 });
+        for (const code of entryCodes) expect(await layout.getByText(code, { exact: true }).count()).toBe(3);
       }
+
+      // The sowing date is set after enrolment; the site list shows it without a reload.
+      await page.getByRole("button", { name: /^Set sowing date at/ }).first().click();
+      await page.getByRole("button", { name: "Save sowing date" }).click();
+      await page.getByText("Enter the sowing date like 2027-03-18.").first().waitFor();
+      await page.getByLabel(/^Sowing date at/).fill("2027-03-18");
+      await page.getByRole("button", { name: "Save sowing date" }).click();
+      await page.getByText(/^Sowing date set to .*18 Mar 2027/).waitFor({ timeout: 20_000 });
+      await page.getByText(/^Sowing: .*18 Mar 2027/).waitFor({ timeout: 20_000 });
+      expect(await page.evaluate(() => (window as unknown as { seedplotSamePage?: boolean }).seedplotSamePage)).toBe(true);
 
       await page.getByRole("link", { name: "Layout and printables" }).first().click();
       await page.waitForURL(/\/sites\/\d+$/);
@@ -73,6 +107,39 @@ describe("coordinator sets up a trial in the browser", () => {
       await context.close();
     }
   }, 120_000);
+
+  it("edits and deletes a catalogue crop from its table, and is told plainly why a crop in use stays", async () => {
+    const { page, context } = await newPage(browser);
+    page.on("dialog", (d) => void d.accept());
+    try {
+      await signIn(page, "rosa.delgado@tamarack-valley.example", "seedplot-coordinator-demo");
+      await page.goto("/portal/catalogue");
+      const name = unique("Amaranth");
+      await page.locator("#crop-name").fill(name);
+      await page.getByLabel("Crop group").first().selectOption({ label: "Leafy greens" });
+      await page.getByRole("button", { name: "Add crop" }).click();
+      await page.getByText(`${name} added to the catalogue.`).waitFor();
+
+      await page.getByRole("button", { name: `Edit ${name}` }).click();
+      const dialog = page.getByRole("dialog", { name: `Edit ${name}` });
+      await dialog.getByLabel("Crop name").fill(`${name} Red`);
+      await dialog.getByRole("button", { name: "Save crop" }).click();
+      await page.getByRole("status").filter({ hasText: `${name} Red saved.` }).waitFor({ timeout: 20_000 });
+      await expect.poll(() => dialog.count()).toBe(0);
+      await page.getByRole("cell", { name: `${name} Red`, exact: true }).waitFor();
+
+      await page.getByRole("button", { name: `Delete ${name} Red` }).click();
+      await page.getByRole("status").filter({ hasText: "Crop deleted." }).waitFor({ timeout: 20_000 });
+      await expect.poll(() => page.getByRole("cell", { name: `${name} Red`, exact: true }).count()).toBe(0);
+
+      await page.getByRole("button", { name: "Delete Lettuce" }).click();
+      await page.getByRole("status").filter({ hasText: /Lettuce cannot be deleted because it is the crop of trials? / }).waitFor({ timeout: 20_000 });
+      await page.reload();
+      await page.getByRole("button", { name: "Delete Lettuce" }).waitFor();
+    } finally {
+      await context.close();
+    }
+  }, 90_000);
 
   it("gives a grower their own site's printables with blind codes only, and nothing of other sites", async () => {
     const { page, context } = await newPage(browser);

@@ -261,7 +261,7 @@ describe("changing a site's sowing date", () => {
     const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
     const [plot] = await db.select().from(s.plots).where(eq(s.plots.enrolmentId, enrolmentId));
     await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 4, observedOn: "2027-03-23" });
-    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-24" }), "conflict", /recorded for 2027-03-23.*on or before 2027-03-23/);
+    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-24" }), "conflict", /dated 2027-03-23.*on or before 2027-03-23/);
     expect(await sowing(enrolmentId)).toBe("2027-03-18");
     expect(await audits(trialId)).toHaveLength(0);
     expect(await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-17" })).toEqual({ changed: true, values: 1 });

@@ -6,10 +6,13 @@ import { getTrialDetail, listEnrolableSites, listEntryOptions } from "@/db/queri
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
-import { AddEntryForm, EnrolSiteForm, RandomiseButton, RemoveEntryButton, StatusButton } from "@/components/trials/trial-controls";
+import { AddEntryForm, EnrolSiteForm, StatusButton } from "@/components/trials/trial-controls";
+import { TrialEntriesCard, TrialSitesCard } from "@/components/trials/trial-panels";
+import { QueryProvider } from "@/components/ui/query-provider";
+import { asJson } from "@/lib/json";
 import { STATUS_TONE } from "@/components/trials/status-tone";
-import { DESIGN_LABELS, PLOT_UNIT_LABELS, SETUP_LABELS, STATUS_LABELS, formatDate } from "@/lib/labels";
-import { canEditDesign, canEnrolSites, canRandomiseSite, designLockReason, nextStatus } from "@/lib/design/status";
+import { DESIGN_LABELS, PLOT_UNIT_LABELS, STATUS_LABELS } from "@/lib/labels";
+import { canEditDesign, canEnrolSites, designLockReason, nextStatus } from "@/lib/design/status";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -19,7 +22,9 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   if (!trialId.success) notFound();
   const detail = await getTrialDetail(viewer, trialId.data);
   if (!detail) notFound();
-  const { trial, entries, traits, sites, progress } = detail;
+  const { trial, entries, traits, progress } = detail;
+  // Entries and sites are client components that refetch this from GET /api/trials/:id after each change.
+  const initial = asJson(detail);
   const state = { status: trial.status, ...progress };
   const editable = canEditDesign(state);
   const [varietyOptions, enrolable] = await Promise.all([
@@ -31,165 +36,96 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const plotUnit = trial.plotUnit === "bed_row" ? `bed row of ${trial.plotSize} plants` : trial.plotUnit === "cells" ? `${trial.plotSize} cells` : "one six-cell insert";
 
   return (
-    <div className="space-y-6">
-      <p className="text-sm">
-        <Link href="/portal/trials">← Trials</Link>
-      </p>
-      <div className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <h1 className="text-3xl font-bold">{trial.title}</h1>
-          <p className="text-loam-700">
-            <span className="font-mono">{trial.code}</span> · {trial.crop} · {trial.season} · {trial.program}
-          </p>
-        </div>
-        <div className="flex items-center gap-3">
-          {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
-          {progress.observationCount > 0 && <Link href={`/portal/trials/${trial.id}/analysis`}>Analysis</Link>}
-          {progress.observationCount > 0 && trial.status !== "draft" && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
-          <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
-        </div>
-      </div>
-
-      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
-        <Card title="Design">
-          <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-2">
-            <div>
-              <dt className="font-semibold">Design</dt>
-              <dd>{DESIGN_LABELS[trial.design]}</dd>
-            </div>
-            <div>
-              <dt className="font-semibold">{trial.design === "rcbd" ? "Blocks per site" : "Replicates per site"}</dt>
-              <dd>{trial.blocks}</dd>
-            </div>
-            <div>
-              <dt className="font-semibold">Plot unit</dt>
-              <dd>
-                {PLOT_UNIT_LABELS[trial.plotUnit]} ({plotUnit})
-              </dd>
-            </div>
-            <div>
-              <dt className="font-semibold">Seeds per cell</dt>
-              <dd>{trial.seedsPerCell}</dd>
-            </div>
-            {trial.purpose && (
-              <div className="sm:col-span-2">
-                <dt className="font-semibold">Purpose</dt>
-                <dd>{trial.purpose}</dd>
-              </div>
-            )}
-            <div className="sm:col-span-2">
-              <dt className="font-semibold">Traits</dt>
-              <dd>{traits.length ? traits.map((t) => t.name).join(" · ") : "None chosen yet"}</dd>
-            </div>
-          </dl>
-        </Card>
-        <Card title="Status">
-          <p className="mb-3 text-sm text-loam-700">{designLockReason(state) ?? "Entries and design can still change."}</p>
-          <div className="flex flex-wrap gap-2">
-            {next && <StatusButton trialId={trial.id} to={next} />}
-            {trial.status === "open" && progress.randomisedSites === 0 && <StatusButton trialId={trial.id} to="draft" label="Back to draft" />}
+    <QueryProvider>
+      <div className="space-y-6">
+        <p className="text-sm">
+          <Link href="/portal/trials">← Trials</Link>
+        </p>
+        <div className="flex flex-wrap items-start justify-between gap-3">
+          <div>
+            <h1 className="text-3xl font-bold">{trial.title}</h1>
+            <p className="text-loam-700">
+              <span className="font-mono">{trial.code}</span> · {trial.crop} · {trial.season} · {trial.program}
+            </p>
           </div>
-        </Card>
-      </div>
+          <div className="flex items-center gap-3">
+            {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
+            {progress.observationCount > 0 && <Link href={`/portal/trials/${trial.id}/analysis`}>Analysis</Link>}
+            {progress.observationCount > 0 && trial.status !== "draft" && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
+            <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
+          </div>
+        </div>
 
-      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
-        <Card title={`Entries and blind-code key (${entries.length})`}>
-          <p className="mb-2 text-sm text-loam-700">Only coordinators see this key. Growers see the codes only.</p>
-          {entries.length === 0 ? (
-            <p className="text-loam-700">No entries yet.</p>
-          ) : (
-            <div className="overflow-x-auto">
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">Entries with their blind codes</caption>
-                <thead className="border-b border-husk-200 text-loam-700">
-                  <tr>
-                    <th scope="col" className="py-2 pr-3">#</th>
-                    <th scope="col" className="py-2 pr-3">Code</th>
-                    <th scope="col" className="py-2 pr-3">Variety</th>
-                    <th scope="col" className="py-2 pr-3">Seed lot</th>
-                    {editable && <th scope="col" className="py-2"><span className="sr-only">Actions</span></th>}
-                  </tr>
-                </thead>
-                <tbody>
-                  {entries.map((e) => (
-                    <tr key={e.id} className="border-b border-husk-100 align-top">
-                      <td className="py-2 pr-3 tabular-nums">{e.entryNumber}</td>
-                      <td className="py-2 pr-3 font-mono text-base font-bold">{e.blindCode}</td>
-                      <td className="py-2 pr-3">
-                        {e.variety} {e.isCheck && <Badge tone="info">Check</Badge>}
-                      </td>
-                      <td className="py-2 pr-3">
-                        {e.lotCode ? `${e.source} · ${e.lotCode}` : "—"}
-                        {e.labelGerminationPct !== null && <span className="block text-loam-700">Label germination {e.labelGerminationPct}%</span>}
-                        {e.treated && <Badge tone="warn">Treated</Badge>}
-                      </td>
-                      {editable && (
-                        <td className="py-1">
-                          <RemoveEntryButton trialId={trial.id} entryId={e.id} label={e.variety} />
-                        </td>
-                      )}
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+        <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
+          <Card title="Design">
+            <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-2">
+              <div>
+                <dt className="font-semibold">Design</dt>
+                <dd>{DESIGN_LABELS[trial.design]}</dd>
+              </div>
+              <div>
+                <dt className="font-semibold">{trial.design === "rcbd" ? "Blocks per site" : "Replicates per site"}</dt>
+                <dd>{trial.blocks}</dd>
+              </div>
+              <div>
+                <dt className="font-semibold">Plot unit</dt>
+                <dd>
+                  {PLOT_UNIT_LABELS[trial.plotUnit]} ({plotUnit})
+                </dd>
+              </div>
+              <div>
+                <dt className="font-semibold">Seeds per cell</dt>
+                <dd>{trial.seedsPerCell}</dd>
+              </div>
+              {trial.purpose && (
+                <div className="sm:col-span-2">
+                  <dt className="font-semibold">Purpose</dt>
+                  <dd>{trial.purpose}</dd>
+                </div>
+              )}
+              <div className="sm:col-span-2">
+                <dt className="font-semibold">Traits</dt>
+                <dd>{traits.length ? traits.map((t) => t.name).join(" · ") : "None chosen yet"}</dd>
+              </div>
+            </dl>
+          </Card>
+          <Card title="Status">
+            <p className="mb-3 text-sm text-loam-700">{designLockReason(state) ?? "Entries and design can still change."}</p>
+            <div className="flex flex-wrap gap-2">
+              {next && <StatusButton trialId={trial.id} to={next} />}
+              {trial.status === "open" && progress.randomisedSites === 0 && <StatusButton trialId={trial.id} to="draft" label="Back to draft" />}
             </div>
-          )}
-        </Card>
-        <Card title="Add an entry">
-          {editable ? (
-            <AddEntryForm trialId={trial.id} varieties={varietyOptions.filter((v) => !taken.has(v.name))} />
-          ) : (
-            <p className="text-sm text-loam-700">{designLockReason(state)}</p>
-          )}
-        </Card>
-      </div>
+          </Card>
+        </div>
 
-      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
-        <Card title={`Sites (${sites.length})`}>
-          {sites.length === 0 ? (
-            <p className="text-loam-700">No sites enrolled yet.</p>
-          ) : (
-            <ul className="divide-y divide-husk-100">
-              {sites.map((s) => (
-                <li key={s.enrolmentId} className="flex flex-wrap items-start justify-between gap-3 py-3">
-                  <div className="text-sm">
-                    <p className="text-base font-semibold">{s.site}</p>
-                    <p className="text-loam-700">
-                      {s.region} · {SETUP_LABELS[s.growingSetup]} · grower: {s.cooperator ?? "none yet"} {s.cooperator && s.cooperatorInvited ? <Badge>Invited</Badge> : null}
-                    </p>
-                    <p className="text-loam-700">Sowing: {formatDate(s.sownOn)}</p>
-                    {s.randomisedAt ? (
-                      <p>
-                        {s.plots} plots · seed <span className="font-mono">{s.randomSeed}</span> ·{" "}
-                        <Link href={`/portal/trials/${trial.id}/sites/${s.siteId}`}>Layout and printables</Link>
-                      </p>
-                    ) : (
-                      <p className="text-marigold-800">Not laid out yet</p>
-                    )}
-                    {s.observations > 0 && <p className="text-loam-700">{s.observations} values recorded; layout is fixed.</p>}
-                  </div>
-                  {canRandomiseSite(trial, s.observations) && entries.length >= 2 && (
-                    <RandomiseButton trialId={trial.id} siteId={s.siteId} again={!!s.randomisedAt} siteName={s.site} />
-                  )}
-                </li>
-              ))}
-            </ul>
-          )}
-        </Card>
-        <Card title="Enrol a site">
-          {canEnrolSites(state) ? (
-            enrolable.length ? (
-              <EnrolSiteForm trialId={trial.id} sites={enrolable} />
+        <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
+          <TrialEntriesCard trialId={trial.id} initial={initial} />
+          <Card title="Add an entry">
+            {editable ? (
+              <AddEntryForm trialId={trial.id} varieties={varietyOptions.filter((v) => !taken.has(v.name))} />
             ) : (
-              <p className="text-sm text-loam-700">
-                Every site is enrolled. <Link href="/portal/sites">Add a site</Link>
-              </p>
-            )
-          ) : (
-            <p className="text-sm text-loam-700">Sites can no longer join this trial.</p>
-          )}
-        </Card>
+              <p className="text-sm text-loam-700">{designLockReason(state)}</p>
+            )}
+          </Card>
+        </div>
+
+        <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
+          <TrialSitesCard trialId={trial.id} initial={initial} />
+          <Card title="Enrol a site">
+            {canEnrolSites(state) ? (
+              enrolable.length ? (
+                <EnrolSiteForm trialId={trial.id} sites={enrolable} />
+              ) : (
+                <p className="text-sm text-loam-700">
+                  Every site is enrolled. <Link href="/portal/sites">Add a site</Link>
+                </p>
+              )
+            ) : (
+              <p className="text-sm text-loam-700">Sites can no longer join this trial.</p>
+            )}
+          </Card>
+        </div>
       </div>
-    </div>
+    </QueryProvider>
   );
 }
