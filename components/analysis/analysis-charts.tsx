@@ -65,9 +65,7 @@ export function InteractionChart({ combined, label, order, unit }: { combined: C
       testId="interaction-chart"
       height={360}
       build={(width) => ({
-        marginLeft: 56,
-        marginBottom: 70,
-        x: { domain: sites, label: null, tickRotate: width < 600 ? -35 : -15 },
+        ...rotatedSiteAxis(sites, width),
         y: { label: unit, grid: true, nice: true },
         ...entryScales(order),
         marks: [
@@ -77,6 +75,24 @@ export function InteractionChart({ combined, label, order, unit }: { combined: C
       })}
     />
   );
+}
+
+const SITE_TICK_CHARS = 18;
+const shortSite = (name: string) => (name.length > SITE_TICK_CHARS ? `${name.slice(0, SITE_TICK_CHARS - 1)}…` : name);
+
+/** Slanted site names on x, with margins wide enough that the first and longest names are not cut off. */
+function rotatedSiteAxis(sites: string[], width: number) {
+  const degrees = width < 600 ? 35 : 15;
+  const radians = (degrees * Math.PI) / 180;
+  const charWidth = width < 500 ? 6.4 : 7.6; // average px per character at the chart's 11 / 13 px font
+  const longest = Math.max(4, ...sites.map((s) => shortSite(s).length)) * charWidth;
+  const firstLabel = shortSite(sites[0] ?? "").length * charWidth;
+  const step = (width - 76) / Math.max(1, sites.length);
+  return {
+    marginLeft: Math.round(Math.max(56, firstLabel * Math.cos(radians) - step / 2 + 10)),
+    marginBottom: Math.round(28 + longest * Math.sin(radians)),
+    x: { domain: sites, label: null, tickRotate: -degrees, tickFormat: shortSite },
+  };
 }
 
 function siteMeanMap(combined: CombinedAnalysis) {

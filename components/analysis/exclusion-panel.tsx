@@ -1,27 +1,42 @@
 "use client";
-import { useActionState, useEffect } from "react";
+import { startTransition, useActionState, useEffect, useRef, useState } from "react";
 import { useQueryClient } from "@tanstack/react-query";
 import { excludeFromAnalysis, includeInAnalysis } from "@/lib/actions/exclusions";
 import type { AnalysisPayload } from "@/lib/analysis/types";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
+import { Button } from "@/components/ui/button";
 import { FormMessage } from "@/components/ui/form-message";
 
 export interface ExclusionTargets {
   sites: { id: number; name: string }[];
-  plots: { id: number; plotCode: string; siteName: string }[];
+  examplePlotCode: string | null;
 }
 
 /** Lists exclusions and lets a coordinator add or remove one; the analysis refetches after each change. */
 export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: AnalysisPayload; targets: ExclusionTargets }) {
   const client = useQueryClient();
-  const [state, action] = useActionState(excludeFromAnalysis, null);
+  const [state, action, excluding] = useActionState(excludeFromAnalysis, null);
   const [removeState, removeAction] = useActionState(includeInAnalysis, null);
   useEffect(() => {
     if (state?.ok || removeState?.ok) void client.invalidateQueries({ queryKey: ["analysis", trialId] });
   }, [state, removeState, client, trialId]);
   const values = state && !state.ok ? state.values : undefined;
   const errors = state && !state.ok ? state.fieldErrors : undefined;
+  const [target, setTarget] = useState("");
+  const formRef = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (!state?.ok) return;
+    formRef.current?.reset();
+    setTarget("");
+  }, [state]);
+  // Submitting through a transition rather than the form's action keeps what was typed after a
+  // refusal (a form action resets every field), so the coordinator only fixes the marked field.
+  const submit = (event: React.FormEvent<HTMLFormElement>) => {
+    event.preventDefault();
+    const data = new FormData(event.currentTarget);
+    startTransition(() => action(data));
+  };
   return (
     <div className="space-y-4">
       {result.exclusions.length === 0 ? (
@@ -51,10 +66,10 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
         </ul>
       )}
       <FormMessage state={removeState} />
-      <form action={action} className="grid gap-3 md:grid-cols-[1fr_1fr_2fr_auto] md:items-end">
+      <form ref={formRef} onSubmit={submit} className="grid gap-3 md:grid-cols-2 md:items-start xl:grid-cols-[minmax(14rem,1.2fr)_minmax(9rem,1fr)_minmax(10rem,1fr)_2fr_auto]">
         <input type="hidden" name="trialId" value={trialId} />
-        <SelectField label="Leave out" name="target" defaultValue={values?.target ?? ""} errors={errors?.target}>
-          <option value="">Choose a site or plot…</option>
+        <SelectField label="Leave out" name="target" value={target} onChange={(e) => setTarget(e.target.value)} errors={errors?.target}>
+          <option value="">Choose a site or a plot…</option>
           <optgroup label="Whole site">
             {targets.sites.map((s) => (
               <option key={s.id} value={`site:${s.id}`}>
@@ -62,14 +77,22 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
               </option>
             ))}
           </optgroup>
-          <optgroup label="One plot">
-            {targets.plots.map((p) => (
-              <option key={p.id} value={`plot:${p.id}`}>
-                {p.plotCode} · {p.siteName}
-              </option>
-            ))}
-          </optgroup>
+          <option value="plot">One plot, by its code…</option>
         </SelectField>
+        {target === "plot" ? (
+          <TextField
+            label="Plot code"
+            name="plotCode"
+            defaultValue={values?.plotCode}
+            errors={errors?.plotCode}
+            placeholder={targets.examplePlotCode ? `e.g. ${targets.examplePlotCode}` : undefined}
+            autoComplete="off"
+            spellCheck={false}
+            autoFocus
+          />
+        ) : (
+          <div aria-hidden="true" className="hidden md:block" />
+        )}
         <SelectField label="For" name="traitId" defaultValue={values?.traitId ?? "all"} errors={errors?.traitId}>
           <option value="all">All traits</option>
           {result.traits.map((t) => (
@@ -79,7 +102,9 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
           ))}
         </SelectField>
         <TextField label="Reason (kept with the record)" name="reason" defaultValue={values?.reason} errors={errors?.reason} placeholder="e.g. flooded after transplanting" />
-        <SubmitButton pendingText="Excluding…">Exclude</SubmitButton>
+        <Button type="submit" disabled={excluding} aria-disabled={excluding} className="xl:mt-6">
+          {excluding ? "Excluding…" : "Exclude"}
+        </Button>
       </form>
       <FormMessage state={state} />
     </div>

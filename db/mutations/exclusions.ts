@@ -13,11 +13,21 @@ import type { Viewer } from "@/lib/auth/types";
  */
 export async function insertExclusion(
   viewer: Viewer,
-  input: { trialId: number; siteId: number | null; plotId: number | null; traitId: number | null; reason: string },
+  request: { trialId: number; siteId: number | null; plotId: number | null; plotCode?: string | null; traitId: number | null; reason: string },
 ): Promise<number> {
-  if ((input.siteId === null) === (input.plotId === null)) throw new AppError("bad_request", "Exclude either a site or a plot.");
+  const { plotCode = null, ...fields } = request;
+  if ([fields.siteId, fields.plotId, plotCode].filter((v) => v !== null).length !== 1) throw new AppError("bad_request", "Exclude either a site or a plot.");
   return db.transaction(async (tx) => {
-    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    const trial = await lockTrialForStaff(tx, viewer, fields.trialId);
+    const input = { ...fields };
+    if (plotCode !== null) {
+      const [plot] = await tx.select({ id: plots.id }).from(plots).where(and(eq(plots.trialId, trial.id), eq(plots.plotCode, plotCode)));
+      if (!plot) {
+        const message = `There is no plot ${plotCode} in this trial. Check the code on the plot's label or the field sheet.`;
+        throw new AppError("not_found", message, { plotCode: [message] });
+      }
+      input.plotId = plot.id;
+    }
     if (input.siteId !== null) {
       const [enrolled] = await tx.select({ id: enrolments.id }).from(enrolments).where(and(eq(enrolments.trialId, trial.id), eq(enrolments.siteId, input.siteId)));
       if (!enrolled) throw new AppError("not_found", "That site is not part of this trial.");

@@ -209,21 +209,19 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
   return Object.values(first).map((v) => (v instanceof Date ? v.toISOString() : String(v ?? ""))).join("|");
 }
 
-/** Sites and plots of a trial for the exclusion form (staff only). */
+/**
+ * Sites of a trial for the exclusion form, and one plot code as an example (staff only). Plots are
+ * typed by code rather than listed: a large trial has thousands.
+ */
 export async function listExclusionTargets(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
   const trial = await scopedTrial(viewer, trialId);
   if (!trial) return null;
-  const [siteRows, plotRows] = await Promise.all([
+  const [siteRows, [example]] = await Promise.all([
     db.select({ id: sites.id, name: sites.name }).from(enrolments).innerJoin(sites, eq(sites.id, enrolments.siteId)).where(eq(enrolments.trialId, trialId)).orderBy(asc(sites.name)),
-    db
-      .select({ id: plots.id, plotCode: plots.plotCode, siteName: sites.name })
-      .from(plots)
-      .innerJoin(sites, eq(sites.id, plots.siteId))
-      .where(eq(plots.trialId, trialId))
-      .orderBy(asc(plots.plotCode)),
+    db.select({ plotCode: plots.plotCode }).from(plots).where(eq(plots.trialId, trialId)).orderBy(asc(plots.plotCode)).limit(1),
   ]);
-  return { sites: siteRows, plots: plotRows };
+  return { sites: siteRows, examplePlotCode: example?.plotCode ?? null };
 }
 
 /**

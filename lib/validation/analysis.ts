@@ -39,13 +39,27 @@ export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: A
 export const exclusionSchema = z
   .object({
     trialId: z.coerce.number().int().positive(),
-    target: z.string().regex(/^(site|plot):\d+$/, "Choose a site or a plot to exclude."),
+    target: z.string().regex(/^(site:\d+|plot:\d+|plot)$/, "Choose a site, or one plot, to exclude."),
+    plotCode: z.string().trim().max(24, "Plot codes are at most 24 characters.").optional(),
     traitId: z.preprocess((v) => (v === "" || v === "all" ? undefined : v), z.coerce.number().int().positive().optional()),
     reason: z.string().trim().min(5, "Give a reason of at least 5 characters, e.g. \"hail damage in block 2\".").max(500, "Keep the reason under 500 characters."),
   })
+  .superRefine((v, ctx) => {
+    if (v.target === "plot" && !v.plotCode) {
+      ctx.addIssue({ code: "custom", path: ["plotCode"], message: "Type the code printed on the plot's label, e.g. S1-B2-03." });
+    }
+  })
   .transform((v) => {
     const [kind, id] = v.target.split(":");
-    return { trialId: v.trialId, traitId: v.traitId ?? null, reason: v.reason, siteId: kind === "site" ? Number(id) : null, plotId: kind === "plot" ? Number(id) : null };
+    const byCode = v.target === "plot";
+    return {
+      trialId: v.trialId,
+      traitId: v.traitId ?? null,
+      reason: v.reason,
+      siteId: kind === "site" ? Number(id) : null,
+      plotId: kind === "plot" && !byCode ? Number(id) : null,
+      plotCode: byCode ? v.plotCode!.toUpperCase() : null,
+    };
   });
 
 export const removeExclusionSchema = z.object({ trialId: z.coerce.number().int().positive(), exclusionId: z.coerce.number().int().positive() });

@@ -172,6 +172,33 @@ describe("exclusions", () => {
   });
 });
 
+describe("exclusion form", () => {
+  it("finds a plot by the code on its label, and refuses an unknown code with a field message and nothing written", async () => {
+    const { exclusionSchema } = await import("@/lib/validation/analysis");
+    const [plot] = await db.select({ id: s.plots.id, plotCode: s.plots.plotCode }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
+    const typed = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: ` ${plot!.plotCode.toLowerCase()} `, traitId: "all", reason: "Rabbits ate the whole plot" });
+    expect(typed).toMatchObject({ plotId: null, siteId: null, plotCode: plot!.plotCode, traitId: null });
+    const id = await insertExclusion(coordinator, typed);
+    try {
+      const [stored] = await db.select({ plotId: s.analysisExclusions.plotId }).from(s.analysisExclusions).where(eq(s.analysisExclusions.id, id));
+      expect(stored!.plotId).toBe(plot!.id);
+    } finally {
+      await deleteExclusion(coordinator, { trialId: lettuceId, exclusionId: id });
+    }
+
+    const missingCode = exclusionSchema.safeParse({ trialId: String(lettuceId), target: "plot", plotCode: "", reason: "Rabbits ate the whole plot" });
+    expect(missingCode.success).toBe(false);
+    expect(missingCode.error!.issues[0]!.path).toEqual(["plotCode"]);
+
+    const count = async () => (await db.select({ n: sql<number>`COUNT(*)` }).from(s.analysisExclusions))[0]!.n;
+    const before = await count();
+    const unknown = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: "NO-SUCH-9", reason: "Rabbits ate the whole plot" });
+    const error = await insertExclusion(coordinator, unknown).catch((e: unknown) => e);
+    expect(error).toMatchObject({ code: "not_found", fieldErrors: { plotCode: [expect.stringMatching(/no plot NO-SUCH-9 in this trial/)] } });
+    expect(await count()).toBe(before);
+  });
+});
+
 describe("caching", () => {
   it("answers 304 to a matching If-None-Match and a new ETag after a data change", async () => {
     const first = await call(`trait=${yieldId}`);
