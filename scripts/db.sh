@@ -42,8 +42,10 @@ start() {
       die "Port $PORT on 127.0.0.1 is taken by another program; set DB_PORT to a free port."
     fi
     log "Starting MariaDB ($instance) on 127.0.0.1:$PORT"
-    # --no-defaults must come first; --user=root is required when running as root.
-    nohup mariadbd --no-defaults "${RUN_AS[@]}" --datadir="$BASE/data" --bind-address=127.0.0.1 \
+    # --no-defaults must come first; --user=root is required when running as root. setsid gives the server
+    # its own session, so it keeps running when the shell or job that started it is stopped (Ctrl-C in
+    # the terminal, or a job runner cleaning up its process group); `scripts/db.sh stop` stops it.
+    setsid mariadbd --no-defaults "${RUN_AS[@]}" --datadir="$BASE/data" --bind-address=127.0.0.1 \
       --port="$PORT" --socket="$SOCKET" --pid-file="$PIDFILE" --log-error="$BASE/error.log" \
       --skip-name-resolve --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
       --innodb-buffer-pool-size=128M --max-connections=300 >/dev/null 2>&1 &
