@@ -6,11 +6,16 @@ import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
 
 let browser: Browser;
 let lettuceId: number;
+let spinach: { id: number; plotCode: string };
 beforeAll(async () => {
   browser = await launchBrowser();
   const connection = await mysql.createConnection(process.env.E2E_DATABASE_URL ?? process.env.DATABASE_URL!);
   const [rows] = await connection.query("SELECT id FROM trials WHERE code = 'TV26-LET'");
   lettuceId = (rows as { id: number }[])[0]!.id;
+  const [plots] = await connection.query(
+    "SELECT t.id, p.plot_code AS plotCode FROM trials t JOIN plots p ON p.trial_id = t.id WHERE t.code = 'TV26-SPN' ORDER BY p.plot_code DESC LIMIT 1",
+  );
+  spinach = (plots as { id: number; plotCode: string }[])[0]!;
   await connection.end();
 });
 afterAll(async () => {
@@ -53,6 +58,31 @@ describe("trial analysis in a real browser", () => {
     // Staff can switch from blind codes to variety names.
     await page.getByLabel("Show variety names instead of blind codes").check();
     await table.getByText("Copper Ruffle").waitFor();
+    await context.close();
+  }, 90_000);
+
+  it("excludes one plot by the code on its label, refuses an unknown code, and includes it again", async () => {
+    const { page, context } = await newPage(browser);
+    await signIn(page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
+    await page.goto(`/portal/trials/${spinach.id}/analysis`);
+    const target = page.getByLabel("Leave out");
+    await target.selectOption("plot");
+    await page.getByLabel("Plot code").fill("NOPE-77");
+    await page.getByLabel("Reason (kept with the record)").fill("Slugs took the seedlings");
+    await page.getByRole("button", { name: "Exclude" }).click();
+    await page.getByText("There is no plot NOPE-77 in this trial.").first().waitFor();
+    // What was typed stays, so only the code needs fixing.
+    expect(await page.getByLabel("Reason (kept with the record)").inputValue()).toBe("Slugs took the seedlings");
+
+    await page.getByLabel("Plot code").fill(spinach.plotCode.toLowerCase());
+    await page.getByRole("button", { name: "Exclude" }).click();
+    const listed = page.getByRole("list", { name: "Exclusions" }).getByText(`Plot ${spinach.plotCode}`);
+    await listed.waitFor();
+    expect(await page.getByLabel("Leave out").inputValue()).toBe("");
+
+    const row = page.getByRole("list", { name: "Exclusions" }).locator("li", { hasText: `Plot ${spinach.plotCode}` });
+    await row.getByRole("button", { name: "Include again" }).click();
+    await page.getByText("Nothing is excluded. Every accepted plot counts.").waitFor();
     await context.close();
   }, 90_000);
 });
