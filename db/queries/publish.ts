@@ -1,23 +1,9 @@
 import "server-only";
 import { and, asc, desc, eq, isNotNull } from "drizzle-orm";
 import { db } from "../index";
-import {
-  crops,
-  enrolments,
-  programs,
-  publishedReports,
-  seasons,
-  seedLots,
-  sites,
-  siteCooperators,
-  trialEntries,
-  trialTraits,
-  traits,
-  trials,
-  users,
-  varieties,
-} from "../schema";
+import { enrolments, publishedReports, sites, siteCooperators, traits, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
+import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
 import type { Viewer } from "@/lib/auth/types";
 import { isStaff } from "@/lib/auth/permissions";
 
@@ -27,29 +13,7 @@ import { isStaff } from "@/lib/auth/permissions";
  */
 export async function getPublishContext(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
-  const [trial] = await db
-    .select({
-      id: trials.id,
-      code: trials.code,
-      title: trials.title,
-      status: trials.status,
-      purpose: trials.purpose,
-      design: trials.design,
-      blocks: trials.blocks,
-      plotUnit: trials.plotUnit,
-      plotSize: trials.plotSize,
-      protocol: trials.protocol,
-      crop: crops.name,
-      cropGroup: crops.cropGroup,
-      season: seasons.name,
-      year: seasons.year,
-      program: programs.name,
-    })
-    .from(trials)
-    .innerJoin(crops, eq(crops.id, trials.cropId))
-    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
-    .innerJoin(programs, eq(programs.id, trials.programId))
-    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+  const trial = await findStaffTrial(viewer, trialId);
   if (!trial) return null;
   const [siteRows, entryRows, traitRows] = await Promise.all([
     db
@@ -68,31 +32,23 @@ export async function getPublishContext(viewer: Viewer, trialId: number) {
       .innerJoin(sites, eq(sites.id, enrolments.siteId))
       .where(eq(enrolments.trialId, trialId))
       .orderBy(asc(sites.name)),
-    db
-      .select({
-        blindCode: trialEntries.blindCode,
-        entryNumber: trialEntries.entryNumber,
-        varietyId: varieties.id,
-        variety: varieties.name,
-        isCheck: trialEntries.isCheck,
-        seedSource: seedLots.source,
-        lotCode: seedLots.lotCode,
-        labelGermination: seedLots.labelGerminationPct,
-        treated: seedLots.treated,
-      })
-      .from(trialEntries)
-      .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
-      .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-      .where(eq(trialEntries.trialId, trialId))
-      .orderBy(asc(trialEntries.entryNumber)),
-    db
-      .select({ id: traits.id, code: traits.code, name: traits.name, unit: traits.unit, valueType: traits.valueType, description: traits.description })
-      .from(trialTraits)
-      .innerJoin(traits, eq(traits.id, trialTraits.traitId))
-      .where(eq(trialTraits.trialId, trialId))
-      .orderBy(asc(trialTraits.sortOrder)),
+    listEntriesWithLots(trialId),
+    listTrialTraits(trialId),
   ]);
-  return { trial, sites: siteRows, entries: entryRows.map((e) => ({ ...e, treated: e.treated ?? false })), traits: traitRows };
+  // Spelled out field by field: this shape is frozen into published snapshots.
+  const entries = entryRows.map((e) => ({
+    blindCode: e.blindCode,
+    entryNumber: e.entryNumber,
+    varietyId: e.varietyId,
+    variety: e.variety,
+    isCheck: e.isCheck,
+    seedSource: e.source,
+    lotCode: e.lotCode,
+    labelGermination: e.labelGerminationPct,
+    treated: e.treated ?? false,
+  }));
+  const traitList = traitRows.map((t) => ({ id: t.id, code: t.code, name: t.name, unit: t.unit, valueType: t.valueType, description: t.description }));
+  return { trial, sites: siteRows, entries, traits: traitList };
 }
 
 /** Every published version of a trial, newest first, for the coordinator's publishing page. */

@@ -3,6 +3,7 @@ import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, enrolments, observations, plots, programCoordinators, programs, seasons, seedLots, sites, trialEntries, trialTraits, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope, trialProgress } from "../access";
+import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
 import type { Viewer } from "@/lib/auth/types";
 import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
 
@@ -33,55 +34,11 @@ export async function getTrialFormOptions(viewer: Viewer) {
  */
 export async function getTrialDetail(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
-  const [trial] = await db
-    .select({
-      id: trials.id,
-      code: trials.code,
-      title: trials.title,
-      purpose: trials.purpose,
-      design: trials.design,
-      blocks: trials.blocks,
-      plotUnit: trials.plotUnit,
-      plotSize: trials.plotSize,
-      seedsPerCell: trials.seedsPerCell,
-      protocol: trials.protocol,
-      status: trials.status,
-      cropId: trials.cropId,
-      crop: crops.name,
-      season: seasons.name,
-      program: programs.name,
-    })
-    .from(trials)
-    .innerJoin(crops, eq(crops.id, trials.cropId))
-    .innerJoin(seasons, eq(seasons.id, trials.seasonId))
-    .innerJoin(programs, eq(programs.id, trials.programId))
-    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+  const trial = await findStaffTrial(viewer, trialId);
   if (!trial) return null;
   const [entryRows, traitRows, siteRows, progress] = await Promise.all([
-    db
-      .select({
-        id: trialEntries.id,
-        entryNumber: trialEntries.entryNumber,
-        blindCode: trialEntries.blindCode,
-        isCheck: trialEntries.isCheck,
-        variety: varieties.name,
-        seedLotId: seedLots.id,
-        source: seedLots.source,
-        lotCode: seedLots.lotCode,
-        labelGerminationPct: seedLots.labelGerminationPct,
-        treated: seedLots.treated,
-      })
-      .from(trialEntries)
-      .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
-      .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-      .where(eq(trialEntries.trialId, trial.id))
-      .orderBy(asc(trialEntries.entryNumber)),
-    db
-      .select({ id: traits.id, name: traits.name, unit: traits.unit, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
-      .from(trialTraits)
-      .innerJoin(traits, eq(traits.id, trialTraits.traitId))
-      .where(eq(trialTraits.trialId, trial.id))
-      .orderBy(asc(trialTraits.sortOrder)),
+    listEntriesWithLots(trial.id),
+    listTrialTraits(trial.id),
     db
       .select({
         enrolmentId: enrolments.id,
