@@ -5,16 +5,21 @@ import { auditLog, observationHistory, observations, submissions } from "../sche
 import { getRecordableEnrolment, listEnrolmentObservations, listEnrolmentPlots, listTrialColumns, type RecordableEnrolment } from "../queries/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/auth/types";
-import { crossCheckPlot, displayValue, isBlank, parseCell, sameValue, type CellValue } from "@/lib/observations/values";
+import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue } from "@/lib/observations/values";
+import type { MissingReason } from "@/lib/observations/missing";
 import type { EntryColumn } from "@/lib/observations/columns";
 import { todayIso } from "@/lib/schedule";
 
-/** One value to record: the plot by id (forms) or by its label code (spreadsheets). `row` names a spreadsheet row. */
+/**
+ * One value to record: the plot by id (forms) or by its label code (spreadsheets). `row` names a spreadsheet
+ * row. `missing` says why there is no value (forms); a spreadsheet cell says it in `raw` ("missing: died").
+ */
 export interface CellInput {
   plotId?: number;
   plotCode?: string;
   key: string;
   raw: unknown;
+  missing?: MissingReason | null;
   row?: number;
 }
 
@@ -36,6 +41,8 @@ export interface PlannedChange {
   kind: ChangeKind;
   oldValue: CellValue | null;
   newValue: CellValue | null;
+  oldReason: MissingReason | null;
+  newReason: MissingReason | null;
   observationId: number | null;
   row?: number;
 }
@@ -48,6 +55,7 @@ export interface ObservationPlan {
 }
 
 const BATCH = 500;
+const NO_VALUE: CellValue = { valueNumber: null, valueDate: null, valueText: null };
 
 /** Whether the viewer may still change this site's values (sent or accepted data is locked for growers). */
 function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: string | null) {
@@ -85,7 +93,7 @@ export async function planSiteObservations(
   const ctx = { sownOn: enrolment.sownOn, today: opts.today ?? todayIso() };
 
   const problems: Problem[] = [];
-  const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; row?: number }[] = [];
+  const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number }[] = [];
   const seen = new Map<string, number | undefined>();
   for (const cell of input.cells) {
     const plot = cell.plotId !== undefined ? byId.get(cell.plotId) : cell.plotCode !== undefined ? byCode.get(cell.plotCode.trim().toUpperCase()) : undefined;
@@ -105,9 +113,9 @@ export async function planSiteObservations(
       continue;
     }
     seen.set(slot, cell.row);
-    const parsed = parseCell(column, cell.raw, ctx);
+    const parsed = parseEntry(column, cell.raw, cell.missing, ctx);
     if (!parsed.ok) problems.push({ ...where, plotId: plot.id, plotCode: plot.plotCode, message: parsed.message });
-    else accepted.push({ plot, column, value: parsed.value, row: cell.row });
+    else accepted.push({ plot, column, value: parsed.value, reason: parsed.reason, row: cell.row });
   }
 
   // Cross-checks see the plot as it would be after the save: stored values overlaid with the new ones.
@@ -129,9 +137,10 @@ export async function planSiteObservations(
     const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
     const oldValue = old && !isBlank(old) ? { valueNumber: old.valueNumber, valueDate: old.valueDate, valueText: old.valueText } : null;
     const newValue = a.value && !isBlank(a.value) ? a.value : null;
-    const kind: ChangeKind = sameValue(oldValue, newValue) ? "unchanged" : oldValue === null ? "new" : "changed";
+    const oldReason = old?.missingReason ?? null;
+    const kind: ChangeKind = sameValue(oldValue, newValue) && oldReason === a.reason ? "unchanged" : oldValue === null && oldReason === null ? "new" : "changed";
     counts[kind] += 1;
-    changes.push({ plotId: a.plot.id, plotCode: a.plot.plotCode, column: a.column, kind, oldValue, newValue, observationId: old?.id ?? null, row: a.row });
+    changes.push({ plotId: a.plot.id, plotCode: a.plot.plotCode, column: a.column, kind, oldValue, newValue, oldReason, newReason: a.reason, observationId: old?.id ?? null, row: a.row });
   }
   problems.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
   return { enrolment, problems, changes, counts };
@@ -163,8 +172,8 @@ export async function saveSiteObservations(
       entity: "observation",
       entityId: String(observationId),
       trialId: enrolment.trialId,
-      oldValue: c.oldValue ? { plot: c.plotCode, column: c.column.key, value: displayValue(c.column, c.oldValue) } : null,
-      newValue: { plot: c.plotCode, column: c.column.key, value: displayValue(c.column, c.newValue), source: input.source },
+      oldValue: c.oldValue || c.oldReason ? { plot: c.plotCode, column: c.column.key, value: displayEntry(c.column, c.oldValue, c.oldReason) } : null,
+      newValue: { plot: c.plotCode, column: c.column.key, value: displayEntry(c.column, c.newValue, c.newReason), source: input.source },
     });
 
     const fresh = todo.filter((c) => c.observationId === null);
@@ -172,7 +181,7 @@ export async function saveSiteObservations(
       const slice = fresh.slice(i, i + BATCH);
       const ids = await tx
         .insert(observations)
-        .values(slice.map((c) => ({ plotId: c.plotId, traitId: c.column.traitId, occasion: c.column.occasion, observedOn: opts.today ?? todayIso(), ...c.newValue!, recordedById: viewer.id })))
+        .values(slice.map((c) => ({ plotId: c.plotId, traitId: c.column.traitId, occasion: c.column.occasion, observedOn: opts.today ?? todayIso(), ...(c.newValue ?? NO_VALUE), missingReason: c.newReason, recordedById: viewer.id })))
         .$returningId();
       slice.forEach((c, j) => audits.push(auditRow(c, ids[j]!.id)));
     }
@@ -180,8 +189,8 @@ export async function saveSiteObservations(
     const history = updates.map((c) => ({ observationId: c.observationId!, valueNumber: c.oldValue?.valueNumber ?? null, valueDate: c.oldValue?.valueDate ?? null, valueText: c.oldValue?.valueText ?? null, changedById: viewer.id }));
     for (let i = 0; i < history.length; i += BATCH) await tx.insert(observationHistory).values(history.slice(i, i + BATCH));
     for (const c of updates) {
-      const v = c.newValue ?? { valueNumber: null, valueDate: null, valueText: null };
-      await tx.update(observations).set({ ...v, recordedById: viewer.id, observedOn: opts.today ?? todayIso() }).where(eq(observations.id, c.observationId!));
+      // A value clears the reason and a reason clears the value; the earlier reason stays in the audit entry.
+      await tx.update(observations).set({ ...(c.newValue ?? NO_VALUE), missingReason: c.newReason, recordedById: viewer.id, observedOn: opts.today ?? todayIso() }).where(eq(observations.id, c.observationId!));
       audits.push(auditRow(c, c.observationId!));
     }
     for (let i = 0; i < audits.length; i += BATCH) await tx.insert(auditLog).values(audits.slice(i, i + BATCH));

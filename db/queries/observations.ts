@@ -6,6 +6,7 @@ import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
 import { entryColumns, type EntryColumn } from "@/lib/observations/columns";
 import type { CellValue } from "@/lib/observations/values";
+import type { MissingReason } from "@/lib/observations/missing";
 import { scheduleForSite, todayIso } from "@/lib/schedule";
 
 /** Enrolments the viewer may record for: a cooperator's own sites, or the trials a staff member manages. */
@@ -76,12 +77,13 @@ export interface StoredObservation extends CellValue {
   id: number;
   plotId: number;
   key: string;
+  missingReason: MissingReason | null;
 }
 
 /** Recorded values of an enrolment keyed by plot and column. */
 export async function listEnrolmentObservations(ex: Executor, enrolmentId: number, columns: EntryColumn[]): Promise<StoredObservation[]> {
   const rows = await ex
-    .select({ id: observations.id, plotId: observations.plotId, traitId: observations.traitId, occasion: observations.occasion, valueNumber: observations.valueNumber, valueDate: observations.valueDate, valueText: observations.valueText })
+    .select({ id: observations.id, plotId: observations.plotId, traitId: observations.traitId, occasion: observations.occasion, valueNumber: observations.valueNumber, valueDate: observations.valueDate, valueText: observations.valueText, missingReason: observations.missingReason })
     .from(observations)
     .innerJoin(plots, eq(plots.id, observations.plotId))
     .where(eq(plots.enrolmentId, enrolmentId));
@@ -89,7 +91,7 @@ export async function listEnrolmentObservations(ex: Executor, enrolmentId: numbe
   const out: StoredObservation[] = [];
   for (const r of rows) {
     const key = keyOf.get(`${r.traitId}:${r.occasion}`);
-    if (key) out.push({ id: r.id, plotId: r.plotId, key, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber), valueDate: r.valueDate, valueText: r.valueText });
+    if (key) out.push({ id: r.id, plotId: r.plotId, key, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber), valueDate: r.valueDate, valueText: r.valueText, missingReason: r.missingReason });
   }
   return out;
 }
@@ -117,11 +119,14 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
       .orderBy(asc(reviewComments.id)),
   ]);
   const values: Record<number, Record<string, CellValue>> = {};
+  const missing: Record<number, Record<string, MissingReason>> = {};
   const recorded = new Map<string, number>();
   for (const o of stored) {
     (values[o.plotId] ??= {})[o.key] = { valueNumber: o.valueNumber, valueDate: o.valueDate, valueText: o.valueText };
+    if (o.missingReason) (missing[o.plotId] ??= {})[o.key] = o.missingReason;
     const col = columns.find((c) => c.key === o.key)!;
-    if (o.valueNumber !== null || o.valueDate !== null || o.valueText !== null) recorded.set(`${col.traitId}:${col.occasion}`, (recorded.get(`${col.traitId}:${col.occasion}`) ?? 0) + 1);
+    // A plot marked missing with a reason is done for that count, just like one with a value.
+    if (o.valueNumber !== null || o.valueDate !== null || o.valueText !== null || o.missingReason) recorded.set(`${col.traitId}:${col.occasion}`, (recorded.get(`${col.traitId}:${col.occasion}`) ?? 0) + 1);
   }
   const due = scheduleForSite({
     sownOn: enrolment.sownOn,
@@ -142,6 +147,7 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
     columns,
     plots: plotRows,
     values,
+    missing,
     observationIds,
     due,
     submission: submission ?? null,

@@ -15,7 +15,7 @@ export async function saveObservationsForViewer(viewer: Viewer, body: unknown) {
     trialId,
     siteId,
     source: "form",
-    cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value })),
+    cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value, missing: v.missingReason ?? null })),
   });
   return { ok: true as const, saved: result.saved, counts: result.counts };
 }

@@ -1,4 +1,5 @@
 import type { EntryColumn } from "./columns";
+import { missingCell, parseMissingText, type MissingReason } from "./missing";
 
 // Turning what a grower typed (or a spreadsheet cell) into a stored value, with messages a grower
 // understands. Pure, so the browser gives the same answer as the server, which always re-checks.
@@ -205,4 +206,26 @@ export function displayValue(c: Pick<EntryColumn, "valueType">, v: CellValue | n
   if (c.valueType === "text") return v.valueText ?? "";
   if (c.valueType === "yes_no") return v.valueNumber === null ? "" : v.valueNumber ? "yes" : "no";
   return v.valueNumber === null ? "" : String(v.valueNumber);
+}
+
+export const VALUE_AND_REASON_MESSAGE = "Enter a value or choose why there is none, not both.";
+
+export type EntryResult = { ok: true; value: CellValue | null; reason: MissingReason | null } | { ok: false; message: string };
+
+/**
+ * Parses what one field or cell holds: a value, or no value with the reason why. The reason comes from the
+ * form's own choice or from a cell written like "missing: died"; both at once is refused.
+ */
+export function parseEntry(c: EntryColumn, raw: unknown, reason: MissingReason | null | undefined, ctx: ParseContext): EntryResult {
+  const blank = raw === null || raw === undefined || (typeof raw === "string" && raw.trim() === "");
+  if (reason) return blank ? { ok: true, value: null, reason } : { ok: false, message: VALUE_AND_REASON_MESSAGE };
+  const missing = parseMissingText(raw);
+  if (missing) return missing.ok ? { ok: true, value: null, reason: missing.reason } : missing;
+  const parsed = parseCell(c, raw, ctx);
+  return parsed.ok ? { ok: true, value: parsed.value, reason: null } : parsed;
+}
+
+/** A value or its missing reason as a spreadsheet cell or audit entry writes it. */
+export function displayEntry(c: Pick<EntryColumn, "valueType">, v: CellValue | null, reason: MissingReason | null | undefined): string {
+  return reason ? missingCell(reason) : displayValue(c, v);
 }

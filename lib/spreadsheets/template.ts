@@ -1,6 +1,8 @@
 import ExcelJS from "exceljs";
 import { describeRange, type EntryColumn } from "@/lib/observations/columns";
 import { displayValue, type CellValue } from "@/lib/observations/values";
+import { MISSING_REASONS } from "@/db/schema/enums";
+import { missingCell, missingWordsList, type MissingReason } from "@/lib/observations/missing";
 import { addDays } from "@/lib/schedule";
 import { TRAIT_TYPE_LABELS } from "@/lib/labels";
 import { FIXED_HEADINGS, PLOT_SHEET } from "./read";
@@ -14,21 +16,33 @@ export interface TemplateInput {
   columns: EntryColumn[];
   plots: { id: number; plotCode: string; block: number; blindCode: string }[];
   values: Record<number, Record<string, CellValue>>;
+  /** Why a plot has no value, by plot id and column key. */
+  missing: Record<number, Record<string, MissingReason>>;
 }
 
-function validationFor(c: EntryColumn, sownOn: string | null): ExcelJS.DataValidation | null {
-  const error = `Enter ${describeRange(c)}.`;
-  const base = { allowBlank: true, showErrorMessage: true, errorStyle: "stop", errorTitle: c.name, error, showInputMessage: true, promptTitle: c.name, prompt: describeRange(c) } as const;
+const MISSING_HINT = `or missing: and why (${missingWordsList()})`;
+
+/**
+ * Excel checks each cell as it is typed: a value in range, or text starting with "missing" (the upload then
+ * checks the reason word). Custom formulas are relative to the cell they sit on, so `ref` is that cell.
+ */
+function validationFor(c: EntryColumn, sownOn: string | null, ref: string): ExcelJS.DataValidation | null {
+  const error = `Enter ${describeRange(c)}, ${MISSING_HINT}.`;
+  const base = { allowBlank: true, showErrorMessage: true, errorStyle: "stop", errorTitle: c.name, error, showInputMessage: true, promptTitle: c.name, prompt: `${describeRange(c)}, ${MISSING_HINT}` } as const;
+  const missing = `LEFT(TRIM(${ref}),7)="missing"`;
+  const numeric = (checks: string[]) => ({ ...base, type: "custom" as const, formulae: [`OR(${missing},AND(ISNUMBER(${ref}),${checks.join(",")}))`] });
   switch (c.valueType) {
     case "count":
     case "rating":
-      return { ...base, type: "whole", operator: "between", formulae: [c.min ?? 0, c.max ?? 1_000_000] };
+      return numeric([`${ref}=INT(${ref})`, `${ref}>=${c.min ?? 0}`, `${ref}<=${c.max ?? 1_000_000}`]);
     case "number":
-      return { ...base, type: "decimal", operator: "between", formulae: [c.min ?? -1_000_000, c.max ?? 1_000_000] };
-    case "date":
-      return sownOn ? { ...base, type: "date", operator: "greaterThanOrEqual", formulae: [new Date(`${sownOn}T00:00:00Z`)] } : { ...base, type: "date", operator: "greaterThan", formulae: [new Date("2000-01-01T00:00:00Z")] };
+      return numeric([`${ref}>=${c.min ?? -1_000_000}`, `${ref}<=${c.max ?? 1_000_000}`]);
+    case "date": {
+      const [y, m, d] = (sownOn ?? "2000-01-02").split("-").map(Number);
+      return numeric([`${ref}>=DATE(${y},${m},${d})`]);
+    }
     case "yes_no":
-      return { ...base, type: "list", formulae: ['"yes,no"'] };
+      return { ...base, type: "list", formulae: [`"${["yes", "no", ...MISSING_REASONS.map(missingCell)].join(",")}"`] };
     case "text":
       return { ...base, type: "textLength", operator: "lessThanOrEqual", formulae: [1000] };
   }
@@ -52,7 +66,9 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
     const cells: (string | number | Date | null)[] = [p.plotCode, p.block, p.blindCode];
     for (const c of t.columns) {
       const v = t.values[p.id]?.[c.key] ?? null;
-      if (!v) cells.push(null);
+      const reason = t.missing[p.id]?.[c.key];
+      if (reason) cells.push(missingCell(reason));
+      else if (!v) cells.push(null);
       else if (c.valueType === "date" && v.valueDate) cells.push(new Date(`${v.valueDate}T00:00:00Z`));
       else if (c.valueType === "text" || c.valueType === "yes_no") cells.push(neutraliseCell(displayValue(c, v)));
       else cells.push(v.valueNumber);
@@ -62,7 +78,7 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   for (let r = 2; r <= t.plots.length + 1; r += 1) {
     t.columns.forEach((c, i) => {
       const cell = ws.getCell(r, FIXED_HEADINGS.length + i + 1);
-      const dv = validationFor(c, t.sownOn);
+      const dv = validationFor(c, t.sownOn, cell.address);
       if (dv) cell.dataValidation = dv;
       if (c.valueType === "date") cell.numFmt = "yyyy-mm-dd";
     });
@@ -81,6 +97,8 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   dict.addRow([]);
   dict.addRow([`${t.trialCode} · ${t.trialTitle} · ${t.siteName}${t.sownOn ? ` · sown ${t.sownOn}` : ""}`]);
   dict.addRow(["Leave a cell empty when the value is not recorded. Dates as YYYY-MM-DD. Do not rename, add or remove columns, merge cells or use formulas."]);
+  dict.addRow([`A plot that will never have a value: write missing: and why in its cell instead, for example "missing: died". The reasons are ${missingWordsList()}.`]);
+  dict.addRow(["A value typed over a missing: cell replaces the reason, and a missing: cell replaces a value recorded before."]);
   dict.columns = [{ width: 40 }, { width: 30 }, { width: 14 }, { width: 14 }, { width: 30 }, { width: 34 }];
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
@@ -91,6 +109,8 @@ export function buildCsvExport(t: TemplateInput, line: (cells: (string | number 
   for (const p of t.plots) {
     out.push(line([p.plotCode, p.block, p.blindCode, ...t.columns.map((c) => {
       const v = t.values[p.id]?.[c.key] ?? null;
+      const reason = t.missing[p.id]?.[c.key];
+      if (reason) return missingCell(reason);
       if (!v) return null;
       return c.valueType === "count" || c.valueType === "number" || c.valueType === "rating" ? v.valueNumber : displayValue(c, v);
     })]));

@@ -4,7 +4,7 @@ import type { Viewer } from "@/lib/auth/types";
 import { getRecordingSheet } from "@/db/queries/observations";
 import { planSiteObservations, saveSiteObservations, type CellInput } from "@/db/mutations/observations";
 import { db } from "@/db/index";
-import { displayValue } from "@/lib/observations/values";
+import { displayEntry } from "@/lib/observations/values";
 import { readUpload, type ReadResult } from "./read";
 import { inspectUpload, UploadRefused } from "./safety";
 
@@ -90,7 +90,7 @@ async function analyse(viewer: Viewer, t: UploadTarget) {
   const changes = plan.changes
     .filter((c) => c.kind !== "unchanged")
     .slice(0, MAX_PREVIEW_CHANGES)
-    .map((c) => ({ row: c.row ?? null, plotCode: c.plotCode, column: c.column.heading, kind: c.kind, oldValue: displayValue(c.column, c.oldValue), newValue: displayValue(c.column, c.newValue) }));
+    .map((c) => ({ row: c.row ?? null, plotCode: c.plotCode, column: c.column.heading, kind: c.kind, oldValue: displayEntry(c.column, c.oldValue, c.oldReason), newValue: displayEntry(c.column, c.newValue, c.newReason) }));
   return {
     cells: prep.cells,
     preview: {

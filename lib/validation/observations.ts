@@ -1,5 +1,7 @@
 import { z } from "zod";
 import { idParam } from "./common";
+import { MISSING_REASONS } from "@/db/schema/enums";
+import { VALUE_AND_REASON_MESSAGE } from "@/lib/observations/values";
 
 // Requests from the data-entry form and the review page. Values stay strings here: how a string becomes a
 // count, date or rating depends on the trait, which lib/observations/values.ts decides with the trait row.
@@ -9,11 +11,15 @@ export const saveObservationsSchema = z.object({
   siteId: idParam,
   values: z
     .array(
-      z.object({
-        plotId: z.number({ error: "Each value needs its plot." }).int().positive(),
-        key: z.string().min(1).max(80),
-        value: z.string().max(2000, "That value is too long.").nullable(),
-      }),
+      z
+        .object({
+          plotId: z.number({ error: "Each value needs its plot." }).int().positive(),
+          key: z.string().min(1).max(80),
+          value: z.string().max(2000, "That value is too long.").nullable(),
+          // Why the plot has no value; sending null with no value clears both.
+          missingReason: z.enum(MISSING_REASONS, { error: "Choose one of the listed reasons." }).nullable().optional(),
+        })
+        .refine((v) => !(v.missingReason && v.value !== null && v.value.trim() !== ""), { error: VALUE_AND_REASON_MESSAGE }),
     )
     .min(1, "There is nothing to save.")
     .max(1000, "Save at most 1,000 values at a time."),

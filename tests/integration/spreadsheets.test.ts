@@ -66,8 +66,10 @@ describe("spreadsheet template", () => {
     expect(header).toContain("Overall quality [1-9]");
     expect(ws.getColumn(1).values.slice(2)).toEqual(willow.plots.map((p) => p.plotCode));
     const q = ws.getCell(2, col("quality")).dataValidation;
-    expect(q).toMatchObject({ type: "whole", operator: "between", formulae: [1, 9] });
-    expect(ws.getCell(2, col("harvest_date")).dataValidation?.type).toBe("date");
+    // Whole numbers 1 to 9, or a "missing: ..." cell saying why there is no value.
+    const at = ws.getCell(2, col("quality")).address;
+    expect(q).toMatchObject({ type: "custom", formulae: [`OR(LEFT(TRIM(${at}),7)="missing",AND(ISNUMBER(${at}),${at}=INT(${at}),${at}>=1,${at}<=9))`] });
+    expect(ws.getCell(2, col("harvest_date")).dataValidation?.formulae?.[0]).toMatch(/ISNUMBER\([A-Z]+2\),[A-Z]+2>=DATE\(\d{4},\d{1,2},\d{1,2}\)/);
     // Values already recorded come pre-filled, so the sheet can be corrected and uploaded again.
     expect(ws.getCell(2, col("emergence_count@5")).value).toEqual(expect.any(Number));
     const dict = wb.getWorksheet("Data dictionary")!;
