@@ -5,6 +5,7 @@ import { cn } from "@/lib/cn";
 import { describeRange, type EntryColumn } from "@/lib/observations/columns";
 import { parseCell } from "@/lib/observations/values";
 import { Button } from "@/components/ui/button";
+import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/observations/missing";
 
 export interface EntryPlot {
   id: number;
@@ -20,10 +21,15 @@ interface Pending {
   plotId: number;
   key: string;
   value: string;
+  /** Why there is no value; absent in items queued before reasons existed. */
+  reason?: MissingReason | null;
 }
 
 const RETRY_MS = 20_000;
 const slotOf = (plotId: number, key: string) => `${plotId}:${key}`;
+// What a slot holds, value or reason, as one comparable string (a value can never start with a NUL).
+const tokenOf = (value: string, reason: MissingReason | null | undefined) => (reason ? `\u0000${reason}` : value);
+const REASON_OPTIONS = Object.entries(MISSING_REASON_LABELS) as [MissingReason, string][];
 
 /**
  * Plot-by-plot entry in layout order. Every value is saved on its own as soon as the grower leaves the
@@ -36,6 +42,8 @@ export function EntryForm(props: {
   columns: EntryColumn[];
   plots: EntryPlot[];
   initial: Record<string, string>;
+  /** Why a slot has no value, by `plotId:key`. */
+  initialReasons: Record<string, MissingReason>;
   defaultColumn: string;
   sownOn: string | null;
   today: string;
@@ -50,7 +58,12 @@ export function EntryForm(props: {
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [queue, setQueue] = useState<Record<string, Pending>>({});
   const [notice, setNotice] = useState<string | null>(null);
-  const saved = useRef<Record<string, string>>({ ...props.initial });
+  const [reasons, setReasons] = useState<Record<string, MissingReason>>(props.initialReasons);
+  const [askWhy, setAskWhy] = useState<Record<string, boolean>>({});
+  const saved = useRef<Record<string, string>>({
+    ...props.initial,
+    ...Object.fromEntries(Object.entries(props.initialReasons).map(([slot, r]) => [slot, tokenOf("", r)])),
+  });
   const inFlight = useRef(new Set<string>());
 
   const shown = useMemo(() => (choice === "all" ? columns : columns.filter((c) => c.key === choice)), [choice, columns]);
@@ -88,10 +101,10 @@ export function EntryForm(props: {
         const res = await fetch("/api/observations", {
           method: "POST",
           headers: { "Content-Type": "application/json" },
-          body: JSON.stringify({ trialId, siteId, values: [{ plotId: item.plotId, key: item.key, value: item.value === "" ? null : item.value }] }),
+          body: JSON.stringify({ trialId, siteId, values: [{ plotId: item.plotId, key: item.key, value: item.value === "" ? null : item.value, missingReason: item.reason ?? null }] }),
         });
         if (res.ok) {
-          saved.current[slot] = item.value;
+          saved.current[slot] = tokenOf(item.value, item.reason);
           setStatus((s) => ({ ...s, [slot]: "saved" }));
           setErrors((e) => {
             const { [slot]: _gone, ...rest } = e;
@@ -99,7 +112,7 @@ export function EntryForm(props: {
           });
           updateQueue((q) => {
             // A newer value typed while this one was in flight stays queued.
-            if (q[slot]?.value !== item.value) return q;
+            if (!q[slot] || tokenOf(q[slot].value, q[slot].reason) !== tokenOf(item.value, item.reason)) return q;
             const { [slot]: _done, ...rest } = q;
             return rest;
           });
@@ -146,6 +159,14 @@ export function EntryForm(props: {
     if (Object.keys(stored).length > 0) {
       setQueue(stored);
       setInputs((i) => ({ ...i, ...Object.fromEntries(Object.entries(stored).map(([k, v]) => [k, v.value])) }));
+      setReasons((r) => {
+        const next = { ...r };
+        for (const [k, v] of Object.entries(stored)) {
+          if (isMissingReason(v.reason)) next[k] = v.reason;
+          else delete next[k];
+        }
+        return next;
+      });
       setStatus((s) => ({ ...s, ...Object.fromEntries(Object.keys(stored).map((k) => [k, "queued" as const])) }));
       for (const item of Object.values(stored)) void send(item);
     }
@@ -159,8 +180,16 @@ export function EntryForm(props: {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
 
+  function enqueue(item: Pending) {
+    const slot = slotOf(item.plotId, item.key);
+    updateQueue((q) => ({ ...q, [slot]: item }));
+    void send(item);
+  }
+
   function commit(plotId: number, column: EntryColumn, value: string) {
     const slot = slotOf(plotId, column.key);
+    // Leaving an empty field keeps a reason already chosen; typing a value replaces it.
+    if (value === "" && reasons[slot]) return;
     if ((saved.current[slot] ?? "") === value && !queue[slot]) return;
     const parsed = parseCell(column, value, { sownOn: props.sownOn, today: props.today });
     if (!parsed.ok) {
@@ -172,9 +201,28 @@ export function EntryForm(props: {
       const { [slot]: _ok, ...rest } = e;
       return rest;
     });
-    const item = { plotId, key: column.key, value };
-    updateQueue((q) => ({ ...q, [slot]: item }));
-    void send(item);
+    setReasons((r) => {
+      const { [slot]: _replaced, ...rest } = r;
+      return rest;
+    });
+    enqueue({ plotId, key: column.key, value, reason: null });
+  }
+
+  function chooseReason(plotId: number, column: EntryColumn, choice: string) {
+    const slot = slotOf(plotId, column.key);
+    const reason = isMissingReason(choice) ? choice : null;
+    setReasons((r) => {
+      const { [slot]: _old, ...rest } = r;
+      return reason ? { ...rest, [slot]: reason } : rest;
+    });
+    // A reason replaces the value; choosing no reason leaves the field empty for a value.
+    setInputs((i) => ({ ...i, [slot]: "" }));
+    setErrors((e) => {
+      const { [slot]: _ok, ...rest } = e;
+      return rest;
+    });
+    if ((saved.current[slot] ?? "") === tokenOf("", reason) && !queue[slot]) return;
+    enqueue({ plotId, key: column.key, value: "", reason });
   }
 
   function focusNext(current: HTMLElement) {
@@ -242,13 +290,15 @@ export function EntryForm(props: {
                 const id = `v-${p.id}-${c.key.replace(/[^A-Za-z0-9]/g, "_")}`;
                 const st = status[slot];
                 const err = errors[slot];
+                const reason = reasons[slot];
+                const whyId = `${id}-why`;
                 const common = {
                   id,
                   "data-entry-input": "",
                   disabled: !!props.locked,
                   "aria-invalid": err ? true : undefined,
                   "aria-describedby": `${id}-state`,
-                  className: cn("block min-h-12 w-full rounded-lg border bg-white px-3 text-lg", err ? "border-beet-600" : "border-loam-300"),
+                  className: cn("block min-h-12 w-full rounded-lg border px-3 text-lg", err ? "border-beet-600" : "border-loam-300", reason ? "bg-husk-100" : "bg-white"),
                 };
                 return (
                   <div key={c.key}>
@@ -271,6 +321,7 @@ export function EntryForm(props: {
                         autoComplete="off"
                         enterKeyHint="next"
                         value={inputs[slot] ?? ""}
+                        placeholder={reason ? "No value" : undefined}
                         onChange={(e) => setInputs((i) => ({ ...i, [slot]: e.target.value }))}
                         onBlur={(e) => commit(p.id, c, e.target.value)}
                         onKeyDown={(e) => {
@@ -282,10 +333,46 @@ export function EntryForm(props: {
                         }}
                       />
                     )}
-                    <p id={`${id}-state`} className={cn("mt-1 min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
-                      {err ??
-                        (st === "saving" ? "Saving…" : st === "saved" ? "Saved" : st === "queued" ? "Not saved yet — will retry" : choice === "all" ? describeRange(c) : "")}
-                    </p>
+                    <div className="mt-1 flex items-start justify-between gap-2">
+                      <p id={`${id}-state`} className={cn("min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
+                        {err ??
+                          (st === "saving" ? "Saving…" : st === "saved" ? "Saved" : st === "queued" ? "Not saved yet — will retry" : choice === "all" && !reason ? describeRange(c) : "")}
+                      </p>
+                      {!reason && !askWhy[slot] && !props.locked && (
+                        <button
+                          type="button"
+                          className="-my-3 min-h-11 shrink-0 rounded-lg px-2 text-sm font-semibold text-sky-800 underline underline-offset-2 hover:bg-sky-100"
+                          aria-label={`${p.plotCode}: no ${c.name} value? Say why`}
+                          onClick={() => {
+                            setAskWhy((a) => ({ ...a, [slot]: true }));
+                            requestAnimationFrame(() => document.getElementById(whyId)?.focus());
+                          }}
+                        >
+                          No value?
+                        </button>
+                      )}
+                    </div>
+                    {(reason || askWhy[slot]) && (
+                      <div className="mt-1">
+                        <label htmlFor={whyId} className="block text-sm font-semibold text-loam-900">
+                          <span className="sr-only">{p.plotCode}, {c.name}: </span>No value because
+                        </label>
+                        <select
+                          id={whyId}
+                          value={reason ?? ""}
+                          disabled={!!props.locked}
+                          onChange={(e) => chooseReason(p.id, c, e.target.value)}
+                          className={cn("mt-1 block min-h-11 w-full rounded-lg border px-3 text-base", reason ? "border-marigold-400 bg-marigold-100 text-marigold-800" : "border-loam-300 bg-white")}
+                        >
+                          <option value="">— there is a value —</option>
+                          {REASON_OPTIONS.map(([r, label]) => (
+                            <option key={r} value={r}>
+                              {label}
+                            </option>
+                          ))}
+                        </select>
+                      </div>
+                    )}
                   </div>
                 );
               })}

@@ -73,12 +73,22 @@ describe("a grower records a day's counts on a phone", () => {
     await context.setOffline(false);
     await page.getByText("Values save as you go.").waitFor({ timeout: 30_000 });
 
+    // A plot with no value gets a reason instead.
+    const id5 = await inputs.nth(5).getAttribute("id");
+    const plot5 = page.locator("li", { has: page.locator(`#${id5}`) });
+    const state5 = page.locator(`#${id5}-state`);
+    await plot5.getByRole("button", { name: /value\? Say why$/ }).click();
+    await plot5.getByLabel(/No value because/).selectOption({ label: "Eaten or damaged by animals" });
+    await expect.poll(() => state5.textContent(), { timeout: 15_000 }).toBe("Saved");
+
     await page.reload();
     await inputs.first().waitFor();
     expect(await page.getByLabel("What are you recording?").inputValue()).toBe(chosen);
     for (let i = 0; i < values.length; i += 1) expect(await inputs.nth(i).inputValue()).toBe(values[i]);
     expect(await inputs.nth(3).inputValue()).toBe("");
     expect(await inputs.nth(4).inputValue()).toBe("2");
+    expect(await inputs.nth(5).inputValue()).toBe("");
+    expect(await plot5.getByLabel(/No value because/).inputValue()).toBe("animal_damage");
     await context.close();
   }, 90_000);
 });

@@ -6,6 +6,7 @@ import { idParam } from "@/lib/validation/common";
 import { EntryForm } from "@/components/record/entry-form";
 import { DuePanel, lockMessage, SiteHeader } from "@/components/record/site-panels";
 import { displayValue } from "@/lib/observations/values";
+import type { MissingReason } from "@/lib/observations/missing";
 import { buttonClasses } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { SubmitForReviewForm } from "@/components/review/review-forms";
@@ -32,6 +33,10 @@ export default async function RecordSitePage({ params, searchParams }: { params:
       const col = sheet.columns.find((c) => c.key === key);
       if (col) initial[`${plotId}:${key}`] = displayValue(col, v);
     }
+  }
+  const initialReasons: Record<string, MissingReason> = {};
+  for (const [plotId, byKey] of Object.entries(sheet.missing)) {
+    for (const [key, r] of Object.entries(byKey)) initialReasons[`${plotId}:${key}`] = r;
   }
   // Open the form on the oldest late count, else today's, else the first column.
   const pending = sheet.due.find((d) => d.status === "late") ?? sheet.due.find((d) => d.status === "due_today");
@@ -86,6 +91,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           columns={sheet.columns}
           plots={plots}
           initial={initial}
+          initialReasons={initialReasons}
           defaultColumn={plotFilter.success ? "all" : defaultColumn}
           sownOn={sheet.enrolment.sownOn}
           today={sheet.today}
