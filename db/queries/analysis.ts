@@ -183,7 +183,8 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
  * A short fingerprint of everything an analysis of the trial reads (the given traits' observations, submission
  * statuses, sowing dates, entries and seed lots, exclusions). It changes whenever the data do, so it
  * serves as the cache key and ETag. Value sums are part of it because timestamps have whole-second
- * resolution and two edits can land in the same second. Null when the trial is not the viewer's.
+ * resolution and two edits can land in the same second (a reason counts by its enum index
+ * weighted by the row id, so changing one reason for another changes the version too). Null when the trial is not the viewer's.
  */
 export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitIds: number[]): Promise<string | null> {
   const trial = await scopedTrial(viewer, trialId);
@@ -194,7 +195,7 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
   const traitFilter = traitIds.length > 0 ? sql`AND o.trait_id IN (${sql.join(traitIds.map((id) => sql`${id}`), sql`, `)})` : sql``;
   const [row] = await db.execute<Record<string, unknown>[]>(sql`
     SELECT
-      (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(o.updated_at), ''), '/', COALESCE(SUM(o.id), 0), '/', COALESCE(SUM(o.value_number), 0), '/', COALESCE(SUM(TO_DAYS(o.value_date)), 0), '/', COALESCE(SUM(o.missing_reason IS NOT NULL), 0))
+      (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(o.updated_at), ''), '/', COALESCE(SUM(o.id), 0), '/', COALESCE(SUM(o.value_number), 0), '/', COALESCE(SUM(TO_DAYS(o.value_date)), 0), '/', COALESCE(SUM(o.id * (o.missing_reason + 0)), 0))
          FROM observations o JOIN plots p ON p.id = o.plot_id WHERE p.trial_id = ${trialId} ${plotFilter} ${traitFilter}) AS obs,
       (SELECT COALESCE(GROUP_CONCAT(CONCAT(e.id, ':', COALESCE(e.sown_on, ''), ':', COALESCE(e.transplanted_on, ''), ':', COALESCE(s.status, ''), ':', COALESCE(s.updated_at, ''), ':', e.results_shared) ORDER BY e.id), '')
          FROM enrolments e LEFT JOIN submissions s ON s.enrolment_id = e.id WHERE e.trial_id = ${trialId} ${enrolmentFilter}) AS sites,

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { and, desc, eq, inArray } from "drizzle-orm";
+import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
@@ -12,6 +12,7 @@ import { csvExportForViewer, templateForViewer } from "@/lib/spreadsheets/files"
 import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
 import { parseCsv } from "@/lib/spreadsheets/csv";
 import { loadAnalysis } from "@/lib/analysis-service";
+import { getAnalysisVersion } from "@/db/queries/analysis";
 
 const { db, pool } = testDatabase();
 let mei: Viewer;
@@ -117,6 +118,13 @@ describe("saying why a plot has no value, on the phone form", () => {
     const loaded = await loadAnalysis(rosa, cedar.trialId, { trait: cedar.traitId.marketable_yield!, unaccepted: true });
     const row = loaded!.result.missing.find((m) => m.plotCode === plot.plotCode);
     expect(row).toMatchObject({ siteName: "Cedar Hollow Market Garden", reason: "label lost" });
+
+    // One reason swapped for another within the same second (updated_at kept) still gives a new version,
+    // so the cached analysis is not served with the old words.
+    const traits = [cedar.traitId.marketable_yield!];
+    const before = await getAnalysisVersion(rosa, cedar.trialId, traits);
+    await db.update(s.observations).set({ missingReason: "weather", updatedAt: sql`updated_at` }).where(and(eq(s.observations.plotId, plot.id), eq(s.observations.traitId, traits[0]!)));
+    expect(await getAnalysisVersion(rosa, cedar.trialId, traits)).not.toBe(before);
   });
 });
 
