@@ -2,6 +2,7 @@ import Link from "next/link";
 import { cn } from "@/lib/cn";
 import { Badge } from "@/components/ui/badge";
 import { displayValue } from "@/lib/observations/values";
+import { MISSING_REASON_LABELS, MISSING_REASON_WORDS } from "@/lib/observations/missing";
 import { formatDate } from "@/lib/labels";
 import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
 import type { ReviewSheet, listReviewQueue } from "@/db/queries/review";
@@ -88,6 +89,10 @@ export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
                         <Link href={`${base}?plot=${p.id}&key=${encodeURIComponent(c.key)}#comment`} className="text-inherit no-underline" aria-label={`Comment on ${p.plotCode} ${c.name}: ${value}${flag ? ` (flagged: ${flag.message})` : ""}`}>
                           {value}
                         </Link>
+                      ) : sheet.missing[p.id]?.[c.key] ? (
+                        <span className="whitespace-nowrap text-sm italic text-loam-700" aria-label={`${p.plotCode} ${c.name}: no value, ${MISSING_REASON_LABELS[sheet.missing[p.id]![c.key]!]}`}>
+                          none: {MISSING_REASON_WORDS[sheet.missing[p.id]![c.key]!]}
+                        </span>
                       ) : (
                         <span className="text-loam-500">·</span>
                       )}

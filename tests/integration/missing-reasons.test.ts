@@ -7,6 +7,7 @@ import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/auth/types";
 import { saveObservationsForViewer } from "@/lib/observations/api";
 import { getRecordingSheet } from "@/db/queries/observations";
+import { getReviewSheet } from "@/db/queries/review";
 import { isAppError } from "@/lib/errors";
 import { csvExportForViewer, templateForViewer } from "@/lib/spreadsheets/files";
 import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
@@ -125,6 +126,25 @@ describe("saying why a plot has no value, on the phone form", () => {
     const before = await getAnalysisVersion(rosa, cedar.trialId, traits);
     await db.update(s.observations).set({ missingReason: "weather", updatedAt: sql`updated_at` }).where(and(eq(s.observations.plotId, plot.id), eq(s.observations.traitId, traits[0]!)));
     expect(await getAnalysisVersion(rosa, cedar.trialId, traits)).not.toBe(before);
+  });
+});
+
+describe("saying why a plot has no value, in review", () => {
+  it("counts a reason as dealt with in the coordinator's completeness figure", async () => {
+    let plot = cedar.plots[0]!;
+    for (const candidate of cedar.plots) {
+      if (!(await stored(candidate.id, "marketable_yield"))) {
+        plot = candidate;
+        break;
+      }
+    }
+    expect(await stored(plot.id, "marketable_yield")).toBeNull();
+    const before = (await getReviewSheet(rosa, cedar))!.completeness;
+    await save([{ plotId: plot.id, key: "marketable_yield", value: null, missingReason: "weather" }]);
+    const after = (await getReviewSheet(rosa, cedar))!;
+    expect(after.completeness.expected).toBe(before.expected);
+    expect(after.completeness.recorded).toBe(before.recorded + 1);
+    expect(after.missing[plot.id]?.marketable_yield).toBe("weather");
   });
 });
 
