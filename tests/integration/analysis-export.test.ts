@@ -7,18 +7,8 @@ import type { AnalysisResult } from "@/lib/analysis/types";
 import { testDatabase } from "../helpers/db";
 import { DEMO_STAFF } from "@/db/demo-data";
 
-const auth = vi.hoisted(() => ({ viewer: null as Viewer | null }));
-vi.mock("@/lib/auth/guards", async () => {
-  const { AppError } = await import("@/lib/errors");
-  return {
-    getViewer: async () => auth.viewer,
-    assertRole: async (...roles: string[]) => {
-      if (!auth.viewer) throw new AppError("unauthenticated", "Please sign in first.");
-      if (roles.length > 0 && !roles.includes(auth.viewer.role)) throw new AppError("forbidden", "Your account does not have access to this.");
-      return auth.viewer;
-    },
-  };
-});
+vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+const { testAuth: auth } = await import("../helpers/signed-in-as");
 
 const { GET: getAnalysis } = await import("@/app/api/trials/[trialId]/analysis/route");
 const { GET: getExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");

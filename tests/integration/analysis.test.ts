@@ -8,18 +8,8 @@ import { testDatabase, unique } from "../helpers/db";
 import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 // The route handler's guard reads the session; tests set the viewer directly instead.
-const auth = vi.hoisted(() => ({ viewer: null as Viewer | null }));
-vi.mock("@/lib/auth/guards", async () => {
-  const { AppError } = await import("@/lib/errors");
-  return {
-    getViewer: async () => auth.viewer,
-    assertRole: async (...roles: string[]) => {
-      if (!auth.viewer) throw new AppError("unauthenticated", "Please sign in first.");
-      if (roles.length > 0 && !roles.includes(auth.viewer.role)) throw new AppError("forbidden", "Your account does not have access to this.");
-      return auth.viewer;
-    },
-  };
-});
+vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+const { testAuth: auth } = await import("../helpers/signed-in-as");
 
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
 const { insertExclusion, deleteExclusion } = await import("@/db/mutations/exclusions");
