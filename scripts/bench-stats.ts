@@ -8,20 +8,9 @@
 import { availableParallelism, loadavg } from "node:os";
 import jstatPkg from "jstat";
 import { anovaMultiSite, anovaOneWay, type MultiSitePlot } from "../lib/stats";
+import { seededRandom as random } from "../lib/design/random";
 
 const { jStat } = jstatPkg;
-
-/** Deterministic pseudo-random numbers (mulberry32) so every run times the same data. */
-function random(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function time<T>(run: () => T, repeats: number): { median: number; first: number; result: T } {
   const times: number[] = [];

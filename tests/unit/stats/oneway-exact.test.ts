@@ -6,6 +6,7 @@
 // evaluated exactly.
 import { describe, expect, it } from "vitest";
 import { anovaOneWay } from "@/lib/stats";
+import { seededRandom as random } from "@/lib/design/random";
 
 interface Fraction { num: bigint; den: bigint }
 const gcd = (a: bigint, b: bigint): bigint => {
@@ -20,17 +21,6 @@ const add = (x: Fraction, y: Fraction): Fraction => {
   return { num: num / g, den: den / g };
 };
 const toNumber = (f: Fraction) => Number(f.num) / Number(f.den);
-
-function random(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function exactSums(data: { entry: string; value: number | null }[]) {
   const groups = new Map<string, { n: bigint; sum: bigint; squares: bigint }>();
