@@ -2,7 +2,7 @@ import "server-only";
 import { and, eq, isNull, max } from "drizzle-orm";
 import { db } from "../index";
 import { publishedReports, trials } from "../schema";
-import { staffTrialScope } from "../access";
+import { lockTrialForStaff } from "../access";
 import { insertAudit } from "../audit";
 import { insertMail, type OutgoingMail } from "./mail";
 import { AppError } from "@/lib/errors";
@@ -27,12 +27,7 @@ export async function insertPublishedReport(
   const publishedAt = new Date(Math.floor(Date.now() / 1000) * 1000);
   const snapshot = await p.build(version, publishedAt);
   return db.transaction(async (tx) => {
-    const [trial] = await tx
-      .select({ id: trials.id, status: trials.status })
-      .from(trials)
-      .where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)))
-      .for("update");
-    if (!trial) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const trial = await lockTrialForStaff(tx, viewer, p.trialId);
     if (trial.status === "draft" || trial.status === "archived") {
       throw new AppError("conflict", `A ${trial.status} trial cannot be published.`);
     }
@@ -61,12 +56,7 @@ export async function insertPublishedReport(
 /** Withdraws every live version of a trial, keeping them for the record and showing the reason publicly. */
 export async function updateUnpublished(viewer: Viewer, p: { trialId: number; reason: string }) {
   return db.transaction(async (tx) => {
-    const [trial] = await tx
-      .select({ id: trials.id, status: trials.status })
-      .from(trials)
-      .where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)))
-      .for("update");
-    if (!trial) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const trial = await lockTrialForStaff(tx, viewer, p.trialId);
     const live = await tx
       .select({ id: publishedReports.id })
       .from(publishedReports)
