@@ -1,6 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { listPublicTrials } from "@/db/queries/public";
+import { SelectField, TextField } from "@/components/ui/field";
+import { Button } from "@/components/ui/button";
 
 export const metadata: Metadata = {
   title: "Variety trial results",
@@ -22,25 +24,18 @@ export default async function ResultsIndex({ searchParams }: { searchParams: Sea
         numbers behind it, a PDF report and the data.
       </p>
       <form role="search" aria-label="Find results" className="mt-6 grid gap-3 rounded-xl border border-husk-200 bg-white p-4 sm:grid-cols-[2fr_1fr_1fr_auto]">
-        <div>
-          <label htmlFor="q" className="block text-sm font-semibold">Search</label>
-          <input id="q" name="q" defaultValue={filters.q} placeholder="Crop, variety or trial" className="mt-1 block min-h-11 w-full rounded-lg border border-loam-300 px-3" />
-        </div>
-        <div>
-          <label htmlFor="crop" className="block text-sm font-semibold">Crop</label>
-          <select id="crop" name="crop" defaultValue={filters.crop ?? ""} className="mt-1 block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3">
-            <option value="">All crops</option>
-            {crops.map((c) => <option key={c}>{c}</option>)}
-          </select>
-        </div>
-        <div>
-          <label htmlFor="season" className="block text-sm font-semibold">Season</label>
-          <select id="season" name="season" defaultValue={filters.season ?? ""} className="mt-1 block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3">
-            <option value="">All seasons</option>
-            {seasons.map((s) => <option key={s}>{s}</option>)}
-          </select>
-        </div>
-        <button type="submit" className="min-h-11 self-end rounded-lg bg-sprout-600 px-4 font-semibold text-white hover:bg-sprout-700">Show</button>
+        <TextField label="Search" name="q" id="q" defaultValue={filters.q} placeholder="Crop, variety or trial" />
+        <SelectField label="Crop" name="crop" id="crop" defaultValue={filters.crop ?? ""}>
+          <option value="">All crops</option>
+          {crops.map((c) => <option key={c}>{c}</option>)}
+        </SelectField>
+        <SelectField label="Season" name="season" id="season" defaultValue={filters.season ?? ""}>
+          <option value="">All seasons</option>
+          {seasons.map((s) => <option key={s}>{s}</option>)}
+        </SelectField>
+        <Button type="submit" className="self-end">
+          Show
+        </Button>
       </form>
       <p className="mt-6 text-sm text-loam-700" aria-live="polite">
         {trials.length === 0 ? "No published results match." : `${trials.length} published ${trials.length === 1 ? "trial" : "trials"}`}
