@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import ExcelJS from "exceljs";
+import { refusal } from "../helpers/refusal";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import * as s from "@/db/schema";
@@ -8,7 +9,6 @@ import type { Viewer } from "@/lib/auth/types";
 import { saveObservationsForViewer } from "@/lib/observations/api";
 import { getRecordingSheet } from "@/db/queries/observations";
 import { getReviewSheet } from "@/db/queries/review";
-import { isAppError } from "@/lib/errors";
 import { csvExportForViewer, templateForViewer } from "@/lib/spreadsheets/files";
 import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
 import { parseCsv } from "@/lib/spreadsheets/csv";
@@ -24,16 +24,6 @@ let touchedTraits: number[] = [];
 
 const enc = (t: string) => new TextEncoder().encode(t);
 const toCsv = (g: string[][]) => g.map((r) => r.map((v) => (/[",]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v)).join(",")).join("\n");
-
-async function refusal(p: Promise<unknown>) {
-  try {
-    await p;
-  } catch (e) {
-    if (isAppError(e)) return e;
-    throw e;
-  }
-  throw new Error("expected a refusal");
-}
 
 const save = (values: { plotId: number; key: string; value: string | null; missingReason?: string | null }[]) =>
   saveObservationsForViewer(mei, { trialId: cedar.trialId, siteId: cedar.siteId, values });

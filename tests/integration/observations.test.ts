@@ -1,12 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq, inArray } from "drizzle-orm";
+import { refusal } from "../helpers/refusal";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/auth/types";
 import { saveObservationsForViewer } from "@/lib/observations/api";
 import { getPlotRecordTarget, getRecordingSheet, listRecordableSites } from "@/db/queries/observations";
-import { isAppError } from "@/lib/errors";
 import { parseDateText, parseNumberText } from "@/lib/observations/values";
 
 const { db, pool } = testDatabase();
@@ -15,16 +15,6 @@ let tomas: Viewer;
 let rosa: Viewer;
 let cedar: Awaited<ReturnType<typeof demoSite>>;
 let willow: Awaited<ReturnType<typeof demoSite>>;
-
-async function refusal(p: Promise<unknown>) {
-  try {
-    await p;
-  } catch (e) {
-    if (isAppError(e)) return e;
-    throw e;
-  }
-  throw new Error("expected a refusal");
-}
 
 beforeAll(async () => {
   [mei, tomas, rosa] = await Promise.all([
