@@ -48,10 +48,11 @@ function exactSums(data: { entry: string; value: number | null }[]) {
 }
 
 describe("anovaOneWay against exact arithmetic", () => {
-  it("matches on 120 entries, 30,000 plots in random order with missing plots and one far-off entry", () => {
+  it("matches on 120 entries, 30,001 plots in random order with missing plots and one far-off entry", () => {
     const next = random(7);
     const data: { entry: string; value: number | null }[] = [];
-    for (let i = 0; i < 30_000; i++) {
+    // an odd number of plots: the accumulator takes plots two at a time and must not lose the last
+    for (let i = 0; i < 30_001; i++) {
       const e = Math.floor(next() * 120);
       const base = e === 77 ? 1_000_000_000 : 50 + e;
       data.push({ entry: `V-${e}`, value: next() < 0.03 ? null : base + Math.floor(next() * 21) - 10 });
@@ -62,6 +63,9 @@ describe("anovaOneWay against exact arithmetic", () => {
     expect(table.entryMeans).toHaveLength(exact.entries);
     expect(between.df).toBe(exact.entries - 1);
     expect(table.missing).toBe(data.filter((plot) => plot.value === null).length);
+    for (const { entry, n } of table.entryMeans) {
+      expect(n, entry).toBe(data.filter((plot) => plot.entry === entry && plot.value !== null).length);
+    }
     expect(Math.abs(between.ss - exact.between) / exact.between).toBeLessThan(1e-13);
     expect(Math.abs(within.ss - exact.within) / exact.within).toBeLessThan(1e-13);
   });
