@@ -6,7 +6,7 @@
 import { fitBlockModel, type PlotArrays } from "./block-model";
 import { fUpper } from "./distributions";
 import { StatsError } from "./errors";
-import { LabelIndex } from "./label-index";
+import { homeSlot, LabelIndex } from "./label-index";
 
 export type Source = "site" | "block" | "block:site" | "entry" | "entry:site" | "residual";
 
@@ -161,7 +161,8 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
     const end = Math.min(data.length, start + Math.max(MIN_CHUNK, CHUNK_PER_ENTRY * entries.size));
     const stopped = accumulateOneWay(data, start, end, entries, acc, plotCounts, capacity, reference);
     foldOneWay(acc, totals, entries.size < capacity ? entries.size : capacity);
-    if (stopped < end) {
+    // a stop before `end` means a new entry beyond capacity or a regrown label table
+    if (entries.size > capacity) {
       capacity *= 4;
       const grownAcc = new Float64Array(capacity * STRIDE);
       grownAcc.set(acc);
@@ -286,38 +287,51 @@ function accumulateOneWay(
   capacity: number,
   reference: number,
 ): number {
+  // The label table's first probe is inlined with the table in locals; a label that is not in its
+  // home slot goes through entries.indexOf, and if that replaced the table the caller re-enters.
+  const slots = entries.slots;
+  const slotIndex = entries.slotIndex;
+  const mask = entries.mask;
   let i = start;
   while (i < end) {
     // Two ordinary plots at a time: both rows' fields are loaded before either label lookup, so the
-    // memory reads of the second overlap the first's string comparison (about 10% faster). The sums
-    // still receive the plots in order, so the result is identical to one plot at a time.
+    // memory reads of the second overlap the first's string comparison. The sums still receive the
+    // plots in order, so the result is identical to one plot at a time.
     if (i + 1 < end) {
       const first = data[i];
       const second = data[i + 1];
       const x = first.value;
       const y = second.value;
-      const e = entries.indexOf(first.entry);
-      const f = entries.indexOf(second.entry);
-      if (e < capacity && f < capacity && typeof x === "number" && typeof y === "number") {
-        // literal offsets: each module-level constant read here costs a context load and an
-        // initialisation check per plot in optimised code
-        const g = e * 2;
-        const v = x - reference;
-        acc[g] += v;
-        acc[g + 1] += v * v;
-        counts[e]++;
-        const h = f * 2;
-        const w = y - reference;
-        acc[h] += w;
-        acc[h + 1] += w * w;
-        counts[f]++;
-        i += 2;
-        continue;
+      const a = first.entry;
+      const b = second.entry;
+      if (typeof a === "string" && typeof b === "string" && typeof x === "number" && typeof y === "number") {
+        const p = homeSlot(a, mask);
+        const q = homeSlot(b, mask);
+        // labels already in the table have indices below capacity: a label that would not fit
+        // leaves through the stop below before it can be found here
+        if (slots[p] === a && slots[q] === b) {
+          // literal offsets: each module-level constant read here costs a context load and an
+          // initialisation check per plot in optimised code
+          const e = slotIndex[p];
+          const g = e * 2;
+          const v = x - reference;
+          acc[g] += v;
+          acc[g + 1] += v * v;
+          counts[e]++;
+          const f = slotIndex[q];
+          const h = f * 2;
+          const w = y - reference;
+          acc[h] += w;
+          acc[h + 1] += w * w;
+          counts[f]++;
+          i += 2;
+          continue;
+        }
       }
     }
     const plot = data[i];
     const e = entries.indexOf(plot.entry);
-    if (e >= capacity) return i;
+    if (e >= capacity || entries.slots !== slots) return i;
     const x = plot.value;
     i++;
     if (typeof x !== "number") {

@@ -5,11 +5,22 @@ import { StatsError } from "./errors";
  * open-addressing table hashed on the length and last character is several times faster than
  * a Map for the million-row one-way ANOVA (labels repeat, so most probes hit on the first slot).
  */
+/** Home slot of `label` in a table of mask + 1 slots: length and last character only (each extra charCodeAt costs as much as the rest of the probe). */
+export function homeSlot(label: string, mask: number): number {
+  const length = label.length;
+  return (length * 0x9e37 + label.charCodeAt(length - 1)) & mask;
+}
+
 export class LabelIndex {
   readonly labels: string[] = [];
-  private slots: (string | null)[];
-  private slotIndex: Int32Array;
-  private mask: number;
+  /**
+   * Open-addressing table, readable by hot loops that inline the first probe (see homeSlot). The
+   * arrays are replaced, not resized, when the table grows, so a loop holding them must compare
+   * `slots` with this field after each call that may add a label.
+   */
+  slots: (string | null)[];
+  slotIndex: Int32Array;
+  mask: number;
 
   constructor(private readonly kind: string) {
     this.slots = new Array<string | null>(64).fill(null);
@@ -26,8 +37,7 @@ export class LabelIndex {
     // Straight-line fast path for a label already in its home slot (nearly every call once the
     // labels are known), small enough for the engine to inline into callers' loops.
     if (typeof label === "string") {
-      const length = label.length;
-      const slot = (length * 0x9e37 + label.charCodeAt(length - 1)) & this.mask;
+      const slot = homeSlot(label, this.mask);
       if (this.slots[slot] === label) return this.slotIndex[slot];
     }
     return this.probe(label, allowEmpty);
@@ -35,9 +45,7 @@ export class LabelIndex {
 
   private probe(label: string, allowEmpty: boolean): number {
     if (typeof label !== "string") this.rejectLabel(label);
-    // length and last character only: each extra charCodeAt costs as much as the rest of the probe
-    const length = label.length;
-    let slot = (length * 0x9e37 + label.charCodeAt(length - 1)) & this.mask;
+    let slot = homeSlot(label, this.mask);
     for (;;) {
       const occupant = this.slots[slot];
       if (occupant === label) return this.slotIndex[slot];
@@ -76,8 +84,7 @@ export class LabelIndex {
     this.mask = size - 1;
     for (let i = 0; i < this.labels.length; i++) {
       const label = this.labels[i];
-      const length = label.length;
-      let slot = (length * 0x9e37 + label.charCodeAt(length - 1)) & this.mask;
+      let slot = homeSlot(label, this.mask);
       while (this.slots[slot] !== null) slot = (slot + 1) & this.mask;
       this.slots[slot] = label;
       this.slotIndex[slot] = i;
