@@ -8,6 +8,7 @@
 import { availableParallelism, loadavg } from "node:os";
 import jstatPkg from "jstat";
 import { anovaMultiSite, anovaOneWay, type MultiSitePlot } from "../lib/stats";
+import { LabelIndex } from "../lib/stats/label-index";
 import { seededRandom as random } from "../lib/design/random";
 
 const { jStat } = jstatPkg;
@@ -42,16 +43,28 @@ const sumValues = () => {
   for (let i = 0; i < oneWay.length; i++) sum += oneWay[i].value;
   return sum;
 };
+// Not a target, for reading the ratio: the floor plus finding each plot's entry from its label, the
+// least any analysis by entry has to do with these rows. Labels built at run time are not interned
+// by the engine, so each comparison is a call into its string-equality routine.
+const sumValuesFindingEntries = () => {
+  const entries = new LabelIndex("entry");
+  let sum = 0;
+  for (let i = 0; i < oneWay.length; i++) sum += oneWay[i].value + entries.indexOf(oneWay[i].entry);
+  return sum;
+};
 // Floor and Seedplot run in alternation so both see the same machine load; the ratio printed is the
 // median of the per-pair ratios, which stays steady when other work shares the cores.
 function paired(repeats: number) {
   for (let i = 0; i < 3; i++) {
     sumValues();
+    sumValuesFindingEntries();
     anovaOneWay(oneWay);
   }
   const floorTimes: number[] = [];
+  const lookupTimes: number[] = [];
   const seedplotTimes: number[] = [];
   const ratios: number[] = [];
+  const lookupRatios: number[] = [];
   let result = anovaOneWay(oneWay);
   for (let i = 0; i < repeats; i++) {
     let start = performance.now();
@@ -60,18 +73,33 @@ function paired(repeats: number) {
     start = performance.now();
     result = anovaOneWay(oneWay);
     const seedplotTime = performance.now() - start;
+    start = performance.now();
+    sumValuesFindingEntries();
+    const lookupTime = performance.now() - start;
+    lookupTimes.push(lookupTime);
+    lookupRatios.push(lookupTime / floorTime);
     floorTimes.push(floorTime);
     seedplotTimes.push(seedplotTime);
     ratios.push(seedplotTime / floorTime);
   }
   const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
-  return { floor: median(floorTimes), seedplot: median(seedplotTimes), ratio: median(ratios), result };
+  return {
+    floor: median(floorTimes),
+    lookup: median(lookupTimes),
+    lookupRatio: median(lookupRatios),
+    seedplot: median(seedplotTimes),
+    ratio: median(ratios),
+    result,
+  };
 }
 const oneWayRun = paired(31);
 const jstat = time(() => jStat.anovafscore(...groups) as number, 7);
 
 console.log("One-way ANOVA, 1,000,000 values, 10 entries (medians of 31 alternating runs after warm-up)");
 console.log(`  floor (sum the values only)   ${format(oneWayRun.floor)}`);
+console.log(
+  `  floor + find each entry       ${format(oneWayRun.lookup)}   ${oneWayRun.lookupRatio.toFixed(2)}x the floor (for reference, not a target)`,
+);
 console.log(`  Seedplot anovaOneWay          ${format(oneWayRun.seedplot)}   ${oneWayRun.ratio.toFixed(2)}x the floor (median of paired ratios; target <= 3x)`);
 console.log(
   `  jStat.anovafscore (pre-split) ${format(jstat.median)}   Seedplot is ${(jstat.median / oneWayRun.seedplot).toFixed(1)}x faster (target > 1x)`,

@@ -1,16 +1,19 @@
 import { StatsError } from "./errors";
 
 /**
- * Maps entry / block / site labels to dense indices in order of first appearance. A small
- * open-addressing table hashed on the length and last character is several times faster than
- * a Map for the million-row one-way ANOVA (labels repeat, so most probes hit on the first slot).
+ * Home slot of `label` in a table of mask + 1 slots. Hashed on the length and last character only:
+ * each extra charCodeAt costs as much as the rest of the probe.
  */
-/** Home slot of `label` in a table of mask + 1 slots: length and last character only (each extra charCodeAt costs as much as the rest of the probe). */
 export function homeSlot(label: string, mask: number): number {
   const length = label.length;
   return (length * 0x9e37 + label.charCodeAt(length - 1)) & mask;
 }
 
+/**
+ * Maps entry / block / site labels to dense indices in order of first appearance. A small
+ * open-addressing table is several times faster than a Map for the million-row one-way ANOVA
+ * (labels repeat, so most probes hit on the first slot).
+ */
 export class LabelIndex {
   readonly labels: string[] = [];
   /**
