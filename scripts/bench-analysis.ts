@@ -12,10 +12,11 @@
 // requests, default 20), BENCH_CHANGES (edit-then-request rounds, default 5), BENCH_SECONDS (overall cap, default 300).
 import http from "node:http";
 import { brotliDecompressSync, gunzipSync, inflateSync } from "node:zlib";
-import { and, eq, inArray, like } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { createDatabase } from "../db/client";
 import * as s from "../db/schema";
 import { addDays, todayIso } from "../lib/schedule";
+import { removeLeftoverTrials, removeThrowawayTrial } from "./throwaway-trial";
 
 const BASE = (process.env.BENCH_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
 const url = process.env.DATABASE_URL ?? "";
@@ -117,21 +118,7 @@ function lcg(seed: number) {
   return () => (state = (1664525 * state + 1013904223) >>> 0) / 2 ** 32;
 }
 
-/** Deletes a throwaway trial and everything added for it (sites, varieties, crop). */
-async function removeTrial(trialId: number) {
-  const [trial] = await db.select({ cropId: s.trials.cropId }).from(s.trials).where(eq(s.trials.id, trialId));
-  if (!trial) return;
-  const siteIds = (await db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, trialId))).map((r) => r.id);
-  // Children first: plots refer to entries and sites with ON DELETE RESTRICT.
-  await db.delete(s.analysisExclusions).where(eq(s.analysisExclusions.trialId, trialId));
-  await db.delete(s.plots).where(eq(s.plots.trialId, trialId));
-  await db.delete(s.enrolments).where(eq(s.enrolments.trialId, trialId));
-  await db.delete(s.trialEntries).where(eq(s.trialEntries.trialId, trialId));
-  await db.delete(s.trials).where(eq(s.trials.id, trialId));
-  if (siteIds.length > 0) await db.delete(s.sites).where(and(inArray(s.sites.id, siteIds), like(s.sites.name, "Analysis bench %")));
-  await db.delete(s.varieties).where(eq(s.varieties.cropId, trial.cropId));
-  await db.delete(s.crops).where(and(eq(s.crops.id, trial.cropId), like(s.crops.name, "Analysis bench %")));
-}
+const THROWAWAY = { sitePrefix: "Analysis bench site ", cropPrefix: "Analysis bench " };
 
 /** A trial of SITES x ENTRIES x BLOCKS with yield (1% missing with a reason) and seed counts, every site accepted. */
 async function createTrial(tag: string, coordinatorId: number) {
@@ -194,10 +181,7 @@ const tag = Date.now().toString(36).slice(-6);
 let trialId: number | null = null;
 let failed = false;
 try {
-  for (const old of await db.select({ id: s.trials.id, code: s.trials.code }).from(s.trials).where(like(s.trials.code, `${PREFIX}%`))) {
-    await removeTrial(old.id);
-    console.log(`Removed ${old.code}, left behind by an interrupted run.`);
-  }
+  for (const code of await removeLeftoverTrials(db, PREFIX, THROWAWAY)) console.log(`Removed ${code}, left behind by an interrupted run.`);
   const [coordinator] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, COORDINATOR.email));
   if (!coordinator) throw new Error(`No coordinator ${COORDINATOR.email} in DATABASE_URL; set BENCH_COORDINATOR.`);
   const cookie = await signIn(COORDINATOR.email, COORDINATOR.password);
@@ -302,7 +286,7 @@ try {
   console.error(e instanceof Error ? e.message : e);
 } finally {
   if (trialId !== null) {
-    await removeTrial(trialId);
+    await removeThrowawayTrial(db, trialId, THROWAWAY);
     console.log(`\nRemoved the throwaway trial ${PREFIX}${tag}.`);
   }
   agent.destroy();

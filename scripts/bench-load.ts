@@ -2,8 +2,8 @@
 //   npm run bench:load                          # the demo server from scripts/up.sh on :3000, database from .env.local
 //   LOAD_BASE_URL=http://127.0.0.1:3300 DATABASE_URL=mysql://... npm run bench:load
 // DATABASE_URL must be the database that server uses: the script prepares data there (publishes TV26-LET
-// if nothing is published, adds a throwaway trial with 50 sites and 50 cooperator accounts) and afterwards
-// reads back every value it saved. Scenarios: the public trial page, the analysis API as a coordinator, and
+// if nothing is published, adds a throwaway trial with 50 sites and 50 cooperator accounts, removed at the
+// end) and afterwards reads back every value it saved. Scenarios: the public trial page, the analysis API as a coordinator, and
 // 50 growers saving values at the same time. Each is bounded by a request count and a time limit.
 // Settings: LOAD_REQUESTS (per read scenario, default 400), LOAD_CONNECTIONS (default 10), LOAD_SAVES
 // (saves per grower, default 20), LOAD_GROWERS (default 50), LOAD_SECONDS (time cap per scenario, default 60).
@@ -12,6 +12,7 @@ import { and, eq, inArray, isNull } from "drizzle-orm";
 import { createDatabase } from "../db/client";
 import * as s from "../db/schema";
 import { addDays, todayIso } from "../lib/schedule";
+import { removeLeftoverTrials, removeThrowawayTrial } from "./throwaway-trial";
 
 const BASE = (process.env.LOAD_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
 const url = process.env.DATABASE_URL ?? "";
@@ -33,6 +34,8 @@ const { hashPassword } = await import("../lib/auth/password");
 const { insertPublishedReport } = await import("../db/mutations/publish");
 const { buildSnapshot } = await import("../lib/publish/build");
 const { pool: appPool } = await import("../db/index");
+// Everything the run adds is removed at the end (and at the start, if an earlier run was interrupted).
+const THROWAWAY = { sitePrefix: "Load site ", cropPrefix: "Load crop ", emailPrefix: "load-" };
 
 interface Figures {
   scenario: string;
@@ -156,6 +159,7 @@ async function readScenario(scenario: string, path: string, headers: Record<stri
 
 const tag = `${Date.now().toString(36).slice(-6)}`;
 console.log(`Load run against ${BASE} (tag ${tag})`);
+for (const code of await removeLeftoverTrials(db, "LOAD-", THROWAWAY)) console.log(`Removed ${code}, left behind by an earlier run.`);
 const [coordinator] = await db.select({ id: s.users.id }).from(s.users).where(eq(s.users.email, COORDINATOR.email));
 if (!coordinator) throw new Error(`No coordinator ${COORDINATOR.email} in DATABASE_URL; set LOAD_COORDINATOR.`);
 const published = await publishedTrial(coordinator.id);
@@ -165,62 +169,69 @@ const [yieldTrait] = await db
   .innerJoin(s.traits, eq(s.traits.id, s.trialTraits.traitId))
   .where(and(eq(s.trialTraits.trialId, published.id), eq(s.traits.code, "marketable_yield")));
 const load = await loadTrial(tag);
-const coordinatorCookie = await signIn(COORDINATOR.email, COORDINATOR.password);
-// One at a time: concurrent successful sign-ins from one address currently deadlock in the attempt log.
-const growerCookies: string[] = [];
-for (const g of load.growers) growerCookies.push(await signIn(g.email, PASSWORD));
-console.log(`Prepared: public page /results/${published.code}, analysis of trial ${published.id}, ${load.growers.length} growers signed in.\n`);
+let passed = false;
+try {
+  const coordinatorCookie = await signIn(COORDINATOR.email, COORDINATOR.password);
+  // One at a time: each sign-in is an argon2 check, so on two cores parallel sign-ins finish no sooner.
+  const growerCookies: string[] = [];
+  for (const g of load.growers) growerCookies.push(await signIn(g.email, PASSWORD));
+  console.log(`Prepared: public page /results/${published.code}, analysis of trial ${published.id}, ${load.growers.length} growers signed in.\n`);
 
-const figures: Figures[] = [];
-figures.push(await readScenario(`public page /results/${published.code}`, `/results/${published.code}`));
-figures.push(await readScenario("analysis API (coordinator)", `/api/trials/${published.id}/analysis${yieldTrait ? `?trait=${yieldTrait.id}` : ""}`, { cookie: coordinatorCookie }));
+  const figures: Figures[] = [];
+  figures.push(await readScenario(`public page /results/${published.code}`, `/results/${published.code}`));
+  figures.push(await readScenario("analysis API (coordinator)", `/api/trials/${published.id}/analysis${yieldTrait ? `?trait=${yieldTrait.id}` : ""}`, { cookie: coordinatorCookie }));
 
-// Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
-// three plots with values unique to (grower, save), so the last accepted value of each plot is known.
-const lastWritten = new Map<number, string>();
-const saveLatencies: number[] = [];
-let saveErrors = 0;
-let saveCount = 0;
-const deadline = Date.now() + SECONDS * 1000;
-const savesStarted = performance.now();
-await Promise.all(
-  load.growers.map(async (g, gi) => {
-    for (let round = 0; round < SAVES && Date.now() < deadline; round += 1) {
-      const plots = [0, 1, 2].map((k) => g.plotIds[(round * 3 + k) % g.plotIds.length]!);
-      const values = plots.map((plotId, k) => ({ plotId, key: "marketable_yield", value: String(1000 + gi * 100 + round * 3 + k) }));
-      const t0 = performance.now();
-      try {
-        const res = await fetch(`${BASE}/api/observations`, {
-          method: "POST",
-          headers: { "Content-Type": "application/json", Cookie: growerCookies[gi]! },
-          body: JSON.stringify({ trialId: load.trialId, siteId: g.siteId, values }),
-          signal: AbortSignal.timeout(30_000),
-        });
-        await res.arrayBuffer();
-        if (res.ok) for (const v of values) lastWritten.set(v.plotId, v.value!);
-        else saveErrors += 1;
-      } catch {
-        saveErrors += 1;
+  // Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
+  // three plots with values unique to (grower, save), so the last accepted value of each plot is known.
+  const lastWritten = new Map<number, string>();
+  const saveLatencies: number[] = [];
+  let saveErrors = 0;
+  let saveCount = 0;
+  const deadline = Date.now() + SECONDS * 1000;
+  const savesStarted = performance.now();
+  await Promise.all(
+    load.growers.map(async (g, gi) => {
+      for (let round = 0; round < SAVES && Date.now() < deadline; round += 1) {
+        const plots = [0, 1, 2].map((k) => g.plotIds[(round * 3 + k) % g.plotIds.length]!);
+        const values = plots.map((plotId, k) => ({ plotId, key: "marketable_yield", value: String(1000 + gi * 100 + round * 3 + k) }));
+        const t0 = performance.now();
+        try {
+          const res = await fetch(`${BASE}/api/observations`, {
+            method: "POST",
+            headers: { "Content-Type": "application/json", Cookie: growerCookies[gi]! },
+            body: JSON.stringify({ trialId: load.trialId, siteId: g.siteId, values }),
+            signal: AbortSignal.timeout(30_000),
+          });
+          await res.arrayBuffer();
+          if (res.ok) for (const v of values) lastWritten.set(v.plotId, v.value!);
+          else saveErrors += 1;
+        } catch {
+          saveErrors += 1;
+        }
+        saveLatencies.push(performance.now() - t0);
+        saveCount += 1;
       }
-      saveLatencies.push(performance.now() - t0);
-      saveCount += 1;
-    }
-  }),
-);
-figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });
+    }),
+  );
+  figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });
 
-console.log("scenario                           requests    throughput   latency");
-for (const f of figures) print(f);
+  console.log("scenario                           requests    throughput   latency");
+  for (const f of figures) print(f);
 
-// Every value a save was told was stored must be in the database, with the last value written to that plot.
-const stored = await db
-  .select({ plotId: s.observations.plotId, value: s.observations.valueNumber })
-  .from(s.observations)
-  .where(and(inArray(s.observations.plotId, [...lastWritten.keys()]), eq(s.observations.traitId, load.traitId)));
-const byPlot = new Map(stored.map((r) => [r.plotId, r.value]));
-const wrong = [...lastWritten].filter(([plotId, value]) => byPlot.get(plotId) !== Number(value));
-console.log(`\nRow-by-row check: ${lastWritten.size} plots saved, ${stored.length} rows found, ${wrong.length} lost or stale.`);
-for (const [plotId, value] of wrong.slice(0, 10)) console.log(`  plot ${plotId}: expected ${value}, found ${byPlot.get(plotId) ?? "nothing"}`);
+  // Every value a save was told was stored must be in the database, with the last value written to that plot.
+  const stored = await db
+    .select({ plotId: s.observations.plotId, value: s.observations.valueNumber })
+    .from(s.observations)
+    .where(and(inArray(s.observations.plotId, [...lastWritten.keys()]), eq(s.observations.traitId, load.traitId)));
+  const byPlot = new Map(stored.map((r) => [r.plotId, r.value]));
+  const wrong = [...lastWritten].filter(([plotId, value]) => byPlot.get(plotId) !== Number(value));
+  console.log(`\nRow-by-row check: ${lastWritten.size} plots saved, ${stored.length} rows found, ${wrong.length} lost or stale.`);
+  for (const [plotId, value] of wrong.slice(0, 10)) console.log(`  plot ${plotId}: expected ${value}, found ${byPlot.get(plotId) ?? "nothing"}`);
+  passed = wrong.length === 0 && figures.every((f) => f.errors === 0);
+} finally {
+  await removeThrowawayTrial(db, load.trialId, THROWAWAY);
+  console.log(`Removed the throwaway trial LOAD-${tag} with its ${load.growers.length} sites and grower accounts.`);
+}
 await pool.end();
 await appPool.end();
-process.exit(wrong.length === 0 && figures.every((f) => f.errors === 0) ? 0 : 1);
+process.exit(passed ? 0 : 1);
