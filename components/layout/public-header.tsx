@@ -1,6 +1,11 @@
 import Link from "next/link";
 import { Logo } from "./logo";
+import { NavLink } from "./nav-link";
 import { getViewer } from "@/lib/auth/guards";
+
+const LINK = "font-semibold";
+const CURRENT = "underline decoration-sprout-600 decoration-[3px] underline-offset-8";
+const OTHER = "no-underline hover:underline";
 
 export async function PublicHeader() {
   const viewer = await getViewer();
@@ -11,12 +16,20 @@ export async function PublicHeader() {
           <Logo />
         </Link>
         <nav aria-label="Main" className="flex items-center gap-4 text-base">
-          <Link href="/" className="font-semibold no-underline hover:underline">Home</Link>
-          <Link href="/results" className="font-semibold no-underline hover:underline">Results</Link>
+          <NavLink href="/" exact className={LINK} activeClassName={CURRENT} inactiveClassName={OTHER}>
+            Home
+          </NavLink>
+          <NavLink href="/results" className={LINK} activeClassName={CURRENT} inactiveClassName={OTHER}>
+            Results
+          </NavLink>
           {viewer ? (
-            <Link href="/portal" className="font-semibold no-underline hover:underline">My portal</Link>
+            <Link href="/portal" className={`${LINK} ${OTHER}`}>
+              My portal
+            </Link>
           ) : (
-            <Link href="/sign-in" className="font-semibold no-underline hover:underline">Sign in</Link>
+            <NavLink href="/sign-in" className={LINK} activeClassName={CURRENT} inactiveClassName={OTHER}>
+              Sign in
+            </NavLink>
           )}
         </nav>
       </div>

@@ -2,10 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser } from "playwright-core";
 import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
-import { createRequire } from "node:module";
 import os from "node:os";
 import path from "node:path";
 import { eq, inArray } from "drizzle-orm";
+import { seriousAccessibilityProblems } from "../helpers/axe";
 import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
 import { createDatabase } from "@/db/client";
 import * as s from "@/db/schema";
@@ -109,8 +109,6 @@ describe("publishing and the public pages", () => {
   }, 180_000);
 
   it("has no serious or critical accessibility problems on the public index, trial and variety pages", async () => {
-    const require = createRequire(import.meta.url);
-    const axeSource = await fs.readFile(require.resolve("axe-core/axe.min.js"), "utf8");
     const [variety] = await e2e.db
       .select({ id: s.varieties.id })
       .from(s.varieties)
@@ -121,13 +119,7 @@ describe("publishing and the public pages", () => {
     for (const pathname of ["/", "/results", `/results/${PUBLISHED.code}`, `/varieties/${variety!.id}`]) {
       await page.goto(pathname);
       await page.waitForLoadState("networkidle");
-      await page.evaluate(axeSource);
-      const violations = (await page.evaluate(async () => {
-        // @ts-expect-error axe is injected above
-        const result = await window.axe.run(document, { resultTypes: ["violations"] });
-        return result.violations.map((v: { id: string; impact: string; nodes: unknown[] }) => ({ id: v.id, impact: v.impact, nodes: v.nodes.length }));
-      })) as { id: string; impact: string }[];
-      expect([pathname, violations.filter((v) => v.impact === "serious" || v.impact === "critical")]).toEqual([pathname, []]);
+      expect([pathname, await seriousAccessibilityProblems(page)]).toEqual([pathname, []]);
     }
     await context.close();
   }, 120_000);

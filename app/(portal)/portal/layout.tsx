@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { Logo } from "@/components/layout/logo";
+import { NavLink } from "@/components/layout/nav-link";
 import { SignOutButton } from "@/components/layout/sign-out-button";
 import { requireUser } from "@/lib/auth/guards";
 import { ROLE_LABELS } from "@/lib/labels";
@@ -17,7 +18,7 @@ export default async function PortalLayout({ children }: { children: React.React
     <div className="min-h-screen">
       <header className="no-print border-b border-husk-200 bg-white">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-4 py-2">
-          <Link href="/portal" className="no-underline" aria-label="Portal home">
+          <Link href="/portal" className="no-underline" aria-label="Seedplot portal home">
             <Logo />
           </Link>
           <div className="flex items-center gap-3 text-sm">
@@ -29,9 +30,16 @@ export default async function PortalLayout({ children }: { children: React.React
         </div>
         <nav aria-label="Portal" className="mx-auto flex max-w-6xl gap-1 overflow-x-auto px-4">
           {links.map(([href, label]) => (
-            <Link key={href} href={href} className="whitespace-nowrap rounded-t-lg px-3 py-2 font-semibold text-loam-700 no-underline hover:bg-husk-100">
+            <NavLink
+              key={href}
+              href={href}
+              exact={href === "/portal"}
+              className="whitespace-nowrap rounded-t-lg border-b-[3px] px-3 py-2 font-semibold no-underline hover:bg-husk-100"
+              activeClassName="border-sprout-600 text-loam-900"
+              inactiveClassName="border-transparent text-loam-700"
+            >
               {label}
-            </Link>
+            </NavLink>
           ))}
         </nav>
       </header>
