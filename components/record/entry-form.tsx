@@ -342,13 +342,17 @@ export function EntryForm(props: {
                         <button
                           type="button"
                           className="-my-3 min-h-11 shrink-0 rounded-lg px-2 text-sm font-semibold text-sky-800 underline underline-offset-2 hover:bg-sky-100"
-                          aria-label={`${p.plotCode}: no ${c.name} value? Say why`}
                           onClick={() => {
                             setAskWhy((a) => ({ ...a, [slot]: true }));
                             requestAnimationFrame(() => document.getElementById(whyId)?.focus());
                           }}
                         >
+                          {/* the spoken name starts with the visible words, so voice control finds it */}
                           No value?
+                          <span className="sr-only">
+                            {" "}
+                            {p.plotCode}, {c.name}: say why
+                          </span>
                         </button>
                       )}
                     </div>

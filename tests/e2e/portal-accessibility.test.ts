@@ -50,6 +50,11 @@ describe("portal pages for people using assistive technology", () => {
     const page = await signedIn(DEMO_SITES[0].grower.email, DEMO_PASSWORDS.cooperator, { width: 390, height: 844 });
     for (const pathname of ["/portal", "/portal/record"]) await expectNoSeriousProblems(page, pathname);
     expect(await currentSection(page).allTextContents()).toEqual(["Record data"]);
+    // the data-entry page itself, with a field per plot and trait, for the trial still taking values
+    const entryPath = await page.locator('main a[href^="/portal/record/"]', { hasText: "Baby-leaf kale" }).first().getAttribute("href");
+    expect(entryPath).toMatch(/^\/portal\/record\/\d+\/\d+/);
+    await expectNoSeriousProblems(page, entryPath!);
+    expect(await page.getByRole("button", { name: /^No value\?/ }).count()).toBeGreaterThan(0);
     await page.context().close();
   }, 60_000);
 });

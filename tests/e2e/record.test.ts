@@ -77,7 +77,7 @@ describe("a grower records a day's counts on a phone", () => {
     const id5 = await inputs.nth(5).getAttribute("id");
     const plot5 = page.locator("li", { has: page.locator(`#${id5}`) });
     const state5 = page.locator(`#${id5}-state`);
-    await plot5.getByRole("button", { name: /value\? Say why$/ }).click();
+    await plot5.getByRole("button", { name: /^No value\? .+: say why$/ }).click();
     await plot5.getByLabel(/No value because/).selectOption({ label: "Eaten or damaged by animals" });
     await expect.poll(() => state5.textContent(), { timeout: 15_000 }).toBe("Saved");
 
