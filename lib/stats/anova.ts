@@ -82,15 +82,16 @@ export interface MultiSitePlot {
   value: number | null;
 }
 
-// One-way accumulators, one row of STRIDE per entry. The hot loop adds values shifted by one
-// reference (the first observed value) into plain partial sums; after each chunk of plots those are
-// folded into compensated totals, so no partial sum runs over more than a few dozen terms and the
-// per-plot work stays at three additions. Entries whose mean lies far from the reference relative to
+// One-way accumulators, one row of STRIDE per entry (plot counts are kept apart, as integers). The hot
+// loop adds values shifted by one reference (the first observed value) into plain partial sums; after
+// each chunk of plots those are folded into compensated totals, so no partial sum runs over more than a
+// few dozen terms and the per-plot work stays at two additions and a count. Entries whose mean lies far from the reference relative to
 // their spread are caught by the cancellation check and recomputed two-pass.
 const STRIDE = 2;
 const PART_SUM = 0;
 const PART_SQ = 1;
-// 256 plots (or 16 per entry when there are many) keeps NIST SmLs01-03 at full precision
+// 64 plots, or 16 per entry when there are more than four, keeps NIST SmLs01-03 at full precision
+// (32 per entry already drops SmLs03 below its target)
 const MIN_CHUNK = 64;
 const CHUNK_PER_ENTRY = 16;
 /** within-entry SS is recomputed two-pass when the shifted sums cancel by more than this factor */
