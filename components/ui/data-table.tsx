@@ -13,9 +13,16 @@ import {
 import { Button } from "./button";
 import { SortableHeader } from "./sortable-header";
 
+// On phones a cell shows its column's name before the value (columns whose header is not plain text,
+// such as row actions, show the value alone).
+const PHONE_LABEL =
+  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
+
 /**
  * A sortable, filterable, paginated table. Column headers are buttons so sorting works from the keyboard,
- * and aria-sort tells screen readers the current order.
+ * and aria-sort tells screen readers the current order. On phones each row becomes a card of
+ * "column: value" lines and the headers a row of sort buttons; explicit table roles keep the structure
+ * for screen readers, which drop it when table parts are displayed as blocks.
  */
 export function DataTable<T>({
   data,
@@ -63,15 +70,21 @@ export function DataTable<T>({
         />
       </div>
       <div className="overflow-x-auto">
-        <table className="w-full text-left text-sm">
+        <table role="table" className="w-full text-left text-sm max-sm:block">
           <caption className="sr-only">{caption}</caption>
-          <thead className="border-b border-husk-200 text-loam-700">
+          <thead role="rowgroup" className="border-b border-husk-200 text-loam-700 max-sm:block">
             {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
+              <tr key={group.id} role="row" className="max-sm:flex max-sm:flex-wrap max-sm:gap-x-4">
                 {group.headers.map((header) => {
                   const sorted = header.column.getIsSorted();
                   return (
-                    <th key={header.id} scope="col" className="py-2 pr-3" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
+                    <th
+                      key={header.id}
+                      role="columnheader"
+                      scope="col"
+                      className="py-2 pr-3 max-sm:py-1"
+                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
+                    >
                       {header.isPlaceholder ? null : (
                         <SortableHeader header={header} buttonClassName="inline-flex items-center gap-1 font-semibold hover:text-loam-900" />
                       )}
@@ -81,21 +94,29 @@ export function DataTable<T>({
               </tr>
             ))}
           </thead>
-          <tbody>
+          <tbody role="rowgroup" className="max-sm:block">
             {rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="py-4 text-loam-700">
+              <tr role="row" className="max-sm:block">
+                <td role="cell" colSpan={columns.length} className="py-4 text-loam-700 max-sm:block">
                   {filter ? "No rows match the filter." : empty}
                 </td>
               </tr>
             ) : (
               rows.map((row) => (
-                <tr key={row.id} className="border-b border-husk-100 align-top">
-                  {row.getVisibleCells().map((cell) => (
-                    <td key={cell.id} className="py-2 pr-3">
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                    </td>
-                  ))}
+                <tr key={row.id} role="row" className="border-b border-husk-100 align-top max-sm:block max-sm:py-2">
+                  {row.getVisibleCells().map((cell) => {
+                    const label = cell.column.columnDef.header;
+                    return (
+                      <td
+                        key={cell.id}
+                        role="cell"
+                        data-label={typeof label === "string" ? label : undefined}
+                        className={`py-2 pr-3 max-sm:flex max-sm:gap-3 max-sm:py-0.5 ${typeof label === "string" ? PHONE_LABEL : ""}`}
+                      >
+                        <div className="min-w-0">{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
+                      </td>
+                    );
+                  })}
                 </tr>
               ))
             )}

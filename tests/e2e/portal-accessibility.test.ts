@@ -57,4 +57,22 @@ describe("portal pages for people using assistive technology", () => {
     expect(await page.getByRole("button", { name: /^No value\?/ }).count()).toBeGreaterThan(0);
     await page.context().close();
   }, 60_000);
+
+  it("lays the coordinator's tables out as cards on a phone, with nothing to scroll sideways", async () => {
+    const page = await signedIn(DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator, { width: 390, height: 844 });
+    for (const pathname of ["/portal/trials", "/portal/catalogue", "/portal/sites"]) {
+      await expectNoSeriousProblems(page, pathname);
+      const overflowing = await page.evaluate(() =>
+        [...document.querySelectorAll("table")].filter((t) => t.parentElement!.scrollWidth > t.parentElement!.clientWidth + 1).length,
+      );
+      expect([pathname, overflowing]).toEqual([pathname, 0]);
+    }
+    // Each cell names its column, and the table keeps its rows and cells for screen readers.
+    await page.goto("/portal/catalogue");
+    const crops = page.getByRole("table", { name: "Crops" });
+    const kale = crops.getByRole("row").filter({ hasText: "Brassicas" });
+    expect(await kale.getByRole("cell").first().getAttribute("data-label")).toBe("Crop");
+    expect(await kale.getByRole("cell").first().textContent()).toBe("Kale");
+    await page.context().close();
+  }, 90_000);
 });
