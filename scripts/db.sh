@@ -4,7 +4,8 @@
 #   scripts/db.sh stop  [instance]   stop the server by its pid
 #   scripts/db.sh status [instance]
 # instance: "dev" (default, port 33306) or "test" (port 33316). Settings come from the environment:
-#   DB_PORT, DB_NAME, DB_USER, DB_PASSWORD (defaults below). Running start twice is harmless.
+#   DB_PORT, DB_NAME, DB_USER, DB_PASSWORD (defaults below; for dev, .env.local fills what is unset).
+#   Running start twice is harmless.
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
 cmd="${1:-start}"; instance="${2:-dev}"
@@ -13,6 +14,9 @@ case "$instance" in
   test) default_port=33316 ;;
   *) die "Unknown instance '$instance' (use dev or test)" ;;
 esac
+# The dev instance's password lives in .env.local (written by up.sh); reading it here keeps a direct
+# `db.sh start dev` from resetting the account to the default and locking the app out.
+[ "$instance" = dev ] && load_env_file "$ROOT/.env.local"
 PORT="${DB_PORT:-$default_port}"
 NAME="${DB_NAME:-seedplot}"
 USER_NAME="${DB_USER:-seedplot}"
