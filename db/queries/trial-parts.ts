@@ -61,7 +61,7 @@ export function listEntriesWithLots(trialId: number) {
     .orderBy(asc(trialEntries.entryNumber));
 }
 
-/** The traits a trial records, in the coordinator's order. */
+/** The traits a trial records, in the coordinator's order, with their valid range. */
 export function listTrialTraits(trialId: number) {
   return db
     .select({
@@ -70,6 +70,8 @@ export function listTrialTraits(trialId: number) {
       name: traits.name,
       unit: traits.unit,
       valueType: traits.valueType,
+      minValue: traits.minValue,
+      maxValue: traits.maxValue,
       description: traits.description,
       dueNote: traits.dueNote,
       dueDaysAfterSowing: traits.dueDaysAfterSowing,

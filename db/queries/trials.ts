@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import { db } from "../index";
-import { crops, enrolments, observations, plots, programCoordinators, programs, seasons, seedLots, sites, trialEntries, trialTraits, traits, trials, users, varieties } from "../schema";
+import { crops, enrolments, observations, plots, programCoordinators, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope, trialProgress } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
 import type { Viewer } from "@/lib/auth/types";
@@ -164,12 +164,7 @@ export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId
     .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
     .where(eq(plots.enrolmentId, row.enrolmentId))
     .orderBy(asc(plots.block), asc(plots.position));
-  const traitRows = await db
-    .select({ id: traits.id, name: traits.name, unit: traits.unit, valueType: traits.valueType, minValue: traits.minValue, maxValue: traits.maxValue, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
-    .from(trialTraits)
-    .innerJoin(traits, eq(traits.id, trialTraits.traitId))
-    .where(eq(trialTraits.trialId, row.trialId))
-    .orderBy(asc(trialTraits.sortOrder));
+  const traitRows = await listTrialTraits(row.trialId);
   const [treated] = await db
     .select({ n: count() })
     .from(trialEntries)
