@@ -27,7 +27,7 @@ const time = async <T>(label: string, fn: () => Promise<T>) => {
 };
 console.log(`${rows} rows, ${(bytes.length / 1024).toFixed(0)} KB CSV, ${rows * 3} values`);
 const columns = await listTrialColumns(appDb, site.trialId);
-const read = await time("parse", async () => readUpload(bytes, inspectUpload(bytes, "bench.csv"), columns));
+const read = await time("parse", async () => readUpload(bytes, inspectUpload(bytes, "bench.csv"), { columns, plotCodes: site.plotCodes }));
 const cells = read.rows.flatMap((r) => Object.entries(r.values).map(([key, raw]) => ({ plotCode: r.plotCode, key, raw, row: r.row })));
 const plan = await time("validate", () => planSiteObservations(appDb, site.viewer, { trialId: site.trialId, siteId: site.siteId, cells }));
 if (plan.problems.length) throw new Error(`unexpected problems: ${plan.problems[0]!.message}`);

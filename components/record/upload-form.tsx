@@ -13,6 +13,9 @@ interface Problem {
 interface Preview {
   ok: boolean;
   refused: string | null;
+  /** The worksheet that was read and the ones that were not (workbooks only). */
+  sheet?: string | null;
+  otherSheets?: string[];
   rows?: number;
   blankRows?: number[];
   counts?: { new: number; changed: number; unchanged: number };
@@ -146,6 +149,12 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
   return (
     <section className="space-y-3 rounded-xl border border-husk-200 bg-white p-4" aria-label="What this file would change">
       <h3 className="text-lg font-bold text-loam-900">What this file would change</h3>
+      {preview.sheet && (
+        <p className="text-loam-700">
+          Read from the sheet “{preview.sheet}”.
+          {preview.otherSheets && preview.otherSheets.length > 0 && ` Not read: ${preview.otherSheets.map((n) => `“${n}”`).join(", ")}.`}
+        </p>
+      )}
       <p className="flex flex-wrap gap-2">
         <Badge tone="good">{c.new} new</Badge>
         <Badge tone="warn">{c.changed} changed</Badge>
@@ -195,6 +204,7 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
               </table>
             </div>
           )}
+          {c.new + c.changed === 0 && <p className="text-loam-700">Every value in this file is already saved, so there is nothing new to save.</p>}
           <Button type="button" onClick={onCommit} disabled={busy || c.new + c.changed === 0}>
             {c.new + c.changed === 0 ? "Nothing to save" : `Save ${c.new + c.changed} values`}
           </Button>

@@ -5,7 +5,7 @@ import { auditLog, observationHistory, observations, submissions } from "../sche
 import { getRecordableEnrolment, listEnrolmentObservations, listEnrolmentPlots, listTrialColumns, type RecordableEnrolment } from "../queries/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/auth/types";
-import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue } from "@/lib/observations/values";
+import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/observations/values";
 import type { MissingReason } from "@/lib/observations/missing";
 import type { EntryColumn } from "@/lib/observations/columns";
 import { todayIso } from "@/lib/schedule";
@@ -75,7 +75,7 @@ function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: 
 export async function planSiteObservations(
   ex: Tx | typeof db,
   viewer: Viewer,
-  input: { trialId: number; siteId: number; cells: CellInput[] },
+  input: { trialId: number; siteId: number; cells: CellInput[]; textNumberCommas?: TextNumberCommas },
   opts: { lock?: boolean; today?: string } = {},
 ): Promise<ObservationPlan> {
   const enrolment = await getRecordableEnrolment(ex, viewer, input, opts.lock);
@@ -90,7 +90,7 @@ export async function planSiteObservations(
   const byCode = new Map(plotRows.map((p) => [p.plotCode.toUpperCase(), p]));
   const colByKey = new Map(columns.map((c) => [c.key, c]));
   const existing = new Map(stored.map((o) => [`${o.plotId}:${o.key}`, o]));
-  const ctx = { sownOn: enrolment.sownOn, today: opts.today ?? todayIso() };
+  const ctx = { sownOn: enrolment.sownOn, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
 
   const problems: Problem[] = [];
   const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number }[] = [];
@@ -152,7 +152,7 @@ export async function planSiteObservations(
  */
 export async function saveSiteObservations(
   viewer: Viewer,
-  input: { trialId: number; siteId: number; cells: CellInput[]; source: "form" | "upload" },
+  input: { trialId: number; siteId: number; cells: CellInput[]; source: "form" | "upload"; textNumberCommas?: TextNumberCommas },
   opts: { today?: string } = {},
 ) {
   return db.transaction(async (tx) => {

@@ -12,11 +12,20 @@ export interface CellValue {
 
 export type ParseResult = { ok: true; value: CellValue | null } | { ok: false; message: string };
 
+/**
+ * How a number written as text with a comma ("12,5") is read: as a decimal comma where that is how the
+ * grower types (a form field, a CSV), or asked about where the grower's own spreadsheet program did not take
+ * it for a number (a text cell in a workbook), since the comma may then separate thousands.
+ */
+export type TextNumberCommas = "decimal" | "ask";
+
 export interface ParseContext {
   /** The site's sowing date (YYYY-MM-DD); dates before it are refused. */
   sownOn: string | null;
   /** Today (YYYY-MM-DD); observation dates after it are refused. */
   today: string;
+  /** Default "decimal". */
+  textNumberCommas?: TextNumberCommas;
 }
 
 /** Seedling counts that can never exceed the seeds sown in the same plot. */
@@ -92,12 +101,19 @@ export function parseDateText(raw: string): { ok: true; iso: string } | { ok: fa
 /**
  * Reads a number typed with a point or a decimal comma ("12,5"). A comma followed by exactly three
  * digits ("1,250") could be a thousands separator or a decimal comma, so it is refused with both readings.
+ * With commas "ask" (a workbook's text cell), any comma is refused that way.
  */
-export function parseNumberText(raw: string): { ok: true; n: number } | { ok: false; message: string } {
+export function parseNumberText(raw: string, commas: TextNumberCommas = "decimal"): { ok: true; n: number } | { ok: false; message: string } {
   const s = raw.trim().replace(/\s/g, "");
   if (/^[+-]?\d+(\.\d+)?$/.test(s)) return { ok: true, n: Number(s) };
   if (/^[+-]?\.\d+$/.test(s)) return { ok: true, n: Number(s) };
   const comma = /^([+-]?\d+),(\d+)$/.exec(s);
+  if (comma && commas === "ask") {
+    return {
+      ok: false,
+      message: `"${raw.trim()}" is stored in this cell as text, not as a number: your spreadsheet program did not read it as one, so the comma could mark decimals (${comma[1]}.${comma[2]}) or separate thousands. Type the number again without the comma, using a point for decimals (like ${comma[1]}.${comma[2]}).`,
+    };
+  }
   if (comma) {
     if (comma[2]!.length === 3) {
       return { ok: false, message: `"${raw}" could mean ${comma[1]}${comma[2]} or ${comma[1]}.${comma[2]}. Write it without the comma, or with a point for decimals.` };
@@ -137,7 +153,7 @@ export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): Pars
       let n: number;
       if (typeof raw === "number") n = raw;
       else if (typeof raw === "string") {
-        const parsed = parseNumberText(raw);
+        const parsed = parseNumberText(raw, ctx.textNumberCommas);
         if (!parsed.ok) return fail(parsed.message);
         n = parsed.n;
       } else if (raw instanceof Date) return fail("This is a date, but a number belongs here.");

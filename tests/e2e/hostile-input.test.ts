@@ -5,6 +5,8 @@ import { seededRandom } from "@/lib/design/random";
 import type { SampleIds } from "./access-matrix";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { loadSampleIds } from "../helpers/samples";
+import { UPLOAD_CORPUS } from "../helpers/bad-uploads";
+import { parseCsv } from "@/lib/spreadsheets/csv";
 
 // Generated malformed requests against the JSON APIs and the upload endpoints. Every answer must be a 4xx
 // with a readable message, and the database must be exactly as before.
@@ -308,5 +310,37 @@ describe("hostile input to the JSON APIs and uploads", () => {
     console.log(`hostile input: ${cases.length} requests, statuses ${JSON.stringify(statuses)}`);
     expect(failures.slice(0, 20), `${failures.length} bad answers`).toEqual([]);
     expect(after).toEqual(before);
+  }, 120_000);
+});
+
+describe("the upload corpus through the real route", () => {
+  it("every hostile or sloppy sheet gets a readable answer below 500 and a refused one writes nothing", async () => {
+    const template = new Uint8Array(await (await request(`/api/record/${ids.kal}/${ids.siteB}/template`, grower)).arrayBuffer());
+    const grid = parseCsv(exportCsv).filter((r) => r.some((c) => c !== ""));
+    const columnOf = (key: string) => {
+      const heading = { quality: "Overall quality", marketable_yield: "Marketable yield", harvest_date: "First harvest date", "emergence_count@5": "Seedlings emerged (count) day 5" }[key] ?? key;
+      return grid[0]!.findIndex((h) => h.startsWith(heading)) + 1;
+    };
+    const ctx = { template, grid, foreignPlotCode: "ZZ-9-99", columnOf };
+    const before = await fingerprint();
+    const failures: string[] = [];
+    for (const v of UPLOAD_CORPUS) {
+      const form = new FormData();
+      // Refused files are sent to be saved; the others depend on this site's values, so they are only previewed.
+      const mode = v.judgement === "refused" ? "commit" : "preview";
+      form.set("mode", mode);
+      form.set("file", new Blob([Uint8Array.from(await v.build(ctx))]), v.name);
+      const response = await request(`/api/record/${ids.kal}/${ids.siteB}/upload`, grower, { method: "POST", body: form });
+      const text = await response.text();
+      const contentType = response.headers.get("content-type") ?? "";
+      const json = contentType.includes("json") ? (JSON.parse(text) as { ok?: boolean; refused?: string | null; preview?: { refused?: string | null } }) : null;
+      const refusal = json?.refused ?? json?.preview?.refused ?? (json ? messageOf(text, contentType) : "");
+      if (response.status >= 500) failures.push(`${v.name}: status ${response.status} ${text.slice(0, 200)}`);
+      else if (STACK.test(text)) failures.push(`${v.name}: leaks internals: ${text.slice(0, 300)}`);
+      else if (mode === "commit" && (response.status < 400 || !refusal)) failures.push(`${v.name}: ${response.status} without a refusal: ${text.slice(0, 200)}`);
+      else if (mode === "preview" && (response.status !== 200 || json?.ok !== (v.judgement === "accepted"))) failures.push(`${v.name}: preview ${response.status} ${text.slice(0, 200)}`);
+    }
+    expect(failures).toEqual([]);
+    expect(await fingerprint()).toEqual(before);
   }, 120_000);
 });
