@@ -19,13 +19,16 @@ import type { addEntrySchema, createTrialSchema, updateTrialSchema } from "@/lib
 type CreateTrialInput = z.infer<typeof createTrialSchema>;
 type UpdateTrialInput = z.infer<typeof updateTrialSchema>;
 
-/** A trial records built-in traits and its own program's traits, nothing of another program's. */
-async function checkTraitsUsable(tx: Tx, programId: number, traitIds: number[]) {
+/**
+ * A trial records built-in traits and its own program's traits, nothing of another program's. Traits it
+ * already records stay allowed, so a trial from before programs owned traits can still be edited.
+ */
+async function checkTraitsUsable(tx: Tx, programId: number, traitIds: number[], alreadyRecorded: number[] = []) {
   if (traitIds.length === 0) return;
   const found = await tx
     .select({ id: traits.id })
     .from(traits)
-    .where(and(inArray(traits.id, traitIds), or(eq(traits.builtIn, true), eq(traits.programId, programId))));
+    .where(and(inArray(traits.id, traitIds), or(eq(traits.builtIn, true), eq(traits.programId, programId), inArray(traits.id, [0, ...alreadyRecorded]))));
   if (found.length !== new Set(traitIds).size) throw new AppError("bad_request", "One of the chosen traits is not in this program's trait library.", { traitIds: ["Choose traits from the list."] });
 }
 
@@ -93,7 +96,7 @@ export async function updateTrialDesign(viewer: Viewer, input: UpdateTrialInput)
     const sortedIds = (ids: number[]) => [...new Set(ids)].sort((a, b) => a - b).join(",");
     const traitsChanged = sortedIds(currentTraits) !== sortedIds(input.traitIds);
     if (traitsChanged && !canEditTraits(state)) throw new AppError("conflict", "The traits can no longer change because data collection has started.");
-    await checkTraitsUsable(tx, trial.programId, input.traitIds);
+    await checkTraitsUsable(tx, trial.programId, input.traitIds, currentTraits);
     await tx
       .update(trials)
       .set({ title: input.title, purpose: input.purpose ?? null, design: input.design, blocks: input.blocks, plotUnit: input.plotUnit, plotSize: input.plotSize, seedsPerCell: input.seedsPerCell, protocol: input.protocol ?? null })
