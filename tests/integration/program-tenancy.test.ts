@@ -3,7 +3,7 @@
 // programs: Tamarack Valley (coordinator Rosa, trials TV26-LET, TV26-SPN, TV27-KAL) and Juniper Flats
 // (coordinator Owen, draft trial JF27-LET at Juniper Flats Farm).
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { and, desc, eq, like } from "drizzle-orm";
+import { and, desc, eq, inArray, like } from "drizzle-orm";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/auth/types";
 import { DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
@@ -38,6 +38,14 @@ let admin: Viewer;
 let kale: Awaited<ReturnType<typeof demoSite>>;
 let juniperSiteId: number;
 let juniperTrialId: number;
+// What this file adds to the shared demo data, removed at the end so other files see the demo as it is.
+const created = { trials: [] as number[], traits: [] as number[], crops: [] as number[], emails: [] as string[] };
+const newEmail = (prefix: string) => {
+  const email = `${unique(prefix)}@example.test`;
+  created.emails.push(email);
+  return email;
+};
+
 /** Everything of the first program that the second program's coordinator must never read in a message. */
 const FIRST_PROGRAM_NAMES = [...DEMO_TRIALS.map((t) => t.code), ...DEMO_TRIALS.flatMap((t) => t.entries.map((e) => e.variety)), ...DEMO_SITES.map((x) => x.name)];
 
@@ -86,15 +94,19 @@ beforeAll(async () => {
 
 afterAll(async () => {
   auth.viewer = null;
+  if (created.trials.length) await db.delete(s.trials).where(inArray(s.trials.id, created.trials));
+  if (created.traits.length) await db.delete(s.traits).where(inArray(s.traits.id, created.traits));
+  if (created.crops.length) await db.delete(s.crops).where(inArray(s.crops.id, created.crops));
+  if (created.emails.length) await db.delete(s.users).where(inArray(s.users.email, created.emails));
   await pool.end();
   await appPool.end();
 });
 
 describe("sites and growers belong to one program", () => {
   it("refuses a coordinator's invitation to another program's site, answering as for a site that does not exist", async () => {
-    const email = `${unique("probe")}@example.test`;
+    const email = newEmail("probe");
     const foreign = await invite(owen, { name: "Probe Grower", email, siteId: kale.siteId });
-    const missing = await invite(owen, { name: "Probe Grower", email: `${unique("probe")}@example.test`, siteId: 987654321 });
+    const missing = await invite(owen, { name: "Probe Grower", email: newEmail("probe"), siteId: 987654321 });
     expect(foreign.ok).toBe(false);
     expect(missing.ok).toBe(false);
     const [a, b] = [foreign, missing].map((r) => (r.ok ? null : { formError: r.formError, fieldErrors: r.fieldErrors }));
@@ -106,7 +118,7 @@ describe("sites and growers belong to one program", () => {
   });
 
   it("a grower invited by another program's coordinator cannot export or write the first program's trial data", async () => {
-    const email = `${unique("foreign-grower")}@example.test`;
+    const email = newEmail("foreign-grower");
     // The attack: invite to the first program's site, then to the coordinator's own site, and accept.
     await invite(owen, { name: "Foreign Grower", email, siteId: kale.siteId });
     expect((await invite(owen, { name: "Foreign Grower", email, siteId: juniperSiteId })).ok).toBe(true);
@@ -129,10 +141,10 @@ describe("sites and growers belong to one program", () => {
 
   it("links another program's grower to your site without changing or revealing anything of the other program", async () => {
     // A grower of the first program with an account, and one whose invitation is still pending.
-    const active = `${unique("shared-grower")}@example.test`;
+    const active = newEmail("shared-grower");
     expect((await invite(rosa, { name: "Shared Grower", email: active, siteId: kale.siteId })).ok).toBe(true);
     await acceptLatestInvite(active);
-    const pending = `${unique("pending-grower")}@example.test`;
+    const pending = newEmail("pending-grower");
     expect((await invite(rosa, { name: "Pending Grower", email: pending, siteId: kale.siteId })).ok).toBe(true);
 
     const linked = await invite(owen, { name: "Someone Else", email: active, siteId: juniperSiteId });
@@ -215,10 +227,11 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     // A custom trait of the first program, recorded by one of its unpublished trials.
     const traitInput = traitSchema.parse({ name: "Leaf sheen", code: unique("sheen").replace(/-/g, "_").slice(0, 38), valueType: "rating", minValue: "1", maxValue: "9" });
     const sheen = await catalogue.insertTrait(rosa, traitInput);
+    created.traits.push(sheen);
     const [season] = await db.select({ id: s.seasons.id }).from(s.seasons).innerJoin(s.trials, eq(s.trials.seasonId, s.seasons.id)).where(eq(s.trials.id, kale.trialId));
     const [kaleCrop] = await db.select({ id: s.crops.id, name: s.crops.name }).from(s.crops).where(eq(s.crops.name, "Kale"));
-    const secretCode = `TV28-${unique("S").slice(-6).toUpperCase()}`;
-    await insertTrial(rosa, { seasonId: season!.id, cropId: kaleCrop!.id, code: secretCode, title: "Unpublished kale", design: "rcbd", blocks: 3, plotUnit: "insert", plotSize: 6, seedsPerCell: 1, traitIds: [sheen] });
+    const secretCode = `TV28-${unique("S").replace(/[^A-Za-z0-9]/g, "").slice(-6).toUpperCase()}`;
+    created.trials.push(await insertTrial(rosa, { seasonId: season!.id, cropId: kaleCrop!.id, code: secretCode, title: "Unpublished kale", design: "rcbd", blocks: 3, plotUnit: "insert", plotSize: 6, seedsPerCell: 1, traitIds: [sheen] }));
     const ember = await varietyId("Ember Red");
     const [emberLot] = await db.select({ id: s.seedLots.id }).from(s.seedLots).where(eq(s.seedLots.varietyId, ember));
 
@@ -245,6 +258,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
   it("keeps custom traits in their program: others neither list, edit nor record them", async () => {
     const traitInput = traitSchema.parse({ name: "Rib crack", code: unique("ribcrack").replace(/-/g, "_").slice(0, 38), valueType: "yes_no" });
     const ribs = await catalogue.insertTrait(rosa, traitInput);
+    created.traits.push(ribs);
     expect((await listTraits(owen)).map((t) => t.id)).not.toContain(ribs);
     expect((await getTrialFormOptions(owen))!.traits.map((t) => t.id)).not.toContain(ribs);
     expect((await listTraits(rosa)).map((t) => t.id)).toContain(ribs);
@@ -254,6 +268,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     expect((await refusal(updateTrialDesign(owen, design))).fieldErrors?.traitIds).toBeTruthy();
     // The same code may be used by another program; a built-in code may not.
     const own = await catalogue.insertTrait(owen, { ...traitInput, name: "Rib crack (Juniper)" });
+    created.traits.push(own);
     expect((await listTraits(owen)).find((t) => t.id === own)).toMatchObject({ code: traitInput.code, program: DEMO_SECOND_PROGRAM.name });
     expect((await refusal(catalogue.insertTrait(owen, { ...traitInput, code: "quality" }))).fieldErrors?.code).toBeTruthy();
   });
@@ -276,6 +291,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     await catalogue.updateCrop(admin, { cropId: lettuce!.id, name: "Lettuce", cropGroup: "leafy_greens", scientificName: "Lactuca sativa" });
 
     const okra = await catalogue.insertCrop(owen, { name: unique("Okra"), cropGroup: "fruiting" });
+    created.crops.push(okra);
     await catalogue.updateCrop(rosa, { cropId: okra, name: unique("Okra renamed"), cropGroup: "fruiting" });
   });
 });
