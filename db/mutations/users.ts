@@ -43,7 +43,7 @@ export async function insertCooperatorInviteInTx(tx: Tx, p: InviteRequest): Prom
   // An unknown site and another program's site get the same answer.
   if (!site) throw new AppError("bad_request", "Choose one of your program's sites.", { siteId: ["Choose a site from the list."] });
   const [existing] = await tx
-    .select({ id: users.id, role: users.role, passwordHash: users.passwordHash })
+    .select({ id: users.id, name: users.name, role: users.role, passwordHash: users.passwordHash })
     .from(users)
     .where(eq(users.email, p.email))
     .for("update");
@@ -52,8 +52,7 @@ export async function insertCooperatorInviteInTx(tx: Tx, p: InviteRequest): Prom
   }
   if (existing && existing.passwordHash !== null) {
     await tx.insert(siteCooperators).values({ siteId: p.siteId, userId: existing.id }).onDuplicateKeyUpdate({ set: { userId: existing.id } });
-    const [account] = await tx.select({ name: users.name }).from(users).where(eq(users.id, existing.id));
-    if (p.buildNotice) await insertMail(tx, p.buildNotice({ name: account!.name, siteName: site.name }));
+    if (p.buildNotice) await insertMail(tx, p.buildNotice({ name: existing.name, siteName: site.name }));
     await insertAudit(tx, { actorId: p.viewer.id, action: "attach_site", entity: "user", entityId: existing.id, newValue: { siteId: p.siteId } });
     return { userId: existing.id, invited: false };
   }
