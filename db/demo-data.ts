@@ -134,3 +134,27 @@ export const DEMO_TRIALS: DemoTrial[] = [
     ],
   },
 ];
+
+/**
+ * A second, smaller program with its own coordinator, grower, site, varieties, trait and a draft trial. It
+ * shows programs working side by side without seeing each other's sites, growers, varieties or trials.
+ */
+export const DEMO_SECOND_PROGRAM = {
+  slug: "juniper-flats",
+  name: "Juniper Flats Salad Greens Circle",
+  description: "A small growers' circle around Juniper Flats trying salad greens for the shoulder seasons.",
+  coordinator: { email: "owen.marsh@juniper-flats.example", name: "Owen Marsh" },
+  site: { name: "Juniper Flats Farm", kind: "farm", region: "Juniper Flats", growingSetup: "high_tunnel", soil: "sandy loam", irrigation: "drip", lat: 44.912, lon: -91.724, grower: { name: "Priya Castellan", email: "priya@juniperflats.example" } },
+  trait: { code: "tipburn", name: "Tipburn severity", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", description: "1 = no browned leaf edges, 9 = most leaves browned." },
+  trial: {
+    code: "JF27-LET",
+    title: "Butterhead lettuce for the autumn tunnel",
+    crop: "Lettuce",
+    purpose: "Which butterheads stay free of tipburn in a warm autumn tunnel?",
+    traits: ["seeds_sown", "emerged_final", "marketable_yield", "tipburn"],
+    entries: [
+      { variety: "Juniper Butterhead", source: "Flats Seed Swap", labelGermination: 88, packetDays: 52 },
+      { variety: "Marsh Gold", source: "Hollowtree Seed Co.", labelGermination: 91, packetDays: 49, isCheck: true },
+    ],
+  },
+} as const;

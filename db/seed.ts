@@ -6,7 +6,7 @@ import { sql } from "drizzle-orm";
 import { hash } from "@node-rs/argon2";
 import { createDatabase, type Database } from "./client";
 import * as s from "./schema";
-import { DEMO_CROPS, DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF, DEMO_TRAITS, DEMO_TRIALS, type DemoTrial } from "./demo-data";
+import { DEMO_CROPS, DEMO_PASSWORDS, DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF, DEMO_TRAITS, DEMO_TRIALS, type DemoTrial } from "./demo-data";
 import { seededRandom } from "@/lib/design/random";
 import { siteLayout } from "@/lib/design/site-layout";
 import { blindCodes } from "@/lib/design/blind-codes";
@@ -76,6 +76,7 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
       const [row] = await tx
         .insert(s.sites)
         .values({
+          programId,
           name: site.name,
           kind: site.kind,
           region: site.region,
@@ -137,7 +138,70 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
         random,
       });
     }
+
+    await seedSecondProgram(tx as unknown as Database, { coordinatorHash, growerHash, cropIds, traitIds, today });
   });
+}
+
+/** The second program: its coordinator, one site with its grower, two varieties, its own trait and a draft trial with the site enrolled. */
+async function seedSecondProgram(
+  tx: Database,
+  p: { coordinatorHash: string; growerHash: string; cropIds: Record<string, number>; traitIds: Record<string, number>; today: string },
+) {
+  const demo = DEMO_SECOND_PROGRAM;
+  const [coordinator] = await tx.insert(s.users).values({ ...demo.coordinator, role: "coordinator", passwordHash: p.coordinatorHash }).$returningId();
+  const [program] = await tx.insert(s.programs).values({ slug: demo.slug, name: demo.name, description: demo.description }).$returningId();
+  const programId = program!.id;
+  await tx.insert(s.programCoordinators).values({ programId, userId: coordinator!.id });
+  const [season] = await tx.insert(s.seasons).values({ programId, name: "Autumn 2027", year: 2027, startsOn: addDays(p.today, -10), endsOn: addDays(p.today, 120) }).$returningId();
+
+  const { site } = demo;
+  const [grower] = await tx.insert(s.users).values({ ...site.grower, role: "cooperator", passwordHash: p.growerHash }).$returningId();
+  const [siteRow] = await tx
+    .insert(s.sites)
+    .values({
+      programId,
+      name: site.name,
+      kind: site.kind,
+      region: site.region,
+      growingSetup: site.growingSetup,
+      soil: site.soil,
+      irrigation: site.irrigation,
+      latitude: site.lat,
+      longitude: site.lon,
+      contactName: site.grower.name,
+      contactEmail: site.grower.email,
+      contactPhone: "555-0190",
+      publicDescription: `A partner farm in ${site.region}; ${site.soil}, ${site.irrigation}.`,
+    })
+    .$returningId();
+  await tx.insert(s.siteCooperators).values({ siteId: siteRow!.id, userId: grower!.id });
+
+  const { trait } = demo;
+  const [traitRow] = await tx
+    .insert(s.traits)
+    .values({ programId, code: trait.code, name: trait.name, unit: trait.unit, valueType: trait.valueType, minValue: trait.min, maxValue: trait.max, dueNote: trait.dueNote, description: trait.description, builtIn: false })
+    .$returningId();
+  const traitIds: Record<string, number> = { ...p.traitIds, [trait.code]: traitRow!.id };
+
+  const { trial } = demo;
+  const cropId = p.cropIds[trial.crop]!;
+  const [trialRow] = await tx
+    .insert(s.trials)
+    .values({ programId, seasonId: season!.id, cropId, code: trial.code, title: trial.title, purpose: trial.purpose, design: "rcbd", blocks: 3, plotUnit: "bed_row", plotSize: 10, seedsPerCell: 1, status: "draft", createdById: coordinator!.id })
+    .$returningId();
+  const trialId = trialRow!.id;
+  await tx.insert(s.trialTraits).values(trial.traits.map((code, i) => ({ trialId, traitId: traitIds[code]!, sortOrder: i })));
+  const codes = blindCodes(trial.entries.length, 7100);
+  for (const [i, entry] of trial.entries.entries()) {
+    const [variety] = await tx.insert(s.varieties).values({ programId, cropId, name: entry.variety }).$returningId();
+    const [lot] = await tx
+      .insert(s.seedLots)
+      .values({ varietyId: variety!.id, source: entry.source, lotCode: `JF-${String(201 + i)}`, labelGerminationPct: entry.labelGermination, germinationTestDate: "2027-01-20", packetDaysToMaturity: entry.packetDays })
+      .$returningId();
+    await tx.insert(s.trialEntries).values({ trialId, varietyId: variety!.id, seedLotId: lot!.id, blindCode: codes[i]!, entryNumber: i + 1, isCheck: "isCheck" in entry && entry.isCheck });
+  }
+  await tx.insert(s.enrolments).values({ trialId, siteId: siteRow!.id, cooperatorId: grower!.id });
 }
 
 async function seedTrial(
@@ -186,7 +250,7 @@ async function seedTrial(
   const codes = blindCodes(trial.entries.length, 7000 + p.trialIndex);
   const entryIds: number[] = [];
   for (const [i, entry] of trial.entries.entries()) {
-    const [variety] = await tx.insert(s.varieties).values({ cropId: p.cropId, name: entry.variety }).$returningId();
+    const [variety] = await tx.insert(s.varieties).values({ programId: p.programId, cropId: p.cropId, name: entry.variety }).$returningId();
     const [lot] = await tx
       .insert(s.seedLots)
       .values({

@@ -143,14 +143,14 @@ async function createTrial(tag: string, coordinatorId: number) {
   ]);
   const entryIds: number[] = [];
   for (let i = 0; i < ENTRIES; i += 1) {
-    const [v] = await db.insert(s.varieties).values({ cropId: crop!.id, name: `Bench variety ${i + 1}` }).$returningId();
+    const [v] = await db.insert(s.varieties).values({ programId: membership.programId, cropId: crop!.id, name: `Bench variety ${i + 1}` }).$returningId();
     const [e] = await db.insert(s.trialEntries).values({ trialId, varietyId: v!.id, blindCode: `B${String(i + 1).padStart(3, "0")}`, entryNumber: i + 1, isCheck: i === 0 }).$returningId();
     entryIds.push(e!.id);
   }
   const random = lcg(20260401);
   const plotRows: (typeof s.plots.$inferInsert)[] = [];
   for (let site = 0; site < SITES; site += 1) {
-    const [siteRow] = await db.insert(s.sites).values({ name: `Analysis bench site ${tag} ${site + 1}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
+    const [siteRow] = await db.insert(s.sites).values({ programId: membership.programId, name: `Analysis bench site ${tag} ${site + 1}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
     const [enrolment] = await db.insert(s.enrolments).values({ trialId, siteId: siteRow!.id, sownOn: addDays(todayIso(), -70), randomisedAt: new Date() }).$returningId();
     await db.insert(s.submissions).values({ enrolmentId: enrolment!.id, status: "accepted", submittedAt: new Date(), reviewedAt: new Date() });
     for (let block = 1; block <= BLOCKS; block += 1) {

@@ -121,7 +121,7 @@ async function loadTrial(tag: string) {
   await db.insert(s.trialTraits).values({ trialId: trial!.id, traitId: trait!.id, sortOrder: 0 });
   const entryIds: number[] = [];
   for (let i = 0; i < 10; i += 1) {
-    const [v] = await db.insert(s.varieties).values({ cropId: crop!.id, name: `Load variety ${tag} ${i}` }).$returningId();
+    const [v] = await db.insert(s.varieties).values({ programId: program!.id, cropId: crop!.id, name: `Load variety ${tag} ${i}` }).$returningId();
     const [e] = await db.insert(s.trialEntries).values({ trialId: trial!.id, varietyId: v!.id, blindCode: `L${i}${tag.slice(-2)}`, entryNumber: i + 1 }).$returningId();
     entryIds.push(e!.id);
   }
@@ -131,7 +131,7 @@ async function loadTrial(tag: string) {
   for (let g = 0; g < GROWERS; g += 1) {
     const email = `load-${tag}-${g}@example.test`.toLowerCase();
     const [u] = await db.insert(s.users).values({ email, name: `Load grower ${g}`, role: "cooperator", passwordHash }).$returningId();
-    const [site] = await db.insert(s.sites).values({ name: `Load site ${tag} ${g}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
+    const [site] = await db.insert(s.sites).values({ programId: program!.id, name: `Load site ${tag} ${g}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
     const [enrolment] = await db.insert(s.enrolments).values({ trialId: trial!.id, siteId: site!.id, cooperatorId: u!.id, sownOn: addDays(todayIso(), -30), randomisedAt: new Date() }).$returningId();
     await db.insert(s.plots).values(
       Array.from({ length: PLOTS_PER_SITE }, (_, i) => ({ enrolmentId: enrolment!.id, trialId: trial!.id, siteId: site!.id, entryId: entryIds[i % 10]!, plotCode: `G${g}P${i + 1}`, block: Math.floor(i / 10) + 1, position: (i % 10) + 1 })),

@@ -9,6 +9,8 @@ import { CROP_GROUPS, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/db/schema/enums"
 import { COMPUTATION_LABELS, CROP_GROUP_LABELS, TRAIT_TYPE_LABELS } from "@/lib/labels";
 import type { ActionResult } from "@/lib/actions/result";
 import type { CropRow, SeedLotRow, TraitRow, VarietyRow } from "@/db/queries/catalogue";
+import type { ProgramOption } from "@/db/queries/programs";
+import { ProgramField } from "@/components/portal/program-field";
 
 const failedOf = (state: ActionResult | null) => (state && !state.ok ? state : null);
 const text = (v: string | number | null | undefined) => (v === null || v === undefined ? undefined : String(v));
@@ -57,11 +59,13 @@ export function CropForm({ item, onSaved }: { item?: CropRow; onSaved?: (message
   );
 }
 
-export function VarietyForm({ crops, item, onSaved }: { crops: { id: number; name: string }[]; item?: VarietyRow; onSaved?: (message: string) => void }) {
+/** `programs` is for adding: an edited variety stays in its program. */
+export function VarietyForm({ crops, programs = [], item, onSaved }: { crops: { id: number; name: string }[]; programs?: ProgramOption[]; item?: VarietyRow; onSaved?: (message: string) => void }) {
   const { state, action, f, formKey, id } = useCatalogueForm(createVariety, editVariety, !!item, onSaved);
   return (
     <form action={action} noValidate className="space-y-3" key={formKey}>
       {item && <input type="hidden" name="varietyId" value={item.id} />}
+      {!item && <ProgramField programs={programs} id={id("variety-program")} defaultValue={f?.values?.programId} errors={f?.fieldErrors?.programId} />}
       <SelectField label="Crop" name="cropId" id={id("variety-crop")} defaultValue={f?.values?.cropId ?? text(item?.cropId) ?? ""} errors={f?.fieldErrors?.cropId}>
         <option value="">Choose…</option>
         {crops.map((c) => (
@@ -131,11 +135,13 @@ export function SeedLotForm({ varieties, item, onSaved }: { varieties: { id: num
   );
 }
 
-export function TraitForm({ item, onSaved }: { item?: TraitRow; onSaved?: (message: string) => void }) {
+/** `programs` is for adding: an edited trait stays in its program. */
+export function TraitForm({ programs = [], item, onSaved }: { programs?: ProgramOption[]; item?: TraitRow; onSaved?: (message: string) => void }) {
   const { state, action, f, formKey, id } = useCatalogueForm(createTrait, editTrait, !!item, onSaved);
   return (
     <form action={action} noValidate className="grid gap-3 sm:grid-cols-2" key={formKey}>
       {item && <input type="hidden" name="traitId" value={item.id} />}
+      {!item && <ProgramField programs={programs} id={id("trait-program")} defaultValue={f?.values?.programId} errors={f?.fieldErrors?.programId} className="sm:col-span-2" />}
       <TextField label="Trait name" name="name" id={id("name")} defaultValue={f?.values?.name ?? item?.name} errors={f?.fieldErrors?.name} />
       <TextField label="Short code" name="code" id={id("code")} hint="Lowercase, e.g. stem_length" defaultValue={f?.values?.code ?? item?.code} errors={f?.fieldErrors?.code} />
       <SelectField label="Kind of value" name="valueType" id={id("valueType")} defaultValue={f?.values?.valueType ?? item?.valueType ?? ""} errors={f?.fieldErrors?.valueType}>

@@ -31,7 +31,13 @@ const cropColumns: ColumnDef<CropRow, unknown>[] = [
       id={r.id}
       remove={removeCrop}
       editTitle={`Edit ${r.name}`}
-      note={r.trials > 0 ? `Grown in ${trialCount(r.trials)}. Their pages show the new name; published reports keep the name they were published with.` : null}
+      note={
+        r.usedByOtherPrograms
+          ? "Another program also grows this crop, so only an administrator can rename or delete it."
+          : r.trials > 0
+            ? `Grown in ${trialCount(r.trials)}. Their pages show the new name; published reports keep the name they were published with.`
+            : null
+      }
       renderEdit={(onSaved) => <CropForm item={r} onSaved={onSaved} />}
     />
   )),
@@ -144,8 +150,15 @@ export const CropTable = ({ rows }: { rows: CropRow[] }) => (
   </TableNotices>
 );
 
+/** A program column, only for people who see more than one program's items (admins, multi-program coordinators). */
+function withProgramColumn<T extends { program: string | null }>(rows: T[], columns: ColumnDef<T, unknown>[]): ColumnDef<T, unknown>[] {
+  const programs = new Set(rows.map((r) => r.program).filter((p) => p !== null));
+  if (programs.size < 2) return columns;
+  return [...columns.slice(0, -1), { id: "program", accessorFn: (r) => r.program ?? "Every program", header: "Program" }, columns.at(-1)!];
+}
+
 export function VarietyTable({ rows, crops }: { rows: VarietyRow[]; crops: { id: number; name: string }[] }) {
-  const columns = useMemo(() => varietyColumns(crops), [crops]);
+  const columns = useMemo(() => withProgramColumn(rows, varietyColumns(crops)), [rows, crops]);
   return (
     <TableNotices>
       <DataTable data={rows} columns={columns} caption="Varieties" filterLabel="Filter varieties" />
@@ -162,8 +175,11 @@ export function SeedLotTable({ rows, varieties }: { rows: SeedLotRow[]; varietie
   );
 }
 
-export const TraitTable = ({ rows }: { rows: TraitRow[] }) => (
-  <TableNotices>
-    <DataTable data={rows} columns={traitColumns} caption="Trait library" filterLabel="Filter traits" pageSize={25} />
-  </TableNotices>
-);
+export function TraitTable({ rows }: { rows: TraitRow[] }) {
+  const columns = useMemo(() => withProgramColumn(rows, traitColumns), [rows]);
+  return (
+    <TableNotices>
+      <DataTable data={rows} columns={columns} caption="Trait library" filterLabel="Filter traits" pageSize={25} />
+    </TableNotices>
+  );
+}

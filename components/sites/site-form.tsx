@@ -6,12 +6,15 @@ import { FormMessage } from "@/components/ui/form-message";
 import { createSite } from "@/lib/actions/sites";
 import { GROWING_SETUPS, SITE_KINDS } from "@/db/schema/enums";
 import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/labels";
+import { ProgramField } from "@/components/portal/program-field";
+import type { ProgramOption } from "@/db/queries/programs";
 
-export function SiteForm() {
+export function SiteForm({ programs }: { programs: ProgramOption[] }) {
   const [state, action] = useActionState(createSite, null);
   const f = state && !state.ok ? state : null;
   return (
     <form action={action} noValidate className="grid gap-3 sm:grid-cols-2" key={state?.ok ? `saved-${state.message}` : "editing"}>
+      <ProgramField programs={programs} defaultValue={f?.values?.programId} errors={f?.fieldErrors?.programId} className="sm:col-span-2" />
       <TextField label="Site name" name="name" defaultValue={f?.values?.name} errors={f?.fieldErrors?.name} />
       <SelectField label="Kind" name="kind" defaultValue={f?.values?.kind ?? "farm"} errors={f?.fieldErrors?.kind}>
         {SITE_KINDS.map((k) => (

@@ -31,6 +31,10 @@ const columns: ColumnDef<SiteRow, unknown>[] = [
   },
 ];
 
+const programColumn: ColumnDef<SiteRow, unknown> = { accessorKey: "program", header: "Program" };
+
 export function SiteTable({ rows }: { rows: SiteRow[] }) {
-  return <DataTable data={rows} columns={columns} caption="Partner sites" filterLabel="Filter sites" />;
+  // The program is worth a column only for people who see sites of more than one.
+  const severalPrograms = new Set(rows.map((r) => r.program)).size > 1;
+  return <DataTable data={rows} columns={severalPrograms ? [columns[0]!, programColumn, ...columns.slice(1)] : columns} caption="Partner sites" filterLabel="Filter sites" />;
 }

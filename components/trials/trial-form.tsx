@@ -56,7 +56,7 @@ export function TrialForm({ options, trial }: { options: Options; trial?: TrialD
           </option>
         ))}
       </SelectField>
-      <TextField label="Trial code" name="code" hint="Short and unique, e.g. TV27-KAL" defaultValue={f?.values?.code} errors={f?.fieldErrors?.code} />
+      <TextField label="Trial code" name="code" hint="Short and unique, e.g. W27-KALE" defaultValue={f?.values?.code} errors={f?.fieldErrors?.code} />
         </>
       )}
       <TextField label="Title" name="title" defaultValue={v("title", trial?.title)} errors={f?.fieldErrors?.title} />

@@ -12,8 +12,8 @@ export function InviteForm({ sites }: { sites: { id: number; name: string }[] })
     <form action={action} noValidate className="space-y-4" key={state?.ok ? "sent" : "editing"}>
       <TextField label="Grower's name" name="name" autoComplete="off" required defaultValue={failed?.values?.name} errors={failed?.fieldErrors?.name} />
       <TextField label="E-mail" name="email" type="email" autoComplete="off" required defaultValue={failed?.values?.email} errors={failed?.fieldErrors?.email} />
-      <SelectField label="Site (optional)" name="siteId" defaultValue={failed?.values?.siteId ?? ""} errors={failed?.fieldErrors?.siteId}>
-        <option value="">No site yet</option>
+      <SelectField label="Site" name="siteId" defaultValue={failed?.values?.siteId ?? ""} errors={failed?.fieldErrors?.siteId}>
+        <option value="">Choose…</option>
         {sites.map((s) => (
           <option key={s.id} value={s.id}>
             {s.name}

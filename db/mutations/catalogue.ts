@@ -1,9 +1,9 @@
 import "server-only";
-import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, count, eq, inArray, or, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { crops, enrolments, observations, seedLots, trialEntries, trialTraits, traits, trials, varieties } from "../schema";
 import { insertAudit } from "../audit";
-import { isDuplicateKey, requireStaff } from "../access";
+import { cropUsedByOtherPrograms, isDuplicateKey, programScope, requireStaff, resolveProgram, staffTrialScope, staffVarietyScope } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/auth/types";
 import type { z } from "zod";
@@ -72,17 +72,34 @@ async function writeCatalogue(p: {
 
 const insertedId = (rows: { id: number }[]) => rows[0]!.id;
 
-/** "trial TV27-KAL", "trials TV26-LET and TV27-KAL", "trials A, B, C and 2 more". */
-function trialsPhrase(codes: string[]) {
-  const list = codes.length > 3 ? `${codes.slice(0, 3).join(", ")} and ${codes.length - 3} more` : codes.length > 1 ? `${codes.slice(0, -1).join(", ")} and ${codes.at(-1)}` : (codes[0] ?? "");
-  return `${codes.length === 1 ? "trial" : "trials"} ${list}`;
+/** A trial that uses a catalogue item; `mine` says whether the viewer may know its code. */
+interface UsingTrial {
+  code: string;
+  status: string;
+  mine: boolean;
+}
+
+/**
+ * "trial TV27-KAL", "trials TV26-LET and TV27-KAL", "trials A, B, C and 2 more". Refusals name only the
+ * viewer's own trials; another program's trials are counted, never named.
+ */
+function trialsPhrase(usedBy: UsingTrial[]) {
+  const named = usedBy.filter((t) => t.mine).map((t) => t.code);
+  const shown = named.slice(0, 3);
+  const more = usedBy.length - shown.length;
+  if (shown.length === 0) return more === 1 ? "a trial of another program" : `${more} trials of other programs`;
+  const list = more > 0 ? `${shown.join(", ")} and ${more} more` : shown.length > 1 ? `${shown.slice(0, -1).join(", ")} and ${shown.at(-1)}` : shown[0]!;
+  return `${usedBy.length === 1 ? "trial" : "trials"} ${list}`;
 }
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
-/** Codes of trials that use a variety or a seed lot as an entry, with their statuses. */
-async function trialsWithEntry(tx: Tx, where: ReturnType<typeof eq>) {
+/** Whether a trial row is one of the viewer's, as a selectable 0/1 column. */
+const mineColumn = (viewer: Viewer) => sql<boolean>`(${staffTrialScope(viewer)})`.mapWith((v) => Number(v) === 1);
+
+/** Trials that use a variety or a seed lot as an entry, with their statuses. */
+async function trialsWithEntry(tx: Tx, viewer: Viewer, where: ReturnType<typeof eq>): Promise<UsingTrial[]> {
   return tx
-    .selectDistinct({ code: trials.code, status: trials.status })
+    .selectDistinct({ code: trials.code, status: trials.status, mine: mineColumn(viewer) })
     .from(trialEntries)
     .innerJoin(trials, eq(trials.id, trialEntries.trialId))
     .where(where)
@@ -95,15 +112,23 @@ async function requireCrop(tx: Tx, cropId: number, field = "cropId") {
   return crop;
 }
 
-async function requireVariety(tx: Tx, varietyId: number, field = "varietyId") {
-  const [variety] = await tx.select({ id: varieties.id }).from(varieties).where(eq(varieties.id, varietyId));
-  if (!variety) throw new AppError("bad_request", "That variety is not in the catalogue.", { [field]: ["Choose a variety from the list."] });
+/** One of the viewer's programs' varieties; another program's variety is refused as if it did not exist. */
+async function requireVariety(tx: Tx, viewer: Viewer, varietyId: number, field = "varietyId") {
+  const [variety] = await tx.select({ id: varieties.id, programId: varieties.programId }).from(varieties).where(and(eq(varieties.id, varietyId), staffVarietyScope(viewer)));
+  if (!variety) throw new AppError("bad_request", "That variety is not in your program's catalogue.", { [field]: ["Choose a variety from the list."] });
+  return variety;
+}
+
+/** A custom trait's code may not repeat a built-in one: trials record both, and growers' sheets name columns by code. */
+async function requireFreeTraitCode(tx: Tx, code: string) {
+  const [builtIn] = await tx.select({ id: traits.id }).from(traits).where(and(eq(traits.code, code), eq(traits.builtIn, true)));
+  if (builtIn) throw new AppError("conflict", TRAIT_DUPLICATE.message, { code: [TRAIT_DUPLICATE.message] });
 }
 
 const CROP_DUPLICATE = { field: "name", message: "A crop with this name is already in the catalogue." };
-const VARIETY_DUPLICATE = { field: "name", message: "This crop already has a variety with this name." };
+const VARIETY_DUPLICATE = { field: "name", message: "Your program already has a variety of this crop with this name." };
 const LOT_DUPLICATE = { field: "lotCode", message: "This lot from this source is already recorded for the variety." };
-const TRAIT_DUPLICATE = { field: "code", message: "A trait with this code already exists; choose another code." };
+const TRAIT_DUPLICATE = { field: "code", message: "A trait in your library already uses this code; choose another code." };
 
 export async function insertCrop(viewer: Viewer, input: CropInput) {
   return writeCatalogue({
@@ -122,8 +147,9 @@ export async function insertVariety(viewer: Viewer, input: VarietyInput) {
     action: "create",
     duplicate: VARIETY_DUPLICATE,
     write: async (tx) => {
+      const programId = await resolveProgram(tx, viewer, input.programId);
       await requireCrop(tx, input.cropId);
-      return { id: insertedId(await tx.insert(varieties).values(varietyValues(input)).$returningId()), newValue: input };
+      return { id: insertedId(await tx.insert(varieties).values({ ...varietyValues(input), programId }).$returningId()), newValue: { ...input, programId } };
     },
   });
 }
@@ -135,25 +161,30 @@ export async function insertSeedLot(viewer: Viewer, input: SeedLotInput) {
     action: "create",
     duplicate: LOT_DUPLICATE,
     write: async (tx) => {
-      await requireVariety(tx, input.varietyId);
+      await requireVariety(tx, viewer, input.varietyId);
       return { id: insertedId(await tx.insert(seedLots).values(seedLotValues(input)).$returningId()), newValue: input };
     },
   });
 }
 
-/** Adds a trait to the shared library; built-in traits come only from the seed script. */
+/** Adds a trait to one of the viewer's programs; built-in traits come only from the seed script. */
 export async function insertTrait(viewer: Viewer, input: TraitInput) {
   return writeCatalogue({
     viewer,
     entity: "trait",
     action: "create",
     duplicate: TRAIT_DUPLICATE,
-    write: async (tx) => ({ id: insertedId(await tx.insert(traits).values({ ...traitValues(input), builtIn: false }).$returningId()), newValue: input }),
+    write: async (tx) => {
+      const programId = await resolveProgram(tx, viewer, input.programId);
+      await requireFreeTraitCode(tx, input.code);
+      return { id: insertedId(await tx.insert(traits).values({ ...traitValues(input), builtIn: false, programId }).$returningId()), newValue: { ...input, programId } };
+    },
   });
 }
 
 // Edits and deletes lock the row first, so a check ("not used by any trial") and the write it allows
-// cannot be split by another coordinator's change.
+// cannot be split by another coordinator's change. Varieties, seed lots and custom traits are found only
+// within the viewer's programs: another program's row answers exactly like a deleted one.
 
 async function lockCrop(tx: Tx, cropId: number) {
   const [row] = await tx.select().from(crops).where(eq(crops.id, cropId)).for("update");
@@ -161,25 +192,45 @@ async function lockCrop(tx: Tx, cropId: number) {
   return row;
 }
 
-async function lockVariety(tx: Tx, varietyId: number) {
-  const [row] = await tx.select().from(varieties).where(eq(varieties.id, varietyId)).for("update");
-  if (!row) throw new AppError("not_found", "That variety is no longer in the catalogue.");
+/** Crops are shared: one that another program grows is renamed or deleted only by an admin. */
+async function assertCropNotShared(tx: Tx, viewer: Viewer, crop: { id: number; name: string }, change: "renamed" | "deleted") {
+  if (await cropUsedByOtherPrograms(tx, viewer, crop.id)) {
+    throw new AppError("conflict", `Another program also grows ${crop.name}, so only an administrator can change or delete it. Ask one if it must be ${change}.`);
+  }
+}
+
+async function lockVariety(tx: Tx, viewer: Viewer, varietyId: number) {
+  const [row] = await tx.select().from(varieties).where(and(eq(varieties.id, varietyId), staffVarietyScope(viewer))).for("update");
+  if (!row) throw new AppError("not_found", "That variety is not in your program's catalogue.");
   return row;
 }
 
-async function lockSeedLot(tx: Tx, seedLotId: number) {
-  const [row] = await tx.select().from(seedLots).where(eq(seedLots.id, seedLotId)).for("update");
-  if (!row) throw new AppError("not_found", "That seed lot is no longer in the catalogue.");
+async function lockSeedLot(tx: Tx, viewer: Viewer, seedLotId: number) {
+  const [found] = await tx
+    .select({ lot: seedLots })
+    .from(seedLots)
+    .innerJoin(varieties, eq(varieties.id, seedLots.varietyId))
+    .where(and(eq(seedLots.id, seedLotId), staffVarietyScope(viewer)))
+    .for("update");
+  if (!found) throw new AppError("not_found", "That seed lot is not in your program's catalogue.");
+  return found.lot;
+}
+
+/** A built-in trait (refused by the caller) or one of the viewer's programs' own traits. */
+async function lockTrait(tx: Tx, viewer: Viewer, traitId: number) {
+  const [row] = await tx
+    .select()
+    .from(traits)
+    .where(and(eq(traits.id, traitId), or(eq(traits.builtIn, true), programScope(viewer, traits.programId))))
+    .for("update");
+  if (!row) throw new AppError("not_found", "That trait is not in your trait library.");
   return row;
 }
 
-async function lockTrait(tx: Tx, traitId: number) {
-  const [row] = await tx.select().from(traits).where(eq(traits.id, traitId)).for("update");
-  if (!row) throw new AppError("not_found", "That trait is no longer in the library.");
-  return row;
-}
-
-/** Renames or regroups a crop. Trials show the current name; published reports keep the name they were published with. */
+/**
+ * Renames or regroups a crop. Trials show the current name; published reports keep the name they were
+ * published with. A crop another program grows changes only by an admin.
+ */
 export async function updateCrop(viewer: Viewer, input: CropInput & { cropId: number }) {
   return writeCatalogue({
     viewer,
@@ -188,13 +239,14 @@ export async function updateCrop(viewer: Viewer, input: CropInput & { cropId: nu
     duplicate: CROP_DUPLICATE,
     write: async (tx) => {
       const old = await lockCrop(tx, input.cropId);
+      await assertCropNotShared(tx, viewer, old, "renamed");
       await tx.update(crops).set(cropValues(input)).where(eq(crops.id, old.id));
       return { id: old.id, oldValue: old, newValue: input };
     },
   });
 }
 
-/** Deletes a crop that has no varieties and no trials. */
+/** Deletes a crop that has no varieties and no trials (and that no other program grows, unless an admin asks). */
 export async function deleteCrop(viewer: Viewer, input: { cropId: number }) {
   return writeCatalogue({
     viewer,
@@ -202,8 +254,9 @@ export async function deleteCrop(viewer: Viewer, input: { cropId: number }) {
     action: "delete",
     write: async (tx) => {
       const old = await lockCrop(tx, input.cropId);
-      const usedBy = await tx.select({ code: trials.code }).from(trials).where(eq(trials.cropId, old.id)).orderBy(asc(trials.code));
-      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is the crop of ${trialsPhrase(usedBy.map((t) => t.code))}.`);
+      await assertCropNotShared(tx, viewer, old, "deleted");
+      const usedBy = await tx.select({ code: trials.code, status: trials.status, mine: mineColumn(viewer) }).from(trials).where(eq(trials.cropId, old.id)).orderBy(asc(trials.code));
+      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is the crop of ${trialsPhrase(usedBy)}.`);
       const [kids] = await tx.select({ n: count() }).from(varieties).where(eq(varieties.cropId, old.id));
       if ((kids?.n ?? 0) > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it still has ${plural(kids!.n, "variety", "varieties")}. Delete those first.`);
       await tx.delete(crops).where(eq(crops.id, old.id));
@@ -223,15 +276,16 @@ export async function updateVariety(viewer: Viewer, input: VarietyInput & { vari
     action: "update",
     duplicate: VARIETY_DUPLICATE,
     write: async (tx) => {
-      const old = await lockVariety(tx, input.varietyId);
+      const old = await lockVariety(tx, viewer, input.varietyId);
       if (old.cropId !== input.cropId) {
         await requireCrop(tx, input.cropId);
-        const usedBy = await trialsWithEntry(tx, eq(trialEntries.varietyId, old.id));
+        const usedBy = await trialsWithEntry(tx, viewer, eq(trialEntries.varietyId, old.id));
         if (usedBy.length > 0) {
-          const message = `${old.name} is an entry in ${trialsPhrase(usedBy.map((t) => t.code))}, so it must stay with its crop.`;
+          const message = `${old.name} is an entry in ${trialsPhrase(usedBy)}, so it must stay with its crop.`;
           throw new AppError("conflict", message, { cropId: [message] });
         }
       }
+      // The program a variety belongs to never changes here.
       await tx.update(varieties).set(varietyValues(input)).where(eq(varieties.id, old.id));
       return { id: old.id, oldValue: old, newValue: input };
     },
@@ -245,9 +299,9 @@ export async function deleteVariety(viewer: Viewer, input: { varietyId: number }
     entity: "variety",
     action: "delete",
     write: async (tx) => {
-      const old = await lockVariety(tx, input.varietyId);
-      const usedBy = await trialsWithEntry(tx, eq(trialEntries.varietyId, old.id));
-      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is an entry in ${trialsPhrase(usedBy.map((t) => t.code))}.`);
+      const old = await lockVariety(tx, viewer, input.varietyId);
+      const usedBy = await trialsWithEntry(tx, viewer, eq(trialEntries.varietyId, old.id));
+      if (usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is an entry in ${trialsPhrase(usedBy)}.`);
       const [lots] = await tx.select({ n: count() }).from(seedLots).where(eq(seedLots.varietyId, old.id));
       if ((lots?.n ?? 0) > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it still has ${plural(lots!.n, "seed lot")}. Delete those first.`);
       await tx.delete(varieties).where(eq(varieties.id, old.id));
@@ -272,20 +326,20 @@ export async function updateSeedLot(viewer: Viewer, input: SeedLotInput & { seed
     action: "update",
     duplicate: LOT_DUPLICATE,
     write: async (tx) => {
-      const old = await lockSeedLot(tx, input.seedLotId);
+      const old = await lockSeedLot(tx, viewer, input.seedLotId);
       const next = seedLotValues(input);
-      const usedBy = await trialsWithEntry(tx, eq(trialEntries.seedLotId, old.id));
+      const usedBy = await trialsWithEntry(tx, viewer, eq(trialEntries.seedLotId, old.id));
       if (old.varietyId !== next.varietyId) {
-        await requireVariety(tx, next.varietyId);
+        await requireVariety(tx, viewer, next.varietyId);
         if (usedBy.length > 0) {
-          const message = `Lot ${old.lotCode} is used by an entry in ${trialsPhrase(usedBy.map((t) => t.code))}, so it must stay with its variety.`;
+          const message = `Lot ${old.lotCode} is used by an entry in ${trialsPhrase(usedBy)}, so it must stay with its variety.`;
           throw new AppError("conflict", message, { varietyId: [message] });
         }
       }
       const recorded = usedBy.filter((t) => (RECORDED_STATUSES as readonly string[]).includes(t.status));
       const changedLabel = LABEL_FIELDS.filter((f) => String(old[f] ?? "") !== String(next[f] ?? ""));
       if (recorded.length > 0 && changedLabel.length > 0) {
-        const message = `This lot's label germination and treatment are part of the published results of ${trialsPhrase(recorded.map((t) => t.code))}, so they cannot change. Withdraw the published results first if the label was entered wrong.`;
+        const message = `This lot's label germination and treatment are part of the published results of ${trialsPhrase(recorded)}, so they cannot change. Withdraw the published results first if the label was entered wrong.`;
         throw new AppError("conflict", message, Object.fromEntries(changedLabel.map((f) => [f, [message]])));
       }
       await tx.update(seedLots).set(next).where(eq(seedLots.id, old.id));
@@ -301,9 +355,9 @@ export async function deleteSeedLot(viewer: Viewer, input: { seedLotId: number }
     entity: "seed_lot",
     action: "delete",
     write: async (tx) => {
-      const old = await lockSeedLot(tx, input.seedLotId);
-      const usedBy = await trialsWithEntry(tx, eq(trialEntries.seedLotId, old.id));
-      if (usedBy.length > 0) throw new AppError("conflict", `Lot ${old.lotCode} cannot be deleted because an entry in ${trialsPhrase(usedBy.map((t) => t.code))} uses it.`);
+      const old = await lockSeedLot(tx, viewer, input.seedLotId);
+      const usedBy = await trialsWithEntry(tx, viewer, eq(trialEntries.seedLotId, old.id));
+      if (usedBy.length > 0) throw new AppError("conflict", `Lot ${old.lotCode} cannot be deleted because an entry in ${trialsPhrase(usedBy)} uses it.`);
       await tx.delete(seedLots).where(eq(seedLots.id, old.id));
       return { id: old.id, oldValue: old };
     },
@@ -315,9 +369,9 @@ const BUILT_IN = "Built-in traits come with Seedplot and cannot be changed or de
 const MEANING_FIELDS = ["code", "valueType", "minValue", "maxValue", "dueDaysAfterSowing", "computation"] as const;
 
 /** Trials recording a trait, and whether any has a laid-out site or recorded values for it. */
-async function traitUsage(tx: Tx, traitId: number) {
+async function traitUsage(tx: Tx, viewer: Viewer, traitId: number) {
   const usedBy = await tx
-    .select({ code: trials.code })
+    .select({ code: trials.code, status: trials.status, mine: mineColumn(viewer) })
     .from(trialTraits)
     .innerJoin(trials, eq(trials.id, trialTraits.trialId))
     .where(eq(trialTraits.traitId, traitId))
@@ -327,12 +381,18 @@ async function traitUsage(tx: Tx, traitId: number) {
     .from(enrolments)
     .where(and(inArray(enrolments.trialId, tx.select({ id: trialTraits.trialId }).from(trialTraits).where(eq(trialTraits.traitId, traitId))), sql`${enrolments.randomisedAt} IS NOT NULL`));
   const [values] = await tx.select({ n: count() }).from(observations).where(eq(observations.traitId, traitId));
-  return { codes: usedBy.map((t) => t.code), laidOutSites: laidOut?.n ?? 0, values: values?.n ?? 0 };
+  return { usedBy, laidOutSites: laidOut?.n ?? 0, values: values?.n ?? 0 };
+}
+
+/** A trait another program's trials record is changed or deleted only by an admin. */
+function assertTraitNotShared(usedBy: UsingTrial[]) {
+  if (usedBy.some((t) => !t.mine)) throw new AppError("conflict", "Another program's trials record this trait, so only an administrator can change or delete it.");
 }
 
 /**
- * Edits a coordinator's trait. Name, unit, timing note and description may always change. Its code, kind,
- * range, due days and computation are fixed once a trial using it has printed layouts or recorded values.
+ * Edits one of the viewer's programs' traits. Name, unit, timing note and description may always change.
+ * Its code, kind, range, due days and computation are fixed once a trial using it has printed layouts or
+ * recorded values.
  */
 export async function updateTrait(viewer: Viewer, input: TraitInput & { traitId: number }) {
   return writeCatalogue({
@@ -341,15 +401,17 @@ export async function updateTrait(viewer: Viewer, input: TraitInput & { traitId:
     action: "update",
     duplicate: TRAIT_DUPLICATE,
     write: async (tx) => {
-      const old = await lockTrait(tx, input.traitId);
+      const old = await lockTrait(tx, viewer, input.traitId);
       if (old.builtIn) throw new AppError("conflict", BUILT_IN);
       const next = traitValues(input);
+      if (next.code !== old.code) await requireFreeTraitCode(tx, next.code);
+      const usage = await traitUsage(tx, viewer, old.id);
+      assertTraitNotShared(usage.usedBy);
       const same = (a: unknown, b: unknown) => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
       const changedMeaning = MEANING_FIELDS.filter((f) => !same(old[f], next[f]));
       if (changedMeaning.length > 0) {
-        const usage = await traitUsage(tx, old.id);
         if (usage.values > 0 || usage.laidOutSites > 0) {
-          const why = usage.values > 0 ? "values are already recorded for this trait" : `sites in ${trialsPhrase(usage.codes)} are already laid out with it`;
+          const why = usage.values > 0 ? "values are already recorded for this trait" : `sites in ${trialsPhrase(usage.usedBy)} are already laid out with it`;
           const message = `Only the name, unit, timing note and description can change now: ${why}.`;
           throw new AppError("conflict", message, Object.fromEntries(changedMeaning.map((f) => [f, [message]])));
         }
@@ -360,17 +422,18 @@ export async function updateTrait(viewer: Viewer, input: TraitInput & { traitId:
   });
 }
 
-/** Deletes a coordinator's trait that no trial records. */
+/** Deletes one of the viewer's programs' traits that no trial records. */
 export async function deleteTrait(viewer: Viewer, input: { traitId: number }) {
   return writeCatalogue({
     viewer,
     entity: "trait",
     action: "delete",
     write: async (tx) => {
-      const old = await lockTrait(tx, input.traitId);
+      const old = await lockTrait(tx, viewer, input.traitId);
       if (old.builtIn) throw new AppError("conflict", BUILT_IN);
-      const usage = await traitUsage(tx, old.id);
-      if (usage.codes.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is recorded in ${trialsPhrase(usage.codes)}. Take it off first.`);
+      const usage = await traitUsage(tx, viewer, old.id);
+      assertTraitNotShared(usage.usedBy);
+      if (usage.usedBy.length > 0) throw new AppError("conflict", `${old.name} cannot be deleted because it is recorded in ${trialsPhrase(usage.usedBy)}. Take it off first.`);
       if (usage.values > 0) throw new AppError("conflict", `${old.name} cannot be deleted because values are recorded for it.`);
       await tx.delete(traits).where(eq(traits.id, old.id));
       return { id: old.id, oldValue: old };

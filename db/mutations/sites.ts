@@ -2,23 +2,25 @@ import "server-only";
 import { db } from "../index";
 import { sites } from "../schema";
 import { insertAudit } from "../audit";
-import { isDuplicateKey, requireStaff } from "../access";
+import { isDuplicateKey, requireStaff, resolveProgram } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/auth/types";
 import type { z } from "zod";
 import type { siteSchema } from "@/lib/validation/sites";
 
 /**
- * Adds a partner site. The grower named here is only a contact until the site joins a trial; enrolment
- * sends the invitation, so nobody gets mail for a site that never takes part.
+ * Adds a partner site to one of the viewer's programs. The grower named here is only a contact until the
+ * site joins a trial; enrolment sends the invitation, so nobody gets mail for a site that never takes part.
  */
 export async function insertSite(viewer: Viewer, input: z.infer<typeof siteSchema>) {
   requireStaff(viewer);
   try {
     return await db.transaction(async (tx) => {
+      const programId = await resolveProgram(tx, viewer, input.programId);
       const [row] = await tx
         .insert(sites)
         .values({
+          programId,
           name: input.name,
           kind: input.kind,
           region: input.region,
@@ -31,11 +33,11 @@ export async function insertSite(viewer: Viewer, input: z.infer<typeof siteSchem
           contactEmail: input.cooperatorEmail ?? null,
         })
         .$returningId();
-      await insertAudit(tx, { actorId: viewer.id, action: "create", entity: "site", entityId: row!.id, newValue: { ...input, cooperatorEmail: input.cooperatorEmail ? "(set)" : null } });
+      await insertAudit(tx, { actorId: viewer.id, action: "create", entity: "site", entityId: row!.id, newValue: { ...input, programId, cooperatorEmail: input.cooperatorEmail ? "(set)" : null } });
       return row!.id;
     });
   } catch (e) {
-    if (isDuplicateKey(e)) throw new AppError("conflict", "A site with this name already exists.", { name: ["A site with this name already exists."] });
+    if (isDuplicateKey(e)) throw new AppError("conflict", "This program already has a site with this name.", { name: ["This program already has a site with this name."] });
     throw e;
   }
 }

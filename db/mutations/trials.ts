@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, count, eq, inArray, or, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { enrolments, observations, plots, programCoordinators, seasons, seedLots, siteCooperators, sites, trialEntries, trialTraits, traits, trials, users, varieties, crops } from "../schema";
 import type { TrialStatus } from "../schema/enums";
@@ -19,10 +19,17 @@ import type { addEntrySchema, createTrialSchema, updateTrialSchema } from "@/lib
 type CreateTrialInput = z.infer<typeof createTrialSchema>;
 type UpdateTrialInput = z.infer<typeof updateTrialSchema>;
 
-async function checkTraitsExist(tx: Tx, traitIds: number[]) {
+/**
+ * A trial records built-in traits and its own program's traits, nothing of another program's. Traits it
+ * already records stay allowed, so a trial from before programs owned traits can still be edited.
+ */
+async function checkTraitsUsable(tx: Tx, programId: number, traitIds: number[], alreadyRecorded: number[] = []) {
   if (traitIds.length === 0) return;
-  const found = await tx.select({ id: traits.id }).from(traits).where(inArray(traits.id, traitIds));
-  if (found.length !== new Set(traitIds).size) throw new AppError("bad_request", "One of the chosen traits is no longer in the library.", { traitIds: ["Choose traits from the list."] });
+  const found = await tx
+    .select({ id: traits.id })
+    .from(traits)
+    .where(and(inArray(traits.id, traitIds), or(eq(traits.builtIn, true), eq(traits.programId, programId), inArray(traits.id, [0, ...alreadyRecorded]))));
+  if (found.length !== new Set(traitIds).size) throw new AppError("bad_request", "One of the chosen traits is not in this program's trait library.", { traitIds: ["Choose traits from the list."] });
 }
 
 async function replaceTraits(tx: Tx, trialId: number, traitIds: number[]) {
@@ -46,7 +53,7 @@ export async function insertTrial(viewer: Viewer, input: CreateTrialInput) {
       if (!season) throw new AppError("bad_request", "Choose a season of a program you coordinate.", { seasonId: ["Choose a season from the list."] });
       const [crop] = await tx.select({ id: crops.id }).from(crops).where(eq(crops.id, input.cropId));
       if (!crop) throw new AppError("bad_request", "That crop is not in the catalogue.", { cropId: ["Choose a crop from the list."] });
-      await checkTraitsExist(tx, input.traitIds);
+      await checkTraitsUsable(tx, season.programId, input.traitIds);
       const [row] = await tx
         .insert(trials)
         .values({
@@ -89,7 +96,7 @@ export async function updateTrialDesign(viewer: Viewer, input: UpdateTrialInput)
     const sortedIds = (ids: number[]) => [...new Set(ids)].sort((a, b) => a - b).join(",");
     const traitsChanged = sortedIds(currentTraits) !== sortedIds(input.traitIds);
     if (traitsChanged && !canEditTraits(state)) throw new AppError("conflict", "The traits can no longer change because data collection has started.");
-    await checkTraitsExist(tx, input.traitIds);
+    await checkTraitsUsable(tx, trial.programId, input.traitIds, currentTraits);
     await tx
       .update(trials)
       .set({ title: input.title, purpose: input.purpose ?? null, design: input.design, blocks: input.blocks, plotUnit: input.plotUnit, plotSize: input.plotSize, seedsPerCell: input.seedsPerCell, protocol: input.protocol ?? null })
@@ -105,12 +112,18 @@ async function assertDesignEditable(tx: Tx, trial: LockedTrial) {
   if (reason) throw new AppError("conflict", reason);
 }
 
-/** Adds a variety (and seed lot) as an entry with a fresh blind code no other entry of the trial has. */
+/**
+ * Adds one of the program's varieties (and a seed lot of it) as an entry, with a fresh blind code no other
+ * entry of the trial has. Another program's variety is refused as if it did not exist.
+ */
 export async function insertTrialEntry(viewer: Viewer, input: z.infer<typeof addEntrySchema>) {
   return db.transaction(async (tx) => {
     const trial = await lockTrialForStaff(tx, viewer, input.trialId);
     await assertDesignEditable(tx, trial);
-    const [variety] = await tx.select({ id: varieties.id, cropId: varieties.cropId, name: varieties.name }).from(varieties).where(eq(varieties.id, input.varietyId));
+    const [variety] = await tx
+      .select({ id: varieties.id, cropId: varieties.cropId, name: varieties.name })
+      .from(varieties)
+      .where(and(eq(varieties.id, input.varietyId), eq(varieties.programId, trial.programId)));
     if (!variety || variety.cropId !== trial.cropId) throw new AppError("bad_request", "Choose a variety of this trial's crop.", { varietyId: ["Choose a variety of this trial's crop."] });
     if (input.seedLotId !== undefined) {
       const [lot] = await tx.select({ varietyId: seedLots.varietyId }).from(seedLots).where(eq(seedLots.id, input.seedLotId));
@@ -144,12 +157,13 @@ export async function deleteTrialEntry(viewer: Viewer, input: { trialId: number;
 }
 
 /** Builds the invitation for a grower without an account; supplied by the caller, which owns tokens and links. */
-export type InviteFactory = (person: { name: string; email: string }) => { token: string; buildMail: (siteName: string | null) => OutgoingMail };
+export type InviteFactory = (person: { name: string; email: string }) => { token: string; buildMail: (siteName: string) => OutgoingMail };
 
 /**
- * Enrols a site. Its growers who have not set up an account get a fresh invitation; a site with only a
- * contact e-mail gets that person invited and attached; growers with accounts get a short notice.
- * Everything, mail included, is queued in the same transaction.
+ * Enrols one of the trial's program's sites (another program's site is refused as if it did not exist).
+ * Its growers who have not set up an account get a fresh invitation; a site with only a contact e-mail
+ * gets that person invited and attached; growers with accounts get a short notice. Everything, mail
+ * included, is queued in the same transaction.
  */
 export async function insertEnrolment(
   viewer: Viewer,
@@ -161,8 +175,11 @@ export async function insertEnrolment(
       const trial = await lockTrialForStaff(tx, viewer, input.trialId);
       const progress = await trialProgress(tx, trial.id);
       if (!canEnrolSites({ status: trial.status, ...progress })) throw new AppError("conflict", "Sites can only join a trial before analysis starts.");
-      const [site] = await tx.select({ id: sites.id, name: sites.name, contactName: sites.contactName, contactEmail: sites.contactEmail }).from(sites).where(eq(sites.id, input.siteId));
-      if (!site) throw new AppError("bad_request", "That site does not exist.", { siteId: ["Choose a site from the list."] });
+      const [site] = await tx
+        .select({ id: sites.id, name: sites.name, contactName: sites.contactName, contactEmail: sites.contactEmail })
+        .from(sites)
+        .where(and(eq(sites.id, input.siteId), eq(sites.programId, trial.programId)));
+      if (!site) throw new AppError("bad_request", "Choose one of this program's sites.", { siteId: ["Choose a site from the list."] });
       const [titleRow] = await tx.select({ title: trials.title }).from(trials).where(eq(trials.id, trial.id));
 
       let growers = await tx
@@ -178,7 +195,7 @@ export async function insertEnrolment(
           await tx.insert(siteCooperators).values({ siteId: site.id, userId: account.id });
         } else if (!account || account.role === "cooperator") {
           const inv = mail.invite({ name: site.contactName, email: site.contactEmail });
-          await insertCooperatorInviteInTx(tx, { actorId: viewer.id, name: site.contactName, email: site.contactEmail, siteId: site.id, token: inv.token, buildMail: inv.buildMail });
+          await insertCooperatorInviteInTx(tx, { viewer, name: site.contactName, email: site.contactEmail, siteId: site.id, token: inv.token, buildMail: inv.buildMail });
           invited.push(site.contactEmail);
         }
         growers = await tx
@@ -189,7 +206,7 @@ export async function insertEnrolment(
       } else {
         for (const g of growers.filter((g) => g.invited === null && g.active)) {
           const inv = mail.invite({ name: g.name, email: g.email });
-          await insertCooperatorInviteInTx(tx, { actorId: viewer.id, name: g.name, email: g.email, siteId: site.id, token: inv.token, buildMail: inv.buildMail });
+          await insertCooperatorInviteInTx(tx, { viewer, name: g.name, email: g.email, siteId: site.id, token: inv.token, buildMail: inv.buildMail });
           invited.push(g.email);
         }
       }

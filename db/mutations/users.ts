@@ -1,83 +1,98 @@
 import "server-only";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, not } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "../schema/enums";
 import { insertAudit } from "../audit";
+import { requireStaff, staffSiteScope } from "../access";
 import { insertMail, type OutgoingMail } from "./mail";
 import { AppError } from "@/lib/errors";
 import { hashToken } from "@/lib/auth/tokens";
+import type { Viewer } from "@/lib/auth/types";
 
 const INVITE_DAYS = 7;
 const RESET_MINUTES = 60;
 
-/**
- * Creates (or re-invites) a cooperator account without a password, attaches it to a site, stores an
- * invite token and queues the invitation mail, all in one transaction.
- */
-export async function insertCooperatorInvite(p: {
-  actorId: number;
+/** What an invitation to a site needs; the caller owns the token and the wording of the mail. */
+export interface InviteRequest {
+  viewer: Viewer;
   name: string;
   email: string;
-  siteId?: number;
+  siteId: number;
   token: string;
-  buildMail: (siteName: string | null) => OutgoingMail;
-}) {
+  /** The invitation with its one-time link, for someone who has not set a password yet. */
+  buildMail: (siteName: string) => OutgoingMail;
+  /** The notice for someone who already has an account; left out when the caller sends its own (enrolment does). */
+  buildNotice?: (p: { name: string; siteName: string }) => OutgoingMail;
+}
+
+/**
+ * Invites a grower to one of the viewer's sites, all in one transaction: a new account without a password,
+ * or a fresh link for someone who never set one, with an invite token and its mail; someone who already has
+ * an account is attached to the site and told so. Growers belong to no program, so nothing about their
+ * other sites is read, changed or revealed here.
+ */
+export async function insertCooperatorInvite(p: InviteRequest) {
   return db.transaction((tx) => insertCooperatorInviteInTx(tx, p));
 }
 
 /** The invitation itself, inside a caller's transaction (enrolling a site invites its grower this way). */
-export async function insertCooperatorInviteInTx(
-  tx: Tx,
-  p: { actorId: number; name: string; email: string; siteId?: number; token: string; buildMail: (siteName: string | null) => OutgoingMail },
-) {
-  {
-    const [existing] = await tx
-      .select({ id: users.id, role: users.role, passwordHash: users.passwordHash })
-      .from(users)
-      .where(eq(users.email, p.email))
-      .for("update");
-    if (existing && existing.passwordHash !== null) {
-      throw new AppError("conflict", "This person already has a Seedplot account; attach them to a site instead.", {
-        email: ["An account with this e-mail already exists."],
-      });
-    }
-    if (existing && existing.role !== "cooperator") {
-      throw new AppError("conflict", "This e-mail belongs to a staff account.", { email: ["This e-mail belongs to a staff account."] });
-    }
-    let siteName: string | null = null;
-    if (p.siteId !== undefined) {
-      const [site] = await tx.select({ name: sites.name }).from(sites).where(eq(sites.id, p.siteId));
-      if (!site) throw new AppError("bad_request", "That site does not exist.", { siteId: ["Choose a site from the list."] });
-      siteName = site.name;
-    }
-    let userId: number;
-    if (existing) {
-      userId = existing.id;
-      await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
-      // Earlier links stop working once a new one is sent.
-      await tx
-        .update(userTokens)
-        .set({ usedAt: new Date() })
-        .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, "invite"), isNull(userTokens.usedAt)));
-    } else {
-      const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
-      userId = inserted!.id;
-    }
-    if (p.siteId !== undefined) {
-      await tx.insert(siteCooperators).values({ siteId: p.siteId, userId }).onDuplicateKeyUpdate({ set: { userId } });
-    }
-    await tx.insert(userTokens).values({
-      userId,
-      kind: "invite",
-      tokenHash: hashToken(p.token),
-      expiresAt: new Date(Date.now() + INVITE_DAYS * 86400_000),
-      createdById: p.actorId,
-    });
-    await insertMail(tx, p.buildMail(siteName));
-    await insertAudit(tx, { actorId: p.actorId, action: "invite", entity: "user", entityId: userId, newValue: { email: p.email, siteId: p.siteId ?? null } });
-    return { userId };
+export async function insertCooperatorInviteInTx(tx: Tx, p: InviteRequest): Promise<{ userId: number; invited: boolean }> {
+  requireStaff(p.viewer);
+  const [site] = await tx.select({ name: sites.name }).from(sites).where(and(eq(sites.id, p.siteId), staffSiteScope(p.viewer)));
+  // An unknown site and another program's site get the same answer.
+  if (!site) throw new AppError("bad_request", "Choose one of your program's sites.", { siteId: ["Choose a site from the list."] });
+  const [existing] = await tx
+    .select({ id: users.id, name: users.name, role: users.role, passwordHash: users.passwordHash })
+    .from(users)
+    .where(eq(users.email, p.email))
+    .for("update");
+  if (existing && existing.role !== "cooperator") {
+    throw new AppError("conflict", "This e-mail belongs to a staff account.", { email: ["This e-mail belongs to a staff account."] });
   }
+  if (existing && existing.passwordHash !== null) {
+    await tx.insert(siteCooperators).values({ siteId: p.siteId, userId: existing.id }).onDuplicateKeyUpdate({ set: { userId: existing.id } });
+    if (p.buildNotice) await insertMail(tx, p.buildNotice({ name: existing.name, siteName: site.name }));
+    await insertAudit(tx, { actorId: p.viewer.id, action: "attach_site", entity: "user", entityId: existing.id, newValue: { siteId: p.siteId } });
+    return { userId: existing.id, invited: false };
+  }
+  let userId: number;
+  if (existing) {
+    userId = existing.id;
+    // The name is the grower's own once another program works with them too; only its sole programs may correct it.
+    if (!(await linkedOutsideViewerPrograms(tx, p.viewer, userId))) await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
+    // Earlier links stop working once a new one is sent.
+    await tx
+      .update(userTokens)
+      .set({ usedAt: new Date() })
+      .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, "invite"), isNull(userTokens.usedAt)));
+  } else {
+    const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
+    userId = inserted!.id;
+  }
+  await tx.insert(siteCooperators).values({ siteId: p.siteId, userId }).onDuplicateKeyUpdate({ set: { userId } });
+  await tx.insert(userTokens).values({
+    userId,
+    kind: "invite",
+    tokenHash: hashToken(p.token),
+    expiresAt: new Date(Date.now() + INVITE_DAYS * 86400_000),
+    createdById: p.viewer.id,
+  });
+  await insertMail(tx, p.buildMail(site.name));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "invite", entity: "user", entityId: userId, newValue: { email: p.email, siteId: p.siteId } });
+  return { userId, invited: true };
+}
+
+/** Whether a grower works with a site outside the viewer's programs. */
+async function linkedOutsideViewerPrograms(tx: Tx, viewer: Viewer, userId: number) {
+  if (viewer.role === "admin") return false;
+  const [other] = await tx
+    .select({ id: siteCooperators.id })
+    .from(siteCooperators)
+    .innerJoin(sites, eq(sites.id, siteCooperators.siteId))
+    .where(and(eq(siteCooperators.userId, userId), not(staffSiteScope(viewer))))
+    .limit(1);
+  return !!other;
 }
 
 /** Uses a one-time token: sets the password (and name for invites) and marks the token used. */

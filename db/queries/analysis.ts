@@ -18,7 +18,7 @@ import {
   users,
   varieties,
 } from "../schema";
-import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
+import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
 import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
 import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
@@ -226,8 +226,8 @@ export async function listExclusionTargets(viewer: Viewer, trialId: number) {
 }
 
 /**
- * A variety's results across trials and seasons in the viewer's programs: the trials it was entered in,
- * with season and site count. Null when the variety is unknown or in no trial the viewer may see.
+ * One of the viewer's programs' varieties with its results across trials and seasons: the trials it was
+ * entered in, with season and site count. Null when the variety is unknown or another program's.
  */
 export async function getVarietyHistory(viewer: Viewer, varietyId: number) {
   if (!isStaff(viewer)) return null;
@@ -235,7 +235,7 @@ export async function getVarietyHistory(viewer: Viewer, varietyId: number) {
     .select({ id: varieties.id, name: varieties.name, crop: crops.name })
     .from(varieties)
     .innerJoin(crops, eq(crops.id, varieties.cropId))
-    .where(eq(varieties.id, varietyId));
+    .where(and(eq(varieties.id, varietyId), staffVarietyScope(viewer)));
   if (!variety) return null;
   const rows = await db
     .select({
@@ -256,7 +256,5 @@ export async function getVarietyHistory(viewer: Viewer, varietyId: number) {
     .innerJoin(seasons, eq(seasons.id, trials.seasonId))
     .where(and(eq(trialEntries.varietyId, varietyId), staffTrialScope(viewer)))
     .orderBy(desc(seasons.year), desc(seasons.id), asc(trials.code));
-  // A coordinator learns nothing about varieties that only appear in other programs' trials.
-  if (rows.length === 0 && viewer.role !== "admin") return null;
   return { variety, trials: rows };
 }

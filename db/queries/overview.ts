@@ -1,12 +1,11 @@
 import "server-only";
-import { and, asc, count, countDistinct, desc, eq, inArray, isNotNull, or, sql } from "drizzle-orm";
+import { and, asc, count, countDistinct, desc, eq, inArray, isNotNull, or } from "drizzle-orm";
 import { db } from "../index";
 import {
   crops,
   enrolments,
   observations,
   plots,
-  programCoordinators,
   programs,
   seasons,
   siteCooperators,
@@ -16,14 +15,9 @@ import {
   traits,
   trials,
 } from "../schema";
+import { cooperatorEnrolmentScope, staffSiteScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
 import { scheduleForSite, todayIso, type DueItem } from "@/lib/schedule";
-
-/** Trials a staff member may see: all for admins, their programs' trials for coordinators. */
-function staffTrialScope(viewer: Viewer) {
-  if (viewer.role === "admin") return sql`true`;
-  return inArray(trials.programId, db.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id)));
-}
 
 /** Trials in the coordinator's programs with entry and site counts, newest season first. */
 export async function listTrialsForViewer(viewer: Viewer) {
@@ -69,13 +63,7 @@ export interface SiteSchedule {
 
 /** Due and late scheduled counts per enrolment, for the enrolments the viewer may see. */
 async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedule[]> {
-  const scope =
-    viewer.role === "cooperator"
-      ? or(
-          eq(enrolments.cooperatorId, viewer.id),
-          inArray(enrolments.siteId, db.select({ id: siteCooperators.siteId }).from(siteCooperators).where(eq(siteCooperators.userId, viewer.id))),
-        )
-      : staffTrialScope(viewer);
+  const scope = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : staffTrialScope(viewer);
   const rows = await db
     .select({
       enrolmentId: enrolments.id,
@@ -151,8 +139,8 @@ export async function listMySites(viewer: Viewer) {
     .orderBy(asc(sites.name));
 }
 
-/** Sites for staff pick lists (ids and names only). */
+/** Sites of the viewer's programs for staff pick lists (ids and names only). */
 export async function listSiteOptions(viewer: Viewer) {
   if (viewer.role === "cooperator") return [];
-  return db.select({ id: sites.id, name: sites.name }).from(sites).orderBy(asc(sites.name));
+  return db.select({ id: sites.id, name: sites.name }).from(sites).where(staffSiteScope(viewer)).orderBy(asc(sites.name));
 }

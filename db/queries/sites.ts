@@ -1,17 +1,19 @@
 import "server-only";
 import { asc, eq } from "drizzle-orm";
 import { db } from "../index";
-import { siteCooperators, sites, users } from "../schema";
+import { programs, siteCooperators, sites, users } from "../schema";
+import { staffSiteScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
 import { isStaff } from "@/lib/auth/permissions";
 
-/** Partner sites with their growers, for staff managing the network. Contact details are staff-only. */
+/** Partner sites of the viewer's programs with their growers, for staff managing the network. Contact details are staff-only. */
 export async function listSitesForStaff(viewer: Viewer) {
   if (!isStaff(viewer)) return [];
   const rows = await db
     .select({
       id: sites.id,
       name: sites.name,
+      program: programs.name,
       kind: sites.kind,
       region: sites.region,
       growingSetup: sites.growingSetup,
@@ -25,8 +27,10 @@ export async function listSitesForStaff(viewer: Viewer) {
       growerInvited: users.passwordHash,
     })
     .from(sites)
+    .innerJoin(programs, eq(programs.id, sites.programId))
     .leftJoin(siteCooperators, eq(siteCooperators.siteId, sites.id))
     .leftJoin(users, eq(users.id, siteCooperators.userId))
+    .where(staffSiteScope(viewer))
     .orderBy(asc(sites.name));
   const byId = new Map<number, Omit<(typeof rows)[number], "growerName" | "growerInvited"> & { growers: { name: string; invited: boolean }[] }>();
   for (const { growerName, growerInvited, ...r } of rows) {

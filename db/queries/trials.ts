@@ -1,29 +1,30 @@
 import "server-only";
-import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, count, eq, or, sql } from "drizzle-orm";
 import { db } from "../index";
-import { crops, enrolments, observations, plots, programCoordinators, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
-import { cooperatorEnrolmentScope, staffTrialScope, trialProgress } from "../access";
+import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
+import { cooperatorEnrolmentScope, programScope, staffTrialScope, trialProgress } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
 import type { Viewer } from "@/lib/auth/types";
 import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
 
-/** Seasons of the viewer's programs, crops and the trait library, for the new-trial form (staff only). */
+/**
+ * Seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'
+ * own, for the trial form (staff only). A trial may record only its own program's custom traits; the
+ * save checks that.
+ */
 export async function getTrialFormOptions(viewer: Viewer) {
   if (!isStaff(viewer)) return null;
   const seasonRows = await db
     .select({ id: seasons.id, name: seasons.name, year: seasons.year, program: programs.name })
     .from(seasons)
     .innerJoin(programs, eq(programs.id, seasons.programId))
-    .where(
-      viewer.role === "admin"
-        ? sql`true`
-        : inArray(seasons.programId, db.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id))),
-    )
+    .where(programScope(viewer, seasons.programId))
     .orderBy(sql`${seasons.year} desc`, asc(seasons.name));
   const cropRows = await db.select({ id: crops.id, name: crops.name }).from(crops).orderBy(asc(crops.name));
   const traitRows = await db
     .select({ id: traits.id, name: traits.name, unit: traits.unit, valueType: traits.valueType, dueNote: traits.dueNote, dueDaysAfterSowing: traits.dueDaysAfterSowing })
     .from(traits)
+    .where(or(eq(traits.builtIn, true), programScope(viewer, traits.programId)))
     .orderBy(asc(traits.name));
   return { seasons: seasonRows, crops: cropRows, traits: traitRows };
 }
@@ -65,13 +66,13 @@ export async function getTrialDetail(viewer: Viewer, trialId: number) {
 }
 export type TrialDetail = NonNullable<Awaited<ReturnType<typeof getTrialDetail>>>;
 
-/** Varieties of the trial's crop with their seed lots, for the add-entry form (staff only). */
+/** The program's varieties of the trial's crop with their seed lots, for the add-entry form (staff only). */
 export async function listEntryOptions(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return [];
   const rows = await db
     .select({ varietyId: varieties.id, variety: varieties.name, seedLotId: seedLots.id, source: seedLots.source, lotCode: seedLots.lotCode, treated: seedLots.treated })
     .from(trials)
-    .innerJoin(varieties, eq(varieties.cropId, trials.cropId))
+    .innerJoin(varieties, and(eq(varieties.cropId, trials.cropId), eq(varieties.programId, trials.programId)))
     .leftJoin(seedLots, eq(seedLots.varietyId, varieties.id))
     .where(and(eq(trials.id, trialId), staffTrialScope(viewer)))
     .orderBy(asc(varieties.name), asc(seedLots.lotCode));
@@ -84,13 +85,14 @@ export async function listEntryOptions(viewer: Viewer, trialId: number) {
   return [...byVariety.values()];
 }
 
-/** Sites not yet enrolled in the trial, for the enrol form (staff only). */
+/** The program's sites not yet enrolled in the trial, for the enrol form (staff only). */
 export async function listEnrolableSites(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return [];
   return db
     .select({ id: sites.id, name: sites.name, region: sites.region })
-    .from(sites)
-    .where(sql`${sites.id} NOT IN (SELECT ${enrolments.siteId} FROM ${enrolments} WHERE ${enrolments.trialId} = ${trialId})`)
+    .from(trials)
+    .innerJoin(sites, eq(sites.programId, trials.programId))
+    .where(and(eq(trials.id, trialId), staffTrialScope(viewer), sql`${sites.id} NOT IN (SELECT ${enrolments.siteId} FROM ${enrolments} WHERE ${enrolments.trialId} = ${trialId})`))
     .orderBy(asc(sites.name));
 }
 

@@ -1,10 +1,12 @@
 import "server-only";
-import { and, asc, count, eq, gt, isNull } from "drizzle-orm";
+import { and, asc, count, eq, gt, isNull, sql } from "drizzle-orm";
 import { db } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { TokenKind } from "../schema/enums";
+import { staffSiteScope } from "../access";
 import type { Viewer } from "@/lib/auth/types";
 import { hashToken } from "@/lib/auth/tokens";
+import { isStaff } from "@/lib/auth/permissions";
 
 /** Credentials row for the sign-in check only; the hash never leaves the auth module. */
 export async function getSignInRecord(email: string) {
@@ -61,19 +63,22 @@ export async function getValidToken(token: string, kind: TokenKind) {
   return row ?? null;
 }
 
-/** Cooperators with their sites, for coordinators managing the network. */
+/**
+ * Growers with their sites, for staff managing the network. A coordinator sees only growers linked to sites
+ * of their programs, and only those sites; a grower's other programs stay invisible. Admins see everyone.
+ */
 export async function listCooperators(viewer: Viewer) {
-  if (viewer.role !== "coordinator" && viewer.role !== "admin") return [];
+  if (!isStaff(viewer)) return [];
   const rows = await db
-    .select({ id: users.id, name: users.name, email: users.email, active: users.active, passwordHash: users.passwordHash, siteName: sites.name })
+    .select({ id: users.id, name: users.name, email: users.email, phone: users.phone, active: users.active, passwordHash: users.passwordHash, siteName: sites.name })
     .from(users)
     .leftJoin(siteCooperators, eq(siteCooperators.userId, users.id))
     .leftJoin(sites, eq(sites.id, siteCooperators.siteId))
-    .where(eq(users.role, "cooperator"))
-    .orderBy(asc(users.name));
-  const byId = new Map<number, { id: number; name: string; email: string; active: boolean; invited: boolean; sites: string[] }>();
+    .where(and(eq(users.role, "cooperator"), viewer.role === "admin" ? sql`true` : staffSiteScope(viewer)))
+    .orderBy(asc(users.name), asc(sites.name));
+  const byId = new Map<number, { id: number; name: string; email: string; phone: string | null; active: boolean; invited: boolean; sites: string[] }>();
   for (const r of rows) {
-    const existing = byId.get(r.id) ?? { id: r.id, name: r.name, email: r.email, active: r.active, invited: r.passwordHash === null, sites: [] };
+    const existing = byId.get(r.id) ?? { id: r.id, name: r.name, email: r.email, phone: r.phone, active: r.active, invited: r.passwordHash === null, sites: [] };
     if (r.siteName) existing.sites.push(r.siteName);
     byId.set(r.id, existing);
   }

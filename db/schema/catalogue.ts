@@ -1,7 +1,9 @@
 import { boolean, date, decimal, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
 import { CROP_GROUPS } from "./enums";
+import { programs } from "./programs";
 
+/** Crops are one list shared by every program; what a program grows is its own varieties. */
 export const crops = mysqlTable(
   "crops",
   {
@@ -14,16 +16,18 @@ export const crops = mysqlTable(
   (t) => [uniqueIndex("crops_name_unique").on(t.name)],
 );
 
+/** A program's own variety (with its seed lots); other programs neither see nor change it. */
 export const varieties = mysqlTable(
   "varieties",
   {
     id: id(),
+    programId: ref("program_id").notNull().references(() => programs.id, { onDelete: "restrict" }),
     cropId: ref("crop_id").notNull().references(() => crops.id, { onDelete: "restrict" }),
     name: varchar("name", { length: 120 }).notNull(),
     description: text("description"),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("varieties_crop_name_unique").on(t.cropId, t.name)],
+  (t) => [uniqueIndex("varieties_program_crop_name_unique").on(t.programId, t.cropId, t.name), index("varieties_crop_idx").on(t.cropId)],
 );
 
 /** A packet or bag of seed of one variety. Label germination is null when the label does not state it. */

@@ -2,12 +2,17 @@ import { decimal, index, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } fro
 import { createdAt, id, ref, updatedAt } from "./columns";
 import { GROWING_SETUPS, SITE_KINDS } from "./enums";
 import { users } from "./users";
+import { programs } from "./programs";
 
-/** A partner farm or garden. Contact fields are private; `publicDescription` is what the public may see. */
+/**
+ * A partner farm or garden, run with exactly one program: only that program's coordinators see its contacts,
+ * invite its growers and enrol it. Contact fields are private; `publicDescription` is what the public may see.
+ */
 export const sites = mysqlTable(
   "sites",
   {
     id: id(),
+    programId: ref("program_id").notNull().references(() => programs.id, { onDelete: "restrict" }),
     name: varchar("name", { length: 160 }).notNull(),
     kind: mysqlEnum("kind", SITE_KINDS).notNull(),
     region: varchar("region", { length: 120 }).notNull(),
@@ -23,7 +28,7 @@ export const sites = mysqlTable(
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
-  (t) => [uniqueIndex("sites_name_unique").on(t.name)],
+  (t) => [uniqueIndex("sites_program_name_unique").on(t.programId, t.name)],
 );
 
 /** Cooperators (partner growers) who may record data for a site. */

@@ -1,15 +1,19 @@
 import { boolean, decimal, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
-import { createdAt, id } from "./columns";
+import { createdAt, id, ref } from "./columns";
 import { TRAIT_COMPUTATIONS, TRAIT_TYPES } from "./enums";
+import { programs } from "./programs";
 
 /**
  * The trait library. `dueDaysAfterSowing` lists the days on which a repeated count is due
  * (e.g. [5, 7, 10, 14] for emergence); `dueNote` describes other timing ("at first harvest").
+ * Built-in traits (no program) are shared and read-only; a coordinator's own traits belong to their program.
+ * A custom code is unique within its program and never repeats a built-in code (checked on write).
  */
 export const traits = mysqlTable(
   "traits",
   {
     id: id(),
+    programId: ref("program_id").references(() => programs.id, { onDelete: "restrict" }),
     code: varchar("code", { length: 40 }).notNull(),
     name: varchar("name", { length: 120 }).notNull(),
     unit: varchar("unit", { length: 40 }),
@@ -23,7 +27,7 @@ export const traits = mysqlTable(
     builtIn: boolean("built_in").notNull().default(false),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("traits_code_unique").on(t.code)],
+  (t) => [uniqueIndex("traits_program_code_unique").on(t.programId, t.code)],
 );
 
 export type Trait = typeof traits.$inferSelect;

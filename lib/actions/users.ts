@@ -4,14 +4,14 @@ import { defineAction } from "./define-action";
 import { changeRoleSchema, inviteCooperatorSchema, setActiveSchema } from "@/lib/validation/auth";
 import { insertCooperatorInvite, updateUserActive, updateUserRole } from "@/db/mutations/users";
 import { newToken } from "@/lib/auth/tokens";
-import { inviteMail } from "@/lib/mail/templates";
+import { inviteMail, siteAccessMail } from "@/lib/mail/templates";
 import { deliverSoon } from "@/lib/mail/outbox";
 import { canChangeRole } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
 import { consumeRateLimit } from "@/lib/auth/throttle";
 
-/** A coordinator invites a partner grower by e-mail, optionally attaching them to a site. */
+/** A coordinator invites a partner grower by e-mail to one of their program's sites. */
 export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], schema: inviteCooperatorSchema }, async (input, viewer) => {
   const allowed = await consumeRateLimit(
     [
@@ -22,18 +22,20 @@ export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], 
   );
   if (!allowed) throw new AppError("too_many_requests", "Too many invitations in the last hour. Please wait before sending more.");
   const token = newToken();
-  await insertCooperatorInvite({
-    actorId: viewer.id,
+  const { invited } = await insertCooperatorInvite({
+    viewer,
     name: input.name,
     email: input.email,
     siteId: input.siteId,
     token,
     buildMail: (siteName) =>
       inviteMail({ to: input.email, name: input.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
+    buildNotice: ({ name, siteName }) => siteAccessMail({ to: input.email, name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/portal` }),
   });
   await deliverSoon();
   revalidatePath("/portal/cooperators");
-  return { ok: true, message: `Invitation sent to ${input.email}.` };
+  revalidatePath("/portal/sites");
+  return { ok: true, message: invited ? `Invitation sent to ${input.email}.` : `${input.email} already has a Seedplot account, so they were added to the site and told by e-mail.` };
 });
 
 export const changeUserRole = defineAction({ roles: ["admin"], schema: changeRoleSchema }, async (input, viewer) => {

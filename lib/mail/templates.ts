@@ -16,6 +16,18 @@ export function inviteMail(p: { to: string; name: string; inviterName: string; l
   };
 }
 
+/** Tells a grower who already has an account that a coordinator added them to a site. */
+export function siteAccessMail(p: { to: string; name: string; inviterName: string; siteName: string; link: string }): OutgoingMail {
+  return {
+    to: p.to,
+    subject: `You can now record for ${p.siteName} in Seedplot`,
+    text:
+      `Hello ${p.name},\n\n${p.inviterName} has added you as a grower for ${p.siteName}. Sign in with your Seedplot ` +
+      `account to see its trials and record its plots:\n${p.link}\n\nIf you were not expecting this, let ${p.inviterName} know.` +
+      SIGNATURE,
+  };
+}
+
 /** Password-reset link; valid for one hour. */
 export function passwordResetMail(p: { to: string; name: string; link: string }): OutgoingMail {
   return {

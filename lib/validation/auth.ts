@@ -37,13 +37,11 @@ export const resetPasswordSchema = z.intersection(newPasswordSchema, z.object({ 
 
 export const forgotPasswordSchema = z.object({ email });
 
+// A grower is always invited to a site: the site's program is what lets its coordinators see them.
 export const inviteCooperatorSchema = z.object({
   name: z.string({ error: "Enter the grower's name." }).trim().min(2, "Enter the grower's name.").max(120, "Use at most 120 characters."),
   email,
-  siteId: z.preprocess(
-    (v) => (v === "" || v === null || v === undefined ? undefined : v),
-    z.coerce.number({ error: "Choose a site from the list." }).int().positive("Choose a site from the list.").optional(),
-  ),
+  siteId: z.coerce.number({ error: "Choose the grower's site." }).int("Choose the grower's site.").positive("Choose the grower's site."),
 });
 
 export const changeRoleSchema = z.object({

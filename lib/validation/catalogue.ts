@@ -1,6 +1,10 @@
 import { z } from "zod";
 import { CROP_GROUPS, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/db/schema/enums";
-import { blankToUndefined, checkbox, id, optionalIsoDate, optionalNumber, optionalText, requiredText } from "./common";
+import { blankToUndefined, checkbox, id, optionalId, optionalIsoDate, optionalNumber, optionalText, requiredText } from "./common";
+
+// A new variety or trait joins the program chosen on the form; the field is left out when the viewer runs
+// only one program. Edits never move an item to another program.
+const programId = optionalId("Choose the program.");
 
 export const cropSchema = z.object({
   name: requiredText("the crop name", 80),
@@ -9,6 +13,7 @@ export const cropSchema = z.object({
 });
 
 export const varietySchema = z.object({
+  programId,
   cropId: id("Choose the crop."),
   name: requiredText("the variety name", 120),
   description: optionalText(2000),
@@ -43,6 +48,7 @@ const dueDays = z.preprocess(
 
 export const traitSchema = z
   .object({
+    programId,
     name: requiredText("the trait name", 120, 2),
     code: z
       .string({ error: "Enter a short code." })

@@ -1,9 +1,11 @@
 import { z } from "zod";
 import { GROWING_SETUPS, SITE_KINDS } from "@/db/schema/enums";
-import { optionalNumber, optionalText, requiredText } from "./common";
+import { optionalId, optionalNumber, optionalText, requiredText } from "./common";
 
 export const siteSchema = z
   .object({
+    // Left out when the viewer runs one program: the site then joins that program.
+    programId: optionalId("Choose the program."),
     name: requiredText("the site name", 160, 2),
     kind: z.enum(SITE_KINDS, { error: "Choose farm or garden." }),
     region: requiredText("the county or region", 120),

@@ -51,7 +51,7 @@ export const createTrialSchema = z.preprocess(
         .string({ error: "Enter a short trial code." })
         .trim()
         .toUpperCase()
-        .regex(/^[A-Z0-9][A-Z0-9-]{2,39}$/, "Use 3–40 letters, digits or dashes, e.g. TV27-KAL."),
+        .regex(/^[A-Z0-9][A-Z0-9-]{2,39}$/, "Use 3–40 letters, digits or dashes, e.g. W27-KALE."),
       ...designFields,
     }),
   ),

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import { createDatabase } from "@/db/client";
-import { DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
+import { DEMO_PASSWORDS, DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 import { ACTION_MATRIX, HTTP_MATRIX, ROLES, type Outcome, type RoleKey, type SampleIds } from "./access-matrix";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { loadSampleIds } from "../helpers/samples";
@@ -19,6 +19,8 @@ beforeAll(async () => {
   sessions.set("coopA", await httpSession(DEMO_SITES[0].grower.email, DEMO_PASSWORDS.cooperator));
   sessions.set("coopB", await httpSession(DEMO_SITES[1].grower.email, DEMO_PASSWORDS.cooperator));
   sessions.set("coordinator", await httpSession(DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator));
+  sessions.set("otherCoordinator", await httpSession(DEMO_SECOND_PROGRAM.coordinator.email, DEMO_PASSWORDS.coordinator));
+  sessions.set("otherCoop", await httpSession(DEMO_SECOND_PROGRAM.site.grower.email, DEMO_PASSWORDS.cooperator));
   sessions.set("admin", await httpSession(DEMO_STAFF[0].email, DEMO_PASSWORDS.admin));
 });
 afterAll(async () => {
@@ -140,8 +142,34 @@ describe("access matrix: every page, route handler and server action against eve
       }
     }
     expect(failures).toEqual([]);
-    expect(checked).toBeGreaterThan(250);
-  }, 90_000);
+    expect(checked).toBeGreaterThan(350);
+  }, 120_000);
+
+  it("shows each program's coordinator only their own program's rows on every list page and API", async () => {
+    const first = {
+      names: [...DEMO_SITES.map((x) => x.name), ...DEMO_TRIALS.map((t) => t.code), ...DEMO_TRIALS.flatMap((t) => t.entries.map((e) => e.variety))],
+      contacts: DEMO_SITES.flatMap((x) => [x.grower.email, String(x.lat)]),
+    };
+    const second = {
+      names: [DEMO_SECOND_PROGRAM.site.name, DEMO_SECOND_PROGRAM.trial.code, DEMO_SECOND_PROGRAM.trait.name, ...DEMO_SECOND_PROGRAM.trial.entries.map((e) => e.variety)],
+      contacts: [DEMO_SECOND_PROGRAM.site.grower.email, String(DEMO_SECOND_PROGRAM.site.lat)],
+    };
+    // Lists and pick lists (the test mailbox shows captured mail and has rules of its own).
+    const lists = ["/portal", "/portal/trials", "/portal/trials/new", "/portal/review", "/portal/sites", "/portal/catalogue", "/portal/catalogue/traits", "/portal/cooperators", "/api/sites", "/api/trials"];
+    const problems: string[] = [];
+    const check = async (role: RoleKey, own: typeof first, foreign: typeof first) => {
+      const seen: string[] = [];
+      for (const path of lists) {
+        const body = await (await request(path, sessions.get(role)!)).text();
+        seen.push(body);
+        for (const text of [...foreign.names, ...foreign.contacts]) if (body.includes(text)) problems.push(`${role} sees "${text}" on ${path}`);
+      }
+      for (const text of [...own.names, ...own.contacts]) if (!seen.some((b) => b.includes(text))) problems.push(`${role} never sees their own "${text}"`);
+    };
+    await check("coordinator", first, second);
+    await check("otherCoordinator", second, first);
+    expect(problems).toEqual([]);
+  }, 60_000);
 
   it("builds every exported server action with defineAction and the roles in the matrix", async () => {
     const found: Record<string, readonly string[] | "public"> = {};

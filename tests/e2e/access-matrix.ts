@@ -1,7 +1,11 @@
 // Who may open what. Every page, route handler method and server action in the app must have an entry here;
 // access-matrix.test.ts finds them on disk and fails on any that is missing.
 
-export const ROLES = ["public", "coopA", "coopB", "coordinator", "admin"] as const;
+/**
+ * coopA and coopB grow for sites A and B of the first program, whose coordinator is "coordinator";
+ * otherCoordinator runs the second program, where otherCoop grows. Programs must not reach each other.
+ */
+export const ROLES = ["public", "coopA", "coopB", "coordinator", "otherCoordinator", "otherCoop", "admin"] as const;
 export type RoleKey = (typeof ROLES)[number];
 
 /**
@@ -28,6 +32,9 @@ export interface SampleIds {
   unpublishedVariety: number;
   /** A variety id for the staff history page. */
   variety: number;
+  /** The second program's draft trial and one of its varieties. */
+  otherTrial: number;
+  otherVariety: number;
 }
 
 export interface Sample {
@@ -38,11 +45,24 @@ export interface Sample {
   expect: Record<RoleKey, Outcome>;
 }
 
-const everyone = (o: Outcome): Record<RoleKey, Outcome> => ({ public: o, coopA: o, coopB: o, coordinator: o, admin: o });
-const signedIn = (o: Outcome, signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: o, coopB: o, coordinator: o, admin: o });
-const staffOnly = (signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: "deny", coopB: "deny", coordinator: "ok", admin: "ok" });
-/** Site B's object: cooperator A must not see it, cooperator B and staff may. */
-const siteBObject = (allowed: Outcome = "ok", signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: "deny", coopB: allowed, coordinator: allowed, admin: allowed });
+const everyone = (o: Outcome): Record<RoleKey, Outcome> => ({ public: o, coopA: o, coopB: o, coordinator: o, otherCoordinator: o, otherCoop: o, admin: o });
+const signedIn = (o: Outcome, signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: o, coopB: o, coordinator: o, otherCoordinator: o, otherCoop: o, admin: o });
+/** Pages every staff member has, each showing only their own programs' rows. */
+const staffOnly = (signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ public: signedOut, coopA: "deny", coopB: "deny", coordinator: "ok", otherCoordinator: "ok", otherCoop: "deny", admin: "ok" });
+/** An object of the first program: its coordinator and admins only. */
+const firstProgramStaff = (signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ ...staffOnly(signedOut), otherCoordinator: "deny" });
+/** An object of the second program: its coordinator and admins only. */
+const secondProgramStaff = (signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({ ...staffOnly(signedOut), coordinator: "deny" });
+/** Site B's object: cooperator A and the other program must not see it, cooperator B and the first program's staff may. */
+const siteBObject = (allowed: Outcome = "ok", signedOut: Outcome = "signin"): Record<RoleKey, Outcome> => ({
+  public: signedOut,
+  coopA: "deny",
+  coopB: allowed,
+  coordinator: allowed,
+  otherCoordinator: "deny",
+  otherCoop: "deny",
+  admin: allowed,
+});
 
 const form = (fields: Record<string, string>, file?: { name: string; type: string; text: string }) => {
   const f = new FormData();
@@ -91,39 +111,55 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "PAGE /portal/record": [{ note: "own sites", path: () => "/portal/record", expect: signedIn("ok") }],
   "PAGE /portal/record/[trialId]/[siteId]": [
     { note: "site B's entry page", path: (i) => `/portal/record/${i.kal}/${i.siteB}`, expect: siteBObject() },
-    { note: "site A's entry page is not cooperator B's", path: (i) => `/portal/record/${i.kal}/${i.siteA}`, expect: { public: "signin", coopA: "ok", coopB: "deny", coordinator: "ok", admin: "ok" } },
+    { note: "site A's entry page is not cooperator B's", path: (i) => `/portal/record/${i.kal}/${i.siteA}`, expect: { public: "signin", coopA: "ok", coopB: "deny", coordinator: "ok", otherCoordinator: "deny", otherCoop: "deny", admin: "ok" } },
   ],
   "PAGE /portal/record/[trialId]/[siteId]/upload": [{ note: "site B's upload page", path: (i) => `/portal/record/${i.kal}/${i.siteB}/upload`, expect: siteBObject() }],
   "PAGE /portal/plots/[plotId]": [
     { note: "site B's plot", path: (i) => `/portal/plots/${i.plotB}`, expect: siteBObject({ redirect: "/portal/record/" }) },
-    { note: "site A's plot", path: (i) => `/portal/plots/${i.plotA}`, expect: { public: "signin", coopA: { redirect: "/portal/record/" }, coopB: "deny", coordinator: { redirect: "/portal/record/" }, admin: { redirect: "/portal/record/" } } },
+    {
+      note: "site A's plot",
+      path: (i) => `/portal/plots/${i.plotA}`,
+      expect: { public: "signin", coopA: { redirect: "/portal/record/" }, coopB: "deny", coordinator: { redirect: "/portal/record/" }, otherCoordinator: "deny", otherCoop: "deny", admin: { redirect: "/portal/record/" } },
+    },
   ],
   "PAGE /portal/trials/[trialId]/sites/[siteId]": [{ note: "site B's layout", path: (i) => `/portal/trials/${i.kal}/sites/${i.siteB}`, expect: siteBObject() }],
   "GET /portal/trials/[trialId]/sites/[siteId]/sheets": [{ note: "site B's tray map", path: (i) => `/portal/trials/${i.kal}/sites/${i.siteB}/sheets?kind=map`, expect: siteBObject() }],
-  "PAGE /portal/trials/[trialId]/analysis": [{ note: "kale analysis, not shared with growers", path: (i) => `/portal/trials/${i.kal}/analysis`, expect: staffOnly() }],
+  "PAGE /portal/trials/[trialId]/analysis": [{ note: "kale analysis, not shared with growers", path: (i) => `/portal/trials/${i.kal}/analysis`, expect: firstProgramStaff() }],
 
   // Staff pages.
   "PAGE /portal/trials": [{ note: "list", path: () => "/portal/trials", expect: staffOnly() }],
   "PAGE /portal/trials/new": [{ note: "form", path: () => "/portal/trials/new", expect: staffOnly() }],
-  "PAGE /portal/trials/[trialId]": [{ note: "kale detail with the code key", path: (i) => `/portal/trials/${i.kal}`, expect: staffOnly() }],
-  "PAGE /portal/trials/[trialId]/edit": [{ note: "kale edit", path: (i) => `/portal/trials/${i.kal}/edit`, expect: staffOnly() }],
-  "PAGE /portal/trials/[trialId]/publish": [{ note: "spinach publish", path: (i) => `/portal/trials/${i.spn}/publish`, expect: staffOnly() }],
+  "PAGE /portal/trials/[trialId]": [
+    { note: "kale detail with the code key", path: (i) => `/portal/trials/${i.kal}`, expect: firstProgramStaff() },
+    { note: "the second program's draft trial", path: (i) => `/portal/trials/${i.otherTrial}`, expect: secondProgramStaff() },
+  ],
+  "PAGE /portal/trials/[trialId]/edit": [
+    { note: "kale edit", path: (i) => `/portal/trials/${i.kal}/edit`, expect: firstProgramStaff() },
+    { note: "the second program's trial edit", path: (i) => `/portal/trials/${i.otherTrial}/edit`, expect: secondProgramStaff() },
+  ],
+  "PAGE /portal/trials/[trialId]/publish": [{ note: "spinach publish", path: (i) => `/portal/trials/${i.spn}/publish`, expect: firstProgramStaff() }],
   "PAGE /portal/review": [{ note: "queue", path: () => "/portal/review", expect: staffOnly() }],
-  "PAGE /portal/review/[trialId]/[siteId]": [{ note: "site B's review", path: (i) => `/portal/review/${i.kal}/${i.siteB}`, expect: staffOnly() }],
-  "PAGE /portal/sites": [{ note: "all sites with contacts", path: () => "/portal/sites", expect: staffOnly() }],
+  "PAGE /portal/review/[trialId]/[siteId]": [{ note: "site B's review", path: (i) => `/portal/review/${i.kal}/${i.siteB}`, expect: firstProgramStaff() }],
+  "PAGE /portal/sites": [{ note: "own programs' sites with contacts", path: () => "/portal/sites", expect: staffOnly() }],
   "PAGE /portal/catalogue": [{ note: "catalogue", path: () => "/portal/catalogue", expect: staffOnly() }],
   "PAGE /portal/catalogue/traits": [{ note: "trait library", path: () => "/portal/catalogue/traits", expect: staffOnly() }],
   "PAGE /portal/cooperators": [{ note: "growers", path: () => "/portal/cooperators", expect: staffOnly() }],
   "PAGE /portal/mailbox": [{ note: "captured mail", path: () => "/portal/mailbox", expect: staffOnly() }],
-  "PAGE /portal/varieties/[varietyId]": [{ note: "variety history", path: (i) => `/portal/varieties/${i.variety}`, expect: staffOnly() }],
-  "PAGE /portal/admin/users": [{ note: "users and roles", path: () => "/portal/admin/users", expect: { public: "signin", coopA: "deny", coopB: "deny", coordinator: "deny", admin: "ok" } }],
+  "PAGE /portal/varieties/[varietyId]": [
+    { note: "variety history", path: (i) => `/portal/varieties/${i.variety}`, expect: firstProgramStaff() },
+    { note: "the second program's variety", path: (i) => `/portal/varieties/${i.otherVariety}`, expect: secondProgramStaff() },
+  ],
+  "PAGE /portal/admin/users": [{ note: "users and roles", path: () => "/portal/admin/users", expect: { public: "signin", coopA: "deny", coopB: "deny", coordinator: "deny", otherCoordinator: "deny", otherCoop: "deny", admin: "ok" } }],
 
   // JSON and file APIs.
   "GET /api/trials": [{ note: "own trials", path: () => "/api/trials", expect: signedIn("ok", "unauth") }],
-  "GET /api/trials/[trialId]": [{ note: "kale with the code key", path: (i) => `/api/trials/${i.kal}`, expect: staffOnly("unauth") }],
+  "GET /api/trials/[trialId]": [
+    { note: "kale with the code key", path: (i) => `/api/trials/${i.kal}`, expect: firstProgramStaff("unauth") },
+    { note: "the second program's trial", path: (i) => `/api/trials/${i.otherTrial}`, expect: secondProgramStaff("unauth") },
+  ],
   "GET /api/trials/[trialId]/sites/[siteId]/layout": [{ note: "site B's layout", path: (i) => `/api/trials/${i.kal}/sites/${i.siteB}/layout`, expect: siteBObject("ok", "unauth") }],
-  "GET /api/trials/[trialId]/analysis": [{ note: "spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis`, expect: staffOnly("unauth") }],
-  "GET /api/trials/[trialId]/analysis/export": [{ note: "spinach means csv", path: (i) => `/api/trials/${i.spn}/analysis/export?format=csv&table=means`, expect: staffOnly("unauth") }],
+  "GET /api/trials/[trialId]/analysis": [{ note: "spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis`, expect: firstProgramStaff("unauth") }],
+  "GET /api/trials/[trialId]/analysis/export": [{ note: "spinach means csv", path: (i) => `/api/trials/${i.spn}/analysis/export?format=csv&table=means`, expect: firstProgramStaff("unauth") }],
   "GET /api/sites": [{ note: "own sites", path: () => "/api/sites", expect: signedIn("ok", "unauth") }],
   "GET /api/submissions": [{ note: "site B's review state", path: (i) => `/api/submissions?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],
   "GET /api/observations": [{ note: "site B's sheet", path: (i) => `/api/observations?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],

@@ -42,7 +42,7 @@ describe("a coordinator invites a grower, who joins through the mailed link", ()
     expect(await staff.page.getByLabel("Grower's name").inputValue()).toBe("Nell Ashby");
 
     await staff.page.getByLabel("E-mail").fill(email);
-    await staff.page.getByLabel("Site (optional)").selectOption({ label: DEMO_SITES[3].name });
+    await staff.page.getByLabel("Site", { exact: true }).selectOption({ label: DEMO_SITES[3].name });
     await staff.page.getByRole("button", { name: "Send invitation" }).click();
     await staff.page.getByText(`Invitation sent to ${email}.`).waitFor();
 

@@ -132,10 +132,11 @@ describe("coordinator sets up a trial in the browser", () => {
       await page.getByRole("status").filter({ hasText: "Crop deleted." }).waitFor({ timeout: 20_000 });
       await expect.poll(() => page.getByRole("cell", { name: `${name} Red`, exact: true }).count()).toBe(0);
 
-      await page.getByRole("button", { name: "Delete Lettuce" }).click();
-      await page.getByRole("status").filter({ hasText: /Lettuce cannot be deleted because it is the crop of trials? / }).waitFor({ timeout: 20_000 });
+      // Spinach is grown by this program only (lettuce also by the second demo program, which leaves it to admins).
+      await page.getByRole("button", { name: "Delete Spinach" }).click();
+      await page.getByRole("status").filter({ hasText: /Spinach cannot be deleted because it is the crop of trials? / }).waitFor({ timeout: 20_000 });
       await page.reload();
-      await page.getByRole("button", { name: "Delete Lettuce" }).waitFor();
+      await page.getByRole("button", { name: "Delete Spinach" }).waitFor();
     } finally {
       await context.close();
     }

@@ -15,7 +15,7 @@ export async function insertBigSite(db: Database, p: { plots: number; tag: strin
   const [program] = await db.insert(s.programs).values({ slug: `big-${tag.toLowerCase()}`, name: `Big ${tag}` }).$returningId();
   const [season] = await db.insert(s.seasons).values({ programId: program!.id, name: "Big season", year: 2026 }).$returningId();
   const [crop] = await db.insert(s.crops).values({ name: `Big crop ${tag}`, cropGroup: "leafy_greens" }).$returningId();
-  const [site] = await db.insert(s.sites).values({ name: `Big site ${tag}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
+  const [site] = await db.insert(s.sites).values({ programId: program!.id, name: `Big site ${tag}`, kind: "farm", region: "Valley", growingSetup: "field" }).$returningId();
   const [trial] = await db
     .insert(s.trials)
     .values({ programId: program!.id, seasonId: season!.id, cropId: crop!.id, code: `BIG-${tag}`, title: `Big trial ${tag}`, blocks: Math.ceil(p.plots / 10), plotUnit: "bed_row", plotSize: 20, status: "collecting" })
@@ -24,7 +24,7 @@ export async function insertBigSite(db: Database, p: { plots: number; tag: strin
   await db.insert(s.trialTraits).values(traitRows.map((t, i) => ({ trialId: trial!.id, traitId: t.id, sortOrder: i })));
   const entryIds: number[] = [];
   for (let i = 0; i < 10; i += 1) {
-    const [v] = await db.insert(s.varieties).values({ cropId: crop!.id, name: `Variety ${i}` }).$returningId();
+    const [v] = await db.insert(s.varieties).values({ programId: program!.id, cropId: crop!.id, name: `Variety ${i}` }).$returningId();
     const [e] = await db.insert(s.trialEntries).values({ trialId: trial!.id, varietyId: v!.id, blindCode: `E${i}X`, entryNumber: i + 1 }).$returningId();
     entryIds.push(e!.id);
   }

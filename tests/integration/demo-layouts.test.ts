@@ -6,6 +6,7 @@ import { DEMO_TRIALS } from "@/db/demo-data";
 import type { Viewer } from "@/lib/auth/types";
 import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
 import { insertSite } from "@/db/mutations/sites";
+import { insertVariety } from "@/db/mutations/catalogue";
 import { createTrialSchema } from "@/lib/validation/trials";
 
 // The demo seed lays out its sites without going through the app. These tests redo every demo layout
@@ -70,7 +71,12 @@ describe("demo layouts", () => {
           seedsPerCell: String(trial!.seedsPerCell),
         }),
       );
-      for (const e of entries) await insertTrialEntry(coordinator, { trialId: cloneId, varietyId: e.varietyId, seedLotId: e.seedLotId ?? undefined, isCheck: e.isCheck });
+      // Entries use their own program's varieties, so the clone gets copies of the demo varieties.
+      for (const e of entries) {
+        const [variety] = await db.select({ name: s.varieties.name }).from(s.varieties).where(eq(s.varieties.id, e.varietyId));
+        const varietyId = await insertVariety(coordinator, { cropId: trial!.cropId, name: variety!.name });
+        await insertTrialEntry(coordinator, { trialId: cloneId, varietyId, isCheck: e.isCheck });
+      }
       for (const [i, enrolment] of enrolments.entries()) {
         const siteId = await insertSite(coordinator, { name: unique(`Layout check ${i}`), kind: "farm", region: "Test", growingSetup: "greenhouse" });
         const { enrolmentId } = await insertEnrolment(coordinator, { trialId: cloneId, siteId }, mail);

@@ -13,6 +13,7 @@ import { hashToken, newToken } from "@/lib/auth/tokens";
 import { isAppError } from "@/lib/errors";
 import { pool as appPool } from "@/db/index";
 import { testDatabase, unique } from "../helpers/db";
+import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 const mailboxDir = process.env.MAILBOX_DIR!;
 const { db, pool } = testDatabase();
@@ -33,9 +34,10 @@ async function capturedTo(address: string) {
   return all.filter((m) => m.to.includes(address)) as { subject: string; text: string }[];
 }
 
+/** The demo coordinator and a site of her program. */
 async function coordinatorAndSite() {
-  const [coordinator] = await db.select().from(s.users).where(eq(s.users.role, "coordinator")).limit(1);
-  const [site] = await db.select().from(s.sites).limit(1);
+  const [coordinator] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, DEMO_STAFF[1].email));
+  const [site] = await db.select({ id: s.sites.id, name: s.sites.name }).from(s.sites).where(eq(s.sites.name, DEMO_SITES[0].name));
   return { coordinator: coordinator!, site: site! };
 }
 
@@ -45,7 +47,7 @@ describe("invitations end to end through the fake SMTP server", () => {
     const email = `${unique("grower")}@example.org`;
     const token = newToken();
     await insertCooperatorInvite({
-      actorId: coordinator.id,
+      viewer: coordinator,
       name: "New Grower",
       email,
       siteId: site.id,
@@ -73,10 +75,10 @@ describe("invitations end to end through the fake SMTP server", () => {
   });
 
   it("refuses an expired invitation and changes nothing", async () => {
-    const { coordinator } = await coordinatorAndSite();
+    const { coordinator, site } = await coordinatorAndSite();
     const email = `${unique("late")}@example.org`;
     const token = newToken();
-    await insertCooperatorInvite({ actorId: coordinator.id, name: "Late Grower", email, token, buildMail: () => ({ to: email, subject: "x", text: "x" }) });
+    await insertCooperatorInvite({ viewer: coordinator, name: "Late Grower", email, siteId: site.id, token, buildMail: () => ({ to: email, subject: "x", text: "x" }) });
     await db.update(s.userTokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(s.userTokens.tokenHash, hashToken(token)));
 
     expect(await getValidToken(token, "invite")).toBeNull();
@@ -85,13 +87,14 @@ describe("invitations end to end through the fake SMTP server", () => {
     expect((await getSignInRecord(email))!.passwordHash).toBeNull();
   });
 
-  it("refuses to invite an e-mail that already has an account, writing nothing", async () => {
-    const { coordinator } = await coordinatorAndSite();
+  it("refuses to invite a staff account's e-mail as a grower, writing nothing", async () => {
+    const { coordinator, site } = await coordinatorAndSite();
     const before = await db.select().from(s.mailOutbox);
     const error = await insertCooperatorInvite({
-      actorId: coordinator.id,
+      viewer: coordinator,
       name: "Someone",
       email: coordinator.email,
+      siteId: site.id,
       token: newToken(),
       buildMail: () => ({ to: coordinator.email, subject: "x", text: "x" }),
     }).catch((e) => e);
@@ -102,7 +105,7 @@ describe("invitations end to end through the fake SMTP server", () => {
   it("refuses an invite to a site that does not exist and rolls back the new account", async () => {
     const { coordinator } = await coordinatorAndSite();
     const email = `${unique("nosite")}@example.org`;
-    const error = await insertCooperatorInvite({ actorId: coordinator.id, name: "X Y", email, siteId: 99999999, token: newToken(), buildMail: () => ({ to: email, subject: "x", text: "x" }) }).catch((e) => e);
+    const error = await insertCooperatorInvite({ viewer: coordinator, name: "X Y", email, siteId: 99999999, token: newToken(), buildMail: () => ({ to: email, subject: "x", text: "x" }) }).catch((e) => e);
     expect(isAppError(error) && error.fieldErrors?.siteId).toBeTruthy();
     expect(await getSignInRecord(email)).toBeNull();
   });

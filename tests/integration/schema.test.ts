@@ -33,7 +33,7 @@ describe("schema constraints", () => {
   it("refuses a blind code used twice in one trial", async () => {
     const { trial, entries } = await firstTrial();
     const [crop] = await db.select().from(s.crops).where(eq(s.crops.id, trial.cropId));
-    const [variety] = await db.insert(s.varieties).values({ cropId: crop!.id, name: unique("Variety") }).$returningId();
+    const [variety] = await db.insert(s.varieties).values({ programId: trial.programId, cropId: crop!.id, name: unique("Variety") }).$returningId();
     const insert = db.insert(s.trialEntries).values({ trialId: trial.id, varietyId: variety!.id, blindCode: entries[0]!.blindCode, entryNumber: 99 });
     expect(await errorNumber(insert)).toBe(1062);
   });

@@ -49,9 +49,12 @@ describe("form validation answers in plain words", () => {
     const mismatch = acceptInviteSchema.safeParse({ token: "a".repeat(43), name: "Al Grower", password: "long-enough-1", confirm: "long-enough-2" });
     expect(mismatch.error!.issues[0]!.message).toBe("The two passwords are not the same.");
   });
-  it("treats a blank site as no site and rejects a non-numeric one", () => {
-    expect(inviteCooperatorSchema.parse({ name: "Jo Grower", email: "jo@x.org", siteId: "" }).siteId).toBeUndefined();
-    expect(inviteCooperatorSchema.safeParse({ name: "Jo Grower", email: "jo@x.org", siteId: "abc" }).success).toBe(false);
+  it("asks for the grower's site when it is blank or not a site", () => {
+    for (const siteId of ["", "abc", undefined]) {
+      const parsed = inviteCooperatorSchema.safeParse({ name: "Jo Grower", email: "jo@x.org", siteId });
+      expect(parsed.error!.issues[0]!.message).toBe("Choose the grower's site.");
+    }
+    expect(inviteCooperatorSchema.parse({ name: "Jo Grower", email: "jo@x.org", siteId: "7" }).siteId).toBe(7);
   });
 });
 

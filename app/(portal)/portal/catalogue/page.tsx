@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guards";
 import { listCrops, listSeedLots, listVarieties } from "@/db/queries/catalogue";
+import { listProgramOptions } from "@/db/queries/programs";
 import { Card } from "@/components/ui/card";
 import { CropTable, SeedLotTable, VarietyTable } from "@/components/catalogue/catalogue-tables";
 import { CropForm, SeedLotForm, VarietyForm } from "@/components/catalogue/catalogue-forms";
@@ -10,7 +11,7 @@ export const metadata: Metadata = { title: "Catalogue" };
 
 export default async function CataloguePage() {
   const viewer = await requireRole("coordinator", "admin");
-  const [crops, varieties, lots] = await Promise.all([listCrops(viewer), listVarieties(viewer), listSeedLots(viewer)]);
+  const [crops, varieties, lots, programs] = await Promise.all([listCrops(viewer), listVarieties(viewer), listSeedLots(viewer), listProgramOptions(viewer)]);
   const cropOptions = crops.map(({ id, name }) => ({ id, name }));
   const varietyOptions = varieties.map(({ id, name, crop }) => ({ id, name, crop }));
   return (
@@ -21,7 +22,9 @@ export default async function CataloguePage() {
           Trait library
         </Link>
       </div>
-      <p className="text-loam-700">Crops, varieties and the seed lots that go into trial kits. Variety names stay with staff; growers only see blind codes.</p>
+      <p className="text-loam-700">
+        Crops, varieties and the seed lots that go into trial kits. Crops are shared by every program; varieties and seed lots are your program&apos;s own. Variety names stay with staff; growers only see blind codes.
+      </p>
       <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
         <Card title="Crops">
           <CropTable rows={crops} />
@@ -33,7 +36,7 @@ export default async function CataloguePage() {
           <VarietyTable rows={varieties} crops={cropOptions} />
         </Card>
         <Card title="Add a variety">
-          <VarietyForm crops={cropOptions} />
+          <VarietyForm crops={cropOptions} programs={programs} />
         </Card>
       </div>
       <Card title="Seed lots">

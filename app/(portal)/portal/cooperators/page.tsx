@@ -19,7 +19,8 @@ export default async function CooperatorsPage() {
           <ul className="divide-y divide-husk-100">
             {cooperators.map((c) => (
               <li key={c.id} className="py-2">
-                <span className="font-semibold">{c.name}</span> <span className="text-sm text-loam-700">{c.email}</span>{" "}
+                <span className="font-semibold">{c.name}</span> <span className="text-sm text-loam-700">{c.email}</span>
+                {c.phone && <span className="text-sm text-loam-700"> · {c.phone}</span>}{" "}
                 {c.invited && <Badge tone="warn">Invitation pending</Badge>} {!c.active && <Badge tone="bad">Inactive</Badge>}
                 <span className="block text-sm text-loam-700">{c.sites.length ? c.sites.join(", ") : "No site yet"}</span>
               </li>
@@ -27,7 +28,7 @@ export default async function CooperatorsPage() {
           </ul>
         </Card>
         <Card title="Invite a grower">
-          <p className="mb-4 text-sm text-loam-700">They get an e-mail with a link to set their password. The link works once, for 7 days.</p>
+          <p className="mb-4 text-sm text-loam-700">They get an e-mail with a link to set their password. The link works once, for 7 days. Someone who already has an account is added to the site and told by e-mail.</p>
           <InviteForm sites={sites} />
         </Card>
       </div>
