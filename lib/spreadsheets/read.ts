@@ -1,7 +1,8 @@
 import ExcelJS from "exceljs";
 import type { EntryColumn } from "@/lib/observations/columns";
 import { decodeCsv, parseCsv } from "./csv";
-import { unneutraliseCell, UploadRefused, type UploadKind } from "./safety";
+import { UploadRefused, type UploadKind } from "./safety";
+import { restoreText } from "./write";
 
 // Turns an uploaded template (xlsx or CSV) into plot rows. Anything that makes the layout of the sheet
 // uncertain (formulas, merged cells, unknown or missing columns) refuses the whole file.
@@ -65,7 +66,7 @@ function matchHeader(header: string[], columns: EntryColumn[]): string[] {
 }
 
 function toRows(grid: unknown[][], columns: EntryColumn[]): ReadResult {
-  const header = (grid[0] ?? []).map((v) => (v === null || v === undefined ? "" : String(v)));
+  const header = (grid[0] ?? []).map((v) => (v === null || v === undefined ? "" : restoreText(String(v))));
   if (header.every((h) => h.trim() === "")) throw new UploadRefused("The first row must hold the column headings from the template, but it is empty.");
   const keys = matchHeader(header, columns);
   if (grid.length - 1 > MAX_ROWS) throw new UploadRefused(`The sheet has ${grid.length - 1} rows; the limit is ${MAX_ROWS}. Split it into smaller files.`);
@@ -89,7 +90,7 @@ function toRows(grid: unknown[][], columns: EntryColumn[]): ReadResult {
         if (v !== null && v !== undefined && String(v).trim() !== "") throw new UploadRefused(`Row ${r + 1} has a value in column ${columnLetter(i)}, which has no heading. Delete it or move it into the right column.`);
         continue;
       }
-      if (typeof v === "string") v = unneutraliseCell(v);
+      if (typeof v === "string") v = restoreText(v);
       if (key === "#plot") plotCode = v === null || v === undefined ? "" : String(v).trim();
       else if (key === "#block") block = v === null || v === undefined ? "" : String(v).trim();
       else if (key === "#code") code = v === null || v === undefined ? "" : String(v).trim();

@@ -116,16 +116,3 @@ export function checkZip(bytes: Uint8Array) {
   }
   if (bomb) throw new UploadRefused("This workbook unpacks to far more data than a trial sheet could hold (it looks like a zip bomb). Nothing was saved.");
 }
-
-/**
- * Makes a text cell safe to open in a spreadsheet program: a leading =, +, -, @ (or tab/CR) would make
- * it run as a formula, so it is prefixed with an apostrophe (OWASP CSV injection guidance, from memory).
- */
-export function neutraliseCell(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
-
-/** Undoes neutraliseCell on upload, so a value exported and uploaded again stays the same. */
-export function unneutraliseCell(value: string): string {
-  return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
-}

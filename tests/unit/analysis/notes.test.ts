@@ -120,16 +120,3 @@ describe("values", () => {
     expect(plotValue(DAYS, site, [{ plotId: 1, traitId: 2, occasion: 0, valueNumber: null, valueDate: "2026-05-01", missingReason: null }])).toEqual({ value: null, reason: "site has no sowing date" });
   });
 });
-
-describe("export cells", () => {
-  it("neutralise text a spreadsheet would run as a formula and quote CSV fields", async () => {
-    const { neutraliseFormula, toCsv } = await import("@/lib/analysis/export");
-    expect(neutraliseFormula("=1+1")).toBe("'=1+1");
-    expect(neutraliseFormula("+39 555")).toBe("'+39 555");
-    expect(neutraliseFormula("-x")).toBe("'-x");
-    expect(neutraliseFormula("@cmd")).toBe("'@cmd");
-    expect(neutraliseFormula(-4.5)).toBe(-4.5);
-    expect(neutraliseFormula("Copper Ruffle")).toBe("Copper Ruffle");
-    expect(toCsv({ name: "t", columns: ["a", "b"], rows: [['=HYPERLINK("x")', 2.5], ["a,b", null]] })).toBe('a,b\r\n"\'=HYPERLINK(""x"")",2.5\r\n"a,b",\r\n');
-  });
-});
