@@ -53,10 +53,10 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
   }, [query]);
 
   const label: EntryLabel = (e) => (names && e.varietyName ? e.varietyName : e.blindCode);
-  const entryLabel = useMemo(() => {
-    const byId = new Map<number, { blindCode: string; varietyName: string | null }>();
+  const siteCells = useMemo(() => {
+    const byId = new Map<number, { blindCode: string; varietyName?: string | null }>();
     for (const m of result.combined?.means ?? result.perSite.find((s) => s.result)?.result?.means ?? []) byId.set(m.entryId, m);
-    return (id: number) => (byId.has(id) ? label(byId.get(id)!) : String(id));
+    return (result.combined?.cellMeans ?? []).map((c) => ({ siteName: c.siteName, mean: c.mean, entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId) }));
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [result, names]);
   const order = (result.combined?.means ?? []).map((m) => label(m));
@@ -211,8 +211,8 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               <AnovaTable rows={result.combined.rows} caption="Combined analysis of variance" />
             </details>
             <div className="mt-6 grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <InteractionChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
-              <SiteResponseChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
+              <InteractionChart cells={siteCells} order={order} unit={unit} />
+              <SiteResponseChart cells={siteCells} order={order} unit={unit} />
             </div>
           </Card>
         ) : (

@@ -1,6 +1,6 @@
 import ExcelJS from "exceljs";
 import { addSheetRow, csvFile, type SheetCell } from "@/lib/spreadsheets/write";
-import type { PublishedSnapshot } from "./types";
+import type { PublicSnapshot } from "./public-shape";
 
 const DATA_COLUMNS = ["site", "block", "plot", "code", "variety", "trait", "unit", "value", "status"] as const;
 
@@ -16,17 +16,17 @@ const DICTIONARY: [string, string][] = [
   ["status", "used = in the analysis; missing = no value (reason in the report); excluded = left out by the coordinator with a recorded reason."],
 ];
 
-function dataRows(snapshot: PublishedSnapshot) {
+function dataRows(snapshot: PublicSnapshot) {
   return snapshot.data.map((d): SheetCell[] => [d.site, d.block, d.plotCode, d.blindCode, d.variety, d.trait, d.unit, d.value, d.status]);
 }
 
 /** The published plot data as CSV, with the citation as a comment-style first line. */
-export function publishedCsv(snapshot: PublishedSnapshot): string {
+export function publishedCsv(snapshot: PublicSnapshot): string {
   return csvFile([[`# ${snapshot.citation}`], [...DATA_COLUMNS], ...dataRows(snapshot)]);
 }
 
 /** The published data as a workbook: plot data, means, a data dictionary and how to cite it. */
-export async function publishedXlsx(snapshot: PublishedSnapshot): Promise<Buffer> {
+export async function publishedXlsx(snapshot: PublicSnapshot): Promise<Buffer> {
   const book = new ExcelJS.Workbook();
   book.creator = "Seedplot";
   book.created = new Date(snapshot.publishedAt);
