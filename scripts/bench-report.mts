@@ -38,7 +38,7 @@ const results = traits.map((trait) => {
     valueNumber: trait.valueType === "rating" ? Math.min(9, Math.max(1, Math.round(5 + normal()))) : Math.round((100 + p.entryId * 3 + p.siteId + 5 * normal()) * 10) / 10,
     valueDate: null, missingReason: null,
   }));
-  const input: AnalysisInput = { trial: { id: 1, code: "BENCH-50", title: "Fifty-site benchmark trial", crop: "Lettuce", blocks: BLOCKS }, traits, entries, sites, plots, observations, exclusions: [] };
+  const input: AnalysisInput = { trial: { id: 1, code: "BENCH-50", title: "Fifty-site benchmark trial", crop: "Lettuce", blocks: BLOCKS, status: "analysing" }, traits, entries, sites, plots, observations, exclusions: [] };
   return { traitId: trait.id, result: runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" }) };
 });
 

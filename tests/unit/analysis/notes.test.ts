@@ -31,7 +31,7 @@ function build(opts: { sites: number; noisySite?: number; emergedLow?: boolean; 
       }
     }
   }
-  return { trial: { id: 1, code: "INV-1", title: "Invented trial", crop: "Lettuce", blocks: 4 }, traits: [SOWN, FINAL, DAYS, TRAIT], entries, sites, plots, observations, exclusions: [] };
+  return { trial: { id: 1, code: "INV-1", title: "Invented trial", crop: "Lettuce", blocks: 4, status: "analysing" }, traits: [SOWN, FINAL, DAYS, TRAIT], entries, sites, plots, observations, exclusions: [] };
 }
 
 const settings = (over: Partial<AnalysisSettings> = {}): AnalysisSettings => ({ traitId: 1, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd", ...over });
