@@ -59,7 +59,8 @@ export function MeansChart({ means, lsd, label, unit, title, testId }: { means: 
 export function InteractionChart({ cells, order, unit }: { cells: SiteCell[]; order: string[]; unit: string }) {
   const siteMeans = siteMeanMap(cells);
   const sites = [...siteMeans.entries()].sort((a, b) => a[1].mean - b[1].mean).map(([, s]) => s.name);
-  const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean }));
+  // A line joins its points in data order, so the points go in the order of the sites on the axis.
+  const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean })).sort((a, b) => sites.indexOf(a.site) - sites.indexOf(b.site));
   const best = sites.map((site) => {
     const top = data.filter((d) => d.site === site).sort((a, b) => b.mean - a.mean)[0];
     return `${site}: ${top?.entry ?? "–"}`;

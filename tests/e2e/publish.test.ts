@@ -118,7 +118,8 @@ describe("publishing and the public pages", () => {
   it("the public page, JSON and variety and site pages of a published trial show no review state, sharing flag or internal id", async () => {
     const { trialId } = await publicAddressesOf(PUBLISHED.code);
     const [statuses] = await e2e.pool.query("SELECT DISTINCT sub.status FROM submissions sub JOIN enrolments e ON e.id = sub.enrolment_id WHERE e.trial_id = ?", [trialId]);
-    expect((statuses as { status: string }[]).map((r) => r.status)).toContain("submitted");
+    // At least one site's data were not accepted when the trial was published (which state depends on the files run before).
+    expect((statuses as { status: string }[]).some((r) => r.status !== "accepted")).toBe(true);
     const [[variety], [site]] = await Promise.all([
       e2e.db.select({ id: s.trialEntries.varietyId }).from(s.trialEntries).where(eq(s.trialEntries.trialId, trialId)).limit(1),
       e2e.db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, trialId)).limit(1),
