@@ -3,8 +3,10 @@ import { createHash } from "node:crypto";
 import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits, SEED_COUNT_TRAITS } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/analysis/run";
+import { analysisFor } from "@/lib/analysis/blind";
+import { isStaff } from "@/lib/auth/permissions";
 import { isAnalysable } from "@/lib/analysis/values";
-import type { AnalysisResult, AnalysisSettings, InputTrait } from "@/lib/analysis/types";
+import type { AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
 import type { Viewer } from "@/lib/auth/types";
 
@@ -61,7 +63,7 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
 }
 
 /** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
-export async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
+async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
   const key = `${trialId}|${prepared.key}`;
   const hit = cache.get(key);
   if (hit) return hit;
@@ -73,8 +75,29 @@ export async function computeAnalysis(viewer: Viewer, trialId: number, prepared:
   return result;
 }
 
-/** Both steps, for the page's first render and for exports. */
+/**
+ * The analysis for prepared settings as this viewer may see it (lib/analysis/blind: blind codes only for
+ * growers until the trial is published). What the JSON API and the page send. Null when not the viewer's.
+ */
+export async function viewAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis, withPlots = false): Promise<ViewerAnalysis | null> {
+  const result = await computeAnalysis(viewer, trialId, prepared);
+  return result && analysisFor(viewer, result, withPlots);
+}
+
+/** Both steps as the viewer may see them, for the page's first render. */
+export async function loadAnalysisView(viewer: Viewer, trialId: number, query: AnalysisQuery) {
+  const prepared = await prepareAnalysis(viewer, trialId, query);
+  if (!prepared) return null;
+  const view = await viewAnalysis(viewer, trialId, prepared);
+  return view ? { view, etag: prepared.etag } : null;
+}
+
+/**
+ * The whole result with plot rows and the key, for staff only (exports, variety histories); null for
+ * anyone else, so a grower-facing path cannot reach it by mistake.
+ */
 export async function loadAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery) {
+  if (!isStaff(viewer)) return null;
   const prepared = await prepareAnalysis(viewer, trialId, query);
   if (!prepared) return null;
   const result = await computeAnalysis(viewer, trialId, prepared);

@@ -8,6 +8,7 @@ import { summariseForGrowers } from "@/lib/publish/summary";
 import { seededRandom } from "@/lib/design/random";
 import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
 import type { PublishedSnapshot } from "@/lib/publish/types";
+import { toPublicSnapshot } from "@/lib/publish/public-shape";
 import { renderTrialReport } from "@/reports/trial-report/render";
 
 const SITES = 50;
@@ -37,7 +38,7 @@ const results = traits.map((trait) => {
     valueNumber: trait.valueType === "rating" ? Math.min(9, Math.max(1, Math.round(5 + normal()))) : Math.round((100 + p.entryId * 3 + p.siteId + 5 * normal()) * 10) / 10,
     valueDate: null, missingReason: null,
   }));
-  const input: AnalysisInput = { trial: { id: 1, code: "BENCH-50", title: "Fifty-site benchmark trial", crop: "Lettuce", blocks: BLOCKS }, traits, entries, sites, plots, observations, exclusions: [] };
+  const input: AnalysisInput = { trial: { id: 1, code: "BENCH-50", title: "Fifty-site benchmark trial", crop: "Lettuce", blocks: BLOCKS, status: "analysing" }, traits, entries, sites, plots, observations, exclusions: [] };
   return { traitId: trait.id, result: runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" }) };
 });
 
@@ -59,14 +60,16 @@ const snapshot: PublishedSnapshot = {
 // does the same here, so the timed renders measure generation rather than process start-up.
 const small: PublishedSnapshot = { ...snapshot, sites: snapshot.sites.slice(0, 1), results: snapshot.results.slice(0, 1) };
 const warmStart = performance.now();
-await renderTrialReport(small);
+await renderTrialReport(toPublicSnapshot(small));
 console.log(`warm-up render of a one-site, one-trait report: ${(performance.now() - warmStart).toFixed(0)} ms`);
 
+// The server maps a stored snapshot to its public shape once and keeps it, so the mapping is not timed.
+const publicSnapshot = toPublicSnapshot(snapshot);
 const times: number[] = [];
 let pages = 0;
 for (let i = 0; i < 4; i += 1) {
   const start = performance.now();
-  const pdf = await renderTrialReport(snapshot);
+  const pdf = await renderTrialReport(publicSnapshot);
   times.push(performance.now() - start);
   pages = (pdf.toString("latin1").match(/\/Type \/Page\b/g) ?? []).length;
 }

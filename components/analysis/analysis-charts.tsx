@@ -1,10 +1,17 @@
 "use client";
 import * as Plot from "@observablehq/plot";
-import type { CombinedAnalysis, EmergenceAnalysis, EntryResult, GerminationAnalysis } from "@/lib/analysis/types";
+import type { EmergenceAnalysis } from "@/lib/analysis/types";
 import { formatNumber } from "@/lib/analysis/format";
 import { Chart } from "./chart";
 import { ENTRY_COLOURS, ENTRY_SYMBOLS } from "./palette";
-import type { EntryLabel } from "./analysis-tables";
+import type { EntryLabel, GerminationRowView, MeanRow } from "./analysis-tables";
+
+/** One entry's mean at one site, already labelled (blind code or name) by the caller. */
+export interface SiteCell {
+  siteName: string;
+  entry: string;
+  mean: number;
+}
 
 const INK = "#1b2618";
 const leftMargin = (labels: string[], width: number) => Math.min(width < 500 ? 110 : 170, 12 + 7 * Math.max(4, ...labels.map((l) => l.length)));
@@ -17,7 +24,7 @@ function entryScales(order: string[]) {
 }
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
-export function MeansChart({ means, lsd, label, unit, title, testId }: { means: EntryResult[]; lsd: number | null; label: EntryLabel; unit: string; title: string; testId?: string }) {
+export function MeansChart({ means, lsd, label, unit, title, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; testId?: string }) {
   const rows = [...means]
     .sort((a, b) => a.rank - b.rank)
     .map((m) => {
@@ -49,10 +56,11 @@ export function MeansChart({ means, lsd, label, unit, title, testId }: { means: 
 }
 
 /** Entry means per site, sites ordered from poorest to best: crossing lines are the entry × site interaction. */
-export function InteractionChart({ combined, label, order, unit }: { combined: CombinedAnalysis; label: (entryId: number) => string; order: string[]; unit: string }) {
-  const siteMeans = siteMeanMap(combined);
+export function InteractionChart({ cells, order, unit }: { cells: SiteCell[]; order: string[]; unit: string }) {
+  const siteMeans = siteMeanMap(cells);
   const sites = [...siteMeans.entries()].sort((a, b) => a[1].mean - b[1].mean).map(([, s]) => s.name);
-  const data = combined.cellMeans.map((c) => ({ site: c.siteName, entry: label(c.entryId), mean: c.mean }));
+  // A line joins its points in data order, so the points go in the order of the sites on the axis.
+  const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean })).sort((a, b) => sites.indexOf(a.site) - sites.indexOf(b.site));
   const best = sites.map((site) => {
     const top = data.filter((d) => d.site === site).sort((a, b) => b.mean - a.mean)[0];
     return `${site}: ${top?.entry ?? "–"}`;
@@ -95,22 +103,23 @@ function rotatedSiteAxis(sites: string[], width: number) {
   };
 }
 
-function siteMeanMap(combined: CombinedAnalysis) {
-  const sites = new Map<number, { name: string; sum: number; n: number; mean: number }>();
-  for (const c of combined.cellMeans) {
-    const s = sites.get(c.siteId) ?? { name: c.siteName, sum: 0, n: 0, mean: 0 };
+/** Site means by site name (names are unique). */
+function siteMeanMap(cells: SiteCell[]) {
+  const sites = new Map<string, { name: string; sum: number; n: number; mean: number }>();
+  for (const c of cells) {
+    const s = sites.get(c.siteName) ?? { name: c.siteName, sum: 0, n: 0, mean: 0 };
     s.sum += c.mean;
     s.n += 1;
     s.mean = s.sum / s.n;
-    sites.set(c.siteId, s);
+    sites.set(c.siteName, s);
   }
   return sites;
 }
 
 /** Site mean on x, each entry's mean there on y: a steep line is an entry that responds to good sites. */
-export function SiteResponseChart({ combined, label, order, unit }: { combined: CombinedAnalysis; label: (entryId: number) => string; order: string[]; unit: string }) {
-  const siteMeans = siteMeanMap(combined);
-  const data = combined.cellMeans.map((c) => ({ siteMean: siteMeans.get(c.siteId)!.mean, site: c.siteName, entry: label(c.entryId), mean: c.mean }));
+export function SiteResponseChart({ cells, order, unit }: { cells: SiteCell[]; order: string[]; unit: string }) {
+  const siteMeans = siteMeanMap(cells);
+  const data = cells.map((c) => ({ siteMean: siteMeans.get(c.siteName)!.mean, site: c.siteName, entry: c.entry, mean: c.mean }));
   const ordered = [...siteMeans.values()].sort((a, b) => a.mean - b.mean);
   const poorest = ordered[0]!;
   const best = ordered.at(-1)!;
@@ -138,7 +147,7 @@ export function SiteResponseChart({ combined, label, order, unit }: { combined: 
 }
 
 /** Pooled emergence % per entry with its 95% Wilson interval; small hollow marks are the single sites. */
-export function GerminationChart({ germination, label }: { germination: GerminationAnalysis; label: EntryLabel }) {
+export function GerminationChart({ germination, label }: { germination: { byEntry: GerminationRowView[]; bySite: GerminationRowView[] }; label: EntryLabel }) {
   const pooled = germination.byEntry.map((r) => ({ entry: label(r), percent: r.percent, lower: r.lower, upper: r.upper }));
   const sites = germination.bySite.map((r) => ({ entry: label(r), percent: r.percent, site: r.siteName ?? "" }));
   const summary = `Emergence per entry, pooled over sites, with 95% intervals: ${pooled.map((p) => `${p.entry} ${formatNumber(p.percent, 1)}% (${formatNumber(p.lower, 1)}–${formatNumber(p.upper, 1)})`).join("; ")}. Hollow marks show each site.`;
@@ -163,7 +172,7 @@ export function GerminationChart({ germination, label }: { germination: Germinat
 }
 
 /** Cumulative emergence by day after sowing, one line and symbol per entry. */
-export function EmergenceChart({ emergence, label, order }: { emergence: EmergenceAnalysis; label: EntryLabel; order: string[] }) {
+export function EmergenceChart({ emergence, label, order }: { emergence: Pick<EmergenceAnalysis, "days"> & { curve: { day: number; percent: number; blindCode: string; varietyName?: string | null }[] }; label: EntryLabel; order: string[] }) {
   const data = emergence.curve.map((c) => ({ day: c.day, percent: c.percent, entry: label(c) }));
   const lastDay = emergence.days.at(-1);
   const summary = `Cumulative emergence by day after sowing (days ${emergence.days.join(", ")}). On day ${lastDay}: ${data

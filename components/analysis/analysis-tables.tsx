@@ -5,7 +5,15 @@ import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "
 import { formatNumber, formatP } from "@/lib/analysis/format";
 import { SortableTable } from "./sortable-table";
 
-export type EntryLabel = (e: { blindCode: string; varietyName: string | null }) => string;
+export type EntryLabel = (e: { blindCode: string; varietyName?: string | null }) => string;
+
+/**
+ * An entry mean as the tables and charts need it. Staff rows carry the variety and the check flag;
+ * growers' rows before publication carry the blind code only; public rows have no internal ids.
+ */
+export type MeanRow = Pick<EntryResult, "blindCode" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank"> & { varietyName?: string | null; isCheck?: boolean };
+/** A germination row with or without the variety name. */
+export type GerminationRowView = Omit<GerminationRow, "entryId" | "siteId" | "varietyName"> & { varietyName?: string | null };
 type Labelled<T> = T & { shown: string };
 
 const SOURCE_WORDS: Record<AnovaRow["source"], string> = {
@@ -18,11 +26,11 @@ const SOURCE_WORDS: Record<AnovaRow["source"], string> = {
 };
 
 /** Entry means with SE, n, rank and letters; sortable and filterable. */
-export function MeansTable({ means, label, unit, caption, testId }: { means: EntryResult[]; label: EntryLabel; unit: string; caption: string; testId?: string }) {
+export function MeansTable({ means, label, unit, caption, testId }: { means: MeanRow[]; label: EntryLabel; unit: string; caption: string; testId?: string }) {
   // The shown name is part of the data, because the table caches accessor values per row.
-  const rows: Labelled<EntryResult>[] = means.map((m) => ({ ...m, shown: label(m) }));
+  const rows: Labelled<MeanRow>[] = means.map((m) => ({ ...m, shown: label(m) }));
   const showLs = means.some((m) => m.lsMean !== null && Math.abs(m.lsMean - m.mean) > 1e-9);
-  const columns: ColumnDef<Labelled<EntryResult>, unknown>[] = [
+  const columns: ColumnDef<Labelled<MeanRow>, unknown>[] = [
     { id: "rank", header: "Rank", accessorFn: (m) => m.rank },
     { id: "entry", header: "Entry", accessorFn: (m) => m.shown, cell: (c) => (
       <span>
@@ -31,7 +39,7 @@ export function MeansTable({ means, label, unit, caption, testId }: { means: Ent
       </span>
     ) },
     { id: "mean", header: `Mean (${unit})`, accessorFn: (m) => m.mean, cell: (c) => formatNumber(c.getValue() as number) },
-    ...(showLs ? [{ id: "lsMean", header: "LS mean", accessorFn: (m: EntryResult) => m.lsMean, cell: (c: { getValue: () => unknown }) => formatNumber(c.getValue() as number | null) } as ColumnDef<Labelled<EntryResult>, unknown>] : []),
+    ...(showLs ? [{ id: "lsMean", header: "LS mean", accessorFn: (m: MeanRow) => m.lsMean, cell: (c: { getValue: () => unknown }) => formatNumber(c.getValue() as number | null) } as ColumnDef<Labelled<MeanRow>, unknown>] : []),
     { id: "se", header: "± SE", accessorFn: (m) => m.se, cell: (c) => formatNumber(c.getValue() as number) },
     { id: "n", header: "Plots", accessorFn: (m) => m.n },
     { id: "letter", header: "Group", accessorFn: (m) => m.letter ?? "", cell: (c) => <span className="font-mono">{(c.getValue() as string) || "–"}</span> },
@@ -86,10 +94,10 @@ export function MissingTable({ missing }: { missing: MissingPlot[] }) {
   return <SortableTable data={missing} columns={columns} caption="Missing and excluded plots" filterLabel="Filter plots" />;
 }
 
-export function GerminationTable({ rows, label, bySite }: { rows: GerminationRow[]; label: EntryLabel; bySite: boolean }) {
-  const data: Labelled<GerminationRow>[] = rows.map((r) => ({ ...r, shown: label(r) }));
-  const columns: ColumnDef<Labelled<GerminationRow>, unknown>[] = [
-    ...(bySite ? [{ id: "site", header: "Site", accessorFn: (r: GerminationRow) => r.siteName ?? "" } as ColumnDef<Labelled<GerminationRow>, unknown>] : []),
+export function GerminationTable({ rows, label, bySite }: { rows: GerminationRowView[]; label: EntryLabel; bySite: boolean }) {
+  const data: Labelled<GerminationRowView>[] = rows.map((r) => ({ ...r, shown: label(r) }));
+  const columns: ColumnDef<Labelled<GerminationRowView>, unknown>[] = [
+    ...(bySite ? [{ id: "site", header: "Site", accessorFn: (r: GerminationRowView) => r.siteName ?? "" } as ColumnDef<Labelled<GerminationRowView>, unknown>] : []),
     { id: "entry", header: "Entry", accessorFn: (r) => r.shown },
     { id: "sown", header: "Seeds sown", accessorFn: (r) => r.sown },
     { id: "emerged", header: "Emerged", accessorFn: (r) => r.emerged },

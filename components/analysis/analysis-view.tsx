@@ -1,7 +1,7 @@
 "use client";
 import { useEffect, useMemo, useState } from "react";
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { AnalysisSettings, AnalysisPayload } from "@/lib/analysis/types";
+import type { AnalysisSettings, ViewerAnalysis } from "@/lib/analysis/types";
 import { formatNumber, formatP } from "@/lib/analysis/format";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
@@ -22,18 +22,19 @@ export function settingsQuery(s: AnalysisSettings): string {
   return q.toString();
 }
 
-async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisPayload> {
+async function fetchAnalysis(trialId: number, query: string): Promise<ViewerAnalysis> {
   const res = await fetch(`/api/trials/${trialId}/analysis?${query}`, { headers: { Accept: "application/json" } });
   const body = await res.json().catch(() => null);
   if (!res.ok) throw new Error(body?.error ?? "The analysis could not be loaded. Try again in a moment.");
-  return body as AnalysisPayload;
+  return body as ViewerAnalysis;
 }
 
 const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
 
 /** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
-export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisPayload; targets: ExclusionTargets | null }) {
-  // Exclusions, sharing, exports and variety names are for staff; `targets` is only given to them.
+export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: ViewerAnalysis; targets: ExclusionTargets | null }) {
+  // Exclusions, sharing and exports are for staff; `targets` is only given to them. Variety names come
+  // only in a keyed payload: staff, or a grower once the trial is published.
   const staff = targets !== null;
   const [settings, setSettings] = useState<AnalysisSettings>(initial.settings);
   const [names, setNames] = useState(false);
@@ -46,6 +47,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
     placeholderData: keepPreviousData,
   });
   const result = data ?? initial;
+  const keyed = "blind" in result ? null : result;
 
   // Keep the address bar in step so a view can be bookmarked or shared with another coordinator.
   useEffect(() => {
@@ -53,10 +55,10 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
   }, [query]);
 
   const label: EntryLabel = (e) => (names && e.varietyName ? e.varietyName : e.blindCode);
-  const entryLabel = useMemo(() => {
-    const byId = new Map<number, { blindCode: string; varietyName: string | null }>();
+  const siteCells = useMemo(() => {
+    const byId = new Map<number, { blindCode: string; varietyName?: string | null }>();
     for (const m of result.combined?.means ?? result.perSite.find((s) => s.result)?.result?.means ?? []) byId.set(m.entryId, m);
-    return (id: number) => (byId.has(id) ? label(byId.get(id)!) : String(id));
+    return (result.combined?.cellMeans ?? []).map((c) => ({ siteName: c.siteName, mean: c.mean, entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId) }));
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [result, names]);
   const order = (result.combined?.means ?? []).map((m) => label(m));
@@ -138,17 +140,17 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           </label>
           <p className="text-sm text-loam-700">{result.explanations.unaccepted}</p>
         </fieldset>
-        {staff && <div className="mt-4 flex flex-wrap items-center gap-3">
-          <label className="flex min-h-11 items-center gap-2">
+        {(staff || keyed) && <div className="mt-4 flex flex-wrap items-center gap-3">
+          {keyed && <label className="flex min-h-11 items-center gap-2">
             <input type="checkbox" className="size-5" checked={names} onChange={(e) => setNames(e.target.checked)} />
             Show variety names instead of blind codes
-          </label>
-          <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=xlsx`}>
+          </label>}
+          {staff && <><a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=xlsx`}>
             Download .xlsx
           </a>
           <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv`}>
             Download CSV
-          </a>
+          </a></>}
         </div>}
       </Card>
 
@@ -193,10 +195,10 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 </p>
               </div>
             </div>
-            {names && (
+            {names && staff && keyed?.combined && (
               <p className="mt-3 text-sm">
                 Variety histories:{" "}
-                {result.combined.means
+                {keyed.combined.means
                   .filter((m) => m.varietyId !== null && m.varietyName)
                   .map((m, i) => (
                     <span key={m.entryId}>
@@ -211,8 +213,8 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               <AnovaTable rows={result.combined.rows} caption="Combined analysis of variance" />
             </details>
             <div className="mt-6 grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <InteractionChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
-              <SiteResponseChart combined={result.combined} label={entryLabel} order={order} unit={unit} />
+              <InteractionChart cells={siteCells} order={order} unit={unit} />
+              <SiteResponseChart cells={siteCells} order={order} unit={unit} />
             </div>
           </Card>
         ) : (
@@ -259,7 +261,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           {result.missing.length === 0 ? <p className="text-sm">Every plot in the analysed sites has a value.</p> : <MissingTable missing={result.missing} />}
         </Card>
 
-        {staff ? (
+        {staff && keyed ? (
           <>
             <Card title="Exclusions">
               <ExclusionPanel trialId={trialId} result={result} targets={targets} />
@@ -289,8 +291,12 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               <GerminationChart germination={result.germination} label={label} />
               <GerminationTable rows={result.germination.byEntry} label={label} bySite={false} />
             </div>
-            <h3 className="mt-6 mb-2 font-bold">Compared with the seed label</h3>
-            <LabelTable rows={result.germination.labels} label={label} />
+            {keyed?.germination && (
+              <>
+                <h3 className="mt-6 mb-2 font-bold">Compared with the seed label</h3>
+                <LabelTable rows={keyed.germination.labels} label={label} />
+              </>
+            )}
             <LazyDetails className="mt-4" summaryClassName="min-h-11 cursor-pointer py-2 font-semibold" summary="Per site">
               <GerminationTable rows={result.germination.bySite} label={label} bySite />
             </LazyDetails>

@@ -14,7 +14,7 @@ export interface ExclusionTargets {
 }
 
 /** Lists exclusions and lets a coordinator add or remove one; the analysis refetches after each change. */
-export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: AnalysisPayload; targets: ExclusionTargets }) {
+export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: Pick<AnalysisPayload, "exclusions" | "traits">; targets: ExclusionTargets }) {
   const client = useQueryClient();
   const [state, action, excluding] = useActionState(excludeFromAnalysis, null);
   const [removeState, removeAction] = useActionState(includeInAnalysis, null);

@@ -1,17 +1,16 @@
 "use client";
-import type { CombinedAnalysis } from "@/lib/analysis/types";
 import type { PublicTraitView } from "@/lib/publish/public-view";
 import { formatNumber, formatP } from "@/lib/analysis/format";
 import { InteractionChart, MeansChart } from "@/components/analysis/analysis-charts";
 import { MeansTable } from "@/components/analysis/analysis-tables";
 
-const nameOf = (e: { blindCode: string; varietyName: string | null }) => e.varietyName ?? e.blindCode;
+const nameOf = (e: { blindCode: string; varietyName?: string | null }) => e.varietyName ?? e.blindCode;
 
 /** One published trait: chart, sortable means table and the key figures, with names revealed. */
 export function PublicTraitResults({ view }: { view: PublicTraitView }) {
   const { block, unit, scope } = view;
   if (!block) return <p className="text-loam-700">{view.problem ?? "Not enough data for this trait."}</p>;
-  const byId = new Map(block.means.map((m) => [m.entryId, nameOf(m)]));
+  const byCode = new Map(block.means.map((m) => [m.blindCode, nameOf(m)]));
   return (
     <div className="space-y-4">
       <p className="text-loam-700">
@@ -23,7 +22,11 @@ export function PublicTraitResults({ view }: { view: PublicTraitView }) {
       {view.combined && view.combined.cellMeans.length > 0 && (
         <details className="rounded-lg border border-husk-200 bg-white p-3">
           <summary className="cursor-pointer font-semibold">Variety by site</summary>
-          <InteractionChart combined={view.combined as CombinedAnalysis} label={(id) => byId.get(id) ?? String(id)} order={block.means.map(nameOf)} unit={unit} />
+          <InteractionChart
+            cells={view.combined.cellMeans.map((c) => ({ siteName: c.siteName, mean: c.mean, entry: byCode.get(c.blindCode) ?? c.blindCode }))}
+            order={block.means.map(nameOf)}
+            unit={unit}
+          />
         </details>
       )}
     </div>

@@ -22,6 +22,8 @@ import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "..
 import type { Viewer } from "@/lib/auth/types";
 import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
 import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
+import { WITHHELD_REASON } from "@/lib/analysis/blind";
+import type { TrialStatus } from "../schema/enums";
 
 // Staff read every site of their programs' trials; a cooperator reads only their own sites, and only
 // once a coordinator has shared that site's results (enrolments.results_shared), with blind codes only.
@@ -35,7 +37,7 @@ interface ScopedTrial {
   title: string;
   crop: string;
   blocks: number;
-  status: string;
+  status: TrialStatus;
   /** sites the viewer may see; null = every site (staff) */
   siteIds: number[] | null;
 }
@@ -154,28 +156,35 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .where(eq(analysisExclusions.trialId, p.trialId))
       .orderBy(asc(analysisExclusions.id)),
   ]);
-  // Cooperators see their own sites' exclusions only, and names only once the trial is published.
-  const names = canSeeBlindKey(viewer, trial);
+  // Cooperators see their own sites' exclusions only. Until the trial is published they read nothing that
+  // decodes a blind code: no names, seed lots, check flag or label germination, and not the coordinator's
+  // free-text reasons, which may name a variety (lib/analysis/blind.ts strips the result the same way).
+  const key = canSeeBlindKey(viewer, trial);
   const plotIds = new Set(plotRows.map((r) => r.id));
   const visibleSites = new Set(siteRows.map((r) => r.id));
   const exclusions = trial.siteIds === null ? exclusionRows : exclusionRows.filter((x) => (x.siteId !== null && visibleSites.has(x.siteId)) || (x.plotId !== null && plotIds.has(x.plotId)));
   return {
-    trial: { id: trial.id, code: trial.code, title: trial.title, crop: trial.crop, blocks: trial.blocks },
+    trial: { id: trial.id, code: trial.code, title: trial.title, crop: trial.crop, blocks: trial.blocks, status: trial.status },
     traits: traitRows,
     entries: entryRows.map((e) => ({
       id: e.id,
       blindCode: e.blindCode,
       entryNumber: e.entryNumber,
-      varietyName: names ? e.varietyName : null,
-      varietyId: names ? e.varietyId : null,
-      isCheck: e.isCheck,
-      labelGermination: e.labelGermination,
-      seedLot: names && e.seedSource ? `${e.seedSource} ${e.lotCode}` : null,
+      varietyName: key ? e.varietyName : null,
+      varietyId: key ? e.varietyId : null,
+      isCheck: key ? e.isCheck : false,
+      labelGermination: key ? e.labelGermination : null,
+      seedLot: key && e.seedSource ? `${e.seedSource} ${e.lotCode}` : null,
     })),
     sites: siteRows.map((s) => ({ ...s, status: s.status ?? "draft" })),
     plots: plotRows,
     observations: obsRows,
-    exclusions: exclusions.map((x) => ({ ...x, createdBy: trial.siteIds === null ? x.createdBy : null, createdAt: x.createdAt.toISOString() })),
+    exclusions: exclusions.map((x) => ({
+      ...x,
+      reason: key ? x.reason : WITHHELD_REASON,
+      createdBy: trial.siteIds === null ? x.createdBy : null,
+      createdAt: x.createdAt.toISOString(),
+    })),
   };
 }
 

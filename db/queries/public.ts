@@ -3,18 +3,20 @@ import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "../index";
 import { publishedReports, trials } from "../schema";
 import type { PublishedSnapshot } from "@/lib/publish/types";
+import { toPublicSnapshot, type PublicSnapshot } from "@/lib/publish/public-shape";
 
 // Public reads come only from published snapshots, never from live tables, so nothing unpublished can
-// leak and later data changes cannot alter what was published.
+// leak and later data changes cannot alter what was published. Every snapshot is turned into its public
+// shape as it is read (lib/publish/public-shape), so what leaves here carries no internal state.
 
-// A published version never changes, so its parsed snapshot can be kept for the life of the process.
-const parsedSnapshots = new Map<number, PublishedSnapshot>();
+// A published version never changes, so its public shape can be kept for the life of the process.
+const parsedSnapshots = new Map<number, PublicSnapshot>();
 
-async function snapshotsByReportId(ids: number[]): Promise<Map<number, PublishedSnapshot>> {
+async function snapshotsByReportId(ids: number[]): Promise<Map<number, PublicSnapshot>> {
   const missing = ids.filter((id) => !parsedSnapshots.has(id));
   if (missing.length > 0) {
     const rows = await db.select({ id: publishedReports.id, snapshot: publishedReports.snapshot }).from(publishedReports).where(inArray(publishedReports.id, missing));
-    for (const r of rows) parsedSnapshots.set(r.id, JSON.parse(r.snapshot) as PublishedSnapshot);
+    for (const r of rows) parsedSnapshots.set(r.id, toPublicSnapshot(JSON.parse(r.snapshot) as PublishedSnapshot));
   }
   return new Map(ids.filter((id) => parsedSnapshots.has(id)).map((id) => [id, parsedSnapshots.get(id)!]));
 }
@@ -36,7 +38,7 @@ async function versionsOf(trialId: number): Promise<PublicVersion[]> {
 }
 
 export type PublicReport =
-  | { kind: "published"; snapshot: PublishedSnapshot; versions: PublicVersion[]; latestVersion: number }
+  | { kind: "published"; snapshot: PublicSnapshot; versions: PublicVersion[]; latestVersion: number }
   | { kind: "withdrawn"; title: string; code: string; reason: string; withdrawnAt: Date };
 
 /**
@@ -72,7 +74,7 @@ export async function getPublicReport(code: string, version?: number): Promise<P
 }
 
 /** The latest live snapshot of every published trial. */
-async function listLatestSnapshots(): Promise<PublishedSnapshot[]> {
+async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
   const rows = await db
     .select({ id: publishedReports.id, trialId: publishedReports.trialId })
     .from(publishedReports)
@@ -81,7 +83,7 @@ async function listLatestSnapshots(): Promise<PublishedSnapshot[]> {
   const latest = new Map<number, number>();
   for (const r of rows) if (!latest.has(r.trialId)) latest.set(r.trialId, r.id);
   const snapshots = await snapshotsByReportId([...latest.values()]);
-  return [...latest.values()].map((id) => snapshots.get(id)).filter((x): x is PublishedSnapshot => x !== undefined);
+  return [...latest.values()].map((id) => snapshots.get(id)).filter((x): x is PublicSnapshot => x !== undefined);
 }
 
 export interface PublicTrialCard {
@@ -134,7 +136,7 @@ export async function getPublicVariety(varietyId: number) {
   const snapshots = await listLatestSnapshots();
   const appearances = snapshots
     .map((s) => ({ s, entry: s.entries.find((e) => e.varietyId === varietyId) }))
-    .filter((x): x is { s: PublishedSnapshot; entry: PublishedSnapshot["entries"][number] } => x.entry !== undefined);
+    .filter((x): x is { s: PublicSnapshot; entry: PublicSnapshot["entries"][number] } => x.entry !== undefined);
   if (appearances.length === 0) return null;
   return {
     name: appearances[0]!.entry.variety,

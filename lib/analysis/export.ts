@@ -1,6 +1,6 @@
 /**
  * The analysis as plain tables for spreadsheets and CSV: the same result DTO the page shows, so the
- * numbers cannot drift apart. Text cells that a spreadsheet would run as a formula are neutralised.
+ * numbers cannot drift apart. lib/spreadsheets/write turns them into files and makes every cell safe.
  */
 import type { AnalysisResult } from "./types";
 
@@ -9,11 +9,6 @@ export interface ExportTable {
   name: string;
   columns: string[];
   rows: Cell[][];
-}
-
-/** Spreadsheet programs treat text starting with = + - @ (or a tab/CR) as a formula; a leading apostrophe keeps it text. */
-export function neutraliseFormula(value: Cell): Cell {
-  return typeof value === "string" && /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
 }
 
 const SOURCE_WORDS: Record<string, string> = {
@@ -105,15 +100,4 @@ function dataDictionary(result: AnalysisResult): ExportTable {
       ["Emergence", "Emergence %", "Seedlings emerged / seeds sown x 100, pooled over plots; 95% Wilson score interval."],
     ],
   };
-}
-
-/** One table as RFC 4180 CSV with formula-like text neutralised. */
-export function toCsv(table: ExportTable): string {
-  const cell = (v: Cell) => {
-    const x = neutraliseFormula(v);
-    if (x === null) return "";
-    const text = typeof x === "number" ? (Number.isFinite(x) ? String(x) : "") : String(x);
-    return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-  };
-  return [table.columns, ...table.rows].map((r) => r.map(cell).join(",")).join("\r\n") + "\r\n";
 }

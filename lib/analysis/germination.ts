@@ -17,6 +17,10 @@ import type { AnalysisInput, EmergenceAnalysis, GerminationAnalysis, Germination
 
 const ALPHA = 0.05;
 
+/** The closing sentence of the germination note; it speaks of the label comparison, so it goes where that goes. */
+export const LABEL_COMPARISON_NOTE =
+  "Emergence in trays or beds usually runs below a laboratory germination test, and the label tolerances (7 CFR 201.63) are written for laboratory tests, so read the label comparison as a guide.";
+
 interface Counts {
   plot: InputPlot;
   sown: number;
@@ -145,9 +149,7 @@ export function analyseGermination(input: AnalysisInput, plots: InputPlot[], war
       : `Fewer than 200 seeds sown, so the label tolerance does not apply.`;
     return { entryId: e.id, blindCode: e.blindCode, varietyName: e.varietyName, seedLot: e.seedLot, labelPercent: label, observedPercent: r.percent, sown: r.sown, chiSquareP: p, tolerance: check?.tolerance ?? null, withinTolerance: check?.withinTolerance ?? null, note };
   });
-  noteParts.push(
-    "Emergence in trays or beds usually runs below a laboratory germination test, and the label tolerances (7 CFR 201.63) are written for laboratory tests, so read the label comparison as a guide.",
-  );
+  noteParts.push(LABEL_COMPARISON_NOTE);
   return { byEntry, bySite, chiSquare, cmh, labels, note: noteParts.join(" ") };
 }
 

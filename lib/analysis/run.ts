@@ -264,7 +264,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   }
 
   return {
-    trial: { id: input.trial.id, code: input.trial.code, title: input.trial.title, crop: input.trial.crop },
+    trial: { id: input.trial.id, code: input.trial.code, title: input.trial.title, crop: input.trial.crop, status: input.trial.status },
     settings,
     trait: { ...trait, analysedAs: traitLabel },
     traits: input.traits.filter((t) => !["seeds_sown"].includes(t.code)).map((t) => ({ id: t.id, name: t.name, analysable: isAnalysable(t) })),

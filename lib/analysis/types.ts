@@ -77,8 +77,11 @@ export interface InputExclusion {
   createdBy: string | null;
 }
 
+/** Trial stages (as in db/schema/enums); the blind-code key is public once a trial is published. */
+export type TrialStage = "draft" | "open" | "collecting" | "analysing" | "published" | "archived";
+
 export interface AnalysisInput {
-  trial: { id: number; code: string; title: string; crop: string; blocks: number };
+  trial: { id: number; code: string; title: string; crop: string; blocks: number; status: TrialStage };
   traits: InputTrait[];
   entries: InputEntry[];
   sites: InputSite[];
@@ -210,7 +213,7 @@ export interface EmergenceAnalysis {
 }
 
 export interface AnalysisResult {
-  trial: { id: number; code: string; title: string; crop: string };
+  trial: { id: number; code: string; title: string; crop: string; status: TrialStage };
   settings: AnalysisSettings;
   trait: InputTrait & { analysedAs: string };
   traits: { id: number; name: string; analysable: boolean }[];
@@ -250,3 +253,27 @@ export interface PlotValue {
  * excluded plots are still listed in `missing` and `exclusions`; the rows come only when asked for.
  */
 export type AnalysisPayload = Omit<AnalysisResult, "plots"> & { plots?: PlotValue[] };
+
+/** An entry-level row as someone without the blind-code key sees it: the blind code and nothing that decodes it. */
+export type Unkeyed<T> = Omit<T, "varietyName" | "varietyId" | "isCheck" | "seedLot">;
+
+export interface BlindAnalysisBlock extends Omit<AnalysisBlock, "means"> {
+  means: Unkeyed<EntryResult>[];
+}
+
+/**
+ * What a cooperator receives before the key is revealed (lib/analysis/blind.ts builds it): blind codes
+ * only, no check flag, no label germination or seed lots, entries numbered and ordered by blind code
+ * rather than by the coordinator's entry list, and no coordinator's notes on exclusions.
+ */
+export interface BlindAnalysisPayload extends Omit<AnalysisPayload, "perSite" | "combined" | "germination" | "emergence" | "plots"> {
+  blind: true;
+  perSite: (Omit<SiteAnalysis, "result"> & { result: BlindAnalysisBlock | null })[];
+  combined: (Omit<CombinedAnalysis, "means"> & { means: Unkeyed<EntryResult>[] }) | null;
+  germination: (Omit<GerminationAnalysis, "byEntry" | "bySite" | "labels"> & { byEntry: Unkeyed<GerminationRow>[]; bySite: Unkeyed<GerminationRow>[] }) | null;
+  emergence: { days: number[]; curve: Unkeyed<EmergenceAnalysis["curve"][number]>[]; kinetics: Unkeyed<EmergenceAnalysis["kinetics"][number]>[]; note: string } | null;
+  plots?: Unkeyed<PlotValue>[];
+}
+
+/** What the analysis page and JSON API send a signed-in viewer: the whole payload for staff, blind for growers until the reveal. */
+export type ViewerAnalysis = AnalysisPayload | BlindAnalysisPayload;

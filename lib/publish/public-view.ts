@@ -1,4 +1,4 @@
-import type { AnalysisBlock, AnalysisResult, CombinedAnalysis } from "@/lib/analysis/types";
+import type { PublicBlock, PublicCombined, PublicTraitResult } from "./public-shape";
 
 /** Only what the public trait view shows, so the page does not ship every plot row to the browser. */
 export interface PublicTraitView {
@@ -6,12 +6,12 @@ export interface PublicTraitView {
   unit: string;
   problem: string | null;
   scope: string;
-  block: Pick<AnalysisBlock, "means" | "cv" | "lsd" | "entryP" | "comparisonNote"> | null;
-  combined: Pick<CombinedAnalysis, "cellMeans" | "sites"> | null;
+  block: Pick<PublicBlock, "means" | "cv" | "lsd" | "entryP" | "comparisonNote"> | null;
+  combined: Pick<PublicCombined, "cellMeans" | "sites"> | null;
 }
 
 /** Reduces a published analysis to the public trait view (runs on the server). */
-export function toPublicTraitView(result: AnalysisResult): PublicTraitView {
+export function toPublicTraitView(result: PublicTraitResult): PublicTraitView {
   const block = result.combined ?? result.perSite.find((s) => s.result)?.result ?? null;
   return {
     analysedAs: result.trait.analysedAs,
@@ -22,4 +22,3 @@ export function toPublicTraitView(result: AnalysisResult): PublicTraitView {
     combined: result.combined && { cellMeans: result.combined.cellMeans, sites: result.combined.sites },
   };
 }
-

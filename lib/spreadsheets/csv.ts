@@ -82,15 +82,3 @@ export function decodeCsv(bytes: Uint8Array): string {
     throw new UploadRefused("The CSV file is not in UTF-8. In your spreadsheet program choose Save As → CSV UTF-8 and try again.");
   }
 }
-
-/** One CSV line with every text cell neutralised against formula injection and quoted where needed. */
-export function csvLine(cells: (string | number | null)[]): string {
-  return cells
-    .map((c) => {
-      if (c === null) return "";
-      if (typeof c === "number") return String(c);
-      const safe = /^[=+\-@\t\r]/.test(c) ? `'${c}` : c;
-      return /[",\n\r;]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-    })
-    .join(",");
-}

@@ -4,7 +4,6 @@ import type { Viewer } from "@/lib/auth/types";
 import { getRecordingSheet } from "@/db/queries/observations";
 import { siteParamsSchema } from "@/lib/validation/observations";
 import { buildCsvExport, buildTemplate, type TemplateInput } from "./template";
-import { csvLine } from "./csv";
 
 async function templateInput(viewer: Viewer, params: unknown): Promise<TemplateInput & { fileStem: string }> {
   const parsed = siteParamsSchema.safeParse(params);
@@ -35,5 +34,5 @@ export async function templateForViewer(viewer: Viewer, params: unknown) {
 /** The site's recorded values as CSV, safe to open in a spreadsheet program. */
 export async function csvExportForViewer(viewer: Viewer, params: unknown) {
   const input = await templateInput(viewer, params);
-  return { fileName: `${input.fileStem}-data.csv`, body: buildCsvExport(input, csvLine) };
+  return { fileName: `${input.fileStem}-data.csv`, body: buildCsvExport(input) };
 }

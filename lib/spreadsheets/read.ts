@@ -2,7 +2,8 @@ import ExcelJS from "exceljs";
 import type { EntryColumn } from "@/lib/observations/columns";
 import type { TextNumberCommas } from "@/lib/observations/values";
 import { decodeCsv, parseCsvRecords } from "./csv";
-import { unneutraliseCell, UploadRefused, type UploadKind } from "./safety";
+import { UploadRefused, type UploadKind } from "./safety";
+import { restoreText } from "./write";
 
 // Turns an uploaded template (xlsx or CSV) into plot rows. Anything that makes the layout of the sheet
 // uncertain (formulas, merged cells, unknown or missing columns, short CSV lines, two sheets that could hold
@@ -163,7 +164,7 @@ function checkShortLines(rows: Table["rows"], width: number, header: string[]) {
 function toRows(t: Table, ctx: ReadContext, kind: UploadKind): Omit<ReadResult, "sheet" | "otherSheets"> {
   const expected = expectedHeadings(ctx.columns);
   checkHeadingRow(t, expected);
-  const header = t.header.map(asText);
+  const header = t.header.map((v) => restoreText(asText(v)));
   const keys = matchHeader(header, ctx.columns);
   const body = t.rows.filter((r) => r.row > 1 && r.cells.some((v) => !isEmpty(v)));
   if (body.length > MAX_ROWS) throw new UploadRefused(`The sheet has ${body.length} rows with values; the limit is ${MAX_ROWS}. Split it into smaller files.`);
@@ -186,7 +187,7 @@ function toRows(t: Table, ctx: ReadContext, kind: UploadKind): Omit<ReadResult, 
         if (!isEmpty(cell)) throw new UploadRefused(`Row ${row} has a value in cell ${columnLetter(i)}${row}, a column with no heading. Delete it or move it into the right column.`);
         return;
       }
-      const v = typeof cell === "string" ? unneutraliseCell(cell) : cell;
+      const v = typeof cell === "string" ? restoreText(cell) : cell;
       if (key === "#plot") plotCode = asText(v).trim();
       else if (key === "#block") block = asText(v).trim();
       else if (key === "#code") code = asText(v).trim();

@@ -204,16 +204,3 @@ export function checkZip(bytes: Uint8Array) {
   const macroPart = [...names].some((n) => /(^|\/)vbaProject\.bin$/i.test(n) || /^xl\/macrosheets\//i.test(n));
   if (macroPart || contentTypes.some((t) => /macroEnabled|vbaProject|macrosheet/i.test(t))) throw new UploadRefused(MACRO_MESSAGE);
 }
-
-/**
- * Makes a text cell safe to open in a spreadsheet program: a leading =, +, -, @ (or tab/CR) would make
- * it run as a formula, so it is prefixed with an apostrophe (OWASP CSV injection guidance, from memory).
- */
-export function neutraliseCell(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
-
-/** Undoes neutraliseCell on upload, so a value exported and uploaded again stays the same. */
-export function unneutraliseCell(value: string): string {
-  return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
-}

@@ -6,7 +6,7 @@ import { missingCell, missingWordsList, type MissingReason } from "@/lib/observa
 import { addDays } from "@/lib/schedule";
 import { TRAIT_TYPE_LABELS } from "@/lib/labels";
 import { FIXED_HEADINGS, PLOT_SHEET } from "./read";
-import { neutraliseCell } from "./safety";
+import { addSheetRow, csvFile, type SheetCell } from "./write";
 
 export interface TemplateInput {
   trialCode: string;
@@ -58,22 +58,22 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   wb.creator = "Seedplot";
   const ws = wb.addWorksheet(PLOT_SHEET, { views: [{ state: "frozen", xSplit: 1, ySplit: 1 }] });
   const headings = [...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)];
-  ws.addRow(headings);
+  addSheetRow(ws, headings);
   ws.getRow(1).font = { bold: true };
   ws.getRow(1).alignment = { wrapText: true, vertical: "top" };
   ws.columns = headings.map((h, i) => ({ width: i < 3 ? 11 : Math.min(32, Math.max(14, h.length * 0.8)) }));
   for (const p of t.plots) {
-    const cells: (string | number | Date | null)[] = [p.plotCode, p.block, p.blindCode];
+    const cells: SheetCell[] = [p.plotCode, p.block, p.blindCode];
     for (const c of t.columns) {
       const v = t.values[p.id]?.[c.key] ?? null;
       const reason = t.missing[p.id]?.[c.key];
       if (reason) cells.push(missingCell(reason));
       else if (!v) cells.push(null);
       else if (c.valueType === "date" && v.valueDate) cells.push(new Date(`${v.valueDate}T00:00:00Z`));
-      else if (c.valueType === "text" || c.valueType === "yes_no") cells.push(neutraliseCell(displayValue(c, v)));
+      else if (c.valueType === "text" || c.valueType === "yes_no") cells.push(displayValue(c, v));
       else cells.push(v.valueNumber);
     }
-    ws.addRow(cells);
+    addSheetRow(ws, cells);
   }
   for (let r = 2; r <= t.plots.length + 1; r += 1) {
     t.columns.forEach((c, i) => {
@@ -85,35 +85,35 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   }
 
   const dict = wb.addWorksheet("Data dictionary", { views: [{ state: "frozen", ySplit: 1 }] });
-  dict.addRow(["Column heading", "Trait", "Unit", "Type", "Valid values", "Due"]);
+  addSheetRow(dict, ["Column heading", "Trait", "Unit", "Type", "Valid values", "Due"]);
   dict.getRow(1).font = { bold: true };
-  dict.addRow(["Plot", "Plot id from the label", "", "Text", "Do not change", ""]);
-  dict.addRow(["Block", "Block (replicate)", "", "Whole number", "Do not change", ""]);
-  dict.addRow(["Code", "Blind code of the variety", "", "Text", "Do not change", ""]);
+  addSheetRow(dict, ["Plot", "Plot id from the label", "", "Text", "Do not change", ""]);
+  addSheetRow(dict, ["Block", "Block (replicate)", "", "Whole number", "Do not change", ""]);
+  addSheetRow(dict, ["Code", "Blind code of the variety", "", "Text", "Do not change", ""]);
   for (const c of t.columns) {
     const due = c.dueDay !== null ? `Day ${c.dueDay} after sowing${t.sownOn ? ` (${addDays(t.sownOn, c.dueDay)})` : ""}` : (c.dueNote ?? "");
-    dict.addRow([c.heading, c.name, c.unit ?? "", TRAIT_TYPE_LABELS[c.valueType], describeRange(c), due]);
+    addSheetRow(dict, [c.heading, c.name, c.unit ?? "", TRAIT_TYPE_LABELS[c.valueType], describeRange(c), due]);
   }
-  dict.addRow([]);
-  dict.addRow([`${t.trialCode} · ${t.trialTitle} · ${t.siteName}${t.sownOn ? ` · sown ${t.sownOn}` : ""}`]);
-  dict.addRow(["Leave a cell empty when the value is not recorded. Dates as YYYY-MM-DD. Do not rename, add or remove columns, merge cells or use formulas."]);
-  dict.addRow([`A plot that will never have a value: write missing: and why in its cell instead, for example "missing: died". The reasons are ${missingWordsList()}.`]);
-  dict.addRow(["A value typed over a missing: cell replaces the reason, and a missing: cell replaces a value recorded before."]);
+  addSheetRow(dict, []);
+  addSheetRow(dict, [`${t.trialCode} · ${t.trialTitle} · ${t.siteName}${t.sownOn ? ` · sown ${t.sownOn}` : ""}`]);
+  addSheetRow(dict, ["Leave a cell empty when the value is not recorded. Dates as YYYY-MM-DD. Do not rename, add or remove columns, merge cells or use formulas."]);
+  addSheetRow(dict, [`A plot that will never have a value: write missing: and why in its cell instead, for example "missing: died". The reasons are ${missingWordsList()}.`]);
+  addSheetRow(dict, ["A value typed over a missing: cell replaces the reason, and a missing: cell replaces a value recorded before."]);
   dict.columns = [{ width: 40 }, { width: 30 }, { width: 14 }, { width: 14 }, { width: 30 }, { width: 34 }];
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
 
-/** The recorded values as CSV with the template's columns, every text cell neutralised for spreadsheets. */
-export function buildCsvExport(t: TemplateInput, line: (cells: (string | number | null)[]) => string): string {
-  const out = [line([...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)])];
+/** The recorded values as CSV with the template's columns (written by lib/spreadsheets/write, so safe to open). */
+export function buildCsvExport(t: TemplateInput): string {
+  const out: SheetCell[][] = [[...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)]];
   for (const p of t.plots) {
-    out.push(line([p.plotCode, p.block, p.blindCode, ...t.columns.map((c) => {
+    out.push([p.plotCode, p.block, p.blindCode, ...t.columns.map((c) => {
       const v = t.values[p.id]?.[c.key] ?? null;
       const reason = t.missing[p.id]?.[c.key];
       if (reason) return missingCell(reason);
       if (!v) return null;
       return c.valueType === "count" || c.valueType === "number" || c.valueType === "rating" ? v.valueNumber : displayValue(c, v);
-    })]));
+    })]);
   }
-  return `\uFEFF${out.join("\r\n")}\r\n`;
+  return csvFile(out);
 }

@@ -1,6 +1,5 @@
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
-import type { AnalysisBlock, AnalysisResult } from "@/lib/analysis/types";
-import type { PublishedSnapshot } from "@/lib/publish/types";
+import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/publish/public-shape";
 import { formatNumber, formatP } from "@/lib/analysis/format";
 import { ACCENT, INK, RULE, SHADE, base } from "../shared/pdf";
 import { MeansChart } from "./means-chart";
@@ -77,7 +76,7 @@ function SectionStart({ id, title, pages }: { id: string; title: string; pages: 
   );
 }
 
-function MeansTable({ block, unit }: { block: AnalysisBlock; unit: string | null }) {
+function MeansTable({ block, unit }: { block: PublicBlock; unit: string | null }) {
   return (
     <Table
       columns={[
@@ -103,7 +102,7 @@ const SOURCE_LABEL: Record<string, string> = {
   residual: "Residual (error)",
 };
 
-function AnovaTable({ block }: { block: AnalysisBlock }) {
+function AnovaTable({ block }: { block: PublicBlock }) {
   return (
     <Table
       columns={[
@@ -120,7 +119,7 @@ function AnovaTable({ block }: { block: AnalysisBlock }) {
   );
 }
 
-function TraitSection({ result, pages, id }: { result: AnalysisResult; pages: SectionPages; id: string }) {
+function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages: SectionPages; id: string }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
   const unit = result.trait.valueType === "date" || result.trait.computation !== "none" ? "days" : result.trait.unit;
   return (
@@ -161,13 +160,13 @@ function TraitSection({ result, pages, id }: { result: AnalysisResult; pages: Se
  * the contents entries are render callbacks, which react-pdf resolves again once pagination is complete (as it
  * does for "Page N of M"), so they read the finished page numbers in the same pass.
  */
-export function TrialReport({ snapshot, pages }: { snapshot: PublishedSnapshot; pages: SectionPages }) {
+export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pages: SectionPages }) {
   const t = snapshot.trial;
   const germination = snapshot.results.find((r) => r.result.germination)?.result.germination ?? null;
   const sections = [
     { id: "summary", title: "Summary for growers" },
     { id: "methods", title: "Methods" },
-    ...snapshot.results.map((r) => ({ id: `trait-${r.traitId}`, title: r.result.trait.analysedAs })),
+    ...snapshot.results.map((r) => ({ id: `trait-${r.trait}`, title: r.result.trait.analysedAs })),
     ...(germination ? [{ id: "germination", title: "Germination" }] : []),
     { id: "sites", title: "Site-by-site results" },
     { id: "cautions", title: "Cautions and disclaimer" },
@@ -257,8 +256,8 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublishedSnapshot; 
           <>
             <Text style={[base.h2, { fontSize: 9 }]}>Left out of the analysis</Text>
             {snapshot.results.flatMap((r) =>
-              r.result.exclusions.map((e) => (
-                <Text key={`${r.traitId}-${e.id}`} style={s.note}>
+              r.result.exclusions.map((e, i) => (
+                <Text key={`${r.trait}-${i}`} style={s.note}>
                   • {r.result.trait.name}: {e.siteName ?? e.plotCode ?? "—"}: {e.reason}
                 </Text>
               )),
@@ -275,7 +274,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublishedSnapshot; 
       <Page size="LETTER" style={base.page}>
         {footer}
         {snapshot.results.map((r, i) => (
-          <TraitSection key={r.traitId} result={r.result} pages={pages} id={`trait-${r.traitId}`} />
+          <TraitSection key={r.trait} result={r.result} pages={pages} id={`trait-${r.trait}`} />
         ))}
         {germination && (
           <View break>
@@ -301,7 +300,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublishedSnapshot; 
         <View break>
           <SectionStart id="sites" title="Site-by-site results" pages={pages} />
           {snapshot.results.map((r) => (
-            <View key={r.traitId} style={{ marginBottom: 6 }}>
+            <View key={r.trait} style={{ marginBottom: 6 }}>
               <Text style={{ fontWeight: 700, marginBottom: 2 }}>{r.result.trait.analysedAs}</Text>
               <Table
                 columns={[

@@ -17,10 +17,17 @@ const PUBLISHED = DEMO_TRIALS.find((t) => t.code === "TV26-LET")!;
 const NEVER_PUBLISHED = DEMO_TRIALS.find((t) => t.code === "TV27-KAL")!;
 let browser: Browser;
 
+// One lettuce site shares its results with its grower before publication; the public must not learn it.
+const SHARED_SITE = "Willow Bend Farm";
+const shareLettuceSite = (shared: boolean) =>
+  e2e.pool.query("UPDATE enrolments e JOIN trials t ON t.id = e.trial_id JOIN sites s ON s.id = e.site_id SET e.results_shared = ? WHERE t.code = ? AND s.name = ?", [shared ? 1 : 0, PUBLISHED.code, SHARED_SITE]);
+
 beforeAll(async () => {
   browser = await launchBrowser();
+  await shareLettuceSite(true);
 });
 afterAll(async () => {
+  await shareLettuceSite(false);
   await browser?.close();
   await e2e.pool.end();
 });
@@ -107,6 +114,29 @@ describe("publishing and the public pages", () => {
     // Publishing revealed nothing of the other trials.
     await expectNothingPublic(NEVER_PUBLISHED.code);
   }, 180_000);
+
+  it("the public page, JSON and variety and site pages of a published trial show no review state, sharing flag or internal id", async () => {
+    const { trialId } = await publicAddressesOf(PUBLISHED.code);
+    const [statuses] = await e2e.pool.query("SELECT DISTINCT sub.status FROM submissions sub JOIN enrolments e ON e.id = sub.enrolment_id WHERE e.trial_id = ?", [trialId]);
+    // At least one site's data were not accepted when the trial was published (which state depends on the files run before).
+    expect((statuses as { status: string }[]).some((r) => r.status !== "accepted")).toBe(true);
+    const [[variety], [site]] = await Promise.all([
+      e2e.db.select({ id: s.trialEntries.varietyId }).from(s.trialEntries).where(eq(s.trialEntries.trialId, trialId)).limit(1),
+      e2e.db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, trialId)).limit(1),
+    ]);
+    for (const pathname of [`/results/${PUBLISHED.code}`, `/api/public/trials/${PUBLISHED.code}`, `/varieties/${variety!.id}`, `/sites/${site!.id}`, "/results", "/api/public/trials"]) {
+      const response = await fetch(new URL(pathname, baseUrl));
+      expect([pathname, response.status]).toEqual([pathname, 200]);
+      // Pages carry their data as escaped JSON, so keys are matched with or without the backslashes.
+      const raw = await response.text();
+      const body = raw.replace(/\\"/g, '"');
+      expect([pathname, body.match(/"(siteId|entryId|plotId|traitId|resultsShared|shared|included|why|includeUnaccepted|scopeTraitId)":/)?.[0] ?? null]).toEqual([pathname, null]);
+      // In the JSON the only plain "id" is each site's, the number in its public address.
+      if (pathname === `/api/public/trials/${PUBLISHED.code}`) expect(body.match(/"id":/g)?.length).toBe(JSON.parse(raw).sites.length);
+      for (const status of (statuses as { status: string }[]).map((r) => r.status)) expect([pathname, body.includes(`"${status}"`)]).toEqual([pathname, false]);
+      expect([pathname, /not accepted yet/i.test(body)]).toEqual([pathname, false]);
+    }
+  }, 60_000);
 
   it("has no serious or critical accessibility problems on the public index, trial and variety pages", async () => {
     const [variety] = await e2e.db

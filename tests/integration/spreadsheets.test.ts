@@ -10,7 +10,8 @@ import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/auth/types";
 import { csvExportForViewer, templateForViewer } from "@/lib/spreadsheets/files";
 import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
-import { parseCsv, csvLine } from "@/lib/spreadsheets/csv";
+import { parseCsv } from "@/lib/spreadsheets/csv";
+import { csvRow } from "@/lib/spreadsheets/write";
 import { saveObservationsForViewer } from "@/lib/observations/api";
 import { isAppError } from "@/lib/errors";
 
@@ -207,7 +208,7 @@ describe("uploading a filled-in sheet", () => {
 
 describe("exports", () => {
   it("neutralise cells that a spreadsheet would run as formulas", async () => {
-    expect(csvLine(["=HYPERLINK(\"http://x\")", "+1", "-2", "@SUM(A1)", "plain", 3, -4])).toBe("\"'=HYPERLINK(\"\"http://x\"\")\",'+1,'-2,'@SUM(A1),plain,3,-4");
+    expect(csvRow(["=HYPERLINK(\"http://x\")", "+1", "-2", "@SUM(A1)", "plain", 3, -4])).toBe("\"'=HYPERLINK(\"\"http://x\"\")\",'+1,'-2,'@SUM(A1),plain,3,-4");
     const lettuce = await demoSite(db, "TV26-LET", "Willow Bend Farm");
     const plotId = lettuce.plots[0]!.id;
     await saveObservationsForViewer(rosa, { trialId: lettuce.trialId, siteId: lettuce.siteId, values: [{ plotId, key: "plot_notes", value: "=cmd|' /C calc'!A0" }] });

@@ -31,7 +31,7 @@ function build(opts: { sites: number; noisySite?: number; emergedLow?: boolean; 
       }
     }
   }
-  return { trial: { id: 1, code: "INV-1", title: "Invented trial", crop: "Lettuce", blocks: 4 }, traits: [SOWN, FINAL, DAYS, TRAIT], entries, sites, plots, observations, exclusions: [] };
+  return { trial: { id: 1, code: "INV-1", title: "Invented trial", crop: "Lettuce", blocks: 4, status: "analysing" }, traits: [SOWN, FINAL, DAYS, TRAIT], entries, sites, plots, observations, exclusions: [] };
 }
 
 const settings = (over: Partial<AnalysisSettings> = {}): AnalysisSettings => ({ traitId: 1, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd", ...over });
@@ -118,18 +118,5 @@ describe("values", () => {
     expect(daysBetween("2026-04-01", "2026-05-16")).toBe(45);
     const site = { id: 1, name: "S", sownOn: null, transplantedOn: null, status: "accepted" as const };
     expect(plotValue(DAYS, site, [{ plotId: 1, traitId: 2, occasion: 0, valueNumber: null, valueDate: "2026-05-01", missingReason: null }])).toEqual({ value: null, reason: "site has no sowing date" });
-  });
-});
-
-describe("export cells", () => {
-  it("neutralise text a spreadsheet would run as a formula and quote CSV fields", async () => {
-    const { neutraliseFormula, toCsv } = await import("@/lib/analysis/export");
-    expect(neutraliseFormula("=1+1")).toBe("'=1+1");
-    expect(neutraliseFormula("+39 555")).toBe("'+39 555");
-    expect(neutraliseFormula("-x")).toBe("'-x");
-    expect(neutraliseFormula("@cmd")).toBe("'@cmd");
-    expect(neutraliseFormula(-4.5)).toBe(-4.5);
-    expect(neutraliseFormula("Copper Ruffle")).toBe("Copper Ruffle");
-    expect(toCsv({ name: "t", columns: ["a", "b"], rows: [['=HYPERLINK("x")', 2.5], ["a,b", null]] })).toBe('a,b\r\n"\'=HYPERLINK(""x"")",2.5\r\n"a,b",\r\n');
   });
 });

@@ -92,9 +92,9 @@ export default async function PublicTrialPage({ params, searchParams }: { params
         </div>
       </section>
 
-      {snapshot.results.map(({ traitId, result }) => (
-        <section key={traitId} aria-labelledby={`trait-${traitId}`} className="rounded-xl border border-husk-200 bg-white p-5">
-          <h2 id={`trait-${traitId}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
+      {snapshot.results.map(({ trait, result }) => (
+        <section key={trait} aria-labelledby={`trait-${trait}`} className="rounded-xl border border-husk-200 bg-white p-5">
+          <h2 id={`trait-${trait}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
           <PublicTraitResults view={toPublicTraitView(result)} />
         </section>
       ))}

@@ -10,7 +10,7 @@ const rendered = new Map<string, Promise<Buffer>>();
 export async function GET(request: Request, { params }: { params: Promise<{ code: string }> }) {
   try {
     const snapshot = await requirePublishedSnapshot((await params).code, request);
-    const key = `${snapshot.trial.id}:${snapshot.version}`;
+    const key = `${snapshot.trial.code}:${snapshot.version}`;
     let pdf = rendered.get(key);
     if (!pdf) {
       pdf = renderTrialReport(snapshot);

@@ -3,8 +3,7 @@ import { assertRole } from "@/lib/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
-import { computeAnalysis, prepareAnalysis } from "@/lib/analysis-service";
-import { toAnalysisPayload } from "@/lib/analysis/payload";
+import { prepareAnalysis, viewAnalysis } from "@/lib/analysis-service";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -13,7 +12,7 @@ const paramsSchema = z.object({ trialId: idParam });
 
 /**
  * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
- * once a coordinator has shared them (blind codes only). The ETag changes whenever the
+ * once a coordinator has shared them (blind codes only until the trial is published, see lib/analysis/blind). The ETag changes whenever the
  * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
  * Plot rows are left out unless `plots=1` asks for them: the page does not show them and they are
  * most of the body on a big trial (the exports carry them too).
@@ -30,9 +29,9 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     const headers = { ETag: prepared.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
     const match = request.headers.get("if-none-match");
     if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });
-    const result = await computeAnalysis(viewer, params.data.trialId, prepared);
-    if (!result) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-    return Response.json(toAnalysisPayload(result, query.data.plots ?? false), { headers });
+    const view = await viewAnalysis(viewer, params.data.trialId, prepared, query.data.plots ?? false);
+    if (!view) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    return Response.json(view, { headers });
   } catch (e) {
     return toResponse(e);
   }

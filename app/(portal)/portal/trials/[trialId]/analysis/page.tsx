@@ -4,8 +4,7 @@ import { notFound } from "next/navigation";
 import { requireUser } from "@/lib/auth/guards";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
-import { loadAnalysis } from "@/lib/analysis-service";
-import { toAnalysisPayload } from "@/lib/analysis/payload";
+import { loadAnalysisView } from "@/lib/analysis-service";
 import { listExclusionTargets } from "@/db/queries/analysis";
 import { AnalysisQueryProvider } from "@/components/analysis/query-provider";
 import { AnalysisView } from "@/components/analysis/analysis-view";
@@ -13,7 +12,7 @@ import { AnalysisView } from "@/components/analysis/analysis-view";
 export const metadata: Metadata = { title: "Analysis" };
 
 export default async function AnalysisPage({ params, searchParams }: { params: Promise<{ trialId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  // Cooperators get their own shared sites only; the query layer decides what each viewer sees.
+  // Cooperators get their own shared sites only (the query layer) and blind codes only until publication (lib/analysis/blind).
   const viewer = await requireUser();
   const trialId = idParam.safeParse((await params).trialId);
   if (!trialId.success) notFound();
@@ -21,9 +20,9 @@ export default async function AnalysisPage({ params, searchParams }: { params: P
   for (const [key, value] of Object.entries(await searchParams)) if (typeof value === "string") search.set(key, value);
   const query = parseAnalysisQuery(search);
   // A hand-edited address with a bad setting falls back to the defaults and says so, rather than failing.
-  const [loaded, targets] = await Promise.all([loadAnalysis(viewer, trialId.data, query.ok ? query.data : {}), listExclusionTargets(viewer, trialId.data)]);
+  const [loaded, targets] = await Promise.all([loadAnalysisView(viewer, trialId.data, query.ok ? query.data : {}), listExclusionTargets(viewer, trialId.data)]);
   if (!loaded) notFound();
-  const { result } = loaded;
+  const { view: result } = loaded;
   return (
     <div className="space-y-6">
       {targets && (
@@ -43,7 +42,7 @@ export default async function AnalysisPage({ params, searchParams }: { params: P
         </p>
       )}
       <AnalysisQueryProvider>
-        <AnalysisView trialId={result.trial.id} initial={toAnalysisPayload(result)} targets={targets} />
+        <AnalysisView trialId={result.trial.id} initial={result} targets={targets} />
       </AnalysisQueryProvider>
     </div>
   );

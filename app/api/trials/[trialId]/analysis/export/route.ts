@@ -5,7 +5,8 @@ import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { loadAnalysis } from "@/lib/analysis-service";
-import { exportTables, neutraliseFormula, toCsv } from "@/lib/analysis/export";
+import { exportTables } from "@/lib/analysis/export";
+import { addSheetRow, csvFile } from "@/lib/spreadsheets/write";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -38,7 +39,7 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     if (options.data.format === "csv") {
       const table = tables.find((t) => t.name === CSV_SHEETS[options.data.table]);
       if (!table) throw new AppError("not_found", "This trial has no emergence counts to export.");
-      return new Response(toCsv(table), {
+      return new Response(csvFile([table.columns, ...table.rows]), {
         headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${options.data.table}.csv"` },
       });
     }
@@ -47,8 +48,8 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     workbook.creator = "Seedplot";
     for (const table of tables) {
       const sheet = workbook.addWorksheet(table.name);
-      sheet.addRow(table.columns).font = { bold: true };
-      for (const row of table.rows) sheet.addRow(row.map((v) => (typeof v === "number" && !Number.isFinite(v) ? null : neutraliseFormula(v))));
+      addSheetRow(sheet, table.columns).font = { bold: true };
+      for (const row of table.rows) addSheetRow(sheet, row);
       sheet.views = [{ state: "frozen", ySplit: 1 }];
       sheet.columns.forEach((column, i) => (column.width = Math.min(60, Math.max(10, table.columns[i]!.length + 4))));
     }
