@@ -1,9 +1,10 @@
 import { Unzip, UnzipInflate } from "fflate";
+import { BODY_LIMITS } from "@/lib/http/limits";
 
 // Checks made on an uploaded file before any parser sees it: size, what the bytes really are (never the
 // name alone), and for workbooks the zip directory, so a small file that inflates to gigabytes is refused.
 
-export const MAX_UPLOAD_BYTES = 5 * 1024 * 1024;
+export const MAX_UPLOAD_BYTES = BODY_LIMITS.spreadsheet.fileBytes;
 export const MAX_UNZIPPED_BYTES = 60 * 1024 * 1024;
 const MAX_ZIP_ENTRIES = 500;
 // Spreadsheet XML compresses well, but not beyond about 100:1; far higher ratios are how zip bombs work.
