@@ -4,6 +4,7 @@ import { useRef, useState } from "react";
 import Link from "next/link";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
+import { BODY_LIMITS, fileSizeText, statedFileLimit } from "@/lib/http/limits";
 
 interface Problem {
   row: number | null;
@@ -45,7 +46,7 @@ function post(endpoint: string, file: File, mode: "preview" | "commit", onProgre
   });
 }
 
-export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; maxMb: number; backHref: string }) {
+export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref: string }) {
   const input = useRef<HTMLInputElement>(null);
   const [file, setFile] = useState<File | null>(null);
   const [progress, setProgress] = useState<number | null>(null);
@@ -57,6 +58,10 @@ export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; ma
   async function run(mode: "preview" | "commit") {
     if (!file) return;
     setError(null);
+    if (file.size > BODY_LIMITS.spreadsheet.fileBytes) {
+      setError(`This file is ${fileSizeText(file.size)}. ${BODY_LIMITS.spreadsheet.tooLarge}`);
+      return;
+    }
     setProgress(0);
     setPhase("uploading");
     try {
@@ -89,7 +94,7 @@ export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; ma
     <div className="space-y-4">
       <div className="space-y-2 rounded-xl border border-husk-200 bg-white p-4">
         <label htmlFor="upload-file" className="block font-semibold text-loam-900">
-          Spreadsheet (.xlsx or .csv, up to {maxMb} MB)
+          Spreadsheet (.xlsx or .csv, up to {statedFileLimit("spreadsheet")})
         </label>
         <input
           ref={input}

@@ -64,5 +64,8 @@ export type BodyKind = keyof typeof BODY_LIMITS;
  */
 export const PROXY_BODY_COPY_BYTES = PAGE_FORM + 1 * MB;
 
-/** A file size for people: "12.4 MB". */
-export const formatMegabytes = (bytes: number) => `${(bytes / MB).toFixed(1)} MB`;
+/** The file limit people are told where they pick a file: "15 MB". */
+export const statedFileLimit = (kind: "photo" | "spreadsheet") => mb(BODY_LIMITS[kind].fileBytes);
+
+/** A chosen file's size for people: "18.4 MB". */
+export const fileSizeText = (bytes: number) => `${(bytes / MB).toFixed(1)} MB`;
