@@ -3,7 +3,7 @@ import { useState } from "react";
 import { useRouter } from "next/navigation";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextField } from "@/components/ui/field";
-import { BODY_LIMITS, fileSizeText, statedFileLimit } from "@/lib/http/limits";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
 
 /** Attach a photo to a plot or the whole site visit. GPS is removed unless the grower ticks the box. */
 export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: number; siteId: number; plots: { id: number; plotCode: string }[]; defaultPlot?: number }) {
@@ -20,7 +20,7 @@ export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: nu
       return;
     }
     if (file.size > BODY_LIMITS.photo.fileBytes) {
-      setMessage({ ok: false, text: `This photo is ${fileSizeText(file.size)}. ${BODY_LIMITS.photo.tooLarge}` });
+      setMessage({ ok: false, text: fileTooLarge("photo", file.size) });
       return;
     }
     form.set("trialId", String(trialId));

@@ -4,7 +4,7 @@ import { useRef, useState } from "react";
 import Link from "next/link";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
-import { BODY_LIMITS, fileSizeText, statedFileLimit } from "@/lib/http/limits";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
 
 interface Problem {
   row: number | null;
@@ -59,7 +59,7 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
     if (!file) return;
     setError(null);
     if (file.size > BODY_LIMITS.spreadsheet.fileBytes) {
-      setError(`This file is ${fileSizeText(file.size)}. ${BODY_LIMITS.spreadsheet.tooLarge}`);
+      setError(fileTooLarge("spreadsheet", file.size));
       return;
     }
     setProgress(0);

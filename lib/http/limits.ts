@@ -15,6 +15,8 @@ export interface BodyLimit {
   bytes: number;
   /** For file uploads: the largest file, the figure people are told. */
   fileBytes?: number;
+  /** For file uploads: what to do with a file that is too large. */
+  advice?: string;
   /** What a person reads when a body is over the limit. */
   tooLarge: string;
 }
@@ -24,19 +26,23 @@ const PHOTO_FILE = 15 * MB;
 const SPREADSHEET_FILE = 5 * MB;
 const OBSERVATIONS = 1 * MB;
 const PAGE_FORM = 1 * MB;
+const PHOTO_ADVICE = "Choose a smaller size on your phone (most offer one when you share a photo) and attach it again.";
+const SPREADSHEET_ADVICE = "Remove pictures or extra sheets, or upload a CSV.";
 
 export const BODY_LIMITS = {
   /** POST /api/photos: one photo as phones take it, with its plot, caption and date. */
   photo: {
     bytes: PHOTO_FILE + FORM_ALLOWANCE,
     fileBytes: PHOTO_FILE,
-    tooLarge: `The photo is larger than the ${mb(PHOTO_FILE)} limit. Choose a smaller size on your phone (most offer one when you share a photo) and attach it again.`,
+    advice: PHOTO_ADVICE,
+    tooLarge: `The photo is larger than the ${mb(PHOTO_FILE)} limit. ${PHOTO_ADVICE}`,
   },
   /** POST /api/record/:trialId/:siteId/upload: a filled-in sheet, xlsx or CSV. */
   spreadsheet: {
     bytes: SPREADSHEET_FILE + FORM_ALLOWANCE,
     fileBytes: SPREADSHEET_FILE,
-    tooLarge: `The file is larger than the ${mb(SPREADSHEET_FILE)} limit. Remove pictures or extra sheets, or upload a CSV.`,
+    advice: SPREADSHEET_ADVICE,
+    tooLarge: `The file is larger than the ${mb(SPREADSHEET_FILE)} limit. ${SPREADSHEET_ADVICE}`,
   },
   /** POST /api/observations: values typed in the data-entry form (it sends one at a time). */
   observations: {
@@ -67,5 +73,6 @@ export const PROXY_BODY_COPY_BYTES = PAGE_FORM + 1 * MB;
 /** The file limit people are told where they pick a file: "15 MB". */
 export const statedFileLimit = (kind: "photo" | "spreadsheet") => mb(BODY_LIMITS[kind].fileBytes);
 
-/** A chosen file's size for people: "18.4 MB". */
-export const fileSizeText = (bytes: number) => `${(bytes / MB).toFixed(1)} MB`;
+/** For the forms, before sending: "This photo is 18.4 MB; the limit is 15 MB. Choose a smaller size…" */
+export const fileTooLarge = (kind: "photo" | "spreadsheet", bytes: number) =>
+  `This ${kind === "photo" ? "photo" : "file"} is ${(bytes / MB).toFixed(1)} MB; the limit is ${statedFileLimit(kind)}. ${BODY_LIMITS[kind].advice}`;
