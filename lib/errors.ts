@@ -5,6 +5,8 @@ export type AppErrorCode =
   | "forbidden"
   | "not_found"
   | "conflict"
+  | "payload_too_large"
+  | "unsupported_media_type"
   | "too_many_requests"
   | "db_unavailable";
 
@@ -14,6 +16,8 @@ const STATUS: Record<AppErrorCode, number> = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  payload_too_large: 413,
+  unsupported_media_type: 415,
   too_many_requests: 429,
   db_unavailable: 503,
 };

@@ -119,7 +119,7 @@ export function EntryForm(props: {
           return;
         }
         const body = (await res.json().catch(() => ({}))) as { error?: string; fieldErrors?: Record<string, string[]> };
-        if (res.status === 400 || res.status === 409 || res.status === 404 || res.status === 403) {
+        if ([400, 403, 404, 409, 413, 415].includes(res.status)) {
           // The server refused the value itself: retrying would not help, the grower needs to fix it.
           const message = body.fieldErrors?.[slot]?.join(" ") ?? body.error ?? "This value was not accepted.";
           setErrors((e) => ({ ...e, [slot]: message }));

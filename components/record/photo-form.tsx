@@ -3,6 +3,7 @@ import { useState } from "react";
 import { useRouter } from "next/navigation";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextField } from "@/components/ui/field";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
 
 /** Attach a photo to a plot or the whole site visit. GPS is removed unless the grower ticks the box. */
 export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: number; siteId: number; plots: { id: number; plotCode: string }[]; defaultPlot?: number }) {
@@ -16,6 +17,10 @@ export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: nu
     const file = form.get("file");
     if (!(file instanceof File) || file.size === 0) {
       setMessage({ ok: false, text: "Choose a photo first." });
+      return;
+    }
+    if (file.size > BODY_LIMITS.photo.fileBytes) {
+      setMessage({ ok: false, text: fileTooLarge("photo", file.size) });
       return;
     }
     form.set("trialId", String(trialId));
@@ -41,7 +46,7 @@ export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: nu
     <form onSubmit={onSubmit} className="space-y-3" noValidate>
       <div className="space-y-1">
         <label htmlFor="photo-file" className="block text-sm font-semibold text-loam-900">
-          Photo (JPEG, PNG or WebP, up to 15 MB)
+          Photo (JPEG, PNG or WebP, up to {statedFileLimit("photo")})
         </label>
         <input id="photo-file" name="file" type="file" accept="image/jpeg,image/png,image/webp" capture="environment" className="block min-h-11 w-full text-base" />
       </div>

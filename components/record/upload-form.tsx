@@ -4,6 +4,7 @@ import { useRef, useState } from "react";
 import Link from "next/link";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
 
 interface Problem {
   row: number | null;
@@ -48,7 +49,7 @@ function post(endpoint: string, file: File, mode: "preview" | "commit", onProgre
   });
 }
 
-export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; maxMb: number; backHref: string }) {
+export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref: string }) {
   const input = useRef<HTMLInputElement>(null);
   const [file, setFile] = useState<File | null>(null);
   const [progress, setProgress] = useState<number | null>(null);
@@ -60,6 +61,10 @@ export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; ma
   async function run(mode: "preview" | "commit") {
     if (!file) return;
     setError(null);
+    if (file.size > BODY_LIMITS.spreadsheet.fileBytes) {
+      setError(fileTooLarge("spreadsheet", file.size));
+      return;
+    }
     setProgress(0);
     setPhase("uploading");
     try {
@@ -92,7 +97,7 @@ export function UploadForm({ endpoint, maxMb, backHref }: { endpoint: string; ma
     <div className="space-y-4">
       <div className="space-y-2 rounded-xl border border-husk-200 bg-white p-4">
         <label htmlFor="upload-file" className="block font-semibold text-loam-900">
-          Spreadsheet (.xlsx or .csv, up to {maxMb} MB)
+          Spreadsheet (.xlsx or .csv, up to {statedFileLimit("spreadsheet")})
         </label>
         <input
           ref={input}

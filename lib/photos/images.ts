@@ -1,9 +1,10 @@
 import sharp from "sharp";
+import { BODY_LIMITS } from "@/lib/http/limits";
 
 // Photos are accepted by what their bytes are, then re-encoded: re-encoding drops every metadata block
 // (camera serial, GPS position of the farm) unless the grower chose to keep the location.
 
-export const MAX_PHOTO_BYTES = 15 * 1024 * 1024;
+export const MAX_PHOTO_BYTES = BODY_LIMITS.photo.fileBytes;
 // 50 megapixels covers phone cameras; larger "images" are usually decompression bombs.
 const MAX_PIXELS = 50_000_000;
 

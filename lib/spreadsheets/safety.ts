@@ -1,11 +1,12 @@
 import { Unzip, UnzipInflate } from "fflate";
 import * as CFB from "cfb";
+import { BODY_LIMITS } from "@/lib/http/limits";
 
 // Checks made on an uploaded file before any parser sees it: size, what the bytes really are (never the
 // name, which only shapes the wording), and for workbooks the zip directory, so a small file that inflates to
 // gigabytes is refused, and the declared content types, so a macro-enabled workbook is refused whatever its name.
 
-export const MAX_UPLOAD_BYTES = 5 * 1024 * 1024;
+export const MAX_UPLOAD_BYTES = BODY_LIMITS.spreadsheet.fileBytes;
 export const MAX_UNZIPPED_BYTES = 60 * 1024 * 1024;
 const MAX_ZIP_ENTRIES = 500;
 // Spreadsheet XML compresses well, but not beyond about 100:1; far higher ratios are how zip bombs work.

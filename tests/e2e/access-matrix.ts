@@ -167,7 +167,8 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
     {
       note: "an unreadable value for site B's plot",
       path: () => "/api/observations",
-      body: (i) => JSON.stringify({ trialId: i.kal, siteId: i.siteB, values: [{ plotId: i.plotB, key: "seeds_sown", value: "not a count" }] }),
+      // A Blob carries its type, so fetch sends it as JSON (a plain string would go as text/plain and get a 415).
+      body: (i) => new Blob([JSON.stringify({ trialId: i.kal, siteId: i.siteB, values: [{ plotId: i.plotB, key: "seeds_sown", value: "not a count" }] })], { type: "application/json" }),
       expect: siteBObject("refused", "unauth"),
     },
   ],

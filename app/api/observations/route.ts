@@ -1,5 +1,7 @@
 import { assertRole } from "@/lib/auth/guards";
 import { toResponse } from "@/lib/errors";
+import { closeUnreadBody, readJsonWithin } from "@/lib/http/body";
+import { assertOwnOrigin } from "@/lib/http/origin";
 import { getRecordingSheetForApi, saveObservationsForViewer } from "@/lib/observations/api";
 
 export const runtime = "nodejs";
@@ -19,10 +21,11 @@ export async function GET(request: Request) {
 /** Saves values typed in the data-entry form; answers per-field problems with 400 and writes nothing then. */
 export async function POST(request: Request) {
   try {
+    assertOwnOrigin(request);
     const viewer = await assertRole();
-    const body = await request.json().catch(() => null);
+    const body = await readJsonWithin(request, "observations");
     return Response.json(await saveObservationsForViewer(viewer, body));
   } catch (e) {
-    return toResponse(e);
+    return closeUnreadBody(request, toResponse(e));
   }
 }

@@ -3,7 +3,8 @@ import { assertRole } from "@/lib/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { siteParamsSchema } from "@/lib/validation/observations";
 import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
-import { MAX_UPLOAD_BYTES } from "@/lib/spreadsheets/safety";
+import { closeUnreadBody, fileWithin, readFormWithin } from "@/lib/http/body";
+import { assertOwnOrigin } from "@/lib/http/origin";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -16,23 +17,20 @@ const modeSchema = z.enum(["preview", "commit"], { error: "Ask for a preview or 
  */
 export async function POST(request: Request, context: { params: Promise<{ trialId: string; siteId: string }> }) {
   try {
+    assertOwnOrigin(request);
     const viewer = await assertRole();
     const params = siteParamsSchema.safeParse(await context.params);
     if (!params.success) throw new AppError("not_found", "That site or trial does not exist.");
-    // Refuse oversized bodies before reading them into memory.
-    const declared = Number(request.headers.get("content-length") ?? 0);
-    if (declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new AppError("bad_request", `The file is larger than the ${MAX_UPLOAD_BYTES / 1024 / 1024} MB limit. Remove pictures or extra sheets, or upload a CSV.`);
-    const form = await request.formData().catch(() => null);
-    const file = form?.get("file");
-    if (!form || !(file instanceof File)) throw new AppError("bad_request", "Choose a file to upload.");
+    const form = await readFormWithin(request, "spreadsheet");
+    const file = fileWithin(form, "spreadsheet");
+    if (!file) throw new AppError("bad_request", "Choose a file to upload.");
     const mode = modeSchema.safeParse(form.get("mode") ?? "preview");
     if (!mode.success) throw new AppError("bad_request", "Ask for a preview or to save.");
-    if (file.size > MAX_UPLOAD_BYTES) throw new AppError("bad_request", `The file is larger than the ${MAX_UPLOAD_BYTES / 1024 / 1024} MB limit. Remove pictures or extra sheets, or upload a CSV.`);
     const target = { ...params.data, bytes: new Uint8Array(await file.arrayBuffer()), fileName: file.name };
     if (mode.data === "preview") return Response.json(await previewUpload(viewer, target));
     const result = await commitUpload(viewer, target);
     return Response.json(result, { status: result.ok ? 200 : 400 });
   } catch (e) {
-    return toResponse(e);
+    return closeUnreadBody(request, toResponse(e));
   }
 }

@@ -5,7 +5,6 @@ import { getRecordingSheet } from "@/db/queries/observations";
 import { idParam } from "@/lib/validation/common";
 import { UploadForm } from "@/components/record/upload-form";
 import { lockMessage, SiteHeader } from "@/components/record/site-panels";
-import { MAX_UPLOAD_BYTES } from "@/lib/spreadsheets/safety";
 
 export const dynamic = "force-dynamic";
 
@@ -32,7 +31,7 @@ export default async function UploadPage({ params }: { params: Promise<{ trialId
       {locked ? (
         <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 text-sky-800">{locked}</p>
       ) : (
-        <UploadForm endpoint={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/upload`} maxMb={MAX_UPLOAD_BYTES / 1024 / 1024} backHref={base} />
+        <UploadForm endpoint={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/upload`} backHref={base} />
       )}
       <p>
         <Link href={base}>Back to the plots</Link>

@@ -1,0 +1,32 @@
+import type { NextConfig } from "next";
+import { BODY_LIMITS, PROXY_BODY_COPY_BYTES } from "./lib/http/limits";
+
+const securityHeaders = [
+  { key: "X-Frame-Options", value: "DENY" },
+  { key: "X-Content-Type-Options", value: "nosniff" },
+  { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
+  { key: "Permissions-Policy", value: "camera=(self), geolocation=(), microphone=()" },
+];
+
+const nextConfig: NextConfig = {
+  // Test runs build into their own folder so they never replace the build a running server uses.
+  distDir: process.env.NEXT_DIST_DIR || ".next",
+  poweredByHeader: false,
+  reactStrictMode: true,
+  serverExternalPackages: ["mysql2", "exceljs", "smtp-server", "mailparser"],
+  experimental: {
+    // Server actions read their body within this limit as it streams in (lib/http/limits.ts).
+    serverActions: { bodySizeLimit: BODY_LIMITS.pageForm.bytes },
+    // The copy of a page request's body Next makes for proxy.ts, which refuses anything over the page limit.
+    proxyClientMaxBodySize: PROXY_BODY_COPY_BYTES,
+  },
+  async headers() {
+    return [
+      { source: "/:path*", headers: securityHeaders },
+      // next-auth's routes skip proxy.ts (they read their own body) and its error page is HTML: nothing may run.
+      { source: "/api/auth/:path*", headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; style-src 'unsafe-inline'; img-src 'self'; form-action 'self'; base-uri 'none'; frame-ancestors 'none'" }] },
+    ];
+  },
+};
+
+export default nextConfig;
