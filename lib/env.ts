@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { trustedProxyMatcher } from "./auth/client-address";
 
 // The one place that reads process.env: settings are parsed once and a missing one fails at start-up.
 const schema = z.object({
@@ -15,6 +16,20 @@ const schema = z.object({
   // "capture" when the fake SMTP server is in use; enables the coordinator-only captured-mail page.
   MAIL_MODE: z.enum(["capture", "relay"]).default("capture"),
   STORAGE_DIR: z.string().default(".data/storage"),
+  // Reverse proxies in front of Seedplot, as addresses or CIDR ranges separated by commas. Only a request
+  // that arrives from one of them has its X-Forwarded-For read; by default nobody is trusted and the
+  // address a request connects from is the client's (it keys the sign-in and reset limits).
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .transform((list) => list.split(",").map((entry) => entry.trim()).filter(Boolean))
+    .superRefine((entries, ctx) => {
+      try {
+        trustedProxyMatcher(entries);
+      } catch (e) {
+        ctx.addIssue({ code: "custom", message: e instanceof Error ? e.message : String(e) });
+      }
+    }),
 });
 
 export type Env = z.infer<typeof schema>;

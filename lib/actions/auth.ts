@@ -29,7 +29,7 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
     const allowed = await consumeRateLimit(
       [
         { key: `reset-to:${input.email}`, max: 3 },
-        { key: `reset-from:${await requestAddress()}`, max: 20 },
+        { key: `reset-from:${requestAddress()}`, max: 20 },
       ],
       60,
     );

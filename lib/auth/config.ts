@@ -5,15 +5,9 @@ import { getSignInRecord } from "@/db/queries/users";
 import { signInSchema } from "@/lib/validation/auth";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
+import { requestAddress } from "./request-address";
 import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE } from "./messages";
 import type { Role } from "@/db/schema/enums";
-
-function clientAddress(headers: Record<string, unknown> | undefined): string {
-  const forwarded = headers?.["x-forwarded-for"];
-  if (typeof forwarded === "string" && forwarded.length > 0) return forwarded.split(",")[0]!.trim();
-  const real = headers?.["x-real-ip"];
-  return typeof real === "string" && real ? real : "local";
-}
 
 export const authOptions: NextAuthOptions = {
   secret: env.NEXTAUTH_SECRET,
@@ -23,11 +17,11 @@ export const authOptions: NextAuthOptions = {
     CredentialsProvider({
       name: "E-mail and password",
       credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
-      async authorize(credentials, req) {
+      async authorize(credentials) {
         const parsed = signInSchema.safeParse(credentials ?? {});
         if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
         const { email, password } = parsed.data;
-        const address = clientAddress(req?.headers as Record<string, unknown> | undefined);
+        const address = requestAddress();
         let outcome: "throttled" | "failed" | { id: number; email: string; name: string; role: Role };
         try {
           if (await isThrottled(email, address)) outcome = "throttled";
