@@ -1,0 +1,1 @@
+ALTER TABLE `users` ADD `session_generation` int DEFAULT 0 NOT NULL;
