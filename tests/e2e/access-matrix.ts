@@ -114,7 +114,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "PAGE /portal/catalogue": [{ note: "catalogue", path: () => "/portal/catalogue", expect: staffOnly() }],
   "PAGE /portal/catalogue/traits": [{ note: "trait library", path: () => "/portal/catalogue/traits", expect: staffOnly() }],
   "PAGE /portal/cooperators": [{ note: "growers", path: () => "/portal/cooperators", expect: staffOnly() }],
-  "PAGE /portal/mailbox": [{ note: "captured mail", path: () => "/portal/mailbox", expect: staffOnly() }],
+  "PAGE /portal/mailbox": [{ note: "captured mail, each person's own only", path: () => "/portal/mailbox", expect: signedIn("ok") }],
   "PAGE /portal/varieties/[varietyId]": [{ note: "variety history", path: (i) => `/portal/varieties/${i.variety}`, expect: staffOnly() }],
   "PAGE /portal/admin/users": [{ note: "users and roles", path: () => "/portal/admin/users", expect: { public: "signin", coopA: "deny", coopB: "deny", coordinator: "deny", admin: "ok" } }],
 
