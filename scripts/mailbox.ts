@@ -14,7 +14,7 @@ const countArg = args.find((a, i) => /^\d+$/.test(a) && (toIndex < 0 || i !== to
 const count = countArg ? Number(countArg) : 10;
 const dir = path.resolve(env.MAILBOX_DIR);
 
-const mails = (await readCapturedMail(dir, to ? 5000 : count)).filter((m) => !to || m.to.some((t) => t.toLowerCase() === to)).slice(0, count);
+const mails = await readCapturedMail(dir, { want: count, scan: to ? 100_000 : count, keep: (m) => !to || m.to.some((t) => t.toLowerCase() === to) });
 if (mails.length === 0) {
   console.log(`No captured messages${to ? ` to ${to}` : ""} in ${dir}.`);
 } else {

@@ -21,6 +21,9 @@ const SHOW_LIMIT = 50;
 export async function listCapturedMailFor(viewer: Viewer): Promise<CapturedMail[]> {
   if (!mailIsCaptured()) return [];
   const me = viewer.email.toLowerCase();
-  const mails = await readCapturedMail(path.resolve(env.MAILBOX_DIR), SCAN_LIMIT);
-  return mails.filter((m) => m.to.length > 0 && m.to.every((to) => to.toLowerCase() === me)).slice(0, SHOW_LIMIT);
+  return readCapturedMail(path.resolve(env.MAILBOX_DIR), {
+    want: SHOW_LIMIT,
+    scan: SCAN_LIMIT,
+    keep: (m) => m.to.length > 0 && m.to.every((to) => to.toLowerCase() === me),
+  });
 }

@@ -7,9 +7,9 @@ export async function waitForMailTo(address: string, options: { subject?: RegExp
   const { subject, count = 1, timeoutMs = 15_000 } = options;
   const deadline = Date.now() + timeoutMs;
   for (;;) {
-    const mails = (await readCapturedMail(process.env.E2E_MAILBOX_DIR!, 100_000))
-      .filter((m) => m.to.includes(address) && (!subject || subject.test(m.subject)))
-      .reverse();
+    const mails = (
+      await readCapturedMail(process.env.E2E_MAILBOX_DIR!, { want: 100_000, scan: 100_000, keep: (m) => m.to.includes(address) && (!subject || subject.test(m.subject)) })
+    ).reverse();
     if (mails.length >= count) return mails;
     if (Date.now() > deadline) throw new Error(`${mails.length} of ${count} mails to ${address} arrived`);
     await new Promise((r) => setTimeout(r, 200));
