@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { trustedProxyMatcher } from "./auth/client-address";
 
 // The one place that reads process.env: settings are parsed once and a missing one fails at start-up.
 const schema = z.object({
@@ -10,11 +11,27 @@ const schema = z.object({
   SMTP_HOST: z.string().default("127.0.0.1"),
   SMTP_PORT: z.coerce.number().int().default(2525),
   MAIL_FROM: z.string().default("Seedplot <no-reply@seedplot.invalid>"),
-  // Directory where the local fake SMTP server stores captured messages (shown on the mailbox page).
+  // Directory where the local fake SMTP server stores captured messages (read by `npm run mailbox`).
   MAILBOX_DIR: z.string().default(".data/mailbox"),
-  // "capture" when the fake SMTP server is in use; enables the coordinator-only captured-mail page.
-  MAIL_MODE: z.enum(["capture", "relay"]).default("capture"),
+  // "capture" when the local fake SMTP server is in use (scripts/up.sh sets it): only then does the Test
+  // mailbox page exist, showing each person the captured mail addressed to them. Unset means a real mail
+  // server, so a forgotten setting never opens a mailbox.
+  MAIL_MODE: z.enum(["capture", "relay"]).default("relay"),
   STORAGE_DIR: z.string().default(".data/storage"),
+  // Reverse proxies in front of Seedplot, as addresses or CIDR ranges separated by commas. Only a request
+  // that arrives from one of them has its X-Forwarded-For read; by default nobody is trusted and the
+  // address a request connects from is the client's (it keys the sign-in and reset limits).
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .transform((list) => list.split(",").map((entry) => entry.trim()).filter(Boolean))
+    .superRefine((entries, ctx) => {
+      try {
+        trustedProxyMatcher(entries);
+      } catch (e) {
+        ctx.addIssue({ code: "custom", message: e instanceof Error ? e.message : String(e) });
+      }
+    }),
 });
 
 export type Env = z.infer<typeof schema>;

@@ -1,5 +1,6 @@
-// A local fake SMTP server: accepts every message on loopback and stores it as JSON in MAILBOX_DIR,
-// where the coordinator-only mailbox page and the tests read it. Nothing is relayed anywhere.
+// A local fake SMTP server: accepts every message on loopback and stores it as JSON in MAILBOX_DIR, where
+// `npm run mailbox`, the Test mailbox page (each person their own messages) and the tests read it.
+// Nothing is relayed anywhere.
 import { SMTPServer } from "smtp-server";
 import { simpleParser } from "mailparser";
 import { promises as fs } from "node:fs";

@@ -47,7 +47,7 @@ if [ "${1:-}" != "--no-build" ] || [ ! -f .next/BUILD_ID ]; then
   npx next build > .data/build.log 2>&1 || { tail -40 .data/build.log; die "The build failed; see .data/build.log"; }
 fi
 
-log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md). Ctrl-C to stop."
+log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md; captured mail: npm run mailbox). Ctrl-C to stop."
 require_free_port "$PORT" PORT
 # In the background with `wait`, so Ctrl-C or a TERM to this script stops everything at once.
 setsid node_modules/.bin/next start -H 127.0.0.1 -p "$PORT" &

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, isNull, not } from "drizzle-orm";
+import { and, eq, isNull, not, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "../schema/enums";
@@ -12,6 +12,17 @@ import type { Viewer } from "@/lib/auth/types";
 
 const INVITE_DAYS = 7;
 const RESET_MINUTES = 60;
+
+// Raising an account's session generation ends every session issued before (see lib/auth/config.ts).
+const nextGeneration = sql`${users.sessionGeneration} + 1`;
+
+/** Marks a person's unused links of one kind as used, so none of them works any more. */
+async function voidOpenTokens(tx: Tx, userId: number, kind: "invite" | "password_reset") {
+  await tx
+    .update(userTokens)
+    .set({ usedAt: new Date() })
+    .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, kind), isNull(userTokens.usedAt)));
+}
 
 /** What an invitation to a site needs; the caller owns the token and the wording of the mail. */
 export interface InviteRequest {
@@ -62,10 +73,7 @@ export async function insertCooperatorInviteInTx(tx: Tx, p: InviteRequest): Prom
     // The name is the grower's own once another program works with them too; only its sole programs may correct it.
     if (!(await linkedOutsideViewerPrograms(tx, p.viewer, userId))) await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
     // Earlier links stop working once a new one is sent.
-    await tx
-      .update(userTokens)
-      .set({ usedAt: new Date() })
-      .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, "invite"), isNull(userTokens.usedAt)));
+    await voidOpenTokens(tx, userId, "invite");
   } else {
     const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
     userId = inserted!.id;
@@ -111,10 +119,12 @@ export async function updatePasswordWithToken(p: { token: string; kind: "invite"
           : "This reset link has expired or was already used. Ask for a new one.",
       );
     }
-    await tx.update(userTokens).set({ usedAt: new Date() }).where(eq(userTokens.id, row.id));
+    // This link and every other open link of its kind stop working.
+    await voidOpenTokens(tx, row.userId, p.kind);
+    // A new password ends every session signed in with the old one.
     await tx
       .update(users)
-      .set({ passwordHash: p.passwordHash, ...(p.name ? { name: p.name } : {}) })
+      .set({ passwordHash: p.passwordHash, sessionGeneration: nextGeneration, ...(p.name ? { name: p.name } : {}) })
       .where(eq(users.id, row.userId));
     await insertAudit(tx, { actorId: row.userId, action: p.kind === "invite" ? "accept_invite" : "reset_password", entity: "user", entityId: row.userId });
     return { userId: row.userId };
@@ -127,8 +137,11 @@ export async function insertPasswordReset(p: { email: string; token: string; bui
     const [user] = await tx
       .select({ id: users.id, name: users.name, passwordHash: users.passwordHash })
       .from(users)
-      .where(and(eq(users.email, p.email), eq(users.active, true)));
+      .where(and(eq(users.email, p.email), eq(users.active, true)))
+      .for("update");
     if (!user || user.passwordHash === null) return false;
+    // Only the newest link works: one forwarded or left in an old mail is void once another is sent.
+    await voidOpenTokens(tx, user.id, "password_reset");
     await tx.insert(userTokens).values({
       userId: user.id,
       kind: "password_reset",
@@ -155,7 +168,26 @@ export async function updateUserActive(p: { actorId: number; userId: number; act
   await db.transaction(async (tx) => {
     const [user] = await tx.select({ active: users.active }).from(users).where(eq(users.id, p.userId)).for("update");
     if (!user) throw new AppError("not_found", "That account no longer exists.");
-    await tx.update(users).set({ active: p.active }).where(eq(users.id, p.userId));
+    // Deactivating ends the account's sessions for good: activating it again does not bring them back.
+    await tx
+      .update(users)
+      .set({ active: p.active, ...(p.active ? {} : { sessionGeneration: nextGeneration }) })
+      .where(eq(users.id, p.userId));
     await insertAudit(tx, { actorId: p.actorId, action: p.active ? "activate" : "deactivate", entity: "user", entityId: p.userId, oldValue: { active: user.active }, newValue: { active: p.active } });
+  });
+}
+
+/**
+ * Signing out ends every session of the account (a copied cookie included). Only a session that is
+ * still current may do this, so a stale cookie replayed at sign-out cannot end the sessions after it.
+ */
+export async function endSessions(p: { userId: number; sessionGeneration: number }) {
+  await db.transaction(async (tx) => {
+    const [result] = await tx
+      .update(users)
+      .set({ sessionGeneration: nextGeneration })
+      .where(and(eq(users.id, p.userId), eq(users.sessionGeneration, p.sessionGeneration)));
+    if (result.affectedRows === 0) return;
+    await insertAudit(tx, { actorId: p.userId, action: "sign_out", entity: "user", entityId: p.userId });
   });
 }

@@ -11,19 +11,30 @@ import { isStaff } from "@/lib/auth/permissions";
 /** Credentials row for the sign-in check only; the hash never leaves the auth module. */
 export async function getSignInRecord(email: string) {
   const [row] = await db
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role, passwordHash: users.passwordHash, active: users.active })
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      passwordHash: users.passwordHash,
+      active: users.active,
+      sessionGeneration: users.sessionGeneration,
+    })
     .from(users)
     .where(eq(users.email, email))
     .limit(1);
   return row ?? null;
 }
 
-/** The current, active account behind a session (roles can change after sign-in). */
-export async function getActiveViewer(userId: number): Promise<Viewer | null> {
+/**
+ * The current, active account behind a session (roles can change after sign-in), or null when the
+ * session was ended: issued before the account's last sign-out, password change or deactivation.
+ */
+export async function getActiveViewer(userId: number, sessionGeneration: number): Promise<Viewer | null> {
   const [row] = await db
     .select({ id: users.id, email: users.email, name: users.name, role: users.role })
     .from(users)
-    .where(and(eq(users.id, userId), eq(users.active, true)))
+    .where(and(eq(users.id, userId), eq(users.active, true), eq(users.sessionGeneration, sessionGeneration)))
     .limit(1);
   return row ?? null;
 }

@@ -16,6 +16,10 @@ export const mailOutbox = mysqlTable(
     htmlBody: mediumtext("html_body"),
     status: mysqlEnum("status", MAIL_STATUSES).notNull().default("pending"),
     attempts: int("attempts").notNull().default(0),
+    // Set while one delivery run is sending the message, so another run (the retry timer, another
+    // action's delivery, another server process) does not send it a second time; a run that died
+    // leaves it to expire, and the message is tried again.
+    claimedUntil: timestamp("claimed_until", { mode: "date" }),
     lastError: text("last_error"),
     createdAt: createdAt(),
     sentAt: timestamp("sent_at", { mode: "date" }),

@@ -1,4 +1,4 @@
-import { boolean, index, mysqlEnum, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { boolean, index, int, mysqlEnum, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
 import { ROLES, TOKEN_KINDS } from "./enums";
 
@@ -13,6 +13,9 @@ export const users = mysqlTable(
     passwordHash: varchar("password_hash", { length: 255 }),
     phone: varchar("phone", { length: 40 }),
     active: boolean("active").notNull().default(true),
+    // Each session carries the value it was issued with; raising it (sign-out, a new password,
+    // deactivation) ends every session issued before.
+    sessionGeneration: int("session_generation").notNull().default(0),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

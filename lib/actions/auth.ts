@@ -2,12 +2,10 @@
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { acceptInviteSchema, forgotPasswordSchema, resetPasswordSchema } from "@/lib/validation/auth";
+import { after } from "next/server";
 import { hashPassword } from "@/lib/auth/password";
-import { newToken } from "@/lib/auth/tokens";
-import { insertPasswordReset, updatePasswordWithToken } from "@/db/mutations/users";
-import { passwordResetMail } from "@/lib/mail/templates";
-import { deliverSoon } from "@/lib/mail/outbox";
-import { env } from "@/lib/env";
+import { updatePasswordWithToken } from "@/db/mutations/users";
+import { sendPasswordResetLink } from "@/lib/auth/password-reset";
 import type { Viewer } from "@/lib/auth/types";
 import { consumeRateLimit } from "@/lib/auth/throttle";
 import { requestAddress } from "@/lib/auth/request-address";
@@ -21,7 +19,11 @@ export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | nul
   },
 );
 
-/** Sends a reset link; answers the same whether or not the e-mail has an account. */
+/**
+ * Sends a reset link; answers the same, in the same time, whether or not the e-mail has an account: the
+ * answer depends only on the rate limits, and looking the account up, issuing the link and mailing it
+ * happen after the answer has gone out.
+ */
 export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
   { roles: "public", schema: forgotPasswordSchema },
   async (input) => {
@@ -29,19 +31,12 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
     const allowed = await consumeRateLimit(
       [
         { key: `reset-to:${input.email}`, max: 3 },
-        { key: `reset-from:${await requestAddress()}`, max: 20 },
+        { key: `reset-from:${requestAddress()}`, max: 20 },
       ],
       60,
     );
     // Past the limit the answer stays the same, so it reveals nothing, but no more mail is sent.
-    if (!allowed) return sameAnswer;
-    const token = newToken();
-    const queued = await insertPasswordReset({
-      email: input.email,
-      token,
-      buildMail: (name) => passwordResetMail({ to: input.email, name, link: `${env.APP_URL}/reset-password/${token}` }),
-    });
-    if (queued) await deliverSoon();
+    if (allowed) after(() => sendPasswordResetLink(input.email));
     return sameAnswer;
   },
 );

@@ -1,18 +1,21 @@
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { env } from "@/lib/env";
-import { getSignInRecord } from "@/db/queries/users";
+import { getActiveViewer, getSignInRecord } from "@/db/queries/users";
+import { endSessions } from "@/db/mutations/users";
 import { signInSchema } from "@/lib/validation/auth";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
+import { requestAddress } from "./request-address";
 import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE } from "./messages";
 import type { Role } from "@/db/schema/enums";
 
-function clientAddress(headers: Record<string, unknown> | undefined): string {
-  const forwarded = headers?.["x-forwarded-for"];
-  if (typeof forwarded === "string" && forwarded.length > 0) return forwarded.split(",")[0]!.trim();
-  const real = headers?.["x-real-ip"];
-  return typeof real === "string" && real ? real : "local";
+/** Thrown when a session's cookie is still signed but the account ended it; next-auth then clears the cookie. */
+class SessionEndedError extends Error {
+  constructor() {
+    super("This session has ended.");
+    this.name = "SessionEndedError";
+  }
 }
 
 export const authOptions: NextAuthOptions = {
@@ -23,12 +26,12 @@ export const authOptions: NextAuthOptions = {
     CredentialsProvider({
       name: "E-mail and password",
       credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
-      async authorize(credentials, req) {
+      async authorize(credentials) {
         const parsed = signInSchema.safeParse(credentials ?? {});
         if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
         const { email, password } = parsed.data;
-        const address = clientAddress(req?.headers as Record<string, unknown> | undefined);
-        let outcome: "throttled" | "failed" | { id: number; email: string; name: string; role: Role };
+        const address = requestAddress();
+        let outcome: "throttled" | "failed" | { id: number; email: string; name: string; role: Role; sessionGeneration: number };
         try {
           if (await isThrottled(email, address)) outcome = "throttled";
           else {
@@ -46,21 +49,42 @@ export const authOptions: NextAuthOptions = {
         }
         if (outcome === "throttled") throw new Error(SIGN_IN_THROTTLED);
         if (outcome === "failed") throw new Error(SIGN_IN_FAILED);
-        return { id: String(outcome.id), email: outcome.email, name: outcome.name, role: outcome.role };
+        return { id: String(outcome.id), email: outcome.email, name: outcome.name, role: outcome.role, sessionGeneration: outcome.sessionGeneration };
       },
     }),
   ],
   callbacks: {
-    jwt({ token, user }) {
+    // Called with `user` once at sign-in, then on every read of the session through next-auth's own
+    // routes (the app's pages, actions and routes check the same thing in lib/auth/guards.ts).
+    async jwt({ token, user }) {
       if (user) {
         token.uid = Number(user.id);
         token.role = user.role as Role;
+        token.gen = user.sessionGeneration;
+        return token;
       }
+      const viewer = typeof token.uid === "number" && typeof token.gen === "number" ? await getActiveViewer(token.uid, token.gen) : null;
+      if (!viewer) throw new SessionEndedError();
+      token.role = viewer.role;
+      token.name = viewer.name;
       return token;
     },
     session({ session, token }) {
       session.user = { id: token.uid ?? 0, email: token.email ?? "", name: token.name ?? "", role: token.role ?? "cooperator" };
       return session;
+    },
+  },
+  events: {
+    // Signing out ends the account's sessions on the server too, so a copy of the cookie stops working.
+    async signOut({ token }) {
+      if (typeof token?.uid === "number" && typeof token.gen === "number") await endSessions({ userId: token.uid, sessionGeneration: token.gen });
+    },
+  },
+  logger: {
+    error(code, metadata) {
+      // An ended session read through next-auth is expected; its cookie is cleared, nothing to report.
+      if (code === "JWT_SESSION_ERROR" && metadata instanceof SessionEndedError) return;
+      console.error(`[next-auth][error][${code}]`, metadata);
     },
   },
 };

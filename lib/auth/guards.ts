@@ -1,19 +1,24 @@
 import "server-only";
 import { cache } from "react";
-import { getServerSession } from "next-auth";
+import { cookies } from "next/headers";
+import { getToken } from "next-auth/jwt";
 import { redirect } from "next/navigation";
-import { authOptions } from "./config";
+import { env } from "@/lib/env";
 import { getActiveViewer } from "@/db/queries/users";
 import { AppError } from "@/lib/errors";
 import type { Role } from "@/db/schema/enums";
 import type { Viewer } from "./types";
 
-/** The signed-in, still-active viewer, or null. Memoised per request. */
+/**
+ * The signed-in, still-active viewer, or null. Reads the session cookie and checks, in the one query
+ * that loads the account, that the session was not ended since it was issued (sign-out, new password,
+ * deactivation). A database outage surfaces as an error, not as a signed-out visitor. Memoised per request.
+ */
 export const getViewer = cache(async (): Promise<Viewer | null> => {
-  const session = await getServerSession(authOptions);
-  const uid = session?.user?.id;
-  if (!uid) return null;
-  return getActiveViewer(uid);
+  // The same cookie and secret next-auth uses; headers are left out so only the cookie can carry a session.
+  const token = await getToken({ req: { cookies: await cookies(), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"], secret: env.NEXTAUTH_SECRET });
+  if (typeof token?.uid !== "number" || typeof token.gen !== "number") return null;
+  return getActiveViewer(token.uid, token.gen);
 });
 
 /** For pages: the viewer, or a redirect to sign-in. */

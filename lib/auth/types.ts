@@ -19,6 +19,7 @@ declare module "next-auth" {
     email: string;
     name: string;
     role: Role;
+    sessionGeneration: number;
   }
 }
 
@@ -26,5 +27,7 @@ declare module "next-auth/jwt" {
   interface JWT {
     uid?: number;
     role?: Role;
+    /** The account's session generation when this session was issued (see db/schema/users.ts). */
+    gen?: number;
   }
 }

@@ -1,31 +1,29 @@
 import "server-only";
-import { promises as fs } from "node:fs";
 import path from "node:path";
 import { env } from "@/lib/env";
+import type { Viewer } from "@/lib/auth/types";
+import { readCapturedMail, type CapturedMail } from "./captured-mail";
 
-/** A message captured by the local fake SMTP server. */
-export interface CapturedMail {
-  id: string;
-  receivedAt: string;
-  from: string;
-  to: string[];
-  subject: string;
-  text: string;
-}
+export type { CapturedMail };
 
-/** Messages captured by the fake SMTP server, newest first. Only meaningful when MAIL_MODE is capture. */
-export async function listCapturedMail(limit = 100): Promise<CapturedMail[]> {
-  if (env.MAIL_MODE !== "capture") return [];
-  const dir = path.resolve(env.MAILBOX_DIR);
-  let names: string[];
-  try {
-    names = (await fs.readdir(dir)).filter((n) => n.endsWith(".json"));
-  } catch {
-    return [];
-  }
-  names.sort().reverse();
-  const mails = await Promise.all(
-    names.slice(0, limit).map(async (n) => JSON.parse(await fs.readFile(path.join(dir, n), "utf8")) as CapturedMail),
-  );
-  return mails;
+/** Whether mail goes to the local capture server; only then does a test mailbox exist at all. */
+export const mailIsCaptured = (): boolean => env.MAIL_MODE === "capture";
+
+// How far back the page looks through the capture directory for the viewer's own messages.
+const SCAN_LIMIT = 1000;
+const SHOW_LIMIT = 50;
+
+/**
+ * Captured messages addressed to the viewer alone, newest first. Messages to anyone else are never
+ * read for the web page: invitations and reset links in them would let the reader act as that person.
+ * The operator of a demo machine reads all captured mail in a terminal (`npm run mailbox`).
+ */
+export async function listCapturedMailFor(viewer: Viewer): Promise<CapturedMail[]> {
+  if (!mailIsCaptured()) return [];
+  const me = viewer.email.toLowerCase();
+  return readCapturedMail(path.resolve(env.MAILBOX_DIR), {
+    want: SHOW_LIMIT,
+    scan: SCAN_LIMIT,
+    keep: (m) => m.to.length > 0 && m.to.every((to) => to.toLowerCase() === me),
+  });
 }

@@ -1,4 +1,5 @@
 import "server-only";
+import { after } from "next/server";
 import nodemailer, { type Transporter } from "nodemailer";
 import { env } from "@/lib/env";
 import { claimPendingMail, updateMailFailed, updateMailSent } from "@/db/mutations/mail";
@@ -45,11 +46,26 @@ export async function deliverPendingMail(limit = 50): Promise<number> {
   return sent;
 }
 
-/** Delivery after an action: never lets a mail-server problem fail the action that queued the mail. */
-export async function deliverSoon(): Promise<void> {
+/** Delivers queued mail now; a mail-server problem is logged and left to the retry timer, never thrown. */
+export async function deliverQueuedMail(): Promise<void> {
   try {
     await deliverPendingMail();
   } catch (e) {
     console.error("[mail] delivery deferred:", e instanceof Error ? e.message : e);
   }
+}
+
+/**
+ * Delivery after an action has queued mail. During a request it runs once the response has gone out
+ * (Next's `after`), so no answer waits on the mail server, and a slow or missing mail server cannot
+ * slow an action or show in its timing. Outside a request (timers, scripts) it delivers right away.
+ */
+export async function deliverSoon(): Promise<void> {
+  try {
+    after(deliverQueuedMail);
+    return;
+  } catch {
+    // `after` refuses outside a request scope: there is no response to wait for.
+  }
+  await deliverQueuedMail();
 }

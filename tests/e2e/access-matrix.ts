@@ -144,7 +144,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "PAGE /portal/catalogue": [{ note: "catalogue", path: () => "/portal/catalogue", expect: staffOnly() }],
   "PAGE /portal/catalogue/traits": [{ note: "trait library", path: () => "/portal/catalogue/traits", expect: staffOnly() }],
   "PAGE /portal/cooperators": [{ note: "growers", path: () => "/portal/cooperators", expect: staffOnly() }],
-  "PAGE /portal/mailbox": [{ note: "captured mail", path: () => "/portal/mailbox", expect: staffOnly() }],
+  "PAGE /portal/mailbox": [{ note: "captured mail, each person's own only", path: () => "/portal/mailbox", expect: signedIn("ok") }],
   "PAGE /portal/varieties/[varietyId]": [
     { note: "variety history", path: (i) => `/portal/varieties/${i.variety}`, expect: firstProgramStaff() },
     { note: "the second program's variety", path: (i) => `/portal/varieties/${i.otherVariety}`, expect: secondProgramStaff() },

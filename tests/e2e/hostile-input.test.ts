@@ -117,7 +117,18 @@ function observationCases(random: () => number, n: number): Case[] {
     } else if (kind === 3) {
       label = "wrong trialId or siteId";
       const b: Record<string, unknown> = valid();
-      b[g.pick(["trialId", "siteId"])] = g.pick([g.junkValue(), 0, -3, 99999999, "abc", 1.25, null]);
+      const field = g.pick(["trialId", "siteId"]);
+      const wrong = g.pick([g.junkValue(), 0, -3, 99999999, "abc", 1.25, null]);
+      // The route reads ids as Number() does, so junk such as " 7 " or [7] is the right id when that id
+      // happens to be 7 (ids grow with each reseed); such a body is not wrong.
+      const readsAs = (() => {
+        try {
+          return Number(wrong);
+        } catch {
+          return NaN;
+        }
+      })();
+      b[field] = readsAs === b[field] ? 99999999 : wrong;
       body = JSON.stringify(b);
     } else if (kind === 4) {
       label = "malformed value item";

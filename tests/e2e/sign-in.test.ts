@@ -47,7 +47,7 @@ describe("sign-in and role homes in a real browser", () => {
   it("refuses a cooperator the coordinator and admin pages", async () => {
     const { page, context } = await newPage(browser);
     await signIn(page, DEMO_SITES[0].grower.email, DEMO_PASSWORDS.cooperator);
-    for (const path of ["/portal/cooperators", "/portal/admin/users", "/portal/mailbox"]) {
+    for (const path of ["/portal/cooperators", "/portal/admin/users"]) {
       await page.goto(path);
       await page.waitForURL("**/portal/forbidden");
       await page.getByRole("heading", { name: "You don't have access to that page" }).waitFor();

@@ -17,9 +17,10 @@ function mergeCookies(into: Map<string, string>, setCookies: string[]) {
 const cookieHeader = (jar: Map<string, string>) => [...jar.entries()].map(([k, v]) => `${k}=${v}`).join("; ");
 
 /**
- * Signs in through next-auth's credentials endpoint, as the sign-in form does. `headers` lets a test
- * pose as its own client address, so its failures never count against the shared local address.
- * Answers the raw callback response too, for tests about refusals.
+ * Signs in through next-auth's credentials endpoint, as the sign-in form does, with extra `headers` on
+ * both requests. Every call comes from 127.0.0.1; a test whose failures must not count against that
+ * address signs in from one of its own (helpers/from-address.ts). Answers the raw callback response too,
+ * for tests about refusals.
  */
 export async function credentialsSignIn(email: string, password: string, headers: Record<string, string> = {}) {
   const jar = new Map<string, string>();

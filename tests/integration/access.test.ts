@@ -49,7 +49,7 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
 
   it("scopes a coordinator to the programs they run", async () => {
     const [outsider] = await db.insert(s.users).values({ email: `outsider-${Date.now()}@example.org`, name: "Other Coordinator", role: "coordinator" }).$returningId();
-    const viewer = await getActiveViewer(outsider!.id);
+    const viewer = await getActiveViewer(outsider!.id, 0);
     expect(viewer?.role).toBe("coordinator");
     expect(await listTrialsForViewer(viewer!)).toEqual([]);
     expect(await listLateSites(viewer!)).toEqual([]);
@@ -74,6 +74,6 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
 
   it("treats a deactivated account as signed out", async () => {
     const [u] = await db.insert(s.users).values({ email: `inactive-${Date.now()}@example.org`, name: "Gone", role: "coordinator", active: false }).$returningId();
-    expect(await getActiveViewer(u!.id)).toBeNull();
+    expect(await getActiveViewer(u!.id, 0)).toBeNull();
   });
 });

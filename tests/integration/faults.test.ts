@@ -6,7 +6,7 @@ import { spawn, execFileSync, type ChildProcess } from "node:child_process";
 import { mkdtempSync, writeFileSync, promises as fs } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import { eq, sql } from "drizzle-orm";
+import { eq, inArray, sql } from "drizzle-orm";
 import type { SMTPServer } from "smtp-server";
 import mysql from "mysql2/promise";
 import * as s from "@/db/schema";
@@ -33,6 +33,7 @@ let app: {
   insertPasswordReset: typeof import("@/db/mutations/users").insertPasswordReset;
   deliverSoon: typeof import("@/lib/mail/outbox").deliverSoon;
   deliverPendingMail: typeof import("@/lib/mail/outbox").deliverPendingMail;
+  claimPendingMail: typeof import("@/db/mutations/mail").claimPendingMail;
 };
 
 beforeAll(async () => {
@@ -44,12 +45,18 @@ beforeAll(async () => {
   process.env.DATABASE_URL = faultUrl;
   process.env.SMTP_PORT = String(smtpPort);
   process.env.MAILBOX_DIR = path.join(work, "mailbox");
-  const [index, users, outbox] = await Promise.all([import("@/db/index"), import("@/db/mutations/users"), import("@/lib/mail/outbox")]);
+  const [index, users, outbox, mail] = await Promise.all([
+    import("@/db/index"),
+    import("@/db/mutations/users"),
+    import("@/lib/mail/outbox"),
+    import("@/db/mutations/mail"),
+  ]);
   app = {
     appPool: index.pool,
     insertPasswordReset: users.insertPasswordReset,
     deliverSoon: outbox.deliverSoon,
     deliverPendingMail: outbox.deliverPendingMail,
+    claimPendingMail: mail.claimPendingMail,
   };
 });
 
@@ -176,5 +183,40 @@ describe("the mail server being down", () => {
     const files = await fs.readdir(mailbox);
     const messages = await Promise.all(files.map(async (f) => JSON.parse(await fs.readFile(path.join(mailbox, f), "utf8")) as { to: string[]; subject: string }));
     expect(messages.filter((m) => m.subject === subject && m.to.includes(coordinator!.email))).toHaveLength(1);
+  });
+});
+
+describe("delivery runs at the same time", () => {
+  // After each action, the retry timer, and each server process all deliver queued mail; they overlap.
+  async function queue(count: number) {
+    const subject = unique("Overlap");
+    const to = Array.from({ length: count }, (_, i) => `${subject.toLowerCase()}-${i}@example.org`);
+    await db.insert(s.mailOutbox).values(to.map((toAddress) => ({ toAddress, subject, textBody: "Hello" })));
+    const rows = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).where(eq(s.mailOutbox.subject, subject));
+    return { subject, to, ids: rows.map((r) => r.id) };
+  }
+
+  it("a message claimed by a run that is still sending is not claimed by another", async () => {
+    const { ids } = await queue(2);
+    const first = (await app.claimPendingMail(50, 20)).map((r) => r.id);
+    const second = (await app.claimPendingMail(50, 20)).map((r) => r.id);
+    expect(ids.every((id) => first.includes(id))).toBe(true);
+    expect(ids.filter((id) => second.includes(id))).toEqual([]);
+    await db.update(s.mailOutbox).set({ status: "sent" }).where(inArray(s.mailOutbox.id, ids));
+  });
+
+  it("send each queued message once", async () => {
+    const { subject, to } = await queue(8);
+    const mailbox = path.join(work, "overlap-mailbox");
+    const smtp = await startFakeSmtp({ port: smtpPort, dir: mailbox });
+    try {
+      const sent = await Promise.all([app.deliverPendingMail(), app.deliverPendingMail(), app.deliverPendingMail()]);
+      expect(sent.reduce((a, b) => a + b, 0)).toBe(to.length);
+    } finally {
+      await new Promise<void>((resolve) => smtp.close(() => resolve()));
+    }
+    const files = await fs.readdir(mailbox);
+    const received = await Promise.all(files.map(async (f) => JSON.parse(await fs.readFile(path.join(mailbox, f), "utf8")) as { to: string[]; subject: string }));
+    expect(received.filter((m) => m.subject === subject).flatMap((m) => m.to).sort()).toEqual([...to].sort());
   });
 });

@@ -4,7 +4,7 @@ import { NavLink } from "@/components/layout/nav-link";
 import { SignOutButton } from "@/components/layout/sign-out-button";
 import { requireUser } from "@/lib/auth/guards";
 import { ROLE_LABELS } from "@/lib/labels";
-import { env } from "@/lib/env";
+import { mailIsCaptured } from "@/lib/mail/mailbox";
 
 export default async function PortalLayout({ children }: { children: React.ReactNode }) {
   const viewer = await requireUser();
@@ -13,7 +13,7 @@ export default async function PortalLayout({ children }: { children: React.React
   if (staff) links.push(["/portal/review", "Review"]);
   if (staff) links.push(["/portal/trials", "Trials"], ["/portal/sites", "Sites"], ["/portal/catalogue", "Catalogue"], ["/portal/cooperators", "Growers"]);
   if (viewer.role === "admin") links.push(["/portal/admin/users", "Users & roles"]);
-  if (staff && env.MAIL_MODE === "capture") links.push(["/portal/mailbox", "Test mailbox"]);
+  if (mailIsCaptured()) links.push(["/portal/mailbox", "Test mailbox"]);
   return (
     <div className="min-h-screen">
       <header className="no-print border-b border-husk-200 bg-white">

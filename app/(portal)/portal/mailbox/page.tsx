@@ -1,37 +1,33 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
-import { listCapturedMail } from "@/lib/mail/mailbox";
+import { requireUser } from "@/lib/auth/guards";
+import { listCapturedMailFor, mailIsCaptured } from "@/lib/mail/mailbox";
+import { linkSegments } from "@/lib/mail/linkify";
 import { env } from "@/lib/env";
 import { Card } from "@/components/ui/card";
 
 export const metadata: Metadata = { title: "Test mailbox" };
 
-// Linkify only links to this app, so a captured message cannot send staff elsewhere.
-function linkify(text: string) {
-  const parts = text.split(/(https?:\/\/\S+)/g);
-  return parts.map((part, i) =>
-    part.startsWith(env.APP_URL) ? (
-      <a key={i} href={part}>
-        {part}
-      </a>
-    ) : (
-      part
-    ),
-  );
-}
-
 export default async function MailboxPage() {
-  await requireRole("coordinator", "admin");
-  if (env.MAIL_MODE !== "capture") notFound();
-  const mails = await listCapturedMail();
+  // With a real mail server there is no test mailbox at all, for anyone.
+  if (!mailIsCaptured()) notFound();
+  const viewer = await requireUser();
+  const mails = await listCapturedMailFor(viewer);
   return (
     <div className="space-y-6">
       <h1 className="text-3xl font-bold">Test mailbox</h1>
       <p className="text-loam-700">
-        Messages caught by the local mail server. Nothing here left this machine. Follow an invitation or reset link to try it.
+        Messages to you ({viewer.email}) caught by the local mail server. Nothing here left this machine, and mail to
+        other people is not shown here.
+        {viewer.role !== "cooperator" && (
+          <>
+            {" "}
+            Whoever runs this server reads all of it, invitations you send included, with <code>npm run mailbox</code> in a
+            terminal.
+          </>
+        )}
       </p>
-      {mails.length === 0 && <p>No messages yet.</p>}
+      {mails.length === 0 && <p>No messages to you yet.</p>}
       {mails.map((m) => (
         <Card key={m.id}>
           <article>
@@ -39,7 +35,17 @@ export default async function MailboxPage() {
             <p className="text-sm text-loam-700">
               To {m.to.join(", ")} · {new Date(m.receivedAt).toLocaleString("en-GB", { timeZone: "UTC" })} UTC
             </p>
-            <pre className="mt-3 whitespace-pre-wrap break-words font-sans text-sm">{linkify(m.text)}</pre>
+            <pre className="mt-3 whitespace-pre-wrap break-words font-sans text-sm">
+              {linkSegments(m.text, env.APP_URL).map((s, i) =>
+                s.href ? (
+                  <a key={i} href={s.href}>
+                    {s.text}
+                  </a>
+                ) : (
+                  s.text
+                ),
+              )}
+            </pre>
           </article>
         </Card>
       ))}
