@@ -3,9 +3,9 @@
 // seconds, so messages queued while the mail server was down go out once it is back.
 export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
-  const { installClientAddressTracking } = await import("./lib/auth/request-address");
+  const { installClientAddressTracking } = await import("./server/auth/request-address");
   installClientAddressTracking();
   if (process.env.SEEDPLOT_DISABLE_JOBS === "1") return;
-  const { startBackgroundJobs } = await import("./lib/jobs");
+  const { startBackgroundJobs } = await import("./server/jobs");
   startBackgroundJobs();
 }

@@ -1,5 +1,5 @@
 import type { NextConfig } from "next";
-import { BODY_LIMITS, PROXY_BODY_COPY_BYTES } from "./lib/http/limits";
+import { BODY_LIMITS, PROXY_BODY_COPY_BYTES } from "./lib/domain/request-limits";
 
 const securityHeaders = [
   { key: "X-Frame-Options", value: "DENY" },

@@ -2,8 +2,8 @@ import { NextResponse, type NextRequest } from "next/server";
 import { getToken } from "next-auth/jwt";
 import { env } from "@/lib/env";
 import { isAppError } from "@/lib/errors";
-import { readBodyWithin } from "@/lib/http/body";
-import { assertOwnOrigin } from "@/lib/http/origin";
+import { readBodyWithin } from "@/server/http/body";
+import { assertOwnOrigin } from "@/server/http/origin";
 
 // A per-request nonce lets Next's own inline scripts run while any injected script is refused.
 function contentSecurityPolicy(nonce: string): string {

@@ -3,9 +3,9 @@ import { and, count, eq, inArray, not, or, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "./index";
 import type { AnyMySqlColumn } from "drizzle-orm/mysql-core";
 import { enrolments, observations, plots, programCoordinators, programs, siteCooperators, sites, trials, varieties } from "./schema";
-import type { TrialStatus } from "./schema/enums";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 // Ownership rules shared by queries and mutations, applied in SQL so a forgotten check cannot leak rows.
 // Programs are tenants: trials, sites, varieties (with their seed lots) and custom traits each belong to one

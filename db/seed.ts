@@ -7,10 +7,10 @@ import { hash } from "@node-rs/argon2";
 import { createDatabase, type Database } from "./client";
 import * as s from "./schema";
 import { DEMO_CROPS, DEMO_PASSWORDS, DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF, DEMO_TRAITS, DEMO_TRIALS, type DemoTrial } from "./demo-data";
-import { seededRandom } from "@/lib/design/random";
-import { siteLayout } from "@/lib/design/site-layout";
-import { blindCodes } from "@/lib/design/blind-codes";
-import { addDays, todayIso } from "@/lib/schedule";
+import { seededRandom } from "@/lib/domain/design/random";
+import { siteLayout } from "@/lib/domain/design/site-layout";
+import { blindCodes } from "@/lib/domain/design/blind-codes";
+import { addDays, todayIso } from "@/lib/domain/schedule";
 
 const SPRING_FIRST_SOWING = "2026-03-18";
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { trustedProxyMatcher } from "./auth/client-address";
+import { trustedProxyMatcher } from "@/server/auth/client-address";
 
 // The one place that reads process.env: settings are parsed once and a missing one fails at start-up.
 const schema = z.object({

@@ -15,7 +15,7 @@ import { brotliDecompressSync, gunzipSync, inflateSync } from "node:zlib";
 import { and, eq, inArray } from "drizzle-orm";
 import { createDatabase } from "../db/client";
 import * as s from "../db/schema";
-import { addDays, todayIso } from "../lib/schedule";
+import { addDays, todayIso } from "../lib/domain/schedule";
 import { removeLeftoverTrials, removeThrowawayTrial } from "./throwaway-trial";
 
 const BASE = (process.env.BENCH_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
@@ -256,7 +256,7 @@ try {
 
   // The same work in-process, to show where the cold time goes. Imported late: it opens the app's own pool.
   const { getAnalysisInput, getAnalysisVersion } = await import("../db/queries/analysis");
-  const { runAnalysis } = await import("../lib/analysis/run");
+  const { runAnalysis } = await import("../lib/domain/analysis/run");
   const { pool: appPool } = await import("../db/index");
   const viewer = { id: coordinator.id, email: coordinator.email, name: coordinator.name, role: coordinator.role };
   const steps = { version: [] as number[], read: [] as number[], compute: [] as number[], json: [] as number[] };

@@ -19,7 +19,7 @@ if (!url) {
   process.exit(1);
 }
 const { db, pool } = createDatabase(url, 2);
-const { hashPassword } = await import("../lib/auth/password");
+const { hashPassword } = await import("../server/auth/password");
 const run = Date.now().toString(36);
 const PREFIX = "forgot-bench-";
 

@@ -11,7 +11,7 @@ import autocannon from "autocannon";
 import { and, eq, inArray, isNull } from "drizzle-orm";
 import { createDatabase } from "../db/client";
 import * as s from "../db/schema";
-import { addDays, todayIso } from "../lib/schedule";
+import { addDays, todayIso } from "../lib/domain/schedule";
 import { removeLeftoverTrials, removeThrowawayTrial } from "./throwaway-trial";
 
 const BASE = (process.env.LOAD_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
@@ -30,9 +30,9 @@ if (!url) {
   process.exit(1);
 }
 const { db, pool } = createDatabase(url, 4);
-const { hashPassword } = await import("../lib/auth/password");
+const { hashPassword } = await import("../server/auth/password");
 const { insertPublishedReport } = await import("../db/mutations/publish");
-const { buildSnapshot } = await import("../lib/publish/build");
+const { buildSnapshot } = await import("../server/publish/build");
 const { pool: appPool } = await import("../db/index");
 // Everything the run adds is removed at the end (and at the start, if an earlier run was interrupted).
 const THROWAWAY = { sitePrefix: "Load site ", cropPrefix: "Load crop ", emailPrefix: "load-" };

@@ -2,13 +2,13 @@
 // Builds realistic results with the real analysis code on generated data (5 traits, 8 varieties,
 // 4 blocks, 50 sites), then renders the report several times and prints the times.
 import { performance } from "node:perf_hooks";
-import { runAnalysis } from "@/lib/analysis/run";
-import { analysedAs } from "@/lib/analysis/values";
-import { summariseForGrowers } from "@/lib/publish/summary";
-import { seededRandom } from "@/lib/design/random";
-import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
-import type { PublishedSnapshot } from "@/lib/publish/types";
-import { toPublicSnapshot } from "@/lib/publish/public-shape";
+import { runAnalysis } from "@/lib/domain/analysis/run";
+import { analysedAs } from "@/lib/domain/analysis/values";
+import { summariseForGrowers } from "@/lib/domain/publish/summary";
+import { seededRandom } from "@/lib/domain/design/random";
+import type { AnalysisInput, InputTrait } from "@/lib/domain/analysis/types";
+import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import { toPublicSnapshot } from "@/lib/domain/publish/public-shape";
 import { renderTrialReport } from "@/reports/trial-report/render";
 
 const SITES = 50;

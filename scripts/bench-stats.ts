@@ -7,9 +7,9 @@
  */
 import { availableParallelism, loadavg } from "node:os";
 import jstatPkg from "jstat";
-import { anovaMultiSite, anovaOneWay, type MultiSitePlot } from "../lib/stats";
-import { homeSlot, LabelIndex } from "../lib/stats/label-index";
-import { seededRandom as random } from "../lib/design/random";
+import { anovaMultiSite, anovaOneWay, type MultiSitePlot } from "../lib/domain/stats";
+import { homeSlot, LabelIndex } from "../lib/domain/stats/label-index";
+import { seededRandom as random } from "../lib/domain/design/random";
 
 const { jStat } = jstatPkg;
 

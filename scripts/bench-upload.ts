@@ -2,7 +2,7 @@
 // Builds a throwaway trial with 10,000 plots, then reports how long reading, checking and saving take.
 import { createDatabase } from "../db/client";
 import { bigSiteCsv, insertBigSite } from "../tests/helpers/big-site";
-import { addDays, todayIso } from "../lib/schedule";
+import { addDays, todayIso } from "../lib/domain/schedule";
 
 const url = process.env.DATABASE_URL ?? "";
 if (!/seedplot_test|seedplot_e2e|bench/.test(url)) {
@@ -11,8 +11,8 @@ if (!/seedplot_test|seedplot_e2e|bench/.test(url)) {
 }
 const rows = Number(process.argv[2] ?? 10_000);
 const { db, pool } = createDatabase(url, 4);
-const { inspectUpload } = await import("../lib/spreadsheets/safety");
-const { readUpload } = await import("../lib/spreadsheets/read");
+const { inspectUpload } = await import("../lib/domain/spreadsheets/safety");
+const { readUpload } = await import("../lib/domain/spreadsheets/read");
 const { listTrialColumns } = await import("../db/queries/observations");
 const { planSiteObservations, saveSiteObservations } = await import("../db/mutations/observations");
 const { db: appDb, pool: appPool } = await import("../db/index");

@@ -5,7 +5,7 @@
 //   npm run mailbox -- --to ADDRESS only messages to ADDRESS
 import path from "node:path";
 import { env } from "@/lib/env";
-import { readCapturedMail } from "@/lib/mail/captured-mail";
+import { readCapturedMail } from "@/server/mail/captured-mail";
 
 const args = process.argv.slice(2);
 const toIndex = args.indexOf("--to");

@@ -1,7 +1,7 @@
 "use client";
 import * as Plot from "@observablehq/plot";
-import type { EmergenceAnalysis } from "@/lib/analysis/types";
-import { formatNumber } from "@/lib/analysis/format";
+import type { EmergenceAnalysis } from "@/lib/domain/analysis/types";
+import { formatNumber } from "@/lib/domain/analysis/format";
 import { Chart } from "./chart";
 import { ENTRY_COLOURS, ENTRY_SYMBOLS } from "./palette";
 import type { EntryLabel, GerminationRowView, MeanRow } from "./analysis-tables";

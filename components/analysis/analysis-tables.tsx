@@ -1,8 +1,8 @@
 "use client";
 import type { ColumnDef } from "@tanstack/react-table";
-import type { AnovaRow } from "@/lib/stats";
-import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "@/lib/analysis/types";
-import { formatNumber, formatP } from "@/lib/analysis/format";
+import type { AnovaRow } from "@/lib/domain/stats";
+import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "@/lib/domain/analysis/types";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { SortableTable } from "./sortable-table";
 
 export type EntryLabel = (e: { blindCode: string; varietyName?: string | null }) => string;

@@ -1,8 +1,8 @@
 "use client";
 import { useEffect, useMemo, useState } from "react";
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { AnalysisSettings, ViewerAnalysis } from "@/lib/analysis/types";
-import { formatNumber, formatP } from "@/lib/analysis/format";
+import type { AnalysisSettings, ViewerAnalysis } from "@/lib/domain/analysis/types";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { buttonClasses } from "@/components/ui/button";

@@ -1,8 +1,8 @@
 "use client";
 import { startTransition, useActionState, useEffect, useRef, useState } from "react";
 import { useQueryClient } from "@tanstack/react-query";
-import { excludeFromAnalysis, includeInAnalysis } from "@/lib/actions/exclusions";
-import type { AnalysisPayload } from "@/lib/analysis/types";
+import { excludeFromAnalysis, includeInAnalysis } from "@/server/actions/exclusions";
+import type { AnalysisPayload } from "@/lib/domain/analysis/types";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { Button } from "@/components/ui/button";

@@ -1,8 +1,8 @@
 "use client";
 import { useActionState, useEffect } from "react";
 import { useQueryClient } from "@tanstack/react-query";
-import { shareSiteResults } from "@/lib/actions/exclusions";
-import type { SiteChoice } from "@/lib/analysis/types";
+import { shareSiteResults } from "@/server/actions/exclusions";
+import type { SiteChoice } from "@/lib/domain/analysis/types";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
 

@@ -3,7 +3,7 @@ import { useActionState } from "react";
 import { TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { acceptInvite, requestPasswordReset, resetPassword } from "@/lib/actions/auth";
+import { acceptInvite, requestPasswordReset, resetPassword } from "@/server/actions/auth";
 
 export function ForgotPasswordForm() {
   const [state, action] = useActionState(requestPasswordReset, null);

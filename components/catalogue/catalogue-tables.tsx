@@ -4,8 +4,8 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { Badge } from "@/components/ui/badge";
 import type { CropRow, SeedLotRow, TraitRow, VarietyRow } from "@/db/queries/catalogue";
-import { COMPUTATION_LABELS, CROP_GROUP_LABELS, TRAIT_TYPE_LABELS } from "@/lib/labels";
-import { removeCrop, removeSeedLot, removeTrait, removeVariety } from "@/lib/actions/catalogue";
+import { COMPUTATION_LABELS, CROP_GROUP_LABELS, TRAIT_TYPE_LABELS } from "@/lib/domain/vocabulary/labels";
+import { removeCrop, removeSeedLot, removeTrait, removeVariety } from "@/server/actions/catalogue";
 import { CropForm, SeedLotForm, TraitForm, VarietyForm } from "./catalogue-forms";
 import { RowActions, TableNotices } from "./row-actions";
 

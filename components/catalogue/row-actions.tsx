@@ -3,7 +3,7 @@ import { createContext, useActionState, useCallback, useContext, useState } from
 import { Button } from "@/components/ui/button";
 import { Dialog } from "@/components/ui/dialog";
 import { SubmitButton } from "@/components/ui/submit-button";
-import type { ActionResult } from "@/lib/actions/result";
+import type { ActionResult } from "@/lib/validation/action-result";
 
 interface Notice {
   ok: boolean;

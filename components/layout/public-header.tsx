@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { Logo } from "./logo";
 import { NavLink } from "./nav-link";
-import { getViewer } from "@/lib/auth/guards";
+import { getViewer } from "@/server/auth/guards";
 
 const LINK = "font-semibold";
 const CURRENT = "underline decoration-sprout-600 decoration-[3px] underline-offset-8";

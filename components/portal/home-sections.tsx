@@ -1,11 +1,11 @@
 import Link from "next/link";
 import { Card } from "@/components/ui/card";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
-import { formatDate, ROLE_LABELS, SETUP_LABELS, STATUS_LABELS } from "@/lib/labels";
+import { formatDate, ROLE_LABELS, SETUP_LABELS, STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import type { listUsersForAdmin } from "@/db/queries/users";
 import type { listMyLayouts } from "@/db/queries/trials";
-import type { TrialStatus } from "@/db/schema/enums";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
   draft: "neutral",

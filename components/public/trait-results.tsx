@@ -1,6 +1,6 @@
 "use client";
-import type { PublicTraitView } from "@/lib/publish/public-view";
-import { formatNumber, formatP } from "@/lib/analysis/format";
+import type { PublicTraitView } from "@/lib/domain/publish/public-view";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { InteractionChart, MeansChart } from "@/components/analysis/analysis-charts";
 import { MeansTable } from "@/components/analysis/analysis-tables";
 

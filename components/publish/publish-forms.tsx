@@ -3,7 +3,7 @@ import { useActionState } from "react";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { publishTrial, unpublishTrial } from "@/lib/actions/publish";
+import { publishTrial, unpublishTrial } from "@/server/actions/publish";
 
 export function PublishForm({ trialId, traits, nextVersion }: { trialId: number; traits: { id: number; name: string }[]; nextVersion: number }) {
   const [state, action] = useActionState(publishTrial, null);

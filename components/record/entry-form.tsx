@@ -1,11 +1,11 @@
 "use client";
 
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { cn } from "@/lib/cn";
-import { describeRange, type EntryColumn } from "@/lib/observations/columns";
-import { parseCell } from "@/lib/observations/values";
+import { cn } from "@/components/ui/cn";
+import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
+import { parseCell } from "@/lib/domain/observations/values";
 import { Button } from "@/components/ui/button";
-import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/observations/missing";
+import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 
 export interface EntryPlot {
   id: number;

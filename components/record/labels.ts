@@ -1,5 +1,5 @@
 import type { BadgeTone } from "@/components/ui/badge";
-import type { SubmissionStatus } from "@/db/schema/enums";
+import type { SubmissionStatus } from "@/lib/domain/vocabulary/enums";
 
 export const SUBMISSION_LABELS: Record<SubmissionStatus, string> = {
   draft: "Being recorded",

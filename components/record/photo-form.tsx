@@ -3,7 +3,7 @@ import { useState } from "react";
 import { useRouter } from "next/navigation";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextField } from "@/components/ui/field";
-import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/domain/request-limits";
 
 /** Attach a photo to a plot or the whole site visit. GPS is removed unless the grower ticks the box. */
 export function PhotoForm({ trialId, siteId, plots, defaultPlot }: { trialId: number; siteId: number; plots: { id: number; plotCode: string }[]; defaultPlot?: number }) {

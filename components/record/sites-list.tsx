@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { Badge } from "@/components/ui/badge";
-import { formatDate } from "@/lib/labels";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
 import type { listRecordableSites } from "@/db/queries/observations";
 

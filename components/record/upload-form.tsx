@@ -4,7 +4,7 @@ import { useRef, useState } from "react";
 import Link from "next/link";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
-import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/http/limits";
+import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/domain/request-limits";
 
 interface Problem {
   row: number | null;

@@ -3,7 +3,7 @@ import { useActionState } from "react";
 import { SelectField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { acceptSubmission, addReviewComment, returnSubmission, submitForReview } from "@/lib/actions/review";
+import { acceptSubmission, addReviewComment, returnSubmission, submitForReview } from "@/server/actions/review";
 
 interface Site {
   trialId: number;

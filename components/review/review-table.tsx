@@ -1,9 +1,9 @@
 import Link from "next/link";
-import { cn } from "@/lib/cn";
+import { cn } from "@/components/ui/cn";
 import { Badge } from "@/components/ui/badge";
-import { displayValue } from "@/lib/observations/values";
-import { MISSING_REASON_LABELS, MISSING_REASON_WORDS } from "@/lib/observations/missing";
-import { formatDate } from "@/lib/labels";
+import { displayValue } from "@/lib/domain/observations/values";
+import { MISSING_REASON_LABELS, MISSING_REASON_WORDS } from "@/lib/domain/observations/missing";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
 import type { ReviewSheet, listReviewQueue } from "@/db/queries/review";
 

@@ -3,9 +3,9 @@ import { useActionState } from "react";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { createSite } from "@/lib/actions/sites";
-import { GROWING_SETUPS, SITE_KINDS } from "@/db/schema/enums";
-import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/labels";
+import { createSite } from "@/server/actions/sites";
+import { GROWING_SETUPS, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/domain/vocabulary/labels";
 import { ProgramField } from "@/components/portal/program-field";
 import type { ProgramOption } from "@/db/queries/programs";
 

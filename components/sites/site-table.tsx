@@ -3,7 +3,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { Badge } from "@/components/ui/badge";
 import type { SiteRow } from "@/db/queries/sites";
-import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/labels";
+import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/domain/vocabulary/labels";
 
 const columns: ColumnDef<SiteRow, unknown>[] = [
   { accessorKey: "name", header: "Site", cell: (c) => <span className="font-semibold">{c.row.original.name}</span> },

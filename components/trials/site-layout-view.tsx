@@ -1,7 +1,7 @@
 import type { LayoutPlot } from "@/db/queries/trials";
-import type { PlotUnit } from "@/db/schema/enums";
-import { cn } from "@/lib/cn";
-import type { Caution } from "@/lib/design/cautions";
+import type { PlotUnit } from "@/lib/domain/vocabulary/enums";
+import { cn } from "@/components/ui/cn";
+import type { Caution } from "@/lib/domain/design/cautions";
 
 const shade = (block: number) => (block % 2 === 0 ? "bg-husk-100" : "bg-white");
 

@@ -1,5 +1,5 @@
 import type { BadgeTone } from "@/components/ui/badge";
-import type { TrialStatus } from "@/db/schema/enums";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 export const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
   draft: "neutral",

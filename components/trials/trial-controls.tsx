@@ -4,10 +4,10 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { CheckboxField } from "@/components/ui/checkbox-field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { addEntry, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/lib/actions/trials";
+import { addEntry, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
 import { useRefetchTrialAfter } from "./trial-data";
-import type { TrialStatus } from "@/db/schema/enums";
-import { STATUS_LABELS } from "@/lib/labels";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
 
 export function AddEntryForm({ trialId, varieties }: { trialId: number; varieties: { id: number; name: string; lots: { id: number; label: string }[] }[] }) {
   const [state, action] = useActionState(addEntry, null);

@@ -2,8 +2,8 @@
 import { useEffect, useRef } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import type { SiteLayout, TrialDetail } from "@/db/queries/trials";
-import type { ActionResult } from "@/lib/actions/result";
-import type { Jsonified } from "@/lib/json";
+import type { ActionResult } from "@/lib/validation/action-result";
+import type { Jsonified } from "@/lib/domain/json";
 
 // The coordinator's trial page reads its entries, sites and layouts from the JSON API, so a change made
 // by a form on the page shows up by refetching rather than by reloading the page.

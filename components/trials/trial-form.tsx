@@ -3,9 +3,9 @@ import { useActionState, useState } from "react";
 import { TextField, SelectField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { createTrial, editTrial } from "@/lib/actions/trials";
-import { PLOT_UNITS, TRIAL_DESIGNS } from "@/db/schema/enums";
-import { DESIGN_LABELS, PLOT_UNIT_LABELS } from "@/lib/labels";
+import { createTrial, editTrial } from "@/server/actions/trials";
+import { PLOT_UNITS, TRIAL_DESIGNS } from "@/lib/domain/vocabulary/enums";
+import { DESIGN_LABELS, PLOT_UNIT_LABELS } from "@/lib/domain/vocabulary/labels";
 
 interface Options {
   seasons: { id: number; name: string; program: string }[];

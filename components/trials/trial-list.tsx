@@ -3,7 +3,7 @@ import Link from "next/link";
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { Badge } from "@/components/ui/badge";
-import { STATUS_LABELS } from "@/lib/labels";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { listTrialsForViewer } from "@/db/queries/overview";
 import { STATUS_TONE } from "./status-tone";
 

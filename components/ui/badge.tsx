@@ -1,4 +1,4 @@
-import { cn } from "@/lib/cn";
+import { cn } from "@/components/ui/cn";
 
 export type BadgeTone = "neutral" | "good" | "warn" | "bad" | "info";
 

@@ -1,5 +1,5 @@
 import type { ButtonHTMLAttributes } from "react";
-import { cn } from "@/lib/cn";
+import { cn } from "@/components/ui/cn";
 
 export type ButtonVariant = "primary" | "secondary" | "danger" | "ghost";
 

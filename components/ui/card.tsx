@@ -1,4 +1,4 @@
-import { cn } from "@/lib/cn";
+import { cn } from "@/components/ui/cn";
 
 export function Card({ title, children, className, actions }: { title?: string; children: React.ReactNode; className?: string; actions?: React.ReactNode }) {
   return (

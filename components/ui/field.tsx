@@ -1,5 +1,5 @@
 import type { InputHTMLAttributes, SelectHTMLAttributes } from "react";
-import { cn } from "@/lib/cn";
+import { cn } from "@/components/ui/cn";
 
 const inputClasses = (invalid: boolean) =>
   cn(

@@ -1,4 +1,4 @@
-import type { ActionResult } from "@/lib/actions/result";
+import type { ActionResult } from "@/lib/validation/action-result";
 
 /** Form-level outcome in a polite live region, so screen readers hear it after submit. */
 export function FormMessage({ state }: { state: ActionResult | null }) {

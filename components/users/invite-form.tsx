@@ -3,7 +3,7 @@ import { useActionState } from "react";
 import { TextField, SelectField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { inviteCooperator } from "@/lib/actions/users";
+import { inviteCooperator } from "@/server/actions/users";
 
 export function InviteForm({ sites }: { sites: { id: number; name: string }[] }) {
   const [state, action] = useActionState(inviteCooperator, null);

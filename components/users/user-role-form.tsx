@@ -1,8 +1,8 @@
 "use client";
 import { useActionState } from "react";
-import { changeUserRole, setUserActive } from "@/lib/actions/users";
-import { ROLE_LABELS } from "@/lib/labels";
-import { ROLES, type Role } from "@/db/schema/enums";
+import { changeUserRole, setUserActive } from "@/server/actions/users";
+import { ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
+import { ROLES, type Role } from "@/lib/domain/vocabulary/enums";
 
 /** Inline controls on one user row: change the role, or deactivate/reactivate the account. */
 export function UserRowControls({ userId, role, active, name }: { userId: number; role: Role; active: boolean; name: string }) {

@@ -5,7 +5,7 @@ import { crops, enrolments, observations, seedLots, trialEntries, trialTraits, t
 import { insertAudit } from "../audit";
 import { cropUsedByOtherPrograms, isDuplicateKey, programScope, requireStaff, resolveProgram, staffTrialScope, staffVarietyScope } from "../access";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import type { z } from "zod";
 import type { cropSchema, seedLotSchema, traitSchema, varietySchema } from "@/lib/validation/catalogue";
 

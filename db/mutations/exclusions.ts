@@ -5,7 +5,7 @@ import { analysisExclusions, enrolments, plots, trialTraits } from "../schema";
 import { insertAudit } from "../audit";
 import { lockTrialForStaff } from "../access";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 /**
  * Leaves a site or a plot out of a trial's analyses (all traits, or one) with the coordinator's

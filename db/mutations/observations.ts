@@ -4,11 +4,11 @@ import { db, type Tx } from "../index";
 import { auditLog, observationHistory, observations, submissions } from "../schema";
 import { getRecordableEnrolment, listEnrolmentObservations, listEnrolmentPlots, listTrialColumns, type RecordableEnrolment } from "../queries/observations";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
-import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/observations/values";
-import type { MissingReason } from "@/lib/observations/missing";
-import type { EntryColumn } from "@/lib/observations/columns";
-import { todayIso } from "@/lib/schedule";
+import type { Viewer } from "@/lib/domain/viewer";
+import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
+import type { MissingReason } from "@/lib/domain/observations/missing";
+import type { EntryColumn } from "@/lib/domain/observations/columns";
+import { todayIso } from "@/lib/domain/schedule";
 
 /**
  * One value to record: the plot by id (forms) or by its label code (spreadsheets). `row` names a spreadsheet

@@ -5,7 +5,7 @@ import { photos, plots } from "../schema";
 import { getRecordableEnrolment } from "../queries/observations";
 import { insertAudit } from "../audit";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 export interface PhotoTarget {
   trialId: number;

@@ -6,8 +6,8 @@ import { lockTrialForStaff } from "../access";
 import { insertAudit } from "../audit";
 import { insertMail, type OutgoingMail } from "./mail";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
-import type { PublishedSnapshot } from "@/lib/publish/types";
+import type { Viewer } from "@/lib/domain/viewer";
+import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 
 /**
  * Stores a new published version: the next version number, the frozen snapshot, the trial marked

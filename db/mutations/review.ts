@@ -7,11 +7,11 @@ import { listReminderTargets } from "../queries/review";
 import { insertAudit } from "../audit";
 import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
-import type { SubmissionStatus } from "../schema/enums";
-import { dataAcceptedMail, dataReturnedMail, reminderMail, submissionReceivedMail } from "@/lib/observations/mails";
-import { addDays, todayIso } from "@/lib/schedule";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
+import type { SubmissionStatus } from "@/lib/domain/vocabulary/enums";
+import { dataAcceptedMail, dataReturnedMail, reminderMail, submissionReceivedMail } from "@/lib/domain/mail/observation-mails";
+import { addDays, todayIso } from "@/lib/domain/schedule";
 
 interface Links {
   appUrl: string;

@@ -4,7 +4,7 @@ import { sites } from "../schema";
 import { insertAudit } from "../audit";
 import { isDuplicateKey, requireStaff, resolveProgram } from "../access";
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import type { z } from "zod";
 import type { siteSchema } from "@/lib/validation/sites";
 

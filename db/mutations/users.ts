@@ -2,13 +2,13 @@ import "server-only";
 import { and, eq, isNull, not, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
-import type { Role } from "../schema/enums";
+import type { Role } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
 import { requireStaff, staffSiteScope } from "../access";
 import { insertMail, type OutgoingMail } from "./mail";
 import { AppError } from "@/lib/errors";
-import { hashToken } from "@/lib/auth/tokens";
-import type { Viewer } from "@/lib/auth/types";
+import { hashToken } from "@/server/auth/tokens";
+import type { Viewer } from "@/lib/domain/viewer";
 
 const INVITE_DAYS = 7;
 const RESET_MINUTES = 60;

@@ -19,11 +19,11 @@ import {
   varieties,
 } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
-import type { AnalysisInput, InputTrait } from "@/lib/analysis/types";
-import { WITHHELD_REASON } from "@/lib/analysis/blind";
-import type { TrialStatus } from "../schema/enums";
+import type { Viewer } from "@/lib/domain/viewer";
+import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
+import type { AnalysisInput, InputTrait } from "@/lib/domain/analysis/types";
+import { WITHHELD_REASON } from "@/lib/domain/analysis/blind";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 // Staff read every site of their programs' trials; a cooperator reads only their own sites, and only
 // once a coordinator has shared that site's results (enrolments.results_shared), with blind codes only.

@@ -3,8 +3,8 @@ import { and, asc, count, eq, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, programs, seedLots, traits, varieties } from "../schema";
 import { programIdIn, programScope, staffVarietyScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
 
 // How many of the viewer's trials use an item, so the tables can say why a delete or an edit would be
 // refused; other programs' trials are never counted here. Written with explicit table names: Drizzle

@@ -3,11 +3,11 @@ import { and, asc, eq, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { enrolments, observations, plots, reviewComments, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { entryColumns, type EntryColumn } from "@/lib/observations/columns";
-import type { CellValue } from "@/lib/observations/values";
-import type { MissingReason } from "@/lib/observations/missing";
-import { scheduleForSite, todayIso } from "@/lib/schedule";
+import type { Viewer } from "@/lib/domain/viewer";
+import { entryColumns, type EntryColumn } from "@/lib/domain/observations/columns";
+import type { CellValue } from "@/lib/domain/observations/values";
+import type { MissingReason } from "@/lib/domain/observations/missing";
+import { scheduleForSite, todayIso } from "@/lib/domain/schedule";
 
 /** Enrolments the viewer may record for: a cooperator's own sites, or the trials a staff member manages. */
 export function recordScope(viewer: Viewer): SQL {

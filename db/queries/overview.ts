@@ -16,8 +16,8 @@ import {
   trials,
 } from "../schema";
 import { cooperatorEnrolmentScope, staffSiteScope, staffTrialScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { scheduleForSite, todayIso, type DueItem } from "@/lib/schedule";
+import type { Viewer } from "@/lib/domain/viewer";
+import { scheduleForSite, todayIso, type DueItem } from "@/lib/domain/schedule";
 
 /** Trials in the coordinator's programs with entry and site counts, newest season first. */
 export async function listTrialsForViewer(viewer: Viewer) {

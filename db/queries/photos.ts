@@ -3,7 +3,7 @@ import { and, desc, eq } from "drizzle-orm";
 import { db } from "../index";
 import { enrolments, photos, plots, trials } from "../schema";
 import { recordScope } from "./observations";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 /** Photos of one site in one trial, newest first, for the site's growers and the trial's staff. */
 export async function listSitePhotos(viewer: Viewer, p: { trialId: number; siteId: number }) {

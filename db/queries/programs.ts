@@ -3,8 +3,8 @@ import { asc } from "drizzle-orm";
 import { db } from "../index";
 import { programs } from "../schema";
 import { programScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
 
 /** Programs a new site, variety or trait may join: the coordinator's own, every program for admins. */
 export async function listProgramOptions(viewer: Viewer) {

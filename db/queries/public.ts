@@ -2,8 +2,8 @@ import "server-only";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "../index";
 import { publishedReports, trials } from "../schema";
-import type { PublishedSnapshot } from "@/lib/publish/types";
-import { toPublicSnapshot, type PublicSnapshot } from "@/lib/publish/public-shape";
+import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
 
 // Public reads come only from published snapshots, never from live tables, so nothing unpublished can
 // leak and later data changes cannot alter what was published. Every snapshot is turned into its public

@@ -4,8 +4,8 @@ import { db } from "../index";
 import { enrolments, publishedReports, sites, siteCooperators, traits, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
 
 /**
  * What a publication needs besides the analyses: trial facts, the sites' public descriptions (never

@@ -3,11 +3,11 @@ import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db } from "../index";
 import { auditLog, enrolments, observations, plots, reviewComments, sites, submissions, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
-import { flagValues } from "@/lib/observations/flags";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
+import { flagValues } from "@/lib/domain/observations/flags";
 import { getRecordableEnrolment, getRecordingSheet } from "./observations";
-import { todayIso } from "@/lib/schedule";
+import { todayIso } from "@/lib/domain/schedule";
 
 /**
  * Sites of the coordinator's trials that take data, with review state, completeness (values recorded of

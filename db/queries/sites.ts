@@ -3,8 +3,8 @@ import { asc, eq } from "drizzle-orm";
 import { db } from "../index";
 import { programs, siteCooperators, sites, users } from "../schema";
 import { staffSiteScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { isStaff } from "@/lib/domain/permissions";
 
 /** Partner sites of the viewer's programs with their growers, for staff managing the network. Contact details are staff-only. */
 export async function listSitesForStaff(viewer: Viewer) {

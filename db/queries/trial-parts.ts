@@ -3,7 +3,7 @@ import { and, asc, eq } from "drizzle-orm";
 import { db } from "../index";
 import { crops, programs, seasons, seedLots, trialEntries, trialTraits, traits, trials, varieties } from "../schema";
 import { staffTrialScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 // Building blocks shared by the trial page, publishing and analysis queries. Callers check the
 // viewer's role first; `findStaffTrial` also scopes the trial to the viewer's programs.

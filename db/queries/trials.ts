@@ -4,8 +4,8 @@ import { db } from "../index";
 import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, programScope, staffTrialScope, trialProgress } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
-import type { Viewer } from "@/lib/auth/types";
-import { canSeeBlindKey, isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 
 /**
  * Seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'

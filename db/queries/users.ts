@@ -2,11 +2,11 @@ import "server-only";
 import { and, asc, count, eq, gt, isNull, sql } from "drizzle-orm";
 import { db } from "../index";
 import { siteCooperators, sites, users, userTokens } from "../schema";
-import type { TokenKind } from "../schema/enums";
+import type { TokenKind } from "@/lib/domain/vocabulary/enums";
 import { staffSiteScope } from "../access";
-import type { Viewer } from "@/lib/auth/types";
-import { hashToken } from "@/lib/auth/tokens";
-import { isStaff } from "@/lib/auth/permissions";
+import type { Viewer } from "@/lib/domain/viewer";
+import { hashToken } from "@/server/auth/tokens";
+import { isStaff } from "@/lib/domain/permissions";
 
 /** Credentials row for the sign-in check only; the hash never leaves the auth module. */
 export async function getSignInRecord(email: string) {

@@ -1,6 +1,6 @@
 import { boolean, date, decimal, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
-import { CROP_GROUPS } from "./enums";
+import { CROP_GROUPS } from "@/lib/domain/vocabulary/enums";
 import { programs } from "./programs";
 
 /** Crops are one list shared by every program; what a program grows is its own varieties. */

@@ -1,4 +1,4 @@
-export * from "./enums";
+export * from "@/lib/domain/vocabulary/enums";
 export * from "./users";
 export * from "./programs";
 export * from "./sites";

@@ -1,6 +1,6 @@
 import { index, int, mediumtext, mysqlEnum, mysqlTable, text, timestamp, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id } from "./columns";
-import { MAIL_STATUSES } from "./enums";
+import { MAIL_STATUSES } from "@/lib/domain/vocabulary/enums";
 
 /**
  * Outgoing mail. Every message is written here in the same transaction as the action that caused it,

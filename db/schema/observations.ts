@@ -1,6 +1,6 @@
 import { date, decimal, index, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { MISSING_REASONS } from "./enums";
+import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
 import { traits } from "./traits";
 import { plots } from "./trials";
 import { users } from "./users";

@@ -1,6 +1,6 @@
 import { decimal, index, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { GROWING_SETUPS, SITE_KINDS } from "./enums";
+import { GROWING_SETUPS, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
 import { users } from "./users";
 import { programs } from "./programs";
 

@@ -1,6 +1,6 @@
 import { index, mysqlEnum, mysqlTable, text, timestamp, uniqueIndex } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { SUBMISSION_STATUSES } from "./enums";
+import { SUBMISSION_STATUSES } from "@/lib/domain/vocabulary/enums";
 import { observations } from "./observations";
 import { enrolments, plots } from "./trials";
 import { users } from "./users";

@@ -1,6 +1,6 @@
 import { boolean, decimal, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
-import { TRAIT_COMPUTATIONS, TRAIT_TYPES } from "./enums";
+import { TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/lib/domain/vocabulary/enums";
 import { programs } from "./programs";
 
 /**

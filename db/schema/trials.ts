@@ -1,6 +1,6 @@
 import { boolean, date, index, int, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "./enums";
+import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
 import { crops, seedLots, varieties } from "./catalogue";
 import { programs, seasons } from "./programs";
 import { traits } from "./traits";

@@ -1,6 +1,6 @@
 import { boolean, index, int, mysqlEnum, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { ROLES, TOKEN_KINDS } from "./enums";
+import { ROLES, TOKEN_KINDS } from "@/lib/domain/vocabulary/enums";
 
 export const users = mysqlTable(
   "users",

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { CROP_GROUPS, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/db/schema/enums";
+import { CROP_GROUPS, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/lib/domain/vocabulary/enums";
 import { blankToUndefined, checkbox, id, optionalId, optionalIsoDate, optionalNumber, optionalText, requiredText } from "./common";
 
 // A new variety or trait joins the program chosen on the form; the field is left out when the viewer runs

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { idParam } from "./common";
-import { MISSING_REASONS } from "@/db/schema/enums";
-import { VALUE_AND_REASON_MESSAGE } from "@/lib/observations/values";
+import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
+import { VALUE_AND_REASON_MESSAGE } from "@/lib/domain/observations/values";
 
 // Requests from the data-entry form and the review page. Values stay strings here: how a string becomes a
 // count, date or rating depends on the trait, which lib/observations/values.ts decides with the trait row.

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { GROWING_SETUPS, SITE_KINDS } from "@/db/schema/enums";
+import { GROWING_SETUPS, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
 import { optionalId, optionalNumber, optionalText, requiredText } from "./common";
 
 export const siteSchema = z

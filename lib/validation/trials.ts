@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/db/schema/enums";
+import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
 import { checkbox, id, isoDate, optionalId, optionalIsoDate, optionalText, requiredText } from "./common";
 
 /** Trait checkboxes are named `trait_<id>`; they are gathered into one ordered list. */

@@ -1,6 +1,6 @@
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
-import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/publish/public-shape";
-import { formatNumber, formatP } from "@/lib/analysis/format";
+import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/domain/publish/public-shape";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { ACCENT, INK, RULE, SHADE, base } from "../shared/pdf";
 import { MeansChart } from "./means-chart";
 

@@ -1,5 +1,5 @@
 import { G, Line, Rect, Svg, Text as SvgText } from "@react-pdf/renderer";
-import type { PublicMean } from "@/lib/publish/public-shape";
+import type { PublicMean } from "@/lib/domain/publish/public-shape";
 
 // Horizontal bars with ±1 SE whiskers, drawn as vector shapes in greys and black so the chart reads
 // the same when printed in black and white. The check variety gets a hatched-looking darker bar.

@@ -1,6 +1,6 @@
 import { renderToBuffer } from "@react-pdf/renderer";
 import { createElement } from "react";
-import type { PublicSnapshot } from "@/lib/publish/public-shape";
+import type { PublicSnapshot } from "@/lib/domain/publish/public-shape";
 import { registerFonts } from "../shared/pdf";
 import { TrialReport, type SectionPages } from "./document";
 

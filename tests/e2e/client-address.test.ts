@@ -2,9 +2,9 @@
 // writes. Each test is a client of its own on a loopback address of its own (see helpers/from-address).
 import { afterAll, describe, expect, it } from "vitest";
 import { createDatabase } from "@/db/client";
-import { hashPassword } from "@/lib/auth/password";
-import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "@/lib/auth/messages";
-import { MAX_FAILURES_PER_ADDRESS } from "@/lib/auth/throttle";
+import { hashPassword } from "@/server/auth/password";
+import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "@/lib/domain/sign-in-messages";
+import { MAX_FAILURES_PER_ADDRESS } from "@/server/auth/throttle";
 import { madeUpAddress, signInFrom, spareLoopbackAddress } from "../helpers/from-address";
 
 const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);

@@ -3,7 +3,7 @@ import type { Browser } from "playwright-core";
 import sharp from "sharp";
 import { createDatabase } from "@/db/client";
 import { DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
-import { CROSS_SITE_MESSAGE } from "@/lib/http/origin";
+import { CROSS_SITE_MESSAGE } from "@/server/http/origin";
 import type { SampleIds } from "./access-matrix";
 import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
 import { httpSession, request, type HttpSession } from "../helpers/http";

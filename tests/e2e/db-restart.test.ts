@@ -15,7 +15,7 @@ import { createDatabase } from "@/db/client";
 import { runMigrations } from "@/db/migrate";
 import { DEMO_PASSWORDS } from "@/db/demo-data";
 import { DB_UNAVAILABLE_MESSAGE } from "@/lib/errors";
-import { SIGN_IN_UNAVAILABLE } from "@/lib/auth/messages";
+import { SIGN_IN_UNAVAILABLE } from "@/lib/domain/sign-in-messages";
 import { startPrivateMariadb } from "../helpers/private-mariadb";
 import { sparePort } from "../helpers/ports";
 import { launchBrowser } from "../helpers/browser";

@@ -3,9 +3,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 import { createDatabase } from "@/db/client";
-import { hashPassword } from "@/lib/auth/password";
-import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "@/lib/auth/messages";
-import { MAX_FAILURES_PER_ADDRESS } from "@/lib/auth/throttle";
+import { hashPassword } from "@/server/auth/password";
+import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "@/lib/domain/sign-in-messages";
+import { MAX_FAILURES_PER_ADDRESS } from "@/server/auth/throttle";
 import { startAppServer, type AppServer } from "../helpers/app-server";
 import { madeUpAddress, requestFrom, signInFrom, spareLoopbackAddress } from "../helpers/from-address";
 

@@ -1,12 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createDatabase } from "@/db/client";
 import { DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
-import { seededRandom } from "@/lib/design/random";
+import { seededRandom } from "@/lib/domain/design/random";
 import type { SampleIds } from "./access-matrix";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { loadSampleIds } from "../helpers/samples";
 import { UPLOAD_CORPUS } from "../helpers/bad-uploads";
-import { parseCsv } from "@/lib/spreadsheets/csv";
+import { parseCsv } from "@/lib/domain/spreadsheets/csv";
 
 // Generated malformed requests against the JSON APIs and the upload endpoints. Every answer must be a 4xx
 // with a readable message, and the database must be exactly as before.

@@ -2,8 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser } from "playwright-core";
 import { createDatabase } from "@/db/client";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
-import { hashPassword } from "@/lib/auth/password";
-import { SIGN_IN_THROTTLED } from "@/lib/auth/messages";
+import { hashPassword } from "@/server/auth/password";
+import { SIGN_IN_THROTTLED } from "@/lib/domain/sign-in-messages";
 import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { credentialsSignIn, httpSession, request } from "../helpers/http";
 

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { createDatabase } from "@/db/client";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/server/auth/password";
 import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { oneTimeLink, waitForMailTo } from "../helpers/captured-mail";

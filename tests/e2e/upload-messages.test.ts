@@ -4,7 +4,7 @@ import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { UPLOAD_CORPUS, type CorpusContext } from "../helpers/bad-uploads";
-import { parseCsv } from "@/lib/spreadsheets/csv";
+import { parseCsv } from "@/lib/domain/spreadsheets/csv";
 
 // A grower on a phone uploads sheets the corpus says must be refused and reads what the page tells them.
 

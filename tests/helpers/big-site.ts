@@ -1,7 +1,7 @@
 import { inArray } from "drizzle-orm";
 import * as s from "@/db/schema";
 import type { Database } from "@/db/client";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 /**
  * A throwaway trial with one site of `plots` plots (10 entries, plots/10 blocks) recording seeds sown,

@@ -1,6 +1,6 @@
 // Mail the e2e server sent, read straight from the fake SMTP server's capture directory (as the demo
 // operator does with `npm run mailbox`); the web Test mailbox shows each person only their own.
-import { readCapturedMail, type CapturedMail } from "@/lib/mail/captured-mail";
+import { readCapturedMail, type CapturedMail } from "@/server/mail/captured-mail";
 
 /** Captured messages to `address` (oldest first), waiting until at least `count` have arrived. */
 export async function waitForMailTo(address: string, options: { subject?: RegExp; count?: number; timeoutMs?: number } = {}): Promise<CapturedMail[]> {

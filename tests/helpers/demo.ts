@@ -1,7 +1,7 @@
 import { and, eq, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import type { Database } from "@/db/client";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 /** A demo person as the app sees them after sign-in. */
 export async function demoViewer(db: Database, email: string): Promise<Viewer> {

@@ -2,7 +2,7 @@
 // request session, so a test sets `testAuth.viewer` and the handlers' guards read it. Use it with
 //   vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
 import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 
 export const testAuth: { viewer: Viewer | null } = { viewer: null };
 

@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { listLateSites, listMySchedules, listMySites, listSiteOptions, listTrialsForViewer } from "@/db/queries/overview";
 import { countUsersByRole, getActiveViewer, listCooperators, listUsersForAdmin } from "@/db/queries/users";
 import { pool as appPool } from "@/db/index";

@@ -2,12 +2,12 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { Viewer } from "@/lib/domain/viewer";
+import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import { testDatabase } from "../helpers/db";
 import { DEMO_STAFF } from "@/db/demo-data";
 
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 
 const { GET: getAnalysis } = await import("@/app/api/trials/[trialId]/analysis/route");

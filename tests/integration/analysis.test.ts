@@ -1,14 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import { anovaMultiSite, anovaRcbd, lsd, type MultiSitePlot } from "@/lib/stats";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { Viewer } from "@/lib/domain/viewer";
+import { anovaMultiSite, anovaRcbd, lsd, type MultiSitePlot } from "@/lib/domain/stats";
+import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import { testDatabase, unique } from "../helpers/db";
 import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 // The route handler's guard reads the session; tests set the viewer directly instead.
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
@@ -293,8 +293,8 @@ describe("who may read an analysis", () => {
 describe("variety history", () => {
   it("shows staff of the program where a variety ranked, and nobody else", async () => {
     const { getVarietyHistory } = await import("@/db/queries/analysis");
-    const { loadAnalysis } = await import("@/lib/analysis-service");
-    const { standingOf } = await import("@/lib/analysis/history");
+    const { loadAnalysis } = await import("@/server/analysis/load-analysis");
+    const { standingOf } = await import("@/lib/domain/analysis/history");
     const [variety] = await db.select({ id: s.varieties.id }).from(s.varieties).where(eq(s.varieties.name, "Copper Ruffle"));
     const history = await getVarietyHistory(coordinator, variety!.id);
     expect(history!.trials.map((t) => t.trialCode)).toContain("TV26-LET");

@@ -2,8 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { testDatabase, unique } from "../helpers/db";
 import { writeCounts } from "../helpers/demo";
 import { bigSiteCsv, insertBigSite } from "../helpers/big-site";
-import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
-import { addDays, todayIso } from "@/lib/schedule";
+import { commitUpload, previewUpload } from "@/server/spreadsheets/upload";
+import { addDays, todayIso } from "@/lib/domain/schedule";
 
 const { db, pool } = testDatabase();
 let site: Awaited<ReturnType<typeof insertBigSite>>;

@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import type { ViewerAnalysis } from "@/lib/analysis/types";
+import type { Viewer } from "@/lib/domain/viewer";
+import type { ViewerAnalysis } from "@/lib/domain/analysis/types";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer } from "../helpers/demo";
 import { DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
@@ -11,11 +11,11 @@ import { DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 // nothing in it may tell which blind code is which variety: not the check flag, label germination, seed
 // lots or sources, the coordinator's entry order, or a coordinator's note that names a variety.
 
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
 const { insertExclusion, deleteExclusion, updateResultsShared } = await import("@/db/mutations/exclusions");
-const { loadAnalysisView } = await import("@/lib/analysis-service");
+const { loadAnalysisView } = await import("@/server/analysis/load-analysis");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();

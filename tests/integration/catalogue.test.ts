@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import {
   deleteCrop,
   deleteSeedLot,

@@ -3,7 +3,7 @@ import { asc, eq } from "drizzle-orm";
 import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
 import { DEMO_TRIALS } from "@/db/demo-data";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
 import { insertSite } from "@/db/mutations/sites";
 import { insertVariety } from "@/db/mutations/catalogue";

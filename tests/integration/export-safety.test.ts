@@ -2,9 +2,9 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq, inArray } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import { parseCsv } from "@/lib/spreadsheets/csv";
-import { restoreText } from "@/lib/spreadsheets/write";
+import type { Viewer } from "@/lib/domain/viewer";
+import { parseCsv } from "@/lib/domain/spreadsheets/csv";
+import { restoreText } from "@/lib/domain/spreadsheets/write";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer } from "../helpers/demo";
 import { DEMO_STAFF } from "@/db/demo-data";
@@ -18,14 +18,14 @@ const HOSTILE: Record<string, string> = {
 };
 const NOTES = ["Ember;=1+1", "-2 plants; =HYPERLINK(\"http://evil.example/\")", "@SUM(1)"];
 
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET: analysisExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
 const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/lib/publish/build");
-const { csvExportForViewer, templateForViewer } = await import("@/lib/spreadsheets/files");
-const { saveObservationsForViewer } = await import("@/lib/observations/api");
+const { buildSnapshot } = await import("@/server/publish/build");
+const { csvExportForViewer, templateForViewer } = await import("@/server/spreadsheets/files");
+const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();

@@ -16,7 +16,7 @@ import { bigSiteCsv, insertBigSite } from "../helpers/big-site";
 import { sparePort } from "../helpers/ports";
 import { unique } from "../helpers/db";
 import { startFakeSmtp } from "../../scripts/fake-smtp";
-import { addDays, todayIso } from "@/lib/schedule";
+import { addDays, todayIso } from "@/lib/domain/schedule";
 
 const base = process.env.TEST_DATABASE_URL ?? process.env.DATABASE_URL ?? "";
 if (!/seedplot_test/.test(base)) throw new Error("Fault tests need TEST_DATABASE_URL pointing at seedplot_test (run scripts/test.sh).");
@@ -31,8 +31,8 @@ let smtpPort: number;
 let app: {
   appPool: typeof import("@/db/index").pool;
   insertPasswordReset: typeof import("@/db/mutations/users").insertPasswordReset;
-  deliverSoon: typeof import("@/lib/mail/outbox").deliverSoon;
-  deliverPendingMail: typeof import("@/lib/mail/outbox").deliverPendingMail;
+  deliverSoon: typeof import("@/server/mail/outbox").deliverSoon;
+  deliverPendingMail: typeof import("@/server/mail/outbox").deliverPendingMail;
   claimPendingMail: typeof import("@/db/mutations/mail").claimPendingMail;
 };
 
@@ -48,7 +48,7 @@ beforeAll(async () => {
   const [index, users, outbox, mail] = await Promise.all([
     import("@/db/index"),
     import("@/db/mutations/users"),
-    import("@/lib/mail/outbox"),
+    import("@/server/mail/outbox"),
     import("@/db/mutations/mail"),
   ]);
   app = {

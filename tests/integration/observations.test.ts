@@ -4,10 +4,10 @@ import { refusal } from "../helpers/refusal";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import { saveObservationsForViewer } from "@/lib/observations/api";
+import type { Viewer } from "@/lib/domain/viewer";
+import { saveObservationsForViewer } from "@/server/observations/recording";
 import { getPlotRecordTarget, getRecordingSheet, listRecordableSites } from "@/db/queries/observations";
-import { parseDateText, parseNumberText } from "@/lib/observations/values";
+import { parseDateText, parseNumberText } from "@/lib/domain/observations/values";
 
 const { db, pool } = testDatabase();
 let mei: Viewer;

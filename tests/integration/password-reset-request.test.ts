@@ -7,7 +7,7 @@ import { mkdtempSync, promises as fs } from "node:fs";
 import { tmpdir } from "node:os";
 import { eq, inArray, like, or } from "drizzle-orm";
 import * as s from "@/db/schema";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/server/auth/password";
 import { pool as appPool } from "@/db/index";
 import { testDatabase, unique } from "../helpers/db";
 import { startFakeSmtp } from "../../scripts/fake-smtp";
@@ -18,10 +18,10 @@ vi.mock("next/server", async (importOriginal) => ({
   ...(await importOriginal<typeof import("next/server")>()),
   after: (task: () => unknown) => void afterResponse.push(task),
 }));
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 
-const { requestPasswordReset } = await import("@/lib/actions/auth");
-const { runAsClientAddress } = await import("@/lib/auth/request-address");
+const { requestPasswordReset } = await import("@/server/actions/auth");
+const { runAsClientAddress } = await import("@/server/auth/request-address");
 
 const { db, pool } = testDatabase();
 const smtpPort = Number(process.env.SMTP_PORT);

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { and, desc, eq, inArray, like } from "drizzle-orm";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 import { testDatabase, unique } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
@@ -13,12 +13,12 @@ import { refusal } from "../helpers/refusal";
 import { traitSchema } from "@/lib/validation/catalogue";
 
 // Actions and route handlers read the session through the guards; tests set the viewer instead.
-vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 vi.mock("next/cache", () => ({ revalidatePath: () => undefined }));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
-const { inviteCooperator } = await import("@/lib/actions/users");
+const { inviteCooperator } = await import("@/server/actions/users");
 const { GET: exportCsv } = await import("@/app/api/record/[trialId]/[siteId]/export/route");
-const { saveObservationsForViewer } = await import("@/lib/observations/api");
+const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { updatePasswordWithToken } = await import("@/db/mutations/users");
 const catalogue = await import("@/db/mutations/catalogue");
 const { insertEnrolment, insertTrial, insertTrialEntry, updateTrialDesign } = await import("@/db/mutations/trials");

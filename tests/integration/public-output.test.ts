@@ -6,7 +6,7 @@ import path from "node:path";
 import { and, eq, inArray } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { testDatabase } from "../helpers/db";
 import { demoViewer } from "../helpers/demo";
 import { DEMO_STAFF } from "@/db/demo-data";
@@ -21,7 +21,7 @@ const { GET: publicData } = await import("@/app/(public)/results/[code]/data/rou
 const { GET: publicReport } = await import("@/app/(public)/results/[code]/report/route");
 const { getPublicSite, getPublicVariety } = await import("@/db/queries/public");
 const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/lib/publish/build");
+const { buildSnapshot } = await import("@/server/publish/build");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();

@@ -8,9 +8,9 @@ import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
 import { insertPublishedReport, updateUnpublished } from "@/db/mutations/publish";
 import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/db/queries/public";
-import { buildSnapshot } from "@/lib/publish/build";
+import { buildSnapshot } from "@/server/publish/build";
 import { renderTrialReport } from "@/reports/trial-report/render";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 import { testDatabase } from "../helpers/db";
 

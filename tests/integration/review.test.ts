@@ -3,12 +3,12 @@ import { and, desc, eq, gt } from "drizzle-orm";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer } from "../helpers/demo";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import { saveObservationsForViewer } from "@/lib/observations/api";
+import type { Viewer } from "@/lib/domain/viewer";
+import { saveObservationsForViewer } from "@/server/observations/recording";
 import { insertDueReminders, insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/db/mutations/review";
 import { getReviewSheet, getSubmissionState, listReviewQueue } from "@/db/queries/review";
-import { flagValues } from "@/lib/observations/flags";
-import { entryColumns } from "@/lib/observations/columns";
+import { flagValues } from "@/lib/domain/observations/flags";
+import { entryColumns } from "@/lib/domain/observations/columns";
 
 const { db, pool } = testDatabase();
 const links = { appUrl: "http://seedplot.test" };

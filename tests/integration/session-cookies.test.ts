@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { createRequire } from "node:module";
 import path from "node:path";
-import { authOptions } from "@/lib/auth/config";
+import { authOptions } from "@/server/auth/config";
 import { pool } from "@/db/index";
 
 // next-auth's request core is not in its package exports; loading the file by path runs the same code the route runs.

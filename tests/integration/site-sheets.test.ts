@@ -5,14 +5,14 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
 import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
 import { insertSite } from "@/db/mutations/sites";
 import { getSiteLayout } from "@/db/queries/trials";
 import { createTrialSchema } from "@/lib/validation/trials";
 import { traitSchema } from "@/lib/validation/catalogue";
-import { buildSiteSheetData, plotPageUrl } from "@/lib/design/sheets";
+import { buildSiteSheetData, plotPageUrl } from "@/server/trials/sheets";
 import { renderSiteSheet } from "@/reports/site-sheets";
 
 const { db, pool } = testDatabase();

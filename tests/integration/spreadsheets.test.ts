@@ -7,12 +7,12 @@ import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import { UPLOAD_CORPUS, type CorpusContext } from "../helpers/bad-uploads";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
-import { csvExportForViewer, templateForViewer } from "@/lib/spreadsheets/files";
-import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
-import { parseCsv } from "@/lib/spreadsheets/csv";
-import { csvRow } from "@/lib/spreadsheets/write";
-import { saveObservationsForViewer } from "@/lib/observations/api";
+import type { Viewer } from "@/lib/domain/viewer";
+import { csvExportForViewer, templateForViewer } from "@/server/spreadsheets/files";
+import { commitUpload, previewUpload } from "@/server/spreadsheets/upload";
+import { parseCsv } from "@/lib/domain/spreadsheets/csv";
+import { csvRow } from "@/lib/domain/spreadsheets/write";
+import { saveObservationsForViewer } from "@/server/observations/recording";
 import { isAppError } from "@/lib/errors";
 
 const { db, pool } = testDatabase();

@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from "vitest";
-import { isThrottled, MAX_FAILURES_PER_ACCOUNT, recordAttempt } from "@/lib/auth/throttle";
+import { isThrottled, MAX_FAILURES_PER_ACCOUNT, recordAttempt } from "@/server/auth/throttle";
 import { pool } from "@/db/index";
 import { unique } from "../helpers/db";
 
@@ -26,7 +26,7 @@ describe("sign-in throttling", () => {
 
 describe("rate limits on mail-sending actions", () => {
   it("allows up to the limit per key within the window, then refuses", async () => {
-    const { consumeRateLimit } = await import("@/lib/auth/throttle");
+    const { consumeRateLimit } = await import("@/server/auth/throttle");
     const target = unique("invite-to");
     const limits = [{ key: target, max: 3 }];
     expect(await consumeRateLimit(limits, 60)).toBe(true);

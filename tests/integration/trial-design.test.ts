@@ -2,15 +2,15 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/auth/types";
+import type { Viewer } from "@/lib/domain/viewer";
 import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
 import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
 import { insertSite } from "@/db/mutations/sites";
 import { getPlotForViewer, getSiteLayout, getTrialDetail } from "@/db/queries/trials";
 import { createTrialSchema, sowingDateSchema } from "@/lib/validation/trials";
-import { scheduleForSite } from "@/lib/schedule";
+import { scheduleForSite } from "@/lib/domain/schedule";
 import { traitSchema } from "@/lib/validation/catalogue";
-import { isBlindCode } from "@/lib/design/blind-codes";
+import { isBlindCode } from "@/lib/domain/design/blind-codes";
 import { AppError } from "@/lib/errors";
 
 const { db, pool } = testDatabase();

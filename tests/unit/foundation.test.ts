@@ -1,10 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { canChangeRole, canRecordForSite, canSeeBlindKey, canSeeSiteContact, isStaff } from "@/lib/auth/permissions";
+import { canChangeRole, canRecordForSite, canSeeBlindKey, canSeeSiteContact, isStaff } from "@/lib/domain/permissions";
 import { acceptInviteSchema, inviteCooperatorSchema, signInSchema } from "@/lib/validation/auth";
-import { addDays, scheduleForSite } from "@/lib/schedule";
-import { randomiseBlocks } from "@/lib/design/randomise";
-import { blindCodes } from "@/lib/design/blind-codes";
-import type { Viewer } from "@/lib/auth/types";
+import { addDays, scheduleForSite } from "@/lib/domain/schedule";
+import { randomiseBlocks } from "@/lib/domain/design/randomise";
+import { blindCodes } from "@/lib/domain/design/blind-codes";
+import type { Viewer } from "@/lib/domain/viewer";
 
 const admin: Viewer = { id: 1, email: "a@x.org", name: "A", role: "admin" };
 const coordinator: Viewer = { id: 2, email: "c@x.org", name: "C", role: "coordinator" };

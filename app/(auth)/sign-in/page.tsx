@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/sign-in-form";
-import { getViewer } from "@/lib/auth/guards";
+import { getViewer } from "@/server/auth/guards";
 
 export const metadata: Metadata = { title: "Sign in" };
 

@@ -2,9 +2,9 @@ import Link from "next/link";
 import { Logo } from "@/components/layout/logo";
 import { NavLink } from "@/components/layout/nav-link";
 import { SignOutButton } from "@/components/layout/sign-out-button";
-import { requireUser } from "@/lib/auth/guards";
-import { ROLE_LABELS } from "@/lib/labels";
-import { mailIsCaptured } from "@/lib/mail/mailbox";
+import { requireUser } from "@/server/auth/guards";
+import { ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
+import { mailIsCaptured } from "@/server/mail/mailbox";
 
 export default async function PortalLayout({ children }: { children: React.ReactNode }) {
   const viewer = await requireUser();

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import { listUsersForAdmin } from "@/db/queries/users";
 import { listMyLayouts } from "@/db/queries/trials";

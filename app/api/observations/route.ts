@@ -1,8 +1,8 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { toResponse } from "@/lib/errors";
-import { closeUnreadBody, readJsonWithin } from "@/lib/http/body";
-import { assertOwnOrigin } from "@/lib/http/origin";
-import { getRecordingSheetForApi, saveObservationsForViewer } from "@/lib/observations/api";
+import { closeUnreadBody, readJsonWithin } from "@/server/http/body";
+import { assertOwnOrigin } from "@/server/http/origin";
+import { getRecordingSheetForApi, saveObservationsForViewer } from "@/server/observations/recording";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

@@ -1,8 +1,8 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
-import { uploadPhotoForViewer } from "@/lib/photos/upload";
-import { closeUnreadBody, fileWithin, readFormWithin } from "@/lib/http/body";
-import { assertOwnOrigin } from "@/lib/http/origin";
+import { uploadPhotoForViewer } from "@/server/photos/upload";
+import { closeUnreadBody, fileWithin, readFormWithin } from "@/server/http/body";
+import { assertOwnOrigin } from "@/server/http/origin";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

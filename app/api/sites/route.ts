@@ -1,4 +1,4 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { toResponse } from "@/lib/errors";
 import { listSitesForStaff } from "@/db/queries/sites";
 import { listMySites } from "@/db/queries/overview";

@@ -1,4 +1,4 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { siteParamsSchema } from "@/lib/validation/observations";
 import { getSubmissionState } from "@/db/queries/review";

@@ -1,4 +1,4 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { toResponse } from "@/lib/errors";
 import { listTrialsForViewer } from "@/db/queries/overview";
 import { listMyLayouts } from "@/db/queries/trials";

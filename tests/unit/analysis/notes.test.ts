@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { runAnalysis } from "@/lib/analysis/run";
-import { daysBetween, plotValue } from "@/lib/analysis/values";
-import type { AnalysisInput, AnalysisSettings, InputObservation, InputPlot } from "@/lib/analysis/types";
+import { runAnalysis } from "@/lib/domain/analysis/run";
+import { daysBetween, plotValue } from "@/lib/domain/analysis/values";
+import type { AnalysisInput, AnalysisSettings, InputObservation, InputPlot } from "@/lib/domain/analysis/types";
 
 const TRAIT = { id: 1, code: "marketable_yield", name: "Marketable yield", unit: "g per plot", valueType: "number" as const, computation: "none" as const };
 const DAYS = { id: 2, code: "harvest_date", name: "First harvest date", unit: "date", valueType: "date" as const, computation: "days_from_sowing" as const };

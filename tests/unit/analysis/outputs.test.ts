@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
-import { runAnalysis } from "@/lib/analysis/run";
-import { toBlindPayload, toCooperatorView } from "@/lib/analysis/blind";
-import { toPublicSnapshot } from "@/lib/publish/public-shape";
-import type { AnalysisInput, AnalysisResult, InputObservation, InputPlot } from "@/lib/analysis/types";
-import type { PublishedSnapshot } from "@/lib/publish/types";
+import { runAnalysis } from "@/lib/domain/analysis/run";
+import { toBlindPayload, toCooperatorView } from "@/lib/domain/analysis/blind";
+import { toPublicSnapshot } from "@/lib/domain/publish/public-shape";
+import type { AnalysisInput, AnalysisResult, InputObservation, InputPlot } from "@/lib/domain/analysis/types";
+import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 
 // The grower's blind view and the public shape are allow-lists: each is built field by field, so a
 // field that appears in the analysis or the stored snapshot later does not reach growers or the public.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { clientAddressFrom, normaliseAddress, trustedProxyMatcher, UNKNOWN_ADDRESS } from "@/lib/auth/client-address";
+import { clientAddressFrom, normaliseAddress, trustedProxyMatcher, UNKNOWN_ADDRESS } from "@/server/auth/client-address";
 
 const nobody = trustedProxyMatcher([]);
 const proxies = trustedProxyMatcher(["10.0.0.5", "172.16.0.0/12", "::1"]);

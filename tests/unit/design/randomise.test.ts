@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { randomiseBlocks, randomiseCompletely } from "@/lib/design/randomise";
-import { BLIND_CODE_ALPHABET, blindCodes, isBlindCode } from "@/lib/design/blind-codes";
+import { randomiseBlocks, randomiseCompletely } from "@/lib/domain/design/randomise";
+import { BLIND_CODE_ALPHABET, blindCodes, isBlindCode } from "@/lib/domain/design/blind-codes";
 
 describe("randomised complete blocks", () => {
   it("places every entry exactly once per block", () => {

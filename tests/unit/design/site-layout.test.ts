@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { siteLayout } from "@/lib/design/site-layout";
-import { randomiseBlocks } from "@/lib/design/randomise";
+import { siteLayout } from "@/lib/domain/design/site-layout";
+import { randomiseBlocks } from "@/lib/domain/design/randomise";
 
 const base = { design: "rcbd" as const, blocks: 4, plotUnit: "insert" as const, plotSize: 6, entryCount: 5, seed: 777, siteNumber: 3 };
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { canEditDesign, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/design/status";
+import { canEditDesign, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/domain/design/status";
 
 const base = { status: "draft" as const, randomisedSites: 0, observationCount: 0, entries: 4, traits: 2, sites: 2 };
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { CELLS_PER_FLAT, flatsUsed, insertNumber, packTrays } from "@/lib/design/trays";
+import { CELLS_PER_FLAT, flatsUsed, insertNumber, packTrays } from "@/lib/domain/design/trays";
 
 describe("packTrays", () => {
   it("never splits a block that fits in one 72-cell flat", () => {

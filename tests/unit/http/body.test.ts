@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { isAppError } from "@/lib/errors";
-import { BODY_LIMITS } from "@/lib/http/limits";
-import { readBodyWithin, readJsonWithin } from "@/lib/http/body";
-import { isOwnOriginWrite } from "@/lib/http/origin";
+import { BODY_LIMITS } from "@/lib/domain/request-limits";
+import { readBodyWithin, readJsonWithin } from "@/server/http/body";
+import { isOwnOriginWrite } from "@/server/http/origin";
 
 const CHUNK = 64 * 1024;
 

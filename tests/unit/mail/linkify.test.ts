@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { linkSegments } from "@/lib/mail/linkify";
+import { linkSegments } from "@/lib/domain/mail/linkify";
 
 const APP = "http://localhost:3000";
 const links = (text: string) => linkSegments(text, APP).filter((s) => s.href !== undefined);

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import ExcelJS from "exceljs";
-import { parseCsv } from "@/lib/spreadsheets/csv";
-import { addSheetRow, csvField, csvFile, csvRow, neutraliseText, restoreText, xlsxValue } from "@/lib/spreadsheets/write";
+import { parseCsv } from "@/lib/domain/spreadsheets/csv";
+import { addSheetRow, csvField, csvFile, csvRow, neutraliseText, restoreText, xlsxValue } from "@/lib/domain/spreadsheets/write";
 
 // Hostile names a coordinator or grower could type into a variety, site, trait or note.
 const HOSTILE = [

@@ -11,8 +11,8 @@ import {
   studentizedRangeUpper,
   studentTQuantile,
   studentTTwoSided,
-} from "@/lib/stats";
-import { integrate } from "@/lib/stats/integration";
+} from "@/lib/domain/stats";
+import { integrate } from "@/lib/domain/stats/integration";
 import { readJson, relativeError } from "./fixtures";
 
 const tables = readJson("tables/critical-values-0.05.json");

@@ -12,7 +12,7 @@ import {
   germinationByEntry,
   StatsError,
   wilsonInterval,
-} from "@/lib/stats";
+} from "@/lib/domain/stats";
 
 function expectStatsError(run: () => unknown, code: string): void {
   let caught: unknown;

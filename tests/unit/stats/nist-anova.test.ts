@@ -2,7 +2,7 @@
 // certified.json): every data set must reach, for between/within SS and MS, F and R-squared, the
 // LRE that exact arithmetic on the parsed doubles reaches (README table) minus 0.5.
 import { describe, expect, it } from "vitest";
-import { anovaOneWay } from "@/lib/stats";
+import { anovaOneWay } from "@/lib/domain/stats";
 import { lre, readCsv, readJson } from "./fixtures";
 
 const certified = readJson("nist-strd-anova/certified.json").datasets as Record<string, any>;

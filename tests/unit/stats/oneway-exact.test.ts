@@ -5,8 +5,8 @@
 // within SS = sum over entries of (sum x^2 - (sum x)^2 / n), between SS = sum (sum x)^2 / n - (sum x)^2 / N,
 // evaluated exactly.
 import { describe, expect, it } from "vitest";
-import { anovaOneWay } from "@/lib/stats";
-import { seededRandom as random } from "@/lib/design/random";
+import { anovaOneWay } from "@/lib/domain/stats";
+import { seededRandom as random } from "@/lib/domain/design/random";
 
 interface Fraction { num: bigint; den: bigint }
 const gcd = (a: bigint, b: bigint): bigint => {

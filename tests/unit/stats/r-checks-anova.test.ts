@@ -16,7 +16,7 @@ import {
   studentizedRangeQuantile,
   tukeyHsd,
   type AnovaTable,
-} from "@/lib/stats";
+} from "@/lib/domain/stats";
 import { readJson, readPlots, relativeError } from "./fixtures";
 
 const REL = 1e-9;

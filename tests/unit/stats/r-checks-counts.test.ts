@@ -9,7 +9,7 @@ import {
   germinationHomogeneity,
   germinationHomogeneityBySite,
   germinationVersusLabel,
-} from "@/lib/stats";
+} from "@/lib/domain/stats";
 import { readCsv, readJson, relativeError } from "./fixtures";
 
 function close(actual: number | undefined, expected: number, label: string, tolerance = 1e-9): void {

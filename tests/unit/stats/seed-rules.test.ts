@@ -2,7 +2,7 @@
 // values transcribed in tests/fixtures/seed-rules (project trade notes, section 3, and the printed
 // 201.55 table for the low-average pairing; see that README).
 import { describe, expect, it } from "vitest";
-import { checkAgainstLabel, checkReplicateRange, labelTolerance, maxToleratedRange } from "@/lib/stats";
+import { checkAgainstLabel, checkReplicateRange, labelTolerance, maxToleratedRange } from "@/lib/domain/stats";
 import { readJson } from "./fixtures";
 
 const rules = readJson("seed-rules/seed-rules.json");

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listCooperators } from "@/db/queries/users";
 import { listSiteOptions } from "@/db/queries/overview";
 import { Card } from "@/components/ui/card";

@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
-import { listCapturedMailFor, mailIsCaptured } from "@/lib/mail/mailbox";
-import { linkSegments } from "@/lib/mail/linkify";
+import { requireUser } from "@/server/auth/guards";
+import { listCapturedMailFor, mailIsCaptured } from "@/server/mail/mailbox";
+import { linkSegments } from "@/lib/domain/mail/linkify";
 import { env } from "@/lib/env";
 import { Card } from "@/components/ui/card";
 

@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { listRecordableSites } from "@/db/queries/observations";
 import { RecordableSitesList } from "@/components/record/sites-list";
 

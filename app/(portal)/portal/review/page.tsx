@@ -1,4 +1,4 @@
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listReviewQueue } from "@/db/queries/review";
 import { ReviewQueue } from "@/components/review/review-table";
 import { Card } from "@/components/ui/card";

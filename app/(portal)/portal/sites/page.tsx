@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listSitesForStaff } from "@/db/queries/sites";
 import { listProgramOptions } from "@/db/queries/programs";
 import { Card } from "@/components/ui/card";

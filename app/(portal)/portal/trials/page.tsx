@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listTrialsForViewer } from "@/db/queries/overview";
 import { Card } from "@/components/ui/card";
 import { buttonClasses } from "@/components/ui/button";

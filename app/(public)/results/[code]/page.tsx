@@ -4,9 +4,9 @@ import { notFound } from "next/navigation";
 import { getPublicReport } from "@/db/queries/public";
 import { trialCodeSchema, versionParamSchema } from "@/lib/validation/publish";
 import { PublicTraitResults } from "@/components/public/trait-results";
-import { toPublicTraitView } from "@/lib/publish/public-view";
-import { SETUP_LABELS } from "@/lib/labels";
-import type { GrowingSetup } from "@/db/schema/enums";
+import { toPublicTraitView } from "@/lib/domain/publish/public-view";
+import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
+import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 
 type Params = Promise<{ code: string }>;
 type Search = Promise<Record<string, string | string[] | undefined>>;

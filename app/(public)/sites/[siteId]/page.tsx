@@ -3,8 +3,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicSite } from "@/db/queries/public";
-import { SETUP_LABELS } from "@/lib/labels";
-import type { GrowingSetup } from "@/db/schema/enums";
+import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
+import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 
 type Params = Promise<{ siteId: string }>;
 const idSchema = z.coerce.number().int().positive().max(2_000_000_000);

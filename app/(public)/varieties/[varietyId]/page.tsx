@@ -3,7 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicVariety } from "@/db/queries/public";
-import { formatNumber } from "@/lib/analysis/format";
+import { formatNumber } from "@/lib/domain/analysis/format";
 
 type Params = Promise<{ varietyId: string }>;
 const idSchema = z.coerce.number().int().positive().max(2_000_000_000);

@@ -1,8 +1,8 @@
 import { NextRequest } from "next/server";
-import { authHandler } from "@/lib/auth";
+import { authHandler } from "@/server/auth";
 import { toResponse } from "@/lib/errors";
-import { closeUnreadBody, readShortFormWithin } from "@/lib/http/body";
-import { assertOwnOrigin } from "@/lib/http/origin";
+import { closeUnreadBody, readShortFormWithin } from "@/server/http/body";
+import { assertOwnOrigin } from "@/server/http/origin";
 
 type AuthContext = { params: Promise<{ nextauth: string[] }> };
 

@@ -1,7 +1,7 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
-import { readPhotoForViewer } from "@/lib/photos/upload";
+import { readPhotoForViewer } from "@/server/photos/upload";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

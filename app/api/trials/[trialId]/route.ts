@@ -1,4 +1,4 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { getTrialDetail } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";

@@ -1,10 +1,10 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listUsersForAdmin } from "@/db/queries/users";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { UserRowControls } from "@/components/users/user-role-form";
-import { ROLE_LABELS } from "@/lib/labels";
+import { ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
 
 export const metadata: Metadata = { title: "Users and roles" };
 

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { listTraits } from "@/db/queries/catalogue";
 import { listProgramOptions } from "@/db/queries/programs";
 import { Card } from "@/components/ui/card";

@@ -1,5 +1,5 @@
 import { notFound, redirect } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { getPlotRecordTarget } from "@/db/queries/observations";
 import { idParam } from "@/lib/validation/common";
 

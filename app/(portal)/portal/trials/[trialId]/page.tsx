@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { getTrialDetail, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
@@ -9,10 +9,10 @@ import { Badge } from "@/components/ui/badge";
 import { AddEntryForm, EnrolSiteForm, StatusButton } from "@/components/trials/trial-controls";
 import { TrialEntriesCard, TrialSitesCard } from "@/components/trials/trial-panels";
 import { QueryProvider } from "@/components/ui/query-provider";
-import { asJson } from "@/lib/json";
+import { asJson } from "@/lib/domain/json";
 import { STATUS_TONE } from "@/components/trials/status-tone";
-import { DESIGN_LABELS, PLOT_UNIT_LABELS, STATUS_LABELS } from "@/lib/labels";
-import { canEditDesign, canEnrolSites, designLockReason, nextStatus } from "@/lib/design/status";
+import { DESIGN_LABELS, PLOT_UNIT_LABELS, STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
+import { canEditDesign, canEnrolSites, designLockReason, nextStatus } from "@/lib/domain/design/status";
 
 export const metadata: Metadata = { title: "Trial" };
 

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { getTrialFormOptions } from "@/db/queries/trials";
 import { Card } from "@/components/ui/card";
 import { TrialForm } from "@/components/trials/trial-form";

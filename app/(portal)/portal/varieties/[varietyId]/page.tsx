@@ -1,12 +1,12 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { idParam } from "@/lib/validation/common";
 import { getVarietyHistory } from "@/db/queries/analysis";
-import { loadAnalysis } from "@/lib/analysis-service";
-import { standingOf, type TrialStanding } from "@/lib/analysis/history";
-import { formatNumber } from "@/lib/analysis/format";
+import { loadAnalysis } from "@/server/analysis/load-analysis";
+import { standingOf, type TrialStanding } from "@/lib/domain/analysis/history";
+import { formatNumber } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { requirePublishedSnapshot, downloadName } from "@/lib/publish/public-routes";
-import { publishedCsv, publishedXlsx } from "@/lib/publish/downloads";
+import { requirePublishedSnapshot, downloadName } from "@/server/publish/public-routes";
+import { publishedCsv, publishedXlsx } from "@/lib/domain/publish/downloads";
 import { AppError, toResponse } from "@/lib/errors";
 
 export const runtime = "nodejs";

@@ -1,9 +1,9 @@
 import { z } from "zod";
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
-import { prepareAnalysis, viewAnalysis } from "@/lib/analysis-service";
+import { prepareAnalysis, viewAnalysis } from "@/server/analysis/load-analysis";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

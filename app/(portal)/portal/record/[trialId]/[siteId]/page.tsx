@@ -1,12 +1,12 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { getRecordingSheet } from "@/db/queries/observations";
 import { idParam } from "@/lib/validation/common";
 import { EntryForm } from "@/components/record/entry-form";
 import { DuePanel, lockMessage, SiteHeader } from "@/components/record/site-panels";
-import { displayValue } from "@/lib/observations/values";
-import type { MissingReason } from "@/lib/observations/missing";
+import { displayValue } from "@/lib/domain/observations/values";
+import type { MissingReason } from "@/lib/domain/observations/missing";
 import { buttonClasses } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { SubmitForReviewForm } from "@/components/review/review-forms";

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { getReviewSheet } from "@/db/queries/review";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";

@@ -1,10 +1,10 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
-import { loadAnalysisView } from "@/lib/analysis-service";
+import { loadAnalysisView } from "@/server/analysis/load-analysis";
 import { listExclusionTargets } from "@/db/queries/analysis";
 import { AnalysisQueryProvider } from "@/components/analysis/query-provider";
 import { AnalysisView } from "@/components/analysis/analysis-view";

@@ -1,12 +1,12 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guards";
+import { requireRole } from "@/server/auth/guards";
 import { getTrialDetail, getTrialFormOptions } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { TrialForm } from "@/components/trials/trial-form";
-import { designLockReason } from "@/lib/design/status";
+import { designLockReason } from "@/lib/domain/design/status";
 
 export const metadata: Metadata = { title: "Edit trial" };
 

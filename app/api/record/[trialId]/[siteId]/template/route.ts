@@ -1,6 +1,6 @@
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { toResponse } from "@/lib/errors";
-import { templateForViewer } from "@/lib/spreadsheets/files";
+import { templateForViewer } from "@/server/spreadsheets/files";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

@@ -1,10 +1,10 @@
 import { z } from "zod";
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { siteParamsSchema } from "@/lib/validation/observations";
-import { commitUpload, previewUpload } from "@/lib/spreadsheets/upload";
-import { closeUnreadBody, fileWithin, readFormWithin } from "@/lib/http/body";
-import { assertOwnOrigin } from "@/lib/http/origin";
+import { commitUpload, previewUpload } from "@/server/spreadsheets/upload";
+import { closeUnreadBody, fileWithin, readFormWithin } from "@/server/http/body";
+import { assertOwnOrigin } from "@/server/http/origin";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

@@ -1,12 +1,12 @@
 import { z } from "zod";
 import ExcelJS from "exceljs";
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
-import { loadAnalysis } from "@/lib/analysis-service";
-import { exportTables } from "@/lib/analysis/export";
-import { addSheetRow, csvFile } from "@/lib/spreadsheets/write";
+import { loadAnalysis } from "@/server/analysis/load-analysis";
+import { exportTables } from "@/lib/domain/analysis/export";
+import { addSheetRow, csvFile } from "@/lib/domain/spreadsheets/write";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

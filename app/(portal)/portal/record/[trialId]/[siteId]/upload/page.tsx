@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { getRecordingSheet } from "@/db/queries/observations";
 import { idParam } from "@/lib/validation/common";
 import { UploadForm } from "@/components/record/upload-form";

@@ -1,16 +1,16 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireUser } from "@/lib/auth/guards";
+import { requireUser } from "@/server/auth/guards";
 import { getSiteLayout } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { buttonClasses } from "@/components/ui/button";
 import { PrintButton } from "@/components/ui/print-button";
 import { CautionList, SiteMap } from "@/components/trials/site-layout-view";
-import { cautionsFor, sheetColumns } from "@/lib/design/cautions";
-import { addDays } from "@/lib/schedule";
-import { formatDate } from "@/lib/labels";
+import { cautionsFor, sheetColumns } from "@/lib/domain/design/cautions";
+import { addDays } from "@/lib/domain/schedule";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 export const metadata: Metadata = { title: "Site layout" };
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { getSiteLayout } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";

@@ -1,8 +1,8 @@
 import { z } from "zod";
-import { assertRole } from "@/lib/auth/guards";
+import { assertRole } from "@/server/auth/guards";
 import { AppError, toResponse } from "@/lib/errors";
 import { getSiteLayout } from "@/db/queries/trials";
-import { buildSiteSheetData } from "@/lib/design/sheets";
+import { buildSiteSheetData } from "@/server/trials/sheets";
 import { idParam } from "@/lib/validation/common";
 import { pageSizeSchema, sheetKindSchema } from "@/lib/validation/trials";
 import { renderSiteSheet, SHEET_FILE_NAMES } from "@/reports/site-sheets";

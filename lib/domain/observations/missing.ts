@@ -1,0 +1,62 @@
+import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
+
+export type MissingReason = (typeof MISSING_REASONS)[number];
+
+// Why a plot has no value. The phone form offers the labels; a spreadsheet cell holds "missing:" and one of
+// the short words, which is also how exports write reasons, so an exported sheet uploads back unchanged.
+
+/** What the phone form shows for each reason. */
+export const MISSING_REASON_LABELS: Record<MissingReason, string> = {
+  not_sown: "Not sown",
+  died: "Plants died",
+  animal_damage: "Eaten or damaged by animals",
+  lost_label: "Label lost",
+  weather: "Weather damage",
+  other: "Other",
+};
+
+/** The word a spreadsheet cell uses after "missing:". */
+export const MISSING_REASON_WORDS: Record<MissingReason, string> = {
+  not_sown: "not sown",
+  died: "died",
+  animal_damage: "animals",
+  lost_label: "label lost",
+  weather: "weather",
+  other: "other",
+};
+
+export const MISSING_PREFIX = "missing:";
+
+const squash = (s: string) => s.trim().toLowerCase().replace(/[\s_-]+/g, " ");
+
+const ACCEPTED = new Map<string, MissingReason>();
+for (const r of MISSING_REASONS) {
+  ACCEPTED.set(squash(r), r);
+  ACCEPTED.set(squash(MISSING_REASON_WORDS[r]), r);
+  ACCEPTED.set(squash(MISSING_REASON_LABELS[r]), r);
+}
+
+export const isMissingReason = (v: unknown): v is MissingReason => typeof v === "string" && (MISSING_REASONS as readonly string[]).includes(v);
+
+/** The reason as a spreadsheet cell writes it, e.g. "missing: died". */
+export const missingCell = (r: MissingReason) => `${MISSING_PREFIX} ${MISSING_REASON_WORDS[r]}`;
+
+/** The accepted words in a sentence, for instructions and error messages. */
+export const missingWordsList = () => MISSING_REASONS.map((r) => MISSING_REASON_WORDS[r]).join(", ");
+
+/**
+ * Reads a cell that starts with "missing" ("missing: died", "Missing - animals"). Null when the cell is not a
+ * missing marker at all, so ordinary values and notes go on to be parsed as values.
+ */
+export function parseMissingText(raw: unknown): { ok: true; reason: MissingReason } | { ok: false; message: string } | null {
+  if (typeof raw !== "string") return null;
+  const m = /^\s*missing\b\s*[:\-–]?\s*(.*)$/i.exec(raw);
+  if (!m) return null;
+  const reason = ACCEPTED.get(squash(m[1] ?? ""));
+  if (reason) return { ok: true, reason };
+  const said = (m[1] ?? "").trim();
+  return {
+    ok: false,
+    message: `${said ? `"${said}" is not one of the reasons` : "Say why the value is missing"}. Write missing: and one of ${missingWordsList()} (for example "missing: died"), or type the value.`,
+  };
+}

@@ -1,0 +1,64 @@
+import ExcelJS from "exceljs";
+import { addSheetRow, csvFile, type SheetCell } from "@/lib/domain/spreadsheets/write";
+import type { PublicSnapshot } from "./public-shape";
+
+const DATA_COLUMNS = ["site", "block", "plot", "code", "variety", "trait", "unit", "value", "status"] as const;
+
+const DICTIONARY: [string, string][] = [
+  ["site", "Partner site (farm or garden) where the plot grew."],
+  ["block", "Replicate block within the site; every variety appears once per block, in random order."],
+  ["plot", "Plot code printed on the plot label: site number, block, position in the block."],
+  ["code", "Blind code the growers saw during the trial."],
+  ["variety", "Variety name, revealed at publication."],
+  ["trait", "What was measured. Dates are given as days from the site's sowing date."],
+  ["unit", "Unit of the value."],
+  ["value", "The value analysed for the plot. Empty when the plot is missing."],
+  ["status", "used = in the analysis; missing = no value (reason in the report); excluded = left out by the coordinator with a recorded reason."],
+];
+
+function dataRows(snapshot: PublicSnapshot) {
+  return snapshot.data.map((d): SheetCell[] => [d.site, d.block, d.plotCode, d.blindCode, d.variety, d.trait, d.unit, d.value, d.status]);
+}
+
+/** The published plot data as CSV, with the citation as a comment-style first line. */
+export function publishedCsv(snapshot: PublicSnapshot): string {
+  return csvFile([[`# ${snapshot.citation}`], [...DATA_COLUMNS], ...dataRows(snapshot)]);
+}
+
+/** The published data as a workbook: plot data, means, a data dictionary and how to cite it. */
+export async function publishedXlsx(snapshot: PublicSnapshot): Promise<Buffer> {
+  const book = new ExcelJS.Workbook();
+  book.creator = "Seedplot";
+  book.created = new Date(snapshot.publishedAt);
+
+  const data = book.addWorksheet("Plot data", { views: [{ state: "frozen", ySplit: 1 }] });
+  addSheetRow(data, [...DATA_COLUMNS]).font = { bold: true };
+  for (const row of dataRows(snapshot)) addSheetRow(data, row);
+
+  const means = book.addWorksheet("Means", { views: [{ state: "frozen", ySplit: 1 }] });
+  addSheetRow(means, ["trait", "scope", "variety", "code", "mean", "SE", "plots", "group", "rank", "LSD 0.05", "CV %"]).font = { bold: true };
+  for (const { result } of snapshot.results) {
+    const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
+    if (!block) continue;
+    const scope = result.combined ? `combined, ${result.combined.sites} sites` : "one site";
+    for (const m of [...block.means].sort((a, b) => a.rank - b.rank)) {
+      addSheetRow(means, [result.trait.analysedAs, scope, m.varietyName ?? m.blindCode, m.blindCode, m.lsMean ?? m.mean, m.se, m.n, m.letter ?? "", m.rank, block.lsd, block.cv]);
+    }
+  }
+
+  const dictionary = book.addWorksheet("Data dictionary");
+  addSheetRow(dictionary, ["column", "meaning"]).font = { bold: true };
+  for (const row of DICTIONARY) addSheetRow(dictionary, row);
+  addSheetRow(dictionary, []);
+  addSheetRow(dictionary, ["trait", "definition"]).font = { bold: true };
+  for (const t of snapshot.traits) addSheetRow(dictionary, [t.analysedAs, t.description ?? ""]);
+  addSheetRow(dictionary, []);
+  addSheetRow(dictionary, ["settings", `sites ${snapshot.settings.siteModel}; mean separation ${snapshot.settings.separation === "lsd" ? "protected LSD" : "Tukey HSD"}; alpha 0.05; accepted data only`]);
+
+  const cite = book.addWorksheet("How to cite");
+  addSheetRow(cite, [snapshot.citation]);
+  addSheetRow(cite, [`Version ${snapshot.version}, published ${snapshot.publishedAt.slice(0, 10)}.`]);
+  if (snapshot.changeNote) addSheetRow(cite, [`What changed: ${snapshot.changeNote}`]);
+  for (const sheet of [data, means, dictionary, cite]) sheet.columns.forEach((c) => (c.width = 22));
+  return Buffer.from(await book.xlsx.writeBuffer());
+}

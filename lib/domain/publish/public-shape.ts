@@ -1,0 +1,208 @@
+/**
+ * The public shape of a published version: the only form in which a snapshot leaves the server (public
+ * pages, /api/public/trials/..., the downloads and the PDF). `toPublicSnapshot` builds it field by
+ * field from the stored snapshot, so it is an allow-list: review states, sharing flags, internal ids
+ * and anything added to the analysis later stay out until someone adds them here on purpose. Stored
+ * snapshots keep the full record and are mapped when read, so versions published before this shape
+ * existed are served the same way.
+ *
+ * Things are referred to as the public pages name them: trials by code, traits by code, entries by
+ * blind code, plots by plot code, sites by name. The two numbers kept are the ones in public
+ * addresses: a site's `id` (/sites/:id) and an entry's `varietyId` (/varieties/:id).
+ */
+import type { AnalysisBlock, AnalysisResult, EntryResult, GerminationRow } from "@/lib/domain/analysis/types";
+import type { AnovaRow } from "@/lib/domain/stats";
+import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
+
+export interface PublicSite {
+  /** the number in the site's public address, /sites/:id */
+  id: number;
+  name: string;
+  kind: string;
+  region: string;
+  growingSetup: string;
+  soil: string | null;
+  irrigation: string | null;
+  publicDescription: string | null;
+  sownOn: string | null;
+}
+
+export interface PublicEntry {
+  blindCode: string;
+  /** the number in the variety's public address, /varieties/:id */
+  varietyId: number;
+  variety: string;
+  isCheck: boolean;
+  seedSource: string | null;
+  lotCode: string | null;
+  labelGermination: number | null;
+  treated: boolean;
+}
+
+export interface PublicTrait {
+  code: string;
+  name: string;
+  unit: string | null;
+  valueType: string;
+  analysedAs: string;
+  description: string | null;
+}
+
+export type PublicMean = Pick<EntryResult, "blindCode" | "varietyName" | "isCheck" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank">;
+
+export interface PublicBlock extends Omit<AnalysisBlock, "means"> {
+  means: PublicMean[];
+}
+
+export interface PublicCombined extends PublicBlock {
+  siteModel: "random" | "fixed";
+  sites: number;
+  interactionF: number | null;
+  interactionP: number | null;
+  bartlett: { statistic: number; df: number; p: number } | null;
+  cellMeans: { siteName: string; blindCode: string; mean: number; n: number }[];
+}
+
+export type PublicGerminationRow = Omit<GerminationRow, "entryId" | "siteId">;
+
+export interface PublicTraitResult {
+  trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string };
+  /** the sites in this trait's analysis */
+  perSite: { siteName: string; blocks: number; result: PublicBlock | null; problem: string | null }[];
+  combined: PublicCombined | null;
+  combinedProblem: string | null;
+  missing: { plotCode: string; siteName: string; blindCode: string; block: number; reason: string; handling: string }[];
+  exclusions: { siteName: string | null; plotCode: string | null; traitName: string | null; reason: string }[];
+  warnings: string[];
+  notes: string[];
+  germination: {
+    byEntry: PublicGerminationRow[];
+    bySite: PublicGerminationRow[];
+    chiSquare: { statistic: number; df: number; p: number; lowExpected: number; cells: number } | null;
+    cmh: { statistic: number; df: number; p: number; sites: number } | null;
+    labels: { blindCode: string; varietyName: string | null; seedLot: string | null; labelPercent: number | null; observedPercent: number; sown: number; chiSquareP: number | null; tolerance: number | null; withinTolerance: boolean | null; note: string }[];
+    note: string;
+  } | null;
+  emergence: {
+    days: number[];
+    curve: { blindCode: string; varietyName: string | null; day: number; percent: number; plots: number }[];
+    kinetics: { blindCode: string; varietyName: string | null; meanEmergenceTime: number | null; t50: number | null; finalPercent: number; plots: number }[];
+    note: string;
+  } | null;
+}
+
+export interface PublicSnapshot {
+  version: number;
+  publishedAt: string;
+  changeNote: string | null;
+  settings: PublishSettings;
+  program: string;
+  trial: {
+    code: string;
+    title: string;
+    crop: string;
+    cropGroup: string;
+    season: string;
+    year: number;
+    purpose: string | null;
+    design: string;
+    blocks: number;
+    plotUnit: string;
+    plotSize: number;
+    protocol: string | null;
+  };
+  /** code of the one trait published, or null when the whole trial is */
+  scopeTrait: string | null;
+  sites: PublicSite[];
+  entries: PublicEntry[];
+  traits: PublicTrait[];
+  results: { trait: string; result: PublicTraitResult }[];
+  summary: string[];
+  data: PublishedValue[];
+  citation: string;
+}
+
+const anovaRow = (r: AnovaRow): AnovaRow => ({ source: r.source, df: r.df, ss: r.ss, ms: r.ms, f: r.f, p: r.p, ...(r.testedAgainst ? { testedAgainst: r.testedAgainst } : {}) });
+
+const mean = (m: EntryResult): PublicMean => ({ blindCode: m.blindCode, varietyName: m.varietyName, isCheck: m.isCheck, mean: m.mean, lsMean: m.lsMean, se: m.se, n: m.n, letter: m.letter, rank: m.rank });
+
+function block(b: AnalysisBlock): PublicBlock {
+  return {
+    rows: b.rows.map(anovaRow),
+    n: b.n,
+    missing: b.missing,
+    grandMean: b.grandMean,
+    cv: b.cv,
+    errorMs: b.errorMs,
+    errorDf: b.errorDf,
+    entryF: b.entryF,
+    entryP: b.entryP,
+    means: b.means.map(mean),
+    lsd: b.lsd,
+    tukeyQ: b.tukeyQ,
+    comparisonNote: b.comparisonNote,
+  };
+}
+
+const germinationRow = (g: GerminationRow): PublicGerminationRow => ({ blindCode: g.blindCode, varietyName: g.varietyName, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
+
+/** One trait's published analysis in its public shape. */
+export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
+  const { combined, germination: g, emergence: e } = r;
+  const codeOf = new Map<number, string>();
+  for (const m of [...(combined?.means ?? []), ...r.perSite.flatMap((s) => s.result?.means ?? [])]) codeOf.set(m.entryId, m.blindCode);
+  return {
+    trait: { code: r.trait.code, name: r.trait.name, unit: r.trait.unit, valueType: r.trait.valueType, computation: r.trait.computation, analysedAs: r.trait.analysedAs },
+    perSite: r.perSite.map((s) => ({ siteName: s.siteName, blocks: s.blocks, result: s.result && block(s.result), problem: s.problem })),
+    combined: combined && {
+      ...block(combined),
+      siteModel: combined.siteModel,
+      sites: combined.sites,
+      interactionF: combined.interactionF,
+      interactionP: combined.interactionP,
+      bartlett: combined.bartlett && { statistic: combined.bartlett.statistic, df: combined.bartlett.df, p: combined.bartlett.p },
+      cellMeans: combined.cellMeans.map((c) => ({ siteName: c.siteName, blindCode: codeOf.get(c.entryId) ?? "", mean: c.mean, n: c.n })),
+    },
+    combinedProblem: r.combinedProblem,
+    missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: m.reason, handling: m.handling })),
+    exclusions: r.exclusions.map((x) => ({ siteName: x.siteName, plotCode: x.plotCode, traitName: x.traitName, reason: x.reason })),
+    warnings: [...r.warnings],
+    notes: [...r.notes],
+    germination: g && {
+      byEntry: g.byEntry.map(germinationRow),
+      bySite: g.bySite.map(germinationRow),
+      chiSquare: g.chiSquare && { statistic: g.chiSquare.statistic, df: g.chiSquare.df, p: g.chiSquare.p, lowExpected: g.chiSquare.lowExpected, cells: g.chiSquare.cells },
+      cmh: g.cmh && { statistic: g.cmh.statistic, df: g.cmh.df, p: g.cmh.p, sites: g.cmh.sites },
+      labels: g.labels.map((l) => ({ blindCode: l.blindCode, varietyName: l.varietyName, seedLot: l.seedLot, labelPercent: l.labelPercent, observedPercent: l.observedPercent, sown: l.sown, chiSquareP: l.chiSquareP, tolerance: l.tolerance, withinTolerance: l.withinTolerance, note: l.note })),
+      note: g.note,
+    },
+    emergence: e && {
+      days: [...e.days],
+      curve: e.curve.map((c) => ({ blindCode: c.blindCode, varietyName: c.varietyName, day: c.day, percent: c.percent, plots: c.plots })),
+      kinetics: e.kinetics.map((k) => ({ blindCode: k.blindCode, varietyName: k.varietyName, meanEmergenceTime: k.meanEmergenceTime, t50: k.t50, finalPercent: k.finalPercent, plots: k.plots })),
+      note: e.note,
+    },
+  };
+}
+
+/** A stored snapshot (any version of its format) in the public shape. */
+export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
+  const t = s.trial;
+  const traitCode = new Map(s.traits.map((x) => [x.id, x.code]));
+  return {
+    version: s.version,
+    publishedAt: s.publishedAt,
+    changeNote: s.changeNote,
+    settings: { siteModel: s.settings.siteModel, separation: s.settings.separation },
+    program: s.program,
+    trial: { code: t.code, title: t.title, crop: t.crop, cropGroup: t.cropGroup, season: t.season, year: t.year, purpose: t.purpose, design: t.design, blocks: t.blocks, plotUnit: t.plotUnit, plotSize: t.plotSize, protocol: t.protocol },
+    scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),
+    sites: s.sites.map((x) => ({ id: x.id, name: x.name, kind: x.kind, region: x.region, growingSetup: x.growingSetup, soil: x.soil, irrigation: x.irrigation, publicDescription: x.publicDescription, sownOn: x.sownOn })),
+    entries: s.entries.map((e) => ({ blindCode: e.blindCode, varietyId: e.varietyId, variety: e.variety, isCheck: e.isCheck, seedSource: e.seedSource, lotCode: e.lotCode, labelGermination: e.labelGermination, treated: e.treated })),
+    traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description })),
+    results: s.results.map(({ traitId, result }) => ({ trait: traitCode.get(traitId) ?? result.trait.code, result: toPublicTraitResult(result) })),
+    summary: [...s.summary],
+    data: s.data.map((d) => ({ site: d.site, block: d.block, plotCode: d.plotCode, blindCode: d.blindCode, variety: d.variety, trait: d.trait, unit: d.unit, value: d.value, status: d.status })),
+    citation: s.citation,
+  };
+}

@@ -1,0 +1,50 @@
+"use server";
+import { redirect } from "next/navigation";
+import { defineAction } from "./define-action";
+import { acceptInviteSchema, forgotPasswordSchema, resetPasswordSchema } from "@/lib/validation/auth";
+import { after } from "next/server";
+import { hashPassword } from "@/server/auth/password";
+import { updatePasswordWithToken } from "@/db/mutations/users";
+import { sendPasswordResetLink } from "@/server/auth/password-reset";
+import type { Viewer } from "@/lib/domain/viewer";
+import { consumeRateLimit } from "@/server/auth/throttle";
+import { requestAddress } from "@/server/auth/request-address";
+
+/** An invited grower chooses their name and password through the link in their invitation. */
+export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
+  { roles: "public", schema: acceptInviteSchema },
+  async (input) => {
+    await updatePasswordWithToken({ token: input.token, kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
+    redirect("/sign-in?welcome=1");
+  },
+);
+
+/**
+ * Sends a reset link; answers the same, in the same time, whether or not the e-mail has an account: the
+ * answer depends only on the rate limits, and looking the account up, issuing the link and mailing it
+ * happen after the answer has gone out.
+ */
+export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
+  { roles: "public", schema: forgotPasswordSchema },
+  async (input) => {
+    const sameAnswer = { ok: true as const, message: "If that e-mail belongs to a Seedplot account, a reset link is on its way. It works for one hour." };
+    const allowed = await consumeRateLimit(
+      [
+        { key: `reset-to:${input.email}`, max: 3 },
+        { key: `reset-from:${requestAddress()}`, max: 20 },
+      ],
+      60,
+    );
+    // Past the limit the answer stays the same, so it reveals nothing, but no more mail is sent.
+    if (allowed) after(() => sendPasswordResetLink(input.email));
+    return sameAnswer;
+  },
+);
+
+export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
+  { roles: "public", schema: resetPasswordSchema },
+  async (input) => {
+    await updatePasswordWithToken({ token: input.token, kind: "password_reset", passwordHash: await hashPassword(input.password) });
+    redirect("/sign-in?reset=1");
+  },
+);

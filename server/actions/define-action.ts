@@ -1,0 +1,63 @@
+import "server-only";
+import type { z } from "zod";
+import { getViewer } from "@/server/auth/guards";
+import { asAppError } from "@/lib/errors";
+import type { Role } from "@/lib/domain/vocabulary/enums";
+import type { Viewer } from "@/lib/domain/viewer";
+import type { ActionResult } from "@/lib/validation/action-result";
+
+// Fields never echoed back to the form after a failure.
+const SECRET_FIELDS = new Set(["password", "confirm", "token"]);
+
+function echoValues(formData: FormData): Record<string, string> {
+  const values: Record<string, string> = {};
+  for (const [key, value] of formData.entries()) {
+    if (typeof value === "string" && !SECRET_FIELDS.has(key) && !key.startsWith("$")) values[key] = value;
+  }
+  return values;
+}
+
+function formToObject(formData: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [key, value] of formData.entries()) if (typeof value === "string" && !key.startsWith("$")) out[key] = value;
+  return out;
+}
+
+/**
+ * Wraps a form action: checks the viewer's role (roles empty = anyone, even signed out), validates the
+ * form with zod, runs the body, and maps AppErrors to a form message. Unknown errors are logged and
+ * shown as a generic message; nothing the body wrote survives an error because bodies use one transaction.
+ */
+export function defineAction<S extends z.ZodType, V extends Viewer | null = Viewer>(
+  options: { roles: Role[] | "public"; schema: S },
+  body: (input: z.infer<S>, viewer: V) => Promise<ActionResult | void>,
+) {
+  return async (_previous: ActionResult | null, formData: FormData): Promise<ActionResult> => {
+    const values = echoValues(formData);
+    try {
+      const viewer = await getViewer();
+      if (options.roles !== "public") {
+        if (!viewer) return { ok: false, formError: "Your session has ended. Please sign in again.", values };
+        if (!options.roles.includes(viewer.role)) return { ok: false, formError: "Your account does not have access to this.", values };
+      }
+      const parsed = options.schema.safeParse(formToObject(formData));
+      if (!parsed.success) {
+        const fieldErrors: Record<string, string[]> = {};
+        for (const issue of parsed.error.issues) {
+          const key = String(issue.path[0] ?? "_form");
+          (fieldErrors[key] ??= []).push(issue.message);
+        }
+        return { ok: false, fieldErrors, formError: "Please correct the marked fields.", values };
+      }
+      const result = await body(parsed.data, viewer as V);
+      return result ?? { ok: true };
+    } catch (e) {
+      const known = asAppError(e);
+      if (known) return { ok: false, formError: known.message, fieldErrors: known.fieldErrors, values };
+      // redirect() and notFound() signal by throwing; let Next handle them.
+      if (e && typeof e === "object" && "digest" in e) throw e;
+      console.error("[action] unexpected error", e);
+      return { ok: false, formError: "Something went wrong on our side. Nothing was saved. Please try again.", values };
+    }
+  };
+}

@@ -1,0 +1,81 @@
+"use server";
+import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
+import { defineAction } from "./define-action";
+import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
+import { newToken } from "@/server/auth/tokens";
+import { enrolmentNoticeMail, inviteMail } from "@/lib/domain/mail/templates";
+import { deliverSoon } from "@/server/mail/outbox";
+import { STATUS_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
+import { env } from "@/lib/env";
+
+const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
+const trialPath = (id: number) => `/portal/trials/${id}`;
+
+export const createTrial = defineAction({ roles: STAFF, schema: createTrialSchema }, async (input, viewer) => {
+  const trialId = await insertTrial(viewer, input);
+  revalidatePath("/portal/trials");
+  redirect(trialPath(trialId));
+});
+
+export const editTrial = defineAction({ roles: STAFF, schema: updateTrialSchema }, async (input, viewer) => {
+  await updateTrialDesign(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: "Trial details saved." };
+});
+
+export const addEntry = defineAction({ roles: STAFF, schema: addEntrySchema }, async (input, viewer) => {
+  const { blindCode } = await insertTrialEntry(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: `Entry added with blind code ${blindCode}.` };
+});
+
+export const removeEntry = defineAction({ roles: STAFF, schema: removeEntrySchema }, async (input, viewer) => {
+  await deleteTrialEntry(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: "Entry removed." };
+});
+
+export const enrolSite = defineAction({ roles: STAFF, schema: enrolSiteSchema }, async (input, viewer) => {
+  const { invited } = await insertEnrolment(viewer, input, {
+    invite: (person) => {
+      const token = newToken();
+      return {
+        token,
+        buildMail: (siteName) => inviteMail({ to: person.email, name: person.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
+      };
+    },
+    notice: (p) => enrolmentNoticeMail({ ...p, link: `${env.APP_URL}/portal` }),
+  });
+  await deliverSoon();
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: invited.length > 0 ? `Site enrolled. Invitation sent to ${invited.join(", ")}.` : "Site enrolled." };
+});
+
+export const randomiseSite = defineAction({ roles: STAFF, schema: randomiseSchema }, async (input, viewer) => {
+  const { seed, plots } = await updateSiteRandomisation(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  revalidatePath(`${trialPath(input.trialId)}/sites/${input.siteId}`);
+  return { ok: true, message: `Laid out ${plots} plots (seed ${seed}).` };
+});
+
+export const changeSowingDate = defineAction({ roles: STAFF, schema: sowingDateSchema }, async (input, viewer) => {
+  const { sownOn } = input;
+  const { changed, values } = await updateSowingDate(viewer, input);
+  if (!changed) return { ok: true, message: `The sowing date is already ${formatDate(sownOn)}.` };
+  // Every page that shows due dates or days from sowing reads the enrolment, so all of them refresh.
+  revalidatePath(trialPath(input.trialId));
+  revalidatePath(`${trialPath(input.trialId)}/sites/${input.siteId}`);
+  revalidatePath(`/portal/record/${input.trialId}/${input.siteId}`);
+  revalidatePath("/portal");
+  const recount = values > 0 ? ` Days to emergence and harvest for the ${values} values already recorded are now counted from it.` : "";
+  return { ok: true, message: `Sowing date set to ${formatDate(sownOn)}. Due dates follow it; reprint this site's field sheet.${recount}` };
+});
+
+export const changeTrialStatus = defineAction({ roles: STAFF, schema: changeStatusSchema }, async (input, viewer) => {
+  await updateTrialStatus(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  revalidatePath("/portal/trials");
+  return { ok: true, message: `Trial is now ${STATUS_LABELS[input.status].toLowerCase()}.` };
+});

@@ -1,0 +1,53 @@
+"use server";
+import { revalidatePath } from "next/cache";
+import { defineAction } from "./define-action";
+import { changeRoleSchema, inviteCooperatorSchema, setActiveSchema } from "@/lib/validation/auth";
+import { insertCooperatorInvite, updateUserActive, updateUserRole } from "@/db/mutations/users";
+import { newToken } from "@/server/auth/tokens";
+import { inviteMail, siteAccessMail } from "@/lib/domain/mail/templates";
+import { deliverSoon } from "@/server/mail/outbox";
+import { canChangeRole } from "@/lib/domain/permissions";
+import { AppError } from "@/lib/errors";
+import { env } from "@/lib/env";
+import { consumeRateLimit } from "@/server/auth/throttle";
+
+/** A coordinator invites a partner grower by e-mail to one of their program's sites. */
+export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], schema: inviteCooperatorSchema }, async (input, viewer) => {
+  const allowed = await consumeRateLimit(
+    [
+      { key: `invite-by:${viewer.id}`, max: 40 },
+      { key: `invite-to:${input.email}`, max: 3 },
+    ],
+    60,
+  );
+  if (!allowed) throw new AppError("too_many_requests", "Too many invitations in the last hour. Please wait before sending more.");
+  const token = newToken();
+  const { invited } = await insertCooperatorInvite({
+    viewer,
+    name: input.name,
+    email: input.email,
+    siteId: input.siteId,
+    token,
+    buildMail: (siteName) =>
+      inviteMail({ to: input.email, name: input.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
+    buildNotice: ({ name, siteName }) => siteAccessMail({ to: input.email, name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/portal` }),
+  });
+  await deliverSoon();
+  revalidatePath("/portal/cooperators");
+  revalidatePath("/portal/sites");
+  return { ok: true, message: invited ? `Invitation sent to ${input.email}.` : `${input.email} already has a Seedplot account, so they were added to the site and told by e-mail.` };
+});
+
+export const changeUserRole = defineAction({ roles: ["admin"], schema: changeRoleSchema }, async (input, viewer) => {
+  if (!canChangeRole(viewer, { id: input.userId })) throw new AppError("forbidden", "You cannot change your own role.");
+  await updateUserRole({ actorId: viewer.id, userId: input.userId, role: input.role });
+  revalidatePath("/portal/admin/users");
+  return { ok: true, message: "Role updated." };
+});
+
+export const setUserActive = defineAction({ roles: ["admin"], schema: setActiveSchema }, async (input, viewer) => {
+  if (!canChangeRole(viewer, { id: input.userId })) throw new AppError("forbidden", "You cannot deactivate your own account.");
+  await updateUserActive({ actorId: viewer.id, userId: input.userId, active: input.active });
+  revalidatePath("/portal/admin/users");
+  return { ok: true, message: input.active ? "Account activated." : "Account deactivated." };
+});

@@ -1,0 +1,105 @@
+import "server-only";
+import { createHash } from "node:crypto";
+import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits, SEED_COUNT_TRAITS } from "@/db/queries/analysis";
+import { AppError } from "@/lib/errors";
+import { runAnalysis } from "@/lib/domain/analysis/run";
+import { analysisFor } from "@/lib/domain/analysis/blind";
+import { isStaff } from "@/lib/domain/permissions";
+import { isAnalysable } from "@/lib/domain/analysis/values";
+import type { AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
+import type { AnalysisQuery } from "@/lib/validation/analysis";
+import type { Viewer } from "@/lib/domain/viewer";
+
+// Results are kept per (trial, data version, settings): a new observation, review decision or
+// exclusion changes the version, so stale results are never served, and old keys simply age out.
+const CACHE_LIMIT = 200;
+const cache = new Map<string, AnalysisResult>();
+
+/** The trait shown when none is asked for: the first measured number with data, else any analysable trait with data. */
+export function defaultTrait(traits: (InputTrait & { recorded: number })[]): InputTrait | null {
+  const candidates = traits.filter((t) => isAnalysable(t) && t.code !== "seeds_sown");
+  return (
+    candidates.find((t) => t.valueType === "number" && t.recorded > 0) ??
+    candidates.find((t) => t.recorded > 0) ??
+    candidates[0] ??
+    null
+  );
+}
+
+export interface PreparedAnalysis {
+  settings: AnalysisSettings;
+  /** names the result: trial, viewer scope, data version and settings */
+  key: string;
+  /** names the response: the key plus whether plot rows were asked for, since the bodies differ */
+  etag: string;
+  version: string;
+}
+
+/**
+ * Resolves the settings and the cache tag without running the analysis, so a client that already
+ * has this version gets a 304. Null when the trial is not the viewer's.
+ */
+export async function prepareAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery): Promise<PreparedAnalysis | null> {
+  const traits = await listAnalysisTraits(viewer, trialId);
+  if (!traits) return null;
+  let traitId = query.trait;
+  if (traitId !== undefined && !traits.some((t) => t.id === traitId)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
+  traitId ??= defaultTrait(traits)?.id;
+  if (traitId === undefined) throw new AppError("conflict", "This trial records no traits yet, so there is nothing to analyse.");
+  const settings: AnalysisSettings = {
+    traitId,
+    siteIds: query.sites ? [...query.sites].sort((a, b) => a - b) : null,
+    includeUnaccepted: query.unaccepted ?? false,
+    siteModel: query.model ?? "random",
+    separation: query.compare ?? "lsd",
+  };
+  const read = traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
+  const version = await getAnalysisVersion(viewer, trialId, read);
+  if (version === null) return null;
+  // Staff and each cooperator see different slices of the trial, so the tag (and cache key) names the scope.
+  const scope = viewer.role === "cooperator" ? `cooperator:${viewer.id}` : "staff";
+  const key = createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27);
+  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : ""}"`, version };
+}
+
+/** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
+async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
+  const key = `${trialId}|${prepared.key}`;
+  const hit = cache.get(key);
+  if (hit) return hit;
+  const input = await getAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
+  if (!input) return null;
+  const result = runAnalysis(input, prepared.settings);
+  cache.set(key, result);
+  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+  return result;
+}
+
+/**
+ * The analysis for prepared settings as this viewer may see it (lib/analysis/blind: blind codes only for
+ * growers until the trial is published). What the JSON API and the page send. Null when not the viewer's.
+ */
+export async function viewAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis, withPlots = false): Promise<ViewerAnalysis | null> {
+  const result = await computeAnalysis(viewer, trialId, prepared);
+  return result && analysisFor(viewer, result, withPlots);
+}
+
+/** Both steps as the viewer may see them, for the page's first render. */
+export async function loadAnalysisView(viewer: Viewer, trialId: number, query: AnalysisQuery) {
+  const prepared = await prepareAnalysis(viewer, trialId, query);
+  if (!prepared) return null;
+  const view = await viewAnalysis(viewer, trialId, prepared);
+  return view ? { view, etag: prepared.etag } : null;
+}
+
+/**
+ * The whole result with plot rows and the key, for staff only (exports, variety histories); null for
+ * anyone else, so a grower-facing path cannot reach it by mistake.
+ */
+export async function loadAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery) {
+  if (!isStaff(viewer)) return null;
+  const prepared = await prepareAnalysis(viewer, trialId, query);
+  if (!prepared) return null;
+  const result = await computeAnalysis(viewer, trialId, prepared);
+  return result ? { result, etag: prepared.etag } : null;
+}

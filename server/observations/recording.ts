@@ -1,0 +1,29 @@
+import "server-only";
+import { AppError } from "@/lib/errors";
+import type { Viewer } from "@/lib/domain/viewer";
+import { saveObservationsSchema, siteParamsSchema } from "@/lib/validation/observations";
+import { saveSiteObservations } from "@/db/mutations/observations";
+import { getRecordingSheet } from "@/db/queries/observations";
+
+// The cores of the observation route handlers, taking the viewer so tests can call them without a session.
+
+export async function saveObservationsForViewer(viewer: Viewer, body: unknown) {
+  const parsed = saveObservationsSchema.safeParse(body);
+  if (!parsed.success) throw new AppError("bad_request", parsed.error.issues[0]?.message ?? "That request was not understood.");
+  const { trialId, siteId, values } = parsed.data;
+  const result = await saveSiteObservations(viewer, {
+    trialId,
+    siteId,
+    source: "form",
+    cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value, missing: v.missingReason ?? null })),
+  });
+  return { ok: true as const, saved: result.saved, counts: result.counts };
+}
+
+export async function getRecordingSheetForApi(viewer: Viewer, params: { trialId: unknown; siteId: unknown }) {
+  const parsed = siteParamsSchema.safeParse(params);
+  if (!parsed.success) throw new AppError("not_found", "That site or trial does not exist.");
+  const sheet = await getRecordingSheet(viewer, parsed.data);
+  if (!sheet) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  return sheet;
+}

@@ -1,0 +1,91 @@
+import "server-only";
+import { getAnalysisInput, listAnalysisTraits } from "@/db/queries/analysis";
+import { getPublishContext } from "@/db/queries/publish";
+import { runAnalysis } from "@/lib/domain/analysis/run";
+import { analysedAs, isAnalysable } from "@/lib/domain/analysis/values";
+import { AppError } from "@/lib/errors";
+import type { AnalysisResult } from "@/lib/domain/analysis/types";
+import type { Viewer } from "@/lib/domain/viewer";
+import { summariseForGrowers } from "@/lib/domain/publish/summary";
+import type { PublishedSnapshot, PublishSettings } from "@/lib/domain/publish/types";
+
+/**
+ * Runs the analyses a publication shows and freezes them with the trial's public facts. Only accepted
+ * data are published. Throws AppError when the trial is not the viewer's or there is nothing to publish.
+ */
+export async function buildSnapshot(
+  viewer: Viewer,
+  p: { trialId: number; traitId: number | null; settings: PublishSettings; version: number; changeNote: string | null; publishedAt: Date },
+): Promise<PublishedSnapshot> {
+  const [context, traitList] = await Promise.all([getPublishContext(viewer, p.trialId), listAnalysisTraits(viewer, p.trialId)]);
+  if (!context || !traitList) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+  const candidates = traitList.filter((t) => isAnalysable(t) && t.code !== "seeds_sown" && t.recorded > 0 && (p.traitId === null || t.id === p.traitId));
+  if (p.traitId !== null && candidates.length === 0) throw new AppError("bad_request", "That trait has no recorded data to publish.");
+  if (candidates.length === 0) throw new AppError("conflict", "This trial has no recorded data yet, so there is nothing to publish.");
+
+  const results: { traitId: number; result: AnalysisResult }[] = [];
+  for (const trait of candidates) {
+    const input = await getAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
+    if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation });
+    // Who recorded an exclusion is internal; the reason is public.
+    result.exclusions = result.exclusions.map((e) => ({ ...e, createdBy: null }));
+    results.push({ traitId: trait.id, result });
+  }
+  const usable = results.filter((r) => r.result.combined || r.result.perSite.some((s) => s.result));
+  if (usable.length === 0) throw new AppError("conflict", "No site has accepted data that can be analysed yet. Accept at least one site's data first.");
+
+  const { trial } = context;
+  const published = p.publishedAt.toISOString();
+  return {
+    schemaVersion: 1,
+    version: p.version,
+    publishedAt: published,
+    changeNote: p.changeNote,
+    settings: p.settings,
+    program: trial.program,
+    trial: {
+      id: trial.id,
+      code: trial.code,
+      title: trial.title,
+      crop: trial.crop,
+      cropGroup: trial.cropGroup,
+      season: trial.season,
+      year: trial.year,
+      purpose: trial.purpose,
+      design: trial.design,
+      blocks: trial.blocks,
+      plotUnit: trial.plotUnit,
+      plotSize: trial.plotSize,
+      protocol: trial.protocol,
+    },
+    scopeTraitId: p.traitId,
+    sites: context.sites,
+    entries: context.entries,
+    traits: candidates.map((t) => ({
+      id: t.id,
+      code: t.code,
+      name: t.name,
+      unit: t.unit,
+      valueType: t.valueType,
+      analysedAs: analysedAs(t),
+      description: context.traits.find((c) => c.id === t.id)?.description ?? null,
+    })),
+    results,
+    summary: summariseForGrowers(usable.map((r) => r.result)),
+    data: results.flatMap(({ result }) =>
+      result.plots.map((plot) => ({
+        site: plot.siteName,
+        block: plot.block,
+        plotCode: plot.plotCode,
+        blindCode: plot.blindCode,
+        variety: plot.varietyName ?? plot.blindCode,
+        trait: result.trait.analysedAs,
+        unit: result.trait.unit,
+        value: plot.value,
+        status: plot.status,
+      })),
+    ),
+    citation: `${trial.program}. ${trial.title} (${trial.code}), ${trial.season}, version ${p.version}, published ${published.slice(0, 10)}. Seedplot.`,
+  };
+}

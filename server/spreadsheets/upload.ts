@@ -1,0 +1,167 @@
+import "server-only";
+import { AppError } from "@/lib/errors";
+import type { Viewer } from "@/lib/domain/viewer";
+import { getRecordingSheet } from "@/db/queries/observations";
+import { planSiteObservations, saveSiteObservations, type CellInput } from "@/db/mutations/observations";
+import { db } from "@/db/index";
+import { displayEntry } from "@/lib/domain/observations/values";
+import { addDays, todayIso } from "@/lib/domain/schedule";
+import { listWords, readUpload, type ReadResult, type SheetRow } from "@/lib/domain/spreadsheets/read";
+import { inspectUpload, UploadRefused } from "@/lib/domain/spreadsheets/safety";
+
+export interface UploadProblem {
+  row: number | null;
+  column: string | null;
+  message: string;
+}
+
+export interface UploadTarget {
+  trialId: number;
+  siteId: number;
+  bytes: Uint8Array;
+  fileName: string;
+}
+
+const MAX_PREVIEW_CHANGES = 500;
+
+/** Where a problem is, in the grower's terms: "Row 5, column E (Quality [1-9])". */
+function place(row: number | undefined, letter: string | undefined, heading: string | undefined) {
+  if (row === undefined) return null;
+  return letter ? `column ${letter}${heading ? ` (${heading})` : ""}` : heading ?? null;
+}
+
+type RecordingSheet = NonNullable<Awaited<ReturnType<typeof getRecordingSheet>>>;
+
+/** A cell's value as text, for telling whether two rows of the same plot agree. */
+function cellText(v: unknown): string {
+  if (v === null || v === undefined) return "";
+  if (v instanceof Date) return v.toISOString().slice(0, 10);
+  return String(v).trim();
+}
+
+const shown = (v: string) => (v === "" ? "empty" : `"${v.length > 40 ? `${v.slice(0, 40)}…` : v}"`);
+
+/** Says which columns two rows of the same plot disagree in, so the grower knows which row to keep. */
+function duplicateMessage(first: SheetRow, again: SheetRow, read: ReadResult, sheet: RecordingSheet): string {
+  const compared: [string, string, string, string][] = [
+    [read.letters["#block"]!, "Block", first.block, again.block],
+    [read.letters["#code"]!, "Code", first.code, again.code],
+    ...sheet.columns.map((c) => [read.letters[c.key]!, c.heading, cellText(first.values[c.key]), cellText(again.values[c.key])] as [string, string, string, string]),
+  ];
+  const differ = compared.filter(([, , a, b]) => a !== b);
+  if (differ.length === 0) return `Plot ${again.plotCode} is on row ${first.row} and again on row ${again.row}, with the same values. Delete one of the two rows.`;
+  const listed = differ.slice(0, 5).map(([letter, heading, a, b]) => `column ${letter} (${heading}: ${shown(a)} on row ${first.row}, ${shown(b)} on row ${again.row})`);
+  if (differ.length > 5) listed.push(`${differ.length - 5} more columns`);
+  return `Plot ${again.plotCode} is on row ${first.row} and again on row ${again.row}, and the two rows disagree in ${listWords(listed)}. Keep the row with the right values, delete the other, and upload again.`;
+}
+
+/** What to say about a sheet with plot rows but not one value in them (an unfilled template). */
+function nothingFilledIn(sheet: RecordingSheet, read: ReadResult): string {
+  if (read.rows.length === 0) {
+    return "The sheet has the column headings but no plot rows under them. Download this site's template, which lists every plot, fill in the values you have measured, and upload it again.";
+  }
+  const today = todayIso();
+  const sownOn = sheet.enrolment.sownOn;
+  const due = sownOn ? sheet.columns.filter((c) => c.dueDay !== null && addDays(sownOn, c.dueDay) <= today) : [];
+  const named = (cols: typeof sheet.columns) => listWords([...cols.slice(0, 4).map((c) => `${c.name} in column ${read.letters[c.key]}`), ...(cols.length > 4 ? [`${cols.length - 4} more`] : [])]);
+  const what = due.length > 0 ? `due by now: ${named(due)}` : `for example ${named(sheet.columns)}`;
+  return `This sheet has no values in it yet: every value cell is empty. Type what you have measured in each plot's row (${what}), leave a cell empty for anything not measured yet, and upload the sheet again.`;
+}
+
+async function prepare(viewer: Viewer, t: UploadTarget) {
+  let read: ReadResult;
+  const sheet = await getRecordingSheet(viewer, { trialId: t.trialId, siteId: t.siteId });
+  if (!sheet) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  try {
+    const kind = inspectUpload(t.bytes, t.fileName);
+    read = await readUpload(t.bytes, kind, { columns: sheet.columns, plotCodes: sheet.plots.map((p) => p.plotCode) });
+  } catch (e) {
+    if (e instanceof UploadRefused) return { refused: e.message, sheetName: e.sheet, sheet, read: null, cells: [], rowProblems: [] };
+    throw e;
+  }
+  const byCode = new Map(sheet.plots.map((p) => [p.plotCode.toUpperCase(), p]));
+  const firstRow = new Map<string, SheetRow>();
+  const rowProblems: UploadProblem[] = [];
+  const cells: CellInput[] = [];
+  const plotColumn = `column ${read.letters["#plot"]} (Plot)`;
+  for (const r of read.rows) {
+    const code = r.plotCode.toUpperCase();
+    if (!code) {
+      const filled = Object.entries(r.values).filter(([, v]) => cellText(v) !== "").map(([key]) => `${read.letters[key]}${r.row}`);
+      const holds = filled.length > 0 ? `, but it holds ${filled.length === 1 ? "a value in cell" : "values in cells"} ${filled.slice(0, 3).join(", ")}${filled.length > 3 ? " and more" : ""}` : "";
+      rowProblems.push({ row: r.row, column: plotColumn, message: `This row has no plot id in cell ${read.letters["#plot"]}${r.row}${holds}. Write the plot id from the label, or delete the row if it is not a plot.` });
+      continue;
+    }
+    const earlier = firstRow.get(code);
+    if (earlier) {
+      rowProblems.push({ row: r.row, column: plotColumn, message: duplicateMessage(earlier, r, read, sheet) });
+      continue;
+    }
+    firstRow.set(code, r);
+    const plot = byCode.get(code);
+    if (plot) {
+      // A sorted or shifted sheet shows up as a block or code that no longer matches the plot id.
+      if (r.block !== "" && r.block !== String(plot.block)) rowProblems.push({ row: r.row, column: `column ${read.letters["#block"]} (Block)`, message: `Plot ${plot.plotCode} is in block ${plot.block}, but this row says block ${r.block}. Check the row was not moved.` });
+      if (r.code !== "" && r.code.toUpperCase() !== plot.blindCode.toUpperCase()) rowProblems.push({ row: r.row, column: `column ${read.letters["#code"]} (Code)`, message: `Plot ${plot.plotCode} has code ${plot.blindCode}, but this row says ${r.code}. Check the row was not moved.` });
+    }
+    for (const [key, raw] of Object.entries(r.values)) {
+      // An empty cell leaves a recorded value alone, so an older copy of the sheet never erases phone entries.
+      if (raw === null || raw === undefined || (typeof raw === "string" && raw.trim() === "")) continue;
+      cells.push({ plotCode: r.plotCode, key, raw, row: r.row });
+    }
+  }
+  if (cells.length === 0 && rowProblems.length === 0) return { refused: nothingFilledIn(sheet, read), sheetName: read.sheet, sheet, read: null, cells, rowProblems };
+  return { refused: null, sheetName: read.sheet, sheet, read, cells, rowProblems };
+}
+
+/**
+ * Checks an uploaded sheet and reports what saving it would do (new, changed and unchanged values) and
+ * every problem by row and column. Writes nothing.
+ */
+export async function previewUpload(viewer: Viewer, t: UploadTarget) {
+  return (await analyse(viewer, t)).preview;
+}
+
+async function analyse(viewer: Viewer, t: UploadTarget) {
+  const prep = await prepare(viewer, t);
+  if (prep.refused || !prep.read) {
+    return { cells: prep.cells, textNumberCommas: undefined, preview: { ok: false as const, refused: prep.refused, sheet: prep.sheetName, otherSheets: [] as string[], problems: [] as UploadProblem[] } };
+  }
+  const { textNumberCommas } = prep.read;
+  const plan = await planSiteObservations(db, viewer, { trialId: t.trialId, siteId: t.siteId, cells: prep.cells, textNumberCommas });
+  const letters = prep.read.letters;
+  const problems: UploadProblem[] = [
+    ...prep.rowProblems,
+    ...plan.problems.map((p) => ({ row: p.row ?? null, column: place(p.row, p.key ? letters[p.key] : undefined, p.column), message: p.message })),
+  ].sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
+  const changes = plan.changes
+    .filter((c) => c.kind !== "unchanged")
+    .slice(0, MAX_PREVIEW_CHANGES)
+    .map((c) => ({ row: c.row ?? null, plotCode: c.plotCode, column: c.column.heading, kind: c.kind, oldValue: displayEntry(c.column, c.oldValue, c.oldReason), newValue: displayEntry(c.column, c.newValue, c.newReason) }));
+  return {
+    cells: prep.cells,
+    textNumberCommas,
+    preview: {
+      ok: problems.length === 0,
+      refused: null,
+      /** The worksheet that was read, and the ones that were not (workbooks only). */
+      sheet: prep.read.sheet,
+      otherSheets: prep.read.otherSheets,
+      rows: prep.read.rows.length,
+      blankRows: prep.read.blankRows,
+      counts: plan.counts,
+      problems,
+      changes,
+    },
+  };
+}
+export type UploadPreview = Awaited<ReturnType<typeof previewUpload>>;
+
+/** Saves an uploaded sheet: every value in one transaction, or nothing when any row has a problem. */
+export async function commitUpload(viewer: Viewer, t: UploadTarget) {
+  const { preview, cells, textNumberCommas } = await analyse(viewer, t);
+  if (!preview.ok) return { ok: false as const, preview };
+  // Saving checks everything again under the site's lock, in case values changed since the preview.
+  const result = await saveSiteObservations(viewer, { trialId: t.trialId, siteId: t.siteId, cells, source: "upload", textNumberCommas });
+  return { ok: true as const, saved: result.saved, counts: result.counts };
+}
