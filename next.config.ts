@@ -15,7 +15,7 @@ const nextConfig: NextConfig = {
   reactStrictMode: true,
   serverExternalPackages: ["mysql2", "exceljs", "smtp-server", "mailparser"],
   experimental: {
-    // Server actions read their body within this limit as it streams in (lib/http/limits.ts).
+    // Server actions read their body within this limit as it streams in (lib/domain/request-limits.ts).
     serverActions: { bodySizeLimit: BODY_LIMITS.pageForm.bytes },
     // The copy of a page request's body Next makes for proxy.ts, which refuses anything over the page limit.
     proxyClientMaxBodySize: PROXY_BODY_COPY_BYTES,

@@ -57,7 +57,7 @@ async function refuseWrite(request: NextRequest): Promise<NextResponse | null> {
  * Runs before every page and every route except those that read a body themselves (see config): refuses
  * undecodable paths with a 400 (Next would answer 500), refuses foreign or oversized writes, redirects
  * signed-out visitors away from /portal early (a convenience only: every page, action and route still
- * checks the viewer and role itself through lib/auth/guards), and sets the CSP.
+ * checks the viewer and role itself through server/auth/guards), and sets the CSP.
  */
 export default async function proxy(request: NextRequest) {
   const { pathname, search } = request.nextUrl;

@@ -1,3 +1,4 @@
+import "server-only";
 import { deliverPendingMail } from "@/server/mail/outbox";
 import { runDueReminders } from "@/server/observations/reminders";
 import { deleteOldSignInAttempts } from "@/db/mutations/sign-in-attempts";

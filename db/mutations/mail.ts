@@ -2,20 +2,14 @@ import "server-only";
 import { and, eq, inArray, isNull, lt, or, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { mailOutbox } from "../schema";
-
-export interface OutgoingMail {
-  to: string;
-  subject: string;
-  text: string;
-  html?: string;
-}
+import type { OutgoingMail } from "@/lib/domain/mail/templates";
 
 /** Queues a message in the caller's transaction; it is delivered after the transaction commits. */
 export async function insertMail(tx: Tx, mail: OutgoingMail) {
   await tx.insert(mailOutbox).values({ toAddress: mail.to, subject: mail.subject, textBody: mail.text, htmlBody: mail.html ?? null });
 }
 
-// Longer than one send can take (nodemailer's connection, greeting and socket timeouts in lib/mail/outbox.ts).
+// Longer than one send can take (nodemailer's connection, greeting and socket timeouts in server/mail/outbox.ts).
 const CLAIM_SECONDS = 120;
 
 /**

@@ -4,10 +4,11 @@ import { db } from "../index";
 import { publishedReports, trials } from "../schema";
 import { lockTrialForStaff } from "../access";
 import { insertAudit } from "../audit";
-import { insertMail, type OutgoingMail } from "./mail";
+import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import type { OutgoingMail } from "@/lib/domain/mail/templates";
 
 /**
  * Stores a new published version: the next version number, the frozen snapshot, the trial marked

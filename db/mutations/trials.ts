@@ -5,7 +5,7 @@ import { enrolments, observations, plots, programCoordinators, seasons, seedLots
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
 import { isDuplicateKey, lockTrialForStaff, requireStaff, trialProgress, type LockedTrial } from "../access";
-import { insertMail, type OutgoingMail } from "./mail";
+import { insertMail } from "./mail";
 import { insertCooperatorInviteInTx } from "./users";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -15,6 +15,7 @@ import { siteLayout } from "@/lib/domain/design/site-layout";
 import { canChangeSowingDate, canEditDesign, canEditTraits, canEnrolSites, canRandomiseSite, designLockReason, statusChangeProblem } from "@/lib/domain/design/status";
 import type { z } from "zod";
 import type { addEntrySchema, createTrialSchema, updateTrialSchema } from "@/lib/validation/trials";
+import type { OutgoingMail } from "@/lib/domain/mail/templates";
 
 type CreateTrialInput = z.infer<typeof createTrialSchema>;
 type UpdateTrialInput = z.infer<typeof updateTrialSchema>;

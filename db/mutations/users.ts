@@ -5,15 +5,16 @@ import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
 import { requireStaff, staffSiteScope } from "../access";
-import { insertMail, type OutgoingMail } from "./mail";
+import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
 import { hashToken } from "@/server/auth/tokens";
 import type { Viewer } from "@/lib/domain/viewer";
+import type { OutgoingMail } from "@/lib/domain/mail/templates";
 
 const INVITE_DAYS = 7;
 const RESET_MINUTES = 60;
 
-// Raising an account's session generation ends every session issued before (see lib/auth/config.ts).
+// Raising an account's session generation ends every session issued before (see server/auth/config.ts).
 const nextGeneration = sql`${users.sessionGeneration} + 1`;
 
 /** Marks a person's unused links of one kind as used, so none of them works any more. */

@@ -24,12 +24,10 @@ import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 import type { AnalysisInput, InputTrait } from "@/lib/domain/analysis/types";
 import { WITHHELD_REASON } from "@/lib/domain/analysis/blind";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
+import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
 // Staff read every site of their programs' trials; a cooperator reads only their own sites, and only
 // once a coordinator has shared that site's results (enrolments.results_shared), with blind codes only.
-
-/** Trait codes whose counts feed the germination and emergence sections whatever trait is chosen. */
-export const SEED_COUNT_TRAITS = ["seeds_sown", "emerged_final", "emergence_count"] as const;
 
 interface ScopedTrial {
   id: number;
@@ -158,7 +156,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
   ]);
   // Cooperators see their own sites' exclusions only. Until the trial is published they read nothing that
   // decodes a blind code: no names, seed lots, check flag or label germination, and not the coordinator's
-  // free-text reasons, which may name a variety (lib/analysis/blind.ts strips the result the same way).
+  // free-text reasons, which may name a variety (lib/domain/analysis/blind.ts strips the result the same way).
   const key = canSeeBlindKey(viewer, trial);
   const plotIds = new Set(plotRows.map((r) => r.id));
   const visibleSites = new Set(siteRows.map((r) => r.id));

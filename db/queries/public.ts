@@ -7,7 +7,7 @@ import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/publ
 
 // Public reads come only from published snapshots, never from live tables, so nothing unpublished can
 // leak and later data changes cannot alter what was published. Every snapshot is turned into its public
-// shape as it is read (lib/publish/public-shape), so what leaves here carries no internal state.
+// shape as it is read (lib/domain/publish/public-shape), so what leaves here carries no internal state.
 
 // A published version never changes, so its public shape can be kept for the life of the process.
 const parsedSnapshots = new Map<number, PublicSnapshot>();

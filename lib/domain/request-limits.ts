@@ -1,4 +1,4 @@
-// The one table of request-body limits. Route handlers read their bodies through lib/http/body.ts, which
+// The one table of request-body limits. Route handlers read their bodies through server/http/body.ts, which
 // cuts a body off at its route's limit while it streams in; next.config.ts gives server actions and the
 // proxy theirs from here; the photo and spreadsheet forms show the file limits. Plain data only: this
 // file is imported by next.config.ts and by client components.

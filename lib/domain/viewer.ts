@@ -1,6 +1,4 @@
 import type { Role } from "@/lib/domain/vocabulary/enums";
-import "next-auth";
-import "next-auth/jwt";
 
 /** The signed-in person as the rest of the app sees them. */
 export interface Viewer {
@@ -8,26 +6,4 @@ export interface Viewer {
   email: string;
   name: string;
   role: Role;
-}
-
-declare module "next-auth" {
-  interface Session {
-    user: { id: number; email: string; name: string; role: Role };
-  }
-  interface User {
-    id: string;
-    email: string;
-    name: string;
-    role: Role;
-    sessionGeneration: number;
-  }
-}
-
-declare module "next-auth/jwt" {
-  interface JWT {
-    uid?: number;
-    role?: Role;
-    /** The account's session generation when this session was issued (see db/schema/users.ts). */
-    gen?: number;
-  }
 }

@@ -4,7 +4,7 @@ import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
 import { VALUE_AND_REASON_MESSAGE } from "@/lib/domain/observations/values";
 
 // Requests from the data-entry form and the review page. Values stay strings here: how a string becomes a
-// count, date or rating depends on the trait, which lib/observations/values.ts decides with the trait row.
+// count, date or rating depends on the trait, which lib/domain/observations/values.ts decides with the trait row.
 
 export const saveObservationsSchema = z.object({
   trialId: idParam,

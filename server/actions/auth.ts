@@ -1,4 +1,5 @@
 "use server";
+import "server-only";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { acceptInviteSchema, forgotPasswordSchema, resetPasswordSchema } from "@/lib/validation/auth";

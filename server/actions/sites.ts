@@ -1,4 +1,5 @@
 "use server";
+import "server-only";
 import { revalidatePath } from "next/cache";
 import { defineAction } from "./define-action";
 import { siteSchema } from "@/lib/validation/sites";

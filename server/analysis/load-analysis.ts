@@ -1,6 +1,6 @@
 import "server-only";
 import { createHash } from "node:crypto";
-import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits, SEED_COUNT_TRAITS } from "@/db/queries/analysis";
+import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { analysisFor } from "@/lib/domain/analysis/blind";
@@ -9,6 +9,7 @@ import { isAnalysable } from "@/lib/domain/analysis/values";
 import type { AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
 import type { Viewer } from "@/lib/domain/viewer";
+import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
 // Results are kept per (trial, data version, settings): a new observation, review decision or
 // exclusion changes the version, so stale results are never served, and old keys simply age out.
@@ -76,7 +77,7 @@ async function computeAnalysis(viewer: Viewer, trialId: number, prepared: Prepar
 }
 
 /**
- * The analysis for prepared settings as this viewer may see it (lib/analysis/blind: blind codes only for
+ * The analysis for prepared settings as this viewer may see it (lib/domain/analysis/blind: blind codes only for
  * growers until the trial is published). What the JSON API and the page send. Null when not the viewer's.
  */
 export async function viewAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis, withPlots = false): Promise<ViewerAnalysis | null> {

@@ -1,3 +1,4 @@
+import "server-only";
 import net from "node:net";
 
 /** The address used when a request's origin cannot be told; every such request shares one throttle budget. */

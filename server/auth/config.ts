@@ -1,3 +1,4 @@
+import "server-only";
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { env } from "@/lib/env";
@@ -55,7 +56,7 @@ export const authOptions: NextAuthOptions = {
   ],
   callbacks: {
     // Called with `user` once at sign-in, then on every read of the session through next-auth's own
-    // routes (the app's pages, actions and routes check the same thing in lib/auth/guards.ts).
+    // routes (the app's pages, actions and routes check the same thing in server/auth/guards.ts).
     async jwt({ token, user }) {
       if (user) {
         token.uid = Number(user.id);

@@ -1,3 +1,4 @@
+import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 
 /** A URL-safe one-time token with 256 bits of randomness. */

@@ -1,7 +1,8 @@
+import "server-only";
 import { AppError } from "@/lib/errors";
 import { BODY_LIMITS, type BodyKind } from "@/lib/domain/request-limits";
 
-// Request bodies are read only through here, each up to its route's limit from lib/http/limits.ts. A body
+// Request bodies are read only through here, each up to its route's limit from lib/domain/request-limits.ts. A body
 // is counted while it streams in and refused (413) the moment it passes the limit, whether or not the
 // client declared a length, so memory holds at most the limit and never the whole of an oversized body.
 // request.json() and request.formData() would buffer whatever arrives; route handlers do not call them.

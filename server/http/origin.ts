@@ -1,3 +1,4 @@
+import "server-only";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
 

@@ -1,3 +1,4 @@
+import "server-only";
 import sharp from "sharp";
 import { BODY_LIMITS } from "@/lib/domain/request-limits";
 

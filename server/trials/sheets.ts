@@ -1,3 +1,4 @@
+import "server-only";
 import QRCode from "qrcode";
 import type { SiteLayout } from "@/db/queries/trials";
 import type { SiteSheetData } from "@/reports/shared/sheet-data";

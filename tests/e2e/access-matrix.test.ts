@@ -174,13 +174,13 @@ describe("access matrix: every page, route handler and server action against eve
   it("builds every exported server action with defineAction and the roles in the matrix", async () => {
     const found: Record<string, readonly string[] | "public"> = {};
     const problems: string[] = [];
-    const files = [...(await walk(path.join(ROOT, "lib"))), ...(await walk(path.join(ROOT, "app")))].filter((f) => /\.(ts|tsx)$/.test(f));
+    const files = [...(await walk(path.join(ROOT, "lib"))), ...(await walk(path.join(ROOT, "server"))), ...(await walk(path.join(ROOT, "app")))].filter((f) => /\.(ts|tsx)$/.test(f));
     for (const file of files) {
       const source = await fs.readFile(file, "utf8");
       if (!/^\s*["']use server["'];?/.test(source)) continue;
       const rel = path.relative(ROOT, file);
-      if (path.dirname(rel) !== path.join("lib", "actions")) {
-        problems.push(`${rel} is a "use server" file outside lib/actions`);
+      if (path.dirname(rel) !== path.join("server", "actions")) {
+        problems.push(`${rel} is a "use server" file outside server/actions`);
         continue;
       }
       // Role lists named once per file, e.g. const STAFF = ["coordinator", "admin"].

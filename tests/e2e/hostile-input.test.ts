@@ -30,7 +30,7 @@ afterAll(async () => {
 
 // Tables the server writes in the background are compared by row count and last id (both are append-only,
 // so any new row still shows), leaving out the background rows: the outbox worker marks queued mail as sent,
-// and the reminder timer (lib/jobs.ts) first fires a minute after start, which can land inside this test.
+// and the reminder timer (server/jobs.ts) first fires a minute after start, which can land inside this test.
 const BACKGROUND_ROWS: Record<string, string> = {
   audit_log: "action <> 'reminder.sent'",
   mail_outbox: "subject NOT LIKE 'Overdue counts at %' AND subject NOT LIKE 'Counts due tomorrow at %'",

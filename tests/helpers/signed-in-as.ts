@@ -1,6 +1,6 @@
-// Stand-in for lib/auth/guards in integration tests that call route handlers directly: there is no
+// Stand-in for server/auth/guards in integration tests that call route handlers directly: there is no
 // request session, so a test sets `testAuth.viewer` and the handlers' guards read it. Use it with
-//   vi.mock("@/lib/auth/guards", () => import("../helpers/signed-in-as"));
+//   vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 

@@ -64,7 +64,7 @@ afterAll(async () => {
   await appPool.end();
 });
 
-describe("analysis API numbers equal lib/stats on rows read straight from the database", () => {
+describe("analysis API numbers equal lib/domain/stats on rows read straight from the database", () => {
   it("matches per-site and combined F, CV, means and LSD for lettuce marketable yield", async () => {
     const result = await analysis(`trait=${yieldId}`);
     const data = await plainRows();

@@ -1,6 +1,6 @@
 /**
  * The analysis as plain tables for spreadsheets and CSV: the same result DTO the page shows, so the
- * numbers cannot drift apart. lib/spreadsheets/write turns them into files and makes every cell safe.
+ * numbers cannot drift apart. lib/domain/spreadsheets/write turns them into files and makes every cell safe.
  */
 import type { AnalysisResult } from "./types";
 

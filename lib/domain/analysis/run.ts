@@ -1,7 +1,7 @@
 /**
  * Assembles one trait's analysis from plain rows: which sites and plots count, per-site RCBD
  * ANOVAs, the combined analysis over sites, mean separation, warnings and plain-language notes.
- * All statistics come from lib/stats; this module only decides what goes in and how it is told.
+ * All statistics come from lib/domain/stats; this module only decides what goes in and how it is told.
  */
 import {
   anovaMultiSite,

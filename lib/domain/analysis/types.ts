@@ -77,7 +77,7 @@ export interface InputExclusion {
   createdBy: string | null;
 }
 
-/** Trial stages (as in db/schema/enums); the blind-code key is public once a trial is published. */
+/** Trial stages (as in lib/domain/vocabulary/enums); the blind-code key is public once a trial is published. */
 export type TrialStage = "draft" | "open" | "collecting" | "analysing" | "published" | "archived";
 
 export interface AnalysisInput {
@@ -262,7 +262,7 @@ export interface BlindAnalysisBlock extends Omit<AnalysisBlock, "means"> {
 }
 
 /**
- * What a cooperator receives before the key is revealed (lib/analysis/blind.ts builds it): blind codes
+ * What a cooperator receives before the key is revealed (lib/domain/analysis/blind.ts builds it): blind codes
  * only, no check flag, no label germination or seed lots, entries numbered and ordered by blind code
  * rather than by the coordinator's entry list, and no coordinator's notes on exclusions.
  */

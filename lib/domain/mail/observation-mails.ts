@@ -1,4 +1,4 @@
-import type { OutgoingMail } from "@/db/mutations/mail";
+import type { OutgoingMail } from "./templates";
 
 // E-mails about a site's data: what happened, what to do next, and a link. Plain text, short.
 

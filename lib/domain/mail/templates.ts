@@ -1,4 +1,9 @@
-import type { OutgoingMail } from "@/db/mutations/mail";
+export interface OutgoingMail {
+  to: string;
+  subject: string;
+  text: string;
+  html?: string;
+}
 
 const SIGNATURE = "\n\n-- \nSeedplot, on-farm variety trials of the Tamarack Valley Extension District";
 

@@ -1,5 +1,6 @@
 import type { EntryColumn } from "./columns";
 import { missingCell, parseMissingText, type MissingReason } from "./missing";
+import { SEEDS_SOWN_CODE, EMERGED_TRAIT_CODES } from "@/lib/domain/vocabulary/traits";
 
 // Turning what a grower typed (or a spreadsheet cell) into a stored value, with messages a grower
 // understands. Pure, so the browser gives the same answer as the server, which always re-checks.
@@ -28,9 +29,6 @@ export interface ParseContext {
   textNumberCommas?: TextNumberCommas;
 }
 
-/** Seedling counts that can never exceed the seeds sown in the same plot. */
-export const EMERGED_TRAIT_CODES = ["emergence_count", "emerged_final"];
-export const SEEDS_SOWN_CODE = "seeds_sown";
 export const MAX_TEXT = 1000;
 
 const MONTHS = ["january", "february", "march", "april", "may", "june", "july", "august", "september", "october", "november", "december"];

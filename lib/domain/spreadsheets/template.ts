@@ -103,7 +103,7 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
 
-/** The recorded values as CSV with the template's columns (written by lib/spreadsheets/write, so safe to open). */
+/** The recorded values as CSV with the template's columns (written by lib/domain/spreadsheets/write, so safe to open). */
 export function buildCsvExport(t: TemplateInput): string {
   const out: SheetCell[][] = [[...FIXED_HEADINGS, ...t.columns.map((c) => c.heading)]];
   for (const p of t.plots) {

@@ -22,7 +22,7 @@ export type StatsErrorCode =
   | "NOT_ESTIMABLE";
 
 /**
- * Thrown by every function in lib/stats when the input cannot be analysed. `message` is a
+ * Thrown by every function in lib/domain/stats when the input cannot be analysed. `message` is a
  * plain-language sentence fit to show a trial coordinator; `details` carries the offending
  * entry, block, row index or value for programmatic use.
  */

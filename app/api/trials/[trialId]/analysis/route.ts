@@ -12,7 +12,7 @@ const paramsSchema = z.object({ trialId: idParam });
 
 /**
  * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
- * once a coordinator has shared them (blind codes only until the trial is published, see lib/analysis/blind). The ETag changes whenever the
+ * once a coordinator has shared them (blind codes only until the trial is published, see lib/domain/analysis/blind). The ETag changes whenever the
  * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
  * Plot rows are left out unless `plots=1` asks for them: the page does not show them and they are
  * most of the body on a big trial (the exports carry them too).

@@ -12,7 +12,7 @@ import { AnalysisView } from "@/components/analysis/analysis-view";
 export const metadata: Metadata = { title: "Analysis" };
 
 export default async function AnalysisPage({ params, searchParams }: { params: Promise<{ trialId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  // Cooperators get their own shared sites only (the query layer) and blind codes only until publication (lib/analysis/blind).
+  // Cooperators get their own shared sites only (the query layer) and blind codes only until publication (lib/domain/analysis/blind).
   const viewer = await requireUser();
   const trialId = idParam.safeParse((await params).trialId);
   if (!trialId.success) notFound();
