@@ -13,6 +13,11 @@ flock -n 9 || { log "Another test run is in progress here; waiting for it"; floc
 ensure_debian_packages "mariadbd:mariadb-server" "mariadb:mariadb-client" "chromium:chromium" "pdftoppm:poppler-utils" "fc-list:fontconfig"
 ensure_node_modules
 
+# The layer rule (DEVELOPERS.md): a forbidden import fails the run. The tests still run, so one run shows both.
+log "Checking which folder imports which (npm run lint)"
+lint_status=0
+npm run --silent lint || lint_status=$?
+
 export DB_PORT="${TEST_DB_PORT:-33316}" DB_NAME=seedplot_test DB_USER=seedplot DB_PASSWORD=seedplot_test_pw DB_EXTRA_NAMES="seedplot_e2e seedplot_backup_src seedplot_backup_dst seedplot_fault"
 # Long-lived children must not inherit the lock, or it would outlive this run.
 bash scripts/db.sh start test 9>&-
@@ -62,6 +67,10 @@ DATABASE_URL="$TEST_DATABASE_URL" E2E_BASE_URL="http://localhost:$E2E_PORT" E2E_
   npx vitest run --reporter=default --reporter=json --outputFile=.data/test-results.json "$@"
 status=$?
 set -e
+if [ "$lint_status" -ne 0 ]; then
+  echo "lint: forbidden imports (listed at the start of this run)"
+  [ "$status" -ne 0 ] || status=1
+fi
 node -e "
 const r = JSON.parse(require('fs').readFileSync('.data/test-results.json', 'utf8'));
 console.log('tests: ' + r.numPassedTests + ' passed, ' + (r.numFailedTests + (r.numFailedTestSuites && !r.numFailedTests ? r.numFailedTestSuites : 0)) + ' failed');
