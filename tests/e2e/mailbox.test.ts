@@ -58,6 +58,7 @@ describe("test mailbox", () => {
     await page.goto("/portal/cooperators");
     await page.getByLabel("Grower's name").fill("Ivo Marsh");
     await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Site", { exact: true }).selectOption({ label: DEMO_SITES[3].name });
     await page.getByRole("button", { name: "Send invitation" }).click();
     await page.getByText(`Invitation sent to ${email}.`).waitFor();
     const [mail] = await waitForMailTo(email);
