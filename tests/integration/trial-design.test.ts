@@ -7,6 +7,8 @@ import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/muta
 import { removeTrialEntry, createTrial, addTrialEntry, editTrialDesign, moveTrialStatus } from "@/server/trials/design";
 import { enrolTrialSite, randomiseTrialSite, moveSowingDate } from "@/server/trials/enrolment";
 import { insertSite } from "@/db/mutations/sites";
+import { lockTrialForViewer } from "@/db/access";
+import { db as appDb } from "@/db/index";
 import { getPlotForViewer, getSiteLayout, getTrialDetail } from "@/db/queries/trials";
 import { createTrialSchema, sowingDateSchema } from "@/lib/validation/trials";
 import { scheduleForSite } from "@/lib/domain/schedule";
@@ -120,6 +122,16 @@ describe("trial set-up", () => {
     await expectAppError(addTrialEntry(outsider, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "not_found");
     await expectAppError(addTrialEntry(grower, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "forbidden");
     await expectAppError(createTrial(outsider, trialInput()), "bad_request", /program you coordinate/);
+  });
+
+  it("locks a trial only for viewers who reach it: its program's staff and the growers of its sites", async () => {
+    const trialId = await trialWithEntries(2);
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    const lockedBy = (viewer: Viewer) => appDb.transaction((tx) => lockTrialForViewer(tx, viewer, trialId));
+    expect((await lockedBy(coordinator)).id).toBe(trialId);
+    expect((await lockedBy(grower)).id).toBe(trialId);
+    await expectAppError(lockedBy(otherGrower), "not_found");
+    await expectAppError(lockedBy(outsider), "not_found");
   });
 });
 
