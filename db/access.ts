@@ -92,6 +92,7 @@ export interface LockedTrial {
   programId: number;
   cropId: number;
   code: string;
+  title: string;
   status: TrialStatus;
   design: "rcbd" | "crd";
   blocks: number;
@@ -99,19 +100,31 @@ export interface LockedTrial {
   plotSize: number;
 }
 
+/** Trials a viewer reaches: their programs' trials for staff, trials they grow a site of for cooperators. */
+function trialScope(viewer: Viewer): SQL {
+  if (viewer.role === "coordinator" || viewer.role === "admin") return staffTrialScope(viewer);
+  if (viewer.role !== "cooperator") return sql`false`;
+  return inArray(trials.id, db.select({ id: enrolments.trialId }).from(enrolments).where(cooperatorEnrolmentScope(viewer)));
+}
+
 /**
- * Loads a trial the viewer manages and locks its row for the rest of the transaction, so two
- * coordinators editing entries or layouts at once are serialised. Unknown and foreign trials look the same.
+ * Loads a trial the viewer reaches and locks its row for the rest of the transaction, so two people
+ * changing the same trial at once are serialised. Unknown trials and trials out of reach look the same.
  */
-export async function lockTrialForStaff(tx: Tx, viewer: Viewer, trialId: number): Promise<LockedTrial> {
-  requireStaff(viewer);
+export async function lockTrialForViewer(tx: Tx, viewer: Viewer, trialId: number): Promise<LockedTrial> {
   const [trial] = await tx
-    .select({ id: trials.id, programId: trials.programId, cropId: trials.cropId, code: trials.code, status: trials.status, design: trials.design, blocks: trials.blocks, plotUnit: trials.plotUnit, plotSize: trials.plotSize })
+    .select({ id: trials.id, programId: trials.programId, cropId: trials.cropId, code: trials.code, title: trials.title, status: trials.status, design: trials.design, blocks: trials.blocks, plotUnit: trials.plotUnit, plotSize: trials.plotSize })
     .from(trials)
-    .where(and(eq(trials.id, trialId), staffTrialScope(viewer)))
+    .where(and(eq(trials.id, trialId), trialScope(viewer)))
     .for("update");
   if (!trial) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
   return trial;
+}
+
+/** The same lock for changes only staff may make (set-up, publishing, exclusions); growers are refused. */
+export async function lockTrialForStaff(tx: Tx, viewer: Viewer, trialId: number): Promise<LockedTrial> {
+  requireStaff(viewer);
+  return lockTrialForViewer(tx, viewer, trialId);
 }
 
 /** Sites with a layout and observations recorded, the inputs of the status rules. */

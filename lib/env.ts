@@ -1,5 +1,13 @@
 import { z } from "zod";
-import { trustedProxyMatcher } from "@/server/auth/client-address";
+
+// A TRUSTED_PROXIES entry: an address or a CIDR range, refused here so a typo stops the server at start-up
+// rather than silently trusting nobody (or everybody). server/auth/client-address.ts turns the list into a
+// matcher when the server starts and refuses the same entries.
+const trustedProxyEntry = z
+  .string()
+  .refine((entry) => [z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6()].some((format) => format.safeParse(entry).success), {
+    error: (issue) => `"${String(issue.input)}" is not an IP address or a CIDR range`,
+  });
 
 // The one place that reads process.env: settings are parsed once and a missing one fails at start-up.
 const schema = z.object({
@@ -25,13 +33,7 @@ const schema = z.object({
     .string()
     .default("")
     .transform((list) => list.split(",").map((entry) => entry.trim()).filter(Boolean))
-    .superRefine((entries, ctx) => {
-      try {
-        trustedProxyMatcher(entries);
-      } catch (e) {
-        ctx.addIssue({ code: "custom", message: e instanceof Error ? e.message : String(e) });
-      }
-    }),
+    .pipe(z.array(trustedProxyEntry)),
 });
 
 export type Env = z.infer<typeof schema>;

@@ -6,13 +6,47 @@ import { insertAudit } from "../audit";
 import { cropUsedByOtherPrograms, isDuplicateKey, programScope, requireStaff, resolveProgram, staffTrialScope, staffVarietyScope } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import type { z } from "zod";
-import type { cropSchema, seedLotSchema, traitSchema, varietySchema } from "@/lib/validation/catalogue";
+import type { CropGroup, TRAIT_COMPUTATIONS, TraitType } from "@/lib/domain/vocabulary/enums";
 
-type CropInput = z.infer<typeof cropSchema>;
-type VarietyInput = z.infer<typeof varietySchema>;
-type SeedLotInput = z.infer<typeof seedLotSchema>;
-type TraitInput = z.infer<typeof traitSchema>;
+// The catalogue rows as the forms deliver them once validated (lib/validation/catalogue.ts); optional
+// fields are stored as NULL when left out.
+export interface CropInput {
+  name: string;
+  cropGroup: CropGroup;
+  scientificName?: string;
+}
+export interface VarietyInput {
+  /** The program a new variety joins; left out when the viewer runs only one. */
+  programId?: number;
+  cropId: number;
+  name: string;
+  description?: string;
+}
+export interface SeedLotInput {
+  varietyId: number;
+  source: string;
+  lotCode: string;
+  labelGerminationPct?: number;
+  germinationTestDate?: string;
+  packetDaysToMaturity?: number;
+  treated: boolean;
+  treatment?: string;
+}
+export interface TraitInput {
+  /** The program a new trait joins; left out when the viewer runs only one. */
+  programId?: number;
+  code: string;
+  name: string;
+  unit?: string;
+  valueType: TraitType;
+  minValue?: number;
+  maxValue?: number;
+  /** Days after sowing the value is due, ascending. */
+  dueDaysAfterSowing?: number[];
+  dueNote?: string;
+  computation: (typeof TRAIT_COMPUTATIONS)[number];
+  description?: string;
+}
 
 // Form input to row values, shared by add and edit so the two can never store a field differently.
 const cropValues = (i: CropInput) => ({ name: i.name, cropGroup: i.cropGroup, scientificName: i.scientificName ?? null });

@@ -5,14 +5,29 @@ import { insertAudit } from "../audit";
 import { isDuplicateKey, requireStaff, resolveProgram } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import type { z } from "zod";
-import type { siteSchema } from "@/lib/validation/sites";
+import type { GrowingSetup, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+
+/** A partner site as the form delivers it once validated (lib/validation/sites.ts). */
+export interface SiteInput {
+  /** The program the site joins; left out when the viewer runs only one. */
+  programId?: number;
+  name: string;
+  kind: (typeof SITE_KINDS)[number];
+  region: string;
+  latitude?: number;
+  longitude?: number;
+  growingSetup: GrowingSetup;
+  soil?: string;
+  irrigation?: string;
+  cooperatorName?: string;
+  cooperatorEmail?: string;
+}
 
 /**
  * Adds a partner site to one of the viewer's programs. The grower named here is only a contact until the
  * site joins a trial; enrolment sends the invitation, so nobody gets mail for a site that never takes part.
  */
-export async function insertSite(viewer: Viewer, input: z.infer<typeof siteSchema>) {
+export async function insertSite(viewer: Viewer, input: SiteInput) {
   requireStaff(viewer);
   try {
     return await db.transaction(async (tx) => {

@@ -7,12 +7,8 @@ import { insertAudit } from "../audit";
 import { requireStaff, staffSiteScope } from "../access";
 import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
-import { hashToken } from "@/server/auth/tokens";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { OutgoingMail } from "@/lib/domain/mail/templates";
-
-const INVITE_DAYS = 7;
-const RESET_MINUTES = 60;
 
 // Raising an account's session generation ends every session issued before (see server/auth/config.ts).
 const nextGeneration = sql`${users.sessionGeneration} + 1`;
@@ -25,71 +21,62 @@ async function voidOpenTokens(tx: Tx, userId: number, kind: "invite" | "password
     .where(and(eq(userTokens.userId, userId), eq(userTokens.kind, kind), isNull(userTokens.usedAt)));
 }
 
-/** What an invitation to a site needs; the caller owns the token and the wording of the mail. */
-export interface InviteRequest {
-  viewer: Viewer;
-  name: string;
-  email: string;
-  siteId: number;
-  token: string;
-  /** The invitation with its one-time link, for someone who has not set a password yet. */
-  buildMail: (siteName: string) => OutgoingMail;
-  /** The notice for someone who already has an account; left out when the caller sends its own (enrolment does). */
-  buildNotice?: (p: { name: string; siteName: string }) => OutgoingMail;
+/** One of the viewer's program's sites; an unknown site and another program's site get the same answer. */
+export async function getStaffSite(tx: Tx, viewer: Viewer, siteId: number) {
+  requireStaff(viewer);
+  const [site] = await tx.select({ id: sites.id, name: sites.name }).from(sites).where(and(eq(sites.id, siteId), staffSiteScope(viewer)));
+  if (!site) throw new AppError("bad_request", "Choose one of your program's sites.", { siteId: ["Choose a site from the list."] });
+  return site;
+}
+
+/** The account with this e-mail, locked for the rest of the transaction; `hasPassword` is false until an invitation is accepted. */
+export async function lockAccountByEmail(tx: Tx, email: string) {
+  const [account] = await tx
+    .select({ id: users.id, name: users.name, role: users.role, active: users.active, passwordHash: users.passwordHash })
+    .from(users)
+    .where(eq(users.email, email))
+    .for("update");
+  if (!account) return null;
+  const { passwordHash, ...rest } = account;
+  return { ...rest, hasPassword: passwordHash !== null };
+}
+
+/** Attaches a grower to a site (nothing changes when they already are). */
+export async function insertSiteCooperator(tx: Tx, p: { siteId: number; userId: number }) {
+  await tx.insert(siteCooperators).values({ siteId: p.siteId, userId: p.userId }).onDuplicateKeyUpdate({ set: { userId: p.userId } });
+}
+
+/** Attaches a grower who already has an account to a site, with its notice mail and an audit entry. */
+export async function insertSiteAttachment(tx: Tx, p: { viewer: Viewer; siteId: number; userId: number; mail: OutgoingMail | null }) {
+  await insertSiteCooperator(tx, p);
+  if (p.mail) await insertMail(tx, p.mail);
+  await insertAudit(tx, { actorId: p.viewer.id, action: "attach_site", entity: "user", entityId: p.userId, newValue: { siteId: p.siteId } });
 }
 
 /**
- * Invites a grower to one of the viewer's sites, all in one transaction: a new account without a password,
- * or a fresh link for someone who never set one, with an invite token and its mail; someone who already has
- * an account is attached to the site and told so. Growers belong to no program, so nothing about their
- * other sites is read, changed or revealed here.
+ * Stores an invitation to a site: a new account without a password, or a fresh link for `existingUserId`
+ * (who never set one; their earlier links stop working), attached to the site, with the token's digest,
+ * its mail and an audit entry. Growers belong to no program, so nothing about their other sites is read,
+ * changed or revealed here; their name changes only when no other program works with them.
  */
-export async function insertCooperatorInvite(p: InviteRequest) {
-  return db.transaction((tx) => insertCooperatorInviteInTx(tx, p));
-}
-
-/** The invitation itself, inside a caller's transaction (enrolling a site invites its grower this way). */
-export async function insertCooperatorInviteInTx(tx: Tx, p: InviteRequest): Promise<{ userId: number; invited: boolean }> {
-  requireStaff(p.viewer);
-  const [site] = await tx.select({ name: sites.name }).from(sites).where(and(eq(sites.id, p.siteId), staffSiteScope(p.viewer)));
-  // An unknown site and another program's site get the same answer.
-  if (!site) throw new AppError("bad_request", "Choose one of your program's sites.", { siteId: ["Choose a site from the list."] });
-  const [existing] = await tx
-    .select({ id: users.id, name: users.name, role: users.role, passwordHash: users.passwordHash })
-    .from(users)
-    .where(eq(users.email, p.email))
-    .for("update");
-  if (existing && existing.role !== "cooperator") {
-    throw new AppError("conflict", "This e-mail belongs to a staff account.", { email: ["This e-mail belongs to a staff account."] });
-  }
-  if (existing && existing.passwordHash !== null) {
-    await tx.insert(siteCooperators).values({ siteId: p.siteId, userId: existing.id }).onDuplicateKeyUpdate({ set: { userId: existing.id } });
-    if (p.buildNotice) await insertMail(tx, p.buildNotice({ name: existing.name, siteName: site.name }));
-    await insertAudit(tx, { actorId: p.viewer.id, action: "attach_site", entity: "user", entityId: existing.id, newValue: { siteId: p.siteId } });
-    return { userId: existing.id, invited: false };
-  }
+export async function insertInvitation(
+  tx: Tx,
+  p: { viewer: Viewer; siteId: number; name: string; email: string; existingUserId: number | null; tokenHash: string; expiresAt: Date; mail: OutgoingMail },
+): Promise<number> {
   let userId: number;
-  if (existing) {
-    userId = existing.id;
-    // The name is the grower's own once another program works with them too; only its sole programs may correct it.
+  if (p.existingUserId !== null) {
+    userId = p.existingUserId;
     if (!(await linkedOutsideViewerPrograms(tx, p.viewer, userId))) await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
-    // Earlier links stop working once a new one is sent.
     await voidOpenTokens(tx, userId, "invite");
   } else {
     const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
     userId = inserted!.id;
   }
-  await tx.insert(siteCooperators).values({ siteId: p.siteId, userId }).onDuplicateKeyUpdate({ set: { userId } });
-  await tx.insert(userTokens).values({
-    userId,
-    kind: "invite",
-    tokenHash: hashToken(p.token),
-    expiresAt: new Date(Date.now() + INVITE_DAYS * 86400_000),
-    createdById: p.viewer.id,
-  });
-  await insertMail(tx, p.buildMail(site.name));
+  await insertSiteCooperator(tx, { siteId: p.siteId, userId });
+  await tx.insert(userTokens).values({ userId, kind: "invite", tokenHash: p.tokenHash, expiresAt: p.expiresAt, createdById: p.viewer.id });
+  await insertMail(tx, p.mail);
   await insertAudit(tx, { actorId: p.viewer.id, action: "invite", entity: "user", entityId: userId, newValue: { email: p.email, siteId: p.siteId } });
-  return { userId, invited: true };
+  return userId;
 }
 
 /** Whether a grower works with a site outside the viewer's programs. */
@@ -104,13 +91,16 @@ async function linkedOutsideViewerPrograms(tx: Tx, viewer: Viewer, userId: numbe
   return !!other;
 }
 
-/** Uses a one-time token: sets the password (and name for invites) and marks the token used. */
-export async function updatePasswordWithToken(p: { token: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string }) {
+/**
+ * Uses a one-time token, found by its digest: sets the password (and name for invites) and marks the token
+ * used. An unknown, used or expired token is refused.
+ */
+export async function updatePasswordWithToken(p: { tokenHash: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string }) {
   return db.transaction(async (tx) => {
     const [row] = await tx
       .select({ id: userTokens.id, userId: userTokens.userId, expiresAt: userTokens.expiresAt, usedAt: userTokens.usedAt })
       .from(userTokens)
-      .where(and(eq(userTokens.tokenHash, hashToken(p.token)), eq(userTokens.kind, p.kind)))
+      .where(and(eq(userTokens.tokenHash, p.tokenHash), eq(userTokens.kind, p.kind)))
       .for("update");
     if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now()) {
       throw new AppError(
@@ -132,26 +122,22 @@ export async function updatePasswordWithToken(p: { token: string; kind: "invite"
   });
 }
 
-/** Stores a reset token and queues its mail when the e-mail belongs to an active account with a password. */
-export async function insertPasswordReset(p: { email: string; token: string; buildMail: (name: string) => OutgoingMail }) {
-  return db.transaction(async (tx) => {
-    const [user] = await tx
-      .select({ id: users.id, name: users.name, passwordHash: users.passwordHash })
-      .from(users)
-      .where(and(eq(users.email, p.email), eq(users.active, true)))
-      .for("update");
-    if (!user || user.passwordHash === null) return false;
-    // Only the newest link works: one forwarded or left in an old mail is void once another is sent.
-    await voidOpenTokens(tx, user.id, "password_reset");
-    await tx.insert(userTokens).values({
-      userId: user.id,
-      kind: "password_reset",
-      tokenHash: hashToken(p.token),
-      expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000),
-    });
-    await insertMail(tx, p.buildMail(user.name));
-    return true;
-  });
+/** The active account with this e-mail, locked for the rest of the transaction, or null. */
+export async function lockActiveAccountByEmail(tx: Tx, email: string) {
+  const [user] = await tx
+    .select({ id: users.id, name: users.name, passwordHash: users.passwordHash })
+    .from(users)
+    .where(and(eq(users.email, email), eq(users.active, true)))
+    .for("update");
+  if (!user) return null;
+  return { id: user.id, name: user.name, hasPassword: user.passwordHash !== null };
+}
+
+/** Stores a reset token's digest and queues its mail; only the newest link works, earlier ones are voided. */
+export async function insertPasswordReset(tx: Tx, p: { userId: number; tokenHash: string; expiresAt: Date; mail: OutgoingMail }) {
+  await voidOpenTokens(tx, p.userId, "password_reset");
+  await tx.insert(userTokens).values({ userId: p.userId, kind: "password_reset", tokenHash: p.tokenHash, expiresAt: p.expiresAt });
+  await insertMail(tx, p.mail);
 }
 
 /** Changes a user's role (admin only; checked by the caller) and records it. */

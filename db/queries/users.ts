@@ -5,7 +5,6 @@ import { siteCooperators, sites, users, userTokens } from "../schema";
 import type { TokenKind } from "@/lib/domain/vocabulary/enums";
 import { staffSiteScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
-import { hashToken } from "@/server/auth/tokens";
 import { isStaff } from "@/lib/domain/permissions";
 
 /** Credentials row for the sign-in check only; the hash never leaves the auth module. */
@@ -55,15 +54,15 @@ export async function countUsersByRole(viewer: Viewer) {
   return db.select({ role: users.role, total: count() }).from(users).groupBy(users.role);
 }
 
-/** An unused, unexpired token of the given kind, with the person it belongs to. */
-export async function getValidToken(token: string, kind: TokenKind) {
+/** An unused, unexpired token of the given kind, found by its digest, with the person it belongs to. */
+export async function getValidToken(tokenHash: string, kind: TokenKind) {
   const [row] = await db
     .select({ tokenId: userTokens.id, userId: users.id, email: users.email, name: users.name })
     .from(userTokens)
     .innerJoin(users, eq(users.id, userTokens.userId))
     .where(
       and(
-        eq(userTokens.tokenHash, hashToken(token)),
+        eq(userTokens.tokenHash, tokenHash),
         eq(userTokens.kind, kind),
         isNull(userTokens.usedAt),
         gt(userTokens.expiresAt, new Date()),

@@ -5,6 +5,7 @@ import { defineAction } from "./define-action";
 import { acceptInviteSchema, forgotPasswordSchema, resetPasswordSchema } from "@/lib/validation/auth";
 import { after } from "next/server";
 import { hashPassword } from "@/server/auth/password";
+import { hashToken } from "@/server/auth/tokens";
 import { updatePasswordWithToken } from "@/db/mutations/users";
 import { sendPasswordResetLink } from "@/server/auth/password-reset";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -15,7 +16,7 @@ import { requestAddress } from "@/server/auth/request-address";
 export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
   { roles: "public", schema: acceptInviteSchema },
   async (input) => {
-    await updatePasswordWithToken({ token: input.token, kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
+    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
     redirect("/sign-in?welcome=1");
   },
 );
@@ -45,7 +46,7 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
 export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
   { roles: "public", schema: resetPasswordSchema },
   async (input) => {
-    await updatePasswordWithToken({ token: input.token, kind: "password_reset", passwordHash: await hashPassword(input.password) });
+    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "password_reset", passwordHash: await hashPassword(input.password) });
     redirect("/sign-in?reset=1");
   },
 );

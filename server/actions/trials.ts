@@ -4,58 +4,47 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
-import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
-import { newToken } from "@/server/auth/tokens";
-import { enrolmentNoticeMail, inviteMail } from "@/lib/domain/mail/templates";
+import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry } from "@/server/trials/design";
+import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { STATUS_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
-import { env } from "@/lib/env";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
 const trialPath = (id: number) => `/portal/trials/${id}`;
 
 export const createTrial = defineAction({ roles: STAFF, schema: createTrialSchema }, async (input, viewer) => {
-  const trialId = await insertTrial(viewer, input);
+  const trialId = await createTrialUseCase(viewer, input);
   revalidatePath("/portal/trials");
   redirect(trialPath(trialId));
 });
 
 export const editTrial = defineAction({ roles: STAFF, schema: updateTrialSchema }, async (input, viewer) => {
-  await updateTrialDesign(viewer, input);
+  await editTrialDesign(viewer, input);
   revalidatePath(trialPath(input.trialId));
   return { ok: true, message: "Trial details saved." };
 });
 
 export const addEntry = defineAction({ roles: STAFF, schema: addEntrySchema }, async (input, viewer) => {
-  const { blindCode } = await insertTrialEntry(viewer, input);
+  const { blindCode } = await addTrialEntry(viewer, input);
   revalidatePath(trialPath(input.trialId));
   return { ok: true, message: `Entry added with blind code ${blindCode}.` };
 });
 
 export const removeEntry = defineAction({ roles: STAFF, schema: removeEntrySchema }, async (input, viewer) => {
-  await deleteTrialEntry(viewer, input);
+  await removeTrialEntry(viewer, input);
   revalidatePath(trialPath(input.trialId));
   return { ok: true, message: "Entry removed." };
 });
 
 export const enrolSite = defineAction({ roles: STAFF, schema: enrolSiteSchema }, async (input, viewer) => {
-  const { invited } = await insertEnrolment(viewer, input, {
-    invite: (person) => {
-      const token = newToken();
-      return {
-        token,
-        buildMail: (siteName) => inviteMail({ to: person.email, name: person.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
-      };
-    },
-    notice: (p) => enrolmentNoticeMail({ ...p, link: `${env.APP_URL}/portal` }),
-  });
+  const { invited } = await enrolTrialSite(viewer, input);
   await deliverSoon();
   revalidatePath(trialPath(input.trialId));
   return { ok: true, message: invited.length > 0 ? `Site enrolled. Invitation sent to ${invited.join(", ")}.` : "Site enrolled." };
 });
 
 export const randomiseSite = defineAction({ roles: STAFF, schema: randomiseSchema }, async (input, viewer) => {
-  const { seed, plots } = await updateSiteRandomisation(viewer, input);
+  const { seed, plots } = await randomiseTrialSite(viewer, input);
   revalidatePath(trialPath(input.trialId));
   revalidatePath(`${trialPath(input.trialId)}/sites/${input.siteId}`);
   return { ok: true, message: `Laid out ${plots} plots (seed ${seed}).` };
@@ -63,7 +52,7 @@ export const randomiseSite = defineAction({ roles: STAFF, schema: randomiseSchem
 
 export const changeSowingDate = defineAction({ roles: STAFF, schema: sowingDateSchema }, async (input, viewer) => {
   const { sownOn } = input;
-  const { changed, values } = await updateSowingDate(viewer, input);
+  const { changed, values } = await moveSowingDate(viewer, input);
   if (!changed) return { ok: true, message: `The sowing date is already ${formatDate(sownOn)}.` };
   // Every page that shows due dates or days from sowing reads the enrolment, so all of them refresh.
   revalidatePath(trialPath(input.trialId));
@@ -75,7 +64,7 @@ export const changeSowingDate = defineAction({ roles: STAFF, schema: sowingDateS
 });
 
 export const changeTrialStatus = defineAction({ roles: STAFF, schema: changeStatusSchema }, async (input, viewer) => {
-  await updateTrialStatus(viewer, input);
+  await moveTrialStatus(viewer, input);
   revalidatePath(trialPath(input.trialId));
   revalidatePath("/portal/trials");
   return { ok: true, message: `Trial is now ${STATUS_LABELS[input.status].toLowerCase()}.` };

@@ -3,13 +3,11 @@ import "server-only";
 import { revalidatePath } from "next/cache";
 import { defineAction } from "./define-action";
 import { changeRoleSchema, inviteCooperatorSchema, setActiveSchema } from "@/lib/validation/auth";
-import { insertCooperatorInvite, updateUserActive, updateUserRole } from "@/db/mutations/users";
-import { newToken } from "@/server/auth/tokens";
-import { inviteMail, siteAccessMail } from "@/lib/domain/mail/templates";
+import { updateUserActive, updateUserRole } from "@/db/mutations/users";
+import { inviteGrower } from "@/server/users/invitations";
 import { deliverSoon } from "@/server/mail/outbox";
 import { canChangeRole } from "@/lib/domain/permissions";
 import { AppError } from "@/lib/errors";
-import { env } from "@/lib/env";
 import { consumeRateLimit } from "@/server/auth/throttle";
 
 /** A coordinator invites a partner grower by e-mail to one of their program's sites. */
@@ -22,17 +20,7 @@ export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], 
     60,
   );
   if (!allowed) throw new AppError("too_many_requests", "Too many invitations in the last hour. Please wait before sending more.");
-  const token = newToken();
-  const { invited } = await insertCooperatorInvite({
-    viewer,
-    name: input.name,
-    email: input.email,
-    siteId: input.siteId,
-    token,
-    buildMail: (siteName) =>
-      inviteMail({ to: input.email, name: input.name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/invite/${token}` }),
-    buildNotice: ({ name, siteName }) => siteAccessMail({ to: input.email, name, inviterName: viewer.name, siteName, link: `${env.APP_URL}/portal` }),
-  });
+  const { invited } = await inviteGrower({ viewer, name: input.name, email: input.email, siteId: input.siteId, noticeForAccount: true });
   await deliverSoon();
   revalidatePath("/portal/cooperators");
   revalidatePath("/portal/sites");

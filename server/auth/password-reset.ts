@@ -1,9 +1,31 @@
 import "server-only";
-import { insertPasswordReset } from "@/db/mutations/users";
+import { db } from "@/db/index";
+import { insertPasswordReset, lockActiveAccountByEmail } from "@/db/mutations/users";
 import { passwordResetMail } from "@/lib/domain/mail/templates";
 import { deliverQueuedMail } from "@/server/mail/outbox";
 import { env } from "@/lib/env";
-import { newToken } from "./tokens";
+import { hashToken, newToken } from "./tokens";
+
+const RESET_MINUTES = 60;
+
+/**
+ * Stores a reset link and queues its mail, in one transaction, when the e-mail belongs to an active account
+ * with a password; answers whether it did. `token` is drawn fresh unless a test needs to know it.
+ */
+export async function issuePasswordReset(p: { email: string; token?: string }): Promise<boolean> {
+  const token = p.token ?? newToken();
+  return db.transaction(async (tx) => {
+    const account = await lockActiveAccountByEmail(tx, p.email);
+    if (!account || !account.hasPassword) return false;
+    await insertPasswordReset(tx, {
+      userId: account.id,
+      tokenHash: hashToken(token),
+      expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000),
+      mail: passwordResetMail({ to: p.email, name: account.name, link: `${env.APP_URL}/reset-password/${token}` }),
+    });
+    return true;
+  });
+}
 
 /**
  * Issues a reset link when the e-mail belongs to an active account with a password (voiding earlier
@@ -13,13 +35,7 @@ import { newToken } from "./tokens";
  */
 export async function sendPasswordResetLink(email: string): Promise<void> {
   try {
-    const token = newToken();
-    const queued = await insertPasswordReset({
-      email,
-      token,
-      buildMail: (name) => passwordResetMail({ to: email, name, link: `${env.APP_URL}/reset-password/${token}` }),
-    });
-    if (queued) await deliverQueuedMail();
+    if (await issuePasswordReset({ email })) await deliverQueuedMail();
   } catch (e) {
     console.error("[auth] reset link not issued:", e instanceof Error ? e.message : e);
   }

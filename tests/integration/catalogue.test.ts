@@ -17,7 +17,8 @@ import {
   updateTrait,
   updateVariety,
 } from "@/db/mutations/catalogue";
-import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
+import { createTrial, addTrialEntry } from "@/server/trials/design";
+import { enrolTrialSite, randomiseTrialSite } from "@/server/trials/enrolment";
 import { insertSite } from "@/db/mutations/sites";
 import { listCrops, listSeedLots, listTraits, listVarieties } from "@/db/queries/catalogue";
 import { createTrialSchema } from "@/lib/validation/trials";
@@ -31,10 +32,6 @@ let grower: Viewer;
 let seasonId: number;
 let siteId: number;
 
-const mail = {
-  invite: (p: { name: string; email: string }) => ({ token: unique("tok").padEnd(40, "x"), buildMail: () => ({ to: p.email, subject: "invite", text: "" }) }),
-  notice: (p: { to: string }) => ({ to: p.to, subject: "notice", text: "" }),
-};
 
 async function user(role: Viewer["role"], name: string): Promise<Viewer> {
   const email = `${unique(name)}@example.test`;
@@ -64,14 +61,14 @@ async function cropInTrial() {
   const spare = await insertVariety(coordinator, { cropId, name: "Benary Giant" });
   const spareLot = await insertSeedLot(coordinator, { varietyId: spare, source: "Hill Seeds", lotCode: "B1", treated: false });
   const traitId = await insertTrait(coordinator, traitForm());
-  const trialId = await insertTrial(
+  const trialId = await createTrial(
     coordinator,
     createTrialSchema.parse({ seasonId: String(seasonId), cropId: String(cropId), code: unique("Z").toUpperCase().slice(0, 30), title: "Zinnias", design: "rcbd", blocks: "2", plotUnit: "bed_row", plotSize: "8", seedsPerCell: "1", [`trait_${traitId}`]: "on" }),
   );
-  await insertTrialEntry(coordinator, { trialId, varietyId: used, seedLotId: usedLot, isCheck: false });
-  await insertTrialEntry(coordinator, { trialId, varietyId: spare, isCheck: false });
-  await insertEnrolment(coordinator, { trialId, siteId, sownOn: "2027-04-01" }, mail);
-  await updateSiteRandomisation(coordinator, { trialId, siteId });
+  await addTrialEntry(coordinator, { trialId, varietyId: used, seedLotId: usedLot, isCheck: false });
+  await addTrialEntry(coordinator, { trialId, varietyId: spare, isCheck: false });
+  await enrolTrialSite(coordinator, { trialId, siteId, sownOn: "2027-04-01" });
+  await randomiseTrialSite(coordinator, { trialId, siteId });
   return { cropId, used, usedLot, spare, spareLot, traitId, trialId };
 }
 

@@ -4,7 +4,8 @@ import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
 import { DEMO_TRIALS } from "@/db/demo-data";
 import type { Viewer } from "@/lib/domain/viewer";
-import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
+import { createTrial, addTrialEntry } from "@/server/trials/design";
+import { enrolTrialSite, randomiseTrialSite } from "@/server/trials/enrolment";
 import { insertSite } from "@/db/mutations/sites";
 import { insertVariety } from "@/db/mutations/catalogue";
 import { createTrialSchema } from "@/lib/validation/trials";
@@ -15,10 +16,6 @@ import { createTrialSchema } from "@/lib/validation/trials";
 const { db, pool } = testDatabase();
 let coordinator: Viewer;
 
-const mail = {
-  invite: (p: { email: string }) => ({ token: unique("tok").padEnd(40, "x"), buildMail: () => ({ to: p.email, subject: "invite", text: "" }) }),
-  notice: (p: { to: string }) => ({ to: p.to, subject: "notice", text: "" }),
-};
 
 /** A site's plots as a grower would lay them out: code, block, order, flat, insert or cell, and entry number. */
 async function plotsOf(enrolmentId: number) {
@@ -57,7 +54,7 @@ describe("demo layouts", () => {
       expect(enrolments).toHaveLength(demo.siteIndexes.length);
 
       // The same design and entries in a fresh trial, with as many fresh sites enrolled in the same order.
-      const cloneId = await insertTrial(
+      const cloneId = await createTrial(
         coordinator,
         createTrialSchema.parse({
           seasonId: String(seasonId),
@@ -75,12 +72,12 @@ describe("demo layouts", () => {
       for (const e of entries) {
         const [variety] = await db.select({ name: s.varieties.name }).from(s.varieties).where(eq(s.varieties.id, e.varietyId));
         const varietyId = await insertVariety(coordinator, { cropId: trial!.cropId, name: variety!.name });
-        await insertTrialEntry(coordinator, { trialId: cloneId, varietyId, isCheck: e.isCheck });
+        await addTrialEntry(coordinator, { trialId: cloneId, varietyId, isCheck: e.isCheck });
       }
       for (const [i, enrolment] of enrolments.entries()) {
         const siteId = await insertSite(coordinator, { name: unique(`Layout check ${i}`), kind: "farm", region: "Test", growingSetup: "greenhouse" });
-        const { enrolmentId } = await insertEnrolment(coordinator, { trialId: cloneId, siteId }, mail);
-        await updateSiteRandomisation(coordinator, { trialId: cloneId, siteId, seed: enrolment.randomSeed! });
+        const { enrolmentId } = await enrolTrialSite(coordinator, { trialId: cloneId, siteId });
+        await randomiseTrialSite(coordinator, { trialId: cloneId, siteId, seed: enrolment.randomSeed! });
         const demoPlots = await plotsOf(enrolment.id);
         expect(demoPlots).toHaveLength(demo.entries.length * demo.blocks);
         expect(demoPlots).toEqual(await plotsOf(enrolmentId));

@@ -4,10 +4,11 @@ import { eq } from "drizzle-orm";
 import type { SMTPServer } from "smtp-server";
 import * as s from "@/db/schema";
 import { startFakeSmtp } from "../../scripts/fake-smtp";
-import { insertCooperatorInvite, insertPasswordReset, updatePasswordWithToken } from "@/db/mutations/users";
+import { updatePasswordWithToken } from "@/db/mutations/users";
+import { inviteGrower } from "@/server/users/invitations";
+import { issuePasswordReset } from "@/server/auth/password-reset";
 import { getSignInRecord, getValidToken } from "@/db/queries/users";
 import { deliverPendingMail } from "@/server/mail/outbox";
-import { inviteMail, passwordResetMail } from "@/lib/domain/mail/templates";
 import { hashPassword, verifyPassword } from "@/server/auth/password";
 import { hashToken, newToken } from "@/server/auth/tokens";
 import { isAppError } from "@/lib/errors";
@@ -46,14 +47,7 @@ describe("invitations end to end through the fake SMTP server", () => {
     const { coordinator, site } = await coordinatorAndSite();
     const email = `${unique("grower")}@example.org`;
     const token = newToken();
-    await insertCooperatorInvite({
-      viewer: coordinator,
-      name: "New Grower",
-      email,
-      siteId: site.id,
-      token,
-      buildMail: (siteName) => inviteMail({ to: email, name: "New Grower", inviterName: coordinator.name, siteName, link: `http://localhost:3000/invite/${token}` }),
-    });
+    await inviteGrower({ viewer: coordinator, name: "New Grower", email, siteId: site.id, noticeForAccount: true, token });
     expect(await deliverPendingMail()).toBeGreaterThanOrEqual(1);
 
     const [mail] = await capturedTo(email);
@@ -62,8 +56,8 @@ describe("invitations end to end through the fake SMTP server", () => {
     const link = mail!.text.match(/\/invite\/([A-Za-z0-9_-]+)/)![1]!;
     expect(link).toBe(token);
 
-    expect(await getValidToken(link, "invite")).not.toBeNull();
-    await updatePasswordWithToken({ token: link, kind: "invite", passwordHash: await hashPassword("a-new-garden-password"), name: "New Grower" });
+    expect(await getValidToken(hashToken(link), "invite")).not.toBeNull();
+    await updatePasswordWithToken({ tokenHash: hashToken(link), kind: "invite", passwordHash: await hashPassword("a-new-garden-password"), name: "New Grower" });
     const record = await getSignInRecord(email);
     expect(await verifyPassword(record!.passwordHash, "a-new-garden-password")).toBe(true);
     expect(record!.role).toBe("cooperator");
@@ -71,18 +65,18 @@ describe("invitations end to end through the fake SMTP server", () => {
     const links = await db.select().from(s.siteCooperators).where(eq(s.siteCooperators.userId, record!.id));
     expect(links.map((l) => l.siteId)).toEqual([site.id]);
     // The link works only once.
-    await expect(updatePasswordWithToken({ token: link, kind: "invite", passwordHash: "x" })).rejects.toThrow(/expired or was already used/);
+    await expect(updatePasswordWithToken({ tokenHash: hashToken(link), kind: "invite", passwordHash: "x" })).rejects.toThrow(/expired or was already used/);
   });
 
   it("refuses an expired invitation and changes nothing", async () => {
     const { coordinator, site } = await coordinatorAndSite();
     const email = `${unique("late")}@example.org`;
     const token = newToken();
-    await insertCooperatorInvite({ viewer: coordinator, name: "Late Grower", email, siteId: site.id, token, buildMail: () => ({ to: email, subject: "x", text: "x" }) });
+    await inviteGrower({ viewer: coordinator, name: "Late Grower", email, siteId: site.id, noticeForAccount: true, token });
     await db.update(s.userTokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(s.userTokens.tokenHash, hashToken(token)));
 
-    expect(await getValidToken(token, "invite")).toBeNull();
-    const error = await updatePasswordWithToken({ token, kind: "invite", passwordHash: "hash" }).catch((e) => e);
+    expect(await getValidToken(hashToken(token), "invite")).toBeNull();
+    const error = await updatePasswordWithToken({ tokenHash: hashToken(token), kind: "invite", passwordHash: "hash" }).catch((e) => e);
     expect(isAppError(error) && error.code).toBe("bad_request");
     expect((await getSignInRecord(email))!.passwordHash).toBeNull();
   });
@@ -90,14 +84,7 @@ describe("invitations end to end through the fake SMTP server", () => {
   it("refuses to invite a staff account's e-mail as a grower, writing nothing", async () => {
     const { coordinator, site } = await coordinatorAndSite();
     const before = await db.select().from(s.mailOutbox);
-    const error = await insertCooperatorInvite({
-      viewer: coordinator,
-      name: "Someone",
-      email: coordinator.email,
-      siteId: site.id,
-      token: newToken(),
-      buildMail: () => ({ to: coordinator.email, subject: "x", text: "x" }),
-    }).catch((e) => e);
+    const error = await inviteGrower({ viewer: coordinator, name: "Someone", email: coordinator.email, siteId: site.id, noticeForAccount: true }).catch((e) => e);
     expect(isAppError(error) && error.code).toBe("conflict");
     expect((await db.select().from(s.mailOutbox)).length).toBe(before.length);
   });
@@ -105,7 +92,7 @@ describe("invitations end to end through the fake SMTP server", () => {
   it("refuses an invite to a site that does not exist and rolls back the new account", async () => {
     const { coordinator } = await coordinatorAndSite();
     const email = `${unique("nosite")}@example.org`;
-    const error = await insertCooperatorInvite({ viewer: coordinator, name: "X Y", email, siteId: 99999999, token: newToken(), buildMail: () => ({ to: email, subject: "x", text: "x" }) }).catch((e) => e);
+    const error = await inviteGrower({ viewer: coordinator, name: "X Y", email, siteId: 99999999, noticeForAccount: true }).catch((e) => e);
     expect(isAppError(error) && error.fieldErrors?.siteId).toBeTruthy();
     expect(await getSignInRecord(email)).toBeNull();
   });
@@ -114,12 +101,12 @@ describe("invitations end to end through the fake SMTP server", () => {
     const email = `${unique("reset")}@example.org`;
     await db.insert(s.users).values({ email, name: "Reset Me", role: "cooperator", passwordHash: await hashPassword("old-password-123") });
     const token = newToken();
-    const queued = await insertPasswordReset({ email, token, buildMail: (name) => passwordResetMail({ to: email, name, link: `http://localhost:3000/reset-password/${token}` }) });
+    const queued = await issuePasswordReset({ email, token });
     expect(queued).toBe(true);
     await deliverPendingMail();
     const [mail] = await capturedTo(email);
     const link = mail!.text.match(/\/reset-password\/([A-Za-z0-9_-]+)/)![1]!;
-    await updatePasswordWithToken({ token: link, kind: "password_reset", passwordHash: await hashPassword("new-password-456") });
+    await updatePasswordWithToken({ tokenHash: hashToken(link), kind: "password_reset", passwordHash: await hashPassword("new-password-456") });
     const record = await getSignInRecord(email);
     expect(await verifyPassword(record!.passwordHash, "new-password-456")).toBe(true);
     expect(await verifyPassword(record!.passwordHash, "old-password-123")).toBe(false);
@@ -127,7 +114,7 @@ describe("invitations end to end through the fake SMTP server", () => {
 
   it("sends no reset mail for an unknown e-mail", async () => {
     const email = `${unique("nobody")}@example.org`;
-    expect(await insertPasswordReset({ email, token: newToken(), buildMail: () => ({ to: email, subject: "x", text: "x" }) })).toBe(false);
+    expect(await issuePasswordReset({ email })).toBe(false);
     await deliverPendingMail();
     expect(await capturedTo(email)).toEqual([]);
   });

@@ -20,8 +20,10 @@ const { inviteCooperator } = await import("@/server/actions/users");
 const { GET: exportCsv } = await import("@/app/api/record/[trialId]/[siteId]/export/route");
 const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { updatePasswordWithToken } = await import("@/db/mutations/users");
+const { hashToken } = await import("@/server/auth/tokens");
 const catalogue = await import("@/db/mutations/catalogue");
-const { insertEnrolment, insertTrial, insertTrialEntry, updateTrialDesign } = await import("@/db/mutations/trials");
+const { createTrial, addTrialEntry, editTrialDesign } = await import("@/server/trials/design");
+const { enrolTrialSite } = await import("@/server/trials/enrolment");
 const { listCrops, listSeedLots, listTraits, listVarieties } = await import("@/db/queries/catalogue");
 const { listSitesForStaff } = await import("@/db/queries/sites");
 const { listCooperators } = await import("@/db/queries/users");
@@ -77,7 +79,7 @@ async function lastMailTo(email: string) {
 async function acceptLatestInvite(email: string): Promise<Viewer> {
   const mail = await lastMailTo(email);
   const token = mail!.textBody.match(/\/invite\/([A-Za-z0-9_-]+)/)![1]!;
-  await updatePasswordWithToken({ token, kind: "invite", passwordHash: "not-a-real-hash" });
+  await updatePasswordWithToken({ tokenHash: hashToken(token), kind: "invite", passwordHash: "not-a-real-hash" });
   return demoViewer(db, email);
 }
 
@@ -193,7 +195,7 @@ describe("sites and growers belong to one program", () => {
 
   it("enrols only the trial's own program's sites", async () => {
     expect((await listEnrolableSites(owen, juniperTrialId)).map((x) => x.name)).toEqual([]);
-    const refused = await refusal(insertEnrolment(owen, { trialId: juniperTrialId, siteId: kale.siteId }, { invite: () => ({ token: "x", buildMail: () => ({ to: "x", subject: "x", text: "x" }) }), notice: () => ({ to: "x", subject: "x", text: "x" }) }));
+    const refused = await refusal(enrolTrialSite(owen, { trialId: juniperTrialId, siteId: kale.siteId }));
     expect(refused.code).toBe("bad_request");
     expectNoFirstProgramNames(JSON.stringify(refused));
     expect(await db.select().from(s.enrolments).where(and(eq(s.enrolments.trialId, juniperTrialId), eq(s.enrolments.siteId, kale.siteId)))).toEqual([]);
@@ -221,7 +223,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
   it("lets an entry use only its trial's program's varieties", async () => {
     // Both programs grow lettuce, so the crop alone would not stop it.
     expect((await listEntryOptions(owen, juniperTrialId)).map((v) => v.name).sort()).toEqual(DEMO_SECOND_PROGRAM.trial.entries.map((e) => e.variety).sort());
-    const refused = await refusal(insertTrialEntry(owen, { trialId: juniperTrialId, varietyId: await varietyId("Copper Ruffle"), isCheck: false }));
+    const refused = await refusal(addTrialEntry(owen, { trialId: juniperTrialId, varietyId: await varietyId("Copper Ruffle"), isCheck: false }));
     expectNoFirstProgramNames(`${refused.message} ${JSON.stringify(refused.fieldErrors ?? {})}`);
   });
 
@@ -233,7 +235,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     const [season] = await db.select({ id: s.seasons.id }).from(s.seasons).innerJoin(s.trials, eq(s.trials.seasonId, s.seasons.id)).where(eq(s.trials.id, kale.trialId));
     const [kaleCrop] = await db.select({ id: s.crops.id, name: s.crops.name }).from(s.crops).where(eq(s.crops.name, "Kale"));
     const secretCode = `TV28-${unique("S").replace(/[^A-Za-z0-9]/g, "").slice(-6).toUpperCase()}`;
-    created.trials.push(await insertTrial(rosa, { seasonId: season!.id, cropId: kaleCrop!.id, code: secretCode, title: "Unpublished kale", design: "rcbd", blocks: 3, plotUnit: "insert", plotSize: 6, seedsPerCell: 1, traitIds: [sheen] }));
+    created.trials.push(await createTrial(rosa, { seasonId: season!.id, cropId: kaleCrop!.id, code: secretCode, title: "Unpublished kale", design: "rcbd", blocks: 3, plotUnit: "insert", plotSize: 6, seedsPerCell: 1, traitIds: [sheen] }));
     const ember = await varietyId("Ember Red");
     const [emberLot] = await db.select({ id: s.seedLots.id }).from(s.seedLots).where(eq(s.seedLots.varietyId, ember));
 
@@ -267,7 +269,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     expect((await refusal(catalogue.updateTrait(owen, { ...traitInput, name: "Owen's now", traitId: ribs }))).code).toBe("not_found");
     const [trial] = await db.select().from(s.trials).where(eq(s.trials.id, juniperTrialId));
     const design = { trialId: juniperTrialId, title: trial!.title, design: trial!.design, blocks: trial!.blocks, plotUnit: trial!.plotUnit, plotSize: trial!.plotSize, seedsPerCell: trial!.seedsPerCell, traitIds: [ribs] };
-    expect((await refusal(updateTrialDesign(owen, design))).fieldErrors?.traitIds).toBeTruthy();
+    expect((await refusal(editTrialDesign(owen, design))).fieldErrors?.traitIds).toBeTruthy();
     // The same code may be used by another program; a built-in code may not.
     const own = await catalogue.insertTrait(owen, { ...traitInput, name: "Rib crack (Juniper)" });
     created.traits.push(own);

@@ -7,7 +7,8 @@ import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
-import { insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation } from "@/db/mutations/trials";
+import { createTrial, addTrialEntry } from "@/server/trials/design";
+import { enrolTrialSite, randomiseTrialSite } from "@/server/trials/enrolment";
 import { insertSite } from "@/db/mutations/sites";
 import { getSiteLayout } from "@/db/queries/trials";
 import { createTrialSchema } from "@/lib/validation/trials";
@@ -37,7 +38,7 @@ beforeAll(async () => {
   const [season] = await db.insert(s.seasons).values({ programId: program!.id, name: "Spring", year: 2027 }).$returningId();
   const cropId = await insertCrop(coordinator, { name: unique("Basil"), cropGroup: "herbs" });
   const traitId = await insertTrait(coordinator, traitSchema.parse({ name: "Seedlings up", code: unique("up").replace(/-/g, "_").slice(0, 38), valueType: "count", dueDaysAfterSowing: "5, 7, 10" }));
-  trialId = await insertTrial(
+  trialId = await createTrial(
     coordinator,
     createTrialSchema.parse({ seasonId: String(season!.id), cropId: String(cropId), code: unique("B").toUpperCase().slice(0, 30), title: "Basil emergence", design: "rcbd", blocks: "4", plotUnit: "insert", plotSize: "6", seedsPerCell: "1", [`trait_${traitId}`]: "on" }),
   );
@@ -46,11 +47,11 @@ beforeAll(async () => {
     varietyNames.push(name);
     const v = await insertVariety(coordinator, { cropId, name });
     const lot = await insertSeedLot(coordinator, { varietyId: v, source: "Seed House", lotCode: `B${i}`, treated: i === 2, treatment: i === 2 ? "Fungicide" : undefined });
-    await insertTrialEntry(coordinator, { trialId, varietyId: v, seedLotId: lot, isCheck: false });
+    await addTrialEntry(coordinator, { trialId, varietyId: v, seedLotId: lot, isCheck: false });
   }
   siteId = await insertSite(coordinator, { name: unique("Sheet farm"), kind: "farm", region: "Valley", growingSetup: "indoor_lights" });
-  await insertEnrolment(coordinator, { trialId, siteId, sownOn: "2027-03-18" }, { invite: () => ({ token: "t".repeat(40), buildMail: () => ({ to: "x@example.test", subject: "", text: "" }) }), notice: () => ({ to: "x@example.test", subject: "", text: "" }) });
-  await updateSiteRandomisation(coordinator, { trialId, siteId, seed: 20270318 });
+  await enrolTrialSite(coordinator, { trialId, siteId, sownOn: "2027-03-18" });
+  await randomiseTrialSite(coordinator, { trialId, siteId, seed: 20270318 });
 });
 
 afterAll(async () => {

@@ -4,8 +4,11 @@ import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { insertCrop, insertSeedLot, insertTrait, insertVariety } from "@/db/mutations/catalogue";
-import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updateSiteRandomisation, updateSowingDate, updateTrialDesign, updateTrialStatus } from "@/db/mutations/trials";
+import { removeTrialEntry, createTrial, addTrialEntry, editTrialDesign, moveTrialStatus } from "@/server/trials/design";
+import { enrolTrialSite, randomiseTrialSite, moveSowingDate } from "@/server/trials/enrolment";
 import { insertSite } from "@/db/mutations/sites";
+import { lockTrialForViewer } from "@/db/access";
+import { db as appDb } from "@/db/index";
 import { getPlotForViewer, getSiteLayout, getTrialDetail } from "@/db/queries/trials";
 import { createTrialSchema, sowingDateSchema } from "@/lib/validation/trials";
 import { scheduleForSite } from "@/lib/domain/schedule";
@@ -33,10 +36,6 @@ async function user(role: Viewer["role"], name: string, password: string | null 
   return { id: row!.id, email, name, role };
 }
 
-const mail = {
-  invite: (p: { name: string; email: string }) => ({ token: unique("tok").padEnd(40, "x"), buildMail: () => ({ to: p.email, subject: "invite", text: `hello ${p.name}` }) }),
-  notice: (p: { to: string; name: string; siteName: string; trialTitle: string }) => ({ to: p.to, subject: "notice", text: p.trialTitle }),
-};
 
 async function expectAppError(promise: Promise<unknown>, code: AppError["code"], message?: RegExp) {
   const err = await promise.then(() => null, (e: unknown) => e);
@@ -63,8 +62,8 @@ function trialInput(extra: Record<string, string> = {}) {
 }
 
 async function trialWithEntries(n: number) {
-  const trialId = await insertTrial(coordinator, trialInput());
-  for (let i = 0; i < n; i += 1) await insertTrialEntry(coordinator, { trialId, varietyId: varietyIds[i]!, seedLotId: lotIds[i], isCheck: i === 0 });
+  const trialId = await createTrial(coordinator, trialInput());
+  for (let i = 0; i < n; i += 1) await addTrialEntry(coordinator, { trialId, varietyId: varietyIds[i]!, seedLotId: lotIds[i], isCheck: i === 0 });
   return trialId;
 }
 
@@ -105,7 +104,7 @@ describe("trial set-up", () => {
     expect(entries).toHaveLength(5);
     expect(new Set(entries.map((e) => e.blindCode)).size).toBe(5);
     expect(entries.every((e) => isBlindCode(e.blindCode))).toBe(true);
-    await expectAppError(insertTrialEntry(coordinator, { trialId, varietyId: varietyIds[0]!, isCheck: false }), "conflict", /already an entry/);
+    await expectAppError(addTrialEntry(coordinator, { trialId, varietyId: varietyIds[0]!, isCheck: false }), "conflict", /already an entry/);
     expect(await db.select().from(s.trialEntries).where(eq(s.trialEntries.trialId, trialId))).toHaveLength(5);
   });
 
@@ -120,28 +119,40 @@ describe("trial set-up", () => {
     const trialId = await trialWithEntries(2);
     expect(await getTrialDetail(outsider, trialId)).toBeNull();
     expect(await getTrialDetail(grower, trialId)).toBeNull();
-    await expectAppError(insertTrialEntry(outsider, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "not_found");
-    await expectAppError(insertTrialEntry(grower, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "forbidden");
-    await expectAppError(insertTrial(outsider, trialInput()), "bad_request", /program you coordinate/);
+    await expectAppError(addTrialEntry(outsider, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "not_found");
+    await expectAppError(addTrialEntry(grower, { trialId, varietyId: varietyIds[3]!, isCheck: false }), "forbidden");
+    await expectAppError(createTrial(outsider, trialInput()), "bad_request", /program you coordinate/);
+  });
+
+  it("locks a trial only for viewers who reach it: its program's staff and the growers of its sites", async () => {
+    const trialId = await trialWithEntries(2);
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    const lockedBy = (viewer: Viewer) => appDb.transaction((tx) => lockTrialForViewer(tx, viewer, trialId));
+    expect((await lockedBy(coordinator)).id).toBe(trialId);
+    expect((await lockedBy(grower)).id).toBe(trialId);
+    await expectAppError(lockedBy(otherGrower), "not_found");
+    await expectAppError(lockedBy(outsider), "not_found");
   });
 });
 
 describe("enrolment and randomisation", () => {
   it("invites a site's grower who has no account, in the same transaction as the enrolment", async () => {
     const trialId = await trialWithEntries(3);
-    const result = await insertEnrolment(coordinator, { trialId, siteId: siteB }, mail);
+    const result = await enrolTrialSite(coordinator, { trialId, siteId: siteB });
     expect(result.invited).toHaveLength(1);
     const [queued] = await db.select().from(s.mailOutbox).where(eq(s.mailOutbox.toAddress, result.invited[0]!));
-    expect(queued?.subject).toBe("invite");
-    await expectAppError(insertEnrolment(coordinator, { trialId, siteId: siteB }, mail), "conflict", /already enrolled/);
+    // The invitation itself (not the notice for growers with an account), with its one-time link.
+    expect(queued?.subject).toMatch(/invited/i);
+    expect(queued?.textBody).toMatch(/\/invite\/[A-Za-z0-9_-]{40,}/);
+    await expectAppError(enrolTrialSite(coordinator, { trialId, siteId: siteB }), "conflict", /already enrolled/);
   });
 
   it("lays out each site reproducibly from its stored seed, differently across sites, each entry once per block", async () => {
     const trialId = await trialWithEntries(4);
-    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
-    await insertEnrolment(coordinator, { trialId, siteId: siteB }, mail);
-    const a = await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteB });
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    await enrolTrialSite(coordinator, { trialId, siteId: siteB });
+    const a = await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteB });
     const layoutA = (await getSiteLayout(coordinator, { trialId, siteId: siteA }))!;
     const layoutB = (await getSiteLayout(coordinator, { trialId, siteId: siteB }))!;
     expect(layoutA.randomSeed).toBe(a.seed);
@@ -154,7 +165,7 @@ describe("enrolment and randomisation", () => {
     // Four six-cell inserts per block: three blocks fill 12 inserts of flat 1, the fourth starts flat 2.
     expect(layoutA.plots.filter((p) => p.block === 4).every((p) => p.tray === 2)).toBe(true);
 
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA, seed: a.seed });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA, seed: a.seed });
     const again = (await getSiteLayout(coordinator, { trialId, siteId: siteA }))!;
     expect(again.plots.map((p) => p.blindCode)).toEqual(layoutA.plots.map((p) => p.blindCode));
     const audits = await db.select().from(s.auditLog).where(and(eq(s.auditLog.trialId, trialId), eq(s.auditLog.action, "rerandomise")));
@@ -163,38 +174,38 @@ describe("enrolment and randomisation", () => {
 
   it("freezes entries once a site is laid out and refuses re-randomising once data exist", async () => {
     const trialId = await trialWithEntries(3);
-    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
-    await expectAppError(insertTrialEntry(coordinator, { trialId, varietyId: varietyIds[4]!, isCheck: false }), "conflict", /frozen/);
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
+    await expectAppError(addTrialEntry(coordinator, { trialId, varietyId: varietyIds[4]!, isCheck: false }), "conflict", /frozen/);
     const [entry] = await db.select().from(s.trialEntries).where(eq(s.trialEntries.trialId, trialId));
-    await expectAppError(deleteTrialEntry(coordinator, { trialId, entryId: entry!.id }), "conflict", /frozen/);
+    await expectAppError(removeTrialEntry(coordinator, { trialId, entryId: entry!.id }), "conflict", /frozen/);
     const form = trialInput();
-    await expectAppError(updateTrialDesign(coordinator, { ...form, trialId, blocks: 5 }), "conflict", /frozen/);
+    await expectAppError(editTrialDesign(coordinator, { ...form, trialId, blocks: 5 }), "conflict", /frozen/);
 
     const [plot] = await db.select().from(s.plots).where(eq(s.plots.trialId, trialId));
     await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 4 });
     const before = await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.trialId, trialId));
-    await expectAppError(updateSiteRandomisation(coordinator, { trialId, siteId: siteA }), "conflict", /recorded data/);
+    await expectAppError(randomiseTrialSite(coordinator, { trialId, siteId: siteA }), "conflict", /recorded data/);
     expect(await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.trialId, trialId))).toEqual(before);
   });
 
   it("moves status one step at a time with its preconditions", async () => {
     const trialId = await trialWithEntries(2);
-    await expectAppError(updateTrialStatus(coordinator, { trialId, status: "collecting" }), "conflict", /one step/);
-    await updateTrialStatus(coordinator, { trialId, status: "open" });
-    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
-    await expectAppError(updateTrialStatus(coordinator, { trialId, status: "collecting" }), "conflict", /needs a layout/);
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
-    await updateTrialStatus(coordinator, { trialId, status: "collecting" });
-    await expectAppError(updateTrialStatus(coordinator, { trialId, status: "draft" }), "conflict");
+    await expectAppError(moveTrialStatus(coordinator, { trialId, status: "collecting" }), "conflict", /one step/);
+    await moveTrialStatus(coordinator, { trialId, status: "open" });
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    await expectAppError(moveTrialStatus(coordinator, { trialId, status: "collecting" }), "conflict", /needs a layout/);
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
+    await moveTrialStatus(coordinator, { trialId, status: "collecting" });
+    await expectAppError(moveTrialStatus(coordinator, { trialId, status: "draft" }), "conflict");
   });
 });
 
 describe("who sees a site's layout", () => {
   it("shows a cooperator only their own site, with blind codes but no variety names", async () => {
     const trialId = await trialWithEntries(3);
-    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
     const mine = await getSiteLayout(grower, { trialId, siteId: siteA });
     expect(mine).not.toBeNull();
     expect(mine!.showKey).toBe(false);
@@ -212,23 +223,23 @@ describe("who sees a site's layout", () => {
 describe("editing a trial", () => {
   it("still saves a new title after layout, but not a different trait set once data exist", async () => {
     const trialId = await trialWithEntries(2);
-    await insertEnrolment(coordinator, { trialId, siteId: siteA }, mail);
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
+    await enrolTrialSite(coordinator, { trialId, siteId: siteA });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
     const form = trialInput();
-    await updateTrialDesign(coordinator, { ...form, trialId, title: "Renamed after layout" });
+    await editTrialDesign(coordinator, { ...form, trialId, title: "Renamed after layout" });
     const [row] = await db.select({ title: s.trials.title }).from(s.trials).where(eq(s.trials.id, trialId));
     expect(row!.title).toBe("Renamed after layout");
     const [plot] = await db.select().from(s.plots).where(eq(s.plots.trialId, trialId));
     await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 3 });
-    await expectAppError(updateTrialDesign(coordinator, { ...form, trialId, traitIds: [] }), "conflict", /traits can no longer change/);
+    await expectAppError(editTrialDesign(coordinator, { ...form, trialId, traitIds: [] }), "conflict", /traits can no longer change/);
   });
 });
 
 describe("changing a site's sowing date", () => {
   async function laidOutSite(sownOn?: string) {
     const trialId = await trialWithEntries(3);
-    const { enrolmentId } = await insertEnrolment(coordinator, { trialId, siteId: siteA, sownOn }, mail);
-    await updateSiteRandomisation(coordinator, { trialId, siteId: siteA });
+    const { enrolmentId } = await enrolTrialSite(coordinator, { trialId, siteId: siteA, sownOn });
+    await randomiseTrialSite(coordinator, { trialId, siteId: siteA });
     return { trialId, enrolmentId };
   }
   const sowing = async (enrolmentId: number) => (await db.select({ sownOn: s.enrolments.sownOn }).from(s.enrolments).where(eq(s.enrolments.id, enrolmentId)))[0]!.sownOn;
@@ -236,9 +247,9 @@ describe("changing a site's sowing date", () => {
 
   it("moves the site's due dates with the new date and logs the old and new dates", async () => {
     const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
-    await updateTrialStatus(coordinator, { trialId, status: "open" });
-    await updateTrialStatus(coordinator, { trialId, status: "collecting" });
-    const result = await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-21" });
+    await moveTrialStatus(coordinator, { trialId, status: "open" });
+    await moveTrialStatus(coordinator, { trialId, status: "collecting" });
+    const result = await moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-21" });
     expect(result).toEqual({ changed: true, values: 0 });
     expect(await sowing(enrolmentId)).toBe("2027-03-21");
     const layout = (await getSiteLayout(coordinator, { trialId, siteId: siteA }))!;
@@ -251,9 +262,9 @@ describe("changing a site's sowing date", () => {
 
   it("sets a date on a site enrolled without one, and writes nothing when the date is unchanged", async () => {
     const { trialId, enrolmentId } = await laidOutSite();
-    await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" });
+    await moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" });
     expect(await sowing(enrolmentId)).toBe("2027-04-02");
-    expect(await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" })).toEqual({ changed: false, values: 0 });
+    expect(await moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-04-02" })).toEqual({ changed: false, values: 0 });
     expect(await audits(trialId)).toHaveLength(1);
   });
 
@@ -261,10 +272,10 @@ describe("changing a site's sowing date", () => {
     const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
     const [plot] = await db.select().from(s.plots).where(eq(s.plots.enrolmentId, enrolmentId));
     await db.insert(s.observations).values({ plotId: plot!.id, traitId: traitIds[0]!, occasion: 5, valueNumber: 4, observedOn: "2027-03-23" });
-    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-24" }), "conflict", /dated 2027-03-23.*on or before 2027-03-23/);
+    await expectAppError(moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-24" }), "conflict", /dated 2027-03-23.*on or before 2027-03-23/);
     expect(await sowing(enrolmentId)).toBe("2027-03-18");
     expect(await audits(trialId)).toHaveLength(0);
-    expect(await updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-17" })).toEqual({ changed: true, values: 1 });
+    expect(await moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-17" })).toEqual({ changed: true, values: 1 });
     expect(await sowing(enrolmentId)).toBe("2027-03-17");
   });
 
@@ -272,12 +283,12 @@ describe("changing a site's sowing date", () => {
     const { trialId, enrolmentId } = await laidOutSite("2027-03-18");
     for (const status of ["published", "archived"] as const) {
       await db.update(s.trials).set({ status }).where(eq(s.trials.id, trialId));
-      await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "conflict", status === "published" ? /Withdraw the published results/ : /archived/);
+      await expectAppError(moveSowingDate(coordinator, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "conflict", status === "published" ? /Withdraw the published results/ : /archived/);
     }
     await db.update(s.trials).set({ status: "collecting" }).where(eq(s.trials.id, trialId));
-    await expectAppError(updateSowingDate(outsider, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "not_found");
-    await expectAppError(updateSowingDate(grower, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "forbidden");
-    await expectAppError(updateSowingDate(coordinator, { trialId, siteId: siteB, sownOn: "2027-03-10" }), "not_found", /not enrolled/);
+    await expectAppError(moveSowingDate(outsider, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "not_found");
+    await expectAppError(moveSowingDate(grower, { trialId, siteId: siteA, sownOn: "2027-03-10" }), "forbidden");
+    await expectAppError(moveSowingDate(coordinator, { trialId, siteId: siteB, sownOn: "2027-03-10" }), "not_found", /not enrolled/);
     expect(await sowing(enrolmentId)).toBe("2027-03-18");
     expect(await audits(trialId)).toHaveLength(0);
   });

@@ -1,13 +1,14 @@
 import type { Metadata } from "next";
 import { AcceptInviteForm } from "@/components/auth/password-forms";
 import { getValidToken } from "@/db/queries/users";
+import { hashToken } from "@/server/auth/tokens";
 import { tokenSchema } from "@/lib/validation/auth";
 
 export const metadata: Metadata = { title: "Welcome to Seedplot" };
 
 export default async function InvitePage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
-  const invite = tokenSchema.safeParse(token).success ? await getValidToken(token, "invite") : null;
+  const invite = tokenSchema.safeParse(token).success ? await getValidToken(hashToken(token), "invite") : null;
   if (!invite) {
     return (
       <>

@@ -2,13 +2,14 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { ResetPasswordForm } from "@/components/auth/password-forms";
 import { getValidToken } from "@/db/queries/users";
+import { hashToken } from "@/server/auth/tokens";
 import { tokenSchema } from "@/lib/validation/auth";
 
 export const metadata: Metadata = { title: "Choose a new password" };
 
 export default async function ResetPasswordPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
-  const valid = tokenSchema.safeParse(token).success ? await getValidToken(token, "password_reset") : null;
+  const valid = tokenSchema.safeParse(token).success ? await getValidToken(hashToken(token), "password_reset") : null;
   if (!valid) {
     return (
       <>

@@ -1,0 +1,96 @@
+import "server-only";
+import { db, type Tx } from "@/db/index";
+import { lockTrialForStaff, trialProgress, type LockedTrial } from "@/db/access";
+import {
+  countTrialParts,
+  deleteTrialEntry,
+  getEntryVariety,
+  insertTrial,
+  insertTrialEntry,
+  listTrialEntries,
+  listTrialTraitIds,
+  updateTrialDesign,
+  updateTrialStatus,
+  type NewTrialRow,
+  type TrialDesignRow,
+} from "@/db/mutations/trials";
+import { blindCodes } from "@/lib/domain/design/blind-codes";
+import { newSeed } from "@/lib/domain/design/random";
+import { canEditDesign, canEditTraits, designLockReason, statusChangeProblem } from "@/lib/domain/design/status";
+import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { Viewer } from "@/lib/domain/viewer";
+import { AppError } from "@/lib/errors";
+
+// A trial's set-up: creating it, editing its design and entries, and moving it along its life cycle. The
+// status rules (lib/domain/design/status) are applied here, on the trial locked for the transaction.
+
+/** Creates a draft trial in a season of one of the viewer's programs, with its traits, in one transaction. */
+export async function createTrial(viewer: Viewer, trial: NewTrialRow): Promise<number> {
+  return db.transaction((tx) => insertTrial(tx, { viewer, trial }));
+}
+
+async function trialState(tx: Tx, trial: LockedTrial) {
+  return { status: trial.status, ...(await trialProgress(tx, trial.id)) };
+}
+
+async function requireDesignEditable(tx: Tx, trial: LockedTrial) {
+  const reason = designLockReason(await trialState(tx, trial));
+  if (reason) throw new AppError("conflict", reason);
+}
+
+/** Edits the design. Blocks, plot unit and design freeze once a site is laid out; traits once data exist. */
+export async function editTrialDesign(viewer: Viewer, input: TrialDesignRow & { trialId: number }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    const state = await trialState(tx, trial);
+    const designChanged = trial.design !== input.design || trial.blocks !== input.blocks || trial.plotUnit !== input.plotUnit || trial.plotSize !== input.plotSize;
+    if (designChanged && !canEditDesign(state)) throw new AppError("conflict", designLockReason(state) ?? "The design can no longer change.");
+    const currentTraitIds = await listTrialTraitIds(tx, trial.id);
+    // The form lists traits in library order, so only a different set counts as a change.
+    const sortedIds = (ids: number[]) => [...new Set(ids)].sort((a, b) => a - b).join(",");
+    const traitsChanged = sortedIds(currentTraitIds) !== sortedIds(input.traitIds);
+    if (traitsChanged && !canEditTraits(state)) throw new AppError("conflict", "The traits can no longer change because data collection has started.");
+    const { trialId: _trialId, ...design } = input;
+    await updateTrialDesign(tx, { viewer, trial, design, currentTraitIds, traitsChanged });
+  });
+}
+
+/**
+ * Adds one of the program's varieties (and a seed lot of it) as an entry, with a fresh blind code no other
+ * entry of the trial has. Another program's variety is refused as if it did not exist.
+ */
+export async function addTrialEntry(viewer: Viewer, input: { trialId: number; varietyId: number; seedLotId?: number; isCheck: boolean }) {
+  return db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    await requireDesignEditable(tx, trial);
+    const variety = await getEntryVariety(tx, { trial, varietyId: input.varietyId, seedLotId: input.seedLotId });
+    const existing = await listTrialEntries(tx, trial.id);
+    if (existing.some((e) => e.varietyId === variety.id)) {
+      throw new AppError("conflict", `${variety.name} is already an entry in this trial.`, { varietyId: ["This variety is already an entry."] });
+    }
+    const [blindCode] = blindCodes(1, newSeed(), existing.map((e) => e.blindCode));
+    const entryNumber = existing.reduce((m, e) => Math.max(m, e.entryNumber), 0) + 1;
+    const entryId = await insertTrialEntry(tx, { viewer, trialId: trial.id, entry: { varietyId: variety.id, seedLotId: input.seedLotId, isCheck: input.isCheck, blindCode: blindCode!, entryNumber } });
+    return { entryId, blindCode: blindCode! };
+  });
+}
+
+/** Removes an entry while the design is still editable. */
+export async function removeTrialEntry(viewer: Viewer, input: { trialId: number; entryId: number }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    await requireDesignEditable(tx, trial);
+    await deleteTrialEntry(tx, { viewer, trialId: trial.id, entryId: input.entryId });
+  });
+}
+
+/** Moves a trial one step along its life cycle when the status rules allow it. */
+export async function moveTrialStatus(viewer: Viewer, input: { trialId: number; status: TrialStatus }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    const state = { ...(await trialState(tx, trial)), ...(await countTrialParts(tx, trial.id)) };
+    const problem = statusChangeProblem(state, input.status);
+    if (problem) throw new AppError("conflict", problem);
+    await updateTrialStatus(tx, { viewer, trial, status: input.status });
+  });
+}
