@@ -14,7 +14,9 @@ import {
   type AnovaTable,
   type MultiSitePlot,
 } from "@/lib/domain/stats";
-import { countOf, formatNumber, formatP, plural } from "./format";
+import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { plural } from "@/lib/domain/vocabulary/words";
+import { countOf, formatNumber, formatP } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
 import { analysedAs, isAnalysable, plotValue } from "./values";
 import type {
@@ -242,7 +244,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
     );
   }
 
-  const germinationTraitIds = input.traits.filter((t) => ["seeds_sown", "emerged_final", "emergence_count"].includes(t.code)).map((t) => t.id);
+  const germinationTraitIds = input.traits.filter((t) => (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
   const germPlotExclusions = new Set(input.exclusions.filter((x) => x.plotId !== null && exclusionApplies(x, germinationTraitIds)).map((x) => x.plotId!));
   const germSiteIds = new Set(
     includedSites
@@ -267,7 +269,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
     trial: { id: input.trial.id, code: input.trial.code, title: input.trial.title, crop: input.trial.crop, status: input.trial.status },
     settings,
     trait: { ...trait, analysedAs: traitLabel },
-    traits: input.traits.filter((t) => !["seeds_sown"].includes(t.code)).map((t) => ({ id: t.id, name: t.name, analysable: isAnalysable(t) })),
+    traits: input.traits.filter((t) => t.code !== SEEDS_SOWN_CODE).map((t) => ({ id: t.id, name: t.name, analysable: isAnalysable(t) })),
     sites: siteChoices,
     perSite,
     combined,
