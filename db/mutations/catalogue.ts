@@ -5,6 +5,7 @@ import { crops, enrolments, observations, seedLots, trialEntries, trialTraits, t
 import { insertAudit } from "../audit";
 import { cropUsedByOtherPrograms, isDuplicateKey, programScope, requireStaff, resolveProgram, staffTrialScope, staffVarietyScope } from "../access";
 import { AppError } from "@/lib/errors";
+import { plural } from "@/lib/domain/vocabulary/words";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { CropGroup, TRAIT_COMPUTATIONS, TraitType } from "@/lib/domain/vocabulary/enums";
 
@@ -125,7 +126,6 @@ function trialsPhrase(usedBy: UsingTrial[]) {
   const list = more > 0 ? `${shown.join(", ")} and ${more} more` : shown.length > 1 ? `${shown.slice(0, -1).join(", ")} and ${shown.at(-1)}` : shown[0]!;
   return `${usedBy.length === 1 ? "trial" : "trials"} ${list}`;
 }
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 /** Whether a trial row is one of the viewer's, as a selectable 0/1 column. */
 const mineColumn = (viewer: Viewer) => sql<boolean>`(${staffTrialScope(viewer)})`.mapWith((v) => Number(v) === 1);

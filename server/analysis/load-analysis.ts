@@ -9,7 +9,7 @@ import { isAnalysable } from "@/lib/domain/analysis/values";
 import type { AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
 import type { Viewer } from "@/lib/domain/viewer";
-import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
+import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 
 // Results are kept per (trial, data version, settings): a new observation, review decision or
 // exclusion changes the version, so stale results are never served, and old keys simply age out.
@@ -18,7 +18,7 @@ const cache = new Map<string, AnalysisResult>();
 
 /** The trait shown when none is asked for: the first measured number with data, else any analysable trait with data. */
 export function defaultTrait(traits: (InputTrait & { recorded: number })[]): InputTrait | null {
-  const candidates = traits.filter((t) => isAnalysable(t) && t.code !== "seeds_sown");
+  const candidates = traits.filter((t) => isAnalysable(t) && t.code !== SEEDS_SOWN_CODE);
   return (
     candidates.find((t) => t.valueType === "number" && t.recorded > 0) ??
     candidates.find((t) => t.recorded > 0) ??

@@ -3,6 +3,7 @@ import { getAnalysisInput, listAnalysisTraits } from "@/db/queries/analysis";
 import { getPublishContext } from "@/db/queries/publish";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { analysedAs, isAnalysable } from "@/lib/domain/analysis/values";
+import { SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { AppError } from "@/lib/errors";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -19,7 +20,7 @@ export async function buildSnapshot(
 ): Promise<PublishedSnapshot> {
   const [context, traitList] = await Promise.all([getPublishContext(viewer, p.trialId), listAnalysisTraits(viewer, p.trialId)]);
   if (!context || !traitList) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-  const candidates = traitList.filter((t) => isAnalysable(t) && t.code !== "seeds_sown" && t.recorded > 0 && (p.traitId === null || t.id === p.traitId));
+  const candidates = traitList.filter((t) => isAnalysable(t) && t.code !== SEEDS_SOWN_CODE && t.recorded > 0 && (p.traitId === null || t.id === p.traitId));
   if (p.traitId !== null && candidates.length === 0) throw new AppError("bad_request", "That trait has no recorded data to publish.");
   if (candidates.length === 0) throw new AppError("conflict", "This trial has no recorded data yet, so there is nothing to publish.");
 

@@ -17,7 +17,3 @@ export function formatNumber(x: number | null | undefined, digits?: number): str
 export function countOf(n: number, total: number, noun: string): string {
   return `${n} of ${total} ${total === 1 ? noun : `${noun}s`}`;
 }
-
-export function plural(n: number, noun: string, nouns = `${noun}s`): string {
-  return `${n} ${n === 1 ? noun : nouns}`;
-}

@@ -12,7 +12,9 @@ import {
   isStatsError,
   type GerminationPlot,
 } from "@/lib/domain/stats";
-import { formatNumber, formatP, plural } from "./format";
+import { EMERGED_FINAL_CODE, EMERGENCE_COUNT_CODE, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { plural } from "@/lib/domain/vocabulary/words";
+import { formatNumber, formatP } from "./format";
 import type { AnalysisInput, EmergenceAnalysis, GerminationAnalysis, GerminationRow, InputPlot, LabelComparison } from "./types";
 
 const ALPHA = 0.05;
@@ -35,9 +37,9 @@ function traitId(input: AnalysisInput, code: string): number | null {
 
 /** Seeds sown and seedlings up per plot; plots lacking either are skipped (they are not a germination test). */
 function plotCounts(input: AnalysisInput, plots: InputPlot[]): Counts[] {
-  const sownId = traitId(input, "seeds_sown");
-  const finalId = traitId(input, "emerged_final");
-  const countId = traitId(input, "emergence_count");
+  const sownId = traitId(input, SEEDS_SOWN_CODE);
+  const finalId = traitId(input, EMERGED_FINAL_CODE);
+  const countId = traitId(input, EMERGENCE_COUNT_CODE);
   if (sownId === null || (finalId === null && countId === null)) return [];
   const byPlot = new Map<number, { sown: number | null; final: number | null; series: { day: number; emerged: number }[] }>();
   for (const o of input.observations) {

@@ -2,6 +2,7 @@
  * Assembles one trait's analysis from plain rows: which sites and plots count, per-site RCBD
  * ANOVAs, the combined analysis over sites, mean separation, warnings and plain-language notes.
  * All statistics come from lib/domain/stats; this module only decides what goes in and how it is told.
+ * runAnalysis reads as the list of its steps; each step below takes what it needs and returns its part.
  */
 import {
   anovaMultiSite,
@@ -14,7 +15,9 @@ import {
   type AnovaTable,
   type MultiSitePlot,
 } from "@/lib/domain/stats";
-import { countOf, formatNumber, formatP, plural } from "./format";
+import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { plural } from "@/lib/domain/vocabulary/words";
+import { countOf, formatNumber, formatP } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
 import { analysedAs, isAnalysable, plotValue } from "./values";
 import type {
@@ -29,7 +32,9 @@ import type {
   InputObservation,
   InputPlot,
   InputSite,
+  InputTrait,
   MissingPlot,
+  PlotValue,
   SiteAnalysis,
   SiteChoice,
 } from "./types";
@@ -55,132 +60,203 @@ interface PlotRow {
   excluded: InputExclusion | null;
 }
 
+type EntriesById = Map<number, InputEntry>;
+
 /** Runs the whole analysis for the settings; never throws for data problems, it reports them instead. */
 export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): AnalysisResult {
   const trait = input.traits.find((t) => t.id === settings.traitId);
   if (!trait) throw new Error(`Trait ${settings.traitId} is not recorded in this trial.`);
-  const warnings: string[] = [];
-  const notes: string[] = [];
-  const entriesById = new Map(input.entries.map((e) => [e.id, e]));
-  const sitesById = new Map(input.sites.map((s) => [s.id, s]));
-  const traitLabel = analysedAs(trait);
-  const lowerLabel = traitLabel.charAt(0).toLowerCase() + traitLabel.slice(1);
+  const entriesById: EntriesById = new Map(input.entries.map((e) => [e.id, e]));
+  const exclusions = exclusionsFor(input.exclusions, [trait.id]);
+  const analysable = isAnalysable(trait);
 
-  // Which sites take part, and why the others do not.
-  const siteExclusions = new Map<number, InputExclusion>();
-  for (const x of input.exclusions) if (x.siteId !== null && x.plotId === null && exclusionApplies(x, [trait.id])) siteExclusions.set(x.siteId, x);
-  const plotExclusions = new Map<number, InputExclusion>();
-  for (const x of input.exclusions) if (x.plotId !== null && exclusionApplies(x, [trait.id])) plotExclusions.set(x.plotId, x);
-  const siteChoices: SiteChoice[] = input.sites.map((site) => {
+  const { siteChoices, includedSites } = chooseSites(input.sites, exclusions.bySite, settings);
+  const rows = collectPlotValues(input, trait, includedSites, exclusions.byPlot);
+  const missing = listMissingPlots(rows);
+  const perSite = analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById);
+  const analysedSites = perSite.analyses.filter((s) => s.result !== null);
+  const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, analysable, settings, entriesById);
+  const cvs = analysedSites.map((s) => ({ name: s.siteName, cv: s.result!.cv }));
+
+  const warnings = [
+    ...unacceptedDataWarning(includedSites),
+    ...(analysable ? [] : [`${trait.name} is free text, so it has no statistics; see the plot notes instead.`]),
+    ...perSite.warnings,
+    ...varianceWarnings(cvs, combined),
+  ];
+  // the seed-count sections add their own warnings
+  const { germination, emergence } = analyseSeedCounts(input, includedSites, warnings);
+  const exclusionList = describeExclusions(input);
+  const notes = [
+    ...siteNotes(trait, analysedSites, missing),
+    ...combinedNotes(trait, combined, analysedSites.length),
+    ...cvNote(cvs),
+    ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "exclusion")} recorded for this trial; the data stay stored and are listed below.`] : []),
+  ];
+
+  return {
+    trial: { id: input.trial.id, code: input.trial.code, title: input.trial.title, crop: input.trial.crop, status: input.trial.status },
+    settings,
+    trait: { ...trait, analysedAs: analysedAs(trait) },
+    traits: input.traits.filter((t) => t.code !== SEEDS_SOWN_CODE).map((t) => ({ id: t.id, name: t.name, analysable: isAnalysable(t) })),
+    sites: siteChoices,
+    perSite: perSite.analyses,
+    combined,
+    combinedProblem,
+    missing,
+    exclusions: exclusionList,
+    warnings,
+    notes,
+    explanations: explanations(settings),
+    germination,
+    emergence,
+    plots: rows.map(plotValueRow),
+  };
+}
+
+/** The site-wide and plot exclusions that apply to these traits, by site and by plot (the last one recorded wins). */
+function exclusionsFor(exclusions: InputExclusion[], traitIds: number[]) {
+  const bySite = new Map<number, InputExclusion>();
+  const byPlot = new Map<number, InputExclusion>();
+  for (const x of exclusions) {
+    if (!exclusionApplies(x, traitIds)) continue;
+    if (x.plotId !== null) byPlot.set(x.plotId, x);
+    else if (x.siteId !== null) bySite.set(x.siteId, x);
+  }
+  return { bySite, byPlot };
+}
+
+/** Which sites take part, and why the others do not. */
+function chooseSites(sites: InputSite[], siteExclusions: Map<number, InputExclusion>, settings: AnalysisSettings) {
+  const siteChoices: SiteChoice[] = sites.map((site) => {
     let why: string | null = null;
     if (settings.siteIds && !settings.siteIds.includes(site.id)) why = "not selected";
     else if (site.status !== "accepted" && !settings.includeUnaccepted) why = `data ${statusWords(site.status)}, not accepted yet`;
     else if (siteExclusions.has(site.id)) why = `excluded: ${siteExclusions.get(site.id)!.reason}`;
     return { id: site.id, name: site.name, status: site.status, included: why === null, why, shared: site.resultsShared ?? false };
   });
-  const includedSites = input.sites.filter((s) => siteChoices.find((c) => c.id === s.id)!.included);
-  const unacceptedIn = includedSites.filter((s) => s.status !== "accepted");
-  if (unacceptedIn.length > 0) {
-    warnings.push(
-      `Includes data not yet accepted from ${unacceptedIn.map((s) => `${s.name} (${statusWords(s.status)})`).join(", ")}; these figures may change after review.`,
-    );
-  }
+  const includedSites = sites.filter((_, i) => siteChoices[i]!.included);
+  return { siteChoices, includedSites };
+}
 
-  // Plot values for the chosen trait.
-  const obsByPlot = new Map<number, InputObservation[]>();
+function unacceptedDataWarning(includedSites: InputSite[]): string[] {
+  const unaccepted = includedSites.filter((s) => s.status !== "accepted");
+  if (unaccepted.length === 0) return [];
+  return [`Includes data not yet accepted from ${unaccepted.map((s) => `${s.name} (${statusWords(s.status)})`).join(", ")}; these figures may change after review.`];
+}
+
+/** One row per laid-out plot of the included sites, with the trait's analysed value or why it has none. */
+function collectPlotValues(input: AnalysisInput, trait: InputTrait, includedSites: InputSite[], plotExclusions: Map<number, InputExclusion>): PlotRow[] {
+  const observationsByPlot = new Map<number, InputObservation[]>();
   for (const o of input.observations) {
     if (o.traitId !== trait.id) continue;
-    const list = obsByPlot.get(o.plotId) ?? [];
+    const list = observationsByPlot.get(o.plotId) ?? [];
     list.push(o);
-    obsByPlot.set(o.plotId, list);
+    observationsByPlot.set(o.plotId, list);
   }
-  const includedIds = new Set(includedSites.map((s) => s.id));
+  const sitesById = new Map(includedSites.map((s) => [s.id, s]));
+  const entriesById = new Map(input.entries.map((e) => [e.id, e]));
   const rows: PlotRow[] = [];
   for (const plot of input.plots) {
-    if (!includedIds.has(plot.siteId)) continue;
-    const site = sitesById.get(plot.siteId)!;
+    const site = sitesById.get(plot.siteId);
     const entry = entriesById.get(plot.entryId);
-    if (!entry) continue;
-    const { value, reason } = plotValue(trait, site, obsByPlot.get(plot.id) ?? []);
+    if (!site || !entry) continue;
+    const { value, reason } = plotValue(trait, site, observationsByPlot.get(plot.id) ?? []);
     rows.push({ plot, site, entry, value, reason, excluded: plotExclusions.get(plot.id) ?? null });
   }
+  return rows;
+}
 
+/** Missing and excluded plots of the sites that recorded the trait at all. */
+function listMissingPlots(rows: PlotRow[]): MissingPlot[] {
   // A site with no value at all has simply not recorded the trait yet; listing all its plots would bury real gaps.
   const sitesWithData = new Set(rows.filter((r) => r.value !== null).map((r) => r.site.id));
   const missing: MissingPlot[] = [];
   for (const r of rows) {
     if (!sitesWithData.has(r.site.id)) continue;
-    if (r.excluded) {
-      missing.push({ plotCode: r.plot.plotCode, siteName: r.site.name, blindCode: r.entry.blindCode, block: r.plot.block, reason: `excluded: ${r.excluded.reason}`, handling: "left out; estimated by least squares" });
-    } else if (r.value === null) {
-      missing.push({ plotCode: r.plot.plotCode, siteName: r.site.name, blindCode: r.entry.blindCode, block: r.plot.block, reason: r.reason ?? "not recorded", handling: "left out; estimated by least squares" });
-    }
+    const reason = r.excluded ? `excluded: ${r.excluded.reason}` : r.value === null ? (r.reason ?? "not recorded") : null;
+    if (reason === null) continue;
+    missing.push({ plotCode: r.plot.plotCode, siteName: r.site.name, blindCode: r.entry.blindCode, block: r.plot.block, reason, handling: "left out; estimated by least squares" });
   }
+  return missing;
+}
 
-  const perSite: SiteAnalysis[] = [];
-  const analysable = isAnalysable(trait);
-  if (!analysable) warnings.push(`${trait.name} is free text, so it has no statistics; see the plot notes instead.`);
+/** The RCBD analysis of each included site, or the reason it has none. */
+function analyseEachSite(
+  includedSites: InputSite[],
+  rows: PlotRow[],
+  trait: InputTrait,
+  analysable: boolean,
+  settings: AnalysisSettings,
+  entriesById: EntriesById,
+): { analyses: SiteAnalysis[]; warnings: string[] } {
+  const analyses: SiteAnalysis[] = [];
+  const warnings: string[] = [];
   for (const site of includedSites) {
     const siteRows = rows.filter((r) => r.site.id === site.id && !r.excluded);
     const blocksWithData = new Set(siteRows.filter((r) => r.value !== null).map((r) => r.plot.block));
     const base = { siteId: site.id, siteName: site.name, status: site.status, blocks: blocksWithData.size };
     if (!analysable) {
-      perSite.push({ ...base, result: null, problem: "Text traits are not analysed." });
-      continue;
-    }
-    if (siteRows.every((r) => r.value === null)) {
-      perSite.push({ ...base, result: null, problem: `No ${trait.name.toLowerCase()} values recorded yet.` });
-      continue;
-    }
-    if (blocksWithData.size < 2) {
-      perSite.push({ ...base, result: null, problem: `Only ${plural(blocksWithData.size, "block")} with data; an analysis needs at least 2.` });
+      analyses.push({ ...base, result: null, problem: "Text traits are not analysed." });
+    } else if (siteRows.every((r) => r.value === null)) {
+      analyses.push({ ...base, result: null, problem: `No ${trait.name.toLowerCase()} values recorded yet.` });
+    } else if (blocksWithData.size < 2) {
+      analyses.push({ ...base, result: null, problem: `Only ${plural(blocksWithData.size, "block")} with data; an analysis needs at least 2.` });
       warnings.push(`${site.name} has too few blocks with data (${blocksWithData.size}) to analyse; it is left out of the combined analysis.`);
-      continue;
-    }
-    try {
-      const table = anovaRcbd(siteRows.map((r) => ({ block: String(r.plot.block), entry: String(r.entry.id), value: r.value })));
-      perSite.push({ ...base, result: summarise(table, settings, entriesById, `at ${site.name}`), problem: null });
-    } catch (e) {
-      if (!isStatsError(e)) throw e;
-      perSite.push({ ...base, result: null, problem: e.message });
-      warnings.push(`${site.name} could not be analysed: ${e.message}`);
-    }
-  }
-
-  // Combined analysis over the sites that could be analysed on their own.
-  const analysedSites = perSite.filter((s) => s.result !== null);
-  let combined: CombinedAnalysis | null = null;
-  let combinedProblem: string | null = null;
-  if (!analysable) combinedProblem = "Text traits are not analysed.";
-  else if (analysedSites.length < 2) combinedProblem = `A combined analysis needs at least 2 analysed sites (there ${analysedSites.length === 1 ? "is" : "are"} ${analysedSites.length}).`;
-  else {
-    const ids = new Set(analysedSites.map((s) => s.siteId));
-    const data: MultiSitePlot[] = rows
-      .filter((r) => ids.has(r.site.id) && !r.excluded)
-      .map((r) => ({ site: String(r.site.id), block: String(r.plot.block), entry: String(r.entry.id), value: r.value }));
-    try {
-      const table = anovaMultiSite(data, { sites: settings.siteModel });
-      const block = summarise(table, settings, entriesById, "across sites");
-      const interaction = table.rows.find((r) => r.source === "entry:site");
-      const errors = (table.siteErrors ?? []).filter((s) => s.df > 0 && s.ms > 0);
-      const bartlett = errors.length >= 2 ? bartlettFromVariances(errors.map((s) => ({ df: s.df, variance: s.ms }))) : null;
-      combined = {
-        ...block,
-        siteModel: settings.siteModel,
-        sites: ids.size,
-        interactionF: interaction?.f ?? null,
-        interactionP: interaction?.p ?? null,
-        bartlett: bartlett ? { statistic: bartlett.statistic, df: bartlett.df, p: bartlett.p } : null,
-        cellMeans: cellMeans(rows.filter((r) => ids.has(r.site.id) && !r.excluded)),
-      };
-    } catch (e) {
-      if (!isStatsError(e)) throw e;
-      combinedProblem = e.message;
+    } else {
+      try {
+        const table = anovaRcbd(siteRows.map((r) => ({ block: String(r.plot.block), entry: String(r.entry.id), value: r.value })));
+        analyses.push({ ...base, result: summarise(table, settings, entriesById, `at ${site.name}`), problem: null });
+      } catch (e) {
+        if (!isStatsError(e)) throw e;
+        analyses.push({ ...base, result: null, problem: e.message });
+        warnings.push(`${site.name} could not be analysed: ${e.message}`);
+      }
     }
   }
+  return { analyses, warnings };
+}
 
-  // Warnings a statistician would raise before anyone reads the means.
-  const cvs = analysedSites.map((s) => ({ name: s.siteName, cv: s.result!.cv }));
+/** Combined analysis over the sites that could be analysed on their own, or why there is none. */
+function analyseAcrossSites(
+  analysedSites: SiteAnalysis[],
+  rows: PlotRow[],
+  analysable: boolean,
+  settings: AnalysisSettings,
+  entriesById: EntriesById,
+): { combined: CombinedAnalysis | null; combinedProblem: string | null } {
+  if (!analysable) return { combined: null, combinedProblem: "Text traits are not analysed." };
+  if (analysedSites.length < 2) {
+    return { combined: null, combinedProblem: `A combined analysis needs at least 2 analysed sites (there ${analysedSites.length === 1 ? "is" : "are"} ${analysedSites.length}).` };
+  }
+  const ids = new Set(analysedSites.map((s) => s.siteId));
+  const used = rows.filter((r) => ids.has(r.site.id) && !r.excluded);
+  const data: MultiSitePlot[] = used.map((r) => ({ site: String(r.site.id), block: String(r.plot.block), entry: String(r.entry.id), value: r.value }));
+  try {
+    const table = anovaMultiSite(data, { sites: settings.siteModel });
+    const block = summarise(table, settings, entriesById, "across sites");
+    const interaction = table.rows.find((r) => r.source === "entry:site");
+    const errors = (table.siteErrors ?? []).filter((s) => s.df > 0 && s.ms > 0);
+    const bartlett = errors.length >= 2 ? bartlettFromVariances(errors.map((s) => ({ df: s.df, variance: s.ms }))) : null;
+    const combined: CombinedAnalysis = {
+      ...block,
+      siteModel: settings.siteModel,
+      sites: ids.size,
+      interactionF: interaction?.f ?? null,
+      interactionP: interaction?.p ?? null,
+      bartlett: bartlett ? { statistic: bartlett.statistic, df: bartlett.df, p: bartlett.p } : null,
+      cellMeans: cellMeans(used),
+    };
+    return { combined, combinedProblem: null };
+  } catch (e) {
+    if (!isStatsError(e)) throw e;
+    return { combined: null, combinedProblem: e.message };
+  }
+}
+
+/** Warnings a statistician would raise before anyone reads the means: one site far noisier, unequal residual variances. */
+function varianceWarnings(cvs: { name: string; cv: number }[], combined: CombinedAnalysis | null): string[] {
+  const warnings: string[] = [];
   if (cvs.length >= 3) {
     for (const s of cvs) {
       const others = median(cvs.filter((o) => o !== s).map((o) => o.cv));
@@ -196,6 +272,41 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
       `Residual variances differ across sites (Bartlett K² = ${formatNumber(combined.bartlett.statistic, 2)}, ${combined.bartlett.df} df, ${formatP(combined.bartlett.p)}), so pooling them is doubtful: read the per-site results first and treat the combined F test with care.`,
     );
   }
+  return warnings;
+}
+
+/** Germination and emergence from the seed counts, over the included sites and the plots no seed-count exclusion removes. */
+function analyseSeedCounts(input: AnalysisInput, includedSites: InputSite[], warnings: string[]) {
+  const seedCountTraitIds = input.traits.filter((t) => (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
+  const excluded = exclusionsFor(input.exclusions, seedCountTraitIds);
+  const siteIds = new Set(includedSites.filter((s) => !excluded.bySite.has(s.id)).map((s) => s.id));
+  const plots = input.plots.filter((p) => siteIds.has(p.siteId) && !excluded.byPlot.has(p.id));
+  return { germination: analyseGermination(input, plots, warnings), emergence: analyseEmergence(input, plots, warnings) };
+}
+
+/** Every exclusion recorded for the trial, with the names people know it by. */
+function describeExclusions(input: AnalysisInput): AnalysisResult["exclusions"] {
+  const siteName = (siteId: number | undefined) => input.sites.find((s) => s.id === siteId)?.name ?? null;
+  return input.exclusions.map((x) => {
+    const plot = x.plotId !== null ? input.plots.find((p) => p.id === x.plotId) : undefined;
+    return {
+      ...x,
+      siteName: x.siteId !== null ? siteName(x.siteId) : x.plotId !== null ? siteName(plot?.siteId) : null,
+      plotCode: x.plotId !== null ? (plot?.plotCode ?? null) : null,
+      traitName: x.traitId !== null ? (input.traits.find((t) => t.id === x.traitId)?.name ?? null) : null,
+    };
+  });
+}
+
+/** Plain-language summary of the per-site tests, then the missing plots. */
+function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: MissingPlot[]): string[] {
+  const notes: string[] = [];
+  if (analysedSites.length > 0) {
+    const label = analysedAs(trait);
+    const lowerLabel = label.charAt(0).toLowerCase() + label.slice(1);
+    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA);
+    notes.push(`Entries differed in ${lowerLabel} at ${countOf(differed.length, analysedSites.length, "site")} (F test, α = ${ALPHA}).`);
+  }
   if (missing.length > 0) {
     const lost = missing.filter((m) => !m.reason.startsWith("excluded")).length;
     const out = missing.length - lost;
@@ -203,107 +314,76 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
       `${plural(missing.length, "plot")} ${missing.length === 1 ? "is" : "are"} missing${out ? ` (${out} excluded by a coordinator)` : ""}; ${missing.length === 1 ? "it is" : "they are"} left out and the means are least-squares estimates, which equal plain means when nothing is missing.`,
     );
   }
+  return notes;
+}
 
-  // Plain-language summary.
-  if (analysedSites.length > 0) {
-    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA);
-    notes.unshift(`Entries differed in ${lowerLabel} at ${countOf(differed.length, analysedSites.length, "site")} (F test, α = ${ALPHA}).`);
-  }
-  if (combined) {
-    const against = combined.siteModel === "random" ? "against the entry × site mean square, because sites are treated as a sample of farms" : "against the pooled error, because sites are treated as fixed";
-    const differ = combined.entryP !== null && combined.entryP < ALPHA;
-    notes.push(
-      combined.entryF === null
-        ? `Across ${plural(combined.sites, "site")}, the entry test could not be run: its error term (${combined.siteModel === "random" ? "entry × site" : "residual"}) has no variation.`
-        : `Across ${plural(combined.sites, "site")}, entries ${differ ? "differed" : "did not differ clearly"} (F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}).`,
-    );
-    if (combined.interactionP !== null) {
-      notes.push(
-        combined.interactionP < ALPHA
-          ? `The entry × site interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
-          : `Entries ranked much the same from site to site (entry × site ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
-      );
-    }
-    const top = [...combined.means].sort((a, b) => a.rank - b.rank)[0];
-    if (top) {
-      notes.push(
-        `Highest combined mean: ${top.blindCode} (${formatNumber(top.lsMean ?? top.mean)}${trait.unit && trait.computation === "none" ? ` ${trait.unit}` : ""}); ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`,
-      );
-    }
-  } else if (analysedSites.length === 1) {
-    notes.push(`Only one site could be analysed, so there is no combined analysis.`);
-  }
-  const highCv = cvs.filter((s) => s.cv > CV_TARGET);
-  if (cvs.length > 0) {
-    notes.push(
-      highCv.length === 0
-        ? `Every site's CV is at or under ${CV_TARGET}%, the usual target for a well-run trial.`
-        : `CV is above the ${CV_TARGET}% target at ${countOf(highCv.length, cvs.length, "site")} (${highCv.map((s) => `${s.name} ${formatNumber(s.cv, 1)}%`).join(", ")}); differences there are harder to detect.`,
-    );
-  }
-
-  const germinationTraitIds = input.traits.filter((t) => ["seeds_sown", "emerged_final", "emergence_count"].includes(t.code)).map((t) => t.id);
-  const germPlotExclusions = new Set(input.exclusions.filter((x) => x.plotId !== null && exclusionApplies(x, germinationTraitIds)).map((x) => x.plotId!));
-  const germSiteIds = new Set(
-    includedSites
-      .filter((s) => !input.exclusions.some((x) => x.siteId === s.id && x.plotId === null && exclusionApplies(x, germinationTraitIds)))
-      .map((s) => s.id),
+/** What the combined analysis says: the entry test, the interaction, the top entry. */
+function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, analysedSiteCount: number): string[] {
+  if (!combined) return analysedSiteCount === 1 ? [`Only one site could be analysed, so there is no combined analysis.`] : [];
+  const notes: string[] = [];
+  const against = combined.siteModel === "random" ? "against the entry × site mean square, because sites are treated as a sample of farms" : "against the pooled error, because sites are treated as fixed";
+  const differ = combined.entryP !== null && combined.entryP < ALPHA;
+  notes.push(
+    combined.entryF === null
+      ? `Across ${plural(combined.sites, "site")}, the entry test could not be run: its error term (${combined.siteModel === "random" ? "entry × site" : "residual"}) has no variation.`
+      : `Across ${plural(combined.sites, "site")}, entries ${differ ? "differed" : "did not differ clearly"} (F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}).`,
   );
-  const germPlots = input.plots.filter((p) => germSiteIds.has(p.siteId) && !germPlotExclusions.has(p.id));
-  const germination = analyseGermination(input, germPlots, warnings);
-  const emergence = analyseEmergence(input, germPlots, warnings);
-
-  const exclusionList = input.exclusions.map((x) => ({
-    ...x,
-    siteName: x.siteId !== null ? (sitesById.get(x.siteId)?.name ?? null) : x.plotId !== null ? (sitesById.get(input.plots.find((p) => p.id === x.plotId)?.siteId ?? -1)?.name ?? null) : null,
-    plotCode: x.plotId !== null ? (input.plots.find((p) => p.id === x.plotId)?.plotCode ?? null) : null,
-    traitName: x.traitId !== null ? (input.traits.find((t) => t.id === x.traitId)?.name ?? null) : null,
-  }));
-  if (exclusionList.length > 0) {
-    notes.push(`${plural(exclusionList.length, "exclusion")} recorded for this trial; the data stay stored and are listed below.`);
+  if (combined.interactionP !== null) {
+    notes.push(
+      combined.interactionP < ALPHA
+        ? `The entry × site interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
+        : `Entries ranked much the same from site to site (entry × site ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
+    );
   }
+  const top = [...combined.means].sort((a, b) => a.rank - b.rank)[0];
+  if (top) {
+    notes.push(
+      `Highest combined mean: ${top.blindCode} (${formatNumber(top.lsMean ?? top.mean)}${trait.unit && trait.computation === "none" ? ` ${trait.unit}` : ""}); ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`,
+    );
+  }
+  return notes;
+}
 
+function cvNote(cvs: { name: string; cv: number }[]): string[] {
+  if (cvs.length === 0) return [];
+  const highCv = cvs.filter((s) => s.cv > CV_TARGET);
+  return [
+    highCv.length === 0
+      ? `Every site's CV is at or under ${CV_TARGET}%, the usual target for a well-run trial.`
+      : `CV is above the ${CV_TARGET}% target at ${countOf(highCv.length, cvs.length, "site")} (${highCv.map((s) => `${s.name} ${formatNumber(s.cv, 1)}%`).join(", ")}); differences there are harder to detect.`,
+  ];
+}
+
+/** One-line explanations of the chosen settings, shown beside the controls. */
+function explanations(settings: AnalysisSettings): AnalysisResult["explanations"] {
   return {
-    trial: { id: input.trial.id, code: input.trial.code, title: input.trial.title, crop: input.trial.crop, status: input.trial.status },
-    settings,
-    trait: { ...trait, analysedAs: traitLabel },
-    traits: input.traits.filter((t) => !["seeds_sown"].includes(t.code)).map((t) => ({ id: t.id, name: t.name, analysable: isAnalysable(t) })),
-    sites: siteChoices,
-    perSite,
-    combined,
-    combinedProblem,
-    missing,
-    exclusions: exclusionList,
-    warnings,
-    notes,
-    explanations: {
-      siteModel:
-        settings.siteModel === "random"
-          ? "Sites random: the farms stand for farms like them, so entries are tested against how much their ranking shifts between sites."
-          : "Sites fixed: conclusions hold for these farms only, so entries are tested against plot-to-plot error.",
-      separation:
-        settings.separation === "lsd"
-          ? `Protected LSD: pairs are compared only after a significant F test; entries sharing a letter do not differ at α = ${ALPHA}.`
-          : `Tukey: every pair is compared at once with a ${ALPHA} family-wise error rate; it finds fewer differences than the LSD.`,
-      missing: "Missing and excluded plots are left out; means are least-squares estimates, so no value is invented.",
-      unaccepted: settings.includeUnaccepted
-        ? "Includes data still in draft or awaiting review; those sites are marked."
-        : "Only data a coordinator has accepted are used.",
-      cv: `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`,
-    },
-    germination,
-    emergence,
-    plots: rows.map((r) => ({
-      plotCode: r.plot.plotCode,
-      siteId: r.site.id,
-      siteName: r.site.name,
-      block: r.plot.block,
-      entryId: r.entry.id,
-      blindCode: r.entry.blindCode,
-      varietyName: r.entry.varietyName,
-      value: r.value,
-      status: r.excluded ? "excluded" : r.value === null ? "missing" : "used",
-    })),
+    siteModel:
+      settings.siteModel === "random"
+        ? "Sites random: the farms stand for farms like them, so entries are tested against how much their ranking shifts between sites."
+        : "Sites fixed: conclusions hold for these farms only, so entries are tested against plot-to-plot error.",
+    separation:
+      settings.separation === "lsd"
+        ? `Protected LSD: pairs are compared only after a significant F test; entries sharing a letter do not differ at α = ${ALPHA}.`
+        : `Tukey: every pair is compared at once with a ${ALPHA} family-wise error rate; it finds fewer differences than the LSD.`,
+    missing: "Missing and excluded plots are left out; means are least-squares estimates, so no value is invented.",
+    unaccepted: settings.includeUnaccepted
+      ? "Includes data still in draft or awaiting review; those sites are marked."
+      : "Only data a coordinator has accepted are used.",
+    cv: `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`,
+  };
+}
+
+function plotValueRow(r: PlotRow): PlotValue {
+  return {
+    plotCode: r.plot.plotCode,
+    siteId: r.site.id,
+    siteName: r.site.name,
+    block: r.plot.block,
+    entryId: r.entry.id,
+    blindCode: r.entry.blindCode,
+    varietyName: r.entry.varietyName,
+    value: r.value,
+    status: r.excluded ? "excluded" : r.value === null ? "missing" : "used",
   };
 }
 
@@ -319,7 +399,7 @@ function median(xs: number[]): number {
 }
 
 /** Means, letters and the comparison sentence for one ANOVA table. */
-function summarise(table: AnovaTable, settings: AnalysisSettings, entries: Map<number, InputEntry>, where: string): AnalysisBlock {
+function summarise(table: AnovaTable, settings: AnalysisSettings, entries: EntriesById, where: string): AnalysisBlock {
   const entryRow = table.rows.find((r) => r.source === "entry");
   let letters: Record<string, string> | null = null;
   let lsdValue: number | null = null;

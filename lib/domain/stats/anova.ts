@@ -6,7 +6,7 @@
 import { fitBlockModel, type PlotArrays } from "./block-model";
 import { fUpper } from "./distributions";
 import { StatsError } from "./errors";
-import { homeSlot, LabelIndex } from "./label-index";
+import { LabelIndex } from "./label-index";
 
 export type Source = "site" | "block" | "block:site" | "entry" | "entry:site" | "residual";
 
@@ -82,21 +82,6 @@ export interface MultiSitePlot {
   value: number | null;
 }
 
-// One-way accumulators, one row of STRIDE per entry (plot counts are kept apart, as integers). The hot
-// loop adds values shifted by one reference (the first observed value) into plain partial sums; after
-// each chunk of plots those are folded into compensated totals, so no partial sum runs over more than a
-// few dozen terms and the per-plot work stays at two additions and a count. Entries whose mean lies far from the reference relative to
-// their spread are caught by the cancellation check and recomputed two-pass.
-const STRIDE = 2;
-const PART_SUM = 0;
-const PART_SQ = 1;
-// 64 plots, or 16 per entry when there are more than four, keeps NIST SmLs01-03 at full precision
-// (32 per entry already drops SmLs03 below its target)
-const MIN_CHUNK = 64;
-const CHUNK_PER_ENTRY = 16;
-/** within-entry SS is recomputed two-pass when the shifted sums cancel by more than this factor */
-const CANCELLATION_LIMIT = 1e3;
-
 function requireArray(data: unknown, what: string): asserts data is unknown[] {
   if (!Array.isArray(data)) {
     throw new StatsError("INVALID_ARGUMENT", `The ${what} must be given as a list of plots.`);
@@ -147,84 +132,42 @@ function requireResidual(df: number, ss: number): void {
 /**
  * One-way ANOVA of a completely randomised trial (entries only), in the data's units.
  * Plots with value null are missing (counted in `missing`, otherwise ignored); NaN or Infinity throw.
+ *
+ * Accuracy: one pass over the plots keeps, per entry, the count, the mean and the sum of squared
+ * deviations from the mean (Welford's updates, which never subtract two large sums of squares), on
+ * values taken relative to the entry's first value. The entry means are then compared relative to
+ * one common reference, so values that share their leading digits (NIST SmLs07-09:
+ * 1000000000000.4 and the like) keep the differences between entries exact. Every NIST StRD
+ * one-way set reaches the LRE that exact arithmetic on the parsed doubles reaches
+ * (tests/unit/stats/nist-anova.test.ts).
  */
 export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   requireArray(data, "one-way data");
-  const entries = new LabelIndex("entry");
-  let capacity = 16;
-  let acc = new Float64Array(capacity * STRIDE);
-  // plots per entry; integer increments keep the counts off the floating-point adder, and the last
-  // slot counts missing plots
-  let plotCounts = new Int32Array(capacity + 1);
-  let totals = new Float64Array(capacity * 4); // sum, its compensation, sum of squares, its compensation
-  const reference = firstObservedValue(data);
-  for (let start = 0; start < data.length; ) {
-    const end = Math.min(data.length, start + Math.max(MIN_CHUNK, CHUNK_PER_ENTRY * entries.size));
-    const stopped = accumulateOneWay(data, start, end, entries, acc, plotCounts, capacity, reference);
-    foldOneWay(acc, totals, entries.size < capacity ? entries.size : capacity);
-    // a stop before `end` means a new entry beyond capacity or a regrown label table
-    if (entries.size > capacity) {
-      capacity *= 4;
-      const grownAcc = new Float64Array(capacity * STRIDE);
-      grownAcc.set(acc);
-      acc = grownAcc;
-      const grownCounts = new Int32Array(capacity + 1);
-      grownCounts.set(plotCounts.subarray(0, capacity / 4));
-      grownCounts[capacity] = plotCounts[capacity / 4];
-      plotCounts = grownCounts;
-      const grownTotals = new Float64Array(capacity * 4);
-      grownTotals.set(totals);
-      totals = grownTotals;
-    }
-    start = stopped;
-  }
-  const missing = plotCounts[capacity];
-
-  const k = entries.size;
+  const plots = readOneWayPlots(data);
+  const { labels, counts, withinSs } = plots;
+  const k = labels.length;
   if (k < 2) {
     throw new StatsError("TOO_FEW_ENTRIES", `At least two entries are needed for an analysis of variance (found ${k}).`, {
-      entries: entries.labels.slice(),
+      entries: labels.slice(),
     });
   }
-  const counts = new Float64Array(k);
-  const shiftedMeans = new Float64Array(k); // mean minus the entry's reference value
-  const withinSs = new Float64Array(k);
-  const needsTwoPass: number[] = [];
-  let n = 0;
   for (let e = 0; e < k; e++) {
-    const count = plotCounts[e];
-    if (count === 0) {
-      throw new StatsError("EMPTY_ENTRY", `Entry "${entries.labels[e]}" has no observed plots.`, { entry: entries.labels[e] });
-    }
-    const sum = totals[e * 4] + totals[e * 4 + 1];
-    const squares = totals[e * 4 + 2] + totals[e * 4 + 3];
-    if (!Number.isFinite(sum) || !Number.isFinite(squares)) {
-      const index = data.findIndex((plot) => typeof plot.value === "number" && !Number.isFinite(plot.value));
-      nonFinite(index, data[index]?.value);
-    }
-    counts[e] = count;
-    shiftedMeans[e] = sum / count;
-    const correction = sum * shiftedMeans[e];
-    withinSs[e] = squares - correction;
-    if (correction > CANCELLATION_LIMIT * withinSs[e]) needsTwoPass.push(e);
-    n += count;
+    if (counts[e] === 0) throw new StatsError("EMPTY_ENTRY", `Entry "${labels[e]}" has no observed plots.`, { entry: labels[e] });
   }
-  if (needsTwoPass.length > 0) recomputeWithinTwoPass(data, entries, needsTwoPass, reference, shiftedMeans, withinSs);
+  // Entry means relative to one common reference, the first entry's first value: values that share
+  // their leading digits (NIST SmLs07-09) keep the differences between entry means exact.
+  const reference = plots.firstValues[0];
+  const means = new Float64Array(k);
+  for (let e = 0; e < k; e++) means[e] = plots.firstValues[e] - reference + plots.shiftedMeans[e];
 
-  // entry means relative to one common reference (the first entry's), kept small for accuracy
-  const centred = new Float64Array(k);
-  let weighted = 0;
-  for (let e = 0; e < k; e++) {
-    centred[e] = shiftedMeans[e];
-    weighted += counts[e] * centred[e];
-  }
-  const centre = weighted / n;
+  const n = plots.observed;
+  let centre = 0; // grand mean minus the reference
+  for (let e = 0; e < k; e++) centre += (counts[e] * means[e]) / n;
   let betweenSs = 0;
   let residualSs = 0;
   for (let e = 0; e < k; e++) {
-    const deviation = centred[e] - centre;
-    betweenSs += counts[e] * deviation * deviation;
-    residualSs += Math.max(withinSs[e], 0);
+    betweenSs += counts[e] * (means[e] - centre) ** 2;
+    residualSs += withinSs[e];
   }
   const grandMean = reference + centre;
   const dfResidual = n - k;
@@ -234,178 +177,101 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   const residualRow = row("residual", dfResidual, residualSs);
   testRow(entryRow, residualRow);
   const errorMs = residualRow.ms;
-  const entryMeans: EntryMean[] = [];
+  const entryMeanRows: EntryMean[] = [];
   const lsMeans: LsMean[] = [];
   const covariance: number[][] = [];
-  let balanced = true;
   for (let e = 0; e < k; e++) {
-    const mean = reference + shiftedMeans[e];
+    const mean = reference + means[e];
     const se = Math.sqrt(errorMs / counts[e]);
-    entryMeans.push({ entry: entries.labels[e], mean, n: counts[e], se });
-    lsMeans.push({ entry: entries.labels[e], mean, se });
+    entryMeanRows.push({ entry: labels[e], mean, n: counts[e], se });
+    lsMeans.push({ entry: labels[e], mean, se });
     const covarianceRow = new Array<number>(k).fill(0);
     covarianceRow[e] = 1 / counts[e];
     covariance.push(covarianceRow);
-    if (counts[e] !== counts[0]) balanced = false;
   }
   return {
     rows: [entryRow, residualRow],
     n,
-    missing,
+    missing: plots.missing,
     grandMean,
     errorMs,
     errorDf: dfResidual,
     cv: (100 * Math.sqrt(errorMs)) / grandMean,
-    entryMeans,
+    entryMeans: entryMeanRows,
     design: "one-way",
     rSquared: betweenSs / (betweenSs + residualSs),
-    balanced,
+    balanced: counts.every((count) => count === counts[0]),
     lsMeans,
     lsMeanCovariance: covariance,
   };
 }
 
-/** The first non-null value, used as the common shift (0 when every plot is missing). */
-function firstObservedValue(data: readonly OneWayPlot[]): number {
-  for (const plot of data) {
-    if (typeof plot.value === "number" && Number.isFinite(plot.value)) return plot.value;
-  }
-  return 0;
+interface OneWayValues {
+  /** entry labels in order of first appearance */
+  labels: string[];
+  /** per entry: observed plots, first value, mean minus the first value, sum of squared deviations from the mean */
+  counts: Float64Array;
+  firstValues: Float64Array;
+  shiftedMeans: Float64Array;
+  withinSs: Float64Array;
+  observed: number;
+  missing: number;
 }
 
 /**
- * Adds plots start..end-1 into the per-entry partial sums. Returns end, or the index of the first
- * plot whose entry does not fit in `capacity` (the caller grows the arrays and resumes there).
- * Kept small and free of reallocation so the engine compiles it to a tight loop.
+ * Checks the plots and accumulates each entry's count, mean and within-entry SS in one pass with
+ * Welford's updates. Each entry's values are taken relative to its own first value, so the
+ * updates work on small numbers even when an entry's values share many leading digits.
  */
-function accumulateOneWay(
-  data: readonly OneWayPlot[],
-  start: number,
-  end: number,
-  entries: LabelIndex,
-  acc: Float64Array,
-  counts: Int32Array,
-  capacity: number,
-  reference: number,
-): number {
-  // The label table's first probe is inlined with the table in locals; a label that is not in its
-  // home slot goes through entries.indexOf, and if that replaced the table the caller re-enters.
-  const slots = entries.slots;
-  const slotIndex = entries.slotIndex;
-  const mask = entries.mask;
-  let i = start;
-  while (i < end) {
-    // Two ordinary plots at a time: both rows' fields are loaded before either label lookup, so the
-    // memory reads of the second overlap the first's string comparison. The sums still receive the
-    // plots in order, so the result is identical to one plot at a time.
-    if (i + 1 < end) {
-      const first = data[i];
-      const second = data[i + 1];
-      const x = first.value;
-      const y = second.value;
-      const a = first.entry;
-      const b = second.entry;
-      if (typeof a === "string" && typeof b === "string" && typeof x === "number" && typeof y === "number") {
-        const p = homeSlot(a, mask);
-        const q = homeSlot(b, mask);
-        // labels already in the table have indices below capacity: a label that would not fit
-        // leaves through the stop below before it can be found here
-        if (slots[p] === a && slots[q] === b) {
-          // literal offsets: each module-level constant read here costs a context load and an
-          // initialisation check per plot in optimised code
-          const e = slotIndex[p];
-          const g = e * 2;
-          const v = x - reference;
-          acc[g] += v;
-          acc[g + 1] += v * v;
-          counts[e]++;
-          const f = slotIndex[q];
-          const h = f * 2;
-          const w = y - reference;
-          acc[h] += w;
-          acc[h + 1] += w * w;
-          counts[f]++;
-          i += 2;
-          continue;
-        }
-      }
-    }
+function readOneWayPlots(data: readonly OneWayPlot[]): OneWayValues {
+  const entries = new LabelIndex("entry");
+  let capacity = 16;
+  let counts = new Float64Array(capacity);
+  let firstValues = new Float64Array(capacity);
+  let shiftedMeans = new Float64Array(capacity); // mean minus the entry's first value
+  let withinSs = new Float64Array(capacity);
+  let observed = 0;
+  let missing = 0;
+  for (let i = 0; i < data.length; i++) {
     const plot = data[i];
     const e = entries.indexOf(plot.entry);
-    if (e >= capacity || entries.slots !== slots) return i;
-    const x = plot.value;
-    i++;
-    if (typeof x !== "number") {
-      if (x !== null && x !== undefined) nonFinite(i - 1, x);
-      counts[capacity]++;
+    const value = plot.value;
+    if (value === null || value === undefined) {
+      missing++;
       continue;
     }
-    const g = e * 2;
-    const v = x - reference;
-    acc[g] += v;
-    acc[g + 1] += v * v;
-    counts[e]++;
+    if (typeof value !== "number" || !Number.isFinite(value)) nonFinite(i, value);
+    if (e >= capacity) {
+      capacity *= 4;
+      counts = grown(counts, capacity);
+      firstValues = grown(firstValues, capacity);
+      shiftedMeans = grown(shiftedMeans, capacity);
+      withinSs = grown(withinSs, capacity);
+    }
+    observed++;
+    const count = ++counts[e];
+    if (count === 1) firstValues[e] = value;
+    const v = value - firstValues[e];
+    const deviation = v - shiftedMeans[e];
+    shiftedMeans[e] += deviation / count;
+    withinSs[e] += deviation * (v - shiftedMeans[e]);
   }
-  return end;
+  const k = entries.size;
+  return {
+    labels: entries.labels,
+    counts: counts.subarray(0, k),
+    firstValues: firstValues.subarray(0, k),
+    shiftedMeans: shiftedMeans.subarray(0, k),
+    withinSs: withinSs.subarray(0, k),
+    observed,
+    missing,
+  };
 }
 
-/** Moves the partial sums into the running totals with Neumaier's compensated addition. */
-function foldOneWay(acc: Float64Array, totals: Float64Array, size: number): void {
-  for (let e = 0; e < size; e++) {
-    const g = e * STRIDE;
-    const t = e * 4;
-    const v = acc[g + PART_SUM];
-    const sum = totals[t];
-    const newSum = sum + v;
-    totals[t + 1] += Math.abs(sum) >= Math.abs(v) ? sum - newSum + v : v - newSum + sum;
-    totals[t] = newSum;
-    acc[g + PART_SUM] = 0;
-    const square = acc[g + PART_SQ];
-    const sq = totals[t + 2];
-    const newSq = sq + square;
-    totals[t + 3] += sq >= square ? sq - newSq + square : square - newSq + sq;
-    totals[t + 2] = newSq;
-    acc[g + PART_SQ] = 0;
-  }
-}
-
-/** Second pass for entries whose mean lies far from the reference value (their shifted sums cancelled). */
-function recomputeWithinTwoPass(
-  data: readonly OneWayPlot[],
-  entries: LabelIndex,
-  groups: number[],
-  reference: number,
-  shiftedMeans: Float64Array,
-  withinSs: Float64Array,
-): void {
-  const wanted = new Map<number, number[]>(groups.map((e) => [e, []]));
-  for (const plot of data) {
-    if (typeof plot.value !== "number") continue;
-    const values = wanted.get(entries.indexOf(plot.entry));
-    if (values) values.push(plot.value);
-  }
-  for (const [e, values] of wanted) {
-    let sum = 0;
-    let compensation = 0;
-    for (const value of values) {
-      const v = value - reference;
-      const t = sum + v;
-      compensation += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
-      sum = t;
-    }
-    const mean = (sum + compensation) / values.length;
-    let squares = 0;
-    let squaresCompensation = 0;
-    for (const value of values) {
-      const d = value - reference - mean;
-      const square = d * d;
-      const t = squares + square;
-      squaresCompensation += squares >= square ? squares - t + square : square - t + squares;
-      squares = t;
-    }
-    shiftedMeans[e] = mean;
-    withinSs[e] = squares + squaresCompensation;
-  }
+function grown(values: Float64Array, length: number): Float64Array<ArrayBuffer> {
+  const copy = new Float64Array(length);
+  copy.set(values);
+  return copy;
 }
 
 interface IndexedPlots {
