@@ -4,7 +4,7 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import type { AnalysisSettings, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
-import { Badge } from "@/components/ui/badge";
+import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import { buttonClasses } from "@/components/ui/button";
 import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
@@ -29,7 +29,6 @@ async function fetchAnalysis(trialId: number, query: string): Promise<ViewerAnal
   return body as ViewerAnalysis;
 }
 
-const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
 
 /** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
 export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: ViewerAnalysis; targets: ExclusionTargets | null }) {
@@ -127,7 +126,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 <label className="flex min-h-11 items-start gap-2 rounded-lg border border-husk-200 px-3 py-2">
                   <input type="checkbox" className="mt-1 size-5" checked={selectedSites.includes(s.id)} onChange={() => toggleSite(s.id)} />
                   <span>
-                    <span className="font-semibold">{s.name}</span> <Badge tone={STATUS_TONE[s.status]}>{s.status}</Badge>
+                    <span className="font-semibold">{s.name}</span> <SubmissionStatusBadge status={s.status} />
                     {s.why && s.why !== "not selected" && <span className="block text-sm text-loam-700">Left out: {s.why}</span>}
                   </span>
                 </label>
@@ -233,7 +232,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 defaultOpen={result.perSite.length === 1}
                 summary={
                   <>
-                    <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
+                    <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <SubmissionStatusBadge status={s.status} />}{" "}
                     {s.result ? (
                       <span className="text-sm text-loam-700">
                         CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}

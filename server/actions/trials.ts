@@ -8,7 +8,8 @@ import { deleteTrialEntry, insertEnrolment, insertTrial, insertTrialEntry, updat
 import { newToken } from "@/server/auth/tokens";
 import { enrolmentNoticeMail, inviteMail } from "@/lib/domain/mail/templates";
 import { deliverSoon } from "@/server/mail/outbox";
-import { STATUS_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
 import { env } from "@/lib/env";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
