@@ -6,7 +6,7 @@ import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import { buttonClasses } from "@/components/ui/button";
-import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
+import { AnovaTable, EmergenceTimeTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { SharingPanel } from "./sharing-panel";
@@ -307,29 +307,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             <p className="mb-3">{result.emergence.note}</p>
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <EmergenceChart emergence={result.emergence} label={label} order={emergenceOrder} />
-              <div className="overflow-x-auto">
-                <table className="w-full text-sm">
-                  <caption className="sr-only">Mean emergence time per entry</caption>
-                  <thead>
-                    <tr className="border-b border-husk-400 text-left">
-                      <th scope="col" className="px-2 py-1">Entry</th>
-                      <th scope="col" className="px-2 py-1">Mean emergence time (days)</th>
-                      <th scope="col" className="px-2 py-1">T50 (days)</th>
-                      <th scope="col" className="px-2 py-1">Plots</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {result.emergence.kinetics.map((k) => (
-                      <tr key={k.entryId} className="border-b border-husk-200 tabular-nums">
-                        <th scope="row" className="px-2 py-1 text-left font-normal">{label(k)}</th>
-                        <td className="px-2 py-1">{formatNumber(k.meanEmergenceTime, 2)}</td>
-                        <td className="px-2 py-1">{formatNumber(k.t50, 2)}</td>
-                        <td className="px-2 py-1">{k.plots}</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
+              <EmergenceTimeTable rows={result.emergence.kinetics} label={label} />
             </div>
           </Card>
         )}
