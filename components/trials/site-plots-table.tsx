@@ -1,4 +1,5 @@
 "use client";
+import { useMemo } from "react";
 import Link from "next/link";
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
@@ -10,7 +11,7 @@ export type SitePlotRow = Pick<LayoutPlot, "id" | "plotCode" | "block" | "blindC
 
 /** Every plot at a site with its blind code (and the key for staff); the site map above shows where they lie. */
 export function SitePlotsTable({ plots, showKey, plotUnit }: { plots: SitePlotRow[]; showKey: boolean; plotUnit: PlotUnit }) {
-  const columns: ColumnDef<SitePlotRow, unknown>[] = [
+  const columns = useMemo<ColumnDef<SitePlotRow, unknown>[]>(() => [
     {
       id: "plot",
       header: "Plot",
@@ -22,12 +23,12 @@ export function SitePlotsTable({ plots, showKey, plotUnit }: { plots: SitePlotRo
       ),
     },
     { id: "block", header: "Block", accessorFn: (p) => p.block },
-    { id: "code", header: "Code", accessorFn: (p) => p.blindCode, cell: (c) => <span className="font-mono font-bold">{c.getValue() as string}</span> },
+    { id: "code", header: "Code", accessorFn: (p) => p.blindCode, meta: { cellClassName: "font-mono font-bold" } },
     ...(showKey ? [{ id: "variety", header: "Variety (key)", accessorFn: (p: SitePlotRow) => p.variety ?? "" } as ColumnDef<SitePlotRow, unknown>] : []),
     ...(plotUnit !== "bed_row"
       ? [{ id: "tray", header: `Flat / ${plotUnit === "insert" ? "insert" : "first cell"}`, accessorFn: (p: SitePlotRow) => `${p.tray} / ${p.traySlot}` } as ColumnDef<SitePlotRow, unknown>]
       : []),
-  ];
+  ], [showKey, plotUnit]);
   // Every plot on one page: the list is printed with the map and taken to the field.
   return <DataTable data={plots} columns={columns} caption="Every plot at this site" filterLabel="Filter plots" pageSize={null} />;
 }

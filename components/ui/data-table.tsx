@@ -11,12 +11,20 @@ import {
   type SortingState,
 } from "@tanstack/react-table";
 import { Button } from "./button";
+import { cn } from "./cn";
 import { SortableHeader } from "./sortable-header";
+
+declare module "@tanstack/react-table" {
+  interface ColumnMeta<TData, TValue> {
+    /** Classes for the column's cells (a code set in a monospace face, say). */
+    cellClassName?: string;
+  }
+}
 
 // On phones a cell shows its column's name before the value (columns whose header is not plain text,
 // such as row actions, show the value alone).
 const PHONE_LABEL =
-  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
+  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-sans max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
 
 /**
  * The one table for lists of records (catalogue, trials, sites, analysis results, admin lists): sortable,
@@ -119,7 +127,7 @@ export function DataTable<T>({
                         key={cell.id}
                         role="cell"
                         data-label={typeof label === "string" ? label : undefined}
-                        className={`py-2 pr-3 tabular-nums max-sm:flex max-sm:gap-3 max-sm:py-0.5 ${typeof label === "string" ? PHONE_LABEL : ""}`}
+                        className={cn("py-2 pr-3 tabular-nums max-sm:flex max-sm:gap-3 max-sm:py-0.5", typeof label === "string" && PHONE_LABEL, cell.column.columnDef.meta?.cellClassName)}
                       >
                         <div className="min-w-0 break-words">{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
                       </td>

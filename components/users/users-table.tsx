@@ -1,4 +1,5 @@
 "use client";
+import { useMemo } from "react";
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { Badge } from "@/components/ui/badge";
@@ -10,7 +11,9 @@ type UserRow = Awaited<ReturnType<typeof listUsersForAdmin>>[number];
 
 /** Every account with its role and the controls to change it; the admin's own row has none. */
 export function UsersTable({ users, viewerId }: { users: UserRow[]; viewerId: number }) {
-  const columns: ColumnDef<UserRow, unknown>[] = [
+  // Stable columns: the table renders each cell function as a component, so a new function on every render
+  // would remount the row controls and lose the message of the change just made.
+  const columns = useMemo<ColumnDef<UserRow, unknown>[]>(() => [
     {
       id: "name",
       header: "Name",
@@ -30,7 +33,7 @@ export function UsersTable({ users, viewerId }: { users: UserRow[]; viewerId: nu
       enableGlobalFilter: false,
       cell: (c) => (c.row.original.id === viewerId ? <span className="text-loam-700">This is you</span> : <UserRowControls userId={c.row.original.id} role={c.row.original.role} active={c.row.original.active} name={c.row.original.name} />),
     },
-  ];
+  ], [viewerId]);
   // Every account on one page: an admin looks for a person by name or e-mail with the filter.
   return <DataTable data={users} columns={columns} caption="All Seedplot accounts" filterLabel="Filter accounts" pageSize={null} />;
 }
