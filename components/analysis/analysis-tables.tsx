@@ -3,7 +3,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import type { AnovaRow } from "@/lib/domain/stats";
 import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "@/lib/domain/analysis/types";
 import { formatNumber, formatP } from "@/lib/domain/analysis/format";
-import { SortableTable } from "./sortable-table";
+import { DataTable } from "@/components/ui/data-table";
 
 export type EntryLabel = (e: { blindCode: string; varietyName?: string | null }) => string;
 
@@ -15,6 +15,7 @@ export type MeanRow = Pick<EntryResult, "blindCode" | "mean" | "lsMean" | "se" |
 /** A germination row with or without the variety name. */
 export type GerminationRowView = Omit<GerminationRow, "entryId" | "siteId" | "varietyName"> & { varietyName?: string | null };
 type Labelled<T> = T & { shown: string };
+type EmergenceKinetics = { blindCode: string; varietyName?: string | null; meanEmergenceTime: number | null; t50: number | null; plots: number };
 
 const SOURCE_WORDS: Record<AnovaRow["source"], string> = {
   site: "Sites",
@@ -44,42 +45,33 @@ export function MeansTable({ means, label, unit, caption, testId }: { means: Mea
     { id: "n", header: "Plots", accessorFn: (m) => m.n },
     { id: "letter", header: "Group", accessorFn: (m) => m.letter ?? "", cell: (c) => <span className="font-mono">{(c.getValue() as string) || "–"}</span> },
   ];
-  return <SortableTable data={rows} columns={columns} caption={caption} filterLabel="Filter entries" initialSort={[{ id: "rank", desc: false }]} testId={testId} />;
+  return <DataTable pageSize={null} data={rows} columns={columns} caption={caption} filterLabel="Filter entries" initialSort={[{ id: "rank", desc: false }]} testId={testId} />;
 }
 
-/** The ANOVA table in plain words. */
+/** The ANOVA table in plain words, in the model's order (sorting it would break the reading order of sources). */
 export function AnovaTable({ rows, caption }: { rows: AnovaRow[]; caption: string }) {
-  return (
-    <div className="overflow-x-auto">
-      <table className="w-full border-collapse text-sm">
-        <caption className="sr-only">{caption}</caption>
-        <thead>
-          <tr className="border-b border-husk-400 text-left">
-            <th scope="col" className="px-2 py-1">Source</th>
-            <th scope="col" className="px-2 py-1">df</th>
-            <th scope="col" className="px-2 py-1">Sum of squares</th>
-            <th scope="col" className="px-2 py-1">Mean square</th>
-            <th scope="col" className="px-2 py-1">F</th>
-            <th scope="col" className="px-2 py-1">p</th>
-            <th scope="col" className="px-2 py-1">Tested against</th>
-          </tr>
-        </thead>
-        <tbody>
-          {rows.map((r) => (
-            <tr key={r.source} className="border-b border-husk-200 tabular-nums">
-              <th scope="row" className="px-2 py-1 text-left font-normal">{SOURCE_WORDS[r.source]}</th>
-              <td className="px-2 py-1">{r.df}</td>
-              <td className="px-2 py-1">{formatNumber(r.ss)}</td>
-              <td className="px-2 py-1">{formatNumber(r.ms)}</td>
-              <td className="px-2 py-1">{r.f === null ? "" : formatNumber(r.f, 2)}</td>
-              <td className="px-2 py-1">{r.p === null ? "" : formatP(r.p).replace(/^p [=<] ?/, (m) => (m.includes("<") ? "< " : ""))}</td>
-              <td className="px-2 py-1">{r.testedAgainst ? SOURCE_WORDS[r.testedAgainst] : ""}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
-  );
+  const columns: ColumnDef<AnovaRow, unknown>[] = [
+    { id: "source", header: "Source", accessorFn: (r) => SOURCE_WORDS[r.source] },
+    { id: "df", header: "df", accessorFn: (r) => r.df },
+    { id: "ss", header: "Sum of squares", accessorFn: (r) => r.ss, cell: (c) => formatNumber(c.getValue() as number) },
+    { id: "ms", header: "Mean square", accessorFn: (r) => r.ms, cell: (c) => formatNumber(c.getValue() as number) },
+    { id: "f", header: "F", accessorFn: (r) => r.f, cell: (c) => (c.getValue() === null ? "" : formatNumber(c.getValue() as number, 2)) },
+    { id: "p", header: "p", accessorFn: (r) => r.p, cell: (c) => (c.getValue() === null ? "" : formatP(c.getValue() as number).replace(/^p [=<] ?/, (m) => (m.includes("<") ? "< " : ""))) },
+    { id: "against", header: "Tested against", accessorFn: (r) => (r.testedAgainst ? SOURCE_WORDS[r.testedAgainst] : "") },
+  ];
+  return <DataTable pageSize={null} data={rows} columns={columns.map((c) => ({ ...c, enableSorting: false }))} caption={caption} />;
+}
+
+/** Mean emergence time and T50 per entry. */
+export function EmergenceTimeTable({ rows, label }: { rows: EmergenceKinetics[]; label: EntryLabel }) {
+  const data: Labelled<EmergenceKinetics>[] = rows.map((r) => ({ ...r, shown: label(r) }));
+  const columns: ColumnDef<Labelled<EmergenceKinetics>, unknown>[] = [
+    { id: "entry", header: "Entry", accessorFn: (k) => k.shown },
+    { id: "met", header: "Mean emergence time (days)", accessorFn: (k) => k.meanEmergenceTime, cell: (c) => formatNumber(c.getValue() as number | null, 2) },
+    { id: "t50", header: "T50 (days)", accessorFn: (k) => k.t50, cell: (c) => formatNumber(c.getValue() as number | null, 2) },
+    { id: "plots", header: "Plots", accessorFn: (k) => k.plots },
+  ];
+  return <DataTable pageSize={null} data={data} columns={columns} caption="Mean emergence time per entry" />;
 }
 
 export function MissingTable({ missing }: { missing: MissingPlot[] }) {
@@ -91,7 +83,7 @@ export function MissingTable({ missing }: { missing: MissingPlot[] }) {
     { id: "reason", header: "Why missing", accessorFn: (m) => m.reason },
     { id: "handling", header: "How handled", accessorFn: (m) => m.handling },
   ];
-  return <SortableTable data={missing} columns={columns} caption="Missing and excluded plots" filterLabel="Filter plots" />;
+  return <DataTable pageSize={null} data={missing} columns={columns} caption="Missing and excluded plots" filterLabel="Filter plots" />;
 }
 
 export function GerminationTable({ rows, label, bySite }: { rows: GerminationRowView[]; label: EntryLabel; bySite: boolean }) {
@@ -104,7 +96,7 @@ export function GerminationTable({ rows, label, bySite }: { rows: GerminationRow
     { id: "percent", header: "Emergence %", accessorFn: (r) => r.percent, cell: (c) => formatNumber(c.getValue() as number, 1) },
     { id: "ci", header: "95% interval", accessorFn: (r) => r.lower, cell: (c) => `${formatNumber(c.row.original.lower, 1)}–${formatNumber(c.row.original.upper, 1)}` },
   ];
-  return <SortableTable data={data} columns={columns} caption={bySite ? "Emergence per entry and site" : "Emergence per entry"} filterLabel={bySite ? "Filter sites or entries" : undefined} />;
+  return <DataTable pageSize={null} data={data} columns={columns} caption={bySite ? "Emergence per entry and site" : "Emergence per entry"} filterLabel={bySite ? "Filter sites or entries" : undefined} />;
 }
 
 export function LabelTable({ rows, label }: { rows: LabelComparison[]; label: EntryLabel }) {
@@ -117,5 +109,5 @@ export function LabelTable({ rows, label }: { rows: LabelComparison[]; label: En
     { id: "p", header: "χ² vs label", accessorFn: (r) => r.chiSquareP, cell: (c) => (c.getValue() === null ? "–" : formatP(c.getValue() as number)) },
     { id: "note", header: "Reading", accessorFn: (r) => r.note },
   ];
-  return <SortableTable data={data} columns={columns} caption="Emergence compared with each seed lot's label germination" />;
+  return <DataTable pageSize={null} data={data} columns={columns} caption="Emergence compared with each seed lot's label germination" />;
 }

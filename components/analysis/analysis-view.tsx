@@ -4,9 +4,9 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import type { AnalysisSettings, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
-import { Badge } from "@/components/ui/badge";
+import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import { buttonClasses } from "@/components/ui/button";
-import { AnovaTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
+import { AnovaTable, EmergenceTimeTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { SharingPanel } from "./sharing-panel";
@@ -29,7 +29,6 @@ async function fetchAnalysis(trialId: number, query: string): Promise<ViewerAnal
   return body as ViewerAnalysis;
 }
 
-const STATUS_TONE = { accepted: "good", submitted: "warn", returned: "bad", draft: "neutral" } as const;
 
 /** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
 export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: ViewerAnalysis; targets: ExclusionTargets | null }) {
@@ -127,7 +126,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 <label className="flex min-h-11 items-start gap-2 rounded-lg border border-husk-200 px-3 py-2">
                   <input type="checkbox" className="mt-1 size-5" checked={selectedSites.includes(s.id)} onChange={() => toggleSite(s.id)} />
                   <span>
-                    <span className="font-semibold">{s.name}</span> <Badge tone={STATUS_TONE[s.status]}>{s.status}</Badge>
+                    <span className="font-semibold">{s.name}</span> <SubmissionStatusBadge status={s.status} />
                     {s.why && s.why !== "not selected" && <span className="block text-sm text-loam-700">Left out: {s.why}</span>}
                   </span>
                 </label>
@@ -233,7 +232,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 defaultOpen={result.perSite.length === 1}
                 summary={
                   <>
-                    <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <Badge tone="warn">{s.status}</Badge>}{" "}
+                    <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <SubmissionStatusBadge status={s.status} />}{" "}
                     {s.result ? (
                       <span className="text-sm text-loam-700">
                         CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
@@ -308,29 +307,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             <p className="mb-3">{result.emergence.note}</p>
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <EmergenceChart emergence={result.emergence} label={label} order={emergenceOrder} />
-              <div className="overflow-x-auto">
-                <table className="w-full text-sm">
-                  <caption className="sr-only">Mean emergence time per entry</caption>
-                  <thead>
-                    <tr className="border-b border-husk-400 text-left">
-                      <th scope="col" className="px-2 py-1">Entry</th>
-                      <th scope="col" className="px-2 py-1">Mean emergence time (days)</th>
-                      <th scope="col" className="px-2 py-1">T50 (days)</th>
-                      <th scope="col" className="px-2 py-1">Plots</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {result.emergence.kinetics.map((k) => (
-                      <tr key={k.entryId} className="border-b border-husk-200 tabular-nums">
-                        <th scope="row" className="px-2 py-1 text-left font-normal">{label(k)}</th>
-                        <td className="px-2 py-1">{formatNumber(k.meanEmergenceTime, 2)}</td>
-                        <td className="px-2 py-1">{formatNumber(k.t50, 2)}</td>
-                        <td className="px-2 py-1">{k.plots}</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
+              <EmergenceTimeTable rows={result.emergence.kinetics} label={label} />
             </div>
           </Card>
         )}

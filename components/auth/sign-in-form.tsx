@@ -5,6 +5,7 @@ import Link from "next/link";
 import { TextField } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { signInSchema } from "@/lib/validation/auth";
+import { fieldErrorsOf } from "@/lib/validation/field-errors";
 
 export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notice?: string }) {
   const [pending, setPending] = useState(false);
@@ -16,9 +17,7 @@ export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notic
     const form = new FormData(event.currentTarget);
     const parsed = signInSchema.safeParse({ email: form.get("email"), password: form.get("password") });
     if (!parsed.success) {
-      const errors: Record<string, string[]> = {};
-      for (const issue of parsed.error.issues) (errors[String(issue.path[0])] ??= []).push(issue.message);
-      setFieldErrors(errors);
+      setFieldErrors(fieldErrorsOf(parsed.error));
       setError("Please correct the marked fields.");
       return;
     }

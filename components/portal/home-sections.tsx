@@ -1,20 +1,11 @@
 import Link from "next/link";
 import { Card } from "@/components/ui/card";
-import { Badge, type BadgeTone } from "@/components/ui/badge";
-import { formatDate, ROLE_LABELS, SETUP_LABELS, STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
+import { Badge } from "@/components/ui/badge";
+import { TrialStatusBadge } from "@/components/ui/status-badge";
+import { formatDate, ROLE_LABELS, SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import type { listUsersForAdmin } from "@/db/queries/users";
 import type { listMyLayouts } from "@/db/queries/trials";
-import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
-
-const STATUS_TONE: Record<TrialStatus, BadgeTone> = {
-  draft: "neutral",
-  open: "info",
-  collecting: "info",
-  analysing: "warn",
-  published: "good",
-  archived: "neutral",
-};
 
 type Trials = Awaited<ReturnType<typeof listTrialsForViewer>>;
 type LateSites = Awaited<ReturnType<typeof listLateSites>>;
@@ -48,7 +39,7 @@ export function TrialsTable({ trials }: { trials: Trials }) {
               <td className="py-2 pr-3">{t.season}</td>
               <td className="py-2 pr-3 text-right tabular-nums">{t.entries}</td>
               <td className="py-2 pr-3 text-right tabular-nums">{t.sites}</td>
-              <td className="py-2"><Badge tone={STATUS_TONE[t.status]}>{STATUS_LABELS[t.status]}</Badge></td>
+              <td className="py-2"><TrialStatusBadge status={t.status} /></td>
             </tr>
           ))}
         </tbody>

@@ -1,7 +1,6 @@
-import { Badge } from "@/components/ui/badge";
 import { Card } from "@/components/ui/card";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
-import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
+import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import type { RecordingSheet } from "@/db/queries/observations";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 
@@ -15,7 +14,7 @@ export function SiteHeader({ sheet }: { sheet: RecordingSheet }) {
       <h1 className="text-2xl font-bold text-loam-900">
         {sheet.enrolment.siteName}: {sheet.enrolment.trialTitle}
       </h1>
-      <Badge tone={SUBMISSION_TONES[status]}>{SUBMISSION_LABELS[status]}</Badge>
+      <SubmissionStatusBadge status={status} />
     </div>
   );
 }

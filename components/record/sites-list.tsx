@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { Badge } from "@/components/ui/badge";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
-import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
+import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import type { listRecordableSites } from "@/db/queries/observations";
 
 type Sites = Awaited<ReturnType<typeof listRecordableSites>>;
@@ -17,7 +16,7 @@ export function RecordableSitesList({ sites }: { sites: Sites }) {
           <Link href={`/portal/record/${s.trialId}/${s.siteId}`} className="block rounded-xl border border-husk-200 bg-white p-4 no-underline shadow-sm hover:border-sprout-500">
             <span className="flex flex-wrap items-center justify-between gap-2">
               <span className="text-lg font-bold text-loam-900">{s.siteName}</span>
-              <Badge tone={SUBMISSION_TONES[s.submissionStatus ?? "draft"]}>{SUBMISSION_LABELS[s.submissionStatus ?? "draft"]}</Badge>
+              <SubmissionStatusBadge status={s.submissionStatus ?? "draft"} />
             </span>
             <span className="block text-loam-700">
               {s.trialTitle} <span className="font-mono text-sm">{s.trialCode}</span> · sown {formatDate(s.sownOn)} · {s.plotCount} plots

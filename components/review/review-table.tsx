@@ -1,10 +1,9 @@
 import Link from "next/link";
 import { cn } from "@/components/ui/cn";
-import { Badge } from "@/components/ui/badge";
 import { displayValue } from "@/lib/domain/observations/values";
 import { MISSING_REASON_LABELS, MISSING_REASON_WORDS } from "@/lib/domain/observations/missing";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
-import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
+import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import type { ReviewSheet, listReviewQueue } from "@/db/queries/review";
 
 type Queue = Awaited<ReturnType<typeof listReviewQueue>>;
@@ -35,7 +34,7 @@ export function ReviewQueue({ rows }: { rows: Queue }) {
               </td>
               <td className="py-2 pr-3 font-mono text-xs">{r.trialCode}</td>
               <td className="py-2 pr-3">
-                <Badge tone={SUBMISSION_TONES[r.status]}>{SUBMISSION_LABELS[r.status]}</Badge>
+                <SubmissionStatusBadge status={r.status} />
               </td>
               <td className="py-2 pr-3 text-right tabular-nums">
                 {r.expected === 0 ? "—" : `${Math.round((100 * r.recorded) / r.expected)}%`} <span className="text-loam-700">({r.recorded}/{r.expected})</span>

@@ -7,7 +7,7 @@ import { FormMessage } from "@/components/ui/form-message";
 import { addEntry, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
 import { useRefetchTrialAfter } from "./trial-data";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
-import { STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
 
 export function AddEntryForm({ trialId, varieties }: { trialId: number; varieties: { id: number; name: string; lots: { id: number; label: string }[] }[] }) {
   const [state, action] = useActionState(addEntry, null);

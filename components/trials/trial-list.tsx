@@ -2,10 +2,9 @@
 import Link from "next/link";
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
-import { Badge } from "@/components/ui/badge";
-import { STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
+import { TrialStatusBadge } from "@/components/ui/status-badge";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
 import type { listTrialsForViewer } from "@/db/queries/overview";
-import { STATUS_TONE } from "./status-tone";
 
 type Row = Awaited<ReturnType<typeof listTrialsForViewer>>[number];
 
@@ -26,7 +25,7 @@ const columns: ColumnDef<Row, unknown>[] = [
   { accessorKey: "season", header: "Season" },
   { accessorKey: "entries", header: "Entries" },
   { accessorKey: "sites", header: "Sites" },
-  { id: "status", accessorFn: (r) => STATUS_LABELS[r.status], header: "Status", cell: (c) => <Badge tone={STATUS_TONE[c.row.original.status]}>{STATUS_LABELS[c.row.original.status]}</Badge> },
+  { id: "status", accessorFn: (r) => STATUS_LABELS[r.status], header: "Status", cell: (c) => <TrialStatusBadge status={c.row.original.status} /> },
 ];
 
 export function TrialList({ rows }: { rows: Row[] }) {

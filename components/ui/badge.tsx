@@ -1,6 +1,7 @@
 import { cn } from "@/components/ui/cn";
+import type { Tone } from "@/lib/domain/vocabulary/statuses";
 
-export type BadgeTone = "neutral" | "good" | "warn" | "bad" | "info";
+export type BadgeTone = Tone;
 
 const TONES: Record<BadgeTone, string> = {
   neutral: "bg-husk-100 text-loam-900 border-husk-400",

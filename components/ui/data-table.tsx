@@ -11,35 +11,50 @@ import {
   type SortingState,
 } from "@tanstack/react-table";
 import { Button } from "./button";
+import { cn } from "./cn";
 import { SortableHeader } from "./sortable-header";
+
+declare module "@tanstack/react-table" {
+  interface ColumnMeta<TData, TValue> {
+    /** Classes for the column's cells (a code set in a monospace face, say). */
+    cellClassName?: string;
+  }
+}
 
 // On phones a cell shows its column's name before the value (columns whose header is not plain text,
 // such as row actions, show the value alone).
 const PHONE_LABEL =
-  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
+  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-sans max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
 
 /**
- * A sortable, filterable, paginated table. Column headers are buttons so sorting works from the keyboard,
- * and aria-sort tells screen readers the current order. On phones each row becomes a card of
- * "column: value" lines and the headers a row of sort buttons; explicit table roles keep the structure
- * for screen readers, which drop it when table parts are displayed as blocks.
+ * The one table for lists of records (catalogue, trials, sites, analysis results, admin lists): sortable,
+ * with a text filter over every column when `filterLabel` is given, paginated unless `pageSize` is null.
+ * Column headers are buttons so sorting works from the keyboard, and aria-sort tells screen readers the
+ * current order. On phones each row becomes a card of "column: value" lines and the headers a row of
+ * sort buttons, so nothing scrolls sideways; explicit table roles keep the structure for screen readers,
+ * which drop it when table parts are displayed as blocks.
  */
 export function DataTable<T>({
   data,
   columns,
   caption,
-  filterLabel = "Filter",
+  filterLabel,
   pageSize = 15,
+  initialSort = [],
   empty = "Nothing here yet.",
+  testId,
 }: {
   data: T[];
   columns: ColumnDef<T, unknown>[];
   caption: string;
   filterLabel?: string;
-  pageSize?: number;
+  /** Rows per page; null shows every row (analysis tables, where a hidden row would hide a result). */
+  pageSize?: number | null;
+  initialSort?: SortingState;
   empty?: string;
+  testId?: string;
 }) {
-  const [sorting, setSorting] = useState<SortingState>([]);
+  const [sorting, setSorting] = useState<SortingState>(initialSort);
   const [filter, setFilter] = useState("");
   const table = useReactTable({
     data,
@@ -50,27 +65,28 @@ export function DataTable<T>({
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
     getFilteredRowModel: getFilteredRowModel(),
-    getPaginationRowModel: getPaginationRowModel(),
-    initialState: { pagination: { pageSize } },
+    ...(pageSize === null ? {} : { getPaginationRowModel: getPaginationRowModel(), initialState: { pagination: { pageSize } } }),
   });
   const filterId = `filter-${caption.replace(/\W+/g, "-").toLowerCase()}`;
   const rows = table.getRowModel().rows;
   return (
     <div className="space-y-3">
-      <div className="no-print max-w-xs">
-        <label htmlFor={filterId} className="block text-sm font-semibold">
-          {filterLabel}
-        </label>
-        <input
-          id={filterId}
-          type="search"
-          value={filter}
-          onChange={(e) => setFilter(e.target.value)}
-          className="block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3 py-2"
-        />
-      </div>
+      {filterLabel && (
+        <div className="no-print max-w-xs">
+          <label htmlFor={filterId} className="block text-sm font-semibold">
+            {filterLabel}
+          </label>
+          <input
+            id={filterId}
+            type="search"
+            value={filter}
+            onChange={(e) => setFilter(e.target.value)}
+            className="block min-h-11 w-full rounded-lg border border-loam-300 bg-white px-3 py-2"
+          />
+        </div>
+      )}
       <div className="overflow-x-auto">
-        <table role="table" className="w-full text-left text-sm max-sm:block">
+        <table role="table" className="w-full text-left text-sm max-sm:block" data-testid={testId}>
           <caption className="sr-only">{caption}</caption>
           <thead role="rowgroup" className="border-b border-husk-200 text-loam-700 max-sm:block">
             {table.getHeaderGroups().map((group) => (
@@ -111,9 +127,9 @@ export function DataTable<T>({
                         key={cell.id}
                         role="cell"
                         data-label={typeof label === "string" ? label : undefined}
-                        className={`py-2 pr-3 max-sm:flex max-sm:gap-3 max-sm:py-0.5 ${typeof label === "string" ? PHONE_LABEL : ""}`}
+                        className={cn("py-2 pr-3 tabular-nums max-sm:flex max-sm:gap-3 max-sm:py-0.5", typeof label === "string" && PHONE_LABEL, cell.column.columnDef.meta?.cellClassName)}
                       >
-                        <div className="min-w-0">{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
+                        <div className="min-w-0 break-words">{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
                       </td>
                     );
                   })}
@@ -123,7 +139,7 @@ export function DataTable<T>({
           </tbody>
         </table>
       </div>
-      {table.getPageCount() > 1 && (
+      {pageSize !== null && table.getPageCount() > 1 && (
         <div className="no-print flex flex-wrap items-center gap-3 text-sm">
           <Button variant="secondary" type="button" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()}>
             Previous

@@ -11,7 +11,7 @@ export function UserRowControls({ userId, role, active, name }: { userId: number
   const message = [roleState, activeState].find((s) => s !== null);
   return (
     <div className="flex flex-wrap items-center gap-2">
-      <form action={roleAction} className="flex items-center gap-2">
+      <form action={roleAction} className="flex flex-wrap items-center gap-2">
         <input type="hidden" name="userId" value={userId} />
         <label className="sr-only" htmlFor={`role-${userId}`}>Role of {name}</label>
         <select id={`role-${userId}`} name="role" defaultValue={role} className="min-h-11 rounded-lg border border-loam-300 bg-white px-2">

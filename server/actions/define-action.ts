@@ -5,6 +5,7 @@ import { asAppError } from "@/lib/errors";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { ActionResult } from "@/lib/validation/action-result";
+import { fieldErrorsOf } from "@/lib/validation/field-errors";
 
 // Fields never echoed back to the form after a failure.
 const SECRET_FIELDS = new Set(["password", "confirm", "token"]);
@@ -42,12 +43,7 @@ export function defineAction<S extends z.ZodType, V extends Viewer | null = View
       }
       const parsed = options.schema.safeParse(formToObject(formData));
       if (!parsed.success) {
-        const fieldErrors: Record<string, string[]> = {};
-        for (const issue of parsed.error.issues) {
-          const key = String(issue.path[0] ?? "_form");
-          (fieldErrors[key] ??= []).push(issue.message);
-        }
-        return { ok: false, fieldErrors, formError: "Please correct the marked fields.", values };
+        return { ok: false, fieldErrors: fieldErrorsOf(parsed.error), formError: "Please correct the marked fields.", values };
       }
       const result = await body(parsed.data, viewer as V);
       return result ?? { ok: true };

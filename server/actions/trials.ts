@@ -7,7 +7,8 @@ import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema,
 import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry } from "@/server/trials/design";
 import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
-import { STATUS_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
 const trialPath = (id: number) => `/portal/trials/${id}`;

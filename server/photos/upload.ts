@@ -3,6 +3,7 @@ import { randomUUID } from "node:crypto";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { photoFieldsSchema } from "@/lib/validation/observations";
+import { fieldErrorsOf } from "@/lib/validation/field-errors";
 import { assertPhotoTarget, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
@@ -13,11 +14,7 @@ const EXT = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" } as
 /** Route core: validates the fields, checks ownership, re-encodes the image, stores it, then records it. */
 export async function uploadPhotoForViewer(viewer: Viewer, fields: Record<string, unknown>, bytes: Uint8Array) {
   const parsed = photoFieldsSchema.safeParse(fields);
-  if (!parsed.success) {
-    const fieldErrors: Record<string, string[]> = {};
-    for (const i of parsed.error.issues) (fieldErrors[String(i.path[0])] ??= []).push(i.message);
-    throw new AppError("bad_request", parsed.error.issues[0]?.message ?? "That request was not understood.", fieldErrors);
-  }
+  if (!parsed.success) throw new AppError("bad_request", parsed.error.issues[0]?.message ?? "That request was not understood.", fieldErrorsOf(parsed.error));
   const input = parsed.data;
   const enrolment = await assertPhotoTarget(viewer, input);
   let prepared;

@@ -3,10 +3,11 @@
  * scoped to the viewer) and the result DTO the page, the JSON API and the exports all show.
  */
 import type { AnovaRow } from "@/lib/domain/stats";
+import type { SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 export type SiteModel = "random" | "fixed";
 export type Separation = "lsd" | "tukey";
-export type SubmissionState = "draft" | "submitted" | "returned" | "accepted";
+export type SubmissionState = SubmissionStatus;
 
 export interface AnalysisSettings {
   traitId: number;
@@ -77,8 +78,8 @@ export interface InputExclusion {
   createdBy: string | null;
 }
 
-/** Trial stages (as in lib/domain/vocabulary/enums); the blind-code key is public once a trial is published. */
-export type TrialStage = "draft" | "open" | "collecting" | "analysing" | "published" | "archived";
+/** The blind-code key is public once a trial is published. */
+export type TrialStage = TrialStatus;
 
 export interface AnalysisInput {
   trial: { id: number; code: string; title: string; crop: string; blocks: number; status: TrialStage };

@@ -1,15 +1,6 @@
-import type { CropGroup, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign, TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { CropGroup, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
 
 export const ROLE_LABELS: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", cooperator: "Partner grower" };
-
-export const STATUS_LABELS: Record<TrialStatus, string> = {
-  draft: "Draft",
-  open: "Open",
-  collecting: "Collecting data",
-  analysing: "Analysing",
-  published: "Published",
-  archived: "Archived",
-};
 
 export const SETUP_LABELS: Record<GrowingSetup, string> = {
   indoor_lights: "Indoors under lights",

@@ -1,9 +1,11 @@
 import { describe, expect, it } from "vitest";
 import fs from "node:fs";
 import path from "node:path";
+import { BODY_LIMITS } from "@/lib/domain/request-limits";
 
-// Every route handler that takes a body goes through lib/http: the origin check, a reader with its
-// route's limit, and closeUnreadBody around refusals. It also stays out of proxy.ts, which would otherwise
+// Every route handler goes through defineRoute (server/http/define-route.ts), and one that takes a body
+// names its kind from BODY_LIMITS: the builder then checks the origin, reads the body only within that
+// kind's limit, and settles an unread body around refusals. It also stays out of proxy.ts, which would otherwise
 // make Next copy the whole body and wait for its end before the route could cut it off.
 
 const root = path.resolve(import.meta.dirname, "../../..");
@@ -36,18 +38,41 @@ describe("route handlers that take a body", () => {
     expect(matcher).toBeTruthy();
   });
 
-  it("check the origin, read the body only through the limited reader and settle an unread body on refusal", () => {
+  it("are built with defineRoute and a body kind from BODY_LIMITS, and never read the body themselves", () => {
     const problems = writers.flatMap((file) => {
       const code = fs.readFileSync(file, "utf8");
       const name = path.relative(root, file);
+      const writes = [...code.matchAll(/export const (POST|PUT|PATCH|DELETE) = defineRoute\(\s*\{([^]*?)\}\s*,\s*async/g)];
+      const declared = [...code.matchAll(/export (?:async function|const) (POST|PUT|PATCH|DELETE)\b/g)].length + [...code.matchAll(/as (POST|PUT|PATCH|DELETE)\b/g)].length;
       return [
-        !code.includes("assertOwnOrigin(request)") && `${name}: no assertOwnOrigin`,
-        !/read(?:Json|Form|ShortForm|Body)Within\(request, "/.test(code) && `${name}: no limited body reader`,
-        /request\.(json|formData|text|arrayBuffer|blob)\(/.test(code) && `${name}: reads the body without a limit`,
-        !code.includes("closeUnreadBody(request,") && `${name}: refusals do not settle an unread body`,
+        writes.length !== declared && `${name}: a write handler not built with defineRoute`,
+        ...writes.map(([, method, options]) => {
+          const kind = /body: \{ kind: "(\w+)"/.exec(options!)?.[1];
+          return (!kind || !(kind in BODY_LIMITS)) && `${name}: ${method} has no body kind from BODY_LIMITS`;
+        }),
+        /request\.(json|formData|text|arrayBuffer|blob)\(|request\.body\b/.test(code) && `${name}: reads the body without a limit`,
       ].filter(Boolean);
     });
     expect(problems).toEqual([]);
+  });
+
+  it("defineRoute checks the origin of state-changing requests, reads bodies only through the limited readers and settles an unread body on refusal", () => {
+    const code = fs.readFileSync(path.join(root, "server/http/define-route.ts"), "utf8");
+    expect(code).toMatch(/if \(!SAFE_METHODS\.has\(request\.method\.toUpperCase\(\)\)\) assertOwnOrigin\(request\);/);
+    expect(code).toMatch(/readJsonWithin\(request, body\.kind\)/);
+    expect(code).toMatch(/readFormWithin\(request, body\.kind\)/);
+    expect(code).toMatch(/readShortFormWithin\(request, body\.kind\)/);
+    expect(code).toContain("closeUnreadBody(request, toResponse(e))");
+    expect(code).not.toMatch(/request\.(json|formData|text|arrayBuffer|blob)\(/);
+  });
+
+  it("every route handler under app/api is built with defineRoute (next-auth's own GET aside)", () => {
+    const handlers = routeFiles(path.join(root, "app/api")).flatMap((file) => {
+      const code = fs.readFileSync(file, "utf8");
+      return [...code.matchAll(/export (?:async function|const) (GET|HEAD|POST|PUT|PATCH|DELETE)\b( = defineRoute\()?/g)].map((m) => [path.relative(root, file), m[1], Boolean(m[2])]);
+    });
+    expect(handlers.length).toBeGreaterThanOrEqual(16);
+    expect(handlers.filter(([, , built]) => !built)).toEqual([]);
   });
 
   it("are left out of the proxy, while pages, reading routes and undecodable addresses still pass through it", () => {

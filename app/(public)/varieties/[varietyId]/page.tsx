@@ -3,7 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicVariety } from "@/db/queries/public";
-import { formatNumber } from "@/lib/domain/analysis/format";
+import { VarietyTraitTable } from "@/components/public/variety-trait-table";
 
 type Params = Promise<{ varietyId: string }>;
 const idSchema = z.coerce.number().int().positive().max(2_000_000_000);
@@ -33,23 +33,8 @@ export default async function PublicVarietyPage({ params }: { params: Params }) 
             <Link href={`/results/${t.code}`}>{t.title}</Link>
           </h2>
           <p className="text-sm text-loam-700">{t.season} · {t.sites} sites · {t.entriesInTrial} varieties{t.isCheck ? " · grown as the check variety" : ""}</p>
-          <div className="mt-3 overflow-x-auto">
-            <table className="w-full text-left text-sm">
-              <caption className="sr-only">{variety.name} in {t.title}</caption>
-              <thead className="border-b border-husk-200 text-loam-700">
-                <tr><th scope="col" className="py-2 pr-3">Trait</th><th scope="col" className="py-2 pr-3 text-right">Mean</th><th scope="col" className="py-2 pr-3 text-right">Rank</th><th scope="col" className="py-2">Group</th></tr>
-              </thead>
-              <tbody>
-                {t.traits.map((r) => (
-                  <tr key={r.trait} className="border-b border-husk-100">
-                    <td className="py-2 pr-3">{r.trait}</td>
-                    <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(r.mean)}</td>
-                    <td className="py-2 pr-3 text-right tabular-nums">{r.rank ? `${r.rank} of ${r.of}` : "–"}</td>
-                    <td className="py-2 font-mono">{r.letter ?? "–"}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+          <div className="mt-3">
+            <VarietyTraitTable rows={t.traits} caption={`${variety.name} in ${t.title}`} />
           </div>
         </section>
       ))}

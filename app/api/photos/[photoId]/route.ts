@@ -1,19 +1,15 @@
-import { assertRole } from "@/server/auth/guards";
-import { AppError, toResponse } from "@/lib/errors";
+import { z } from "zod";
 import { idParam } from "@/lib/validation/common";
 import { readPhotoForViewer } from "@/server/photos/upload";
+import { defineRoute } from "@/server/http/define-route";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
 
-export async function GET(_request: Request, context: { params: Promise<{ photoId: string }> }) {
-  try {
-    const viewer = await assertRole();
-    const id = idParam.safeParse((await context.params).photoId);
-    if (!id.success) throw new AppError("not_found", "That photo does not exist.");
-    const photo = await readPhotoForViewer(viewer, id.data);
+export const GET = defineRoute(
+  { roles: "signed-in", params: { schema: z.object({ photoId: idParam }), message: "That photo does not exist." } },
+  async ({ viewer, params }) => {
+    const photo = await readPhotoForViewer(viewer, params.photoId);
     return new Response(new Uint8Array(photo.bytes), { headers: { "Content-Type": photo.contentType, "Cache-Control": "private, max-age=3600", "X-Content-Type-Options": "nosniff" } });
-  } catch (e) {
-    return toResponse(e);
-  }
-}
+  },
+);

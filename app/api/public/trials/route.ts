@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { listPublicTrials } from "@/db/queries/public";
-import { AppError, toResponse } from "@/lib/errors";
+import { defineRoute } from "@/server/http/define-route";
 
 const filtersSchema = z.object({
   q: z.string().max(100).optional(),
@@ -9,13 +9,7 @@ const filtersSchema = z.object({
 });
 
 /** Published trials as JSON (the same list as the public index). */
-export async function GET(request: Request) {
-  try {
-    const parsed = filtersSchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
-    if (!parsed.success) throw new AppError("bad_request", "Search terms must be under 100 characters.");
-    const { trials } = await listPublicTrials(parsed.data);
-    return Response.json({ trials });
-  } catch (e) {
-    return toResponse(e);
-  }
-}
+export const GET = defineRoute({ roles: "public", query: { schema: filtersSchema, message: "Search terms must be under 100 characters." } }, async ({ query }) => {
+  const { trials } = await listPublicTrials(query);
+  return Response.json({ trials });
+});

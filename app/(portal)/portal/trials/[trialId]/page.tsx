@@ -5,13 +5,12 @@ import { requireRole } from "@/server/auth/guards";
 import { getTrialDetail, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
-import { Badge } from "@/components/ui/badge";
+import { TrialStatusBadge } from "@/components/ui/status-badge";
 import { AddEntryForm, EnrolSiteForm, StatusButton } from "@/components/trials/trial-controls";
 import { TrialEntriesCard, TrialSitesCard } from "@/components/trials/trial-panels";
 import { QueryProvider } from "@/components/ui/query-provider";
 import { asJson } from "@/lib/domain/json";
-import { STATUS_TONE } from "@/components/trials/status-tone";
-import { DESIGN_LABELS, PLOT_UNIT_LABELS, STATUS_LABELS } from "@/lib/domain/vocabulary/labels";
+import { DESIGN_LABELS, PLOT_UNIT_LABELS } from "@/lib/domain/vocabulary/labels";
 import { canEditDesign, canEnrolSites, designLockReason, nextStatus } from "@/lib/domain/design/status";
 
 export const metadata: Metadata = { title: "Trial" };
@@ -52,7 +51,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
             {progress.observationCount > 0 && <Link href={`/portal/trials/${trial.id}/analysis`}>Analysis</Link>}
             {progress.observationCount > 0 && trial.status !== "draft" && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
-            <Badge tone={STATUS_TONE[trial.status]}>{STATUS_LABELS[trial.status]}</Badge>
+            <TrialStatusBadge status={trial.status} />
           </div>
         </div>
 

@@ -8,7 +8,7 @@ import { loadAnalysis } from "@/server/analysis/load-analysis";
 import { standingOf, type TrialStanding } from "@/lib/domain/analysis/history";
 import { formatNumber } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
-import { Badge } from "@/components/ui/badge";
+import { TrialStatusBadge } from "@/components/ui/status-badge";
 
 export const metadata: Metadata = { title: "Variety history" };
 
@@ -43,7 +43,7 @@ export default async function VarietyHistoryPage({ params }: { params: Promise<{
           const s = standings[i];
           return (
             <li key={t.trialId}>
-              <Card title={`${t.season.includes(String(t.year)) ? t.season : `${t.season} ${t.year}`}: ${t.trialTitle}`} actions={<Badge>{t.status}</Badge>}>
+              <Card title={`${t.season.includes(String(t.year)) ? t.season : `${t.season} ${t.year}`}: ${t.trialTitle}`} actions={<TrialStatusBadge status={t.status} />}>
                 <p className="text-sm text-loam-700">
                   <span className="font-mono">{t.trialCode}</span> · entered as <span className="font-mono">{t.blindCode}</span>
                   {t.isCheck ? " (check)" : ""} · {t.entries} entries · {t.sites} sites ·{" "}

@@ -1,12 +1,9 @@
+import { z } from "zod";
 import { requirePublishedSnapshot } from "@/server/publish/public-routes";
-import { toResponse } from "@/lib/errors";
+import { defineRoute } from "@/server/http/define-route";
 
 /** One published version as JSON: summary, entries, sites' public descriptions, results and data. */
-export async function GET(request: Request, { params }: { params: Promise<{ code: string }> }) {
-  try {
-    const snapshot = await requirePublishedSnapshot((await params).code, request);
-    return Response.json(snapshot, { headers: { "Cache-Control": "public, max-age=60" } });
-  } catch (e) {
-    return toResponse(e);
-  }
-}
+export const GET = defineRoute({ roles: "public", params: { schema: z.object({ code: z.string() }) } }, async ({ params, request }) => {
+  const snapshot = await requirePublishedSnapshot(params.code, request);
+  return Response.json(snapshot, { headers: { "Cache-Control": "public, max-age=60" } });
+});

@@ -1,12 +1,12 @@
 import { z } from "zod";
 import ExcelJS from "exceljs";
-import { assertRole } from "@/server/auth/guards";
-import { AppError, toResponse } from "@/lib/errors";
+import { AppError } from "@/lib/errors";
 import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { loadAnalysis } from "@/server/analysis/load-analysis";
 import { exportTables } from "@/lib/domain/analysis/export";
 import { addSheetRow, csvFile } from "@/lib/domain/spreadsheets/write";
+import { defineRoute } from "@/server/http/define-route";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -16,31 +16,32 @@ const exportSchema = z.object({
   format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
   table: z.enum(["raw", "means", "anova", "emergence"], { error: "Ask for table raw, means, anova or emergence." }).default("means"),
 });
+
+function exportQueryOf(search: URLSearchParams) {
+  const analysis = parseAnalysisQuery(search);
+  if (!analysis.ok) throw new AppError("bad_request", analysis.message);
+  const options = exportSchema.safeParse({ format: search.get("format") ?? undefined, table: search.get("table") ?? undefined });
+  if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
+  return { analysis: analysis.data, options: options.data };
+}
 const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence" } as const;
 
 /** The analysis as an .xlsx workbook (every table plus settings and a data dictionary) or one table as CSV. */
-export async function GET(request: Request, context: { params: Promise<{ trialId: string }> }) {
-  try {
-    const viewer = await assertRole("coordinator", "admin");
-    const params = paramsSchema.safeParse(await context.params);
-    if (!params.success) throw new AppError("not_found", "That trial does not exist.");
-    const search = new URL(request.url).searchParams;
-    const query = parseAnalysisQuery(search);
-    if (!query.ok) throw new AppError("bad_request", query.message);
-    const options = exportSchema.safeParse({ format: search.get("format") ?? undefined, table: search.get("table") ?? undefined });
-    if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
-    const loaded = await loadAnalysis(viewer, params.data.trialId, query.data);
+export const GET = defineRoute(
+  { roles: ["coordinator", "admin"], params: { schema: paramsSchema, message: "That trial does not exist." }, query: exportQueryOf },
+  async ({ viewer, params, query }) => {
+    const loaded = await loadAnalysis(viewer, params.trialId, query.analysis);
     if (!loaded) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
     const { result } = loaded;
     const tables = exportTables(result, new Date().toISOString(), true);
     const base = `${result.trial.code}-${result.trait.code}-analysis`.toLowerCase().replace(/[^a-z0-9-]+/g, "-");
     const headers = { "Cache-Control": "private, no-store" };
 
-    if (options.data.format === "csv") {
-      const table = tables.find((t) => t.name === CSV_SHEETS[options.data.table]);
+    if (query.options.format === "csv") {
+      const table = tables.find((t) => t.name === CSV_SHEETS[query.options.table]);
       if (!table) throw new AppError("not_found", "This trial has no emergence counts to export.");
       return new Response(csvFile([table.columns, ...table.rows]), {
-        headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${options.data.table}.csv"` },
+        headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${query.options.table}.csv"` },
       });
     }
 
@@ -61,7 +62,5 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
         "Content-Disposition": `attachment; filename="${base}.xlsx"`,
       },
     });
-  } catch (e) {
-    return toResponse(e);
-  }
-}
+  },
+);

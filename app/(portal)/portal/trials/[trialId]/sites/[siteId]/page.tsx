@@ -8,6 +8,7 @@ import { Card } from "@/components/ui/card";
 import { buttonClasses } from "@/components/ui/button";
 import { PrintButton } from "@/components/ui/print-button";
 import { CautionList, SiteMap } from "@/components/trials/site-layout-view";
+import { SitePlotsTable } from "@/components/trials/site-plots-table";
 import { cautionsFor, sheetColumns } from "@/lib/domain/design/cautions";
 import { addDays } from "@/lib/domain/schedule";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
@@ -65,39 +66,11 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
       </Card>
 
       <Card title="Plots and what to record" className="break-before-page">
-        <div className="overflow-x-auto">
-          <table className="w-full text-left text-sm">
-            <caption className="sr-only">Every plot at this site</caption>
-            <thead className="border-b border-husk-200 text-loam-700">
-              <tr>
-                <th scope="col" className="py-2 pr-3">Plot</th>
-                <th scope="col" className="py-2 pr-3">Block</th>
-                <th scope="col" className="py-2 pr-3">Code</th>
-                {layout.showKey && <th scope="col" className="py-2 pr-3">Variety (key)</th>}
-                {layout.plotUnit !== "bed_row" && <th scope="col" className="py-2 pr-3">Flat / {layout.plotUnit === "insert" ? "insert" : "first cell"}</th>}
-              </tr>
-            </thead>
-            <tbody>
-              {layout.plots.map((p) => (
-                <tr key={p.id} className="border-b border-husk-100">
-                  <td className="py-1 pr-3">
-                    <Link href={`/portal/plots/${p.id}`} className="font-mono">
-                      {p.plotCode}
-                    </Link>
-                  </td>
-                  <td className="py-1 pr-3">{p.block}</td>
-                  <td className="py-1 pr-3 font-mono font-bold">{p.blindCode}</td>
-                  {layout.showKey && <td className="py-1 pr-3">{p.variety}</td>}
-                  {layout.plotUnit !== "bed_row" && (
-                    <td className="py-1 pr-3">
-                      {p.tray} / {p.traySlot}
-                    </td>
-                  )}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <SitePlotsTable
+          plots={layout.plots.map((p) => ({ id: p.id, plotCode: p.plotCode, block: p.block, blindCode: p.blindCode, tray: p.tray, traySlot: p.traySlot, variety: layout.showKey ? p.variety : null }))}
+          showKey={layout.showKey}
+          plotUnit={layout.plotUnit}
+        />
         <h3 className="mt-4 font-semibold">Due on every plot</h3>
         <ul className="list-inside list-disc text-sm">
           {columns.map((c, i) => (
