@@ -19,9 +19,8 @@ const { GET: publicJson } = await import("@/app/api/public/trials/[code]/route")
 const { GET: publicList } = await import("@/app/api/public/trials/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
 const { GET: publicReport } = await import("@/app/(public)/results/[code]/report/route");
-const { getPublicSite, getPublicVariety } = await import("@/db/queries/public");
-const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/server/publish/build");
+const { getPublicSite, getPublicVariety } = await import("@/server/publish/public-snapshots");
+const { publishResults } = await import("@/server/publish/publish");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -71,13 +70,7 @@ beforeAll(async () => {
   expect(statuses.some((x) => x !== "accepted")).toBe(true);
   facts = { siteIds: enrolled.map((e) => e.siteId), varietyIds: entries.map((e) => e.varietyId), statuses, sharedSite: enrolled[0]!.siteId };
   await db.update(s.enrolments).set({ resultsShared: true }).where(and(eq(s.enrolments.trialId, trial.id), eq(s.enrolments.siteId, facts.sharedSite)));
-  await insertPublishedReport(coordinator, {
-    trialId: trial.id,
-    traitId: null,
-    changeNote: null,
-    build: (version, publishedAt) => buildSnapshot(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version, changeNote: null, publishedAt }),
-    notices: () => [],
-  });
+  await publishResults(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
 });
 
 afterAll(async () => {

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { listPublicTrials } from "@/db/queries/public";
+import { listPublicTrials } from "@/server/publish/public-snapshots";
 import { AppError, toResponse } from "@/lib/errors";
 
 const filtersSchema = z.object({

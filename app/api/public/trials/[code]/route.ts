@@ -1,4 +1,4 @@
-import { requirePublishedSnapshot } from "@/server/publish/public-routes";
+import { requirePublishedSnapshot } from "@/server/publish/public-snapshots";
 import { toResponse } from "@/lib/errors";
 
 /** One published version as JSON: summary, entries, sites' public descriptions, results and data. */
