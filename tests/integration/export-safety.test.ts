@@ -22,8 +22,7 @@ vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET: analysisExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
-const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/server/publish/build");
+const { publishResults } = await import("@/server/publish/publish");
 const { csvExportForViewer, templateForViewer } = await import("@/server/spreadsheets/files");
 const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { pool: appPool } = await import("@/db/index");
@@ -119,13 +118,7 @@ describe("exports keep formula-like text as text", () => {
   });
 
   it("a variety named like a formula stays text in the public data download, CSV and workbook", async () => {
-    await insertPublishedReport(coordinator, {
-      trialId: lettuce.id,
-      traitId: yieldId,
-      changeNote: null,
-      build: (version, publishedAt) => buildSnapshot(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, version, changeNote: null, publishedAt }),
-      notices: () => [],
-    });
+    await publishResults(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
     const ctx = { params: Promise.resolve({ code: "TV26-LET" }) };
     const csv = await publicData(new Request("http://t/results/TV26-LET/data?format=csv"), ctx);
     expect(csv.status).toBe(200);

@@ -6,8 +6,8 @@ import path from "node:path";
 import { and, eq, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
-import { insertPublishedReport, updateUnpublished } from "@/db/mutations/publish";
-import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/db/queries/public";
+import { publishResults, withdrawResults } from "@/server/publish/publish";
+import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/server/publish/public-snapshots";
 import { buildSnapshot } from "@/server/publish/build";
 import { renderTrialReport } from "@/reports/trial-report/render";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -21,13 +21,7 @@ let coordinator: Viewer;
 let trialId: number;
 
 async function publish(changeNote: string | null) {
-  return insertPublishedReport(coordinator, {
-    trialId,
-    traitId: null,
-    changeNote,
-    build: (version, publishedAt) => buildSnapshot(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version, changeNote, publishedAt }),
-    notices: () => [],
-  });
+  return publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote });
 }
 
 beforeAll(async () => {
@@ -124,13 +118,13 @@ describe("publishing a trial", () => {
   });
 
   it("withdraws the results with a reason and shows a notice instead", async () => {
-    await updateUnpublished(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
+    await withdrawResults(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
     const notice = await getPublicReport(TRIAL.code);
     expect(notice?.kind).toBe("withdrawn");
     if (notice?.kind === "withdrawn") expect(notice.reason).toContain("labelling mix-up");
     expect(await getPublicReport(TRIAL.code, 1)).toBeNull();
     expect((await listPublicTrials({})).trials.map((t) => t.code)).not.toContain(TRIAL.code);
-    await expect(updateUnpublished(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
+    await expect(withdrawResults(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
   });
 
   it("refuses a coordinator of another program and cooperators", async () => {
@@ -138,6 +132,6 @@ describe("publishing a trial", () => {
     await expect(buildSnapshot(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version: 1, changeNote: null, publishedAt: new Date() })).rejects.toThrow(/not in your programs/);
     const [other] = await db.insert(s.users).values({ email: `other-coord-${Date.now()}@example.org`, name: "Other", role: "coordinator" }).$returningId();
     const outsider: Viewer = { id: other!.id, email: "o@example.org", name: "Other", role: "coordinator" };
-    await expect(updateUnpublished(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
+    await expect(withdrawResults(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
   });
 });
