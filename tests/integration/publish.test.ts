@@ -3,7 +3,7 @@ import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, eq, sql } from "drizzle-orm";
+import { and, count, desc, eq, gt, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
 import { publishResults, withdrawResults } from "@/server/publish/publish";
@@ -19,6 +19,8 @@ const { db, pool } = testDatabase();
 const TRIAL = DEMO_TRIALS.find((t) => t.code === "TV26-SPN")!;
 let coordinator: Viewer;
 let trialId: number;
+// The last outbox row before these tests, so only the mail they queue is counted.
+let mailMark = 0;
 
 async function publish(changeNote: string | null) {
   return publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote });
@@ -29,7 +31,18 @@ beforeAll(async () => {
   coordinator = u!;
   const [t] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, TRIAL.code));
   trialId = t!.id;
+  const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+  mailMark = last?.id ?? 0;
 });
+
+const cooperatorsOfTrial = () =>
+  db
+    .selectDistinct({ email: s.users.email })
+    .from(s.enrolments)
+    .innerJoin(s.siteCooperators, eq(s.siteCooperators.siteId, s.enrolments.siteId))
+    .innerJoin(s.users, eq(s.users.id, s.siteCooperators.userId))
+    .where(and(eq(s.enrolments.trialId, trialId), eq(s.users.active, true), sql`${s.users.passwordHash} IS NOT NULL`));
+const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, subject: s.mailOutbox.subject, text: s.mailOutbox.textBody }).from(s.mailOutbox).where(gt(s.mailOutbox.id, mark));
 afterAll(async () => {
   await pool.end();
   await appPool.end();
@@ -127,11 +140,39 @@ describe("publishing a trial", () => {
     await expect(withdrawResults(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
   });
 
+  it("queues a notice to each of the trial's cooperators with every version it publishes", async () => {
+    const cooperators = (await cooperatorsOfTrial()).map((c) => c.email).sort();
+    expect(cooperators.length).toBeGreaterThan(0);
+    const notices = (await queuedSince(mailMark)).filter((m) => m.subject === `Results published: ${TRIAL.title}`);
+    expect(notices.filter((m) => !/version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
+    expect(notices.filter((m) => /version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
+    for (const m of notices) expect(m.text).toContain(`/results/${TRIAL.code}`);
+  });
+
+  it("a publication refused under the trial's lock stores no version, leaves the status and queues no notice", async () => {
+    const [before] = await db.select({ status: s.trials.status }).from(s.trials).where(eq(s.trials.id, trialId));
+    const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+    const versionsBefore = await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId));
+    await db.update(s.trials).set({ status: "archived" }).where(eq(s.trials.id, trialId));
+    try {
+      await expect(publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: "Tried on an archived trial." })).rejects.toThrow(/archived trial cannot be published/);
+      expect(await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId))).toEqual(versionsBefore);
+      expect(await queuedSince(last?.id ?? 0)).toEqual([]);
+      const [after] = await db.select({ status: s.trials.status }).from(s.trials).where(eq(s.trials.id, trialId));
+      expect(after!.status).toBe("archived");
+    } finally {
+      await db.update(s.trials).set({ status: before!.status }).where(eq(s.trials.id, trialId));
+    }
+  });
+
   it("refuses a coordinator of another program and cooperators", async () => {
     const grower: Viewer = { id: 999999, email: "x@example.org", name: "X", role: "cooperator" };
     await expect(buildSnapshot(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version: 1, changeNote: null, publishedAt: new Date() })).rejects.toThrow(/not in your programs/);
     const [other] = await db.insert(s.users).values({ email: `other-coord-${Date.now()}@example.org`, name: "Other", role: "coordinator" }).$returningId();
     const outsider: Viewer = { id: other!.id, email: "o@example.org", name: "Other", role: "coordinator" };
     await expect(withdrawResults(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
+    // Refused before anything is built, even though the trial has versions (no change-note hint about them).
+    await expect(publishResults(outsider, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
+    await expect(publishResults(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
   });
 });
