@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { eq, inArray } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, like } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -68,7 +68,12 @@ async function expectSafeXlsx(bytes: ArrayBuffer, expected: string[]) {
   for (const value of expected) expect(seen).toContain(value);
 }
 
+// The last outbox row before the publication here, so its notices can be removed afterwards.
+let mailMark = 0;
+
 beforeAll(async () => {
+  const [lastMail] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+  mailMark = lastMail?.id ?? 0;
   coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   auth.viewer = coordinator;
   const [t] = await db.select({ id: s.trials.id, status: s.trials.status }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
@@ -80,6 +85,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
   for (const v of renamed) await db.update(s.varieties).set({ name: v.name }).where(eq(s.varieties.id, v.id));
   await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, lettuce.id));
   await db.update(s.trials).set({ status: lettuce.status }).where(eq(s.trials.id, lettuce.id));

@@ -3,7 +3,7 @@ import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, count, desc, eq, gt, sql } from "drizzle-orm";
+import { and, count, desc, eq, gt, like, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
 import { publishResults, withdrawResults } from "@/server/publish/publish";
@@ -44,6 +44,8 @@ const cooperatorsOfTrial = () =>
     .where(and(eq(s.enrolments.trialId, trialId), eq(s.users.active, true), sql`${s.users.passwordHash} IS NOT NULL`));
 const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, subject: s.mailOutbox.subject, text: s.mailOutbox.textBody }).from(s.mailOutbox).where(gt(s.mailOutbox.id, mark));
 afterAll(async () => {
+  // The notices stay out of other files' delivery runs.
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
   await pool.end();
   await appPool.end();
 });
