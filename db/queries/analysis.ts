@@ -98,7 +98,7 @@ export type AnalysisInputRows = Omit<AnalysisInput, "exclusions"> & { exclusions
 /**
  * Everything one trait's analysis needs: entries, sites with sowing dates and submission status, plots,
  * the trait's and the seed counts' observations, and exclusions, for the sites the viewer may see. With
- * `includeKey` false nothing that decodes a blind code is read out: no variety names or ids, seed lots,
+ * `includeKey` false nothing that decodes a blind code leaves here: no variety names or ids, seed lots,
  * check flags or label germination, and no exclusion reasons. Null when the trial is not the viewer's.
  */
 export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number; includeKey: boolean }): Promise<AnalysisInputRows | null> {
