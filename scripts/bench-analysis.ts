@@ -255,7 +255,8 @@ try {
   line("\nanalysis page, analysis already cached", page.map((p) => p.ms), `HTML ${sizes(page[0]!)}`);
 
   // The same work in-process, to show where the cold time goes. Imported late: it opens the app's own pool.
-  const { getAnalysisInput, getAnalysisVersion } = await import("../db/queries/analysis");
+  const { getAnalysisVersion } = await import("../db/queries/analysis");
+  const { loadAnalysisInput } = await import("../server/analysis/load-analysis");
   const { runAnalysis } = await import("../lib/domain/analysis/run");
   const { pool: appPool } = await import("../db/index");
   const viewer = { id: coordinator.id, email: coordinator.email, name: coordinator.name, role: coordinator.role };
@@ -266,7 +267,7 @@ try {
     await getAnalysisVersion(viewer, trialId, [trial.traitId]);
     steps.version.push(performance.now() - t);
     t = performance.now();
-    const input = await getAnalysisInput(viewer, { trialId, traitId: trial.traitId });
+    const input = await loadAnalysisInput(viewer, { trialId, traitId: trial.traitId });
     steps.read.push(performance.now() - t);
     t = performance.now();
     const result = runAnalysis(input!, { traitId: trial.traitId, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" });

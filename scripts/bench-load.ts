@@ -31,8 +31,7 @@ if (!url) {
 }
 const { db, pool } = createDatabase(url, 4);
 const { hashPassword } = await import("../server/auth/password");
-const { insertPublishedReport } = await import("../db/mutations/publish");
-const { buildSnapshot } = await import("../server/publish/build");
+const { publishResults } = await import("../server/publish/publish");
 const { pool: appPool } = await import("../db/index");
 // Everything the run adds is removed at the end (and at the start, if an earlier run was interrupted).
 const THROWAWAY = { sitePrefix: "Load site ", cropPrefix: "Load crop ", emailPrefix: "load-" };
@@ -96,14 +95,7 @@ async function publishedTrial(coordinatorId: number) {
   if (!trial) throw new Error("Nothing is published and TV26-LET is missing; publish a trial first.");
   const [u] = await db.select({ email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.id, coordinatorId));
   const viewer = { id: coordinatorId, email: u!.email, name: u!.name, role: u!.role };
-  const settings = { siteModel: "random" as const, separation: "lsd" as const };
-  await insertPublishedReport(viewer, {
-    trialId: trial.id,
-    traitId: null,
-    changeNote: null,
-    build: (version, publishedAt) => buildSnapshot(viewer, { trialId: trial.id, traitId: null, settings, version, changeNote: null, publishedAt }),
-    notices: () => [],
-  });
+  await publishResults(viewer, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
   console.log(`Published ${trial.code} so the public page has something to show.`);
   return trial;
 }

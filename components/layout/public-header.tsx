@@ -1,14 +1,13 @@
 import Link from "next/link";
 import { Logo } from "./logo";
 import { NavLink } from "./nav-link";
-import { getViewer } from "@/server/auth/guards";
 
 const LINK = "font-semibold";
 const CURRENT = "underline decoration-sprout-600 decoration-[3px] underline-offset-8";
 const OTHER = "no-underline hover:underline";
 
-export async function PublicHeader() {
-  const viewer = await getViewer();
+/** `signedIn` comes from the layout, which reads the session; the header only chooses the link. */
+export function PublicHeader({ signedIn }: { signedIn: boolean }) {
   return (
     <header className="border-b border-husk-200 bg-white">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-4 py-3">
@@ -22,7 +21,7 @@ export async function PublicHeader() {
           <NavLink href="/results" className={LINK} activeClassName={CURRENT} inactiveClassName={OTHER}>
             Results
           </NavLink>
-          {viewer ? (
+          {signedIn ? (
             <Link href="/portal" className={`${LINK} ${OTHER}`}>
               My portal
             </Link>

@@ -20,9 +20,8 @@ import {
 } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
-import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
-import type { AnalysisInput, InputTrait } from "@/lib/domain/analysis/types";
-import { WITHHELD_REASON } from "@/lib/domain/analysis/blind";
+import { isStaff } from "@/lib/domain/permissions";
+import type { AnalysisInput, InputExclusion, InputTrait } from "@/lib/domain/analysis/types";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
@@ -59,6 +58,14 @@ async function scopedTrial(viewer: Viewer, trialId: number): Promise<ScopedTrial
 /** Restricts a plots/enrolments query to the viewer's visible sites. */
 const siteFilter = (trial: ScopedTrial, column: typeof plots.siteId | typeof enrolments.siteId) => (trial.siteIds === null ? sql`true` : inArray(column, trial.siteIds));
 
+/**
+ * The status of a trial whose analysis the viewer may read (staff of its program, or a cooperator with a
+ * shared site); null otherwise. The server decides from it whether the blind key may be read.
+ */
+export async function getAnalysisTrialStatus(viewer: Viewer, trialId: number): Promise<TrialStatus | null> {
+  return (await scopedTrial(viewer, trialId))?.status ?? null;
+}
+
 /** The trial's recorded traits in display order (staff only); null when the trial is not the viewer's. */
 export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promise<(InputTrait & { recorded: number })[] | null> {
   const trial = await scopedTrial(viewer, trialId);
@@ -85,12 +92,16 @@ function loadTraits(trialId: number): Promise<InputTrait[]> {
     .orderBy(asc(trialTraits.sortOrder), asc(traits.id));
 }
 
+/** The analysis input as read; without the key an exclusion's reason is null (withheld, see getAnalysisInput). */
+export type AnalysisInputRows = Omit<AnalysisInput, "exclusions"> & { exclusions: (Omit<InputExclusion, "reason"> & { reason: string | null })[] };
+
 /**
- * Everything one trait's analysis needs, for staff of the trial's program: entries (with variety
- * names and seed lots), sites with sowing dates and submission status, plots, the trait's and the
- * seed counts' observations, and exclusions. Null when the trial is not the viewer's.
+ * Everything one trait's analysis needs: entries, sites with sowing dates and submission status, plots,
+ * the trait's and the seed counts' observations, and exclusions, for the sites the viewer may see. With
+ * `includeKey` false nothing that decodes a blind code leaves here: no variety names or ids, seed lots,
+ * check flags or label germination, and no exclusion reasons. Null when the trial is not the viewer's.
  */
-export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number }): Promise<AnalysisInput | null> {
+export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number; includeKey: boolean }): Promise<AnalysisInputRows | null> {
   const trial = await scopedTrial(viewer, p.trialId);
   if (!trial) return null;
   const traitRows = await loadTraits(p.trialId);
@@ -154,10 +165,9 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .where(eq(analysisExclusions.trialId, p.trialId))
       .orderBy(asc(analysisExclusions.id)),
   ]);
-  // Cooperators see their own sites' exclusions only. Until the trial is published they read nothing that
-  // decodes a blind code: no names, seed lots, check flag or label germination, and not the coordinator's
-  // free-text reasons, which may name a variety (lib/domain/analysis/blind.ts strips the result the same way).
-  const key = canSeeBlindKey(viewer, trial);
+  // Cooperators see their own sites' exclusions only. Without the key (a grower before publication) the
+  // coordinator's free-text reasons stay here too: they may name a variety.
+  const key = p.includeKey;
   const plotIds = new Set(plotRows.map((r) => r.id));
   const visibleSites = new Set(siteRows.map((r) => r.id));
   const exclusions = trial.siteIds === null ? exclusionRows : exclusionRows.filter((x) => (x.siteId !== null && visibleSites.has(x.siteId)) || (x.plotId !== null && plotIds.has(x.plotId)));
@@ -179,7 +189,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
     observations: obsRows,
     exclusions: exclusions.map((x) => ({
       ...x,
-      reason: key ? x.reason : WITHHELD_REASON,
+      reason: key ? x.reason : null,
       createdBy: trial.siteIds === null ? x.createdBy : null,
       createdAt: x.createdAt.toISOString(),
     })),

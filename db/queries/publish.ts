@@ -1,6 +1,6 @@
 import "server-only";
-import { and, asc, desc, eq, isNotNull } from "drizzle-orm";
-import { db } from "../index";
+import { and, asc, count, desc, eq, isNotNull, isNull, max } from "drizzle-orm";
+import { db, type Tx } from "../index";
 import { enrolments, publishedReports, sites, siteCooperators, traits, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
@@ -81,4 +81,30 @@ export async function listTrialCooperatorEmails(trialId: number): Promise<{ emai
     .innerJoin(users, eq(users.id, siteCooperators.userId))
     .where(and(eq(enrolments.trialId, trialId), eq(users.active, true), isNotNull(users.passwordHash)));
   return rows;
+}
+
+/**
+ * The highest version published of one of the viewer's programs' trials (0 before the first); null when
+ * the trial is not the viewer's. Given the transaction, it reads under the trial's row lock.
+ */
+export async function getLatestReportVersion(viewer: Viewer, p: { trialId: number; tx?: Tx }): Promise<number | null> {
+  if (!isStaff(viewer)) return null;
+  const [row] = await (p.tx ?? db)
+    .select({ trialId: trials.id, latest: max(publishedReports.version) })
+    .from(trials)
+    .leftJoin(publishedReports, eq(publishedReports.trialId, trials.id))
+    .where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)))
+    .groupBy(trials.id);
+  return row ? (row.latest ?? 0) : null;
+}
+
+/** How many versions of one of the viewer's programs' trials are live (published and not withdrawn). */
+export async function countLiveReports(viewer: Viewer, p: { trialId: number; tx?: Tx }): Promise<number> {
+  if (!isStaff(viewer)) return 0;
+  const [row] = await (p.tx ?? db)
+    .select({ n: count() })
+    .from(publishedReports)
+    .innerJoin(trials, eq(trials.id, publishedReports.trialId))
+    .where(and(eq(publishedReports.trialId, p.trialId), isNull(publishedReports.unpublishedAt), staffTrialScope(viewer)));
+  return row?.n ?? 0;
 }

@@ -17,7 +17,3 @@ export const unpublishSchema = z.object({
   trialId: id,
   reason: z.string({ error: "Say why the results are withdrawn." }).trim().min(10, "Say why the results are withdrawn (at least 10 characters).").max(2000, "Keep the reason under 2,000 characters."),
 });
-
-/** Public URLs carry the trial code, e.g. TV26-LET. */
-export const trialCodeSchema = z.string().regex(/^[A-Za-z0-9-]{1,40}$/);
-export const versionParamSchema = z.coerce.number().int().min(1).max(100000);

@@ -1,15 +1,14 @@
 import "server-only";
 import { createHash } from "node:crypto";
-import { getAnalysisInput, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
+import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
-import { analysisFor } from "@/lib/domain/analysis/blind";
-import { isStaff } from "@/lib/domain/permissions";
-import { isAnalysable } from "@/lib/domain/analysis/values";
-import type { AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
+import { analysisFor, WITHHELD_REASON } from "@/lib/domain/analysis/blind";
+import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
+import type { AnalysisInput, AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
 import type { Viewer } from "@/lib/domain/viewer";
-import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { isPublishableTrait, SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
 // Results are kept per (trial, data version, settings): a new observation, review decision or
 // exclusion changes the version, so stale results are never served, and old keys simply age out.
@@ -18,13 +17,27 @@ const cache = new Map<string, AnalysisResult>();
 
 /** The trait shown when none is asked for: the first measured number with data, else any analysable trait with data. */
 export function defaultTrait(traits: (InputTrait & { recorded: number })[]): InputTrait | null {
-  const candidates = traits.filter((t) => isAnalysable(t) && t.code !== SEEDS_SOWN_CODE);
+  const candidates = traits.filter(isPublishableTrait);
   return (
     candidates.find((t) => t.valueType === "number" && t.recorded > 0) ??
     candidates.find((t) => t.recorded > 0) ??
     candidates[0] ??
     null
   );
+}
+
+/**
+ * One trait's analysis input as this viewer may read it. Until the trial is published a grower's input is
+ * read without the blind key (no names, seed lots, check flags, label germination or exclusion reasons),
+ * and the result is stripped again by analysisFor: two locks, so one mistake cannot decode a blind code.
+ * Null when the trial is not the viewer's.
+ */
+export async function loadAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number }): Promise<AnalysisInput | null> {
+  const status = await getAnalysisTrialStatus(viewer, p.trialId);
+  if (status === null) return null;
+  const rows = await getAnalysisInput(viewer, { ...p, includeKey: canSeeBlindKey(viewer, { status }) });
+  if (!rows) return null;
+  return { ...rows, exclusions: rows.exclusions.map((x) => ({ ...x, reason: x.reason ?? WITHHELD_REASON })) };
 }
 
 export interface PreparedAnalysis {
@@ -68,7 +81,7 @@ async function computeAnalysis(viewer: Viewer, trialId: number, prepared: Prepar
   const key = `${trialId}|${prepared.key}`;
   const hit = cache.get(key);
   if (hit) return hit;
-  const input = await getAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
+  const input = await loadAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
   if (!input) return null;
   const result = runAnalysis(input, prepared.settings);
   cache.set(key, result);

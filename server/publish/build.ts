@@ -1,9 +1,10 @@
 import "server-only";
-import { getAnalysisInput, listAnalysisTraits } from "@/db/queries/analysis";
+import { listAnalysisTraits } from "@/db/queries/analysis";
 import { getPublishContext } from "@/db/queries/publish";
 import { runAnalysis } from "@/lib/domain/analysis/run";
-import { analysedAs, isAnalysable } from "@/lib/domain/analysis/values";
-import { SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { analysedAs } from "@/lib/domain/analysis/values";
+import { isPublishableTrait } from "@/lib/domain/vocabulary/traits";
+import { loadAnalysisInput } from "@/server/analysis/load-analysis";
 import { AppError } from "@/lib/errors";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -20,13 +21,13 @@ export async function buildSnapshot(
 ): Promise<PublishedSnapshot> {
   const [context, traitList] = await Promise.all([getPublishContext(viewer, p.trialId), listAnalysisTraits(viewer, p.trialId)]);
   if (!context || !traitList) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-  const candidates = traitList.filter((t) => isAnalysable(t) && t.code !== SEEDS_SOWN_CODE && t.recorded > 0 && (p.traitId === null || t.id === p.traitId));
+  const candidates = traitList.filter((t) => isPublishableTrait(t) && t.recorded > 0 && (p.traitId === null || t.id === p.traitId));
   if (p.traitId !== null && candidates.length === 0) throw new AppError("bad_request", "That trait has no recorded data to publish.");
   if (candidates.length === 0) throw new AppError("conflict", "This trial has no recorded data yet, so there is nothing to publish.");
 
   const results: { traitId: number; result: AnalysisResult }[] = [];
   for (const trait of candidates) {
-    const input = await getAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
+    const input = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
     if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
     const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation });
     // Who recorded an exclusion is internal; the reason is public.

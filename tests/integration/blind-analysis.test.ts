@@ -15,7 +15,7 @@ vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
 const { insertExclusion, deleteExclusion, updateResultsShared } = await import("@/db/mutations/exclusions");
-const { loadAnalysisView } = await import("@/server/analysis/load-analysis");
+const { loadAnalysisInput, loadAnalysisView } = await import("@/server/analysis/load-analysis");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -88,6 +88,26 @@ describe("the blind stays closed for growers until the key is revealed", () => {
         expect(means.map((m) => m.entryId)).toEqual(codes.map((_, i) => i + 1));
         expect(body.exclusions.map((x) => x.plotCode)).toEqual([plot.plotCode]);
       }
+    } finally {
+      await deleteExclusion(coordinator, { trialId: site.trialId, exclusionId });
+    }
+  });
+
+  it("the analysis input read for a grower before publication holds no name, check flag, label germination, seed lot or coordinator's reason", async () => {
+    // The first of two locks: even before the blind view is made, the server never holds the key for a grower.
+    const plot = site.plots[0]!;
+    const exclusionId = await insertExclusion(coordinator, { trialId: site.trialId, siteId: null, plotId: plot.id, traitId: null, reason: `${LETTUCE.entries[0]!.variety} plot trampled` });
+    try {
+      const input = await loadAnalysisInput(grower, { trialId: site.trialId, traitId: yieldId });
+      expect(input!.entries.length).toBe(LETTUCE.entries.length);
+      for (const e of input!.entries) expect(e).toMatchObject({ varietyName: null, varietyId: null, isCheck: false, labelGermination: null, seedLot: null });
+      expect(input!.exclusions.map((x) => x.plotId)).toEqual([plot.id]);
+      expect(JSON.stringify(input)).not.toContain("trampled");
+      for (const word of KEY_WORDS) expect(JSON.stringify(input), word).not.toContain(word);
+      // Staff read the same input with the key.
+      const staff = await loadAnalysisInput(coordinator, { trialId: site.trialId, traitId: yieldId });
+      expect(staff!.entries.map((e) => e.varietyName).sort()).toEqual(LETTUCE.entries.map((e) => e.variety).sort());
+      expect(staff!.exclusions.map((x) => x.reason)).toContain(`${LETTUCE.entries[0]!.variety} plot trampled`);
     } finally {
       await deleteExclusion(coordinator, { trialId: site.trialId, exclusionId });
     }

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { eq, inArray } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, like } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -22,8 +22,7 @@ vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET: analysisExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
-const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/server/publish/build");
+const { publishResults } = await import("@/server/publish/publish");
 const { csvExportForViewer, templateForViewer } = await import("@/server/spreadsheets/files");
 const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { pool: appPool } = await import("@/db/index");
@@ -69,7 +68,12 @@ async function expectSafeXlsx(bytes: ArrayBuffer, expected: string[]) {
   for (const value of expected) expect(seen).toContain(value);
 }
 
+// The last outbox row before the publication here, so its notices can be removed afterwards.
+let mailMark = 0;
+
 beforeAll(async () => {
+  const [lastMail] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+  mailMark = lastMail?.id ?? 0;
   coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   auth.viewer = coordinator;
   const [t] = await db.select({ id: s.trials.id, status: s.trials.status }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
@@ -81,6 +85,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
   for (const v of renamed) await db.update(s.varieties).set({ name: v.name }).where(eq(s.varieties.id, v.id));
   await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, lettuce.id));
   await db.update(s.trials).set({ status: lettuce.status }).where(eq(s.trials.id, lettuce.id));
@@ -119,13 +124,7 @@ describe("exports keep formula-like text as text", () => {
   });
 
   it("a variety named like a formula stays text in the public data download, CSV and workbook", async () => {
-    await insertPublishedReport(coordinator, {
-      trialId: lettuce.id,
-      traitId: yieldId,
-      changeNote: null,
-      build: (version, publishedAt) => buildSnapshot(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, version, changeNote: null, publishedAt }),
-      notices: () => [],
-    });
+    await publishResults(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
     const ctx = { params: Promise.resolve({ code: "TV26-LET" }) };
     const csv = await publicData(new Request("http://t/results/TV26-LET/data?format=csv"), ctx);
     expect(csv.status).toBe(200);

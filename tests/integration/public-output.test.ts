@@ -3,7 +3,7 @@ import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, eq, inArray } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, like } from "drizzle-orm";
 import ExcelJS from "exceljs";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -19,9 +19,8 @@ const { GET: publicJson } = await import("@/app/api/public/trials/[code]/route")
 const { GET: publicList } = await import("@/app/api/public/trials/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
 const { GET: publicReport } = await import("@/app/(public)/results/[code]/report/route");
-const { getPublicSite, getPublicVariety } = await import("@/db/queries/public");
-const { insertPublishedReport } = await import("@/db/mutations/publish");
-const { buildSnapshot } = await import("@/server/publish/build");
+const { getPublicSite, getPublicVariety } = await import("@/server/publish/public-snapshots");
+const { publishResults } = await import("@/server/publish/publish");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -56,7 +55,12 @@ function expectNoInternalState(json: unknown) {
   expect(JSON.stringify(json)).not.toMatch(/not accepted yet|submitted|returned for corrections|still in draft/i);
 }
 
+// The last outbox row before the publication here, so its notices can be removed afterwards.
+let mailMark = 0;
+
 beforeAll(async () => {
+  const [lastMail] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+  mailMark = lastMail?.id ?? 0;
   coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   const [t] = await db.select({ id: s.trials.id, status: s.trials.status }).from(s.trials).where(eq(s.trials.code, CODE));
   trial = t!;
@@ -71,16 +75,11 @@ beforeAll(async () => {
   expect(statuses.some((x) => x !== "accepted")).toBe(true);
   facts = { siteIds: enrolled.map((e) => e.siteId), varietyIds: entries.map((e) => e.varietyId), statuses, sharedSite: enrolled[0]!.siteId };
   await db.update(s.enrolments).set({ resultsShared: true }).where(and(eq(s.enrolments.trialId, trial.id), eq(s.enrolments.siteId, facts.sharedSite)));
-  await insertPublishedReport(coordinator, {
-    trialId: trial.id,
-    traitId: null,
-    changeNote: null,
-    build: (version, publishedAt) => buildSnapshot(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version, changeNote: null, publishedAt }),
-    notices: () => [],
-  });
+  await publishResults(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
 });
 
 afterAll(async () => {
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
   await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, trial.id));
   await db.update(s.trials).set({ status: trial.status }).where(eq(s.trials.id, trial.id));
   await db.update(s.enrolments).set({ resultsShared: false }).where(and(eq(s.enrolments.trialId, trial.id), inArray(s.enrolments.siteId, facts.siteIds)));

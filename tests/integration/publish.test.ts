@@ -3,11 +3,11 @@ import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, eq, sql } from "drizzle-orm";
+import { and, count, desc, eq, gt, like, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
-import { insertPublishedReport, updateUnpublished } from "@/db/mutations/publish";
-import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/db/queries/public";
+import { publishResults, withdrawResults } from "@/server/publish/publish";
+import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/server/publish/public-snapshots";
 import { buildSnapshot } from "@/server/publish/build";
 import { renderTrialReport } from "@/reports/trial-report/render";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -19,15 +19,11 @@ const { db, pool } = testDatabase();
 const TRIAL = DEMO_TRIALS.find((t) => t.code === "TV26-SPN")!;
 let coordinator: Viewer;
 let trialId: number;
+// The last outbox row before these tests, so only the mail they queue is counted.
+let mailMark = 0;
 
 async function publish(changeNote: string | null) {
-  return insertPublishedReport(coordinator, {
-    trialId,
-    traitId: null,
-    changeNote,
-    build: (version, publishedAt) => buildSnapshot(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version, changeNote, publishedAt }),
-    notices: () => [],
-  });
+  return publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote });
 }
 
 beforeAll(async () => {
@@ -35,8 +31,21 @@ beforeAll(async () => {
   coordinator = u!;
   const [t] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, TRIAL.code));
   trialId = t!.id;
+  const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+  mailMark = last?.id ?? 0;
 });
+
+const cooperatorsOfTrial = () =>
+  db
+    .selectDistinct({ email: s.users.email })
+    .from(s.enrolments)
+    .innerJoin(s.siteCooperators, eq(s.siteCooperators.siteId, s.enrolments.siteId))
+    .innerJoin(s.users, eq(s.users.id, s.siteCooperators.userId))
+    .where(and(eq(s.enrolments.trialId, trialId), eq(s.users.active, true), sql`${s.users.passwordHash} IS NOT NULL`));
+const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, subject: s.mailOutbox.subject, text: s.mailOutbox.textBody }).from(s.mailOutbox).where(gt(s.mailOutbox.id, mark));
 afterAll(async () => {
+  // The notices stay out of other files' delivery runs.
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
   await pool.end();
   await appPool.end();
 });
@@ -124,13 +133,38 @@ describe("publishing a trial", () => {
   });
 
   it("withdraws the results with a reason and shows a notice instead", async () => {
-    await updateUnpublished(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
+    await withdrawResults(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
     const notice = await getPublicReport(TRIAL.code);
     expect(notice?.kind).toBe("withdrawn");
     if (notice?.kind === "withdrawn") expect(notice.reason).toContain("labelling mix-up");
     expect(await getPublicReport(TRIAL.code, 1)).toBeNull();
     expect((await listPublicTrials({})).trials.map((t) => t.code)).not.toContain(TRIAL.code);
-    await expect(updateUnpublished(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
+    await expect(withdrawResults(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
+  });
+
+  it("queues a notice to each of the trial's cooperators with every version it publishes", async () => {
+    const cooperators = (await cooperatorsOfTrial()).map((c) => c.email).sort();
+    expect(cooperators.length).toBeGreaterThan(0);
+    const notices = (await queuedSince(mailMark)).filter((m) => m.subject === `Results published: ${TRIAL.title}`);
+    expect(notices.filter((m) => !/version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
+    expect(notices.filter((m) => /version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
+    for (const m of notices) expect(m.text).toContain(`/results/${TRIAL.code}`);
+  });
+
+  it("a publication refused under the trial's lock stores no version, leaves the status and queues no notice", async () => {
+    const [before] = await db.select({ status: s.trials.status }).from(s.trials).where(eq(s.trials.id, trialId));
+    const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
+    const versionsBefore = await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId));
+    await db.update(s.trials).set({ status: "archived" }).where(eq(s.trials.id, trialId));
+    try {
+      await expect(publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: "Tried on an archived trial." })).rejects.toThrow(/archived trial cannot be published/);
+      expect(await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId))).toEqual(versionsBefore);
+      expect(await queuedSince(last?.id ?? 0)).toEqual([]);
+      const [after] = await db.select({ status: s.trials.status }).from(s.trials).where(eq(s.trials.id, trialId));
+      expect(after!.status).toBe("archived");
+    } finally {
+      await db.update(s.trials).set({ status: before!.status }).where(eq(s.trials.id, trialId));
+    }
   });
 
   it("refuses a coordinator of another program and cooperators", async () => {
@@ -138,6 +172,9 @@ describe("publishing a trial", () => {
     await expect(buildSnapshot(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version: 1, changeNote: null, publishedAt: new Date() })).rejects.toThrow(/not in your programs/);
     const [other] = await db.insert(s.users).values({ email: `other-coord-${Date.now()}@example.org`, name: "Other", role: "coordinator" }).$returningId();
     const outsider: Viewer = { id: other!.id, email: "o@example.org", name: "Other", role: "coordinator" };
-    await expect(updateUnpublished(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
+    await expect(withdrawResults(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
+    // Refused before anything is built, even though the trial has versions (no change-note hint about them).
+    await expect(publishResults(outsider, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
+    await expect(publishResults(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
   });
 });

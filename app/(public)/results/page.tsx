@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { listPublicTrials } from "@/db/queries/public";
+import { listPublicTrials } from "@/server/publish/public-snapshots";
 import { SelectField, TextField } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 

@@ -17,7 +17,7 @@ export function daysBetween(from: string | null, to: string | null): number | nu
 }
 
 /** Text traits cannot go into an ANOVA; every other type is analysed as a number (yes/no as 0/1). */
-export function isAnalysable(trait: InputTrait): boolean {
+export function isAnalysable(trait: Pick<InputTrait, "valueType">): boolean {
   return trait.valueType !== "text";
 }
 

@@ -1,8 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { getPublicReport } from "@/db/queries/public";
-import { trialCodeSchema, versionParamSchema } from "@/lib/validation/publish";
+import { getPublicReportAt } from "@/server/publish/public-snapshots";
 import { PublicTraitResults } from "@/components/public/trait-results";
 import { toPublicTraitView } from "@/lib/domain/publish/public-view";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
@@ -14,11 +13,7 @@ type Search = Promise<Record<string, string | string[] | undefined>>;
 async function load(params: Params, searchParams: Search) {
   const { code } = await params;
   const search = await searchParams;
-  if (!trialCodeSchema.safeParse(code).success) return null;
-  const raw = Array.isArray(search.version) ? search.version[0] : search.version;
-  const version = raw === undefined ? undefined : versionParamSchema.safeParse(raw);
-  if (version && !version.success) return null;
-  return getPublicReport(code, version?.data);
+  return getPublicReportAt(code, Array.isArray(search.version) ? search.version[0] : search.version);
 }
 
 export async function generateMetadata({ params, searchParams }: { params: Params; searchParams: Search }): Promise<Metadata> {

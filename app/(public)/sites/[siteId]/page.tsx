@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
-import { getPublicSite } from "@/db/queries/public";
+import { getPublicSite } from "@/server/publish/public-snapshots";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
-import { getPublicVariety } from "@/db/queries/public";
+import { getPublicVariety } from "@/server/publish/public-snapshots";
 import { VarietyTraitTable } from "@/components/public/variety-trait-table";
 
 type Params = Promise<{ varietyId: string }>;

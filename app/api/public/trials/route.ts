@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { listPublicTrials } from "@/db/queries/public";
+import { listPublicTrials } from "@/server/publish/public-snapshots";
 import { defineRoute } from "@/server/http/define-route";
 
 const filtersSchema = z.object({

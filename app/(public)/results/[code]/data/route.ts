@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { requirePublishedSnapshot, downloadName } from "@/server/publish/public-routes";
+import { requirePublishedSnapshot, downloadName } from "@/server/publish/public-snapshots";
 import { publishedCsv, publishedXlsx } from "@/lib/domain/publish/downloads";
 import { AppError, toResponse } from "@/lib/errors";
 

@@ -1,4 +1,4 @@
-import { requirePublishedSnapshot, downloadName } from "@/server/publish/public-routes";
+import { requirePublishedSnapshot, downloadName } from "@/server/publish/public-snapshots";
 import { renderTrialReport } from "@/reports/trial-report/render";
 import { toResponse } from "@/lib/errors";
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { requirePublishedSnapshot } from "@/server/publish/public-routes";
+import { requirePublishedSnapshot } from "@/server/publish/public-snapshots";
 import { defineRoute } from "@/server/http/define-route";
 
 /** One published version as JSON: summary, entries, sites' public descriptions, results and data. */

@@ -5,8 +5,7 @@ import { z } from "zod";
 import { requireRole } from "@/server/auth/guards";
 import { getPublishContext, listReportVersions } from "@/db/queries/publish";
 import { listAnalysisTraits } from "@/db/queries/analysis";
-import { isAnalysable } from "@/lib/domain/analysis/values";
-import { SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
+import { isPublishableTrait } from "@/lib/domain/vocabulary/traits";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { PublishForm, UnpublishForm } from "@/components/publish/publish-forms";
@@ -31,7 +30,7 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
           {trial.status === "draft" || trial.status === "archived" ? (
             <p>A {trial.status} trial cannot be published.</p>
           ) : (
-            <PublishForm trialId={trial.id} traits={traits.filter((t) => isAnalysable(t) && t.recorded > 0 && t.code !== SEEDS_SOWN_CODE).map((t) => ({ id: t.id, name: t.name }))} nextVersion={nextVersion} />
+            <PublishForm trialId={trial.id} traits={traits.filter((t) => isPublishableTrait(t) && t.recorded > 0).map((t) => ({ id: t.id, name: t.name }))} nextVersion={nextVersion} />
           )}
         </Card>
         <div className="space-y-6">

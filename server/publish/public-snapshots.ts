@@ -1,0 +1,152 @@
+import "server-only";
+import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type PublicVersion } from "@/db/queries/public";
+import { parsePublishedAddress } from "@/lib/domain/publish/address";
+import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
+import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import { AppError } from "@/lib/errors";
+
+// Everything public (pages, /api/public/trials/..., the downloads and the PDF) reads published versions
+// through here. Each stored snapshot is turned into its public shape (lib/domain/publish/public-shape) as
+// it is read, so what leaves the server carries no internal state, whatever version of the format stored it.
+
+// A published version never changes, so its public shape can be kept for the life of the process.
+const publicShapes = new Map<number, PublicSnapshot>();
+
+async function publicSnapshotsById(reportIds: number[]): Promise<Map<number, PublicSnapshot>> {
+  const missing = reportIds.filter((id) => !publicShapes.has(id));
+  for (const row of await listStoredSnapshots(missing)) publicShapes.set(row.id, toPublicSnapshot(JSON.parse(row.snapshot) as PublishedSnapshot));
+  return new Map(reportIds.filter((id) => publicShapes.has(id)).map((id) => [id, publicShapes.get(id)!]));
+}
+
+export type { PublicVersion };
+
+export type PublicReport =
+  | { kind: "published"; snapshot: PublicSnapshot; versions: PublicVersion[]; latestVersion: number }
+  | { kind: "withdrawn"; title: string; code: string; reason: string; withdrawnAt: Date };
+
+/**
+ * The latest live version of a trial's results by trial code (or a given live version). A trial
+ * whose results were all withdrawn gives the withdrawal notice; one never published gives null.
+ */
+export async function getPublicReport(code: string, version?: number): Promise<PublicReport | null> {
+  const row = await getPublicReportRow({ code, version });
+  if (!row || row.kind === "withdrawn") return row;
+  const snapshot = (await publicSnapshotsById([row.reportId])).get(row.reportId);
+  if (!snapshot) return null;
+  return { kind: "published", snapshot, versions: row.versions, latestVersion: row.latestVersion };
+}
+
+/** The report a public address asks for, from the raw ?version= value; null when the address is malformed. */
+export async function getPublicReportAt(code: string, version: string | null | undefined): Promise<PublicReport | null> {
+  const address = parsePublishedAddress(code, version);
+  return address && getPublicReport(address.code, address.version);
+}
+
+/**
+ * Resolves the snapshot a public download asks for (latest live version, or ?version=N). Anything
+ * not published, withdrawn or malformed is a plain 404, so guessed codes reveal nothing.
+ */
+export async function requirePublishedSnapshot(code: string, request: Request): Promise<PublicSnapshot> {
+  const report = await getPublicReportAt(code, new URL(request.url).searchParams.get("version"));
+  if (!report || report.kind !== "published") throw new AppError("not_found", "There are no published results at this address.");
+  return report.snapshot;
+}
+
+/** A download name such as "TV26-LET-results-v2.pdf". */
+export const downloadName = (s: PublicSnapshot, suffix: string) => `${s.trial.code}-results-v${s.version}.${suffix}`;
+
+/** The latest live snapshot of every published trial. */
+async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
+  const ids = await listLatestLiveReportIds();
+  const snapshots = await publicSnapshotsById(ids);
+  return ids.map((id) => snapshots.get(id)).filter((x): x is PublicSnapshot => x !== undefined);
+}
+
+export interface PublicTrialCard {
+  code: string;
+  title: string;
+  crop: string;
+  cropGroup: string;
+  season: string;
+  year: number;
+  sites: number;
+  entries: string[];
+  publishedAt: string;
+  version: number;
+  summary: string;
+}
+
+/** Published trials for the public index, filtered by free text, crop and season. */
+export async function listPublicTrials(filters: { q?: string; crop?: string; season?: string }) {
+  const snapshots = await listLatestSnapshots();
+  const cards: PublicTrialCard[] = snapshots.map((s) => ({
+    code: s.trial.code,
+    title: s.trial.title,
+    crop: s.trial.crop,
+    cropGroup: s.trial.cropGroup,
+    season: s.trial.season,
+    year: s.trial.year,
+    sites: s.sites.length,
+    entries: s.entries.map((e) => e.variety),
+    publishedAt: s.publishedAt,
+    version: s.version,
+    summary: s.summary[0] ?? "",
+  }));
+  const q = filters.q?.trim().toLowerCase();
+  const filtered = cards.filter(
+    (c) =>
+      (!filters.crop || c.crop === filters.crop) &&
+      (!filters.season || c.season === filters.season) &&
+      (!q || [c.title, c.crop, c.season, c.code, ...c.entries].some((x) => x.toLowerCase().includes(q))),
+  );
+  filtered.sort((a, b) => b.year - a.year || a.title.localeCompare(b.title));
+  return {
+    trials: filtered,
+    crops: [...new Set(cards.map((c) => c.crop))].sort(),
+    seasons: [...new Set(cards.map((c) => c.season))].sort(),
+  };
+}
+
+/** A variety's results across published trials (only what those snapshots show). */
+export async function getPublicVariety(varietyId: number) {
+  const snapshots = await listLatestSnapshots();
+  const appearances = snapshots
+    .map((s) => ({ s, entry: s.entries.find((e) => e.varietyId === varietyId) }))
+    .filter((x): x is { s: PublicSnapshot; entry: PublicSnapshot["entries"][number] } => x.entry !== undefined);
+  if (appearances.length === 0) return null;
+  return {
+    name: appearances[0]!.entry.variety,
+    crop: appearances[0]!.s.trial.crop,
+    trials: appearances.map(({ s, entry }) => ({
+      code: s.trial.code,
+      title: s.trial.title,
+      season: s.trial.season,
+      sites: s.sites.length,
+      entriesInTrial: s.entries.length,
+      isCheck: entry.isCheck,
+      traits: s.results.map(({ result }) => {
+        const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
+        const mine = block?.means.find((m) => m.blindCode === entry.blindCode) ?? null;
+        return {
+          trait: result.trait.analysedAs,
+          mean: mine ? (mine.lsMean ?? mine.mean) : null,
+          rank: mine?.rank ?? null,
+          of: block?.means.length ?? 0,
+          letter: mine?.letter ?? null,
+        };
+      }),
+    })),
+  };
+}
+
+/** A site's public description, only when it took part in a published trial. */
+export async function getPublicSite(siteId: number) {
+  const snapshots = await listLatestSnapshots();
+  const appearances = snapshots.filter((s) => s.sites.some((x) => x.id === siteId));
+  if (appearances.length === 0) return null;
+  const site = appearances[0]!.sites.find((x) => x.id === siteId)!;
+  return {
+    site: { name: site.name, kind: site.kind, region: site.region, growingSetup: site.growingSetup, soil: site.soil, irrigation: site.irrigation, publicDescription: site.publicDescription },
+    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season })),
+  };
+}
