@@ -2,7 +2,7 @@ import { Badge } from "@/components/ui/badge";
 import { Card } from "@/components/ui/card";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
-import type { RecordingSheet } from "@/db/queries/observations";
+import type { RecordingSheet } from "@/server/observations/sheet";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 
 export function SiteHeader({ sheet }: { sheet: RecordingSheet }) {

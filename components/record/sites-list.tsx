@@ -2,7 +2,7 @@ import Link from "next/link";
 import { Badge } from "@/components/ui/badge";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SUBMISSION_LABELS, SUBMISSION_TONES } from "@/components/record/labels";
-import type { listRecordableSites } from "@/db/queries/observations";
+import type { listRecordableSites } from "@/server/observations/sheet";
 
 type Sites = Awaited<ReturnType<typeof listRecordableSites>>;
 

@@ -6,6 +6,7 @@ import { photoFieldsSchema } from "@/lib/validation/observations";
 import { assertPhotoTarget, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
+import { db } from "@/db/index";
 import { PhotoRefused, preparePhoto } from "./images";
 
 const EXT = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" } as const;
@@ -31,7 +32,7 @@ export async function uploadPhotoForViewer(viewer: Viewer, fields: Record<string
   const storage = getStorage();
   await storage.put(storageKey, prepared.bytes);
   try {
-    const id = await insertPhoto(viewer, { ...input, storageKey, contentType: prepared.contentType, bytes: prepared.bytes.length });
+    const id = await db.transaction((tx) => insertPhoto(tx, viewer, { ...input, storageKey, contentType: prepared.contentType, bytes: prepared.bytes.length }));
     return { id, contentType: prepared.contentType, bytes: prepared.bytes.length };
   } catch (e) {
     // No row, no file: a failed insert must not leave an orphan on disk.
