@@ -13,8 +13,8 @@ const rows = Number(process.argv[2] ?? 10_000);
 const { db, pool } = createDatabase(url, 4);
 const { inspectUpload } = await import("../lib/domain/spreadsheets/safety");
 const { readUpload } = await import("../lib/domain/spreadsheets/read");
-const { listTrialColumns } = await import("../db/queries/observations");
-const { planSiteObservations, saveSiteObservations } = await import("../db/mutations/observations");
+const { listTrialColumns } = await import("../server/observations/sheet");
+const { planSiteObservations, saveSiteObservations } = await import("../server/observations/save");
 const { db: appDb, pool: appPool } = await import("../db/index");
 
 const site = await insertBigSite(db, { plots: rows, tag: `bench${Date.now().toString(36)}`, sownOn: addDays(todayIso(), -30) });

@@ -3,7 +3,8 @@ import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
 import { formatDate, ROLE_LABELS, SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
-import type { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import type { listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import type { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import type { listUsersForAdmin } from "@/db/queries/users";
 import type { listMyLayouts } from "@/db/queries/trials";
 

@@ -1,10 +1,12 @@
 "use client";
 
-import { useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { useCallback, useMemo, useState } from "react";
 import { cn } from "@/components/ui/cn";
 import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
 import { parseCell } from "@/lib/domain/observations/values";
 import { Button } from "@/components/ui/button";
+import { restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./save-queue";
+import { useSaveQueue } from "./use-save-queue";
 import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 
 export interface EntryPlot {
@@ -16,19 +18,6 @@ export interface EntryPlot {
   traySlot: number | null;
 }
 
-type SlotStatus = "saving" | "saved" | "queued" | "error";
-interface Pending {
-  plotId: number;
-  key: string;
-  value: string;
-  /** Why there is no value; absent in items queued before reasons existed. */
-  reason?: MissingReason | null;
-}
-
-const RETRY_MS = 20_000;
-const slotOf = (plotId: number, key: string) => `${plotId}:${key}`;
-// What a slot holds, value or reason, as one comparable string (a value can never start with a NUL).
-const tokenOf = (value: string, reason: MissingReason | null | undefined) => (reason ? `\u0000${reason}` : value);
 const REASON_OPTIONS = Object.entries(MISSING_REASON_LABELS) as [MissingReason, string][];
 
 /**
@@ -51,156 +40,29 @@ export function EntryForm(props: {
   comments: Record<number, string[]>;
 }) {
   const { trialId, siteId, columns, plots } = props;
-  const storageKey = `seedplot:unsaved:${trialId}:${siteId}`;
   const [choice, setChoice] = useState(props.defaultColumn);
   const [inputs, setInputs] = useState<Record<string, string>>(props.initial);
-  const [status, setStatus] = useState<Record<string, SlotStatus>>({});
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [queue, setQueue] = useState<Record<string, Pending>>({});
-  const [notice, setNotice] = useState<string | null>(null);
   const [reasons, setReasons] = useState<Record<string, MissingReason>>(props.initialReasons);
   const [askWhy, setAskWhy] = useState<Record<string, boolean>>({});
-  const saved = useRef<Record<string, string>>({
-    ...props.initial,
-    ...Object.fromEntries(Object.entries(props.initialReasons).map(([slot, r]) => [slot, tokenOf("", r)])),
-  });
-  const inFlight = useRef(new Set<string>());
+  const onRestore = useCallback((stored: Queue) => {
+    setInputs((i) => restoredInputs(i, stored));
+    setReasons((r) => restoredReasons(r, stored));
+  }, []);
+  const { queuedCount: queued, status, errors, notice, enqueue, retryAll, differs, setSlotError } = useSaveQueue({ trialId, siteId, initial: props.initial, initialReasons: props.initialReasons, onRestore });
 
   const shown = useMemo(() => (choice === "all" ? columns : columns.filter((c) => c.key === choice)), [choice, columns]);
-
-  const persist = useCallback(
-    (next: Record<string, Pending>) => {
-      try {
-        if (Object.keys(next).length === 0) localStorage.removeItem(storageKey);
-        else localStorage.setItem(storageKey, JSON.stringify(next));
-      } catch {
-        // Private browsing can refuse storage; the on-screen queue still retries while the page is open.
-      }
-    },
-    [storageKey],
-  );
-
-  const updateQueue = useCallback(
-    (fn: (q: Record<string, Pending>) => Record<string, Pending>) => {
-      setQueue((q) => {
-        const next = fn(q);
-        persist(next);
-        return next;
-      });
-    },
-    [persist],
-  );
-
-  const send = useCallback(
-    async (item: Pending) => {
-      const slot = slotOf(item.plotId, item.key);
-      if (inFlight.current.has(slot)) return;
-      inFlight.current.add(slot);
-      setStatus((s) => ({ ...s, [slot]: "saving" }));
-      try {
-        const res = await fetch("/api/observations", {
-          method: "POST",
-          headers: { "Content-Type": "application/json" },
-          body: JSON.stringify({ trialId, siteId, values: [{ plotId: item.plotId, key: item.key, value: item.value === "" ? null : item.value, missingReason: item.reason ?? null }] }),
-        });
-        if (res.ok) {
-          saved.current[slot] = tokenOf(item.value, item.reason);
-          setStatus((s) => ({ ...s, [slot]: "saved" }));
-          setErrors((e) => {
-            const { [slot]: _gone, ...rest } = e;
-            return rest;
-          });
-          updateQueue((q) => {
-            // A newer value typed while this one was in flight stays queued.
-            if (!q[slot] || tokenOf(q[slot].value, q[slot].reason) !== tokenOf(item.value, item.reason)) return q;
-            const { [slot]: _done, ...rest } = q;
-            return rest;
-          });
-          return;
-        }
-        const body = (await res.json().catch(() => ({}))) as { error?: string; fieldErrors?: Record<string, string[]> };
-        if ([400, 403, 404, 409, 413, 415].includes(res.status)) {
-          // The server refused the value itself: retrying would not help, the grower needs to fix it.
-          const message = body.fieldErrors?.[slot]?.join(" ") ?? body.error ?? "This value was not accepted.";
-          setErrors((e) => ({ ...e, [slot]: message }));
-          setStatus((s) => ({ ...s, [slot]: "error" }));
-          updateQueue((q) => {
-            const { [slot]: _drop, ...rest } = q;
-            return rest;
-          });
-          return;
-        }
-        if (res.status === 401) setNotice("You have been signed out. Your unsaved values are kept on this device; sign in again in another tab and press Retry.");
-        setStatus((s) => ({ ...s, [slot]: "queued" }));
-      } catch {
-        setStatus((s) => ({ ...s, [slot]: "queued" }));
-      } finally {
-        inFlight.current.delete(slot);
-      }
-    },
-    [trialId, siteId, updateQueue],
-  );
-
-  const retryAll = useCallback(() => {
-    setQueue((q) => {
-      for (const item of Object.values(q)) void send(item);
-      return q;
-    });
-  }, [send]);
-
-  // Values left unsaved on this device (page closed while offline) come back and are sent again.
-  useEffect(() => {
-    let stored: Record<string, Pending> = {};
-    try {
-      stored = JSON.parse(localStorage.getItem(storageKey) ?? "{}") as Record<string, Pending>;
-    } catch {
-      stored = {};
-    }
-    if (Object.keys(stored).length > 0) {
-      setQueue(stored);
-      setInputs((i) => ({ ...i, ...Object.fromEntries(Object.entries(stored).map(([k, v]) => [k, v.value])) }));
-      setReasons((r) => {
-        const next = { ...r };
-        for (const [k, v] of Object.entries(stored)) {
-          if (isMissingReason(v.reason)) next[k] = v.reason;
-          else delete next[k];
-        }
-        return next;
-      });
-      setStatus((s) => ({ ...s, ...Object.fromEntries(Object.keys(stored).map((k) => [k, "queued" as const])) }));
-      for (const item of Object.values(stored)) void send(item);
-    }
-    const onOnline = () => retryAll();
-    window.addEventListener("online", onOnline);
-    const timer = setInterval(retryAll, RETRY_MS);
-    return () => {
-      window.removeEventListener("online", onOnline);
-      clearInterval(timer);
-    };
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, []);
-
-  function enqueue(item: Pending) {
-    const slot = slotOf(item.plotId, item.key);
-    updateQueue((q) => ({ ...q, [slot]: item }));
-    void send(item);
-  }
 
   function commit(plotId: number, column: EntryColumn, value: string) {
     const slot = slotOf(plotId, column.key);
     // Leaving an empty field keeps a reason already chosen; typing a value replaces it.
     if (value === "" && reasons[slot]) return;
-    if ((saved.current[slot] ?? "") === value && !queue[slot]) return;
+    if (!differs(slot, value)) return;
     const parsed = parseCell(column, value, { sownOn: props.sownOn, today: props.today });
     if (!parsed.ok) {
-      setErrors((e) => ({ ...e, [slot]: parsed.message }));
-      setStatus((s) => ({ ...s, [slot]: "error" }));
+      setSlotError(slot, parsed.message);
       return;
     }
-    setErrors((e) => {
-      const { [slot]: _ok, ...rest } = e;
-      return rest;
-    });
+    setSlotError(slot, null);
     setReasons((r) => {
       const { [slot]: _replaced, ...rest } = r;
       return rest;
@@ -217,11 +79,8 @@ export function EntryForm(props: {
     });
     // A reason replaces the value; choosing no reason leaves the field empty for a value.
     setInputs((i) => ({ ...i, [slot]: "" }));
-    setErrors((e) => {
-      const { [slot]: _ok, ...rest } = e;
-      return rest;
-    });
-    if ((saved.current[slot] ?? "") === tokenOf("", reason) && !queue[slot]) return;
+    setSlotError(slot, null);
+    if (!differs(slot, tokenOf("", reason))) return;
     enqueue({ plotId, key: column.key, value: "", reason });
   }
 
@@ -231,7 +90,6 @@ export function EntryForm(props: {
     all[i + 1]?.focus();
   }
 
-  const queued = Object.keys(queue).length;
   const visiblePlots = plots;
 
   return (

@@ -1,7 +1,7 @@
 import { Card } from "@/components/ui/card";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
-import type { RecordingSheet } from "@/db/queries/observations";
+import type { RecordingSheet } from "@/server/observations/sheet";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 
 export function SiteHeader({ sheet }: { sheet: RecordingSheet }) {

@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
-import type { listRecordableSites } from "@/db/queries/observations";
+import type { listRecordableSites } from "@/server/observations/sheet";
 
 type Sites = Awaited<ReturnType<typeof listRecordableSites>>;
 

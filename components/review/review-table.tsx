@@ -4,9 +4,9 @@ import { displayValue } from "@/lib/domain/observations/values";
 import { MISSING_REASON_LABELS, MISSING_REASON_WORDS } from "@/lib/domain/observations/missing";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
-import type { ReviewSheet, listReviewQueue } from "@/db/queries/review";
+import type { ReviewQueue, ReviewSheet } from "@/server/review/sheets";
 
-type Queue = Awaited<ReturnType<typeof listReviewQueue>>;
+type Queue = ReviewQueue;
 
 export function ReviewQueue({ rows }: { rows: Queue }) {
   if (rows.length === 0) return <p className="text-loam-700">No sites are taking data in your trials.</p>;

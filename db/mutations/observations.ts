@@ -1,205 +1,55 @@
 import "server-only";
 import { eq } from "drizzle-orm";
-import { db, type Tx } from "../index";
+import type { Tx } from "../index";
 import { auditLog, observationHistory, observations, submissions } from "../schema";
-import { getRecordableEnrolment, listEnrolmentObservations, listEnrolmentPlots, listTrialColumns, type RecordableEnrolment } from "../queries/observations";
-import { AppError } from "@/lib/errors";
-import type { Viewer } from "@/lib/domain/viewer";
-import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
+import type { CellValue } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
-import type { EntryColumn } from "@/lib/domain/observations/columns";
-import { todayIso } from "@/lib/domain/schedule";
 
-/**
- * One value to record: the plot by id (forms) or by its label code (spreadsheets). `row` names a spreadsheet
- * row. `missing` says why there is no value (forms); a spreadsheet cell says it in `raw` ("missing: died").
- */
-export interface CellInput {
-  plotId?: number;
-  plotCode?: string;
-  key: string;
-  raw: unknown;
-  missing?: MissingReason | null;
-  row?: number;
-}
-
-export interface Problem {
-  row?: number;
-  column?: string;
-  plotId?: number;
-  plotCode?: string;
-  key?: string;
-  message: string;
-}
-
-export type ChangeKind = "new" | "changed" | "unchanged";
-
-export interface PlannedChange {
-  plotId: number;
-  plotCode: string;
-  column: EntryColumn;
-  kind: ChangeKind;
-  oldValue: CellValue | null;
-  newValue: CellValue | null;
-  oldReason: MissingReason | null;
-  newReason: MissingReason | null;
-  observationId: number | null;
-  row?: number;
-}
-
-export interface ObservationPlan {
-  enrolment: RecordableEnrolment;
-  problems: Problem[];
-  changes: PlannedChange[];
-  counts: Record<ChangeKind, number>;
-}
+// Prepared rows only: server/observations decides what is new, changed or refused, inside its transaction.
 
 const BATCH = 500;
-const NO_VALUE: CellValue = { valueNumber: null, valueDate: null, valueText: null };
 
-/** Whether the viewer may still change this site's values (sent or accepted data is locked for growers). */
-function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: string | null) {
-  if (enrolment.trialStatus === "published" || enrolment.trialStatus === "archived") {
-    throw new AppError("conflict", "This trial's results are published, so its values can no longer change.");
-  }
-  if (viewer.role !== "cooperator") return;
-  if (enrolment.trialStatus === "draft") throw new AppError("conflict", "This trial is not taking data yet.");
-  if (status === "submitted") throw new AppError("conflict", "You have sent this site's data for review, so it is locked until your coordinator accepts or returns it.");
-  if (status === "accepted") throw new AppError("conflict", "Your coordinator has accepted this site's data, so it is locked. Ask them if something needs correcting.");
+export interface NewObservation extends CellValue {
+  plotId: number;
+  traitId: number;
+  occasion: number;
+  observedOn: string;
+  missingReason: MissingReason | null;
+  recordedById: number;
 }
 
-/**
- * Checks every value against its trait, the plot layout and the other values of the same plot, and works
- * out what would be new, changed or unchanged. Writes nothing; used for previews and inside the commit.
- */
-export async function planSiteObservations(
-  ex: Tx | typeof db,
-  viewer: Viewer,
-  input: { trialId: number; siteId: number; cells: CellInput[]; textNumberCommas?: TextNumberCommas },
-  opts: { lock?: boolean; today?: string } = {},
-): Promise<ObservationPlan> {
-  const enrolment = await getRecordableEnrolment(ex, viewer, input, opts.lock);
-  // Unknown and foreign sites look the same, so ids cannot be probed.
-  if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
-  const [sub] = await ex.select({ status: submissions.status }).from(submissions).where(eq(submissions.enrolmentId, enrolment.enrolmentId));
-  assertEditable(viewer, enrolment, sub?.status ?? null);
+export type AuditEntry = typeof auditLog.$inferInsert;
 
-  const [columns, plotRows] = await Promise.all([listTrialColumns(ex, enrolment.trialId), listEnrolmentPlots(ex, enrolment.enrolmentId)]);
-  const stored = await listEnrolmentObservations(ex, enrolment.enrolmentId, columns);
-  const byId = new Map(plotRows.map((p) => [p.id, p]));
-  const byCode = new Map(plotRows.map((p) => [p.plotCode.toUpperCase(), p]));
-  const colByKey = new Map(columns.map((c) => [c.key, c]));
-  const existing = new Map(stored.map((o) => [`${o.plotId}:${o.key}`, o]));
-  const ctx = { sownOn: enrolment.sownOn, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
-
-  const problems: Problem[] = [];
-  const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number }[] = [];
-  const seen = new Map<string, number | undefined>();
-  for (const cell of input.cells) {
-    const plot = cell.plotId !== undefined ? byId.get(cell.plotId) : cell.plotCode !== undefined ? byCode.get(cell.plotCode.trim().toUpperCase()) : undefined;
-    const column = colByKey.get(cell.key);
-    const where = { row: cell.row, plotId: cell.plotId, plotCode: cell.plotCode, key: cell.key, column: column?.heading };
-    if (!plot) {
-      problems.push({ ...where, message: cell.plotCode !== undefined ? `Plot "${cell.plotCode}" is not one of this site's plots in this trial. Check the plot id on the label.` : "That plot is not one of this site's plots." });
-      continue;
-    }
-    if (!column) {
-      problems.push({ ...where, message: "This trial does not record that value." });
-      continue;
-    }
-    const slot = `${plot.id}:${column.key}`;
-    if (seen.has(slot)) {
-      problems.push({ ...where, message: `Plot ${plot.plotCode} appears more than once${seen.get(slot) ? ` (also row ${seen.get(slot)})` : ""}. Keep one row per plot.` });
-      continue;
-    }
-    seen.set(slot, cell.row);
-    const parsed = parseEntry(column, cell.raw, cell.missing, ctx);
-    if (!parsed.ok) problems.push({ ...where, plotId: plot.id, plotCode: plot.plotCode, message: parsed.message });
-    else accepted.push({ plot, column, value: parsed.value, reason: parsed.reason, row: cell.row });
+/** Inserts new values in batches and returns their ids in the same order. */
+export async function insertObservations(tx: Tx, rows: NewObservation[]): Promise<number[]> {
+  const ids: number[] = [];
+  for (let i = 0; i < rows.length; i += BATCH) {
+    const inserted = await tx.insert(observations).values(rows.slice(i, i + BATCH)).$returningId();
+    ids.push(...inserted.map((r) => r.id));
   }
-
-  // Cross-checks see the plot as it would be after the save: stored values overlaid with the new ones.
-  const byPlot = new Map<number, typeof accepted>();
-  for (const a of accepted) byPlot.set(a.plot.id, [...(byPlot.get(a.plot.id) ?? []), a]);
-  for (const [plotId, items] of byPlot) {
-    const merged = new Map<string, CellValue | null>();
-    for (const o of stored) if (o.plotId === plotId) merged.set(o.key, o);
-    for (const a of items) merged.set(a.column.key, a.value);
-    for (const issue of crossCheckPlot(columns, merged, new Set(items.map((a) => a.column.key)))) {
-      const a = items.find((x) => x.column.key === issue.key)!;
-      problems.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: issue.key, column: a.column.heading, message: issue.message });
-    }
-  }
-
-  const changes: PlannedChange[] = [];
-  const counts: Record<ChangeKind, number> = { new: 0, changed: 0, unchanged: 0 };
-  for (const a of accepted) {
-    const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
-    const oldValue = old && !isBlank(old) ? { valueNumber: old.valueNumber, valueDate: old.valueDate, valueText: old.valueText } : null;
-    const newValue = a.value && !isBlank(a.value) ? a.value : null;
-    const oldReason = old?.missingReason ?? null;
-    const kind: ChangeKind = sameValue(oldValue, newValue) && oldReason === a.reason ? "unchanged" : oldValue === null && oldReason === null ? "new" : "changed";
-    counts[kind] += 1;
-    changes.push({ plotId: a.plot.id, plotCode: a.plot.plotCode, column: a.column, kind, oldValue, newValue, oldReason, newReason: a.reason, observationId: old?.id ?? null, row: a.row });
-  }
-  problems.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
-  return { enrolment, problems, changes, counts };
+  return ids;
 }
 
-/**
- * Records values for one site in one transaction: any problem means nothing is written. Earlier values go
- * to observation_history and every new or changed value gets an audit entry with old and new value.
- */
-export async function saveSiteObservations(
-  viewer: Viewer,
-  input: { trialId: number; siteId: number; cells: CellInput[]; source: "form" | "upload"; textNumberCommas?: TextNumberCommas },
-  opts: { today?: string } = {},
-) {
-  return db.transaction(async (tx) => {
-    // The enrolment row lock serialises saves for one site, so two phones never insert the same value twice.
-    const plan = await planSiteObservations(tx, viewer, input, { lock: true, today: opts.today });
-    if (plan.problems.length > 0) {
-      const fieldErrors: Record<string, string[]> = {};
-      for (const p of plan.problems) (fieldErrors[`${p.plotId ?? p.plotCode ?? "row" + p.row}:${p.key ?? ""}`] ??= []).push(p.message);
-      throw new AppError("bad_request", plan.problems.length === 1 ? plan.problems[0]!.message : `${plan.problems.length} values need fixing. Nothing was saved.`, fieldErrors);
-    }
-    const { enrolment } = plan;
-    const todo = plan.changes.filter((c) => c.kind !== "unchanged");
-    const audits: (typeof auditLog.$inferInsert)[] = [];
-    const auditRow = (c: PlannedChange, observationId: number) => ({
-      actorId: viewer.id,
-      action: c.kind === "new" ? "observation.record" : "observation.change",
-      entity: "observation",
-      entityId: String(observationId),
-      trialId: enrolment.trialId,
-      oldValue: c.oldValue || c.oldReason ? { plot: c.plotCode, column: c.column.key, value: displayEntry(c.column, c.oldValue, c.oldReason) } : null,
-      newValue: { plot: c.plotCode, column: c.column.key, value: displayEntry(c.column, c.newValue, c.newReason), source: input.source },
-    });
+/** Keeps the earlier values of observations about to change. */
+export async function insertObservationHistory(tx: Tx, rows: (typeof observationHistory.$inferInsert)[]) {
+  for (let i = 0; i < rows.length; i += BATCH) await tx.insert(observationHistory).values(rows.slice(i, i + BATCH));
+}
 
-    const fresh = todo.filter((c) => c.observationId === null);
-    for (let i = 0; i < fresh.length; i += BATCH) {
-      const slice = fresh.slice(i, i + BATCH);
-      const ids = await tx
-        .insert(observations)
-        .values(slice.map((c) => ({ plotId: c.plotId, traitId: c.column.traitId, occasion: c.column.occasion, observedOn: opts.today ?? todayIso(), ...(c.newValue ?? NO_VALUE), missingReason: c.newReason, recordedById: viewer.id })))
-        .$returningId();
-      slice.forEach((c, j) => audits.push(auditRow(c, ids[j]!.id)));
-    }
-    const updates = todo.filter((c) => c.observationId !== null);
-    const history = updates.map((c) => ({ observationId: c.observationId!, valueNumber: c.oldValue?.valueNumber ?? null, valueDate: c.oldValue?.valueDate ?? null, valueText: c.oldValue?.valueText ?? null, changedById: viewer.id }));
-    for (let i = 0; i < history.length; i += BATCH) await tx.insert(observationHistory).values(history.slice(i, i + BATCH));
-    for (const c of updates) {
-      // A value clears the reason and a reason clears the value; the earlier reason stays in the audit entry.
-      await tx.update(observations).set({ ...(c.newValue ?? NO_VALUE), missingReason: c.newReason, recordedById: viewer.id, observedOn: opts.today ?? todayIso() }).where(eq(observations.id, c.observationId!));
-      audits.push(auditRow(c, c.observationId!));
-    }
-    for (let i = 0; i < audits.length; i += BATCH) await tx.insert(auditLog).values(audits.slice(i, i + BATCH));
+/** Replaces one stored value (a value clears the reason and a reason clears the value). */
+export async function updateObservation(tx: Tx, p: { id: number; value: CellValue; missingReason: MissingReason | null; recordedById: number; observedOn: string }) {
+  await tx
+    .update(observations)
+    .set({ valueNumber: p.value.valueNumber, valueDate: p.value.valueDate, valueText: p.value.valueText, missingReason: p.missingReason, recordedById: p.recordedById, observedOn: p.observedOn })
+    .where(eq(observations.id, p.id));
+}
 
-    // The first value recorded opens the site's data set as a draft for review.
-    if (todo.length > 0) {
-      const [sub] = await tx.select({ id: submissions.id }).from(submissions).where(eq(submissions.enrolmentId, enrolment.enrolmentId));
-      if (!sub) await tx.insert(submissions).values({ enrolmentId: enrolment.enrolmentId, status: "draft" });
-    }
-    return { counts: plan.counts, saved: todo.length };
-  });
+/** Audit entries for a batch of recorded values, in batches. */
+export async function insertObservationAudits(tx: Tx, rows: AuditEntry[]) {
+  for (let i = 0; i < rows.length; i += BATCH) await tx.insert(auditLog).values(rows.slice(i, i + BATCH));
+}
+
+/** Opens the site's data set as a draft for review, unless it already has one. */
+export async function insertDraftSubmission(tx: Tx, enrolmentId: number) {
+  const [sub] = await tx.select({ id: submissions.id }).from(submissions).where(eq(submissions.enrolmentId, enrolmentId));
+  if (!sub) await tx.insert(submissions).values({ enrolmentId, status: "draft" });
 }

@@ -1,6 +1,6 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
-import { db } from "../index";
+import { db, type Tx } from "../index";
 import { photos, plots } from "../schema";
 import { getRecordableEnrolment } from "../queries/observations";
 import { insertAudit } from "../audit";
@@ -24,20 +24,18 @@ export async function assertPhotoTarget(viewer: Viewer, t: PhotoTarget) {
   return enrolment;
 }
 
-/** Records a stored photo with an audit entry; ownership is checked again inside the transaction. */
-export async function insertPhoto(viewer: Viewer, t: PhotoTarget & { storageKey: string; contentType: string; bytes: number; caption?: string; takenOn?: string; keepLocation: boolean }) {
-  return db.transaction(async (tx) => {
-    const enrolment = await getRecordableEnrolment(tx, viewer, t, true);
-    if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
-    if (t.plotId !== undefined) {
-      const [plot] = await tx.select({ id: plots.id }).from(plots).where(and(eq(plots.id, t.plotId), eq(plots.enrolmentId, enrolment.enrolmentId)));
-      if (!plot) throw new AppError("not_found", "That plot is not one of this site's plots.");
-    }
-    const [row] = await tx
-      .insert(photos)
-      .values({ enrolmentId: enrolment.enrolmentId, plotId: t.plotId ?? null, storageKey: t.storageKey, contentType: t.contentType, bytes: t.bytes, caption: t.caption ?? null, takenOn: t.takenOn ?? null, keptLocation: t.keepLocation, uploadedById: viewer.id })
-      .$returningId();
-    await insertAudit(tx, { actorId: viewer.id, action: "photo.add", entity: "photo", entityId: row!.id, trialId: enrolment.trialId, newValue: { plotId: t.plotId ?? null, bytes: t.bytes, keptLocation: t.keepLocation, caption: t.caption ?? null } });
-    return row!.id;
-  });
+/** Records a stored photo with an audit entry; ownership is checked again inside the caller's transaction. */
+export async function insertPhoto(tx: Tx, viewer: Viewer, t: PhotoTarget & { storageKey: string; contentType: string; bytes: number; caption?: string; takenOn?: string; keepLocation: boolean }) {
+  const enrolment = await getRecordableEnrolment(tx, viewer, t, true);
+  if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  if (t.plotId !== undefined) {
+    const [plot] = await tx.select({ id: plots.id }).from(plots).where(and(eq(plots.id, t.plotId), eq(plots.enrolmentId, enrolment.enrolmentId)));
+    if (!plot) throw new AppError("not_found", "That plot is not one of this site's plots.");
+  }
+  const [row] = await tx
+    .insert(photos)
+    .values({ enrolmentId: enrolment.enrolmentId, plotId: t.plotId ?? null, storageKey: t.storageKey, contentType: t.contentType, bytes: t.bytes, caption: t.caption ?? null, takenOn: t.takenOn ?? null, keptLocation: t.keepLocation, uploadedById: viewer.id })
+    .$returningId();
+  await insertAudit(tx, { actorId: viewer.id, action: "photo.add", entity: "photo", entityId: row!.id, trialId: enrolment.trialId, newValue: { plotId: t.plotId ?? null, bytes: t.bytes, keptLocation: t.keepLocation, caption: t.caption ?? null } });
+  return row!.id;
 }

@@ -17,7 +17,6 @@ import {
 } from "../schema";
 import { cooperatorEnrolmentScope, staffSiteScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
-import { scheduleForSite, todayIso, type DueItem } from "@/lib/domain/schedule";
 
 /** Trials in the coordinator's programs with entry and site counts, newest season first. */
 export async function listTrialsForViewer(viewer: Viewer) {
@@ -47,24 +46,13 @@ export async function listTrialsForViewer(viewer: Viewer) {
   return rows;
 }
 
-export interface SiteSchedule {
-  enrolmentId: number;
-  trialId: number;
-  trialCode: string;
-  trialTitle: string;
-  siteId: number;
-  siteName: string;
-  sownOn: string | null;
-  plotCount: number;
-  items: DueItem[];
-  late: DueItem[];
-  next: DueItem | null;
-}
-
-/** Due and late scheduled counts per enrolment, for the enrolments the viewer may see. */
-async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedule[]> {
+/**
+ * What the due-and-late schedule is built from, for the enrolments of active trials the viewer may see:
+ * the enrolments with plot counts, their trials' scheduled traits, and recorded counts per trait and day.
+ */
+export async function listScheduleRows(viewer: Viewer) {
   const scope = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : staffTrialScope(viewer);
-  const rows = await db
+  const enrolmentRows = await db
     .select({
       enrolmentId: enrolments.id,
       trialId: trials.id,
@@ -82,50 +70,22 @@ async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedul
     .where(and(scope, inArray(trials.status, ["open", "collecting"])))
     .groupBy(enrolments.id, trials.id, sites.id)
     .orderBy(asc(trials.code), asc(sites.name));
-  if (rows.length === 0) return [];
+  if (enrolmentRows.length === 0) return { enrolments: enrolmentRows, traits: [], recordedCounts: [] };
 
-  const trialIds = [...new Set(rows.map((r) => r.trialId))];
+  const trialIds = [...new Set(enrolmentRows.map((r) => r.trialId))];
   const traitRows = await db
     .select({ trialId: trialTraits.trialId, id: traits.id, name: traits.name, dueDaysAfterSowing: traits.dueDaysAfterSowing })
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
     .where(and(inArray(trialTraits.trialId, trialIds), isNotNull(traits.dueDaysAfterSowing)))
     .orderBy(asc(trialTraits.sortOrder));
-  const counts = await db
+  const recordedCounts = await db
     .select({ enrolmentId: plots.enrolmentId, traitId: observations.traitId, occasion: observations.occasion, n: count() })
     .from(observations)
     .innerJoin(plots, eq(plots.id, observations.plotId))
-    .where(and(inArray(plots.enrolmentId, rows.map((r) => r.enrolmentId)), or(isNotNull(observations.valueNumber), isNotNull(observations.valueDate), isNotNull(observations.missingReason))))
+    .where(and(inArray(plots.enrolmentId, enrolmentRows.map((r) => r.enrolmentId)), or(isNotNull(observations.valueNumber), isNotNull(observations.valueDate), isNotNull(observations.missingReason))))
     .groupBy(plots.enrolmentId, observations.traitId, observations.occasion);
-
-  const recordedByEnrolment = new Map<number, Map<string, number>>();
-  for (const c of counts) {
-    const m = recordedByEnrolment.get(c.enrolmentId) ?? new Map<string, number>();
-    m.set(`${c.traitId}:${c.occasion}`, c.n);
-    recordedByEnrolment.set(c.enrolmentId, m);
-  }
-  return rows.map((r) => {
-    const items = scheduleForSite({
-      sownOn: r.sownOn,
-      plotCount: r.plotCount,
-      traits: traitRows.filter((t) => t.trialId === r.trialId),
-      recorded: recordedByEnrolment.get(r.enrolmentId) ?? new Map(),
-      today,
-    });
-    return { ...r, items, late: items.filter((i) => i.status === "late"), next: items.find((i) => i.status !== "done") ?? null };
-  });
-}
-
-/** Sites with overdue counts in the coordinator's active trials. */
-export async function listLateSites(viewer: Viewer, today: string = todayIso()) {
-  if (viewer.role === "cooperator") return [];
-  return (await listSchedules(viewer, today)).filter((s) => s.late.length > 0);
-}
-
-/** The cooperator's own sites with what to record next. */
-export async function listMySchedules(viewer: Viewer, today: string = todayIso()) {
-  if (viewer.role !== "cooperator") return [];
-  return listSchedules(viewer, today);
+  return { enrolments: enrolmentRows, traits: traitRows, recordedCounts };
 }
 
 /** Sites the cooperator is attached to, with their public facts. */

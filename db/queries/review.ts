@@ -5,88 +5,45 @@ import { auditLog, enrolments, observations, plots, reviewComments, sites, submi
 import { staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
-import { flagValues } from "@/lib/domain/observations/flags";
-import { getRecordableEnrolment, getRecordingSheet } from "./observations";
-import { todayIso } from "@/lib/domain/schedule";
+import { getRecordableEnrolment } from "./observations";
 
-/**
- * Sites of the coordinator's trials that take data, with review state, completeness (values recorded of
- * values expected so far), late counts and how many values are flagged. Empty for cooperators.
- */
-export async function listReviewQueue(viewer: Viewer, today: string = todayIso()) {
+/** Sites of the staff member's trials that take data, in trial and site order. Empty for cooperators. */
+export async function listReviewSiteRows(viewer: Viewer) {
   if (!isStaff(viewer)) return [];
-  const rows = await db
+  return db
     .select({ trialId: trials.id, siteId: sites.id })
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
     .where(and(staffTrialScope(viewer), inArray(trials.status, ["open", "collecting", "analysing"]), sql`${enrolments.randomisedAt} IS NOT NULL`))
     .orderBy(asc(trials.code), asc(sites.name));
-  const out = [];
-  for (const r of rows) {
-    const sheet = await getRecordingSheet(viewer, r, today);
-    if (!sheet) continue;
-    const c = completeness(sheet);
-    out.push({
-      trialId: sheet.enrolment.trialId,
-      trialCode: sheet.enrolment.trialCode,
-      trialTitle: sheet.enrolment.trialTitle,
-      siteId: sheet.enrolment.siteId,
-      siteName: sheet.enrolment.siteName,
-      status: sheet.submission?.status ?? "draft",
-      submittedAt: sheet.submission?.submittedAt ?? null,
-      recorded: c.recorded,
-      expected: c.expected,
-      late: sheet.due.filter((d) => d.status === "late").length,
-      flags: flagValues(sheet).length,
-      openComments: sheet.comments.length,
-    });
-  }
-  // Waiting for review first, then by trial.
-  const order = { submitted: 0, returned: 1, draft: 2, accepted: 3 } as const;
-  return out.sort((a, b) => order[a.status] - order[b.status]);
 }
 
-/** Values recorded against values expected: scheduled counts due by today, and every other column once. */
-function completeness(sheet: NonNullable<Awaited<ReturnType<typeof getRecordingSheet>>>) {
-  const dueKeys = new Set(sheet.due.filter((d) => d.dueOn <= sheet.today).map((d) => `${d.traitId}:${d.occasion}`));
-  // Notes are optional, so they never count as missing.
-  const expectedColumns = sheet.columns.filter((c) => c.valueType !== "text" && (c.dueDay === null || dueKeys.has(`${c.traitId}:${c.occasion}`)));
-  let recorded = 0;
-  for (const p of sheet.plots) for (const c of expectedColumns) if (sheet.values[p.id]?.[c.key]) recorded += 1;
-  return { recorded, expected: expectedColumns.length * sheet.plots.length };
+/** Every review comment on an enrolment's data set, answered ones included, newest first. */
+export async function listReviewComments(enrolmentId: number) {
+  return db
+    .select({ id: reviewComments.id, plotId: reviewComments.plotId, observationId: reviewComments.observationId, body: reviewComments.body, author: users.name, createdAt: reviewComments.createdAt, resolvedAt: reviewComments.resolvedAt })
+    .from(reviewComments)
+    .innerJoin(submissions, eq(submissions.id, reviewComments.submissionId))
+    .leftJoin(users, eq(users.id, reviewComments.authorId))
+    .where(eq(submissions.enrolmentId, enrolmentId))
+    .orderBy(desc(reviewComments.id));
 }
 
-/** One site's data for review: values with flags, comments, and recent changes from the audit log. Staff only. */
-export async function getReviewSheet(viewer: Viewer, p: { trialId: number; siteId: number }, today: string = todayIso()) {
-  if (!isStaff(viewer)) return null;
-  const sheet = await getRecordingSheet(viewer, p, today);
-  if (!sheet) return null;
-  const observationIds = Object.values(sheet.observationIds);
-  const [comments, changes] = await Promise.all([
-    db
-      .select({ id: reviewComments.id, plotId: reviewComments.plotId, observationId: reviewComments.observationId, body: reviewComments.body, author: users.name, createdAt: reviewComments.createdAt, resolvedAt: reviewComments.resolvedAt })
-      .from(reviewComments)
-      .innerJoin(submissions, eq(submissions.id, reviewComments.submissionId))
-      .leftJoin(users, eq(users.id, reviewComments.authorId))
-      .where(eq(submissions.enrolmentId, sheet.enrolment.enrolmentId))
-      .orderBy(desc(reviewComments.id)),
-    observationIds.length === 0
-      ? Promise.resolve([])
-      : db
-          .select({ at: auditLog.at, action: auditLog.action, actor: users.name, oldValue: auditLog.oldValue, newValue: auditLog.newValue })
-          .from(auditLog)
-          .leftJoin(users, eq(users.id, auditLog.actorId))
-          .where(and(eq(auditLog.entity, "observation"), inArray(auditLog.entityId, observationIds.map(String)), eq(auditLog.action, "observation.change")))
-          .orderBy(desc(auditLog.at))
-          .limit(30),
-  ]);
-  return { ...sheet, flags: flagValues(sheet), allComments: comments, recentChanges: changes, completeness: completeness(sheet) };
+/** The latest 30 changes to these observations, from the audit log, newest first. */
+export async function listRecentValueChanges(observationIds: number[]) {
+  if (observationIds.length === 0) return [];
+  return db
+    .select({ at: auditLog.at, action: auditLog.action, actor: users.name, oldValue: auditLog.oldValue, newValue: auditLog.newValue })
+    .from(auditLog)
+    .leftJoin(users, eq(users.id, auditLog.actorId))
+    .where(and(eq(auditLog.entity, "observation"), inArray(auditLog.entityId, observationIds.map(String)), eq(auditLog.action, "observation.change")))
+    .orderBy(desc(auditLog.at))
+    .limit(30);
 }
-export type ReviewSheet = NonNullable<Awaited<ReturnType<typeof getReviewSheet>>>;
 
 /** Counts whose due date is tomorrow or past, per cooperator and site, for the reminder job (no viewer: a system job). */
-export async function listReminderTargets(today: string) {
+export async function listReminderTargets() {
   const rows = await db
     .select({ enrolmentId: enrolments.id, trialId: trials.id, siteId: sites.id })
     .from(enrolments)

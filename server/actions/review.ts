@@ -3,7 +3,7 @@ import "server-only";
 import { revalidatePath } from "next/cache";
 import { defineAction } from "./define-action";
 import { returnSubmissionSchema, reviewCommentSchema, siteParamsSchema } from "@/lib/validation/observations";
-import { insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/db/mutations/review";
+import { insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/server/review/submissions";
 import { deliverSoon } from "@/server/mail/outbox";
 import { env } from "@/lib/env";
 

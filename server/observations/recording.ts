@@ -2,8 +2,8 @@ import "server-only";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { saveObservationsSchema, siteParamsSchema } from "@/lib/validation/observations";
-import { saveSiteObservations } from "@/db/mutations/observations";
-import { getRecordingSheet } from "@/db/queries/observations";
+import { saveSiteObservations } from "./save";
+import { getRecordingSheet } from "./sheet";
 
 // The cores of the observation route handlers, taking the viewer so tests can call them without a session.
 

@@ -1,5 +1,5 @@
 import "server-only";
-import { insertDueReminders } from "@/db/mutations/review";
+import { insertDueReminders } from "@/server/review/reminders";
 import { deliverSoon } from "@/server/mail/outbox";
 import { env } from "@/lib/env";
 

@@ -7,6 +7,7 @@ import { fieldErrorsOf } from "@/lib/validation/field-errors";
 import { assertPhotoTarget, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
+import { db } from "@/db/index";
 import { PhotoRefused, preparePhoto } from "./images";
 
 const EXT = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" } as const;
@@ -28,7 +29,7 @@ export async function uploadPhotoForViewer(viewer: Viewer, fields: Record<string
   const storage = getStorage();
   await storage.put(storageKey, prepared.bytes);
   try {
-    const id = await insertPhoto(viewer, { ...input, storageKey, contentType: prepared.contentType, bytes: prepared.bytes.length });
+    const id = await db.transaction((tx) => insertPhoto(tx, viewer, { ...input, storageKey, contentType: prepared.contentType, bytes: prepared.bytes.length }));
     return { id, contentType: prepared.contentType, bytes: prepared.bytes.length };
   } catch (e) {
     // No row, no file: a failed insert must not leave an orphan on disk.

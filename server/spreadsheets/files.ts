@@ -1,7 +1,7 @@
 import "server-only";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import { getRecordingSheet } from "@/db/queries/observations";
+import { getRecordingSheet } from "@/server/observations/sheet";
 import { siteParamsSchema } from "@/lib/validation/observations";
 import { buildCsvExport, buildTemplate, type TemplateInput } from "@/lib/domain/spreadsheets/template";
 

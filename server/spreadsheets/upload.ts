@@ -1,8 +1,8 @@
 import "server-only";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import { getRecordingSheet } from "@/db/queries/observations";
-import { planSiteObservations, saveSiteObservations, type CellInput } from "@/db/mutations/observations";
+import { getRecordingSheet, type RecordingSheet } from "@/server/observations/sheet";
+import { planSiteObservations, saveSiteObservations, type CellInput } from "@/server/observations/save";
 import { db } from "@/db/index";
 import { displayEntry } from "@/lib/domain/observations/values";
 import { addDays, todayIso } from "@/lib/domain/schedule";
@@ -29,8 +29,6 @@ function place(row: number | undefined, letter: string | undefined, heading: str
   if (row === undefined) return null;
   return letter ? `column ${letter}${heading ? ` (${heading})` : ""}` : heading ?? null;
 }
-
-type RecordingSheet = NonNullable<Awaited<ReturnType<typeof getRecordingSheet>>>;
 
 /** A cell's value as text, for telling whether two rows of the same plot agree. */
 function cellText(v: unknown): string {

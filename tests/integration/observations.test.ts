@@ -6,7 +6,8 @@ import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { saveObservationsForViewer } from "@/server/observations/recording";
-import { getPlotRecordTarget, getRecordingSheet, listRecordableSites } from "@/db/queries/observations";
+import { getPlotRecordTarget } from "@/db/queries/observations";
+import { getRecordingSheet, listRecordableSites } from "@/server/observations/sheet";
 import { parseDateText, parseNumberText } from "@/lib/domain/observations/values";
 
 const { db, pool } = testDatabase();

@@ -29,7 +29,8 @@ const { listSitesForStaff } = await import("@/db/queries/sites");
 const { listCooperators } = await import("@/db/queries/users");
 const { listSiteOptions } = await import("@/db/queries/overview");
 const { getTrialFormOptions, listEnrolableSites, listEntryOptions } = await import("@/db/queries/trials");
-const { getRecordableEnrolment, listRecordableSites } = await import("@/db/queries/observations");
+const { getRecordableEnrolment } = await import("@/db/queries/observations");
+const { listRecordableSites } = await import("@/server/observations/sheet");
 const { getVarietyHistory } = await import("@/db/queries/analysis");
 const { pool: appPool } = await import("@/db/index");
 

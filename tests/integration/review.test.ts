@@ -5,8 +5,10 @@ import { demoSite, demoViewer } from "../helpers/demo";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { saveObservationsForViewer } from "@/server/observations/recording";
-import { insertDueReminders, insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/db/mutations/review";
-import { getReviewSheet, getSubmissionState, listReviewQueue } from "@/db/queries/review";
+import { insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/server/review/submissions";
+import { insertDueReminders } from "@/server/review/reminders";
+import { getSubmissionState } from "@/db/queries/review";
+import { getReviewSheet, listReviewQueue } from "@/server/review/sheets";
 import { flagValues } from "@/lib/domain/observations/flags";
 import { entryColumns } from "@/lib/domain/observations/columns";
 

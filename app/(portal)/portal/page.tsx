@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { requireUser } from "@/server/auth/guards";
-import { listLateSites, listMySchedules, listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import { listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import { listUsersForAdmin } from "@/db/queries/users";
 import { listMyLayouts } from "@/db/queries/trials";
 import { Card } from "@/components/ui/card";

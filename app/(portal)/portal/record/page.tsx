@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { requireUser } from "@/server/auth/guards";
-import { listRecordableSites } from "@/db/queries/observations";
+import { listRecordableSites } from "@/server/observations/sheet";
 import { RecordableSitesList } from "@/components/record/sites-list";
 
 export const dynamic = "force-dynamic";

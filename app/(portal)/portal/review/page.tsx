@@ -1,5 +1,5 @@
 import { requireRole } from "@/server/auth/guards";
-import { listReviewQueue } from "@/db/queries/review";
+import { listReviewQueue } from "@/server/review/sheets";
 import { ReviewQueue } from "@/components/review/review-table";
 import { Card } from "@/components/ui/card";
 

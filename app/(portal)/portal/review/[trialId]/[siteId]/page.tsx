@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/server/auth/guards";
-import { getReviewSheet } from "@/db/queries/review";
+import { getReviewSheet } from "@/server/review/sheets";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { DuePanel, SiteHeader } from "@/components/record/site-panels";

@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireUser } from "@/server/auth/guards";
-import { getRecordingSheet } from "@/db/queries/observations";
+import { getRecordingSheet } from "@/server/observations/sheet";
 import { idParam } from "@/lib/validation/common";
 import { UploadForm } from "@/components/record/upload-form";
 import { lockMessage, SiteHeader } from "@/components/record/site-panels";
