@@ -72,28 +72,9 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
     const siteIds: number[] = [];
     const growerIds: number[] = [];
     for (const site of DEMO_SITES) {
-      const [grower] = await tx.insert(s.users).values({ ...site.grower, role: "cooperator", passwordHash: growerHash }).$returningId();
-      const [row] = await tx
-        .insert(s.sites)
-        .values({
-          programId,
-          name: site.name,
-          kind: site.kind,
-          region: site.region,
-          growingSetup: site.growingSetup,
-          soil: site.soil,
-          irrigation: site.irrigation,
-          latitude: site.lat,
-          longitude: site.lon,
-          contactName: site.grower.name,
-          contactEmail: site.grower.email,
-          contactPhone: `555-01${String(siteIds.length + 10)}`,
-          publicDescription: `A ${site.kind === "farm" ? "partner farm" : "partner garden"} in ${site.region}; ${site.soil}, ${site.irrigation}.`,
-        })
-        .$returningId();
-      siteIds.push(row!.id);
-      growerIds.push(grower!.id);
-      await tx.insert(s.siteCooperators).values({ siteId: row!.id, userId: grower!.id });
+      const { siteId, growerId } = await insertDemoSite(tx as unknown as Database, { programId, site, growerHash, phone: `555-01${String(siteIds.length + 10)}` });
+      siteIds.push(siteId);
+      growerIds.push(growerId);
     }
 
     const cropIds: Record<string, number> = {};
@@ -143,6 +124,35 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
   });
 }
 
+/** A partner site of a program with its grower's account, linked to the site. */
+async function insertDemoSite(
+  tx: Database,
+  p: { programId: number; site: (typeof DEMO_SITES)[number] | (typeof DEMO_SECOND_PROGRAM)["site"]; growerHash: string; phone: string },
+): Promise<{ siteId: number; growerId: number }> {
+  const { site } = p;
+  const [grower] = await tx.insert(s.users).values({ ...site.grower, role: "cooperator", passwordHash: p.growerHash }).$returningId();
+  const [row] = await tx
+    .insert(s.sites)
+    .values({
+      programId: p.programId,
+      name: site.name,
+      kind: site.kind,
+      region: site.region,
+      growingSetup: site.growingSetup,
+      soil: site.soil,
+      irrigation: site.irrigation,
+      latitude: site.lat,
+      longitude: site.lon,
+      contactName: site.grower.name,
+      contactEmail: site.grower.email,
+      contactPhone: p.phone,
+      publicDescription: `A ${site.kind === "farm" ? "partner farm" : "partner garden"} in ${site.region}; ${site.soil}, ${site.irrigation}.`,
+    })
+    .$returningId();
+  await tx.insert(s.siteCooperators).values({ siteId: row!.id, userId: grower!.id });
+  return { siteId: row!.id, growerId: grower!.id };
+}
+
 /** The second program: its coordinator, one site with its grower, two varieties, its own trait and a draft trial with the site enrolled. */
 async function seedSecondProgram(
   tx: Database,
@@ -156,26 +166,7 @@ async function seedSecondProgram(
   const [season] = await tx.insert(s.seasons).values({ programId, name: "Autumn 2027", year: 2027, startsOn: addDays(p.today, -10), endsOn: addDays(p.today, 120) }).$returningId();
 
   const { site } = demo;
-  const [grower] = await tx.insert(s.users).values({ ...site.grower, role: "cooperator", passwordHash: p.growerHash }).$returningId();
-  const [siteRow] = await tx
-    .insert(s.sites)
-    .values({
-      programId,
-      name: site.name,
-      kind: site.kind,
-      region: site.region,
-      growingSetup: site.growingSetup,
-      soil: site.soil,
-      irrigation: site.irrigation,
-      latitude: site.lat,
-      longitude: site.lon,
-      contactName: site.grower.name,
-      contactEmail: site.grower.email,
-      contactPhone: "555-0190",
-      publicDescription: `A partner farm in ${site.region}; ${site.soil}, ${site.irrigation}.`,
-    })
-    .$returningId();
-  await tx.insert(s.siteCooperators).values({ siteId: siteRow!.id, userId: grower!.id });
+  const { siteId: secondSiteId, growerId: secondGrowerId } = await insertDemoSite(tx, { programId, site, growerHash: p.growerHash, phone: "555-0190" });
 
   const { trait } = demo;
   const [traitRow] = await tx
@@ -201,7 +192,7 @@ async function seedSecondProgram(
       .$returningId();
     await tx.insert(s.trialEntries).values({ trialId, varietyId: variety!.id, seedLotId: lot!.id, blindCode: codes[i]!, entryNumber: i + 1, isCheck: "isCheck" in entry && entry.isCheck });
   }
-  await tx.insert(s.enrolments).values({ trialId, siteId: siteRow!.id, cooperatorId: grower!.id });
+  await tx.insert(s.enrolments).values({ trialId, siteId: secondSiteId, cooperatorId: secondGrowerId });
 }
 
 async function seedTrial(
