@@ -2,7 +2,7 @@
 // writes. Each test is a client of its own on a loopback address of its own (see helpers/from-address).
 import { afterAll, describe, expect, it } from "vitest";
 import { createDatabase } from "@/db/client";
-import { hashPassword } from "@/server/auth/password";
+import { insertThrowawayGrower } from "../helpers/throwaway-account";
 import { SIGN_IN_FAILED, SIGN_IN_THROTTLED } from "@/lib/domain/sign-in-messages";
 import { MAX_FAILURES_PER_ADDRESS } from "@/server/auth/throttle";
 import { madeUpAddress, signInFrom, spareLoopbackAddress } from "../helpers/from-address";
@@ -12,12 +12,7 @@ afterAll(async () => {
   await e2e.pool.end();
 });
 
-async function newAccount(tag: string) {
-  const email = `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@example.org`;
-  const password = `right-password-${tag}`;
-  await e2e.pool.query("INSERT INTO users (email, name, role, password_hash, active) VALUES (?, 'Address Check', 'cooperator', ?, 1)", [email, await hashPassword(password)]);
-  return { email, password };
-}
+const newAccount = (tag: string) => insertThrowawayGrower(e2e, tag, "Address Check");
 
 /** Failed sign-ins from `from`, each for an e-mail of its own so only the address limit can be reached. */
 async function failFrom(from: string, times: number, headersFor: (i: number) => Record<string, string>) {

@@ -3,8 +3,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { createDatabase } from "@/db/client";
+import { insertThrowawayGrower } from "../helpers/throwaway-account";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
-import { hashPassword } from "@/server/auth/password";
 import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { oneTimeLink, waitForMailTo } from "../helpers/captured-mail";
@@ -19,12 +19,7 @@ afterAll(async () => {
   await e2e.pool.end();
 });
 
-async function newAccount(tag: string) {
-  const email = `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@example.org`;
-  const password = `first-password-${tag}`;
-  await e2e.pool.query("INSERT INTO users (email, name, role, password_hash, active) VALUES (?, 'Session Check', 'cooperator', ?, 1)", [email, await hashPassword(password)]);
-  return { email, password };
-}
+const newAccount = (tag: string) => insertThrowawayGrower(e2e, tag, "Session Check");
 
 /** Whether a session cookie still opens the portal, a JSON route and next-auth's own session endpoint. */
 async function stillWorks(session: HttpSession) {
