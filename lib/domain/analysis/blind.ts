@@ -5,6 +5,7 @@
  */
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 import type { Viewer } from "@/lib/domain/viewer";
+import { blockView } from "./block-view";
 import { LABEL_COMPARISON_NOTE } from "./germination";
 import { toAnalysisPayload } from "./payload";
 import type {
@@ -56,21 +57,7 @@ export function toBlindPayload(result: AnalysisResult, withPlots = false): Blind
   const byCode = <T extends { blindCode: string }>(rows: T[]) => [...rows].sort((a, b) => (a.blindCode < b.blindCode ? -1 : a.blindCode > b.blindCode ? 1 : 0));
 
   const mean = (m: EntryResult): Unkeyed<EntryResult> => ({ entryId: blindId(m.entryId), blindCode: m.blindCode, mean: m.mean, lsMean: m.lsMean, se: m.se, n: m.n, letter: m.letter, rank: m.rank });
-  const block = (b: AnalysisBlock): BlindAnalysisBlock => ({
-    rows: b.rows.map((r) => ({ source: r.source, df: r.df, ss: r.ss, ms: r.ms, f: r.f, p: r.p, ...(r.testedAgainst ? { testedAgainst: r.testedAgainst } : {}) })),
-    n: b.n,
-    missing: b.missing,
-    grandMean: b.grandMean,
-    cv: b.cv,
-    errorMs: b.errorMs,
-    errorDf: b.errorDf,
-    entryF: b.entryF,
-    entryP: b.entryP,
-    means: byCode(b.means).map(mean),
-    lsd: b.lsd,
-    tukeyQ: b.tukeyQ,
-    comparisonNote: b.comparisonNote,
-  });
+  const block = (b: AnalysisBlock): BlindAnalysisBlock => blockView(b, byCode(b.means).map(mean));
   const germ = (g: GerminationRow): Unkeyed<GerminationRow> => ({ entryId: blindId(g.entryId), blindCode: g.blindCode, siteId: g.siteId, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
   const { combined, germination, emergence, trait: t, settings: st, explanations: ex } = result;
 

@@ -10,8 +10,8 @@
  * blind code, plots by plot code, sites by name. The two numbers kept are the ones in public
  * addresses: a site's `id` (/sites/:id) and an entry's `varietyId` (/varieties/:id).
  */
+import { blockView } from "@/lib/domain/analysis/block-view";
 import type { AnalysisBlock, AnalysisResult, EntryResult, GerminationRow } from "@/lib/domain/analysis/types";
-import type { AnovaRow } from "@/lib/domain/stats";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
 
 export interface PublicSite {
@@ -122,27 +122,9 @@ export interface PublicSnapshot {
   citation: string;
 }
 
-const anovaRow = (r: AnovaRow): AnovaRow => ({ source: r.source, df: r.df, ss: r.ss, ms: r.ms, f: r.f, p: r.p, ...(r.testedAgainst ? { testedAgainst: r.testedAgainst } : {}) });
-
 const mean = (m: EntryResult): PublicMean => ({ blindCode: m.blindCode, varietyName: m.varietyName, isCheck: m.isCheck, mean: m.mean, lsMean: m.lsMean, se: m.se, n: m.n, letter: m.letter, rank: m.rank });
 
-function block(b: AnalysisBlock): PublicBlock {
-  return {
-    rows: b.rows.map(anovaRow),
-    n: b.n,
-    missing: b.missing,
-    grandMean: b.grandMean,
-    cv: b.cv,
-    errorMs: b.errorMs,
-    errorDf: b.errorDf,
-    entryF: b.entryF,
-    entryP: b.entryP,
-    means: b.means.map(mean),
-    lsd: b.lsd,
-    tukeyQ: b.tukeyQ,
-    comparisonNote: b.comparisonNote,
-  };
-}
+const block = (b: AnalysisBlock): PublicBlock => blockView(b, b.means.map(mean));
 
 const germinationRow = (g: GerminationRow): PublicGerminationRow => ({ blindCode: g.blindCode, varietyName: g.varietyName, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
 
