@@ -73,6 +73,6 @@ export const PROXY_BODY_COPY_BYTES = PAGE_FORM + 1 * MB;
 /** The file limit people are told where they pick a file: "15 MB". */
 export const statedFileLimit = (kind: "photo" | "spreadsheet") => mb(BODY_LIMITS[kind].fileBytes);
 
-/** For the forms, before sending: "This photo is 18.4 MB; the limit is 15 MB. Choose a smaller size…" */
+/** A file over its limit, in the forms before sending and in the server's own checks: "This photo is 18.4 MB; the limit is 15 MB. Choose a smaller size…" */
 export const fileTooLarge = (kind: "photo" | "spreadsheet", bytes: number) =>
   `This ${kind === "photo" ? "photo" : "file"} is ${(bytes / MB).toFixed(1)} MB; the limit is ${statedFileLimit(kind)}. ${BODY_LIMITS[kind].advice}`;

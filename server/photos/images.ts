@@ -1,6 +1,6 @@
 import "server-only";
 import sharp from "sharp";
-import { BODY_LIMITS } from "@/lib/domain/request-limits";
+import { BODY_LIMITS, fileTooLarge } from "@/lib/domain/request-limits";
 
 // Photos are accepted by what their bytes are, then re-encoded: re-encoding drops every metadata block
 // (camera serial, GPS position of the farm) unless the grower chose to keep the location.
@@ -33,7 +33,7 @@ function isHeic(b: Uint8Array) {
 /** Checks and re-encodes a photo. Returns the bytes to store and their type. */
 export async function preparePhoto(bytes: Uint8Array, opts: { keepLocation: boolean }): Promise<{ bytes: Buffer; contentType: ImageType; width: number; height: number }> {
   if (bytes.length === 0) throw new PhotoRefused("The photo is empty. Choose it again.");
-  if (bytes.length > MAX_PHOTO_BYTES) throw new PhotoRefused(`The photo is ${(bytes.length / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_PHOTO_BYTES / 1024 / 1024} MB. Send a smaller size from your phone.`);
+  if (bytes.length > MAX_PHOTO_BYTES) throw new PhotoRefused(fileTooLarge("photo", bytes.length));
   const type = detectImage(bytes);
   if (!type) {
     if (isHeic(bytes)) throw new PhotoRefused("This is an iPhone HEIC photo. Set the camera to \"Most Compatible\" (JPEG), or share it as JPEG, and try again.");

@@ -1,6 +1,6 @@
 import { Unzip, UnzipInflate } from "fflate";
 import * as CFB from "cfb";
-import { BODY_LIMITS } from "@/lib/domain/request-limits";
+import { BODY_LIMITS, fileTooLarge } from "@/lib/domain/request-limits";
 
 // Checks made on an uploaded file before any parser sees it: size, what the bytes really are (never the
 // name, which only shapes the wording), and for workbooks the zip directory, so a small file that inflates to
@@ -70,7 +70,7 @@ function named(fileName: string, fits: string[] = []): string {
  */
 export function inspectUpload(bytes: Uint8Array, fileName: string): UploadKind {
   if (bytes.length === 0) throw new UploadRefused("The file is empty. Choose the filled-in sheet and try again.");
-  if (bytes.length > MAX_UPLOAD_BYTES) throw new UploadRefused(`The file is ${(bytes.length / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_UPLOAD_BYTES / 1024 / 1024} MB. Remove pictures or extra sheets, or upload a CSV.`);
+  if (bytes.length > MAX_UPLOAD_BYTES) throw new UploadRefused(fileTooLarge("spreadsheet", bytes.length));
   if (startsWith(bytes, [0x50, 0x4b, 0x03, 0x04])) {
     checkZip(bytes);
     return "xlsx";
