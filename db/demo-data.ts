@@ -23,15 +23,15 @@ export const DEMO_SITES = [
 ] as const;
 
 export const DEMO_TRAITS = [
-  { code: "seeds_sown", name: "Seeds sown", unit: "seeds", valueType: "count", min: 0, max: 500, dueNote: "At sowing", computation: "none" },
-  { code: "emergence_count", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count", min: 0, max: 500, due: [5, 7, 10, 14], computation: "none", description: "Seedlings with cotyledons fully above the surface, counted on the scheduled days after sowing." },
-  { code: "emerged_final", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", min: 0, max: 500, dueNote: "14 days after sowing", computation: "none" },
-  { code: "emergence_date", name: "Emergence date", unit: "date", valueType: "date", dueNote: "When half the cells show a seedling", computation: "days_from_sowing", description: "Analysed as days to emergence from the sowing date." },
-  { code: "harvest_date", name: "First harvest date", unit: "date", valueType: "date", dueNote: "At first marketable harvest", computation: "days_from_sowing", description: "Analysed as days to maturity from the sowing date." },
-  { code: "marketable_yield", name: "Marketable yield", unit: "g per plot", valueType: "number", min: 0, max: 20000, dueNote: "At harvest", computation: "none" },
-  { code: "quality", name: "Overall quality", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", computation: "none", description: "1 = unmarketable, 5 = acceptable, 9 = excellent." },
-  { code: "bolting", name: "Bolting at harvest", unit: "yes/no", valueType: "yes_no", dueNote: "At harvest", computation: "none" },
-  { code: "plot_notes", name: "Plot notes", unit: null, valueType: "text", dueNote: "Any time", computation: "none" },
+  { code: "seeds_sown", betterWhen: "neither", name: "Seeds sown", unit: "seeds", valueType: "count", min: 0, max: 500, dueNote: "At sowing", computation: "none" },
+  { code: "emergence_count", betterWhen: "higher", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count", min: 0, max: 500, due: [5, 7, 10, 14], computation: "none", description: "Seedlings with cotyledons fully above the surface, counted on the scheduled days after sowing." },
+  { code: "emerged_final", betterWhen: "higher", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", min: 0, max: 500, dueNote: "14 days after sowing", computation: "none" },
+  { code: "emergence_date", betterWhen: "lower", name: "Emergence date", unit: "date", valueType: "date", dueNote: "When half the cells show a seedling", computation: "days_from_sowing", description: "Analysed as days to emergence from the sowing date." },
+  { code: "harvest_date", betterWhen: "neither", name: "First harvest date", unit: "date", valueType: "date", dueNote: "At first marketable harvest", computation: "days_from_sowing", description: "Analysed as days to maturity from the sowing date." },
+  { code: "marketable_yield", betterWhen: "higher", name: "Marketable yield", unit: "g per plot", valueType: "number", min: 0, max: 20000, dueNote: "At harvest", computation: "none" },
+  { code: "quality", betterWhen: "higher", name: "Overall quality", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", computation: "none", description: "1 = unmarketable, 5 = acceptable, 9 = excellent." },
+  { code: "bolting", betterWhen: "lower", name: "Bolting at harvest", unit: "yes/no", valueType: "yes_no", dueNote: "At harvest", computation: "none" },
+  { code: "plot_notes", betterWhen: "neither", name: "Plot notes", unit: null, valueType: "text", dueNote: "Any time", computation: "none" },
 ] as const;
 
 export const DEMO_CROPS = [
@@ -145,7 +145,7 @@ export const DEMO_SECOND_PROGRAM = {
   description: "A small growers' circle around Juniper Flats trying salad greens for the shoulder seasons.",
   coordinator: { email: "owen.marsh@juniper-flats.example", name: "Owen Marsh" },
   site: { name: "Juniper Flats Farm", kind: "farm", region: "Juniper Flats", growingSetup: "high_tunnel", soil: "sandy loam", irrigation: "drip", lat: 44.912, lon: -91.724, grower: { name: "Priya Castellan", email: "priya@juniperflats.example" } },
-  trait: { code: "tipburn", name: "Tipburn severity", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", description: "1 = no browned leaf edges, 9 = most leaves browned." },
+  trait: { code: "tipburn", betterWhen: "lower", name: "Tipburn severity", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", description: "1 = no browned leaf edges, 9 = most leaves browned." },
   trial: {
     code: "JF27-LET",
     title: "Butterhead lettuce for the autumn tunnel",

@@ -97,6 +97,7 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
           dueDaysAfterSowing: "due" in t ? [...t.due] : null,
           dueNote: "dueNote" in t ? t.dueNote : null,
           computation: t.computation,
+          betterWhen: t.betterWhen,
           description: "description" in t ? t.description : null,
           builtIn: true,
         })
@@ -171,7 +172,7 @@ async function seedSecondProgram(
   const { trait } = demo;
   const [traitRow] = await tx
     .insert(s.traits)
-    .values({ programId, code: trait.code, name: trait.name, unit: trait.unit, valueType: trait.valueType, minValue: trait.min, maxValue: trait.max, dueNote: trait.dueNote, description: trait.description, builtIn: false })
+    .values({ programId, code: trait.code, name: trait.name, unit: trait.unit, valueType: trait.valueType, minValue: trait.min, maxValue: trait.max, dueNote: trait.dueNote, description: trait.description, betterWhen: trait.betterWhen, builtIn: false })
     .$returningId();
   const traitIds: Record<string, number> = { ...p.traitIds, [trait.code]: traitRow!.id };
 

@@ -1,4 +1,5 @@
 "use client";
+import { inStatedOrder } from "@/lib/domain/analysis/ranking";
 import * as Plot from "@observablehq/plot";
 import type { EmergenceAnalysis } from "@/lib/domain/analysis/types";
 import { formatNumber } from "@/lib/domain/analysis/format";
@@ -25,9 +26,7 @@ function entryScales(order: string[]) {
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
 export function MeansChart({ means, lsd, label, unit, title, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; testId?: string }) {
-  const rows = [...means]
-    .sort((a, b) => a.rank - b.rank)
-    .map((m) => {
+  const rows = inStatedOrder(means).map((m) => {
       const centre = m.lsMean ?? m.mean;
       const half = lsd !== null ? lsd / 2 : m.se;
       return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };

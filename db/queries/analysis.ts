@@ -22,7 +22,7 @@ import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "..
 import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
 import type { AnalysisInput, InputExclusion, InputTrait } from "@/lib/domain/analysis/types";
-import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { BetterWhen, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
 // Staff read every site of their programs' trials; a cooperator reads only their own sites, and only
@@ -85,7 +85,15 @@ export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promi
 
 function loadTraits(trialId: number): Promise<InputTrait[]> {
   return db
-    .select({ id: traits.id, code: traits.code, name: traits.name, unit: traits.unit, valueType: traits.valueType, computation: traits.computation })
+    .select({
+      id: traits.id,
+      code: traits.code,
+      name: traits.name,
+      unit: traits.unit,
+      valueType: traits.valueType,
+      computation: traits.computation,
+      betterWhen: sql<BetterWhen>`coalesce(${trialTraits.betterWhen}, ${traits.betterWhen})`,
+    })
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
     .where(eq(trialTraits.trialId, trialId))

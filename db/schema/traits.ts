@@ -1,6 +1,6 @@
 import { boolean, decimal, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
-import { TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/lib/domain/vocabulary/enums";
+import { BETTER_WHEN, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/lib/domain/vocabulary/enums";
 import { programs } from "./programs";
 
 /**
@@ -23,6 +23,8 @@ export const traits = mysqlTable(
     dueDaysAfterSowing: json("due_days_after_sowing").$type<number[]>(),
     dueNote: varchar("due_note", { length: 200 }),
     computation: mysqlEnum("computation", TRAIT_COMPUTATIONS).notNull().default("none"),
+    /** the library's default direction; a trial may set its own on trial_traits */
+    betterWhen: mysqlEnum("better_when", BETTER_WHEN).notNull().default("neither"),
     description: text("description"),
     builtIn: boolean("built_in").notNull().default(false),
     createdAt: createdAt(),

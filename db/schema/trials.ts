@@ -1,6 +1,6 @@
 import { boolean, date, index, int, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
+import { BETTER_WHEN, PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
 import { crops, seedLots, varieties } from "./catalogue";
 import { programs, seasons } from "./programs";
 import { traits } from "./traits";
@@ -44,6 +44,8 @@ export const trialTraits = mysqlTable(
     trialId: ref("trial_id").notNull().references(() => trials.id, { onDelete: "cascade" }),
     traitId: ref("trait_id").notNull().references(() => traits.id, { onDelete: "restrict" }),
     sortOrder: smallint("sort_order").notNull().default(0),
+    /** this trial's direction for the trait; null follows the trait library */
+    betterWhen: mysqlEnum("better_when", BETTER_WHEN),
   },
   (t) => [uniqueIndex("trial_traits_unique").on(t.trialId, t.traitId)],
 );

@@ -1,3 +1,4 @@
+import { inStatedOrder, leaderHeading } from "@/lib/domain/analysis/ranking";
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
 import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/domain/publish/public-shape";
 import { formatNumber, formatP } from "@/lib/domain/analysis/format";
@@ -88,7 +89,7 @@ function MeansTable({ block, unit }: { block: PublicBlock; unit: string | null }
         { label: "Plots", width: 40, align: "right", value: (m) => String(m.n) },
         { label: "Group", width: 50, value: (m) => m.letter ?? "" },
       ]}
-      rows={[...block.means].sort((a, b) => a.rank - b.rank)}
+      rows={inStatedOrder(block.means)}
     />
   );
 }
@@ -310,11 +311,11 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
                   { label: "Variety p", width: 55, align: "right", value: (p) => (p.result ? formatP(p.result.entryP) : "") },
                   { label: "LSD 0.05", width: 55, align: "right", value: (p) => (p.result?.lsd != null ? formatNumber(p.result.lsd) : p.result ? "n.s." : "") },
                   {
-                    label: "Best variety here",
+                    label: leaderHeading(r.result.trait),
                     width: 150,
                     value: (p) => {
                       if (!p.result) return p.problem ?? "";
-                      const top = [...p.result.means].sort((a, b) => a.rank - b.rank)[0];
+                      const top = inStatedOrder(p.result.means)[0];
                       return top ? top.varietyName ?? top.blindCode : "";
                     },
                   },

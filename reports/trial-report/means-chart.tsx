@@ -1,10 +1,11 @@
+import { inStatedOrder } from "@/lib/domain/analysis/ranking";
 import { G, Line, Rect, Svg, Text as SvgText } from "@react-pdf/renderer";
 import type { PublicMean } from "@/lib/domain/publish/public-shape";
 
 // Horizontal bars with ±1 SE whiskers, drawn as vector shapes in greys and black so the chart reads
 // the same when printed in black and white. The check variety gets a hatched-looking darker bar.
 export function MeansChart({ means, width = 480, unit, lsd }: { means: PublicMean[]; width?: number; unit: string | null; lsd: number | null }) {
-  const rows = [...means].sort((a, b) => a.rank - b.rank);
+  const rows = inStatedOrder(means);
   const rowHeight = 16;
   const labelWidth = 120;
   const top = 6;

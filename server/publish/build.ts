@@ -71,6 +71,7 @@ export async function buildSnapshot(
       unit: t.unit,
       valueType: t.valueType,
       analysedAs: analysedAs(t),
+      betterWhen: t.betterWhen,
       description: context.traits.find((c) => c.id === t.id)?.description ?? null,
     })),
     results,

@@ -65,7 +65,7 @@ export function toBlindPayload(result: AnalysisResult, withPlots = false): Blind
     blind: true,
     trial: { id: result.trial.id, code: result.trial.code, title: result.trial.title, crop: result.trial.crop, status: result.trial.status },
     settings: { traitId: st.traitId, siteIds: st.siteIds && [...st.siteIds], includeUnaccepted: st.includeUnaccepted, siteModel: st.siteModel, separation: st.separation },
-    trait: { id: t.id, code: t.code, name: t.name, unit: t.unit, valueType: t.valueType, computation: t.computation, analysedAs: t.analysedAs },
+    trait: { id: t.id, code: t.code, name: t.name, unit: t.unit, valueType: t.valueType, computation: t.computation, betterWhen: t.betterWhen, analysedAs: t.analysedAs },
     traits: result.traits.map((x) => ({ id: x.id, name: x.name, analysable: x.analysable })),
     sites: result.sites.map((x) => ({ id: x.id, name: x.name, status: x.status, included: x.included, shared: x.shared, why: x.why && withheld(x.why) })),
     perSite: result.perSite.map((s) => ({ siteId: s.siteId, siteName: s.siteName, status: s.status, blocks: s.blocks, result: s.result && block(s.result), problem: s.problem })),

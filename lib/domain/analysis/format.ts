@@ -17,3 +17,22 @@ export function formatNumber(x: number | null | undefined, digits?: number): str
 export function countOf(n: number, total: number, noun: string): string {
   return `${n} of ${total} ${total === 1 ? noun : `${noun}s`}`;
 }
+
+/** What `valueWithUnit` needs to know about a trait. */
+export interface UnitShape {
+  unit: string | null;
+  valueType: string;
+  computation: string;
+}
+
+/**
+ * A trait value as people write it: "6.9 on the 1-9 scale", "2,812 g per plot", "23.8 days", "40% yes".
+ * Days are whole-day counts from sowing or transplanting, whatever the recorded unit ("date") says.
+ */
+export function valueWithUnit(trait: UnitShape, x: number | null | undefined, digits?: number): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
+  if (trait.computation !== "none" || trait.valueType === "date") return `${formatNumber(x, digits ?? 1)} days`;
+  if (trait.valueType === "yes_no") return `${formatNumber(100 * x, digits ?? 0)}% yes`;
+  if (trait.valueType === "rating") return trait.unit ? `${formatNumber(x, digits ?? 1)} on the ${trait.unit} scale` : formatNumber(x, digits ?? 1);
+  return trait.unit ? `${formatNumber(x, digits)} ${trait.unit}` : formatNumber(x, digits);
+}

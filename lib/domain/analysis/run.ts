@@ -17,8 +17,9 @@ import {
 } from "@/lib/domain/stats";
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { plural } from "@/lib/domain/vocabulary/words";
-import { countOf, formatNumber, formatP } from "./format";
+import { countOf, formatNumber, formatP, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
+import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, orderWords, rankedValue } from "./ranking";
 import { analysedAs, isAnalysable, plotValue } from "./values";
 import type {
   AnalysisBlock,
@@ -75,7 +76,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const missing = listMissingPlots(rows);
   const perSite = analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById);
   const analysedSites = perSite.analyses.filter((s) => s.result !== null);
-  const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, analysable, settings, entriesById);
+  const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, trait, analysable, settings, entriesById);
   const cvs = analysedSites.map((s) => ({ name: s.siteName, cv: s.result!.cv }));
 
   const warnings = [
@@ -89,7 +90,8 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const exclusionList = describeExclusions(input);
   const notes = [
     ...siteNotes(trait, analysedSites, missing),
-    ...combinedNotes(trait, combined, analysedSites.length),
+    // names only once the key is public; before that the coordinator's notes and the growers' view use codes alike
+    ...combinedNotes(trait, combined, analysedSites.length, input.trial.status === "published" || input.trial.status === "archived"),
     ...cvNote(cvs),
     ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "exclusion")} recorded for this trial; the data stay stored and are listed below.`] : []),
   ];
@@ -206,7 +208,7 @@ function analyseEachSite(
     } else {
       try {
         const table = anovaRcbd(siteRows.map((r) => ({ block: String(r.plot.block), entry: String(r.entry.id), value: r.value })));
-        analyses.push({ ...base, result: summarise(table, settings, entriesById, `at ${site.name}`), problem: null });
+        analyses.push({ ...base, result: summarise(table, trait, settings, entriesById, `at ${site.name}`), problem: null });
       } catch (e) {
         if (!isStatsError(e)) throw e;
         analyses.push({ ...base, result: null, problem: e.message });
@@ -221,6 +223,7 @@ function analyseEachSite(
 function analyseAcrossSites(
   analysedSites: SiteAnalysis[],
   rows: PlotRow[],
+  trait: InputTrait,
   analysable: boolean,
   settings: AnalysisSettings,
   entriesById: EntriesById,
@@ -234,7 +237,7 @@ function analyseAcrossSites(
   const data: MultiSitePlot[] = used.map((r) => ({ site: String(r.site.id), block: String(r.plot.block), entry: String(r.entry.id), value: r.value }));
   try {
     const table = anovaMultiSite(data, { sites: settings.siteModel });
-    const block = summarise(table, settings, entriesById, "across sites");
+    const block = summarise(table, trait, settings, entriesById, "across sites");
     const interaction = table.rows.find((r) => r.source === "entry:site");
     const errors = (table.siteErrors ?? []).filter((s) => s.df > 0 && s.ms > 0);
     const bartlett = errors.length >= 2 ? bartlettFromVariances(errors.map((s) => ({ df: s.df, variance: s.ms }))) : null;
@@ -318,7 +321,7 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
 }
 
 /** What the combined analysis says: the entry test, the interaction, the top entry. */
-function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, analysedSiteCount: number): string[] {
+function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, analysedSiteCount: number, revealed: boolean): string[] {
   if (!combined) return analysedSiteCount === 1 ? [`Only one site could be analysed, so there is no combined analysis.`] : [];
   const notes: string[] = [];
   const against = combined.siteModel === "random" ? "against the entry × site mean square, because sites are treated as a sample of farms" : "against the pooled error, because sites are treated as fixed";
@@ -335,11 +338,15 @@ function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, ana
         : `Entries ranked much the same from site to site (entry × site ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
     );
   }
-  const top = [...combined.means].sort((a, b) => a.rank - b.rank)[0];
-  if (top) {
-    notes.push(
-      `Highest combined mean: ${top.blindCode} (${formatNumber(top.lsMean ?? top.mean)}${trait.unit && trait.computation === "none" ? ` ${trait.unit}` : ""}); ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`,
-    );
+  const ordered = inStatedOrder(combined.means);
+  const first = ordered[0];
+  if (first) {
+    const label = (m: EntryResult) => (revealed && m.varietyName ? m.varietyName : m.blindCode);
+    const lead =
+      trait.betterWhen === "neither"
+        ? `Combined means, ${orderWords(trait)}: ${extremeWord(trait, "first")} ${label(first)} (${valueWithUnit(trait, rankedValue(first))}), ${extremeWord(trait, "last")} ${label(ordered[ordered.length - 1]!)} (${valueWithUnit(trait, rankedValue(ordered[ordered.length - 1]!))})`
+        : `Best combined mean (${extremeWord(trait, "first")}): ${label(first)} (${valueWithUnit(trait, rankedValue(first))})`;
+    notes.push(`${lead}; ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`);
   }
   return notes;
 }
@@ -399,7 +406,7 @@ function median(xs: number[]): number {
 }
 
 /** Means, letters and the comparison sentence for one ANOVA table. */
-function summarise(table: AnovaTable, settings: AnalysisSettings, entries: EntriesById, where: string): AnalysisBlock {
+function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSettings, entries: EntriesById, where: string): AnalysisBlock {
   const entryRow = table.rows.find((r) => r.source === "entry");
   let letters: Record<string, string> | null = null;
   let lsdValue: number | null = null;
@@ -441,10 +448,14 @@ function summarise(table: AnovaTable, settings: AnalysisSettings, entries: Entri
       se: ls.get(m.entry)?.se ?? m.se,
       n: m.n,
       letter: letters ? (letters[m.entry] ?? null) : null,
-      rank: 0,
+      rank: null,
+      percentOfCheck: null,
+      checkDifference: null,
+      beyondLsd: null,
     };
   });
-  [...means].sort((a, b) => (b.lsMean ?? b.mean) - (a.lsMean ?? a.mean)).forEach((m, i) => (m.rank = i + 1));
+  assignRanks(means, trait.betterWhen);
+  compareWithCheck(means, lsdValue).forEach((c, i) => Object.assign(means[i]!, c));
   means.sort((a, b) => entries.get(a.entryId)!.entryNumber - entries.get(b.entryId)!.entryNumber);
   return {
     rows: table.rows,

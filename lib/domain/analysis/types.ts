@@ -3,7 +3,7 @@
  * scoped to the viewer) and the result DTO the page, the JSON API and the exports all show.
  */
 import type { AnovaRow } from "@/lib/domain/stats";
-import type { SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { BetterWhen, SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 export type SiteModel = "random" | "fixed";
 export type Separation = "lsd" | "tukey";
@@ -25,6 +25,8 @@ export interface InputTrait {
   unit: string | null;
   valueType: "count" | "date" | "number" | "rating" | "yes_no" | "text";
   computation: "none" | "days_from_sowing" | "days_from_transplant";
+  /** the trial's direction for this trait (the library's default unless the coordinator set one) */
+  betterWhen: BetterWhen;
 }
 
 export interface InputEntry {
@@ -106,7 +108,14 @@ export interface EntryResult {
   n: number;
   /** compact letters from the chosen comparison; null when no comparison is shown */
   letter: string | null;
-  rank: number;
+  /** 1 = best for the trait's direction; null when the trait has no preferred direction (see ranking.ts) */
+  rank: number | null;
+  /** mean as % of the check's mean (check = 100); null without a check */
+  percentOfCheck: number | null;
+  /** mean minus the check's mean; null without a check */
+  checkDifference: number | null;
+  /** whether that difference exceeds the LSD 0.05; null when there is no LSD */
+  beyondLsd: boolean | null;
 }
 
 export interface AnalysisBlock {
@@ -256,7 +265,7 @@ export interface PlotValue {
 export type AnalysisPayload = Omit<AnalysisResult, "plots"> & { plots?: PlotValue[] };
 
 /** An entry-level row as someone without the blind-code key sees it: the blind code and nothing that decodes it. */
-export type Unkeyed<T> = Omit<T, "varietyName" | "varietyId" | "isCheck" | "seedLot">;
+export type Unkeyed<T> = Omit<T, "varietyName" | "varietyId" | "isCheck" | "seedLot" | "percentOfCheck" | "checkDifference" | "beyondLsd">;
 
 export interface BlindAnalysisBlock extends Omit<AnalysisBlock, "means"> {
   means: Unkeyed<EntryResult>[];

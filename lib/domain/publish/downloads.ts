@@ -1,3 +1,4 @@
+import { inStatedOrder } from "@/lib/domain/analysis/ranking";
 import ExcelJS from "exceljs";
 import { addSheetRow, csvFile, type SheetCell } from "@/lib/domain/spreadsheets/write";
 import type { PublicSnapshot } from "./public-shape";
@@ -41,7 +42,7 @@ export async function publishedXlsx(snapshot: PublicSnapshot): Promise<Buffer> {
     const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
     if (!block) continue;
     const scope = result.combined ? `combined, ${result.combined.sites} sites` : "one site";
-    for (const m of [...block.means].sort((a, b) => a.rank - b.rank)) {
+    for (const m of inStatedOrder(block.means)) {
       addSheetRow(means, [result.trait.analysedAs, scope, m.varietyName ?? m.blindCode, m.blindCode, m.lsMean ?? m.mean, m.se, m.n, m.letter ?? "", m.rank, block.lsd, block.cv]);
     }
   }

@@ -11,7 +11,9 @@
  * addresses: a site's `id` (/sites/:id) and an entry's `varietyId` (/varieties/:id).
  */
 import { blockView } from "@/lib/domain/analysis/block-view";
+import { assignRanks, compareWithCheck } from "@/lib/domain/analysis/ranking";
 import type { AnalysisBlock, AnalysisResult, EntryResult, GerminationRow } from "@/lib/domain/analysis/types";
+import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
 
 export interface PublicSite {
@@ -46,9 +48,10 @@ export interface PublicTrait {
   valueType: string;
   analysedAs: string;
   description: string | null;
+  betterWhen: BetterWhen;
 }
 
-export type PublicMean = Pick<EntryResult, "blindCode" | "varietyName" | "isCheck" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank">;
+export type PublicMean = Pick<EntryResult, "blindCode" | "varietyName" | "isCheck" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank" | "percentOfCheck" | "checkDifference" | "beyondLsd">;
 
 export interface PublicBlock extends Omit<AnalysisBlock, "means"> {
   means: PublicMean[];
@@ -66,7 +69,7 @@ export interface PublicCombined extends PublicBlock {
 export type PublicGerminationRow = Omit<GerminationRow, "entryId" | "siteId">;
 
 export interface PublicTraitResult {
-  trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string };
+  trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string; betterWhen: BetterWhen };
   /** the sites in this trait's analysis */
   perSite: { siteName: string; blocks: number; result: PublicBlock | null; problem: string | null }[];
   combined: PublicCombined | null;
@@ -122,19 +125,46 @@ export interface PublicSnapshot {
   citation: string;
 }
 
-const mean = (m: EntryResult): PublicMean => ({ blindCode: m.blindCode, varietyName: m.varietyName, isCheck: m.isCheck, mean: m.mean, lsMean: m.lsMean, se: m.se, n: m.n, letter: m.letter, rank: m.rank });
+const mean = (m: EntryResult): PublicMean => ({
+  blindCode: m.blindCode,
+  varietyName: m.varietyName,
+  isCheck: m.isCheck,
+  mean: m.mean,
+  lsMean: m.lsMean,
+  se: m.se,
+  n: m.n,
+  letter: m.letter,
+  rank: m.rank,
+  percentOfCheck: m.percentOfCheck,
+  checkDifference: m.checkDifference,
+  beyondLsd: m.beyondLsd,
+});
 
-const block = (b: AnalysisBlock): PublicBlock => blockView(b, b.means.map(mean));
+/**
+ * Versions published before traits had a direction ranked every trait highest-first and had no % of
+ * check. Read back, they get no direction and no ranks (nothing is called best), and the check
+ * comparison is worked out from their stored means.
+ */
+function blockOf(b: AnalysisBlock, legacy: boolean): PublicBlock {
+  const means = b.means.map(mean);
+  if (legacy) {
+    assignRanks(means, "neither");
+    compareWithCheck(means, b.lsd).forEach((c, i) => Object.assign(means[i]!, c));
+  }
+  return blockView(b, means);
+}
 
 const germinationRow = (g: GerminationRow): PublicGerminationRow => ({ blindCode: g.blindCode, varietyName: g.varietyName, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
 
 /** One trait's published analysis in its public shape. */
 export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
   const { combined, germination: g, emergence: e } = r;
+  const legacy = (r.trait as Partial<AnalysisResult["trait"]>).betterWhen === undefined;
+  const block = (b: AnalysisBlock) => blockOf(b, legacy);
   const codeOf = new Map<number, string>();
   for (const m of [...(combined?.means ?? []), ...r.perSite.flatMap((s) => s.result?.means ?? [])]) codeOf.set(m.entryId, m.blindCode);
   return {
-    trait: { code: r.trait.code, name: r.trait.name, unit: r.trait.unit, valueType: r.trait.valueType, computation: r.trait.computation, analysedAs: r.trait.analysedAs },
+    trait: { code: r.trait.code, name: r.trait.name, unit: r.trait.unit, valueType: r.trait.valueType, computation: r.trait.computation, analysedAs: r.trait.analysedAs, betterWhen: legacy ? "neither" : r.trait.betterWhen },
     perSite: r.perSite.map((s) => ({ siteName: s.siteName, blocks: s.blocks, result: s.result && block(s.result), problem: s.problem })),
     combined: combined && {
       ...block(combined),
@@ -181,7 +211,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),
     sites: s.sites.map((x) => ({ id: x.id, name: x.name, kind: x.kind, region: x.region, growingSetup: x.growingSetup, soil: x.soil, irrigation: x.irrigation, publicDescription: x.publicDescription, sownOn: x.sownOn })),
     entries: s.entries.map((e) => ({ blindCode: e.blindCode, varietyId: e.varietyId, variety: e.variety, isCheck: e.isCheck, seedSource: e.seedSource, lotCode: e.lotCode, labelGermination: e.labelGermination, treated: e.treated })),
-    traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description })),
+    traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description, betterWhen: x.betterWhen ?? "neither" })),
     results: s.results.map(({ traitId, result }) => ({ trait: traitCode.get(traitId) ?? result.trait.code, result: toPublicTraitResult(result) })),
     summary: [...s.summary],
     data: s.data.map((d) => ({ site: d.site, block: d.block, plotCode: d.plotCode, blindCode: d.blindCode, variety: d.variety, trait: d.trait, unit: d.unit, value: d.value, status: d.status })),

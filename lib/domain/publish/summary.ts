@@ -1,5 +1,6 @@
+import { extremeWord, inStatedOrder, rankedValue } from "@/lib/domain/analysis/ranking";
 import type { AnalysisResult, EntryResult } from "@/lib/domain/analysis/types";
-import { formatNumber } from "@/lib/domain/analysis/format";
+import { formatP, valueWithUnit } from "@/lib/domain/analysis/format";
 
 function nameOf(e: EntryResult): string {
   return e.varietyName ?? e.blindCode;
@@ -19,25 +20,31 @@ export function summariseForGrowers(results: AnalysisResult[]): string[] {
   const lines: string[] = [];
   for (const r of results) {
     const trait = r.trait.analysedAs.toLowerCase();
-    const unit = r.trait.unit && r.trait.valueType !== "date" && r.trait.valueType !== "yes_no" ? ` ${r.trait.unit}` : "";
     const block = r.combined ?? r.perSite.find((s) => s.result)?.result ?? null;
     if (!block || block.means.length === 0) continue;
     const sites = r.combined ? `across ${r.combined.sites} sites` : "at the one site analysed";
-    const ranked = [...block.means].sort((a, b) => a.rank - b.rank);
-    const top = ranked[0]!;
-    const lowerIsBetter = /days|time/.test(trait);
-    const best = lowerIsBetter ? ranked[ranked.length - 1]! : top;
+    const ordered = inStatedOrder(block.means);
+    const first = ordered[0]!;
+    const last = ordered[ordered.length - 1]!;
     const significant = block.entryP !== null && block.entryP < 0.05;
     if (!significant) {
+      lines.push(`${capitalise(trait)}: the varieties did not differ clearly ${sites} (${formatP(block.entryP)}); treat any order as a tie.`);
+      continue;
+    }
+    const value = (m: EntryResult) => valueWithUnit(r.trait, rankedValue(m));
+    if (r.trait.betterWhen === "neither") {
       lines.push(
-        `${capitalise(trait)}: the varieties did not differ clearly ${sites} (p = ${formatNumber(block.entryP, 2)}); treat the ranking as a tie.`,
+        `${capitalise(trait)}: ${nameOf(first)} was ${extremeWord(r.trait, "first")} ${sites} (${value(first)}) and ${nameOf(last)} ${extremeWord(r.trait, "last")} (${value(last)}); neither end is better in itself.`,
       );
       continue;
     }
-    const sameGroup = best.letter ? ranked.filter((e) => e !== best && e.letter && sharesLetter(e.letter, best.letter!)).map(nameOf) : [];
-    const extreme = lowerIsBetter ? "lowest" : "highest";
-    let line = `${capitalise(trait)}: ${nameOf(best)} had the ${extreme} mean ${sites} (${formatNumber(best.lsMean ?? best.mean, 1)}${unit})`;
-    line += sameGroup.length ? `, not clearly different from ${listNames(sameGroup)}.` : ", clearly ahead of the others.";
+    const sameGroup = first.letter ? ordered.filter((e) => e !== first && e.letter && sharesLetter(e.letter, first.letter!)).map(nameOf) : [];
+    let line = `${capitalise(trait)}: ${nameOf(first)} came first ${sites} with the ${extremeWord(r.trait, "first")} mean (${value(first)})`;
+    line += !first.letter
+      ? "."
+      : sameGroup.length
+        ? `, not clearly different from ${listNames(sameGroup)}.`
+        : ", clearly ahead of the others.";
     if (r.combined && r.combined.interactionP !== null && r.combined.interactionP < 0.05) {
       line += " Rankings changed from site to site, so look at the site most like your own.";
     }

@@ -1,3 +1,4 @@
+import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
 
 /** Analysis settings chosen at publication (the same for every trait in one version). */
@@ -38,6 +39,8 @@ export interface PublishedTrait {
   valueType: string;
   analysedAs: string;
   description: string | null;
+  /** absent in versions published before traits had a direction */
+  betterWhen?: BetterWhen;
 }
 
 /** One raw value as published (plot level, decoded). */

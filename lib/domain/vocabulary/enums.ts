@@ -22,6 +22,10 @@ export type CropGroup = (typeof CROP_GROUPS)[number];
 export const TRAIT_TYPES = ["count", "date", "number", "rating", "yes_no", "text"] as const;
 export type TraitType = (typeof TRAIT_TYPES)[number];
 
+/** Which way a trait's analysed value is better: yield higher, days to emergence lower, days to maturity neither. */
+export const BETTER_WHEN = ["higher", "lower", "neither"] as const;
+export type BetterWhen = (typeof BETTER_WHEN)[number];
+
 /** How a trait's analysed value is derived from what the grower records. */
 export const TRAIT_COMPUTATIONS = ["none", "days_from_sowing", "days_from_transplant"] as const;
 

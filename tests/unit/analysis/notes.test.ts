@@ -3,10 +3,10 @@ import { runAnalysis } from "@/lib/domain/analysis/run";
 import { daysBetween, plotValue } from "@/lib/domain/analysis/values";
 import type { AnalysisInput, AnalysisSettings, InputObservation, InputPlot } from "@/lib/domain/analysis/types";
 
-const TRAIT = { id: 1, code: "marketable_yield", name: "Marketable yield", unit: "g per plot", valueType: "number" as const, computation: "none" as const };
-const DAYS = { id: 2, code: "harvest_date", name: "First harvest date", unit: "date", valueType: "date" as const, computation: "days_from_sowing" as const };
-const SOWN = { id: 3, code: "seeds_sown", name: "Seeds sown", unit: "seeds", valueType: "count" as const, computation: "none" as const };
-const FINAL = { id: 4, code: "emerged_final", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count" as const, computation: "none" as const };
+const TRAIT = { id: 1, code: "marketable_yield", betterWhen: "higher" as const, name: "Marketable yield", unit: "g per plot", valueType: "number" as const, computation: "none" as const };
+const DAYS = { id: 2, code: "harvest_date", betterWhen: "neither" as const, name: "First harvest date", unit: "date", valueType: "date" as const, computation: "days_from_sowing" as const };
+const SOWN = { id: 3, code: "seeds_sown", betterWhen: "neither" as const, name: "Seeds sown", unit: "seeds", valueType: "count" as const, computation: "none" as const };
+const FINAL = { id: 4, code: "emerged_final", betterWhen: "higher" as const, name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count" as const, computation: "none" as const };
 
 // Invented, deterministic data: entry effects, a site effect and a fixed pseudo-random plot error.
 function build(opts: { sites: number; noisySite?: number; emergedLow?: boolean; statuses?: ("accepted" | "submitted")[] }): AnalysisInput {

@@ -9,10 +9,10 @@ import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 // field that appears in the analysis or the stored snapshot later does not reach growers or the public.
 
 const traits = [
-  { id: 1, code: "marketable_yield", name: "Marketable yield", unit: "g", valueType: "number" as const, computation: "none" as const },
-  { id: 3, code: "seeds_sown", name: "Seeds sown", unit: "seeds", valueType: "count" as const, computation: "none" as const },
-  { id: 4, code: "emerged_final", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count" as const, computation: "none" as const },
-  { id: 5, code: "emergence_count", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count" as const, computation: "none" as const },
+  { id: 1, code: "marketable_yield", betterWhen: "higher" as const, name: "Marketable yield", unit: "g", valueType: "number" as const, computation: "none" as const },
+  { id: 3, code: "seeds_sown", betterWhen: "neither" as const, name: "Seeds sown", unit: "seeds", valueType: "count" as const, computation: "none" as const },
+  { id: 4, code: "emerged_final", betterWhen: "higher" as const, name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count" as const, computation: "none" as const },
+  { id: 5, code: "emergence_count", betterWhen: "higher" as const, name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count" as const, computation: "none" as const },
 ];
 
 /** Invented data: three entries (the first is the check), three sites (one not accepted), three blocks, every section filled. */

@@ -10,15 +10,15 @@ import { seededRandom } from "@/lib/domain/design/random";
 // is pinned, byte for byte, so a restructuring of the function cannot change what anyone is shown.
 
 const TRAITS: InputTrait[] = [
-  { id: 1, code: "marketable_yield", name: "Marketable yield", unit: "g", valueType: "number", computation: "none" },
-  { id: 2, code: "harvest_date", name: "First harvest date", unit: "date", valueType: "date", computation: "days_from_sowing" },
-  { id: 3, code: "seeds_sown", name: "Seeds sown", unit: "seeds", valueType: "count", computation: "none" },
-  { id: 4, code: "emerged_final", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", computation: "none" },
-  { id: 5, code: "emergence_count", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count", computation: "none" },
-  { id: 6, code: "bolting", name: "Bolting", unit: null, valueType: "yes_no", computation: "none" },
-  { id: 7, code: "notes", name: "Grower notes", unit: null, valueType: "text", computation: "none" },
-  { id: 8, code: "flowering", name: "Flowering", unit: "date", valueType: "date", computation: "days_from_transplant" },
-  { id: 9, code: "vigour", name: "Vigour", unit: null, valueType: "rating", computation: "none" },
+  { id: 1, code: "marketable_yield", betterWhen: "higher", name: "Marketable yield", unit: "g", valueType: "number", computation: "none" },
+  { id: 2, code: "harvest_date", betterWhen: "neither", name: "First harvest date", unit: "date", valueType: "date", computation: "days_from_sowing" },
+  { id: 3, code: "seeds_sown", betterWhen: "neither", name: "Seeds sown", unit: "seeds", valueType: "count", computation: "none" },
+  { id: 4, code: "emerged_final", betterWhen: "higher", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", computation: "none" },
+  { id: 5, code: "emergence_count", betterWhen: "higher", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count", computation: "none" },
+  { id: 6, code: "bolting", betterWhen: "lower", name: "Bolting", unit: null, valueType: "yes_no", computation: "none" },
+  { id: 7, code: "notes", betterWhen: "neither", name: "Grower notes", unit: null, valueType: "text", computation: "none" },
+  { id: 8, code: "flowering", betterWhen: "neither", name: "Flowering", unit: "date", valueType: "date", computation: "days_from_transplant" },
+  { id: 9, code: "vigour", betterWhen: "higher", name: "Vigour", unit: null, valueType: "rating", computation: "none" },
 ];
 const STATUSES: SubmissionState[] = ["accepted", "accepted", "submitted", "returned", "draft"];
 const REASONS = [null, null, null, null, "died", "animal_damage", "weather", "custom reason"];

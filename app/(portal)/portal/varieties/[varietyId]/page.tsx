@@ -54,14 +54,16 @@ export default async function VarietyHistoryPage({ params }: { params: Promise<{
                 ) : (
                   <div className="mt-2 space-y-1">
                     <p>
-                      <strong>
-                        Ranked {ordinal(s.rank!)} of {s.of}
-                      </strong>{" "}
-                      on {s.trait}: {formatNumber(s.mean)} ({formatNumber(s.percentOfTrialMean, 0)}% of the trial mean){s.letter ? `, group ${s.letter}` : ""}.
+                      <strong>{s.rank !== null ? `Ranked ${ordinal(s.rank)} of ${s.of}` : `One of ${s.of} entries`}</strong> on {s.trait}
+                      {s.rank === null ? " (no better direction set, so not ranked)" : ""}: {formatNumber(s.mean)} ({formatNumber(s.percentOfTrialMean, 0)}% of the trial mean
+                      {s.percentOfCheck !== null ? `, ${formatNumber(s.percentOfCheck, 0)}% of the check${s.beyondLsd === null ? "" : s.beyondLsd ? ", a difference larger than the LSD" : ", within the LSD of the check"}` : ""})
+                      {s.letter ? `, group ${s.letter}` : ""}.
                     </p>
-                    <p className="text-sm">
-                      Highest at {s.topAt} of {s.sitesAnalysed} analysed sites. Site ranks: {s.siteRanks.map((r) => `${r.siteName} ${ordinal(r.rank)}`).join(", ")}.
-                    </p>
+                    {s.topAt !== null && (
+                      <p className="text-sm">
+                        Ranked first ({s.topWord}) at {s.topAt} of {s.sitesAnalysed} analysed sites. Site ranks: {s.siteRanks.map((r) => `${r.siteName} ${r.rank !== null ? ordinal(r.rank) : "–"}`).join(", ")}.
+                      </p>
+                    )}
                   </div>
                 )}
               </Card>
