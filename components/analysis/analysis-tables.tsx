@@ -11,7 +11,8 @@ export type EntryLabel = (e: { blindCode: string; varietyName?: string | null })
  * An entry mean as the tables and charts need it. Staff rows carry the variety and the check flag;
  * growers' rows before publication carry the blind code only; public rows have no internal ids.
  */
-export type MeanRow = Pick<EntryResult, "blindCode" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank"> & { varietyName?: string | null; isCheck?: boolean };
+export type MeanRow = Pick<EntryResult, "blindCode" | "mean" | "lsMean" | "se" | "n" | "letter" | "rank"> &
+  Partial<Pick<EntryResult, "percentOfCheck" | "checkDifference" | "beyondLsd">> & { varietyName?: string | null; isCheck?: boolean };
 /** A germination row with or without the variety name. */
 export type GerminationRowView = Omit<GerminationRow, "entryId" | "siteId" | "varietyName"> & { varietyName?: string | null };
 type Labelled<T> = T & { shown: string };
@@ -26,26 +27,56 @@ const SOURCE_WORDS: Record<AnovaRow["source"], string> = {
   residual: "Error",
 };
 
-/** Entry means with SE, n, rank and letters; sortable and filterable. */
-export function MeansTable({ means, label, unit, caption, testId }: { means: MeanRow[]; label: EntryLabel; unit: string; caption: string; testId?: string }) {
+/** % of check as a cell: "95%", the difference, and a mark when it is larger than the LSD. */
+function CheckCell({ row }: { row: MeanRow }) {
+  if (row.percentOfCheck === null || row.percentOfCheck === undefined) return <span>–</span>;
+  if (row.isCheck) return <span>100 (check)</span>;
+  const diff = row.checkDifference ?? 0;
+  return (
+    <span>
+      {formatNumber(row.percentOfCheck, 0)}
+      <span className="text-loam-700">
+        {" "}
+        ({diff > 0 ? "+" : diff < 0 ? "−" : "±"}
+        {formatNumber(Math.abs(diff))})
+      </span>
+      {row.beyondLsd && <span title="differs from the check by more than the LSD 0.05"> ◆</span>}
+    </span>
+  );
+}
+
+/**
+ * Entry means with SE, n, rank, % of check and letters; sortable and filterable. Listed in the stated
+ * order (`order`, from orderWords): best first when the trait has a direction, else lowest first with no rank.
+ */
+export function MeansTable({ means, label, unit, caption, order, testId }: { means: MeanRow[]; label: EntryLabel; unit: string; caption: string; order?: string; testId?: string }) {
   // The shown name is part of the data, because the table caches accessor values per row.
   const rows: Labelled<MeanRow>[] = means.map((m) => ({ ...m, shown: label(m) }));
   const showLs = means.some((m) => m.lsMean !== null && Math.abs(m.lsMean - m.mean) > 1e-9);
+  const ranked = means.some((m) => m.rank !== null);
+  const withCheck = means.some((m) => m.percentOfCheck !== null && m.percentOfCheck !== undefined);
   const columns: ColumnDef<Labelled<MeanRow>, unknown>[] = [
-    { id: "rank", header: "Rank", accessorFn: (m) => m.rank },
+    ...(ranked ? [{ id: "rank", header: "Rank", accessorFn: (m: MeanRow) => m.rank } as ColumnDef<Labelled<MeanRow>, unknown>] : []),
     { id: "entry", header: "Entry", accessorFn: (m) => m.shown, cell: (c) => (
       <span>
         {c.getValue() as string}
         {c.row.original.isCheck && <span className="ml-1 rounded bg-husk-100 px-1 text-xs font-semibold">check</span>}
       </span>
     ) },
-    { id: "mean", header: `Mean (${unit})`, accessorFn: (m) => m.mean, cell: (c) => formatNumber(c.getValue() as number) },
+    { id: "mean", header: `Mean (${unit})`, accessorFn: (m) => m.lsMean ?? m.mean, cell: (c) => formatNumber(c.row.original.mean) },
     ...(showLs ? [{ id: "lsMean", header: "LS mean", accessorFn: (m: MeanRow) => m.lsMean, cell: (c: { getValue: () => unknown }) => formatNumber(c.getValue() as number | null) } as ColumnDef<Labelled<MeanRow>, unknown>] : []),
+    ...(withCheck ? [{ id: "percentOfCheck", header: "% of check", accessorFn: (m: MeanRow) => m.percentOfCheck, cell: (c: { row: { original: MeanRow } }) => <CheckCell row={c.row.original} /> } as ColumnDef<Labelled<MeanRow>, unknown>] : []),
     { id: "se", header: "± SE", accessorFn: (m) => m.se, cell: (c) => formatNumber(c.getValue() as number) },
     { id: "n", header: "Plots", accessorFn: (m) => m.n },
     { id: "letter", header: "Group", accessorFn: (m) => m.letter ?? "", cell: (c) => <span className="font-mono">{(c.getValue() as string) || "–"}</span> },
   ];
-  return <DataTable pageSize={null} data={rows} columns={columns} caption={caption} filterLabel="Filter entries" initialSort={[{ id: "rank", desc: false }]} testId={testId} />;
+  const notes = [order && `Listed ${order}.`, withCheck && "% of check: the entry's mean as a share of the check's (check = 100), with the difference in brackets; ◆ marks a difference larger than the LSD 0.05."].filter(Boolean).join(" ");
+  return (
+    <div className="space-y-1">
+      <DataTable pageSize={null} data={rows} columns={columns} caption={caption} filterLabel="Filter entries" initialSort={[ranked ? { id: "rank", desc: false } : { id: "mean", desc: false }]} testId={testId} />
+      {notes && <p className="text-sm text-loam-700">{notes}</p>}
+    </div>
+  );
 }
 
 /** The ANOVA table in plain words, in the model's order (sorting it would break the reading order of sources). */

@@ -11,6 +11,8 @@ import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteRes
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { SharingPanel } from "./sharing-panel";
 import { LazyDetails } from "./lazy-details";
+import { DirectionPanel } from "./direction-panel";
+import { orderWords } from "@/lib/domain/analysis/ranking";
 
 /** URL search string for settings; the same string is the API query, the export query and the page URL. */
 export function settingsQuery(s: AnalysisSettings): string {
@@ -92,6 +94,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               ))}
             </select>
             <p className="text-sm text-loam-700">Analysed as {result.trait.analysedAs}.</p>
+            <DirectionPanel trialId={trialId} trait={result.trait} editable={staff && result.trial.status !== "archived"} />
           </div>
           <fieldset className="space-y-1">
             <legend className="text-sm font-semibold">Sites</legend>
@@ -187,7 +190,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
               <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} testId="means-chart" />
               <div className="space-y-2">
-                <MeansTable means={result.combined.means} label={label} unit={unit} caption="Combined entry means" testId="means-table" />
+                <MeansTable means={result.combined.means} label={label} unit={unit} order={orderWords(result.trait)} caption="Combined entry means" testId="means-table" />
                 <p className="text-sm">
                   CV {formatNumber(result.combined.cv, 1)}% · {result.combined.n} plots · entries {formatP(result.combined.entryP)} · entry × site {formatP(result.combined.interactionP)}
                   {result.combined.bartlett && ` · Bartlett ${formatP(result.combined.bartlett.p)}`} · {result.combined.comparisonNote}
@@ -245,7 +248,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               >
                 {s.result && (
                   <div className="space-y-3 pb-3">
-                    <MeansTable means={s.result.means} label={label} unit={unit} caption={`Entry means at ${s.siteName}`} />
+                    <MeansTable means={s.result.means} label={label} unit={unit} order={orderWords(result.trait)} caption={`Entry means at ${s.siteName}`} />
                     <p className="text-sm">{s.result.comparisonNote.charAt(0).toUpperCase() + s.result.comparisonNote.slice(1)}</p>
                     <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
                   </div>

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, eq, inArray, or, sql } from "drizzle-orm";
 import type { Tx } from "../index";
 import { enrolments, observations, plots, programCoordinators, seasons, seedLots, siteCooperators, sites, trialEntries, trialTraits, traits, trials, users, varieties, crops } from "../schema";
-import type { PlotUnit, TrialDesign, TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { BetterWhen, PlotUnit, TrialDesign, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import type { SitePlot } from "@/lib/domain/design/site-layout";
 import { insertAudit } from "../audit";
 import { isDuplicateKey, requireStaff, type LockedTrial } from "../access";
@@ -295,4 +295,20 @@ export async function updateSowingDate(tx: Tx, p: { viewer: Viewer; trialId: num
     oldValue: { sownOn: p.enrolment.sownOn },
     newValue: { sownOn: p.sownOn, valuesAtSite: p.valuesAtSite },
   });
+}
+
+/**
+ * Sets (or, with null, clears back to the library's default) the trial's direction for one of its traits,
+ * with an audit entry. Returns false when the trial does not record the trait.
+ */
+export async function updateTrialTraitDirection(tx: Tx, p: { viewer: Viewer; trialId: number; traitId: number; betterWhen: BetterWhen | null }): Promise<{ previous: BetterWhen | null } | null> {
+  const [row] = await tx
+    .select({ id: trialTraits.id, betterWhen: trialTraits.betterWhen })
+    .from(trialTraits)
+    .where(and(eq(trialTraits.trialId, p.trialId), eq(trialTraits.traitId, p.traitId)))
+    .for("update");
+  if (!row) return null;
+  await tx.update(trialTraits).set({ betterWhen: p.betterWhen }).where(eq(trialTraits.id, row.id));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "set_direction", entity: "trial_trait", entityId: row.id, trialId: p.trialId, oldValue: { betterWhen: row.betterWhen }, newValue: { traitId: p.traitId, betterWhen: p.betterWhen } });
+  return { previous: row.betterWhen };
 }

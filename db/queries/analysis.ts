@@ -229,7 +229,9 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
       (SELECT COALESCE(GROUP_CONCAT(CONCAT(te.id, ':', te.blind_code, ':', COALESCE(sl.label_germination_pct, '')) ORDER BY te.id), '')
          FROM trial_entries te LEFT JOIN seed_lots sl ON sl.id = te.seed_lot_id WHERE te.trial_id = ${trialId}) AS entries,
       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(p.id), 0)) FROM plots p WHERE p.trial_id = ${trialId}) AS plots,
-      (SELECT CONCAT(updated_at, ':', status) FROM trials WHERE id = ${trialId}) AS trial
+      (SELECT CONCAT(updated_at, ':', status) FROM trials WHERE id = ${trialId}) AS trial,
+      (SELECT COALESCE(GROUP_CONCAT(CONCAT(tt.trait_id, ':', COALESCE(tt.better_when, t.better_when)) ORDER BY tt.trait_id), '')
+         FROM trial_traits tt JOIN traits t ON t.id = tt.trait_id WHERE tt.trial_id = ${trialId}) AS directions
   `);
   const first = (row as unknown as Record<string, unknown>[])[0] ?? {};
   return Object.values(first).map((v) => (v instanceof Date ? v.toISOString() : String(v ?? ""))).join("|");

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { BETTER_WHEN } from "@/lib/domain/vocabulary/enums";
 import { idParam } from "./common";
 
 // Analysis settings arrive as URL search parameters (the page's controls and outside tools alike).
@@ -68,4 +69,11 @@ export const shareResultsSchema = z.object({
   trialId: z.coerce.number().int().positive(),
   siteId: z.coerce.number({ error: "Choose a site." }).int().positive("Choose a site."),
   shared: z.enum(["1", "0"]).transform((v) => v === "1"),
+});
+
+/** Which way is better for one of a trial's traits; "default" goes back to the trait library's. */
+export const traitDirectionSchema = z.object({
+  trialId: z.coerce.number().int().positive(),
+  traitId: z.coerce.number({ error: "Choose a trait." }).int().positive("Choose a trait."),
+  betterWhen: z.enum([...BETTER_WHEN, "default"], { error: "Choose higher is better, lower is better, or no preference." }).transform((v) => (v === "default" ? null : v)),
 });

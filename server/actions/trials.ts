@@ -3,8 +3,9 @@ import "server-only";
 import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
+import { traitDirectionSchema } from "@/lib/validation/analysis";
 import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
-import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry } from "@/server/trials/design";
+import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry, setTraitDirection } from "@/server/trials/design";
 import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
@@ -69,4 +70,16 @@ export const changeTrialStatus = defineAction({ roles: STAFF, schema: changeStat
   revalidatePath(trialPath(input.trialId));
   revalidatePath("/portal/trials");
   return { ok: true, message: `Trial is now ${STATUS_LABELS[input.status].toLowerCase()}.` };
+});
+
+export const setDirection = defineAction({ roles: STAFF, schema: traitDirectionSchema }, async (input, viewer) => {
+  await setTraitDirection(viewer, input);
+  revalidatePath(`${trialPath(input.trialId)}/analysis`);
+  return {
+    ok: true,
+    message:
+      input.betterWhen === null
+        ? "Back to the trait library's direction. Rankings now follow it; published versions keep theirs until you publish again."
+        : `Saved: ${input.betterWhen === "neither" ? "no preference, so nothing is ranked or called best" : `${input.betterWhen} is better`}. Published versions keep theirs until you publish again.`,
+  };
 });

@@ -11,13 +11,14 @@ import {
   listTrialTraitIds,
   updateTrialDesign,
   updateTrialStatus,
+  updateTrialTraitDirection,
   type NewTrialRow,
   type TrialDesignRow,
 } from "@/db/mutations/trials";
 import { blindCodes } from "@/lib/domain/design/blind-codes";
 import { newSeed } from "@/lib/domain/design/random";
 import { canEditDesign, canEditTraits, designLockReason, statusChangeProblem } from "@/lib/domain/design/status";
-import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { BetterWhen, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
 import { AppError } from "@/lib/errors";
 
@@ -92,5 +93,19 @@ export async function moveTrialStatus(viewer: Viewer, input: { trialId: number; 
     const problem = statusChangeProblem(state, input.status);
     if (problem) throw new AppError("conflict", problem);
     await updateTrialStatus(tx, { viewer, trial, status: input.status });
+  });
+}
+
+/**
+ * Sets which way is better for one trait of the trial (null: the trait library's default). Rankings,
+ * "best" claims and the next published version follow it; versions already published keep theirs.
+ * An archived trial is closed.
+ */
+export async function setTraitDirection(viewer: Viewer, input: { trialId: number; traitId: number; betterWhen: BetterWhen | null }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    if (trial.status === "archived") throw new AppError("conflict", "This trial is archived, so its settings can no longer change.");
+    const done = await updateTrialTraitDirection(tx, { viewer, ...input });
+    if (!done) throw new AppError("not_found", "That trait is not recorded in this trial.");
   });
 }

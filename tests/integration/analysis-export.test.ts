@@ -82,7 +82,7 @@ describe("analysis exports", () => {
 
       const csv = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}&format=csv&table=means`), ctx());
       const text = await csv.text();
-      expect(text.split("\r\n")[0]).toBe("Scope,Entry code,Variety,Check,Mean,LS mean,SE,Plots,Group,Rank,LSD 0.05,CV %");
+      expect(text.split("\r\n")[0]).toBe("Scope,Entry code,Variety,Check,Mean,LS mean,SE,Plots,Group,Rank,% of check,Difference from check,Beyond LSD,LSD 0.05,CV %");
       const first = json.combined!.means[0]!;
       expect(text).toContain(`All sites,${first.blindCode},${first.varietyName},${first.isCheck},${first.mean},`);
     } finally {

@@ -2,6 +2,7 @@
  * The analysis as plain tables for spreadsheets and CSV: the same result DTO the page shows, so the
  * numbers cannot drift apart. lib/domain/spreadsheets/write turns them into files and makes every cell safe.
  */
+import { inStatedOrder, orderWords } from "./ranking";
 import type { AnalysisResult } from "./types";
 
 export type Cell = string | number | boolean | null;
@@ -32,6 +33,7 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
       ["Crop", result.trial.crop],
       ["Trait", result.trait.name],
       ["Analysed as", result.trait.analysedAs],
+      ["Order", `${orderWords(result.trait)}${result.trait.betterWhen === "neither" ? "; not ranked" : ""}`],
       ["Sites", s.siteModel === "random" ? "random (entries tested against entry x site)" : "fixed (entries tested against pooled error)"],
       ["Mean comparison", s.separation === "lsd" ? "protected LSD, alpha 0.05" : "Tukey HSD, alpha 0.05"],
       ["Data used", s.includeUnaccepted ? "accepted and not yet accepted" : "accepted only"],
@@ -51,9 +53,9 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
   ];
   const means: ExportTable = {
     name: "Means",
-    columns: ["Scope", "Entry code", "Variety", "Check", "Mean", "LS mean", "SE", "Plots", "Group", "Rank", "LSD 0.05", "CV %"],
+    columns: ["Scope", "Entry code", "Variety", "Check", "Mean", "LS mean", "SE", "Plots", "Group", "Rank", "% of check", "Difference from check", "Beyond LSD", "LSD 0.05", "CV %"],
     rows: scopes.flatMap(({ scope, block }) =>
-      block.means.map((m): Cell[] => [scope, m.blindCode, name(m), m.isCheck, m.mean, m.lsMean, m.se, m.n, m.letter, m.rank, block.lsd, block.cv]),
+      inStatedOrder(block.means).map((m): Cell[] => [scope, m.blindCode, name(m), m.isCheck, m.mean, m.lsMean, m.se, m.n, m.letter, m.rank, m.percentOfCheck, m.checkDifference, m.beyondLsd, block.lsd, block.cv]),
     ),
   };
   const anova: ExportTable = {
