@@ -1,5 +1,16 @@
 "use client";
-import { inStatedOrder } from "@/lib/domain/analysis/ranking";
+import { extremeWord, inStatedOrder, orderWords } from "@/lib/domain/analysis/ranking";
+import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
+
+/** Which way is better for the charted trait; without it the charts state the order and claim no best. */
+export type ChartDirection = { betterWhen: BetterWhen; computation: string };
+const PLAIN: ChartDirection = { betterWhen: "neither", computation: "none" };
+
+/** The entry that comes first among `rows` for the direction: the best one, or the lowest when there is no preference. */
+function firstOf<T extends { mean: number; entry: string }>(rows: T[], direction: ChartDirection): T | undefined {
+  const sign = direction.betterWhen === "higher" ? -1 : 1;
+  return [...rows].sort((a, b) => sign * (a.mean - b.mean))[0];
+}
 import * as Plot from "@observablehq/plot";
 import type { EmergenceAnalysis } from "@/lib/domain/analysis/types";
 import { formatNumber } from "@/lib/domain/analysis/format";
@@ -25,14 +36,14 @@ function entryScales(order: string[]) {
 }
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
-export function MeansChart({ means, lsd, label, unit, title, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; testId?: string }) {
+export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; direction?: ChartDirection; testId?: string }) {
   const rows = inStatedOrder(means).map((m) => {
       const centre = m.lsMean ?? m.mean;
       const half = lsd !== null ? lsd / 2 : m.se;
       return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };
     });
   const bars = lsd !== null ? `Bars are half an LSD (${formatNumber(lsd)}) each side, so entries whose bars do not overlap differ.` : "Bars are ± one standard error.";
-  const summary = `${title}, highest first: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
+  const summary = `${title}, ${orderWords(direction)}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
   return (
     <Chart
       title={title}
@@ -55,16 +66,14 @@ export function MeansChart({ means, lsd, label, unit, title, testId }: { means: 
 }
 
 /** Entry means per site, sites ordered from poorest to best: crossing lines are the entry × site interaction. */
-export function InteractionChart({ cells, order, unit }: { cells: SiteCell[]; order: string[]; unit: string }) {
+export function InteractionChart({ cells, order, unit, direction = PLAIN }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection }) {
   const siteMeans = siteMeanMap(cells);
   const sites = [...siteMeans.entries()].sort((a, b) => a[1].mean - b[1].mean).map(([, s]) => s.name);
   // A line joins its points in data order, so the points go in the order of the sites on the axis.
   const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean })).sort((a, b) => sites.indexOf(a.site) - sites.indexOf(b.site));
-  const best = sites.map((site) => {
-    const top = data.filter((d) => d.site === site).sort((a, b) => b.mean - a.mean)[0];
-    return `${site}: ${top?.entry ?? "–"}`;
-  });
-  const summary = `Entry means at each site, sites ordered from lowest to highest site mean. Top entry per site — ${best.join("; ")}. Lines that cross show entries changing rank between sites.`;
+  const first = sites.map((site) => `${site}: ${firstOf(data.filter((d) => d.site === site), direction)?.entry ?? "–"}`);
+  const firstWords = direction.betterWhen === "neither" ? `${extremeWord(direction, "first")} entry per site` : `Best (${extremeWord(direction, "first")}) entry per site`;
+  const summary = `Entry means at each site, sites ordered from lowest to highest site mean. ${firstWords} — ${first.join("; ")}. Lines that cross show entries changing places between sites.`;
   return (
     <Chart
       title="Entry × site: means at each site"
@@ -116,14 +125,15 @@ function siteMeanMap(cells: SiteCell[]) {
 }
 
 /** Site mean on x, each entry's mean there on y: a steep line is an entry that responds to good sites. */
-export function SiteResponseChart({ cells, order, unit }: { cells: SiteCell[]; order: string[]; unit: string }) {
+export function SiteResponseChart({ cells, order, unit, direction = PLAIN }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection }) {
   const siteMeans = siteMeanMap(cells);
   const data = cells.map((c) => ({ siteMean: siteMeans.get(c.siteName)!.mean, site: c.siteName, entry: c.entry, mean: c.mean }));
   const ordered = [...siteMeans.values()].sort((a, b) => a.mean - b.mean);
   const poorest = ordered[0]!;
   const best = ordered.at(-1)!;
-  const topAt = (name: string) => data.filter((d) => d.site === name).sort((a, b) => b.mean - a.mean)[0]?.entry ?? "–";
-  const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. Top entry at the lowest-yielding site: ${topAt(poorest.name)}; at the highest: ${topAt(best.name)}.`;
+  const firstAt = (name: string) => firstOf(data.filter((d) => d.site === name), direction)?.entry ?? "–";
+  const firstWords = direction.betterWhen === "neither" ? `${extremeWord(direction, "first")} entry` : `Best (${extremeWord(direction, "first")}) entry`;
+  const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. ${firstWords} at the site with the lowest mean: ${firstAt(poorest.name)}; at the highest: ${firstAt(best.name)}.`;
   return (
     <Chart
       title="Site comparison: entry response to site mean"

@@ -188,7 +188,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         {result.combined ? (
           <Card title={`Across ${result.combined.sites} sites`}>
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} testId="means-chart" />
+              <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} direction={result.trait} testId="means-chart" />
               <div className="space-y-2">
                 <MeansTable means={result.combined.means} label={label} unit={unit} order={orderWords(result.trait)} caption="Combined entry means" testId="means-table" />
                 <p className="text-sm">
@@ -215,8 +215,8 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               <AnovaTable rows={result.combined.rows} caption="Combined analysis of variance" />
             </details>
             <div className="mt-6 grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <InteractionChart cells={siteCells} order={order} unit={unit} />
-              <SiteResponseChart cells={siteCells} order={order} unit={unit} />
+              <InteractionChart cells={siteCells} order={order} unit={unit} direction={result.trait} />
+              <SiteResponseChart cells={siteCells} order={order} unit={unit} direction={result.trait} />
             </div>
           </Card>
         ) : (

@@ -7,11 +7,7 @@ import { BETTER_WHEN, type BetterWhen } from "@/lib/domain/vocabulary/enums";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
 
-const CHOICE_WORDS: Record<BetterWhen, string> = {
-  higher: "Higher is better (e.g. yield, quality)",
-  lower: "Lower is better (e.g. days to emergence, defects)",
-  neither: "No preference (e.g. days to maturity: earlier or later can each suit a grower)",
-};
+const CHOICE_WORDS: Record<BetterWhen, string> = { higher: "Higher is better", lower: "Lower is better", neither: "No preference" };
 
 /** Which way is better for the trait shown: what every ranking and "best" claim on the page follows. */
 export function DirectionPanel({ trialId, trait, editable }: { trialId: number; trait: { id: number; name: string; betterWhen: BetterWhen; computation: string }; editable: boolean }) {
@@ -30,19 +26,22 @@ export function DirectionPanel({ trialId, trait, editable }: { trialId: number; 
         Which way is better for {trait.name.toLowerCase()}?
       </label>
       <div className="flex flex-wrap items-center gap-2">
-        <select id="betterWhen" name="betterWhen" defaultValue={trait.betterWhen} className="block min-h-11 rounded-lg border border-loam-300 bg-white px-3 text-base">
+        <select id="betterWhen" name="betterWhen" defaultValue={trait.betterWhen} className="block min-h-11 min-w-0 max-w-full rounded-lg border border-loam-300 bg-white px-3 text-base">
           {BETTER_WHEN.map((b) => (
             <option key={b} value={b}>
               {CHOICE_WORDS[b]}
             </option>
           ))}
-          <option value="default">The trait library&apos;s default</option>
+          <option value="default">Trait library default</option>
         </select>
         <SubmitButton variant="secondary" pendingText="Saving…">
           Save direction
         </SubmitButton>
       </div>
-      <p className="text-sm text-loam-700">{summary}</p>
+      <p className="text-sm text-loam-700">
+        {summary} Usual choices: yield and quality higher; days to emergence and defects lower; days to maturity no preference, since earlier
+        or later can each suit a grower.
+      </p>
       <FormMessage state={state} />
     </form>
   );
