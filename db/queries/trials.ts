@@ -1,4 +1,5 @@
 import "server-only";
+import type { KitEntry } from "@/lib/domain/design/kits";
 import { and, asc, count, eq, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
@@ -107,6 +108,8 @@ export interface LayoutPlot {
   /** Only for viewers allowed the blind-code key; null otherwise. */
   variety: string | null;
   isCheck: boolean | null;
+  /** treated seed in this plot's packet: shown to everyone, for their safety */
+  treated: boolean;
 }
 
 /**
@@ -167,11 +170,18 @@ export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId
     .where(eq(plots.enrolmentId, row.enrolmentId))
     .orderBy(asc(plots.block), asc(plots.position));
   const traitRows = await listTrialTraits(row.trialId);
-  const [treated] = await db
-    .select({ n: count() })
+  // Which codes are treated is safety information every viewer gets; the seed lot is for the staff who pack kits.
+  const entryRows = await db
+    .select({ blindCode: trialEntries.blindCode, treated: seedLots.treated, source: seedLots.source, lotCode: seedLots.lotCode })
     .from(trialEntries)
-    .innerJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-    .where(and(eq(trialEntries.trialId, row.trialId), eq(seedLots.treated, true)));
+    .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+    .where(eq(trialEntries.trialId, row.trialId))
+    .orderBy(asc(trialEntries.blindCode));
+  const kitEntries: KitEntry[] = entryRows.map((e) => ({
+    blindCode: e.blindCode,
+    treated: !!e.treated,
+    lot: viewer.role !== "cooperator" && e.lotCode ? `${e.source ?? "source not recorded"} · ${e.lotCode}` : null,
+  }));
   const layoutPlots: LayoutPlot[] = plotRows.map((r) => ({
     id: r.id,
     plotCode: r.plotCode,
@@ -182,8 +192,9 @@ export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId
     blindCode: r.blindCode,
     variety: showKey ? r.variety : null,
     isCheck: showKey ? r.isCheck : null,
+    treated: !!r.treated,
   }));
-  return { ...row, showKey, plots: layoutPlots, traits: traitRows, hasTreatedSeed: (treated?.n ?? 0) > 0 };
+  return { ...row, showKey, plots: layoutPlots, traits: traitRows, entries: kitEntries, hasTreatedSeed: kitEntries.some((e) => e.treated) };
 }
 export type SiteLayout = NonNullable<Awaited<ReturnType<typeof getSiteLayout>>>;
 

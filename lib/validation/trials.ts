@@ -84,6 +84,6 @@ export const randomiseSchema = z.object({ trialId: id(), siteId: id() });
 
 export const changeStatusSchema = z.object({ trialId: id(), status: z.enum(TRIAL_STATUSES, { error: "Choose a status." }) });
 
-export const sheetKindSchema = z.enum(["map", "labels", "sheet"], { error: "Ask for a map, labels or a data sheet." });
+export const sheetKindSchema = z.enum(["map", "labels", "sheet", "packing"], { error: "Ask for a map, labels, a data sheet or a packing list." });
 
 export const pageSizeSchema = z.enum(["LETTER", "A4"]).default("LETTER");

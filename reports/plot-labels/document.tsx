@@ -1,6 +1,6 @@
 import { Document, Image, Page, Text, View } from "@react-pdf/renderer";
 import type { SiteSheetData } from "../shared/sheet-data";
-import { ACCENT, RULE, base, registerFonts } from "../shared/pdf";
+import { ACCENT, RULE, TREATED_INK, base, registerFonts } from "../shared/pdf";
 
 // Three labels across, cut along the dashed lines; each carries only what a grower needs at the plot:
 // plot id, blind code, block and a QR code for the plot's page (no variety names).
@@ -26,6 +26,7 @@ export function PlotLabelsDocument({ data }: { data: SiteSheetData }) {
                 <View>
                   <Text style={{ fontSize: 7, color: "#4f6446" }}>{data.trialCode}</Text>
                   <Text style={{ fontSize: 24, fontWeight: 700, color: ACCENT, letterSpacing: 1.5 }}>{p.blindCode}</Text>
+                  {p.treated ? <Text style={{ fontSize: 7.5, fontWeight: 700, color: TREATED_INK }}>TREATED SEED · gloves · not food or feed</Text> : null}
                 </View>
                 <View>
                   <Text style={{ fontSize: 9, fontWeight: 600 }}>Plot {p.plotCode}</Text>

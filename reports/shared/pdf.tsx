@@ -25,6 +25,8 @@ export const INK = "#1b2618";
 export const ACCENT = "#1b5c2e";
 export const RULE = "#9aab8f";
 export const SHADE = "#f3f5f1";
+/** The caution colour treated-seed marks print in (dark amber; legible in greyscale too). */
+export const TREATED_INK = "#8a4b00";
 
 export const base = StyleSheet.create({
   page: { fontFamily: "Inter", fontSize: 9, color: INK, padding: 28, paddingBottom: 40 },

@@ -1,3 +1,5 @@
+import type { PackingRow } from "@/lib/domain/design/kits";
+
 // The one DTO every site printable is rendered from. Built by the route from a scoped query; it never
 // carries variety names, so a printed sheet handed to a grower cannot unblind the trial.
 
@@ -9,6 +11,8 @@ export interface SheetPlot {
   tray: number | null;
   traySlot: number | null;
   blindCode: string;
+  /** the packet holds treated seed */
+  treated: boolean;
 }
 
 export interface SiteSheetData {
@@ -29,6 +33,8 @@ export interface SiteSheetData {
   plots: SheetPlot[];
   columns: { heading: string; when: string }[];
   cautions: { title: string; text: string }[];
+  /** one row per blind code: lot, treated, seeds to count (lots only for staff) */
+  packing: PackingRow[];
   /** Plot id -> PNG data URL of the QR code that opens the plot's page. */
   qrCodes?: Record<number, string>;
   /** Base address for the plot pages the QR codes open, e.g. https://seedplot.example. */

@@ -1,6 +1,6 @@
 import { Document, Page, Text, View } from "@react-pdf/renderer";
 import type { SheetPlot, SiteSheetData } from "../shared/sheet-data";
-import { ACCENT, base, Cautions, Footer, Protocol, RULE, SHADE, SheetHeader, registerFonts } from "../shared/pdf";
+import { ACCENT, base, Cautions, Footer, Protocol, RULE, SHADE, SheetHeader, TREATED_INK, registerFonts } from "../shared/pdf";
 
 // A 1020 flat seen from above, long side left to right: 4 inserts along, 3 across (12 six-cell inserts);
 // a 72-cell view is 12 cells along and 6 across.
@@ -31,6 +31,8 @@ function InsertFlat({ tray, plots }: { tray: number; plots: SheetPlot[] }) {
                   <Text style={{ fontSize: 18, fontWeight: 700, letterSpacing: 1 }}>{p.blindCode}</Text>
                   <Text style={{ fontSize: 7.5 }}>
                     Plot {p.plotCode} · Block {p.block}
+                    {p.treated ? " · " : ""}
+                    {p.treated ? <Text style={{ fontWeight: 700, color: TREATED_INK }}>TREATED</Text> : null}
                   </Text>
                 </>
               ) : (
@@ -59,6 +61,7 @@ function CellFlat({ tray, plots, cellsPerPlot }: { tray: number; plots: SheetPlo
             <View key={i} style={{ width: 44, height: 30, borderWidth: 0.5, borderColor: RULE, padding: 2, backgroundColor: p ? blockShade(p.block) : "#ffffff" }}>
               <Text style={{ fontSize: 6, color: "#4f6446" }}>{i + 1}</Text>
               <Text style={{ fontSize: 9, fontWeight: 700 }}>{p?.blindCode ?? ""}</Text>
+              {p?.treated ? <Text style={{ fontSize: 5.5, fontWeight: 700, color: TREATED_INK }}>TREATED</Text> : null}
             </View>
           );
         })}
@@ -78,7 +81,10 @@ function BedRows({ plots }: { plots: SheetPlot[] }) {
               <View key={p.id} style={{ width: 78, height: 46, borderWidth: 1, borderColor: ACCENT, marginRight: 3, marginBottom: 3, padding: 3, backgroundColor: blockShade(block) }}>
                 <Text style={{ fontSize: 7, color: "#4f6446" }}>#{p.position}</Text>
                 <Text style={{ fontSize: 15, fontWeight: 700 }}>{p.blindCode}</Text>
-                <Text style={{ fontSize: 7 }}>{p.plotCode}</Text>
+                <Text style={{ fontSize: 7 }}>
+                  {p.plotCode}
+                  {p.treated ? <Text style={{ fontWeight: 700, color: TREATED_INK }}> TREATED</Text> : null}
+                </Text>
               </View>
             ))}
           </View>
@@ -108,6 +114,7 @@ export function TrayMapDocument({ data }: { data: SiteSheetData }) {
         )}
         <Text style={{ fontSize: 7.5, marginTop: 2 }}>
           Shading changes from block to block. Codes are blind on purpose: sow each packet where its code appears.
+          {data.plots.some((p) => p.treated) ? " Codes marked TREATED hold treated seed: see Safety and handling below." : ""}
         </Text>
         <Protocol data={data} />
         <Cautions data={data} />

@@ -3,6 +3,7 @@ import QRCode from "qrcode";
 import type { SiteLayout } from "@/db/queries/trials";
 import type { SiteSheetData } from "@/reports/shared/sheet-data";
 import { cautionsFor, sheetColumns } from "@/lib/domain/design/cautions";
+import { packingList, treatedCodes } from "@/lib/domain/design/kits";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 
@@ -33,9 +34,10 @@ export async function buildSiteSheetData(layout: SiteLayout, opts: { appUrl: str
     protocol: layout.protocol,
     sownOn: layout.sownOn ? formatDate(layout.sownOn) : null,
     randomSeed: layout.randomSeed,
-    plots: layout.plots.map(({ id, plotCode, block, position, tray, traySlot, blindCode }) => ({ id, plotCode, block, position, tray, traySlot, blindCode })),
+    plots: layout.plots.map(({ id, plotCode, block, position, tray, traySlot, blindCode, treated }) => ({ id, plotCode, block, position, tray, traySlot, blindCode, treated })),
+    packing: packingList(layout.plots, layout.entries, layout),
     columns: sheetColumns(layout.traits, (day) => (layout.sownOn ? formatDate(addDays(layout.sownOn, day)) : null)).map(({ heading, when }) => ({ heading, when })),
-    cautions: cautionsFor({ hasTreatedSeed: layout.hasTreatedSeed, plotUnit: layout.plotUnit, growingSetup: layout.growingSetup }),
+    cautions: cautionsFor({ treatedCodes: treatedCodes(layout.entries), plotUnit: layout.plotUnit, growingSetup: layout.growingSetup }),
     qrCodes,
     appUrl: opts.appUrl,
     pageSize: opts.pageSize,

@@ -87,6 +87,44 @@ describe("site printables", () => {
     for (const p of layout.plots) expect(sheetText).toContain(p.plotCode);
   });
 
+  it("the packing list gives each code its lot, treated or not, and the seeds to count with spares", async () => {
+    const layout = (await getSiteLayout(coordinator, { trialId, siteId }))!;
+    const data = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "A4", withQr: false });
+    const text = pdfText(await renderSiteSheet("packing", data), "packing");
+    // 4 plots x one six-cell insert x 1 seed per cell = 24 seeds per code; 20% spare rounds up to 5: 29 to count.
+    const codes = [...new Set(layout.plots.map((p) => p.blindCode))].sort();
+    for (const code of codes) {
+      const lot = layout.entries.find((e) => e.blindCode === code)!;
+      const line = text.split("\n").find((l) => l.includes(` ${code} `))!;
+      expect(line).toBeDefined();
+      expect(line).toMatch(lot.treated ? /TREATED/ : /untreated/);
+      expect(line).toMatch(/Seed House · B\d/);
+      expect(line.trim().split(/\s+/).slice(-4)).toEqual(["4", "6", "5", "29"]);
+    }
+    expect(layout.entries.filter((e) => e.treated)).toHaveLength(1);
+    expect(text).toContain(`4 packets, ${4 * 29} seeds in all`);
+    for (const name of varietyNames) expect(text).not.toContain(name);
+  });
+
+  it("maps and labels mark the treated code and the caution names it, for growers too, without the seed lots", async () => {
+    const layout = (await getSiteLayout(coordinator, { trialId, siteId }))!;
+    const treated = layout.entries.find((e) => e.treated)!.blindCode;
+    const data = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "LETTER", withQr: false });
+    const map = pdfText(await renderSiteSheet("map", data), "map-treated");
+    expect(map).toContain(`The packet coded ${treated} holds treated seed`);
+    expect(map).toMatch(/not for food or feed/);
+    expect((map.match(/TREATED/g) ?? []).length).toBeGreaterThanOrEqual(4);
+    const labels = pdfText(await renderSiteSheet("labels", data), "labels-treated");
+    expect((labels.match(/TREATED SEED/g) ?? []).length).toBe(layout.plots.filter((p) => p.blindCode === treated).length);
+
+    const email = `${unique("grower")}@example.test`;
+    const [g] = await db.insert(s.users).values({ email, name: "Grower", role: "cooperator", passwordHash: "x" }).$returningId();
+    await db.insert(s.siteCooperators).values({ siteId, userId: g!.id });
+    const growerLayout = (await getSiteLayout({ id: g!.id, email, name: "Grower", role: "cooperator" }, { trialId, siteId }))!;
+    expect(growerLayout.entries.map((e) => e.lot)).toEqual([null, null, null, null]);
+    expect(growerLayout.entries.find((e) => e.treated)!.blindCode).toBe(treated);
+  });
+
   it("writes its files for a look", () => {
     console.log(`PDFs and PNG in ${dir}`);
   });

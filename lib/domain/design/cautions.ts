@@ -2,7 +2,8 @@
 // prescribing products or electrical work, which Seedplot has no business advising on.
 
 export interface CautionContext {
-  hasTreatedSeed: boolean;
+  /** blind codes whose packets hold treated seed */
+  treatedCodes: readonly string[];
   plotUnit: "insert" | "cells" | "bed_row";
   growingSetup: "indoor_lights" | "greenhouse" | "high_tunnel" | "field";
 }
@@ -14,10 +15,11 @@ export interface Caution {
 
 export function cautionsFor(c: CautionContext): Caution[] {
   const out: Caution[] = [];
-  if (c.hasTreatedSeed) {
+  if (c.treatedCodes.length > 0) {
+    const codes = c.treatedCodes.join(", ");
     out.push({
       title: "Treated seed in this kit",
-      text: "Some packets hold treated seed (marked on the packet and seed tag). Read the seed tag and follow its directions: wear gloves when handling, keep it away from children, animals, food and feed, and dispose of leftovers as local rules require. Organic certification may not allow it; check before sowing.",
+      text: `${c.treatedCodes.length === 1 ? `The packet coded ${codes} holds` : `The packets coded ${codes} hold`} treated seed (marked TREATED on the maps and labels). Read the seed tag and follow its directions: wear gloves when handling, keep it away from children and animals; treated seed is not for food or feed. Dispose of leftovers as the label and local rules require. Organic certification may not allow it; check before sowing.`,
     });
   }
   if (c.plotUnit !== "bed_row") {

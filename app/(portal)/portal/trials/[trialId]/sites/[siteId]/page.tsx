@@ -10,6 +10,7 @@ import { PrintButton } from "@/components/ui/print-button";
 import { CautionList, SiteMap } from "@/components/trials/site-layout-view";
 import { SitePlotsTable } from "@/components/trials/site-plots-table";
 import { cautionsFor, sheetColumns } from "@/lib/domain/design/cautions";
+import { treatedCodes } from "@/lib/domain/design/kits";
 import { addDays } from "@/lib/domain/schedule";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 
@@ -23,7 +24,7 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
   if (!trialId.success || !siteId.success) notFound();
   const layout = await getSiteLayout(viewer, { trialId: trialId.data, siteId: siteId.data });
   if (!layout) notFound();
-  const cautions = cautionsFor({ hasTreatedSeed: layout.hasTreatedSeed, plotUnit: layout.plotUnit, growingSetup: layout.growingSetup });
+  const cautions = cautionsFor({ treatedCodes: treatedCodes(layout.entries), plotUnit: layout.plotUnit, growingSetup: layout.growingSetup });
   const columns = sheetColumns(layout.traits, (day) => (layout.sownOn ? formatDate(addDays(layout.sownOn, day)) : null));
   const pdf = (kind: string) => `/portal/trials/${layout.trialId}/sites/${layout.siteId}/sheets?kind=${kind}`;
   const mapName = layout.plotUnit === "bed_row" ? "Field map" : "Tray map";
@@ -53,6 +54,11 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
             <a href={pdf("sheet")} className={buttonClasses("secondary")}>
               Field data sheet (PDF)
             </a>
+            {viewer.role !== "cooperator" && (
+              <a href={pdf("packing")} className={buttonClasses("secondary")}>
+                Kit packing list (PDF)
+              </a>
+            )}
             <PrintButton />
           </div>
           <p className="mt-2 text-sm text-loam-700">

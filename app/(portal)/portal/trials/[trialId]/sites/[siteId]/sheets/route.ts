@@ -21,7 +21,9 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     if (!params.success) throw new AppError("not_found", "That trial or site does not exist.");
     const search = new URL(request.url).searchParams;
     const kind = sheetKindSchema.safeParse(search.get("kind") ?? "map");
-    if (!kind.success) throw new AppError("bad_request", "Ask for a map, labels or a data sheet.");
+    if (!kind.success) throw new AppError("bad_request", "Ask for a map, labels, a data sheet or a packing list.");
+    // The packing list names seed lots, which could decode the blind codes: it is for the staff who pack kits.
+    if (kind.data === "packing" && viewer.role === "cooperator") throw new AppError("not_found", "That trial or site does not exist, or it is not one of yours.");
     const size = pageSizeSchema.safeParse(search.get("size") ?? undefined);
     if (!size.success) throw new AppError("bad_request", "Paper size must be Letter or A4.");
 
