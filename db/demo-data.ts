@@ -23,10 +23,10 @@ export const DEMO_SITES = [
 ] as const;
 
 export const DEMO_TRAITS = [
-  { code: "seeds_sown", betterWhen: "neither", name: "Seeds sown", unit: "seeds", valueType: "count", min: 0, max: 500, dueNote: "At sowing", computation: "none" },
+  { code: "seeds_sown", betterWhen: "neither", name: "Seeds sown", unit: "seeds", valueType: "count", min: 0, max: 500, dueNote: "At sowing", dueBy: 0, computation: "none" },
   { code: "emergence_count", betterWhen: "higher", name: "Seedlings emerged (count)", unit: "seedlings", valueType: "count", min: 0, max: 500, due: [5, 7, 10, 14], computation: "none", description: "Seedlings with cotyledons fully above the surface, counted on the scheduled days after sowing." },
-  { code: "emerged_final", betterWhen: "higher", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", min: 0, max: 500, dueNote: "14 days after sowing", computation: "none" },
-  { code: "emergence_date", betterWhen: "lower", name: "Emergence date", unit: "date", valueType: "date", dueNote: "When half the cells show a seedling", computation: "days_from_sowing", description: "Analysed as days to emergence from the sowing date." },
+  { code: "emerged_final", betterWhen: "higher", name: "Seedlings emerged (final)", unit: "seedlings", valueType: "count", min: 0, max: 500, dueNote: "14 days after sowing", dueBy: 14, computation: "none" },
+  { code: "emergence_date", betterWhen: "lower", name: "Emergence date", unit: "date", valueType: "date", dueNote: "When half the cells show a seedling", dueBy: 14, computation: "days_from_sowing", description: "Analysed as days to emergence from the sowing date." },
   { code: "harvest_date", betterWhen: "neither", name: "First harvest date", unit: "date", valueType: "date", dueNote: "At first marketable harvest", computation: "days_from_sowing", description: "Analysed as days to maturity from the sowing date." },
   { code: "marketable_yield", betterWhen: "higher", name: "Marketable yield", unit: "g per plot", valueType: "number", min: 0, max: 20000, dueNote: "At harvest", computation: "none" },
   { code: "quality", betterWhen: "higher", name: "Overall quality", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", computation: "none", description: "1 = unmarketable, 5 = acceptable, 9 = excellent." },

@@ -96,6 +96,7 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
           maxValue: "max" in t ? t.max : null,
           dueDaysAfterSowing: "due" in t ? [...t.due] : null,
           dueNote: "dueNote" in t ? t.dueNote : null,
+          dueByDay: "dueBy" in t ? t.dueBy : null,
           computation: t.computation,
           betterWhen: t.betterWhen,
           description: "description" in t ? t.description : null,
@@ -315,6 +316,12 @@ async function seedTrial(
         const dueDays = [5, 7, 10, 14].filter((d) => d < daysSinceSowing);
         for (const day of dueDays.slice(0, Math.max(0, dueDays.length - skipped))) {
           add("emergence_count", { valueNumber: emergenceDays.filter((d) => d <= day).length, observedOn: addDays(sownOn, day) }, day);
+        }
+        // Sites on schedule note the day half the cells showed a seedling once it is due (day 14).
+        if (skipped === 0 && daysSinceSowing > 14) {
+          const half = [...emergenceDays].sort((a, b) => a - b)[Math.ceil(seedsPerPlot / 2) - 1]!;
+          if (Number.isFinite(half)) add("emergence_date", { valueDate: addDays(sownOn, half) });
+          else add("emergence_date", { missingReason: "other", note: "Fewer than half the cells came up." });
         }
         continue;
       }

@@ -3,7 +3,9 @@ import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
 import { formatDate, ROLE_LABELS, SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
-import type { listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import type { listMyPublishedTrials, listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import { DUE_SOON_DAYS, type DueItem } from "@/lib/domain/schedule";
+import { plural } from "@/lib/domain/vocabulary/words";
 import type { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import type { listUsersForAdmin } from "@/db/queries/users";
 import type { listMyLayouts } from "@/db/queries/trials";
@@ -60,7 +62,7 @@ export function LateSitesList({ sites }: { sites: LateSites }) {
             <div>
               <Link href={`/portal/review/${s.trialId}/${s.siteId}`} className="font-semibold">{s.siteName}</Link> <span className="text-sm text-loam-700">· {s.trialCode}</span>
               <span className="block text-sm text-loam-700">
-                {s.late.length} overdue {s.late.length === 1 ? "count" : "counts"}, oldest due {formatDate(s.late[0]!.dueOn)}
+                Late: {s.late.map((i) => i.label).join(", ")}; oldest due {formatDate(s.late[0]!.dueOn)}
               </span>
             </div>
             <Badge tone="bad">{missing} values missing</Badge>
@@ -71,7 +73,70 @@ export function LateSitesList({ sites }: { sites: LateSites }) {
   );
 }
 
-export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnType<typeof listMySchedules>>; sites: Awaited<ReturnType<typeof listMySites>> }) {
+/** One owed item as a grower reads it: "Seeds sown — due 2 Nov, 0 of 20 plots". */
+function owedLine(i: DueItem) {
+  return `${i.label} — ${i.dueOn ? `due ${formatDate(i.dueOn)}` : i.when}, ${i.recorded} of ${i.expected} plots`;
+}
+
+function OwedList({ title, items, tone }: { title: string; items: DueItem[]; tone: string }) {
+  if (items.length === 0) return null;
+  return (
+    <div className="mt-2">
+      <p className={`text-sm font-semibold ${tone}`}>{title}</p>
+      <ul className="list-disc pl-5 text-sm">
+        {items.map((i) => (
+          <li key={`${i.traitId}:${i.occasion}`}>{owedLine(i)}</li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+/** What one site owes, or where its data set stands once sent: never "all in" while a value is missing. */
+function SiteOwed({ s }: { s: Awaited<ReturnType<typeof listMySchedules>>[number] }) {
+  const { summary } = s;
+  if (s.submissionStatus === "returned") {
+    return (
+      <div className="mt-2 rounded-lg border border-beet-300 bg-beet-50 p-2 text-sm">
+        <p className="font-semibold text-beet-700">Returned for corrections</p>
+        {s.reviewComment && <p className="mt-1">Your coordinator wrote: “{s.reviewComment}”</p>}
+        {s.openComments > 0 && <p className="mt-1">{plural(s.openComments, "comment")} on plots or values to look at.</p>}
+        <p className="mt-1">
+          <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>Open the form to correct and send again</Link>
+        </p>
+      </div>
+    );
+  }
+  if (s.submissionStatus === "submitted") return <p className="mt-2 text-sm">Sent for review{s.submittedAt ? ` on ${formatDate(s.submittedAt.toISOString().slice(0, 10))}` : ""}. Your coordinator is checking it; nothing to record unless it comes back.</p>;
+  if (s.submissionStatus === "accepted") return <p className="mt-2 text-sm text-sprout-700">Accepted by your coordinator. Thank you!</p>;
+  if (!s.sownOn) return <p className="mt-2 text-sm">No sowing date is recorded for this site yet; due dates start from it.</p>;
+  return (
+    <>
+      <p className="mt-1 text-sm">
+        <span className="font-semibold">
+          {summary.values.recorded} of {summary.values.expected} values recorded
+        </span>
+        {summary.allIn ? " — everything the form asks for is in. Check it, then send it for review." : "."}
+      </p>
+      <OwedList title="Late" items={summary.late} tone="text-beet-700" />
+      <OwedList title="Due today" items={summary.dueToday} tone="text-marigold-800" />
+      <OwedList title={`Due in the next ${DUE_SOON_DAYS} days`} items={summary.dueSoon} tone="text-loam-900" />
+      <OwedList title="When it happens" items={summary.atEvent} tone="text-loam-900" />
+    </>
+  );
+}
+
+export function MySchedules({
+  schedules,
+  sites,
+  published,
+}: {
+  schedules: Awaited<ReturnType<typeof listMySchedules>>;
+  sites: Awaited<ReturnType<typeof listMySites>>;
+  published: Awaited<ReturnType<typeof listMyPublishedTrials>>;
+}) {
+  // A returned data set is the first thing to deal with.
+  const ordered = [...schedules].sort((a, b) => Number(b.submissionStatus === "returned") - Number(a.submissionStatus === "returned"));
   return (
     <div className="grid gap-6 md:grid-cols-2">
       <Card title="What to record next">
@@ -79,7 +144,7 @@ export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnTyp
           <p className="text-loam-700">No active trials at your sites right now.</p>
         ) : (
           <ul className="space-y-4">
-            {schedules.map((s) => (
+            {ordered.map((s) => (
               <li key={s.enrolmentId} className="rounded-lg border border-husk-200 p-3">
                 <p className="font-semibold">
                   <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>{s.trialTitle}</Link>
@@ -87,23 +152,24 @@ export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnTyp
                 <p className="text-sm text-loam-700">
                   {s.siteName} · sown {formatDate(s.sownOn)} · {s.plotCount} plots
                 </p>
-                {s.late.length > 0 && (
-                  <p className="mt-2 text-sm font-semibold text-beet-700">
-                    Overdue: {s.late.map((i) => `${i.traitName} (day ${i.occasion})`).join(", ")}
-                  </p>
-                )}
-                {s.next ? (
-                  <p className="mt-1 text-sm">
-                    Next: <span className="font-semibold">{s.next.traitName}, day {s.next.occasion}</span> — due {formatDate(s.next.dueOn)} ({s.next.recorded} of {s.next.expected} plots recorded)
-                  </p>
-                ) : (
-                  <p className="mt-1 text-sm text-sprout-700">All scheduled counts are in. Thank you!</p>
-                )}
+                <SiteOwed s={s} />
               </li>
             ))}
           </ul>
         )}
       </Card>
+      <div className="space-y-6">
+        {published.length > 0 && (
+          <Card title="Published results from your sites">
+            <ul className="space-y-1">
+              {published.map((p) => (
+                <li key={`${p.code}:${p.siteName}`}>
+                  <Link href={`/results/${encodeURIComponent(p.code)}`}>{p.title}</Link> <span className="text-sm text-loam-700">({p.siteName})</span>
+                </li>
+              ))}
+            </ul>
+          </Card>
+        )}
       <Card title="My sites">
         <ul className="space-y-2">
           {sites.map((s) => (
@@ -116,6 +182,7 @@ export function MySchedules({ schedules, sites }: { schedules: Awaited<ReturnTyp
           ))}
         </ul>
       </Card>
+      </div>
     </div>
   );
 }

@@ -1,5 +1,6 @@
 import { Card } from "@/components/ui/card";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { DUE_SOON_DAYS, scheduleSummary, type DueItem } from "@/lib/domain/schedule";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import type { RecordingSheet } from "@/server/observations/sheet";
 import type { Role } from "@/lib/domain/vocabulary/enums";
@@ -19,28 +20,38 @@ export function SiteHeader({ sheet }: { sheet: RecordingSheet }) {
   );
 }
 
-/** Today's and late scheduled counts, with how many plots are still missing. */
+/** Everything the form owes: late, due today, due soon and the values an event times, never "nothing due" while one is missing. */
 export function DuePanel({ sheet }: { sheet: RecordingSheet }) {
-  const late = sheet.due.filter((d) => d.status === "late");
-  const today = sheet.due.filter((d) => d.status === "due_today");
-  const next = sheet.due.find((d) => d.status === "upcoming");
+  const summary = scheduleSummary(sheet.due);
+  const missing = (d: DueItem) => `${d.expected - d.recorded} of ${d.expected} plots to go`;
+  const groups: { title: string; tone: string; items: DueItem[]; line: (d: DueItem) => string }[] = [
+    { title: "Late", tone: "font-semibold text-beet-700", items: summary.late, line: (d) => `${d.label} (was due ${formatDate(d.dueOn)}) — ${missing(d)}` },
+    { title: "Due today", tone: "font-semibold text-marigold-800", items: summary.dueToday, line: (d) => `${d.label} — ${missing(d)}` },
+    { title: `Due in the next ${DUE_SOON_DAYS} days`, tone: "", items: summary.dueSoon, line: (d) => `${d.label}, on ${formatDate(d.dueOn)} — ${missing(d)}` },
+    { title: "When it happens", tone: "", items: summary.atEvent, line: (d) => `${d.label} (${d.when}) — ${missing(d)}` },
+  ];
   return (
     <Card title="What is due">
-      {late.length === 0 && today.length === 0 ? (
-        <p className="text-loam-700">Nothing is due today and nothing is late.{next ? ` Next: ${next.traitName} day ${next.occasion}, on ${formatDate(next.dueOn)}.` : ""}</p>
+      {!sheet.enrolment.sownOn ? (
+        <p className="text-loam-700">No sowing date is recorded for this site yet; due dates start from it.</p>
       ) : (
-        <ul className="space-y-1">
-          {late.map((d) => (
-            <li key={`${d.traitId}:${d.occasion}`} className="font-semibold text-beet-700">
-              Late: {d.traitName} day {d.occasion} (was due {formatDate(d.dueOn)}) — {d.expected - d.recorded} of {d.expected} plots missing
-            </li>
-          ))}
-          {today.map((d) => (
-            <li key={`${d.traitId}:${d.occasion}`} className="font-semibold text-marigold-800">
-              Due today: {d.traitName} day {d.occasion} — {d.expected - d.recorded} of {d.expected} plots to go
-            </li>
-          ))}
-        </ul>
+        <>
+          <p className="text-loam-700">
+            {summary.values.recorded} of {summary.values.expected} values recorded.{summary.allIn ? " Everything the form asks for is in: check it, then send it for review." : ""}
+          </p>
+          {groups
+            .filter((g) => g.items.length > 0)
+            .map((g) => (
+              <div key={g.title} className="mt-2">
+                <p className={g.tone || "font-semibold"}>{g.title}</p>
+                <ul className="list-disc pl-5">
+                  {g.items.map((d) => (
+                    <li key={`${d.traitId}:${d.occasion}`}>{g.line(d)}</li>
+                  ))}
+                </ul>
+              </div>
+            ))}
+        </>
       )}
     </Card>
   );

@@ -21,8 +21,8 @@ export function RecordableSitesList({ sites }: { sites: Sites }) {
             <span className="block text-loam-700">
               {s.trialTitle} <span className="font-mono text-sm">{s.trialCode}</span> · sown {formatDate(s.sownOn)} · {s.plotCount} plots
             </span>
-            {s.late.length > 0 && <span className="mt-1 block font-semibold text-beet-700">Late: {s.late.map((d) => `${d.traitName} day ${d.occasion}`).join(", ")}</span>}
-            {s.dueToday.length > 0 && <span className="mt-1 block font-semibold text-marigold-800">Due today: {s.dueToday.map((d) => `${d.traitName} day ${d.occasion}`).join(", ")}</span>}
+            {s.late.length > 0 && <span className="mt-1 block font-semibold text-beet-700">Late: {s.late.map((d) => d.label).join(", ")}</span>}
+            {s.dueToday.length > 0 && <span className="mt-1 block font-semibold text-marigold-800">Due today: {s.dueToday.map((d) => d.label).join(", ")}</span>}
             {s.openComments > 0 && <span className="mt-1 block font-semibold text-sky-800">{s.openComments} comment(s) from your coordinator</span>}
           </Link>
         </li>

@@ -52,6 +52,7 @@ export async function listTrialTraits(ex: Executor, trialId: number): Promise<Tr
       minValue: traits.minValue,
       maxValue: traits.maxValue,
       dueDaysAfterSowing: traits.dueDaysAfterSowing,
+      dueByDay: traits.dueByDay,
       dueNote: traits.dueNote,
     })
     .from(trialTraits)

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, countDistinct, desc, eq, inArray, isNotNull, or } from "drizzle-orm";
+import { and, asc, count, countDistinct, desc, eq, inArray, isNotNull, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import {
   crops,
@@ -10,6 +10,7 @@ import {
   seasons,
   siteCooperators,
   sites,
+  submissions,
   trialEntries,
   trialTraits,
   traits,
@@ -62,22 +63,39 @@ export async function listScheduleRows(viewer: Viewer) {
       siteName: sites.name,
       sownOn: enrolments.sownOn,
       plotCount: count(plots.id),
+      submissionStatus: submissions.status,
+      submittedAt: submissions.submittedAt,
+      reviewComment: submissions.reviewComment,
+      openComments: sql<number>`(SELECT COUNT(*) FROM review_comments rc WHERE rc.submission_id = ${submissions.id} AND rc.resolved_at IS NULL)`.mapWith(Number),
     })
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
     .leftJoin(plots, eq(plots.enrolmentId, enrolments.id))
+    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
     .where(and(scope, inArray(trials.status, ["open", "collecting"])))
-    .groupBy(enrolments.id, trials.id, sites.id)
+    .groupBy(enrolments.id, trials.id, sites.id, submissions.id)
     .orderBy(asc(trials.code), asc(sites.name));
   if (enrolmentRows.length === 0) return { enrolments: enrolmentRows, traits: [], recordedCounts: [] };
 
   const trialIds = [...new Set(enrolmentRows.map((r) => r.trialId))];
   const traitRows = await db
-    .select({ trialId: trialTraits.trialId, id: traits.id, name: traits.name, dueDaysAfterSowing: traits.dueDaysAfterSowing })
+    .select({
+      trialId: trialTraits.trialId,
+      id: traits.id,
+      code: traits.code,
+      name: traits.name,
+      unit: traits.unit,
+      valueType: traits.valueType,
+      minValue: traits.minValue,
+      maxValue: traits.maxValue,
+      dueDaysAfterSowing: traits.dueDaysAfterSowing,
+      dueByDay: traits.dueByDay,
+      dueNote: traits.dueNote,
+    })
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
-    .where(and(inArray(trialTraits.trialId, trialIds), isNotNull(traits.dueDaysAfterSowing)))
+    .where(inArray(trialTraits.trialId, trialIds))
     .orderBy(asc(trialTraits.sortOrder));
   const recordedCounts = await db
     .select({ enrolmentId: plots.enrolmentId, traitId: observations.traitId, occasion: observations.occasion, n: count() })
@@ -103,4 +121,16 @@ export async function listMySites(viewer: Viewer) {
 export async function listSiteOptions(viewer: Viewer) {
   if (viewer.role === "cooperator") return [];
   return db.select({ id: sites.id, name: sites.name }).from(sites).where(staffSiteScope(viewer)).orderBy(asc(sites.name));
+}
+
+/** Published trials with results from the cooperator's own sites, newest first, for links to the public pages. */
+export async function listMyPublishedTrials(viewer: Viewer) {
+  if (viewer.role !== "cooperator") return [];
+  return db
+    .selectDistinct({ code: trials.code, title: trials.title, siteName: sites.name })
+    .from(enrolments)
+    .innerJoin(trials, eq(trials.id, enrolments.trialId))
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .where(and(cooperatorEnrolmentScope(viewer), eq(trials.status, "published")))
+    .orderBy(asc(trials.code), asc(sites.name));
 }

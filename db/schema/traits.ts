@@ -1,4 +1,4 @@
-import { boolean, decimal, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { boolean, decimal, json, mysqlEnum, mysqlTable, smallint, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
 import { BETTER_WHEN, TRAIT_COMPUTATIONS, TRAIT_TYPES } from "@/lib/domain/vocabulary/enums";
 import { programs } from "./programs";
@@ -22,6 +22,8 @@ export const traits = mysqlTable(
     maxValue: decimal("max_value", { precision: 14, scale: 4, mode: "number" }),
     dueDaysAfterSowing: json("due_days_after_sowing").$type<number[]>(),
     dueNote: varchar("due_note", { length: 200 }),
+    /** for a trait recorded once: the day after sowing by which it is due (null: timed by an event, see dueNote) */
+    dueByDay: smallint("due_by_day"),
     computation: mysqlEnum("computation", TRAIT_COMPUTATIONS).notNull().default("none"),
     /** the library's default direction; a trial may set its own on trial_traits */
     betterWhen: mysqlEnum("better_when", BETTER_WHEN).notNull().default("neither"),

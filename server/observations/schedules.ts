@@ -1,7 +1,9 @@
 import "server-only";
 import { listScheduleRows } from "@/db/queries/overview";
 import type { Viewer } from "@/lib/domain/viewer";
-import { scheduleForSite, todayIso, type DueItem } from "@/lib/domain/schedule";
+import type { SubmissionStatus } from "@/lib/domain/vocabulary/enums";
+import { scheduleForSite, scheduleSummary, todayIso, type DueItem } from "@/lib/domain/schedule";
+import { entryColumns } from "@/lib/domain/observations/columns";
 
 export interface SiteSchedule {
   enrolmentId: number;
@@ -12,9 +14,13 @@ export interface SiteSchedule {
   siteName: string;
   sownOn: string | null;
   plotCount: number;
+  submissionStatus: SubmissionStatus | null;
+  submittedAt: Date | null;
+  reviewComment: string | null;
+  openComments: number;
   items: DueItem[];
+  summary: ReturnType<typeof scheduleSummary>;
   late: DueItem[];
-  next: DueItem | null;
 }
 
 /** Due and late scheduled counts per enrolment, for the enrolments the viewer may see. */
@@ -30,11 +36,12 @@ async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedul
     const items = scheduleForSite({
       sownOn: r.sownOn,
       plotCount: r.plotCount,
-      traits: rows.traits.filter((t) => t.trialId === r.trialId),
+      columns: entryColumns(rows.traits.filter((t) => t.trialId === r.trialId)),
       recorded: recordedByEnrolment.get(r.enrolmentId) ?? new Map(),
       today,
     });
-    return { ...r, items, late: items.filter((i) => i.status === "late"), next: items.find((i) => i.status !== "done") ?? null };
+    const summary = scheduleSummary(items);
+    return { ...r, items, summary, late: summary.late };
   });
 }
 

@@ -50,18 +50,7 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
     // A plot marked missing with a reason is done for that count, just like one with a value.
     if (o.valueNumber !== null || o.valueDate !== null || o.valueText !== null || o.missingReason) recorded.set(`${col.traitId}:${col.occasion}`, (recorded.get(`${col.traitId}:${col.occasion}`) ?? 0) + 1);
   }
-  const due = scheduleForSite({
-    sownOn: enrolment.sownOn,
-    plotCount: plotRows.length,
-    traits: columns.filter((c) => c.dueDay !== null).reduce<{ id: number; name: string; dueDaysAfterSowing: number[] }[]>((acc, c) => {
-      const t = acc.find((x) => x.id === c.traitId);
-      if (t) t.dueDaysAfterSowing.push(c.occasion);
-      else acc.push({ id: c.traitId, name: c.name.replace(/ day \d+$/, ""), dueDaysAfterSowing: [c.occasion] });
-      return acc;
-    }, []),
-    recorded,
-    today,
-  });
+  const due = scheduleForSite({ sownOn: enrolment.sownOn, plotCount: plotRows.length, columns, recorded, today });
   const observationIds: Record<string, number> = {};
   for (const o of stored) observationIds[`${o.plotId}:${o.key}`] = o.id;
   return {

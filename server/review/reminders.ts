@@ -25,14 +25,14 @@ export async function insertDueReminders(p: { today?: string; appUrl: string }) 
   for (const target of await listReminderTargets()) {
     const sheet = await getRecordingSheet(SYSTEM_READER, target, today);
     if (!sheet || sheet.submission?.status === "submitted" || sheet.submission?.status === "accepted") continue;
-    const dueTomorrow = sheet.due.filter((d) => d.status === "upcoming" && d.dueOn === tomorrow);
+    const dueTomorrow = sheet.due.filter((d) => d.status !== "done" && d.dueOn === tomorrow);
     const overdue = sheet.due.filter((d) => d.status === "late");
     if (dueTomorrow.length === 0 && overdue.length === 0) continue;
     queued += await db.transaction(async (tx) => {
       const enrolment = await getRecordableEnrolment(tx, SYSTEM_READER, target, true);
       if (!enrolment) return 0;
       if (await hasReminderBeenSent(tx, { enrolmentId: enrolment.enrolmentId, day: today })) return 0;
-      const label = (d: (typeof overdue)[number]) => `${d.traitName}, day ${d.occasion} (due ${d.dueOn}): ${d.expected - d.recorded} of ${d.expected} plots to record`;
+      const label = (d: (typeof overdue)[number]) => `${d.label} (due ${d.dueOn}): ${d.expected - d.recorded} of ${d.expected} plots to record`;
       const recipients = await listGrowerRecipients(tx, enrolment);
       for (const g of recipients) {
         await insertMail(tx, reminderMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, tomorrow: dueTomorrow.map(label), overdue: overdue.map(label), link: recordLink(p, enrolment) }));

@@ -8,7 +8,7 @@ import { getRecordingSheet, type RecordingSheet } from "@/server/observations/sh
 
 /** Values recorded against values expected: scheduled counts due by today, and every other column once. */
 function completeness(sheet: RecordingSheet) {
-  const dueKeys = new Set(sheet.due.filter((d) => d.dueOn <= sheet.today).map((d) => `${d.traitId}:${d.occasion}`));
+  const dueKeys = new Set(sheet.due.filter((d) => d.dueOn !== null && d.dueOn <= sheet.today).map((d) => `${d.traitId}:${d.occasion}`));
   // Notes are optional, so they never count as missing.
   const expectedColumns = sheet.columns.filter((c) => c.valueType !== "text" && (c.dueDay === null || dueKeys.has(`${c.traitId}:${c.occasion}`)));
   let recorded = 0;

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { entryColumns } from "@/lib/domain/observations/columns";
 import { and, eq } from "drizzle-orm";
 import { testDatabase, unique } from "../helpers/db";
 import * as s from "@/db/schema";
@@ -253,7 +254,7 @@ describe("changing a site's sowing date", () => {
     expect(result).toEqual({ changed: true, values: 0 });
     expect(await sowing(enrolmentId)).toBe("2027-03-21");
     const layout = (await getSiteLayout(coordinator, { trialId, siteId: siteA }))!;
-    const due = scheduleForSite({ sownOn: layout.sownOn, plotCount: layout.plots.length, traits: layout.traits, recorded: new Map(), today: "2027-03-01" });
+    const due = scheduleForSite({ sownOn: layout.sownOn, plotCount: layout.plots.length, columns: entryColumns(layout.traits), recorded: new Map(), today: "2027-03-01" });
     expect(due.map((d) => d.dueOn)).toEqual(["2027-03-26", "2027-03-28", "2027-03-31", "2027-04-04"]);
     const [entry] = await audits(trialId);
     expect(entry!.oldValue).toEqual({ sownOn: "2027-03-18" });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { canChangeRole, canRecordForSite, canSeeBlindKey, canSeeSiteContact, isStaff } from "@/lib/domain/permissions";
 import { acceptInviteSchema, inviteCooperatorSchema, signInSchema } from "@/lib/validation/auth";
-import { addDays, scheduleForSite } from "@/lib/domain/schedule";
+import { addDays, scheduleForSite, scheduleSummary } from "@/lib/domain/schedule";
 import { randomiseBlocks } from "@/lib/domain/design/randomise";
 import { blindCodes } from "@/lib/domain/design/blind-codes";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -63,7 +63,7 @@ describe("schedule of scheduled counts", () => {
     const items = scheduleForSite({
       sownOn: "2026-11-20",
       plotCount: 18,
-      traits: [{ id: 7, name: "Emergence", dueDaysAfterSowing: [5, 7, 10, 14] }],
+      columns: [5, 7, 10, 14].map((day) => ({ traitId: 7, name: `Emergence day ${day}`, occasion: day, dueDay: day, dueNote: null, valueType: "count" as const })),
       recorded: new Map([["7:5", 18], ["7:7", 10]]),
       today: "2026-11-30",
     });
@@ -71,11 +71,31 @@ describe("schedule of scheduled counts", () => {
       [5, "2026-11-25", "done"],
       [7, "2026-11-27", "late"],
       [10, "2026-11-30", "due_today"],
-      [14, "2026-12-04", "upcoming"],
+      [14, "2026-12-04", "due_soon"],
     ]);
   });
+  it("owes every value the form asks for: a once-recorded trait by its day, an event-timed one with no date, never a note", () => {
+    const columns = [
+      { traitId: 1, name: "Seeds sown", occasion: 0, dueDay: 0, dueNote: "At sowing", valueType: "count" as const },
+      { traitId: 2, name: "Seedlings emerged (final)", occasion: 0, dueDay: 14, dueNote: null, valueType: "count" as const },
+      { traitId: 3, name: "Marketable yield", occasion: 0, dueDay: null, dueNote: "At harvest", valueType: "number" as const },
+      { traitId: 4, name: "Plot notes", occasion: 0, dueDay: null, dueNote: "Any time", valueType: "text" as const },
+    ];
+    // A site sown 30 days ago with nothing recorded: late, never "all in".
+    const items = scheduleForSite({ sownOn: "2026-10-31", plotCount: 20, columns, recorded: new Map(), today: "2026-11-30" });
+    expect(items.map((i) => [i.label, i.dueOn, i.status, i.when])).toEqual([
+      ["Seeds sown", "2026-10-31", "late", "day 0 after sowing"],
+      ["Seedlings emerged (final)", "2026-11-14", "late", "day 14 after sowing"],
+      ["Marketable yield", null, "at_event", "at harvest"],
+    ]);
+    const summary = scheduleSummary(items);
+    expect(summary.allIn).toBe(false);
+    expect(summary.values).toEqual({ recorded: 0, expected: 60 });
+    const done = scheduleSummary(scheduleForSite({ sownOn: "2026-10-31", plotCount: 20, columns, recorded: new Map([["1:0", 20], ["2:0", 20], ["3:0", 20]]), today: "2026-11-30" }));
+    expect(done.allIn).toBe(true);
+  });
   it("has nothing due before sowing", () => {
-    expect(scheduleForSite({ sownOn: null, plotCount: 10, traits: [{ id: 1, name: "x", dueDaysAfterSowing: [5] }], recorded: new Map(), today: "2026-01-01" })).toEqual([]);
+    expect(scheduleForSite({ sownOn: null, plotCount: 10, columns: [{ traitId: 1, name: "x day 5", occasion: 5, dueDay: 5, dueNote: null, valueType: "count" }], recorded: new Map(), today: "2026-01-01" })).toEqual([]);
   });
   it("adds days across month and year ends", () => {
     expect(addDays("2026-12-30", 3)).toBe("2027-01-02");

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { requireUser } from "@/server/auth/guards";
-import { listMySites, listTrialsForViewer } from "@/db/queries/overview";
+import { listMyPublishedTrials, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import { listUsersForAdmin } from "@/db/queries/users";
 import { listMyLayouts } from "@/db/queries/trials";
@@ -13,12 +13,12 @@ export default async function PortalHome() {
   const viewer = await requireUser();
 
   if (viewer.role === "cooperator") {
-    const [schedules, sites, layouts] = await Promise.all([listMySchedules(viewer), listMySites(viewer), listMyLayouts(viewer)]);
+    const [schedules, sites, layouts, published] = await Promise.all([listMySchedules(viewer), listMySites(viewer), listMyLayouts(viewer), listMyPublishedTrials(viewer)]);
     return (
       <div className="space-y-6">
         <h1 className="text-3xl font-bold">Hello, {viewer.name.split(" ")[0]}</h1>
         <p className="text-loam-700">Your sites and the counts due next. Dates follow your own sowing date.</p>
-        <MySchedules schedules={schedules} sites={sites} />
+        <MySchedules schedules={schedules} sites={sites} published={published} />
         {layouts.length > 0 && (
           <Card title="Maps, labels and data sheets">
             <MyLayouts layouts={layouts} />

@@ -12,6 +12,8 @@ export interface TraitForColumns {
   minValue: number | null;
   maxValue: number | null;
   dueDaysAfterSowing: number[] | null;
+  /** a once-recorded trait's due day after sowing; null when an event times it */
+  dueByDay?: number | null;
   dueNote: string | null;
 }
 
@@ -25,7 +27,7 @@ export interface EntryColumn {
   valueType: TraitType;
   min: number | null;
   max: number | null;
-  /** Day after sowing the value falls due, or null for traits timed by a note ("at harvest"). */
+  /** Day after sowing the value falls due (a scheduled day, or a once-recorded trait's due-by day), or null for traits timed by an event ("at harvest"). */
   dueDay: number | null;
   dueNote: string | null;
   /** Heading in templates and uploads, e.g. "Seedlings emerged (count) day 5 [seedlings]". */
@@ -55,7 +57,7 @@ export function entryColumns(traits: TraitForColumns[]): EntryColumn[] {
         valueType: t.valueType,
         min,
         max,
-        dueDay: days ? day : null,
+        dueDay: days ? day : (t.dueByDay ?? null),
         dueNote: days ? null : t.dueNote,
         heading: unit ? `${name} [${unit}]` : name,
       });
