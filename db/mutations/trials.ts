@@ -51,7 +51,7 @@ async function replaceTraits(tx: Tx, trialId: number, traitIds: number[]) {
 }
 
 /** Inserts a draft trial in a season of one of the viewer's programs, with its traits and an audit entry. */
-export async function insertTrial(tx: Tx, p: { viewer: Viewer; trial: NewTrialRow }): Promise<number> {
+export async function insertTrial(tx: Tx, p: { viewer: Viewer; trial: NewTrialRow; programId?: number }): Promise<number> {
   const { viewer, trial: input } = p;
   requireStaff(viewer);
   const [season] = await tx
@@ -63,6 +63,9 @@ export async function insertTrial(tx: Tx, p: { viewer: Viewer; trial: NewTrialRo
         : and(eq(seasons.id, input.seasonId), inArray(seasons.programId, tx.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id)))),
     );
   if (!season) throw new AppError("bad_request", "Choose a season of a program you coordinate.", { seasonId: ["Choose a season from the list."] });
+  if (p.programId !== undefined && season.programId !== p.programId) {
+    throw new AppError("bad_request", "Choose a season of this trial's own program: its varieties and sites belong to that program.", { seasonId: ["Choose a season of this trial's program."] });
+  }
   const [crop] = await tx.select({ id: crops.id }).from(crops).where(eq(crops.id, input.cropId));
   if (!crop) throw new AppError("bad_request", "That crop is not in the catalogue.", { cropId: ["Choose a crop from the list."] });
   await checkTraitsUsable(tx, season.programId, input.traitIds);
@@ -311,4 +314,44 @@ export async function updateTrialTraitDirection(tx: Tx, p: { viewer: Viewer; tri
   await tx.update(trialTraits).set({ betterWhen: p.betterWhen }).where(eq(trialTraits.id, row.id));
   await insertAudit(tx, { actorId: p.viewer.id, action: "set_direction", entity: "trial_trait", entityId: row.id, trialId: p.trialId, oldValue: { betterWhen: row.betterWhen }, newValue: { traitId: p.traitId, betterWhen: p.betterWhen } });
   return { previous: row.betterWhen };
+}
+
+/** What rolling a trial forward copies: its set-up, traits (order and directions), entries and sites. */
+export async function getTrialForRollForward(tx: Tx, trialId: number) {
+  const [trial] = await tx
+    .select({
+      programId: trials.programId,
+      cropId: trials.cropId,
+      title: trials.title,
+      purpose: trials.purpose,
+      design: trials.design,
+      blocks: trials.blocks,
+      plotUnit: trials.plotUnit,
+      plotSize: trials.plotSize,
+      seedsPerCell: trials.seedsPerCell,
+      protocol: trials.protocol,
+    })
+    .from(trials)
+    .where(eq(trials.id, trialId));
+  const traitRows = await tx
+    .select({ traitId: trialTraits.traitId, sortOrder: trialTraits.sortOrder, betterWhen: trialTraits.betterWhen })
+    .from(trialTraits)
+    .where(eq(trialTraits.trialId, trialId))
+    .orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
+  const entryRows = await tx
+    .select({ varietyId: trialEntries.varietyId, isCheck: trialEntries.isCheck, entryNumber: trialEntries.entryNumber })
+    .from(trialEntries)
+    .where(eq(trialEntries.trialId, trialId))
+    .orderBy(asc(trialEntries.entryNumber));
+  const siteRows = await tx.select({ siteId: enrolments.siteId }).from(enrolments).where(eq(enrolments.trialId, trialId)).orderBy(asc(enrolments.id));
+  return { trial: trial!, traits: traitRows, entries: entryRows, siteIds: siteRows.map((r) => r.siteId) };
+}
+
+/** Carries the source trial's trait directions over to the new trial's traits, and links the two trials. */
+export async function linkRolledForwardTrial(tx: Tx, p: { viewer: Viewer; trialId: number; previousTrialId: number; directions: { traitId: number; betterWhen: BetterWhen | null }[] }) {
+  for (const d of p.directions) {
+    if (d.betterWhen !== null) await tx.update(trialTraits).set({ betterWhen: d.betterWhen }).where(and(eq(trialTraits.trialId, p.trialId), eq(trialTraits.traitId, d.traitId)));
+  }
+  await tx.update(trials).set({ previousTrialId: p.previousTrialId }).where(eq(trials.id, p.trialId));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "roll_forward", entity: "trial", entityId: p.trialId, trialId: p.trialId, newValue: { previousTrialId: p.previousTrialId } });
 }

@@ -238,3 +238,22 @@ export async function listMyLayouts(viewer: Viewer) {
     .orderBy(asc(trials.title), asc(sites.name));
 }
 
+
+/**
+ * Where a trial sits in its line across seasons: the trial it was planned from and the ones planned from
+ * it, plus the seasons of its program a next trial can go in. Null when the trial is not the viewer's.
+ */
+export async function getTrialLineage(viewer: Viewer, trialId: number) {
+  if (!isStaff(viewer)) return null;
+  const trial = await findStaffTrial(viewer, trialId);
+  if (!trial) return null;
+  const [self] = await db.select({ previousTrialId: trials.previousTrialId, programId: trials.programId }).from(trials).where(eq(trials.id, trialId));
+  const [previous, next, seasonRows] = await Promise.all([
+    self!.previousTrialId === null
+      ? Promise.resolve([])
+      : db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.id, self!.previousTrialId), staffTrialScope(viewer))),
+    db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.previousTrialId, trialId), staffTrialScope(viewer))).orderBy(asc(trials.code)),
+    db.select({ id: seasons.id, name: seasons.name, year: seasons.year }).from(seasons).where(eq(seasons.programId, self!.programId)).orderBy(sql`${seasons.year} desc`, asc(seasons.name)),
+  ]);
+  return { previous: previous[0] ?? null, next, seasons: seasonRows };
+}

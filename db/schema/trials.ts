@@ -1,4 +1,4 @@
-import { boolean, date, index, int, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { boolean, date, index, int, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar, type AnyMySqlColumn } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
 import { BETTER_WHEN, PLOT_UNITS, TRIAL_DESIGNS, TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
 import { crops, seedLots, varieties } from "./catalogue";
@@ -27,6 +27,8 @@ export const trials = mysqlTable(
     status: mysqlEnum("status", TRIAL_STATUSES).notNull().default("draft"),
     createdById: ref("created_by_id").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
+    /** the trial this one was planned from (rolled forward into the next season) */
+    previousTrialId: ref("previous_trial_id").references((): AnyMySqlColumn => trials.id, { onDelete: "set null" }),
     updatedAt: updatedAt(),
   },
   (t) => [

@@ -87,3 +87,15 @@ export const changeStatusSchema = z.object({ trialId: id(), status: z.enum(TRIAL
 export const sheetKindSchema = z.enum(["map", "labels", "sheet", "packing"], { error: "Ask for a map, labels, a data sheet or a packing list." });
 
 export const pageSizeSchema = z.enum(["LETTER", "A4"]).default("LETTER");
+
+/** Plan the next season from a trial: the season, a new code and a title. */
+export const rollForwardSchema = z.object({
+  trialId: id(),
+  seasonId: id("Choose the season."),
+  code: z
+    .string({ error: "Enter a short trial code." })
+    .trim()
+    .toUpperCase()
+    .regex(/^[A-Z0-9][A-Z0-9-]{2,39}$/, "Use 3–40 letters, digits or dashes, e.g. W28-KALE."),
+  title: requiredText("a title", 200, 3),
+});

@@ -4,8 +4,8 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { traitDirectionSchema } from "@/lib/validation/analysis";
-import { addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
-import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry, setTraitDirection } from "@/server/trials/design";
+import { rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry, rollTrialForward, setTraitDirection } from "@/server/trials/design";
 import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
@@ -82,4 +82,12 @@ export const setDirection = defineAction({ roles: STAFF, schema: traitDirectionS
         ? "Back to the trait library's direction. Rankings now follow it; published versions keep theirs until you publish again."
         : `Saved: ${input.betterWhen === "neither" ? "no preference, so nothing is ranked or called best" : `${input.betterWhen} is better`}. Published versions keep theirs until you publish again.`,
   };
+});
+
+export const planNextSeason = defineAction({ roles: STAFF, schema: rollForwardSchema }, async (input, viewer) => {
+  const { trialId } = await rollTrialForward(viewer, input);
+  await deliverSoon();
+  revalidatePath("/portal/trials");
+  revalidatePath(trialPath(input.trialId));
+  redirect(trialPath(trialId));
 });

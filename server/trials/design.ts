@@ -12,6 +12,8 @@ import {
   updateTrialDesign,
   updateTrialStatus,
   updateTrialTraitDirection,
+  getTrialForRollForward,
+  linkRolledForwardTrial,
   type NewTrialRow,
   type TrialDesignRow,
 } from "@/db/mutations/trials";
@@ -21,6 +23,7 @@ import { canEditDesign, canEditTraits, designLockReason, statusChangeProblem } f
 import type { BetterWhen, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
 import { AppError } from "@/lib/errors";
+import { enrolSiteInTx } from "./enrolment";
 
 // A trial's set-up: creating it, editing its design and entries, and moving it along its life cycle. The
 // status rules (lib/domain/design/status) are applied here, on the trial locked for the transaction.
@@ -107,5 +110,45 @@ export async function setTraitDirection(viewer: Viewer, input: { trialId: number
     if (trial.status === "archived") throw new AppError("conflict", "This trial is archived, so its settings can no longer change.");
     const done = await updateTrialTraitDirection(tx, { viewer, ...input });
     if (!done) throw new AppError("not_found", "That trait is not recorded in this trial.");
+  });
+}
+
+/**
+ * Plans the next season from a trial: a new draft in one of the same program's seasons with the same crop,
+ * set-up, protocol, traits (order and directions), entries (varieties and the check, with fresh blind codes
+ * and no seed lots: the coordinator picks this season's lots) and sites (enrolled again, their growers told
+ * as for any enrolment). Nothing is laid out or sown. The new trial links back to the old one.
+ */
+export async function rollTrialForward(viewer: Viewer, input: { trialId: number; seasonId: number; code: string; title: string }) {
+  return db.transaction(async (tx) => {
+    const source = await lockTrialForStaff(tx, viewer, input.trialId);
+    const from = await getTrialForRollForward(tx, source.id);
+    const trialId = await insertTrial(tx, {
+      viewer,
+      trial: {
+        seasonId: input.seasonId,
+        cropId: from.trial.cropId,
+        code: input.code,
+        title: input.title,
+        purpose: from.trial.purpose ?? undefined,
+        design: from.trial.design,
+        blocks: from.trial.blocks,
+        plotUnit: from.trial.plotUnit,
+        plotSize: from.trial.plotSize,
+        seedsPerCell: from.trial.seedsPerCell,
+        protocol: from.trial.protocol ?? undefined,
+        traitIds: from.traits.map((t) => t.traitId),
+      },
+      programId: source.programId,
+    });
+    const codes = blindCodes(from.entries.length, newSeed(), []);
+    for (const [i, e] of from.entries.entries()) {
+      await insertTrialEntry(tx, { viewer, trialId, entry: { varietyId: e.varietyId, isCheck: e.isCheck, blindCode: codes[i]!, entryNumber: i + 1 } });
+    }
+    const trial = await lockTrialForStaff(tx, viewer, trialId);
+    const invited: string[] = [];
+    for (const siteId of from.siteIds) invited.push(...(await enrolSiteInTx(tx, viewer, trial, { siteId })).invited);
+    await linkRolledForwardTrial(tx, { viewer, trialId, previousTrialId: source.id, directions: from.traits });
+    return { trialId, entries: from.entries.length, sites: from.siteIds.length, invited };
   });
 }

@@ -1,6 +1,6 @@
 import "server-only";
-import { db } from "@/db/index";
-import { lockTrialForStaff, trialProgress } from "@/db/access";
+import { db, type Tx } from "@/db/index";
+import { lockTrialForStaff, trialProgress, type LockedTrial } from "@/db/access";
 import { insertMail } from "@/db/mutations/mail";
 import { insertSiteCooperator, lockAccountByEmail } from "@/db/mutations/users";
 import {
@@ -37,6 +37,13 @@ export async function enrolTrialSite(viewer: Viewer, input: { trialId: number; s
     const trial = await lockTrialForStaff(tx, viewer, input.trialId);
     const progress = await trialProgress(tx, trial.id);
     if (!canEnrolSites({ status: trial.status, ...progress })) throw new AppError("conflict", "Sites can only join a trial before analysis starts.");
+    return enrolSiteInTx(tx, viewer, trial, input);
+  });
+}
+
+/** Enrols a site in a trial already locked in `tx` (see enrolTrialSite), with its growers' invitations and notices. */
+export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, input: { siteId: number; sownOn?: string }) {
+  {
     const site = await getProgramSite(tx, { programId: trial.programId, siteId: input.siteId });
 
     let growers = await listSiteGrowers(tx, site.id);
@@ -58,7 +65,7 @@ export async function enrolTrialSite(viewer: Viewer, input: { trialId: number; s
     }
     const enrolmentId = await insertEnrolment(tx, { viewer, trialId: trial.id, siteId: site.id, cooperatorId: growers[0]?.id ?? null, sownOn: input.sownOn, invited });
     return { enrolmentId, invited };
-  });
+  }
 }
 
 /**

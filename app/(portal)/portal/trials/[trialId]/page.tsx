@@ -2,7 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/server/auth/guards";
-import { getTrialDetail, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
+import { getTrialDetail, getTrialLineage, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
+import { RollForwardForm } from "@/components/trials/roll-forward-form";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
@@ -26,9 +27,10 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const initial = asJson(detail);
   const state = { status: trial.status, ...progress };
   const editable = canEditDesign(state);
-  const [varietyOptions, enrolable] = await Promise.all([
+  const [varietyOptions, enrolable, lineage] = await Promise.all([
     editable ? listEntryOptions(viewer, trial.id) : Promise.resolve([]),
     canEnrolSites(state) ? listEnrolableSites(viewer, trial.id) : Promise.resolve([]),
+    getTrialLineage(viewer, trial.id),
   ]);
   const taken = new Set(entries.map((e) => e.variety));
   const next = nextStatus(trial.status);
@@ -46,6 +48,24 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             <p className="text-loam-700">
               <span className="font-mono">{trial.code}</span> · {trial.crop} · {trial.season} · {trial.program}
             </p>
+            {lineage?.previous && (
+              <p className="text-sm">
+                Planned from <Link href={`/portal/trials/${lineage.previous.id}`}>{lineage.previous.title} ({lineage.previous.code})</Link>
+              </p>
+            )}
+            {lineage && lineage.next.length > 0 && (
+              <p className="text-sm">
+                Followed by{" "}
+                {lineage.next.map((n, i) => (
+                  <span key={n.id}>
+                    {i > 0 && ", "}
+                    <Link href={`/portal/trials/${n.id}`}>
+                      {n.title} ({n.code})
+                    </Link>
+                  </span>
+                ))}
+              </p>
+            )}
           </div>
           <div className="flex items-center gap-3">
             {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
@@ -124,6 +144,12 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             )}
           </Card>
         </div>
+
+        {lineage && lineage.seasons.length > 0 && (
+          <Card title="Plan next season from this trial">
+            <RollForwardForm trialId={trial.id} title={trial.title} seasons={lineage.seasons} />
+          </Card>
+        )}
       </div>
     </QueryProvider>
   );
