@@ -51,7 +51,12 @@ export function ReviewQueue({ rows }: { rows: Queue }) {
 
 /** Every value of the site, plots in layout order; flagged values are marked and explained below. */
 export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
-  const flagged = new Map(sheet.flags.map((f) => [`${f.plotId}:${f.key}`, f]));
+  // A value can have more than one reason to check it (a harvest date before emergence and far from the packet).
+  const flagged = new Map<string, { message: string }>();
+  for (const f of sheet.flags) {
+    const slot = `${f.plotId}:${f.key}`;
+    flagged.set(slot, { message: flagged.has(slot) ? `${flagged.get(slot)!.message} ${f.message}` : f.message });
+  }
   const commented = new Set(sheet.comments.map((c) => `${c.plotId}:${c.observationId}`));
   const base = `/portal/review/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
   return (
@@ -107,11 +112,11 @@ export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
         <div>
           <h3 className="font-bold text-loam-900">Values to check ({sheet.flags.length})</h3>
           <ul className="list-disc pl-5 text-sm">
-            {sheet.flags.map((f) => {
+            {sheet.flags.map((f, i) => {
               const plot = sheet.plots.find((p) => p.id === f.plotId)!;
               const col = sheet.columns.find((c) => c.key === f.key)!;
               return (
-                <li key={`${f.plotId}:${f.key}:${f.kind}`}>
+                <li key={`${f.plotId}:${f.key}:${f.kind}:${i}`}>
                   <Link href={`${base}?plot=${f.plotId}&key=${encodeURIComponent(f.key)}#comment`}>
                     {plot.plotCode}, {col.name}
                   </Link>

@@ -94,6 +94,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           initialReasons={initialReasons}
           defaultColumn={plotFilter.success ? "all" : defaultColumn}
           sownOn={sheet.enrolment.sownOn}
+          transplantedOn={sheet.enrolment.transplantedOn}
           today={sheet.today}
           locked={lockMessage(viewer.role, sheet)}
           comments={comments}
