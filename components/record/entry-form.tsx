@@ -37,6 +37,8 @@ export function EntryForm(props: {
   defaultColumn: string;
   sownOn: string | null;
   transplantedOn: string | null;
+  /** Saved dates far from the packet's days to maturity, by `plotId:key` (worked out on the server). */
+  packetChecks: Record<string, string[]>;
   today: string;
   locked: string | null;
   comments: Record<number, string[]>;
@@ -173,10 +175,10 @@ export function EntryForm(props: {
                 const err = errors[slot];
                 const reason = reasons[slot];
                 const whyId = `${id}-why`;
-                // Packet warnings belong to the value saved; once the field shows something else they are stale.
-                const toCheck = err
-                  ? []
-                  : [...(dateChecks[slot] ?? []), ...(st === "saved" ? (savedWarnings[slot] ?? []).filter((w) => w.kind === "far_from_packet").map((w) => w.message) : [])];
+                // Packet warnings belong to the value saved (the latest save's answer, else the page's); once the
+                // field shows something else they are stale.
+                const packet = slot in savedWarnings ? savedWarnings[slot]!.filter((w) => w.kind === "far_from_packet").map((w) => w.message) : (props.packetChecks[slot] ?? []);
+                const toCheck = err ? [] : [...(dateChecks[slot] ?? []), ...(st !== "saving" && !differs(slot, inputs[slot] ?? "") ? packet : [])];
                 const common = {
                   id,
                   "data-entry-input": "",

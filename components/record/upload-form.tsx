@@ -148,9 +148,9 @@ const where = (p: Problem) => `${p.row ? `Row ${p.row}` : "File"}${p.column ? `,
 function WarningList({ warnings }: { warnings: Problem[] }) {
   return (
     <div className="space-y-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
-      <p className="font-semibold">
-        {warnings.length} {warnings.length === 1 ? "value looks" : "values look"} unlikely. {warnings.length === 1 ? "It saves" : "They save"} as written and your coordinator sees{" "}
-        {warnings.length === 1 ? "it" : "them"} under Values to check; correct the sheet first if {warnings.length === 1 ? "it is" : "one is"} wrong.
+      <p>
+        <span className="font-semibold">Worth a second look ({warnings.length}).</span> These values can be saved as written, and the coordinator sees them under Values to check. If one is wrong,
+        correct the sheet and check the file again.
       </p>
       <ul className="list-disc space-y-1 pl-5">
         {warnings.slice(0, 200).map((w, i) => (

@@ -88,7 +88,7 @@ export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
                   const obsId = sheet.observationIds[`${p.id}:${c.key}`];
                   const value = displayValue(c, sheet.values[p.id]?.[c.key] ?? null);
                   return (
-                    <td key={c.key} className={cn("py-1 pr-3 text-right tabular-nums", flag && "bg-marigold-100 font-semibold text-marigold-800", commented.has(`${p.id}:${obsId}`) && "underline decoration-sky-600 decoration-2")} title={flag?.message}>
+                    <td key={c.key} className={cn("py-1 pr-3 text-right tabular-nums", c.valueType === "date" && "whitespace-nowrap", flag && "bg-marigold-100 font-semibold text-marigold-800", commented.has(`${p.id}:${obsId}`) && "underline decoration-sky-600 decoration-2")} title={flag?.message}>
                       {value ? (
                         <Link href={`${base}?plot=${p.id}&key=${encodeURIComponent(c.key)}#comment`} className="text-inherit no-underline" aria-label={`Comment on ${p.plotCode} ${c.name}: ${value}${flag ? ` (flagged: ${flag.message})` : ""}`}>
                           {value}

@@ -134,6 +134,11 @@ export async function planSiteObservations(
   }
 
   // Cross-checks see the plot as it would be after the save: stored values overlaid with the new ones.
+  const isUnchanged = (a: (typeof accepted)[number]) => {
+    const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
+    const oldValue = old && !isBlank(old) ? old : null;
+    return sameValue(oldValue, a.value && !isBlank(a.value) ? a.value : null) && (old?.missingReason ?? null) === a.reason;
+  };
   const warnings: Warning[] = [];
   const byPlot = new Map<number, typeof accepted>();
   for (const a of accepted) byPlot.set(a.plot.id, [...(byPlot.get(a.plot.id) ?? []), a]);
@@ -145,10 +150,12 @@ export async function planSiteObservations(
       const a = items.find((x) => x.column.key === issue.key)!;
       problems.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: issue.key, column: a.column.heading, message: issue.message });
     }
-    // Dates out of order warn on the value sent that takes part (the harvest date when both were sent).
+    // Dates out of order warn on a value this save changes that takes part (the harvest date when both
+    // change); a sheet sent again with the same values repeats nothing already under Values to check.
     const audience = viewer.role === "cooperator" ? "grower" : "staff";
+    const changing = items.filter((a) => !isUnchanged(a));
     for (const w of datesToCheck({ columns, value: (key) => merged.get(key), site, packetDays: packetDays[plotId] ?? null, audience })) {
-      const a = items.find((x) => x.column.key === w.key) ?? items.find((x) => w.keys.includes(x.column.key));
+      const a = changing.find((x) => x.column.key === w.key) ?? changing.find((x) => w.keys.includes(x.column.key));
       if (a) warnings.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: a.column.key, column: a.column.heading, kind: w.kind, message: w.message });
     }
   }
