@@ -3,7 +3,8 @@
 import { useCallback, useMemo, useState } from "react";
 import { cn } from "@/components/ui/cn";
 import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
-import { parseCell } from "@/lib/domain/observations/values";
+import { parseCell, type CellValue } from "@/lib/domain/observations/values";
+import { datesToCheck } from "@/lib/domain/observations/date-order";
 import { Button } from "@/components/ui/button";
 import { restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./save-queue";
 import { useSaveQueue } from "./use-save-queue";
@@ -35,6 +36,9 @@ export function EntryForm(props: {
   initialReasons: Record<string, MissingReason>;
   defaultColumn: string;
   sownOn: string | null;
+  transplantedOn: string | null;
+  /** Saved dates far from the packet's days to maturity, by `plotId:key` (worked out on the server). */
+  packetChecks: Record<string, string[]>;
   today: string;
   locked: string | null;
   comments: Record<number, string[]>;
@@ -48,7 +52,28 @@ export function EntryForm(props: {
     setInputs((i) => restoredInputs(i, stored));
     setReasons((r) => restoredReasons(r, stored));
   }, []);
-  const { queuedCount: queued, status, errors, notice, enqueue, retryAll, differs, setSlotError } = useSaveQueue({ trialId, siteId, initial: props.initial, initialReasons: props.initialReasons, onRestore });
+  const { queuedCount: queued, status, errors, warnings: savedWarnings, notice, enqueue, retryAll, differs, setSlotError } = useSaveQueue({ trialId, siteId, initial: props.initial, initialReasons: props.initialReasons, onRestore });
+
+  const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today }), [props.sownOn, props.transplantedOn, props.today]);
+
+  // Dates out of order, from what is in the fields now (typed, not only saved), under every date involved.
+  // The packet's days to maturity stay on the server (growers record blind); its warnings come with a save.
+  const dateChecks = useMemo(() => {
+    const dateColumns = columns.filter((c) => c.valueType === "date");
+    const out: Record<string, string[]> = {};
+    if (dateColumns.length < 1) return out;
+    for (const p of plots) {
+      const value = (key: string): CellValue | null => {
+        const c = dateColumns.find((d) => d.key === key);
+        const parsed = c ? parseCell(c, inputs[slotOf(p.id, key)] ?? "", ctx) : null;
+        return parsed?.ok ? parsed.value : null;
+      };
+      for (const w of datesToCheck({ columns: dateColumns, value, site: ctx, packetDays: null, audience: "grower" })) {
+        for (const key of w.keys) (out[slotOf(p.id, key)] ??= []).push(w.message);
+      }
+    }
+    return out;
+  }, [columns, plots, inputs, ctx]);
 
   const shown = useMemo(() => (choice === "all" ? columns : columns.filter((c) => c.key === choice)), [choice, columns]);
 
@@ -57,7 +82,7 @@ export function EntryForm(props: {
     // Leaving an empty field keeps a reason already chosen; typing a value replaces it.
     if (value === "" && reasons[slot]) return;
     if (!differs(slot, value)) return;
-    const parsed = parseCell(column, value, { sownOn: props.sownOn, today: props.today });
+    const parsed = parseCell(column, value, ctx);
     if (!parsed.ok) {
       setSlotError(slot, parsed.message);
       return;
@@ -150,12 +175,16 @@ export function EntryForm(props: {
                 const err = errors[slot];
                 const reason = reasons[slot];
                 const whyId = `${id}-why`;
+                // Packet warnings belong to the value saved (the latest save's answer, else the page's); once the
+                // field shows something else they are stale.
+                const packet = slot in savedWarnings ? savedWarnings[slot]!.filter((w) => w.kind === "far_from_packet").map((w) => w.message) : (props.packetChecks[slot] ?? []);
+                const toCheck = err ? [] : [...(dateChecks[slot] ?? []), ...(st !== "saving" && !differs(slot, inputs[slot] ?? "") ? packet : [])];
                 const common = {
                   id,
                   "data-entry-input": "",
                   disabled: !!props.locked,
                   "aria-invalid": err ? true : undefined,
-                  "aria-describedby": `${id}-state`,
+                  "aria-describedby": toCheck.length > 0 ? `${id}-state ${id}-check` : `${id}-state`,
                   className: cn("block min-h-12 w-full rounded-lg border px-3 text-lg", err ? "border-beet-600" : "border-loam-300", reason ? "bg-husk-100" : "bg-white"),
                 };
                 return (
@@ -214,6 +243,16 @@ export function EntryForm(props: {
                         </button>
                       )}
                     </div>
+                    {toCheck.length > 0 && (
+                      <div id={`${id}-check`} className="mt-1 space-y-1 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
+                        {toCheck.map((m) => (
+                          <p key={m}>
+                            <span className="font-semibold">Check: </span>
+                            {m}
+                          </p>
+                        ))}
+                      </div>
+                    )}
                     {(reason || askWhy[slot]) && (
                       <div className="mt-1">
                         <label htmlFor={whyId} className="block text-sm font-semibold text-loam-900">

@@ -47,6 +47,22 @@ export function saveRequestBody(p: { trialId: number; siteId: number; item: Pend
   return { trialId: p.trialId, siteId: p.siteId, values: [{ plotId: item.plotId, key: item.key, value: item.value === "" ? null : item.value, missingReason: item.reason ?? null }] };
 }
 
+/** A value that saved but is worth a second look, as the save route answers it. */
+export interface SavedWarning {
+  plotId: number;
+  key: string;
+  kind: string;
+  message: string;
+}
+
+/** The warnings of a save answer that belong to the item just saved (anything unreadable is dropped). */
+export function warningsFor(warnings: unknown, item: Pick<Pending, "plotId" | "key">): SavedWarning[] {
+  if (!Array.isArray(warnings)) return [];
+  return warnings.filter(
+    (w): w is SavedWarning => typeof w === "object" && w !== null && w.plotId === item.plotId && w.key === item.key && typeof w.kind === "string" && typeof w.message === "string",
+  );
+}
+
 export type SaveOutcome =
   | { kind: "saved" }
   /** The server refused the value itself: retrying would not help, the grower needs to fix it. */

@@ -21,6 +21,8 @@ interface Preview {
   blankRows?: number[];
   counts?: { new: number; changed: number; unchanged: number };
   problems: Problem[];
+  /** Values that save but are worth a second look (dates out of order, far from the packet). */
+  warnings?: Problem[];
   changes?: { row: number | null; plotCode: string; column: string; kind: "new" | "changed"; oldValue: string; newValue: string }[];
 }
 
@@ -141,6 +143,26 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
   );
 }
 
+const where = (p: Problem) => `${p.row ? `Row ${p.row}` : "File"}${p.column ? `, ${p.column}` : ""}`;
+
+function WarningList({ warnings }: { warnings: Problem[] }) {
+  return (
+    <div className="space-y-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
+      <p>
+        <span className="font-semibold">Worth a second look ({warnings.length}).</span> These values can be saved as written, and the coordinator sees them under Values to check. If one is wrong,
+        correct the sheet and check the file again.
+      </p>
+      <ul className="list-disc space-y-1 pl-5">
+        {warnings.slice(0, 200).map((w, i) => (
+          <li key={i}>
+            {where(w)}: {w.message}
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
 function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boolean; onCommit: () => void }) {
   if (preview.refused) {
     return (
@@ -166,6 +188,7 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
         <Badge>{c.unchanged} unchanged</Badge>
         {preview.blankRows && preview.blankRows.length > 0 && <Badge>{preview.blankRows.length} empty rows skipped</Badge>}
       </p>
+      {preview.warnings && preview.warnings.length > 0 && <WarningList warnings={preview.warnings} />}
       {preview.problems.length > 0 ? (
         <div role="alert" className="space-y-2">
           <p className="font-semibold text-beet-700">
@@ -174,8 +197,7 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
           <ul className="list-disc space-y-1 pl-5 text-beet-700">
             {preview.problems.slice(0, 200).map((p, i) => (
               <li key={i}>
-                {p.row ? `Row ${p.row}` : "File"}
-                {p.column ? `, ${p.column}` : ""}: {p.message}
+                {where(p)}: {p.message}
               </li>
             ))}
           </ul>

@@ -2,7 +2,7 @@
 
 import { useCallback, useEffect, useRef, useState } from "react";
 import type { MissingReason } from "@/lib/domain/observations/missing";
-import { afterSaved, readStoredQueue, saveOutcome, saveRequestBody, slotOf, storedQueueText, tokenOf, withoutSlot, withQueued, type Pending, type Queue, type SlotStatus } from "./save-queue";
+import { afterSaved, readStoredQueue, saveOutcome, saveRequestBody, slotOf, storedQueueText, tokenOf, warningsFor, withoutSlot, withQueued, type Pending, type Queue, type SavedWarning, type SlotStatus } from "./save-queue";
 
 const RETRY_MS = 20_000;
 
@@ -18,6 +18,8 @@ export function useSaveQueue(p: { trialId: number; siteId: number; initial: Reco
   const [status, setStatus] = useState<Record<string, SlotStatus>>({});
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [notice, setNotice] = useState<string | null>(null);
+  // What the server found worth a second look in each slot's last saved value (it knows the packets).
+  const [warnings, setWarnings] = useState<Record<string, SavedWarning[]>>({});
   // What the server holds per slot, as a token, so leaving a field unchanged sends nothing.
   const saved = useRef<Record<string, string>>({
     ...p.initial,
@@ -61,9 +63,10 @@ export function useSaveQueue(p: { trialId: number; siteId: number; initial: Reco
           headers: { "Content-Type": "application/json" },
           body: JSON.stringify(saveRequestBody({ trialId, siteId, item })),
         });
-        const body = res.ok ? undefined : ((await res.json().catch(() => ({}))) as { error?: string; fieldErrors?: Record<string, string[]> });
-        const outcome = saveOutcome({ status: res.status, ok: res.ok, slot, body });
+        const body = (await res.json().catch(() => ({}))) as { error?: string; fieldErrors?: Record<string, string[]>; warnings?: SavedWarning[] };
+        const outcome = saveOutcome({ status: res.status, ok: res.ok, slot, body: res.ok ? undefined : body });
         if (outcome.kind === "saved") {
+          setWarnings((w) => ({ ...w, [slot]: warningsFor(body.warnings, item) }));
           saved.current[slot] = tokenOf(item.value, item.reason);
           setStatus((s) => ({ ...s, [slot]: "saved" }));
           setErrors((e) => withoutKey(e, slot));
@@ -127,7 +130,7 @@ export function useSaveQueue(p: { trialId: number; siteId: number; initial: Reco
   /** Whether the slot would change: false when the server already holds this and nothing is queued for it. */
   const differs = useCallback((slot: string, token: string) => (saved.current[slot] ?? "") !== token || Boolean(queue[slot]), [queue]);
 
-  return { queue, queuedCount: Object.keys(queue).length, status, errors, notice, enqueue, retryAll, differs, setSlotError };
+  return { queue, queuedCount: Object.keys(queue).length, status, errors, warnings, notice, enqueue, retryAll, differs, setSlotError };
 }
 
 function withoutKey<T>(record: Record<string, T>, key: string): Record<string, T> {

@@ -51,7 +51,12 @@ export function ReviewQueue({ rows }: { rows: Queue }) {
 
 /** Every value of the site, plots in layout order; flagged values are marked and explained below. */
 export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
-  const flagged = new Map(sheet.flags.map((f) => [`${f.plotId}:${f.key}`, f]));
+  // A value can have more than one reason to check it (a harvest date before emergence and far from the packet).
+  const flagged = new Map<string, { message: string }>();
+  for (const f of sheet.flags) {
+    const slot = `${f.plotId}:${f.key}`;
+    flagged.set(slot, { message: flagged.has(slot) ? `${flagged.get(slot)!.message} ${f.message}` : f.message });
+  }
   const commented = new Set(sheet.comments.map((c) => `${c.plotId}:${c.observationId}`));
   const base = `/portal/review/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
   return (
@@ -83,7 +88,7 @@ export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
                   const obsId = sheet.observationIds[`${p.id}:${c.key}`];
                   const value = displayValue(c, sheet.values[p.id]?.[c.key] ?? null);
                   return (
-                    <td key={c.key} className={cn("py-1 pr-3 text-right tabular-nums", flag && "bg-marigold-100 font-semibold text-marigold-800", commented.has(`${p.id}:${obsId}`) && "underline decoration-sky-600 decoration-2")} title={flag?.message}>
+                    <td key={c.key} className={cn("py-1 pr-3 text-right tabular-nums", c.valueType === "date" && "whitespace-nowrap", flag && "bg-marigold-100 font-semibold text-marigold-800", commented.has(`${p.id}:${obsId}`) && "underline decoration-sky-600 decoration-2")} title={flag?.message}>
                       {value ? (
                         <Link href={`${base}?plot=${p.id}&key=${encodeURIComponent(c.key)}#comment`} className="text-inherit no-underline" aria-label={`Comment on ${p.plotCode} ${c.name}: ${value}${flag ? ` (flagged: ${flag.message})` : ""}`}>
                           {value}
@@ -107,11 +112,11 @@ export function ReviewValues({ sheet }: { sheet: ReviewSheet }) {
         <div>
           <h3 className="font-bold text-loam-900">Values to check ({sheet.flags.length})</h3>
           <ul className="list-disc pl-5 text-sm">
-            {sheet.flags.map((f) => {
+            {sheet.flags.map((f, i) => {
               const plot = sheet.plots.find((p) => p.id === f.plotId)!;
               const col = sheet.columns.find((c) => c.key === f.key)!;
               return (
-                <li key={`${f.plotId}:${f.key}:${f.kind}`}>
+                <li key={`${f.plotId}:${f.key}:${f.kind}:${i}`}>
                   <Link href={`${base}?plot=${f.plotId}&key=${encodeURIComponent(f.key)}#comment`}>
                     {plot.plotCode}, {col.name}
                   </Link>

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, eq, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "../index";
-import { enrolments, observations, plots, reviewComments, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
+import { enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { TraitForColumns } from "@/lib/domain/observations/columns";
@@ -29,6 +29,7 @@ export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { 
       siteId: sites.id,
       siteName: sites.name,
       sownOn: enrolments.sownOn,
+      transplantedOn: enrolments.transplantedOn,
       cooperatorId: enrolments.cooperatorId,
     })
     .from(enrolments)
@@ -54,6 +55,7 @@ export async function listTrialTraits(ex: Executor, trialId: number): Promise<Tr
       dueDaysAfterSowing: traits.dueDaysAfterSowing,
       dueByDay: traits.dueByDay,
       dueNote: traits.dueNote,
+      computation: traits.computation,
     })
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
@@ -71,6 +73,21 @@ export async function listEnrolmentPlots(ex: Executor, enrolmentId: number) {
     .orderBy(asc(plots.block), asc(plots.position));
 }
 export type EnrolmentPlot = Awaited<ReturnType<typeof listEnrolmentPlots>>[number];
+
+/**
+ * Days to maturity printed on the seed packet of each plot's entry (null when the entry has no seed lot or
+ * the packet gives none), by plot id. Unblinding data: server-side checks and staff pages only, never sent
+ * to a grower.
+ */
+export async function listPlotPacketDays(ex: Executor, enrolmentId: number): Promise<Record<number, number | null>> {
+  const rows = await ex
+    .select({ plotId: plots.id, packetDays: seedLots.packetDaysToMaturity })
+    .from(plots)
+    .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
+    .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+    .where(eq(plots.enrolmentId, enrolmentId));
+  return Object.fromEntries(rows.map((r) => [r.plotId, r.packetDays]));
+}
 
 export interface ObservationRow extends CellValue {
   id: number;

@@ -17,7 +17,12 @@ export async function saveObservationsForViewer(viewer: Viewer, body: unknown) {
     source: "form",
     cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value, missing: v.missingReason ?? null })),
   });
-  return { ok: true as const, saved: result.saved, counts: result.counts };
+  return {
+    ok: true as const,
+    saved: result.saved,
+    counts: result.counts,
+    warnings: result.warnings.map((w) => ({ plotId: w.plotId, key: w.key, kind: w.kind, message: w.message })),
+  };
 }
 
 export async function getRecordingSheetForApi(viewer: Viewer, params: { trialId: unknown; siteId: unknown }) {

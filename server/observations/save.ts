@@ -1,12 +1,13 @@
 import "server-only";
 import { db, type Tx } from "@/db/index";
-import { getRecordableEnrolment, getSubmissionRow, listEnrolmentObservations, listEnrolmentPlots, type RecordableEnrolment } from "@/db/queries/observations";
+import { getRecordableEnrolment, getSubmissionRow, listEnrolmentObservations, listEnrolmentPlots, listPlotPacketDays, type RecordableEnrolment } from "@/db/queries/observations";
 import { insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservation, type AuditEntry } from "@/db/mutations/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 import type { EntryColumn } from "@/lib/domain/observations/columns";
+import { datesToCheck, type DateCheckKind } from "@/lib/domain/observations/date-order";
 import { todayIso } from "@/lib/domain/schedule";
 import { keyObservations, listTrialColumns } from "./sheet";
 
@@ -32,6 +33,14 @@ export interface Problem {
   message: string;
 }
 
+/** A value that saves but is worth a second look (dates out of order, far from the packet). */
+export interface Warning extends Problem {
+  plotId: number;
+  plotCode: string;
+  key: string;
+  kind: DateCheckKind;
+}
+
 export type ChangeKind = "new" | "changed" | "unchanged";
 
 export interface PlannedChange {
@@ -50,6 +59,7 @@ export interface PlannedChange {
 export interface ObservationPlan {
   enrolment: RecordableEnrolment;
   problems: Problem[];
+  warnings: Warning[];
   changes: PlannedChange[];
   counts: Record<ChangeKind, number>;
 }
@@ -83,13 +93,19 @@ export async function planSiteObservations(
   const sub = await getSubmissionRow(ex, enrolment.enrolmentId);
   assertEditable(viewer, enrolment, sub?.status ?? null);
 
-  const [columns, plotRows, storedRows] = await Promise.all([listTrialColumns(ex, enrolment.trialId), listEnrolmentPlots(ex, enrolment.enrolmentId), listEnrolmentObservations(ex, enrolment.enrolmentId)]);
+  const [columns, plotRows, storedRows, packetDays] = await Promise.all([
+    listTrialColumns(ex, enrolment.trialId),
+    listEnrolmentPlots(ex, enrolment.enrolmentId),
+    listEnrolmentObservations(ex, enrolment.enrolmentId),
+    listPlotPacketDays(ex, enrolment.enrolmentId),
+  ]);
   const stored = keyObservations(storedRows, columns);
   const byId = new Map(plotRows.map((p) => [p.id, p]));
   const byCode = new Map(plotRows.map((p) => [p.plotCode.toUpperCase(), p]));
   const colByKey = new Map(columns.map((c) => [c.key, c]));
   const existing = new Map(stored.map((o) => [`${o.plotId}:${o.key}`, o]));
-  const ctx = { sownOn: enrolment.sownOn, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
+  const site = { sownOn: enrolment.sownOn, transplantedOn: enrolment.transplantedOn };
+  const ctx = { ...site, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
 
   const problems: Problem[] = [];
   const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number }[] = [];
@@ -118,6 +134,12 @@ export async function planSiteObservations(
   }
 
   // Cross-checks see the plot as it would be after the save: stored values overlaid with the new ones.
+  const isUnchanged = (a: (typeof accepted)[number]) => {
+    const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
+    const oldValue = old && !isBlank(old) ? old : null;
+    return sameValue(oldValue, a.value && !isBlank(a.value) ? a.value : null) && (old?.missingReason ?? null) === a.reason;
+  };
+  const warnings: Warning[] = [];
   const byPlot = new Map<number, typeof accepted>();
   for (const a of accepted) byPlot.set(a.plot.id, [...(byPlot.get(a.plot.id) ?? []), a]);
   for (const [plotId, items] of byPlot) {
@@ -127,6 +149,14 @@ export async function planSiteObservations(
     for (const issue of crossCheckPlot(columns, merged, new Set(items.map((a) => a.column.key)))) {
       const a = items.find((x) => x.column.key === issue.key)!;
       problems.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: issue.key, column: a.column.heading, message: issue.message });
+    }
+    // Dates out of order warn on a value this save changes that takes part (the harvest date when both
+    // change); a sheet sent again with the same values repeats nothing already under Values to check.
+    const audience = viewer.role === "cooperator" ? "grower" : "staff";
+    const changing = items.filter((a) => !isUnchanged(a));
+    for (const w of datesToCheck({ columns, value: (key) => merged.get(key), site, packetDays: packetDays[plotId] ?? null, audience })) {
+      const a = changing.find((x) => x.column.key === w.key) ?? changing.find((x) => w.keys.includes(x.column.key));
+      if (a) warnings.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: a.column.key, column: a.column.heading, kind: w.kind, message: w.message });
     }
   }
 
@@ -142,11 +172,13 @@ export async function planSiteObservations(
     changes.push({ plotId: a.plot.id, plotCode: a.plot.plotCode, column: a.column, kind, oldValue, newValue, oldReason, newReason: a.reason, observationId: old?.id ?? null, row: a.row });
   }
   problems.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
-  return { enrolment, problems, changes, counts };
+  warnings.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
+  return { enrolment, problems, warnings, changes, counts };
 }
 
 /**
- * Records values for one site in one transaction: any problem means nothing is written. Earlier values go
+ * Records values for one site in one transaction: any problem means nothing is written; warnings do not
+ * stop the save and are returned with it. Earlier values go
  * to observation_history and every new or changed value gets an audit entry with old and new value.
  */
 export async function saveSiteObservations(
@@ -195,6 +227,6 @@ export async function saveSiteObservations(
 
     // The first value recorded opens the site's data set as a draft for review.
     if (todo.length > 0) await insertDraftSubmission(tx, enrolment.enrolmentId);
-    return { counts: plan.counts, saved: todo.length };
+    return { counts: plan.counts, saved: todo.length, warnings: plan.warnings };
   });
 }

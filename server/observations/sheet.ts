@@ -4,8 +4,9 @@ import { entryColumns, type EntryColumn } from "@/lib/domain/observations/column
 import type { CellValue } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 import { scheduleForSite, todayIso } from "@/lib/domain/schedule";
-import { getRecordingRows, listRecordableSiteRows, listTrialTraits, type ObservationRow } from "@/db/queries/observations";
-import type { Tx, db } from "@/db/index";
+import { getRecordingRows, listPlotPacketDays, listRecordableSiteRows, listTrialTraits, type ObservationRow } from "@/db/queries/observations";
+import { db, type Tx } from "@/db/index";
+import { datesToCheck } from "@/lib/domain/observations/date-order";
 
 export interface StoredObservation extends CellValue {
   id: number;
@@ -67,6 +68,23 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
   };
 }
 export type RecordingSheet = NonNullable<Awaited<ReturnType<typeof getRecordingSheet>>>;
+
+/**
+ * Stored harvest and maturity dates far from the packet's days to maturity, by `plotId:key`, worded for the
+ * viewer (a grower's wording never states the packet's figure). The phone form shows them under the saved
+ * value; the order checks it works out itself, but it is never sent the packets.
+ */
+export async function packetChecksForViewer(viewer: Viewer, sheet: RecordingSheet): Promise<Record<string, string[]>> {
+  const packetDays = await listPlotPacketDays(db, sheet.enrolment.enrolmentId);
+  const site = { sownOn: sheet.enrolment.sownOn, transplantedOn: sheet.enrolment.transplantedOn };
+  const audience = viewer.role === "cooperator" ? "grower" : "staff";
+  const out: Record<string, string[]> = {};
+  for (const plot of sheet.plots) {
+    const found = datesToCheck({ columns: sheet.columns, value: (key) => sheet.values[plot.id]?.[key], site, packetDays: packetDays[plot.id] ?? null, audience });
+    for (const w of found) if (w.kind === "far_from_packet") (out[`${plot.id}:${w.key}`] ??= []).push(w.message);
+  }
+  return out;
+}
 
 /** The sites the viewer records for in trials that are taking data, with their due and late counts. */
 export async function listRecordableSites(viewer: Viewer, today: string = todayIso()) {

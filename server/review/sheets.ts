@@ -1,5 +1,7 @@
 import "server-only";
 import { listRecentValueChanges, listReviewComments, listReviewSiteRows } from "@/db/queries/review";
+import { listPlotPacketDays } from "@/db/queries/observations";
+import { db } from "@/db/index";
 import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
 import { flagValues } from "@/lib/domain/observations/flags";
@@ -14,6 +16,12 @@ function completeness(sheet: RecordingSheet) {
   let recorded = 0;
   for (const p of sheet.plots) for (const c of expectedColumns) if (sheet.values[p.id]?.[c.key]) recorded += 1;
   return { recorded, expected: expectedColumns.length * sheet.plots.length };
+}
+
+/** Every value to check at a site: ranges, outliers, and dates out of order or far from the packet. */
+async function siteFlags(sheet: RecordingSheet) {
+  const packetDays = await listPlotPacketDays(db, sheet.enrolment.enrolmentId);
+  return flagValues({ ...sheet, dates: { site: { sownOn: sheet.enrolment.sownOn, transplantedOn: sheet.enrolment.transplantedOn }, packetDays } });
 }
 
 /**
@@ -37,7 +45,7 @@ export async function listReviewQueue(viewer: Viewer, today: string = todayIso()
       recorded: c.recorded,
       expected: c.expected,
       late: sheet.due.filter((d) => d.status === "late").length,
-      flags: flagValues(sheet).length,
+      flags: (await siteFlags(sheet)).length,
       openComments: sheet.comments.length,
     });
   }
@@ -52,7 +60,7 @@ export async function getReviewSheet(viewer: Viewer, p: { trialId: number; siteI
   if (!isStaff(viewer)) return null;
   const sheet = await getRecordingSheet(viewer, p, today);
   if (!sheet) return null;
-  const [comments, changes] = await Promise.all([listReviewComments(sheet.enrolment.enrolmentId), listRecentValueChanges(Object.values(sheet.observationIds))]);
-  return { ...sheet, flags: flagValues(sheet), allComments: comments, recentChanges: changes, completeness: completeness(sheet) };
+  const [comments, changes, flags] = await Promise.all([listReviewComments(sheet.enrolment.enrolmentId), listRecentValueChanges(Object.values(sheet.observationIds)), siteFlags(sheet)]);
+  return { ...sheet, flags, allComments: comments, recentChanges: changes, completeness: completeness(sheet) };
 }
 export type ReviewSheet = NonNullable<Awaited<ReturnType<typeof getReviewSheet>>>;

@@ -123,7 +123,7 @@ export async function previewUpload(viewer: Viewer, t: UploadTarget) {
 async function analyse(viewer: Viewer, t: UploadTarget) {
   const prep = await prepare(viewer, t);
   if (prep.refused || !prep.read) {
-    return { cells: prep.cells, textNumberCommas: undefined, preview: { ok: false as const, refused: prep.refused, sheet: prep.sheetName, otherSheets: [] as string[], problems: [] as UploadProblem[] } };
+    return { cells: prep.cells, textNumberCommas: undefined, preview: { ok: false as const, refused: prep.refused, sheet: prep.sheetName, otherSheets: [] as string[], problems: [] as UploadProblem[], warnings: [] as UploadProblem[] } };
   }
   const { textNumberCommas } = prep.read;
   const plan = await planSiteObservations(db, viewer, { trialId: t.trialId, siteId: t.siteId, cells: prep.cells, textNumberCommas });
@@ -132,6 +132,8 @@ async function analyse(viewer: Viewer, t: UploadTarget) {
     ...prep.rowProblems,
     ...plan.problems.map((p) => ({ row: p.row ?? null, column: place(p.row, p.key ? letters[p.key] : undefined, p.column), message: p.message })),
   ].sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
+  // Values that save but are worth a second look; they never stop the save.
+  const warnings: UploadProblem[] = plan.warnings.map((w) => ({ row: w.row ?? null, column: place(w.row, letters[w.key], w.column), message: w.message }));
   const changes = plan.changes
     .filter((c) => c.kind !== "unchanged")
     .slice(0, MAX_PREVIEW_CHANGES)
@@ -149,6 +151,7 @@ async function analyse(viewer: Viewer, t: UploadTarget) {
       blankRows: prep.read.blankRows,
       counts: plan.counts,
       problems,
+      warnings,
       changes,
     },
   };

@@ -1,4 +1,4 @@
-import type { TraitType } from "@/lib/domain/vocabulary/enums";
+import type { TraitComputation, TraitType } from "@/lib/domain/vocabulary/enums";
 
 // A trait recorded on scheduled days becomes one column per day (occasion = day after sowing); any other
 // trait is a single column with occasion 0. Form fields, template headings and upload headings share this.
@@ -15,6 +15,8 @@ export interface TraitForColumns {
   /** a once-recorded trait's due day after sowing; null when an event times it */
   dueByDay?: number | null;
   dueNote: string | null;
+  /** How the analysis counts a date (from sowing or from transplanting); "none" when left out. */
+  computation?: TraitComputation;
 }
 
 export interface EntryColumn {
@@ -30,6 +32,8 @@ export interface EntryColumn {
   /** Day after sowing the value falls due (a scheduled day, or a once-recorded trait's due-by day), or null for traits timed by an event ("at harvest"). */
   dueDay: number | null;
   dueNote: string | null;
+  /** Which site date a date value is counted from in the analysis. */
+  computation: TraitComputation;
   /** Heading in templates and uploads, e.g. "Seedlings emerged (count) day 5 [seedlings]". */
   heading: string;
 }
@@ -59,6 +63,7 @@ export function entryColumns(traits: TraitForColumns[]): EntryColumn[] {
         max,
         dueDay: days ? day : (t.dueByDay ?? null),
         dueNote: days ? null : t.dueNote,
+        computation: t.computation ?? "none",
         heading: unit ? `${name} [${unit}]` : name,
       });
     }

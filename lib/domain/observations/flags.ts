@@ -1,12 +1,13 @@
 import type { EntryColumn } from "./columns";
 import type { CellValue } from "./values";
+import { datesToCheck, type DateCheckKind, type SiteDates } from "./date-order";
 
 // Values a coordinator should look at before accepting a site's data. Pure, over one site's values.
 
 export interface Flag {
   plotId: number;
   key: string;
-  kind: "out_of_range" | "far_from_entry";
+  kind: "out_of_range" | "far_from_entry" | DateCheckKind;
   message: string;
 }
 
@@ -20,14 +21,23 @@ const median = (xs: number[]) => {
  * Flags values outside the trait's range, and values far from the other plots of the same entry at the
  * site: the distance to the entry's median must exceed 3.5 robust standard deviations (1.4826 × the median
  * absolute distance over all plots of the column) and 20% of that median. A screening rule of thumb
- * (common practice), not a test; entries with fewer than three values are not judged.
+ * (common practice), not a test; entries with fewer than three values are not judged. With `dates`, also
+ * harvest and maturity dates out of order or far from the packet's days to maturity (`datesToCheck`),
+ * worded for staff.
  */
 export function flagValues(p: {
   columns: EntryColumn[];
   plots: { id: number; blindCode: string; plotCode: string }[];
   values: Record<number, Record<string, CellValue>>;
+  dates?: { site: SiteDates; packetDays: Record<number, number | null> };
 }): Flag[] {
   const flags: Flag[] = [];
+  if (p.dates) {
+    for (const plot of p.plots) {
+      const found = datesToCheck({ columns: p.columns, value: (key) => p.values[plot.id]?.[key], site: p.dates.site, packetDays: p.dates.packetDays[plot.id] ?? null, audience: "staff" });
+      for (const w of found) flags.push({ plotId: plot.id, key: w.key, kind: w.kind, message: w.message });
+    }
+  }
   for (const c of p.columns) {
     if (c.valueType !== "count" && c.valueType !== "number" && c.valueType !== "rating") continue;
     const points = p.plots

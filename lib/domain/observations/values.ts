@@ -1,6 +1,7 @@
 import type { EntryColumn } from "./columns";
 import { missingCell, parseMissingText, type MissingReason } from "./missing";
 import { SEEDS_SOWN_CODE, EMERGED_TRAIT_CODES } from "@/lib/domain/vocabulary/traits";
+import { siteDateRefusal } from "./date-order";
 
 // Turning what a grower typed (or a spreadsheet cell) into a stored value, with messages a grower
 // understands. Pure, so the browser gives the same answer as the server, which always re-checks.
@@ -23,6 +24,8 @@ export type TextNumberCommas = "decimal" | "ask";
 export interface ParseContext {
   /** The site's sowing date (YYYY-MM-DD); dates before it are refused. */
   sownOn: string | null;
+  /** The site's transplanting date, if any; dates counted from it are refused before it. */
+  transplantedOn?: string | null;
   /** Today (YYYY-MM-DD); observation dates after it are refused. */
   today: string;
   /** Default "decimal". */
@@ -170,7 +173,8 @@ export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): Pars
         if (!parsed.ok) return fail(parsed.message);
         iso = parsed.iso;
       } else return fail(`${String(raw)} is not a date. Write it like 2026-04-03.`);
-      if (ctx.sownOn && iso < ctx.sownOn) return fail(`${iso} is before the sowing date (${ctx.sownOn}). Check the date.`);
+      const refusal = siteDateRefusal(c, iso, { sownOn: ctx.sownOn, transplantedOn: ctx.transplantedOn ?? null });
+      if (refusal) return fail(refusal);
       if (iso > ctx.today) return fail(`${iso} is in the future. Record a date once it has happened.`);
       return { ok: true, value: { valueNumber: null, valueDate: iso, valueText: null } };
     }

@@ -28,6 +28,7 @@ export type BetterWhen = (typeof BETTER_WHEN)[number];
 
 /** How a trait's analysed value is derived from what the grower records. */
 export const TRAIT_COMPUTATIONS = ["none", "days_from_sowing", "days_from_transplant"] as const;
+export type TraitComputation = (typeof TRAIT_COMPUTATIONS)[number];
 
 export const TRIAL_DESIGNS = ["rcbd", "crd"] as const;
 export type TrialDesign = (typeof TRIAL_DESIGNS)[number];

@@ -9,6 +9,16 @@ export const EMERGED_FINAL_CODE = "emerged_final";
 /** Cumulative seedling counts on fixed days after sowing (the occasion is the day). */
 export const EMERGENCE_COUNT_CODE = "emergence_count";
 
+/** The day half a plot's cells show a seedling; later stages (harvest, maturity) cannot come before it. */
+export const EMERGENCE_DATE_CODE = "emergence_date";
+
+/**
+ * Date traits that mark harvest or maturity: the built-in first harvest date and any trait a coordinator
+ * codes with "harvest" or "matur" in it. The date-order checks compare them with emergence, transplanting
+ * and the packet's days to maturity.
+ */
+export const isMaturityDateCode = (code: string): boolean => /harvest|matur/i.test(code);
+
 /** Seedling counts that can never exceed the seeds sown in the same plot. */
 export const EMERGED_TRAIT_CODES: readonly string[] = [EMERGENCE_COUNT_CODE, EMERGED_FINAL_CODE];
 

@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireUser } from "@/server/auth/guards";
-import { getRecordingSheet } from "@/server/observations/sheet";
+import { getRecordingSheet, packetChecksForViewer } from "@/server/observations/sheet";
 import { idParam } from "@/lib/validation/common";
 import { EntryForm } from "@/components/record/entry-form";
 import { DuePanel, lockMessage, SiteHeader } from "@/components/record/site-panels";
@@ -25,7 +25,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   if (!sheet) notFound();
 
   const plotFilter = idParam.safeParse((await searchParams).plot);
-  const photos = await listSitePhotos(viewer, { trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId });
+  const [photos, packetChecks] = await Promise.all([listSitePhotos(viewer, { trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }), packetChecksForViewer(viewer, sheet)]);
   const plots = plotFilter.success ? sheet.plots.filter((x) => x.id === plotFilter.data) : sheet.plots;
   const initial: Record<string, string> = {};
   for (const [plotId, byKey] of Object.entries(sheet.values)) {
@@ -94,6 +94,8 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           initialReasons={initialReasons}
           defaultColumn={plotFilter.success ? "all" : defaultColumn}
           sownOn={sheet.enrolment.sownOn}
+          transplantedOn={sheet.enrolment.transplantedOn}
+          packetChecks={packetChecks}
           today={sheet.today}
           locked={lockMessage(viewer.role, sheet)}
           comments={comments}
