@@ -8,12 +8,15 @@ import { datesToCheck } from "@/lib/domain/observations/date-order";
 import { Button } from "@/components/ui/button";
 import { restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./save-queue";
 import { useSaveQueue } from "./use-save-queue";
+import { plotPlace } from "@/lib/domain/design/site-layout";
+import { Dialog } from "@/components/ui/dialog";
 import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 
 export interface EntryPlot {
   id: number;
   plotCode: string;
   block: number;
+  position: number;
   blindCode: string;
   tray: number | null;
   traySlot: number | null;
@@ -42,6 +45,8 @@ export function EntryForm(props: {
   today: string;
   locked: string | null;
   comments: Record<number, string[]>;
+  plotUnit: "insert" | "cells" | "bed_row";
+  plotSize: number;
 }) {
   const { trialId, siteId, columns, plots } = props;
   const [choice, setChoice] = useState(props.defaultColumn);
@@ -81,13 +86,14 @@ export function EntryForm(props: {
     const slot = slotOf(plotId, column.key);
     // Leaving an empty field keeps a reason already chosen; typing a value replaces it.
     if (value === "" && reasons[slot]) return;
-    if (!differs(slot, value)) return;
+    // Check first, so a value typed back to what was saved still clears the message of a wrong one before it.
     const parsed = parseCell(column, value, ctx);
     if (!parsed.ok) {
       setSlotError(slot, parsed.message);
       return;
     }
     setSlotError(slot, null);
+    if (!differs(slot, value)) return;
     setReasons((r) => {
       const { [slot]: _replaced, ...rest } = r;
       return rest;
@@ -107,6 +113,27 @@ export function EntryForm(props: {
     setSlotError(slot, null);
     if (!differs(slot, tokenOf("", reason))) return;
     enqueue({ plotId, key: column.key, value: "", reason });
+  }
+
+  // Fill one value down a column (seeds sown is the same in every plot): only plots with neither a value
+  // nor a reason, after the grower confirms the number of plots it will write.
+  const [filling, setFilling] = useState(false);
+  const [fillValue, setFillValue] = useState("");
+  const [fillError, setFillError] = useState<string | null>(null);
+  const fillColumn = choice !== "all" && !props.locked ? columns.find((c) => c.key === choice && c.valueType !== "text") : undefined;
+  const emptyPlots = fillColumn ? plots.filter((p) => !(inputs[slotOf(p.id, fillColumn.key)] ?? "") && !reasons[slotOf(p.id, fillColumn.key)]) : [];
+  function fillDown() {
+    if (!fillColumn) return;
+    const parsed = parseCell(fillColumn, fillValue, ctx);
+    if (fillValue.trim() === "" || !parsed.ok) {
+      setFillError(parsed.ok ? "Type the value to fill in." : parsed.message);
+      return;
+    }
+    setInputs((i) => ({ ...i, ...Object.fromEntries(emptyPlots.map((p) => [slotOf(p.id, fillColumn.key), fillValue])) }));
+    for (const p of emptyPlots) enqueue({ plotId: p.id, key: fillColumn.key, value: fillValue, reason: null });
+    setFilling(false);
+    setFillValue("");
+    setFillError(null);
   }
 
   function focusNext(current: HTMLElement) {
@@ -134,6 +161,37 @@ export function EntryForm(props: {
             <option value="all">All values, plot by plot</option>
           </select>
           {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">Valid: {describeRange(shown[0])}.</p>}
+          {fillColumn && emptyPlots.length > 1 && (
+            <Button type="button" variant="secondary" className="mt-2" onClick={() => setFilling(true)}>
+              Same value for the {emptyPlots.length} empty plots…
+            </Button>
+          )}
+          {filling && fillColumn && (
+            <Dialog title={`${fillColumn.name}: one value for every empty plot`} onClose={() => setFilling(false)}>
+              <p>
+                This writes the value into the {emptyPlots.length} plots that have no {fillColumn.name.toLowerCase()} yet. Plots with a value or a
+                reason keep theirs. Use it only where the value really is the same, such as seeds sown.
+              </p>
+              <label htmlFor="fill-value" className="block text-sm font-semibold">
+                Value ({describeRange(fillColumn)})
+              </label>
+              <input
+                id="fill-value"
+                type={fillColumn.valueType === "date" ? "date" : "text"}
+                inputMode={fillColumn.valueType === "count" || fillColumn.valueType === "rating" ? "numeric" : "decimal"}
+                value={fillValue}
+                onChange={(e) => setFillValue(e.target.value)}
+                aria-describedby="fill-error"
+                className="block min-h-12 w-full rounded-lg border border-loam-300 px-3 text-base"
+              />
+              <p id="fill-error" className="min-h-5 text-sm font-semibold text-beet-700">
+                {fillError}
+              </p>
+              <Button type="button" onClick={fillDown}>
+                Fill {emptyPlots.length} plots
+              </Button>
+            </Dialog>
+          )}
         </div>
         <div aria-live="polite" role="status" className="text-sm">
           {queued > 0 ? (
@@ -159,7 +217,7 @@ export function EntryForm(props: {
               <span className="font-mono text-lg font-bold text-loam-900">{p.plotCode}</span>
               <span className="text-sm text-loam-700">
                 Block {p.block} · Code <span className="font-semibold">{p.blindCode}</span>
-                {p.tray !== null ? ` · Flat ${p.tray}, slot ${p.traySlot}` : ""}
+                {` · ${plotPlace(props.plotUnit, p, props.plotSize)}`}
               </span>
             </div>
             {props.comments[p.id]?.map((c, i) => (
@@ -209,7 +267,12 @@ export function EntryForm(props: {
                         enterKeyHint="next"
                         value={inputs[slot] ?? ""}
                         placeholder={reason ? "No value" : undefined}
-                        onChange={(e) => setInputs((i) => ({ ...i, [slot]: e.target.value }))}
+                        onChange={(e) => {
+                          const value = e.target.value;
+                          setInputs((i) => ({ ...i, [slot]: value }));
+                          // A message goes as soon as the value is valid, not only when the field is left.
+                          if (err && parseCell(c, value, ctx).ok) setSlotError(slot, null);
+                        }}
                         onBlur={(e) => commit(p.id, c, e.target.value)}
                         onKeyDown={(e) => {
                           if (e.key === "Enter") {

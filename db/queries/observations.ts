@@ -25,6 +25,8 @@ export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { 
       trialCode: trials.code,
       trialTitle: trials.title,
       trialStatus: trials.status,
+      plotUnit: trials.plotUnit,
+      plotSize: trials.plotSize,
       programId: trials.programId,
       siteId: sites.id,
       siteName: sites.name,

@@ -1,5 +1,6 @@
 import { Document, Image, Page, Text, View } from "@react-pdf/renderer";
 import type { SiteSheetData } from "../shared/sheet-data";
+import { plotPlace } from "@/lib/domain/design/site-layout";
 import { ACCENT, RULE, TREATED_INK, base, registerFonts } from "../shared/pdf";
 
 // Three labels across, cut along the dashed lines; each carries only what a grower needs at the plot:
@@ -32,7 +33,7 @@ export function PlotLabelsDocument({ data }: { data: SiteSheetData }) {
                   <Text style={{ fontSize: 9, fontWeight: 600 }}>Plot {p.plotCode}</Text>
                   <Text style={{ fontSize: 8 }}>
                     Block {p.block}
-                    {p.tray !== null ? ` · Flat ${p.tray}, ${data.plotUnit === "insert" ? "insert" : "cell"} ${p.traySlot}` : ` · position ${p.position}`}
+                    {` · ${plotPlace(data.plotUnit, p, data.plotSize)}`}
                   </Text>
                 </View>
               </View>

@@ -40,3 +40,13 @@ export function siteLayout(p: { design: TrialDesign; blocks: number; plotUnit: P
     };
   });
 }
+
+/**
+ * Where a plot sits, in the one wording every screen and printout uses: "Flat 2, insert 3" for six-cell
+ * inserts, "Flat 2, cells 13–18" for cell plots, "position 5" along a bed row.
+ */
+export function plotPlace(plotUnit: "insert" | "cells" | "bed_row", p: { tray: number | null; traySlot: number | null; position: number }, plotSize = 1): string {
+  if (p.tray === null || p.traySlot === null) return `position ${p.position}`;
+  if (plotUnit === "insert") return `Flat ${p.tray}, insert ${p.traySlot}`;
+  return plotSize > 1 ? `Flat ${p.tray}, cells ${p.traySlot}–${p.traySlot + plotSize - 1}` : `Flat ${p.tray}, cell ${p.traySlot}`;
+}

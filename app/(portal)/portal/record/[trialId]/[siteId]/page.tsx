@@ -44,6 +44,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   const comments: Record<number, string[]> = {};
   for (const c of sheet.comments) if (c.plotId) (comments[c.plotId] ??= []).push(c.body);
   const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
+  const sendable = (sheet.submission?.status ?? "draft") !== "submitted" && sheet.submission?.status !== "accepted" && Object.keys(sheet.values).length > 0;
 
   return (
     <div className="space-y-6">
@@ -71,7 +72,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           Upload a filled-in sheet
         </Link>
       </div>
-      {(sheet.submission?.status ?? "draft") !== "submitted" && sheet.submission?.status !== "accepted" && Object.keys(sheet.values).length > 0 && (
+      {sendable && (
         <Card title="When everything is in">
           <p className="mb-3 text-loam-700">Send the data to your coordinator for review. The values are locked until they accept it or return it with questions.</p>
           <SubmitForReviewForm site={{ trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }} />
@@ -99,7 +100,15 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           today={sheet.today}
           locked={lockMessage(viewer.role, sheet)}
           comments={comments}
+          plotUnit={sheet.enrolment.plotUnit}
+          plotSize={sheet.enrolment.plotSize}
         />
+      )}
+      {plots.length > 0 && sendable && (
+        <Card title="Done recording?">
+          <p className="mb-3 text-loam-700">Send the data to your coordinator for review. The values are locked until they accept it or return it with questions.</p>
+          <SubmitForReviewForm site={{ trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }} />
+        </Card>
       )}
       {plots.length > 0 && (
         <Card title="Photos">
