@@ -12,6 +12,9 @@
  */
 import { blockView } from "@/lib/domain/analysis/block-view";
 import type { AnalysisBlock, AnalysisResult, EntryResult, GerminationRow } from "@/lib/domain/analysis/types";
+import { EXCLUSION_CATEGORIES, type ExclusionCategory } from "@/lib/domain/vocabulary/enums";
+import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
+import { publicNotIncludedWhy } from "./site-inclusion";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
 
 export interface PublicSite {
@@ -65,6 +68,17 @@ export interface PublicCombined extends PublicBlock {
 
 export type PublicGerminationRow = Omit<GerminationRow, "entryId" | "siteId">;
 
+export interface PublicExclusion {
+  siteName: string | null;
+  /** null when the whole site is left out */
+  plotCode: string | null;
+  /** null when the exclusion covers every trait */
+  traitName: string | null;
+  category: ExclusionCategory;
+  /** the category in words */
+  reason: string;
+}
+
 export interface PublicTraitResult {
   trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string };
   /** the sites in this trait's analysis */
@@ -72,7 +86,8 @@ export interface PublicTraitResult {
   combined: PublicCombined | null;
   combinedProblem: string | null;
   missing: { plotCode: string; siteName: string; blindCode: string; block: number; reason: string; handling: string }[];
-  exclusions: { siteName: string | null; plotCode: string | null; traitName: string | null; reason: string }[];
+  /** exactly the sites and plots left out of this trait, with the public reason (never the staff's note) */
+  exclusions: PublicExclusion[];
   warnings: string[];
   notes: string[];
   germination: {
@@ -113,7 +128,10 @@ export interface PublicSnapshot {
   };
   /** code of the one trait published, or null when the whole trial is */
   scopeTrait: string | null;
+  /** every enrolled site */
   sites: PublicSite[];
+  /** "results from N of M sites": how many enrolled sites this version includes, and the others by name with why */
+  coverage: { included: number; enrolled: number; notIncluded: { name: string; why: string }[] };
   entries: PublicEntry[];
   traits: PublicTrait[];
   results: { trait: string; result: PublicTraitResult }[];
@@ -127,6 +145,22 @@ const mean = (m: EntryResult): PublicMean => ({ blindCode: m.blindCode, varietyN
 const block = (b: AnalysisBlock): PublicBlock => blockView(b, b.means.map(mean));
 
 const germinationRow = (g: GerminationRow): PublicGerminationRow => ({ blindCode: g.blindCode, varietyName: g.varietyName, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
+
+// Versions published before exclusions had a category stored the coordinator's free text as the reason and
+// listed every exclusion under every trait; only the category (or "other") and this trait's own leave here.
+const categoryOf = (x: { category?: unknown }): ExclusionCategory => (EXCLUSION_CATEGORIES as readonly unknown[]).includes(x.category) ? (x.category as ExclusionCategory) : "other";
+const publicReasons = new Set(Object.values(EXCLUSION_CATEGORY_LABELS));
+const publicMissingReason = (reason: string) =>
+  reason.startsWith("excluded") && !publicReasons.has(reason.slice("excluded: ".length)) ? `excluded: ${EXCLUSION_CATEGORY_LABELS.other}` : reason;
+
+function exclusionsOf(r: AnalysisResult): PublicExclusion[] {
+  return r.exclusions
+    .filter((x) => x.traitId === null || x.traitId === undefined || x.traitId === r.trait.id)
+    .map((x) => {
+      const category = categoryOf(x);
+      return { siteName: x.siteName, plotCode: x.plotCode, traitName: x.traitName, category, reason: EXCLUSION_CATEGORY_LABELS[category] };
+    });
+}
 
 /** One trait's published analysis in its public shape. */
 export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
@@ -146,8 +180,8 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
       cellMeans: combined.cellMeans.map((c) => ({ siteName: c.siteName, blindCode: codeOf.get(c.entryId) ?? "", mean: c.mean, n: c.n })),
     },
     combinedProblem: r.combinedProblem,
-    missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: m.reason, handling: m.handling })),
-    exclusions: r.exclusions.map((x) => ({ siteName: x.siteName, plotCode: x.plotCode, traitName: x.traitName, reason: x.reason })),
+    missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: publicMissingReason(m.reason), handling: m.handling })),
+    exclusions: exclusionsOf(r),
     warnings: [...r.warnings],
     notes: [...r.notes],
     germination: g && {
@@ -167,6 +201,20 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
   };
 }
 
+/**
+ * Which enrolled sites a version includes. Versions published before the inclusion was kept count the
+ * sites that appear in any trait's analysis.
+ */
+function coverageOf(s: PublishedSnapshot): PublicSnapshot["coverage"] {
+  if (s.siteInclusion) {
+    const out = s.siteInclusion.filter((x) => !x.included);
+    return { included: s.siteInclusion.length - out.length, enrolled: s.siteInclusion.length, notIncluded: out.map((x) => ({ name: x.siteName, why: publicNotIncludedWhy(x) })) };
+  }
+  const analysed = new Set(s.results.flatMap(({ result }) => result.perSite.map((p) => p.siteName)));
+  const out = s.sites.filter((x) => !analysed.has(x.name));
+  return { included: s.sites.length - out.length, enrolled: s.sites.length, notIncluded: out.map((x) => ({ name: x.name, why: "no accepted data in this version" })) };
+}
+
 /** A stored snapshot (any version of its format) in the public shape. */
 export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
   const t = s.trial;
@@ -179,6 +227,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     program: s.program,
     trial: { code: t.code, title: t.title, crop: t.crop, cropGroup: t.cropGroup, season: t.season, year: t.year, purpose: t.purpose, design: t.design, blocks: t.blocks, plotUnit: t.plotUnit, plotSize: t.plotSize, protocol: t.protocol },
     scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),
+    coverage: coverageOf(s),
     sites: s.sites.map((x) => ({ id: x.id, name: x.name, kind: x.kind, region: x.region, growingSetup: x.growingSetup, soil: x.soil, irrigation: x.irrigation, publicDescription: x.publicDescription, sownOn: x.sownOn })),
     entries: s.entries.map((e) => ({ blindCode: e.blindCode, varietyId: e.varietyId, variety: e.variety, isCheck: e.isCheck, seedSource: e.seedSource, lotCode: e.lotCode, labelGermination: e.labelGermination, treated: e.treated })),
     traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description })),
