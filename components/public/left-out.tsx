@@ -6,13 +6,13 @@ export function SiteCoverage({ coverage }: { coverage: PublicSnapshot["coverage"
   return (
     <div>
       <p className="font-semibold">
-        Results from {coverage.included} of {plural(coverage.enrolled, "site")}.
+        Results from {coverage.inResults} of {plural(coverage.enrolled, "site")}.
       </p>
       {coverage.notIncluded.length > 0 && (
         <ul className="mt-1 list-disc pl-5 text-sm text-loam-700" aria-label="Sites not included">
           {coverage.notIncluded.map((s) => (
             <li key={s.name}>
-              {s.name} is not included: {s.why}.
+              {s.name} is not included: {s.reason}.
             </li>
           ))}
         </ul>

@@ -173,7 +173,7 @@ function LeftOut({ snapshot }: { snapshot: PublicSnapshot }) {
       <Text style={[base.h2, { fontSize: 9 }]}>Left out of the analysis</Text>
       {coverage.notIncluded.length > 0 && (
         <Text style={s.note}>
-          Results from {coverage.included} of {coverage.enrolled} sites. Not included: {coverage.notIncluded.map((x) => `${x.name} (${x.why})`).join("; ")}.
+          Results from {coverage.inResults} of {coverage.enrolled} sites. Not included: {coverage.notIncluded.map((x) => `${x.name} (${x.reason})`).join("; ")}.
         </Text>
       )}
       {byTrait.map((r) => (

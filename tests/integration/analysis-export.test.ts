@@ -37,10 +37,10 @@ afterAll(async () => {
 
 describe("analysis exports", () => {
   it("writes an .xlsx whose means, ANOVA and settings match the page's JSON, with formula-like text neutralised", async () => {
-    const exclusionId = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: null, traitId: null, reason: "placeholder" }).catch(() => null);
+    const exclusionId = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: null, traitId: null, category: "other", note: "placeholder" }).catch(() => null);
     expect(exclusionId).toBeNull(); // neither a site nor a plot: refused
     const [plot] = await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
-    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: plot!.id, traitId: yieldId, reason: '=HYPERLINK("http://example.test","x")' });
+    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: plot!.id, traitId: yieldId, category: "other", note: '=HYPERLINK("http://example.test","x")' });
     try {
       const json = (await (await getAnalysis(new Request(`http://t/api/trials/${lettuceId}/analysis?trait=${yieldId}&plots=1`), ctx())).json()) as AnalysisResult;
       const res = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}&format=xlsx`), ctx());
@@ -92,7 +92,7 @@ describe("analysis exports", () => {
 
   it("keeps formula-like exclusion reasons as text in the workbook", async () => {
     const [site] = await db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, lettuceId)).limit(1);
-    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: site!.id, plotId: null, traitId: yieldId, reason: "@SUM(A1:A9) test" });
+    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: site!.id, plotId: null, traitId: yieldId, category: "other", note: "@SUM(A1:A9) test" });
     try {
       const res = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}`), ctx());
       const workbook = new ExcelJS.Workbook();

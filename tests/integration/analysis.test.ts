@@ -129,11 +129,11 @@ describe("exclusions", () => {
   it("leave a site out, are listed, and change the results until removed", async () => {
     const before = await analysis(`trait=${yieldId}`);
     const site = before.perSite[0]!;
-    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: site.siteId, plotId: null, traitId: null, reason: `Hail flattened the beds ${unique("x")}` });
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: site.siteId, plotId: null, traitId: null, category: "plot_damaged", note: `Hail flattened the beds ${unique("x")}` });
     try {
       const after = await analysis(`trait=${yieldId}`);
       expect(after.perSite.map((p) => p.siteId)).not.toContain(site.siteId);
-      expect(after.sites.find((x) => x.id === site.siteId)!.why).toMatch(/^excluded: Hail flattened/);
+      expect(after.sites.find((x) => x.id === site.siteId)!.why).toBe("excluded: plot damaged (animals, hail, flooding)");
       expect(after.exclusions.map((x) => x.id)).toContain(id);
       expect(after.combined!.entryF).not.toBeCloseTo(before.combined!.entryF!, 6);
       const [audit] = await db.select({ action: s.auditLog.action }).from(s.auditLog).where(sql`${s.auditLog.entity} = 'analysis_exclusion' AND ${s.auditLog.entityId} = ${String(id)}`);
@@ -149,10 +149,10 @@ describe("exclusions", () => {
     const before = await analysis(`trait=${yieldId}&plots=1`);
     const plot = before.plots.find((p) => p.status === "used")!;
     const [row] = await db.select({ id: s.plots.id }).from(s.plots).where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.plots.plotCode} = ${plot.plotCode}`);
-    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, reason: "Irrigation line burst on this plot" });
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, category: "protocol_not_followed", note: "Irrigation line burst on this plot" });
     try {
       const after = await analysis(`trait=${yieldId}&plots=1`);
-      expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: Irrigation line burst on this plot");
+      expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: trial protocol not followed");
       expect(after.plots.find((p) => p.plotCode === plot.plotCode)!.status).toBe("excluded");
       const site = after.perSite.find((p) => p.siteId === plot.siteId)!;
       expect(site.result!.n).toBe(before.perSite.find((p) => p.siteId === plot.siteId)!.result!.n - 1);
@@ -275,7 +275,7 @@ describe("who may read an analysis", () => {
       const res = await call(`trait=${yieldId}`);
       expect(res.status).toBe(404);
       expect(JSON.stringify(await res.json())).not.toContain("Copper Ruffle");
-      await expect(insertExclusion(auth.viewer, { trialId: lettuceId, siteId: null, plotId: 1, traitId: null, reason: "not mine to exclude" })).rejects.toThrow(/not in your programs/);
+      await expect(insertExclusion(auth.viewer, { trialId: lettuceId, siteId: null, plotId: 1, traitId: null, category: "other", note: "not mine to exclude" })).rejects.toThrow(/not in your programs/);
     } finally {
       auth.viewer = coordinator;
     }

@@ -52,7 +52,7 @@ export async function publishedXlsx(snapshot: PublicSnapshot): Promise<Buffer> {
   for (const { result } of snapshot.results) {
     for (const x of result.exclusions) addSheetRow(leftOut, [result.trait.analysedAs, x.siteName ?? "", x.plotCode ?? "whole site", x.reason]);
   }
-  for (const s of snapshot.coverage.notIncluded) addSheetRow(leftOut, ["every trait", s.name, "whole site", `not included: ${s.why}`]);
+  for (const s of snapshot.coverage.notIncluded) addSheetRow(leftOut, ["every trait", s.name, "whole site", `not included: ${s.reason}`]);
 
   const dictionary = book.addWorksheet("Data dictionary");
   addSheetRow(dictionary, ["column", "meaning"]).font = { bold: true };

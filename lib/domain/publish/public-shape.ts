@@ -131,7 +131,7 @@ export interface PublicSnapshot {
   /** every enrolled site */
   sites: PublicSite[];
   /** "results from N of M sites": how many enrolled sites this version includes, and the others by name with why */
-  coverage: { included: number; enrolled: number; notIncluded: { name: string; why: string }[] };
+  coverage: { inResults: number; enrolled: number; notIncluded: { name: string; reason: string }[] };
   entries: PublicEntry[];
   traits: PublicTrait[];
   results: { trait: string; result: PublicTraitResult }[];
@@ -208,11 +208,11 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
 function coverageOf(s: PublishedSnapshot): PublicSnapshot["coverage"] {
   if (s.siteInclusion) {
     const out = s.siteInclusion.filter((x) => !x.included);
-    return { included: s.siteInclusion.length - out.length, enrolled: s.siteInclusion.length, notIncluded: out.map((x) => ({ name: x.siteName, why: publicNotIncludedWhy(x) })) };
+    return { inResults: s.siteInclusion.length - out.length, enrolled: s.siteInclusion.length, notIncluded: out.map((x) => ({ name: x.siteName, reason: publicNotIncludedWhy(x) })) };
   }
   const analysed = new Set(s.results.flatMap(({ result }) => result.perSite.map((p) => p.siteName)));
   const out = s.sites.filter((x) => !analysed.has(x.name));
-  return { included: s.sites.length - out.length, enrolled: s.sites.length, notIncluded: out.map((x) => ({ name: x.name, why: "no accepted data in this version" })) };
+  return { inResults: s.sites.length - out.length, enrolled: s.sites.length, notIncluded: out.map((x) => ({ name: x.name, reason: "no accepted data in this version" })) };
 }
 
 /** A stored snapshot (any version of its format) in the public shape. */

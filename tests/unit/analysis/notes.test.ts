@@ -104,11 +104,11 @@ describe("warnings", () => {
 
   it("applies and lists exclusions without losing the data", () => {
     const input = build({ sites: 3 });
-    input.exclusions.push({ id: 1, siteId: 51, plotId: null, traitId: null, reason: "flooded in May", createdAt: "2026-06-01T00:00:00.000Z", createdBy: "Invented Person" });
+    input.exclusions.push({ id: 1, siteId: 51, plotId: null, traitId: null, category: "plot_damaged", note: "flooded in May", createdAt: "2026-06-01T00:00:00.000Z", createdBy: "Invented Person" });
     const result = runAnalysis(input, settings());
-    expect(result.sites.find((s) => s.id === 51)!.why).toBe("excluded: flooded in May");
+    expect(result.sites.find((s) => s.id === 51)!.why).toBe("excluded: plot damaged (animals, hail, flooding)");
     expect(result.perSite.map((s) => s.siteId)).toEqual([50, 52]);
-    expect(result.exclusions[0]).toMatchObject({ siteName: "Site 2", reason: "flooded in May" });
+    expect(result.exclusions[0]).toMatchObject({ siteName: "Site 2", publicReason: "plot damaged (animals, hail, flooding)", note: "flooded in May" });
     expect(result.germination!.cmh!.sites).toBe(2);
   });
 });
