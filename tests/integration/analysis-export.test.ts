@@ -76,7 +76,10 @@ describe("analysis exports", () => {
       const settings = workbook.getWorksheet("Settings")!;
       const texts: string[] = [];
       settings.eachRow((row) => texts.push(String(row.getCell(2).value)));
-      expect(texts.some((t) => t.includes('=HYPERLINK("http://example.test","x")'))).toBe(true);
+      // A file travels beyond the portal: it names the public reason, never the staff's note.
+      expect(texts.some((t) => t.includes("HYPERLINK"))).toBe(false);
+      expect(texts.some((t) => t.includes("other reason"))).toBe(true);
+      expect(texts.every((v) => !/^[=+\-@]/.test(v))).toBe(true);
       const raw = workbook.getWorksheet("Raw data")!;
       expect(raw.rowCount - 1).toBe(json.plots.length);
 
@@ -90,7 +93,7 @@ describe("analysis exports", () => {
     }
   });
 
-  it("keeps formula-like exclusion reasons as text in the workbook", async () => {
+  it("writes an exclusion's public reason to the workbook and never its private note", async () => {
     const [site] = await db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, lettuceId)).limit(1);
     const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: site!.id, plotId: null, traitId: yieldId, category: "other", note: "@SUM(A1:A9) test" });
     try {
@@ -99,8 +102,8 @@ describe("analysis exports", () => {
       await workbook.xlsx.load(await res.arrayBuffer());
       const values: string[] = [];
       workbook.getWorksheet("Settings")!.eachRow((row) => values.push(String(row.getCell(2).value)));
-      // The reason sits inside a longer sentence; the site's "left out" line starts with it only after the prefix.
-      expect(values.some((v) => v.includes("@SUM(A1:A9) test"))).toBe(true);
+      expect(values.some((v) => v.includes("@SUM(A1:A9) test"))).toBe(false);
+      expect(values.some((v) => v.includes(`whole site`) && v.includes("other reason"))).toBe(true);
       expect(values.every((v) => !/^[=+\-@]/.test(v))).toBe(true);
     } finally {
       await deleteExclusion(auth.viewer!, { trialId: lettuceId, exclusionId: id });

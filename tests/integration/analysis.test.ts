@@ -166,7 +166,7 @@ describe("exclusion form", () => {
   it("finds a plot by the code on its label, and refuses an unknown code with a field message and nothing written", async () => {
     const { exclusionSchema } = await import("@/lib/validation/analysis");
     const [plot] = await db.select({ id: s.plots.id, plotCode: s.plots.plotCode }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
-    const typed = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: ` ${plot!.plotCode.toLowerCase()} `, traitId: "all", reason: "Rabbits ate the whole plot" });
+    const typed = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: ` ${plot!.plotCode.toLowerCase()} `, traitId: "all", category: "plot_damaged", note: "Rabbits ate the whole plot" });
     expect(typed).toMatchObject({ plotId: null, siteId: null, plotCode: plot!.plotCode, traitId: null });
     const id = await insertExclusion(coordinator, typed);
     try {
@@ -176,16 +176,26 @@ describe("exclusion form", () => {
       await deleteExclusion(coordinator, { trialId: lettuceId, exclusionId: id });
     }
 
-    const missingCode = exclusionSchema.safeParse({ trialId: String(lettuceId), target: "plot", plotCode: "", reason: "Rabbits ate the whole plot" });
+    const missingCode = exclusionSchema.safeParse({ trialId: String(lettuceId), target: "plot", plotCode: "", category: "plot_damaged" });
     expect(missingCode.success).toBe(false);
     expect(missingCode.error!.issues[0]!.path).toEqual(["plotCode"]);
 
     const count = async () => (await db.select({ n: sql<number>`COUNT(*)` }).from(s.analysisExclusions))[0]!.n;
     const before = await count();
-    const unknown = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: "NO-SUCH-9", reason: "Rabbits ate the whole plot" });
+    const unknown = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: "NO-SUCH-9", category: "plot_damaged" });
     const error = await insertExclusion(coordinator, unknown).catch((e: unknown) => e);
     expect(error).toMatchObject({ code: "not_found", fieldErrors: { plotCode: [expect.stringMatching(/no plot NO-SUCH-9 in this trial/)] } });
     expect(await count()).toBe(before);
+  });
+
+  it("asks for the public reason from the list, and for a note when the reason is \"other\"", async () => {
+    const { exclusionSchema } = await import("@/lib/validation/analysis");
+    const base = { trialId: String(lettuceId), target: "plot", plotCode: "S1-B1-01", traitId: "all" };
+    const free = exclusionSchema.safeParse({ ...base, category: "the neighbour's dog", note: "" });
+    expect(free.error!.issues.map((i) => [i.path[0], i.message])).toEqual([["category", "Choose the reason the public will read."]]);
+    const other = exclusionSchema.safeParse({ ...base, category: "other", note: "  " });
+    expect(other.error!.issues.map((i) => i.path[0])).toEqual(["note"]);
+    expect(exclusionSchema.parse({ ...base, category: "seed_mix_up", note: "" })).toMatchObject({ category: "seed_mix_up", note: null });
   });
 });
 
