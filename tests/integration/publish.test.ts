@@ -12,6 +12,7 @@ import { publishedCsv, publishedXlsx } from "@/lib/domain/publish/downloads";
 import { deleteExclusion, insertExclusion } from "@/db/mutations/exclusions";
 import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/server/publish/public-snapshots";
 import { buildSnapshot } from "@/server/publish/build";
+import { listReviewQueue } from "@/server/review/sheets";
 import { renderTrialReport } from "@/reports/trial-report/render";
 import type { Viewer } from "@/lib/domain/viewer";
 import { DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
@@ -237,6 +238,12 @@ describe("publishing a trial", () => {
     // The workbook lists what each trait leaves out, with the public reason.
     expect(unzipped).toContain("plot damaged (animals, hail, flooding)");
   }, 60_000);
+
+  it("the review queue keeps the site left out of a published trial, marked as such, and drops the trial's accepted sites", async () => {
+    const queue = (await listReviewQueue(coordinator)).filter((r) => r.trialId === trialId);
+    const leftOut = (await readSiteInclusion(coordinator, trialId))!.filter((x) => !x.included);
+    expect(queue.map((r) => [r.siteName, r.status, r.leftOutOfPublished])).toEqual(leftOut.map((x) => [x.siteName, "submitted", true]));
+  });
 
   it("lists published trials, varieties and sites publicly without contact details", async () => {
     const index = await listPublicTrials({ q: "spinach" });
