@@ -108,7 +108,7 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
             </option>
           ))}
         </SelectField>
-        <SelectField label="Public reason" name="category" defaultValue={values?.category ?? ""} errors={errors?.category} hint="Printed with the published results and the report.">
+        <SelectField label="Public reason" name="category" defaultValue={values?.category ?? ""} errors={errors?.category} hint="Growers of the site see it, and it is printed with the published results and report.">
           <option value="">Choose a reason…</option>
           {EXCLUSION_CATEGORIES.map((c) => (
             <option key={c} value={c}>

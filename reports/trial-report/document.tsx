@@ -178,7 +178,7 @@ function LeftOut({ snapshot }: { snapshot: PublicSnapshot }) {
       )}
       {byTrait.map((r) => (
         <Text key={r.trait} style={s.note}>
-          • {r.result.trait.name}: {r.result.exclusions.map((e) => `${e.plotCode ? `plot ${e.plotCode} at ${e.siteName}` : `all plots at ${e.siteName}`} (${e.reason})`).join("; ")}.
+          • {r.result.trait.name}: {r.result.exclusions.map((e) => `${e.plotCode ? `plot ${e.plotCode} at ${e.siteName}` : `all plots at ${e.siteName}`}, reason: ${e.reason}`).join("; ")}.
         </Text>
       ))}
     </>

@@ -27,6 +27,22 @@ export async function readSiteInclusion(viewer: Viewer, trialId: number, tx?: Tx
 
 const namesOf = (inclusion: SiteInclusion[], ids: number[]) => inclusion.filter((s) => ids.includes(s.siteId)).map((s) => s.siteName).join(", ");
 
+/** Why a publication's confirmation does not match the sites it would leave out, in the coordinator's words. */
+function leftOutNotConfirmed(inclusion: SiteInclusion[], leftOut: number[], confirmed: number[]): AppError {
+  const names = namesOf(inclusion, leftOut);
+  if (confirmed.length === 0) {
+    const them = leftOut.length === 1 ? "it" : "them";
+    return new AppError("conflict", `This version would leave out ${names}. Tick the box that names ${them} to publish without ${them}, or accept ${leftOut.length === 1 ? "its" : "their"} data first.`, {
+      confirmLeftOut: [`Tick this box to publish without ${names}.`],
+    });
+  }
+  const message =
+    leftOut.length === 0
+      ? "Every site is now included, but the form named sites to leave out: the sites changed since this page was opened. Reload the page and check the list of sites again."
+      : `The sites left out changed since this page was opened: this version would now leave out ${names}. Reload the page and check the list of sites again.`;
+  return new AppError("conflict", message, { confirmLeftOut: [message] });
+}
+
 /**
  * Publishes a trial (or one trait) as a new immutable version, in three steps: the next version number,
  * the snapshot built from the accepted data, then the version, the trial's new status, the audit entry and
@@ -54,13 +70,7 @@ export async function publishResults(
   if (inclusion.length > 0 && leftOut.length === inclusion.length) {
     throw new AppError("conflict", "No site has accepted data that can be analysed yet. Accept at least one site's data first.");
   }
-  if (!confirmsExactly(p.confirmedLeftOut, leftOut)) {
-    const message =
-      leftOut.length === 0
-        ? "Every site is now included, but the form named sites to leave out. Reload the page and check the list of sites again."
-        : `This version would leave out ${namesOf(inclusion, leftOut)}. Reload the page if that list is not the one you confirmed, then tick the box that names them, or accept their data first.`;
-    throw new AppError("conflict", message, { confirmLeftOut: [message] });
-  }
+  if (!confirmsExactly(p.confirmedLeftOut, leftOut)) throw leftOutNotConfirmed(inclusion, leftOut, p.confirmedLeftOut);
   // Whole seconds: the stored timestamp has no fractions, and the snapshot must name the same moment.
   const publishedAt = new Date(Math.floor(Date.now() / 1000) * 1000);
   const snapshot = await buildSnapshot(viewer, { trialId: p.trialId, traitId: p.traitId, settings: p.settings, version, changeNote: p.changeNote, publishedAt, siteInclusion: inclusion });

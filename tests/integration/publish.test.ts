@@ -112,8 +112,8 @@ describe("the publishing guard", () => {
     const attempt = (confirmedLeftOut: number[]) => publishResults(coordinator, { trialId, traitId: null, settings: SETTINGS, changeNote: null, confirmedLeftOut });
     await expect(attempt([])).rejects.toThrow(`This version would leave out ${leftOut[0]!.siteName}.`);
     // A confirmation naming another site, or more sites than are left out, is not the one asked for.
-    await expect(attempt([included.siteId])).rejects.toThrow(/would leave out/);
-    await expect(attempt([leftOut[0]!.siteId, included.siteId])).rejects.toThrow(/would leave out/);
+    await expect(attempt([included.siteId])).rejects.toThrow(/would now leave out/);
+    await expect(attempt([leftOut[0]!.siteId, included.siteId])).rejects.toThrow(/would now leave out/);
     expect(await versionsOfTrial()).toBe(0);
     expect(await queuedSince(mark)).toEqual([]);
   });
@@ -222,8 +222,8 @@ describe("publishing a trial", () => {
     for (const [trait, list] of Object.entries(byTrait)) if (trait !== "marketable_yield" && trait !== "bolting") expect([trait, list]).toEqual([trait, []]);
 
     const text = await pdfText(await renderTrialReport(report.snapshot));
-    expect(text).toContain(`• Marketable yield: plot ${excludedPlot.code} at ${excludedPlot.site} (plot damaged (animals, hail, flooding)).`);
-    expect(text).toContain(`• Bolting at harvest: all plots at ${excludedSite} (not sown, or sown late).`);
+    expect(text).toContain(`• Marketable yield: plot ${excludedPlot.code} at ${excludedPlot.site}, reason: plot damaged (animals, hail, flooding).`);
+    expect(text).toContain(`• Bolting at harvest: all plots at ${excludedSite}, reason: not sown, or sown late.`);
     expect(text.match(new RegExp(`plot ${excludedPlot.code} at`, "g"))?.length).toBe(1);
 
     // The notes stay in the portal: not in the stored snapshot, the public shape, the PDF or the downloads.
