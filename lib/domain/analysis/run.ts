@@ -93,7 +93,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
     ...siteNotes(trait, analysedSites, missing),
     ...combinedNotes(trait, combined, analysedSites.length),
     ...cvNote(cvs),
-    ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "site or plot", "sites or plots")} left out of this trait by the coordinator; the data stay stored and are listed below.`] : []),
+    ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "site or plot", "sites or plots")} left out of this trait by the coordinator, each listed with its reason; the data stay stored.`] : []),
   ];
 
   return {
