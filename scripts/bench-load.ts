@@ -31,7 +31,8 @@ if (!url) {
 }
 const { db, pool } = createDatabase(url, 4);
 const { hashPassword } = await import("../server/auth/password");
-const { publishResults } = await import("../server/publish/publish");
+const { publishResults, readSiteInclusion } = await import("../server/publish/publish");
+const { leftOutSiteIds } = await import("../lib/domain/publish/site-inclusion");
 const { pool: appPool } = await import("../db/index");
 // Everything the run adds is removed at the end (and at the start, if an earlier run was interrupted).
 const THROWAWAY = { sitePrefix: "Load site ", cropPrefix: "Load crop ", emailPrefix: "load-" };
@@ -95,7 +96,8 @@ async function publishedTrial(coordinatorId: number) {
   if (!trial) throw new Error("Nothing is published and TV26-LET is missing; publish a trial first.");
   const [u] = await db.select({ email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.id, coordinatorId));
   const viewer = { id: coordinatorId, email: u!.email, name: u!.name, role: u!.role };
-  await publishResults(viewer, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
+  const confirmedLeftOut = leftOutSiteIds((await readSiteInclusion(viewer, trial.id))!);
+  await publishResults(viewer, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null, confirmedLeftOut });
   console.log(`Published ${trial.code} so the public page has something to show.`);
   return trial;
 }

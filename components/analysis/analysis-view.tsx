@@ -274,11 +274,11 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           </>
         ) : (
           result.exclusions.length > 0 && (
-            <Card title="Left out by the coordinator">
+            <Card title="Left out of this trait by the coordinator">
               <ul className="list-disc pl-5">
                 {result.exclusions.map((x) => (
                   <li key={x.id}>
-                    {x.plotCode ? `Plot ${x.plotCode}` : x.siteName} ({x.traitName ?? "all traits"}): {x.reason}
+                    {x.plotCode ? `Plot ${x.plotCode} (${x.siteName})` : `Whole site ${x.siteName}`}: {x.publicReason}
                   </li>
                 ))}
               </ul>

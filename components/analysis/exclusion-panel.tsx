@@ -3,6 +3,8 @@ import { startTransition, useActionState, useEffect, useRef, useState } from "re
 import { useQueryClient } from "@tanstack/react-query";
 import { excludeFromAnalysis, includeInAnalysis } from "@/server/actions/exclusions";
 import type { AnalysisPayload } from "@/lib/domain/analysis/types";
+import { EXCLUSION_CATEGORIES, type ExclusionCategory } from "@/lib/domain/vocabulary/enums";
+import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { Button } from "@/components/ui/button";
@@ -11,10 +13,15 @@ import { FormMessage } from "@/components/ui/form-message";
 export interface ExclusionTargets {
   sites: { id: number; name: string }[];
   examplePlotCode: string | null;
+  /** every exclusion of the trial, whatever trait the page shows, with the staff's note */
+  exclusions: { id: number; siteName: string | null; plotCode: string | null; traitName: string | null; category: ExclusionCategory; note: string | null; createdAt: string; createdBy: string | null }[];
 }
 
-/** Lists exclusions and lets a coordinator add or remove one; the analysis refetches after each change. */
-export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: Pick<AnalysisPayload, "exclusions" | "traits">; targets: ExclusionTargets }) {
+/**
+ * Lists the trial's exclusions and lets a coordinator add or remove one; the analysis refetches after each
+ * change. The public reason is a category (published with the results); the note stays with the staff.
+ */
+export function ExclusionPanel({ trialId, result, targets }: { trialId: number; result: Pick<AnalysisPayload, "traits">; targets: ExclusionTargets }) {
   const client = useQueryClient();
   const [state, action, excluding] = useActionState(excludeFromAnalysis, null);
   const [removeState, removeAction] = useActionState(includeInAnalysis, null);
@@ -39,19 +46,19 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
   };
   return (
     <div className="space-y-4">
-      {result.exclusions.length === 0 ? (
+      {targets.exclusions.length === 0 ? (
         <p className="text-sm text-loam-700">Nothing is excluded. Every accepted plot counts.</p>
       ) : (
         <ul className="space-y-2" aria-label="Exclusions">
-          {result.exclusions.map((x) => (
+          {targets.exclusions.map((x) => (
             <li key={x.id} className="flex flex-wrap items-center justify-between gap-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm">
               <span>
-                <strong>{x.plotCode ? `Plot ${x.plotCode} (${x.siteName})` : x.siteName}</strong>
+                <strong>{x.plotCode ? `Plot ${x.plotCode} (${x.siteName})` : `Whole site ${x.siteName}`}</strong>
                 {" — "}
-                {x.traitName ? `${x.traitName} only` : "all traits"}: {x.reason}
-                <span className="text-loam-700">
-                  {" "}
-                  · {x.createdBy ?? "someone"}, {x.createdAt.slice(0, 10)}
+                {x.traitName ? `${x.traitName} only` : "all traits"}. Public reason: {EXCLUSION_CATEGORY_LABELS[x.category]}.
+                {x.note && <span className="block">Private note: {x.note}</span>}
+                <span className="block text-loam-700">
+                  {x.createdBy ?? "someone"}, {x.createdAt.slice(0, 10)}
                 </span>
               </span>
               <form action={removeAction}>
@@ -66,7 +73,7 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
         </ul>
       )}
       <FormMessage state={removeState} />
-      <form ref={formRef} onSubmit={submit} className="grid gap-3 md:grid-cols-2 md:items-start xl:grid-cols-[minmax(14rem,1.2fr)_minmax(9rem,1fr)_minmax(10rem,1fr)_2fr_auto]">
+      <form ref={formRef} onSubmit={submit} className="grid gap-3 md:grid-cols-2 md:items-start xl:grid-cols-3">
         <input type="hidden" name="trialId" value={trialId} />
         <SelectField label="Leave out" name="target" value={target} onChange={(e) => setTarget(e.target.value)} errors={errors?.target}>
           <option value="">Choose a site or a plot…</option>
@@ -101,8 +108,16 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
             </option>
           ))}
         </SelectField>
-        <TextField label="Reason (kept with the record)" name="reason" defaultValue={values?.reason} errors={errors?.reason} placeholder="e.g. flooded after transplanting" />
-        <Button type="submit" disabled={excluding} aria-disabled={excluding} className="xl:mt-6">
+        <SelectField label="Public reason" name="category" defaultValue={values?.category ?? ""} errors={errors?.category} hint="Growers of the site see it, and it is printed with the published results and report.">
+          <option value="">Choose a reason…</option>
+          {EXCLUSION_CATEGORIES.map((c) => (
+            <option key={c} value={c}>
+              {EXCLUSION_CATEGORY_LABELS[c]}
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Private note (staff only)" name="note" defaultValue={values?.note} errors={errors?.note} hint="Stays in the portal; never published or shown to growers." placeholder="e.g. deer browsed block 2 on 3 June" />
+        <Button type="submit" disabled={excluding} aria-disabled={excluding} className="justify-self-start md:mt-6">
           {excluding ? "Excluding…" : "Exclude"}
         </Button>
       </form>

@@ -3,11 +3,44 @@ import { useActionState } from "react";
 import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
+import { Badge } from "@/components/ui/badge";
+import type { Tone } from "@/lib/domain/vocabulary/statuses";
 import { publishTrial, unpublishTrial } from "@/server/actions/publish";
 
-export function PublishForm({ trialId, traits, nextVersion }: { trialId: number; traits: { id: number; name: string }[]; nextVersion: number }) {
+export interface SiteInclusionRow {
+  siteId: number;
+  siteName: string;
+  included: boolean;
+  words: string;
+  tone: Tone;
+}
+
+/** Each enrolled site, included in the next version or not and why. */
+export function SiteInclusionList({ sites }: { sites: SiteInclusionRow[] }) {
+  if (sites.length === 0) return <p className="text-loam-700">No site is enrolled in this trial.</p>;
+  const included = sites.filter((s) => s.included).length;
+  return (
+    <div className="space-y-3">
+      <p>
+        The next version will include {included} of {sites.length} {sites.length === 1 ? "site" : "sites"}: only accepted data are published.
+      </p>
+      <ul className="space-y-2" aria-label="Sites in the next version">
+        {sites.map((s) => (
+          <li key={s.siteId} className="flex flex-wrap items-center justify-between gap-2 border-b border-husk-100 pb-2">
+            <span className="font-semibold">{s.siteName}</span>
+            <Badge tone={s.tone}>{s.words}</Badge>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+export function PublishForm({ trialId, traits, nextVersion, leftOut }: { trialId: number; traits: { id: number; name: string }[]; nextVersion: number; leftOut: { siteId: number; siteName: string }[] }) {
   const [state, action] = useActionState(publishTrial, null);
   const failed = state && !state.ok ? state : null;
+  const leftOutNames = leftOut.map((s) => s.siteName).join(", ");
+  const confirmErrors = failed?.fieldErrors?.confirmLeftOut;
   return (
     <form action={action} noValidate className="space-y-4">
       <input type="hidden" name="trialId" value={trialId} />
@@ -33,9 +66,39 @@ export function PublishForm({ trialId, traits, nextVersion }: { trialId: number;
         defaultValue={failed?.values?.changeNote}
         errors={failed?.fieldErrors?.changeNote}
       />
+      {leftOut.length > 0 && (
+        <div className="rounded-lg border border-marigold-400 bg-marigold-100 p-3">
+          <div className="flex items-start gap-2">
+            <input
+              id="confirmLeftOut"
+              name="confirmLeftOut"
+              type="checkbox"
+              value={leftOut.map((s) => s.siteId).join(",")}
+              className="mt-1 size-5 shrink-0 accent-sprout-600"
+              aria-invalid={confirmErrors ? true : undefined}
+              aria-describedby={confirmErrors ? "confirmLeftOut-error" : "confirmLeftOut-hint"}
+            />
+            <label htmlFor="confirmLeftOut" className="text-sm">
+              <span className="font-semibold">
+                Publish without {leftOutNames}.
+              </span>
+              <span id="confirmLeftOut-hint" className="block text-loam-700">
+                {leftOut.length === 1 ? "This site is" : "These sites are"} not in version {nextVersion}; the public page names {leftOut.length === 1 ? "it" : "them"} as not included.
+                A later version can add {leftOut.length === 1 ? "it" : "them"} once the data are accepted.
+              </span>
+            </label>
+          </div>
+          {confirmErrors && (
+            <p id="confirmLeftOut-error" className="mt-2 text-sm font-medium text-beet-700">
+              {confirmErrors[0]}
+            </p>
+          )}
+        </div>
+      )}
       <p className="text-sm text-loam-700">
         Publishing freezes the accepted data and results as version {nextVersion}, reveals the variety names behind the blind codes,
-        and e-mails the growers of the enrolled sites.
+        and e-mails the growers of the included sites that their site&apos;s results are out.
+        {leftOut.length > 0 && " Growers whose sites are left out get a short note saying their site is not in this version."}
       </p>
       <FormMessage state={state} />
       <SubmitButton pendingText="Publishing…">Publish version {nextVersion}</SubmitButton>

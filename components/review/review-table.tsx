@@ -35,6 +35,7 @@ export function ReviewQueue({ rows }: { rows: Queue }) {
               <td className="py-2 pr-3 font-mono text-xs">{r.trialCode}</td>
               <td className="py-2 pr-3">
                 <SubmissionStatusBadge status={r.status} />
+                {r.leftOutOfPublished && <span className="mt-1 block text-xs font-semibold text-beet-700">Results published without this site</span>}
               </td>
               <td className="py-2 pr-3 text-right tabular-nums">
                 {r.expected === 0 ? "—" : `${Math.round((100 * r.recorded) / r.expected)}%`} <span className="text-loam-700">({r.recorded}/{r.expected})</span>

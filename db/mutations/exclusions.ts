@@ -6,14 +6,15 @@ import { insertAudit } from "../audit";
 import { lockTrialForStaff } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
+import type { ExclusionCategory } from "@/lib/domain/vocabulary/enums";
 
 /**
- * Leaves a site or a plot out of a trial's analyses (all traits, or one) with the coordinator's
- * reason. The observations stay untouched; the exclusion is audited in the same transaction.
+ * Leaves a site or a plot out of a trial's analyses (all traits, or one) with a public category and the
+ * staff's private note. The observations stay untouched; the exclusion is audited in the same transaction.
  */
 export async function insertExclusion(
   viewer: Viewer,
-  request: { trialId: number; siteId: number | null; plotId: number | null; plotCode?: string | null; traitId: number | null; reason: string },
+  request: { trialId: number; siteId: number | null; plotId: number | null; plotCode?: string | null; traitId: number | null; category: ExclusionCategory; note: string | null },
 ): Promise<number> {
   const { plotCode = null, ...fields } = request;
   if ([fields.siteId, fields.plotId, plotCode].filter((v) => v !== null).length !== 1) throw new AppError("bad_request", "Exclude either a site or a plot.");
@@ -45,11 +46,11 @@ export async function insertExclusion(
       .from(analysisExclusions)
       .where(eq(analysisExclusions.trialId, trial.id));
     if (existing.some((x) => x.siteId === input.siteId && x.plotId === input.plotId && x.traitId === input.traitId)) {
-      throw new AppError("conflict", "That exclusion is already recorded. Remove it first to change the reason.");
+      throw new AppError("conflict", "That exclusion is already recorded. Include it again first to change its reason.");
     }
     const [row] = await tx
       .insert(analysisExclusions)
-      .values({ trialId: trial.id, siteId: input.siteId, plotId: input.plotId, traitId: input.traitId, reason: input.reason, createdById: viewer.id })
+      .values({ trialId: trial.id, siteId: input.siteId, plotId: input.plotId, traitId: input.traitId, category: input.category, privateNote: input.note, createdById: viewer.id })
       .$returningId();
     await insertAudit(tx, { actorId: viewer.id, action: "exclude", entity: "analysis_exclusion", entityId: row!.id, trialId: trial.id, newValue: input });
     return row!.id;
@@ -61,7 +62,7 @@ export async function deleteExclusion(viewer: Viewer, input: { trialId: number; 
   await db.transaction(async (tx) => {
     const trial = await lockTrialForStaff(tx, viewer, input.trialId);
     const [row] = await tx
-      .select({ id: analysisExclusions.id, siteId: analysisExclusions.siteId, plotId: analysisExclusions.plotId, traitId: analysisExclusions.traitId, reason: analysisExclusions.reason })
+      .select({ id: analysisExclusions.id, siteId: analysisExclusions.siteId, plotId: analysisExclusions.plotId, traitId: analysisExclusions.traitId, category: analysisExclusions.category, note: analysisExclusions.privateNote })
       .from(analysisExclusions)
       .where(and(eq(analysisExclusions.id, input.exclusionId), eq(analysisExclusions.trialId, trial.id)));
     if (!row) throw new AppError("not_found", "That exclusion no longer exists.");

@@ -1,5 +1,6 @@
 import "server-only";
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/mysql-core";
 import { db } from "../index";
 import {
   analysisExclusions,
@@ -21,7 +22,7 @@ import {
 import { cooperatorEnrolmentScope, staffTrialScope, staffVarietyScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
-import type { AnalysisInput, InputExclusion, InputTrait } from "@/lib/domain/analysis/types";
+import type { AnalysisInput, InputTrait } from "@/lib/domain/analysis/types";
 import type { BetterWhen, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { SEED_COUNT_TRAITS } from "@/lib/domain/vocabulary/traits";
 
@@ -100,14 +101,15 @@ function loadTraits(trialId: number): Promise<InputTrait[]> {
     .orderBy(asc(trialTraits.sortOrder), asc(traits.id));
 }
 
-/** The analysis input as read; without the key an exclusion's reason is null (withheld, see getAnalysisInput). */
-export type AnalysisInputRows = Omit<AnalysisInput, "exclusions"> & { exclusions: (Omit<InputExclusion, "reason"> & { reason: string | null })[] };
+/** The analysis input as read; an exclusion's private note is there for the program's staff only. */
+export type AnalysisInputRows = AnalysisInput;
 
 /**
  * Everything one trait's analysis needs: entries, sites with sowing dates and submission status, plots,
  * the trait's and the seed counts' observations, and exclusions, for the sites the viewer may see. With
  * `includeKey` false nothing that decodes a blind code leaves here: no variety names or ids, seed lots,
- * check flags or label germination, and no exclusion reasons. Null when the trial is not the viewer's.
+ * check flags or label germination. Exclusions carry their public category; the private note and who
+ * recorded it only for staff. Null when the trial is not the viewer's.
  */
 export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number; includeKey: boolean }): Promise<AnalysisInputRows | null> {
   const trial = await scopedTrial(viewer, p.trialId);
@@ -164,7 +166,8 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
         siteId: analysisExclusions.siteId,
         plotId: analysisExclusions.plotId,
         traitId: analysisExclusions.traitId,
-        reason: analysisExclusions.reason,
+        category: analysisExclusions.category,
+        privateNote: analysisExclusions.privateNote,
         createdAt: analysisExclusions.createdAt,
         createdBy: users.name,
       })
@@ -173,8 +176,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .where(eq(analysisExclusions.trialId, p.trialId))
       .orderBy(asc(analysisExclusions.id)),
   ]);
-  // Cooperators see their own sites' exclusions only. Without the key (a grower before publication) the
-  // coordinator's free-text reasons stay here too: they may name a variety.
+  // Cooperators see their own sites' exclusions only, by category: the staff's note stays with the staff.
   const key = p.includeKey;
   const plotIds = new Set(plotRows.map((r) => r.id));
   const visibleSites = new Set(siteRows.map((r) => r.id));
@@ -196,8 +198,12 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
     plots: plotRows,
     observations: obsRows,
     exclusions: exclusions.map((x) => ({
-      ...x,
-      reason: key ? x.reason : null,
+      id: x.id,
+      siteId: x.siteId,
+      plotId: x.plotId,
+      traitId: x.traitId,
+      category: x.category,
+      note: trial.siteIds === null ? x.privateNote : null,
       createdBy: trial.siteIds === null ? x.createdBy : null,
       createdAt: x.createdAt.toISOString(),
     })),
@@ -238,18 +244,39 @@ export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitI
 }
 
 /**
- * Sites of a trial for the exclusion form, and one plot code as an example (staff only). Plots are
- * typed by code rather than listed: a large trial has thousands.
+ * Sites of a trial for the exclusion form, one plot code as an example, and every exclusion of the trial
+ * with its private note (staff only). Plots are typed by code rather than listed: a large trial has thousands.
  */
 export async function listExclusionTargets(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
   const trial = await scopedTrial(viewer, trialId);
   if (!trial) return null;
-  const [siteRows, [example]] = await Promise.all([
+  const plotSites = alias(sites, "plot_sites");
+  const [siteRows, [example], exclusionRows] = await Promise.all([
     db.select({ id: sites.id, name: sites.name }).from(enrolments).innerJoin(sites, eq(sites.id, enrolments.siteId)).where(eq(enrolments.trialId, trialId)).orderBy(asc(sites.name)),
     db.select({ plotCode: plots.plotCode }).from(plots).where(eq(plots.trialId, trialId)).orderBy(asc(plots.plotCode)).limit(1),
+    db
+      .select({
+        id: analysisExclusions.id,
+        siteName: sql<string | null>`COALESCE(${sites.name}, ${plotSites.name})`,
+        plotCode: plots.plotCode,
+        traitName: traits.name,
+        category: analysisExclusions.category,
+        note: analysisExclusions.privateNote,
+        createdAt: analysisExclusions.createdAt,
+        createdBy: users.name,
+      })
+      .from(analysisExclusions)
+      .leftJoin(sites, eq(sites.id, analysisExclusions.siteId))
+      .leftJoin(plots, eq(plots.id, analysisExclusions.plotId))
+      .leftJoin(plotSites, eq(plotSites.id, plots.siteId))
+      .leftJoin(traits, eq(traits.id, analysisExclusions.traitId))
+      .leftJoin(users, eq(users.id, analysisExclusions.createdById))
+      .where(eq(analysisExclusions.trialId, trialId))
+      .orderBy(asc(analysisExclusions.id)),
   ]);
-  return { sites: siteRows, examplePlotCode: example?.plotCode ?? null };
+  const exclusions = exclusionRows.map((x) => ({ ...x, createdAt: x.createdAt.toISOString() }));
+  return { sites: siteRows, examplePlotCode: example?.plotCode ?? null, exclusions };
 }
 
 /**

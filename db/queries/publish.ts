@@ -1,7 +1,7 @@
 import "server-only";
-import { and, asc, count, desc, eq, isNotNull, isNull, max } from "drizzle-orm";
+import { and, asc, count, desc, eq, isNotNull, isNull, max, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
-import { enrolments, publishedReports, sites, siteCooperators, traits, trials, users } from "../schema";
+import { analysisExclusions, enrolments, publishedReports, sites, siteCooperators, submissions, traits, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
 import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -72,15 +72,47 @@ export async function listReportVersions(viewer: Viewer, trialId: number) {
     .orderBy(desc(publishedReports.version));
 }
 
-/** E-mail addresses of the cooperators of a trial's enrolled sites (for publication notices). */
-export async function listTrialCooperatorEmails(trialId: number): Promise<{ email: string; name: string }[]> {
+/** The cooperators of a trial's enrolled sites, one row per site and grower (for publication notices). */
+export async function listTrialCooperatorEmails(trialId: number): Promise<{ siteId: number; email: string; name: string }[]> {
   const rows = await db
-    .selectDistinct({ email: users.email, name: users.name })
+    .selectDistinct({ siteId: enrolments.siteId, email: users.email, name: users.name })
     .from(enrolments)
     .innerJoin(siteCooperators, eq(siteCooperators.siteId, enrolments.siteId))
     .innerJoin(users, eq(users.id, siteCooperators.userId))
     .where(and(eq(enrolments.trialId, trialId), eq(users.active, true), isNotNull(users.passwordHash)));
   return rows;
+}
+
+/**
+ * Every site enrolled in one of the viewer's programs' trials with its submission state, how many values
+ * it recorded, and the trial's exclusions, for deciding which sites a publication includes. Given the
+ * transaction, the submissions are read with a lock so a review decision cannot slip in before the commit.
+ * Null when the trial is not the viewer's.
+ */
+export async function listPublishSites(viewer: Viewer, p: { trialId: number; tx?: Tx }) {
+  if (!isStaff(viewer)) return null;
+  const ex = p.tx ?? db;
+  const [trial] = await ex.select({ id: trials.id }).from(trials).where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)));
+  if (!trial) return null;
+  const siteQuery = ex
+    .select({
+      siteId: sites.id,
+      siteName: sites.name,
+      status: submissions.status,
+      values: sql<number>`(SELECT COUNT(*) FROM observations o JOIN plots pl ON pl.id = o.plot_id WHERE pl.enrolment_id = ${enrolments.id})`.mapWith(Number),
+    })
+    .from(enrolments)
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
+    .where(eq(enrolments.trialId, trial.id))
+    .orderBy(asc(sites.name));
+  const siteRows = p.tx ? await siteQuery.for("update") : await siteQuery;
+  const exclusions = await ex
+    .select({ siteId: analysisExclusions.siteId, plotId: analysisExclusions.plotId, traitId: analysisExclusions.traitId, category: analysisExclusions.category })
+    .from(analysisExclusions)
+    .where(eq(analysisExclusions.trialId, trial.id))
+    .orderBy(asc(analysisExclusions.id));
+  return { sites: siteRows.map((s) => ({ ...s, status: s.status ?? "draft" })), exclusions };
 }
 
 /**

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { auditLog, enrolments, observations, plots, reviewComments, sites, submissions, trials, users } from "../schema";
 import { staffTrialScope } from "../access";
@@ -7,15 +7,26 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
 import { getRecordableEnrolment } from "./observations";
 
-/** Sites of the staff member's trials that take data, in trial and site order. Empty for cooperators. */
+/**
+ * Sites of the staff member's trials that take data, in trial and site order, and the sites of published
+ * trials whose data are still not accepted (left out of the published results; a later version can add
+ * them). Empty for cooperators.
+ */
 export async function listReviewSiteRows(viewer: Viewer) {
   if (!isStaff(viewer)) return [];
   return db
-    .select({ trialId: trials.id, siteId: sites.id })
+    .select({ trialId: trials.id, siteId: sites.id, trialStatus: trials.status })
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
-    .where(and(staffTrialScope(viewer), inArray(trials.status, ["open", "collecting", "analysing"]), sql`${enrolments.randomisedAt} IS NOT NULL`))
+    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
+    .where(
+      and(
+        staffTrialScope(viewer),
+        sql`${enrolments.randomisedAt} IS NOT NULL`,
+        or(inArray(trials.status, ["open", "collecting", "analysing"]), and(eq(trials.status, "published"), sql`COALESCE(${submissions.status}, 'draft') <> 'accepted'`)),
+      ),
+    )
     .orderBy(asc(trials.code), asc(sites.name));
 }
 

@@ -1,9 +1,10 @@
-import { index, int, json, longtext, mysqlTable, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { index, int, json, longtext, mysqlEnum, mysqlTable, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
 import { traits } from "./traits";
 import { plots, trials } from "./trials";
 import { sites } from "./sites";
 import { users } from "./users";
+import { EXCLUSION_CATEGORIES } from "@/lib/domain/vocabulary/enums";
 
 /**
  * An immutable, versioned snapshot of a trial's data and results at publication. A correction is a new
@@ -29,7 +30,10 @@ export const publishedReports = mysqlTable(
   (t) => [uniqueIndex("published_reports_version_unique").on(t.trialId, t.version)],
 );
 
-/** A site or plot left out of an analysis, with the reason; the data itself is never deleted. */
+/**
+ * A site or plot left out of an analysis; the data itself is never deleted. The category is the public
+ * reason (published with the results); the note is for the program's staff and never leaves the portal.
+ */
 export const analysisExclusions = mysqlTable(
   "analysis_exclusions",
   {
@@ -38,7 +42,8 @@ export const analysisExclusions = mysqlTable(
     siteId: ref("site_id").references(() => sites.id, { onDelete: "cascade" }),
     plotId: ref("plot_id").references(() => plots.id, { onDelete: "cascade" }),
     traitId: ref("trait_id").references(() => traits.id, { onDelete: "cascade" }),
-    reason: text("reason").notNull(),
+    category: mysqlEnum("category", EXCLUSION_CATEGORIES).notNull().default("other"),
+    privateNote: text("private_note"),
     createdById: ref("created_by_id").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { BETTER_WHEN } from "@/lib/domain/vocabulary/enums";
 import { idParam } from "./common";
+import { EXCLUSION_CATEGORIES } from "@/lib/domain/vocabulary/enums";
 
 // Analysis settings arrive as URL search parameters (the page's controls and outside tools alike).
 
@@ -43,11 +44,15 @@ export const exclusionSchema = z
     target: z.string().regex(/^(site:\d+|plot:\d+|plot)$/, "Choose a site, or one plot, to exclude."),
     plotCode: z.string().trim().max(24, "Plot codes are at most 24 characters.").optional(),
     traitId: z.preprocess((v) => (v === "" || v === "all" ? undefined : v), z.coerce.number().int().positive().optional()),
-    reason: z.string().trim().min(5, "Give a reason of at least 5 characters, e.g. \"hail damage in block 2\".").max(500, "Keep the reason under 500 characters."),
+    category: z.enum(EXCLUSION_CATEGORIES, { error: "Choose the reason the public will read." }),
+    note: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(500, "Keep the note under 500 characters.").optional()),
   })
   .superRefine((v, ctx) => {
     if (v.target === "plot" && !v.plotCode) {
       ctx.addIssue({ code: "custom", path: ["plotCode"], message: "Type the code printed on the plot's label, e.g. S1-B2-03." });
+    }
+    if (v.category === "other" && !v.note) {
+      ctx.addIssue({ code: "custom", path: ["note"], message: "With \"other reason\", say in the note what happened, so your colleagues know." });
     }
   })
   .transform((v) => {
@@ -56,7 +61,8 @@ export const exclusionSchema = z
     return {
       trialId: v.trialId,
       traitId: v.traitId ?? null,
-      reason: v.reason,
+      category: v.category,
+      note: v.note ?? null,
       siteId: kind === "site" ? Number(id) : null,
       plotId: kind === "plot" && !byCode ? Number(id) : null,
       plotCode: byCode ? v.plotCode!.toUpperCase() : null,

@@ -11,6 +11,19 @@ export const publishSchema = z.object({
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
     z.string().trim().max(2000, "Keep the change note under 2,000 characters.").optional(),
   ),
+  // The sites the coordinator confirmed leaving out, as the ticked box names them ("3,7"); the server
+  // publishes only when they are exactly the sites left out at that moment.
+  confirmLeftOut: z.preprocess(
+    (v) => (v === undefined || v === "" ? [] : v),
+    z.union([
+      z.array(id),
+      z
+        .string()
+        .max(2000, "That list of sites is too long.")
+        .regex(/^\d+(,\d+)*$/, "That list of sites is not valid. Reload the page.")
+        .transform((s) => s.split(",").map(Number)),
+    ]),
+  ),
 });
 
 export const unpublishSchema = z.object({

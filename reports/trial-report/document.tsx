@@ -161,6 +161,31 @@ function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages:
  * the contents entries are render callbacks, which react-pdf resolves again once pagination is complete (as it
  * does for "Page N of M"), so they read the finished page numbers in the same pass.
  */
+/**
+ * "Left out of the analysis": the sites this version does not include, then, trait by trait, exactly the
+ * plots and sites left out of that trait with the public reason. The staff's notes are never in a snapshot.
+ */
+function LeftOut({ snapshot }: { snapshot: PublicSnapshot }) {
+  const byTrait = snapshot.results.filter((r) => r.result.exclusions.length > 0);
+  const { coverage } = snapshot;
+  if (byTrait.length === 0 && coverage.notIncluded.length === 0) return null;
+  return (
+    <>
+      <Text style={[base.h2, { fontSize: 9 }]}>Left out of the analysis</Text>
+      {coverage.notIncluded.length > 0 && (
+        <Text style={s.note}>
+          Results from {coverage.inResults} of {coverage.enrolled} sites. Not included: {coverage.notIncluded.map((x) => `${x.name} (${x.reason})`).join("; ")}.
+        </Text>
+      )}
+      {byTrait.map((r) => (
+        <Text key={r.trait} style={s.note}>
+          • {r.result.trait.name}: {r.result.exclusions.map((e) => `${e.plotCode ? `plot ${e.plotCode} at ${e.siteName}` : `all plots at ${e.siteName}`}, reason: ${e.reason}`).join("; ")}.
+        </Text>
+      ))}
+    </>
+  );
+}
+
 export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pages: SectionPages }) {
   const t = snapshot.trial;
   const germination = snapshot.results.find((r) => r.result.germination)?.result.germination ?? null;
@@ -253,18 +278,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
           ]}
           rows={snapshot.entries}
         />
-        {snapshot.results.flatMap((r) => r.result.exclusions).length > 0 && (
-          <>
-            <Text style={[base.h2, { fontSize: 9 }]}>Left out of the analysis</Text>
-            {snapshot.results.flatMap((r) =>
-              r.result.exclusions.map((e, i) => (
-                <Text key={`${r.trait}-${i}`} style={s.note}>
-                  • {r.result.trait.name}: {e.siteName ?? e.plotCode ?? "—"}: {e.reason}
-                </Text>
-              )),
-            )}
-          </>
-        )}
+        <LeftOut snapshot={snapshot} />
         {snapshot.results.flatMap((r) => r.result.missing).length > 0 && (
           <Text style={s.note}>
             Missing plots:{" "}

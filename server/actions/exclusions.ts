@@ -10,7 +10,7 @@ const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
 export const excludeFromAnalysis = defineAction({ roles: STAFF, schema: exclusionSchema }, async (input, viewer) => {
   await insertExclusion(viewer, input);
   revalidatePath(`/portal/trials/${input.trialId}/analysis`);
-  return { ok: true, message: `${input.siteId !== null ? "Site" : "Plot"} excluded. The data stay stored; the analyses below now leave it out.` };
+  return { ok: true, message: `${input.siteId !== null ? "Site" : "Plot"} excluded. The data stay stored; the analyses below now leave it out, and published results will list it with its public reason.` };
 });
 
 export const includeInAnalysis = defineAction({ roles: STAFF, schema: removeExclusionSchema }, async (input, viewer) => {

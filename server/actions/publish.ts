@@ -13,6 +13,7 @@ export const publishTrial = defineAction({ roles: ["coordinator", "admin"], sche
     traitId: input.traitId,
     settings: { siteModel: input.siteModel, separation: input.separation },
     changeNote: input.changeNote ?? null,
+    confirmedLeftOut: input.confirmLeftOut,
   });
   await deliverSoon();
   revalidatePath("/results", "layout");

@@ -3,7 +3,7 @@ import { createHash } from "node:crypto";
 import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
-import { analysisFor, WITHHELD_REASON } from "@/lib/domain/analysis/blind";
+import { analysisFor } from "@/lib/domain/analysis/blind";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 import type { AnalysisInput, AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
@@ -28,16 +28,14 @@ export function defaultTrait(traits: (InputTrait & { recorded: number })[]): Inp
 
 /**
  * One trait's analysis input as this viewer may read it. Until the trial is published a grower's input is
- * read without the blind key (no names, seed lots, check flags, label germination or exclusion reasons),
+ * read without the blind key (no names, seed lots, check flags or label germination; no one but staff gets an exclusion's note),
  * and the result is stripped again by analysisFor: two locks, so one mistake cannot decode a blind code.
  * Null when the trial is not the viewer's.
  */
 export async function loadAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number }): Promise<AnalysisInput | null> {
   const status = await getAnalysisTrialStatus(viewer, p.trialId);
   if (status === null) return null;
-  const rows = await getAnalysisInput(viewer, { ...p, includeKey: canSeeBlindKey(viewer, { status }) });
-  if (!rows) return null;
-  return { ...rows, exclusions: rows.exclusions.map((x) => ({ ...x, reason: x.reason ?? WITHHELD_REASON })) };
+  return getAnalysisInput(viewer, { ...p, includeKey: canSeeBlindKey(viewer, { status }) });
 }
 
 export interface PreparedAnalysis {

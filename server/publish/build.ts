@@ -10,6 +10,7 @@ import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import type { Viewer } from "@/lib/domain/viewer";
 import { summariseForGrowers } from "@/lib/domain/publish/summary";
 import type { PublishedSnapshot, PublishSettings } from "@/lib/domain/publish/types";
+import type { SiteInclusion } from "@/lib/domain/publish/site-inclusion";
 
 /**
  * Runs the analyses a publication shows and freezes them with the trial's public facts. Only accepted
@@ -17,7 +18,7 @@ import type { PublishedSnapshot, PublishSettings } from "@/lib/domain/publish/ty
  */
 export async function buildSnapshot(
   viewer: Viewer,
-  p: { trialId: number; traitId: number | null; settings: PublishSettings; version: number; changeNote: string | null; publishedAt: Date },
+  p: { trialId: number; traitId: number | null; settings: PublishSettings; version: number; changeNote: string | null; publishedAt: Date; siteInclusion: SiteInclusion[] },
 ): Promise<PublishedSnapshot> {
   const [context, traitList] = await Promise.all([getPublishContext(viewer, p.trialId), listAnalysisTraits(viewer, p.trialId)]);
   if (!context || !traitList) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
@@ -30,8 +31,8 @@ export async function buildSnapshot(
     const input = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
     if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
     const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation });
-    // Who recorded an exclusion is internal; the reason is public.
-    result.exclusions = result.exclusions.map((e) => ({ ...e, createdBy: null }));
+    // Who recorded an exclusion and the staff's note stay in the portal; the category is the public reason.
+    result.exclusions = result.exclusions.map((e) => ({ ...e, note: null, createdBy: null }));
     results.push({ traitId: trait.id, result });
   }
   const usable = results.filter((r) => r.result.combined || r.result.perSite.some((s) => s.result));
@@ -63,6 +64,7 @@ export async function buildSnapshot(
     },
     scopeTraitId: p.traitId,
     sites: context.sites,
+    siteInclusion: p.siteInclusion,
     entries: context.entries,
     traits: candidates.map((t) => ({
       id: t.id,

@@ -147,6 +147,6 @@ export async function getPublicSite(siteId: number) {
   const site = appearances[0]!.sites.find((x) => x.id === siteId)!;
   return {
     site: { name: site.name, kind: site.kind, region: site.region, growingSetup: site.growingSetup, soil: site.soil, irrigation: site.irrigation, publicDescription: site.publicDescription },
-    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season })),
+    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season, inResults: !s.coverage.notIncluded.some((x) => x.name === site.name) })),
   };
 }

@@ -47,6 +47,8 @@ export async function listReviewQueue(viewer: Viewer, today: string = todayIso()
       late: sheet.due.filter((d) => d.status === "late").length,
       flags: (await siteFlags(sheet)).length,
       openComments: sheet.comments.length,
+      /** the trial's results are published and this site's data are not in them */
+      leftOutOfPublished: r.trialStatus === "published",
     });
   }
   // Waiting for review first, then by trial.

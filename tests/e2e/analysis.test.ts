@@ -68,11 +68,13 @@ describe("trial analysis in a real browser", () => {
     const target = page.getByLabel("Leave out");
     await target.selectOption("plot");
     await page.getByLabel("Plot code").fill("NOPE-77");
-    await page.getByLabel("Reason (kept with the record)").fill("Slugs took the seedlings");
+    await page.getByLabel("Public reason").selectOption({ label: "plot damaged (animals, hail, flooding)" });
+    await page.getByLabel("Private note (staff only)").fill("Slugs took the seedlings");
     await page.getByRole("button", { name: "Exclude" }).click();
     await page.getByText("There is no plot NOPE-77 in this trial.").first().waitFor();
     // What was typed stays, so only the code needs fixing.
-    expect(await page.getByLabel("Reason (kept with the record)").inputValue()).toBe("Slugs took the seedlings");
+    expect(await page.getByLabel("Private note (staff only)").inputValue()).toBe("Slugs took the seedlings");
+    expect(await page.getByLabel("Public reason").inputValue()).toBe("plot_damaged");
 
     await page.getByLabel("Plot code").fill(spinach.plotCode.toLowerCase());
     await page.getByRole("button", { name: "Exclude" }).click();
@@ -81,6 +83,8 @@ describe("trial analysis in a real browser", () => {
     expect(await page.getByLabel("Leave out").inputValue()).toBe("");
 
     const row = page.getByRole("list", { name: "Exclusions" }).locator("li", { hasText: `Plot ${spinach.plotCode}` });
+    // Staff see both the public reason and their own note.
+    expect(await row.innerText()).toMatch(/Public reason: plot damaged \(animals, hail, flooding\)\.\s+Private note: Slugs took the seedlings/);
     await row.getByRole("button", { name: "Include again" }).click();
     await page.getByText("Nothing is excluded. Every accepted plot counts.").waitFor();
     await context.close();

@@ -60,8 +60,8 @@ describe("recording on a phone", () => {
     await dialog.getByLabel(/^Value/).fill("7");
     await dialog.getByRole("button", { name: `Fill ${total - 1} plots` }).click();
     await expect.poll(() => page.getByRole("dialog").count(), { timeout: 5_000 }).toBe(0);
-    const last = plots.nth(total - 1).getByRole("textbox");
-    await expect.poll(() => page.locator(`#${await last.getAttribute("id")}-state`).textContent(), { timeout: 20_000 }).toBe("Saved");
+    const lastId = await plots.nth(total - 1).getByRole("textbox").getAttribute("id");
+    await expect.poll(() => page.locator(`#${lastId}-state`).textContent(), { timeout: 20_000 }).toBe("Saved");
 
     // After a reload the values come from the server: the filled plots hold 7, the first keeps its 6.
     await openQuality(page);

@@ -76,12 +76,33 @@ describe("publishing and the public pages", () => {
     }
   }, 60_000);
 
-  it("lets a coordinator publish; the public page and its PDF show the summary and every variety", async () => {
+  it("lets a coordinator publish only after confirming the sites left out; the public page and its PDF show the summary and every variety", async () => {
     const staff = await newPage(browser);
     await signIn(staff.page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
     const { trialId } = await publicAddressesOf(PUBLISHED.code);
+    const [rows] = await e2e.pool.query(
+      "SELECT s.name, COALESCE(sub.status, 'draft') AS status FROM enrolments e JOIN sites s ON s.id = e.site_id LEFT JOIN submissions sub ON sub.enrolment_id = e.id WHERE e.trial_id = ? ORDER BY s.name",
+      [trialId],
+    );
+    const enrolled = rows as { name: string; status: string }[];
+    const leftOut = enrolled.filter((r) => r.status !== "accepted").map((r) => r.name);
+    // The demo keeps one lettuce site's data sent for review; other files may have returned it, never accepted it.
+    expect(leftOut.length).toBeGreaterThan(0);
     await staff.page.goto(`/portal/trials/${trialId}/publish`);
     await staff.page.getByRole("heading", { name: /Publish results/ }).waitFor();
+    // Each enrolled site is listed as in the next version or not, and why.
+    const list = staff.page.getByRole("list", { name: "Sites in the next version" });
+    expect(await list.getByRole("listitem").count()).toBe(enrolled.length);
+    for (const name of leftOut) expect(await list.getByRole("listitem").filter({ hasText: name }).innerText()).toMatch(/Not included: /);
+    await staff.page.getByText(`The next version will include ${enrolled.length - leftOut.length} of ${enrolled.length} sites`).waitFor();
+
+    // Without the confirmation the server refuses and names the sites; nothing is published.
+    await staff.page.getByRole("button", { name: "Publish version 1" }).click();
+    await staff.page.getByRole("status").getByText(`This version would leave out ${leftOut.join(", ")}.`).waitFor({ timeout: 60_000 });
+    const [versions] = await e2e.pool.query("SELECT COUNT(*) AS n FROM published_reports WHERE trial_id = ?", [trialId]);
+    expect((versions as { n: number }[])[0]!.n).toBe(0);
+
+    await staff.page.getByRole("checkbox", { name: `Publish without ${leftOut.join(", ")}.` }).check();
     await staff.page.getByRole("button", { name: "Publish version 1" }).click();
     await staff.page.getByText("Published as version 1.").waitFor({ timeout: 60_000 });
     await staff.context.close();
@@ -92,6 +113,8 @@ describe("publishing and the public pages", () => {
     const summary = await visitor.page.getByRole("region", { name: "Summary for growers" }).innerText();
     for (const entry of PUBLISHED.entries) expect(await visitor.page.getByRole("link", { name: entry.variety }).count()).toBeGreaterThan(0);
     expect(await visitor.page.title()).toContain(PUBLISHED.title);
+    await visitor.page.getByText(`Results from ${enrolled.length - leftOut.length} of ${enrolled.length} sites.`).waitFor();
+    for (const name of leftOut) await visitor.page.getByRole("list", { name: "Sites not included" }).getByText(`${name} is not included:`).waitFor();
 
     const download = await fetch(new URL(`/results/${PUBLISHED.code}/report`, baseUrl));
     expect(download.status).toBe(200);

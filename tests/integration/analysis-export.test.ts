@@ -37,10 +37,10 @@ afterAll(async () => {
 
 describe("analysis exports", () => {
   it("writes an .xlsx whose means, ANOVA and settings match the page's JSON, with formula-like text neutralised", async () => {
-    const exclusionId = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: null, traitId: null, reason: "placeholder" }).catch(() => null);
+    const exclusionId = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: null, traitId: null, category: "other", note: "placeholder" }).catch(() => null);
     expect(exclusionId).toBeNull(); // neither a site nor a plot: refused
     const [plot] = await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
-    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: plot!.id, traitId: yieldId, reason: '=HYPERLINK("http://example.test","x")' });
+    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: null, plotId: plot!.id, traitId: yieldId, category: "other", note: '=HYPERLINK("http://example.test","x")' });
     try {
       const json = (await (await getAnalysis(new Request(`http://t/api/trials/${lettuceId}/analysis?trait=${yieldId}&plots=1`), ctx())).json()) as AnalysisResult;
       const res = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}&format=xlsx`), ctx());
@@ -76,7 +76,10 @@ describe("analysis exports", () => {
       const settings = workbook.getWorksheet("Settings")!;
       const texts: string[] = [];
       settings.eachRow((row) => texts.push(String(row.getCell(2).value)));
-      expect(texts.some((t) => t.includes('=HYPERLINK("http://example.test","x")'))).toBe(true);
+      // A file travels beyond the portal: it names the public reason, never the staff's note.
+      expect(texts.some((t) => t.includes("HYPERLINK"))).toBe(false);
+      expect(texts.some((t) => t.includes("other reason"))).toBe(true);
+      expect(texts.every((v) => !/^[=+\-@]/.test(v))).toBe(true);
       const raw = workbook.getWorksheet("Raw data")!;
       expect(raw.rowCount - 1).toBe(json.plots.length);
 
@@ -90,17 +93,17 @@ describe("analysis exports", () => {
     }
   });
 
-  it("keeps formula-like exclusion reasons as text in the workbook", async () => {
+  it("writes an exclusion's public reason to the workbook and never its private note", async () => {
     const [site] = await db.select({ id: s.enrolments.siteId }).from(s.enrolments).where(eq(s.enrolments.trialId, lettuceId)).limit(1);
-    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: site!.id, plotId: null, traitId: yieldId, reason: "@SUM(A1:A9) test" });
+    const id = await insertExclusion(auth.viewer!, { trialId: lettuceId, siteId: site!.id, plotId: null, traitId: yieldId, category: "other", note: "@SUM(A1:A9) test" });
     try {
       const res = await getExport(new Request(`http://t/api/trials/${lettuceId}/analysis/export?trait=${yieldId}`), ctx());
       const workbook = new ExcelJS.Workbook();
       await workbook.xlsx.load(await res.arrayBuffer());
       const values: string[] = [];
       workbook.getWorksheet("Settings")!.eachRow((row) => values.push(String(row.getCell(2).value)));
-      // The reason sits inside a longer sentence; the site's "left out" line starts with it only after the prefix.
-      expect(values.some((v) => v.includes("@SUM(A1:A9) test"))).toBe(true);
+      expect(values.some((v) => v.includes("@SUM(A1:A9) test"))).toBe(false);
+      expect(values.some((v) => v.includes(`whole site`) && v.includes("other reason"))).toBe(true);
       expect(values.every((v) => !/^[=+\-@]/.test(v))).toBe(true);
     } finally {
       await deleteExclusion(auth.viewer!, { trialId: lettuceId, exclusionId: id });

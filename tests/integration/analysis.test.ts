@@ -129,11 +129,11 @@ describe("exclusions", () => {
   it("leave a site out, are listed, and change the results until removed", async () => {
     const before = await analysis(`trait=${yieldId}`);
     const site = before.perSite[0]!;
-    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: site.siteId, plotId: null, traitId: null, reason: `Hail flattened the beds ${unique("x")}` });
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: site.siteId, plotId: null, traitId: null, category: "plot_damaged", note: `Hail flattened the beds ${unique("x")}` });
     try {
       const after = await analysis(`trait=${yieldId}`);
       expect(after.perSite.map((p) => p.siteId)).not.toContain(site.siteId);
-      expect(after.sites.find((x) => x.id === site.siteId)!.why).toMatch(/^excluded: Hail flattened/);
+      expect(after.sites.find((x) => x.id === site.siteId)!.why).toBe("excluded: plot damaged (animals, hail, flooding)");
       expect(after.exclusions.map((x) => x.id)).toContain(id);
       expect(after.combined!.entryF).not.toBeCloseTo(before.combined!.entryF!, 6);
       const [audit] = await db.select({ action: s.auditLog.action }).from(s.auditLog).where(sql`${s.auditLog.entity} = 'analysis_exclusion' AND ${s.auditLog.entityId} = ${String(id)}`);
@@ -149,10 +149,10 @@ describe("exclusions", () => {
     const before = await analysis(`trait=${yieldId}&plots=1`);
     const plot = before.plots.find((p) => p.status === "used")!;
     const [row] = await db.select({ id: s.plots.id }).from(s.plots).where(sql`${s.plots.trialId} = ${lettuceId} AND ${s.plots.plotCode} = ${plot.plotCode}`);
-    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, reason: "Irrigation line burst on this plot" });
+    const id = await insertExclusion(coordinator, { trialId: lettuceId, siteId: null, plotId: row!.id, traitId: yieldId, category: "protocol_not_followed", note: "Irrigation line burst on this plot" });
     try {
       const after = await analysis(`trait=${yieldId}&plots=1`);
-      expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: Irrigation line burst on this plot");
+      expect(after.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: trial protocol not followed");
       expect(after.plots.find((p) => p.plotCode === plot.plotCode)!.status).toBe("excluded");
       const site = after.perSite.find((p) => p.siteId === plot.siteId)!;
       expect(site.result!.n).toBe(before.perSite.find((p) => p.siteId === plot.siteId)!.result!.n - 1);
@@ -166,7 +166,7 @@ describe("exclusion form", () => {
   it("finds a plot by the code on its label, and refuses an unknown code with a field message and nothing written", async () => {
     const { exclusionSchema } = await import("@/lib/validation/analysis");
     const [plot] = await db.select({ id: s.plots.id, plotCode: s.plots.plotCode }).from(s.plots).where(eq(s.plots.trialId, lettuceId)).limit(1);
-    const typed = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: ` ${plot!.plotCode.toLowerCase()} `, traitId: "all", reason: "Rabbits ate the whole plot" });
+    const typed = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: ` ${plot!.plotCode.toLowerCase()} `, traitId: "all", category: "plot_damaged", note: "Rabbits ate the whole plot" });
     expect(typed).toMatchObject({ plotId: null, siteId: null, plotCode: plot!.plotCode, traitId: null });
     const id = await insertExclusion(coordinator, typed);
     try {
@@ -176,16 +176,26 @@ describe("exclusion form", () => {
       await deleteExclusion(coordinator, { trialId: lettuceId, exclusionId: id });
     }
 
-    const missingCode = exclusionSchema.safeParse({ trialId: String(lettuceId), target: "plot", plotCode: "", reason: "Rabbits ate the whole plot" });
+    const missingCode = exclusionSchema.safeParse({ trialId: String(lettuceId), target: "plot", plotCode: "", category: "plot_damaged" });
     expect(missingCode.success).toBe(false);
     expect(missingCode.error!.issues[0]!.path).toEqual(["plotCode"]);
 
     const count = async () => (await db.select({ n: sql<number>`COUNT(*)` }).from(s.analysisExclusions))[0]!.n;
     const before = await count();
-    const unknown = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: "NO-SUCH-9", reason: "Rabbits ate the whole plot" });
+    const unknown = exclusionSchema.parse({ trialId: String(lettuceId), target: "plot", plotCode: "NO-SUCH-9", category: "plot_damaged" });
     const error = await insertExclusion(coordinator, unknown).catch((e: unknown) => e);
     expect(error).toMatchObject({ code: "not_found", fieldErrors: { plotCode: [expect.stringMatching(/no plot NO-SUCH-9 in this trial/)] } });
     expect(await count()).toBe(before);
+  });
+
+  it("asks for the public reason from the list, and for a note when the reason is \"other\"", async () => {
+    const { exclusionSchema } = await import("@/lib/validation/analysis");
+    const base = { trialId: String(lettuceId), target: "plot", plotCode: "S1-B1-01", traitId: "all" };
+    const free = exclusionSchema.safeParse({ ...base, category: "the neighbour's dog", note: "" });
+    expect(free.error!.issues.map((i) => [i.path[0], i.message])).toEqual([["category", "Choose the reason the public will read."]]);
+    const other = exclusionSchema.safeParse({ ...base, category: "other", note: "  " });
+    expect(other.error!.issues.map((i) => i.path[0])).toEqual(["note"]);
+    expect(exclusionSchema.parse({ ...base, category: "seed_mix_up", note: "" })).toMatchObject({ category: "seed_mix_up", note: null });
   });
 });
 
@@ -275,7 +285,7 @@ describe("who may read an analysis", () => {
       const res = await call(`trait=${yieldId}`);
       expect(res.status).toBe(404);
       expect(JSON.stringify(await res.json())).not.toContain("Copper Ruffle");
-      await expect(insertExclusion(auth.viewer, { trialId: lettuceId, siteId: null, plotId: 1, traitId: null, reason: "not mine to exclude" })).rejects.toThrow(/not in your programs/);
+      await expect(insertExclusion(auth.viewer, { trialId: lettuceId, siteId: null, plotId: 1, traitId: null, category: "other", note: "not mine to exclude" })).rejects.toThrow(/not in your programs/);
     } finally {
       auth.viewer = coordinator;
     }

@@ -71,7 +71,7 @@ afterAll(async () => {
 describe("the blind stays closed for growers until the key is revealed", () => {
   it("a grower's analysis JSON names no variety and marks no check, label germination, seed lot or coordinator's note before publication", async () => {
     const plot = site.plots[0]!;
-    const exclusionId = await insertExclusion(coordinator, { trialId: site.trialId, siteId: null, plotId: plot.id, traitId: null, reason: `${LETTUCE.entries[0]!.variety} plot trampled; the check beside it was fine` });
+    const exclusionId = await insertExclusion(coordinator, { trialId: site.trialId, siteId: null, plotId: plot.id, traitId: null, category: "plot_damaged", note: `${LETTUCE.entries[0]!.variety} plot trampled; the check beside it was fine` });
     try {
       for (const query of [`trait=${yieldId}`, `trait=${yieldId}&plots=1`]) {
         const { status, text, body } = await asGrower(query);
@@ -96,7 +96,7 @@ describe("the blind stays closed for growers until the key is revealed", () => {
   it("the analysis input read for a grower before publication holds no name, check flag, label germination, seed lot or coordinator's reason", async () => {
     // The first of two locks: even before the blind view is made, the server never holds the key for a grower.
     const plot = site.plots[0]!;
-    const exclusionId = await insertExclusion(coordinator, { trialId: site.trialId, siteId: null, plotId: plot.id, traitId: null, reason: `${LETTUCE.entries[0]!.variety} plot trampled` });
+    const exclusionId = await insertExclusion(coordinator, { trialId: site.trialId, siteId: null, plotId: plot.id, traitId: null, category: "plot_damaged", note: `${LETTUCE.entries[0]!.variety} plot trampled` });
     try {
       const input = await loadAnalysisInput(grower, { trialId: site.trialId, traitId: yieldId });
       expect(input!.entries.length).toBe(LETTUCE.entries.length);
@@ -107,7 +107,7 @@ describe("the blind stays closed for growers until the key is revealed", () => {
       // Staff read the same input with the key.
       const staff = await loadAnalysisInput(coordinator, { trialId: site.trialId, traitId: yieldId });
       expect(staff!.entries.map((e) => e.varietyName).sort()).toEqual(LETTUCE.entries.map((e) => e.variety).sort());
-      expect(staff!.exclusions.map((x) => x.reason)).toContain(`${LETTUCE.entries[0]!.variety} plot trampled`);
+      expect(staff!.exclusions.map((x) => x.note)).toContain(`${LETTUCE.entries[0]!.variety} plot trampled`);
     } finally {
       await deleteExclusion(coordinator, { trialId: site.trialId, exclusionId });
     }

@@ -22,7 +22,8 @@ vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET: analysisExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
-const { publishResults } = await import("@/server/publish/publish");
+const { publishResults, readSiteInclusion } = await import("@/server/publish/publish");
+const { leftOutSiteIds } = await import("@/lib/domain/publish/site-inclusion");
 const { csvExportForViewer, templateForViewer } = await import("@/server/spreadsheets/files");
 const { saveObservationsForViewer } = await import("@/server/observations/recording");
 const { pool: appPool } = await import("@/db/index");
@@ -85,7 +86,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published%")));
   for (const v of renamed) await db.update(s.varieties).set({ name: v.name }).where(eq(s.varieties.id, v.id));
   await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, lettuce.id));
   await db.update(s.trials).set({ status: lettuce.status }).where(eq(s.trials.id, lettuce.id));
@@ -124,7 +125,8 @@ describe("exports keep formula-like text as text", () => {
   });
 
   it("a variety named like a formula stays text in the public data download, CSV and workbook", async () => {
-    await publishResults(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
+    const confirmedLeftOut = leftOutSiteIds((await readSiteInclusion(coordinator, lettuce.id))!);
+    await publishResults(coordinator, { trialId: lettuce.id, traitId: yieldId, settings: { siteModel: "random", separation: "lsd" }, changeNote: null, confirmedLeftOut });
     const ctx = { params: Promise.resolve({ code: "TV26-LET" }) };
     const csv = await publicData(new Request("http://t/results/TV26-LET/data?format=csv"), ctx);
     expect(csv.status).toBe(200);

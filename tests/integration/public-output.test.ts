@@ -20,7 +20,8 @@ const { GET: publicList } = await import("@/app/api/public/trials/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
 const { GET: publicReport } = await import("@/app/(public)/results/[code]/report/route");
 const { getPublicSite, getPublicVariety } = await import("@/server/publish/public-snapshots");
-const { publishResults } = await import("@/server/publish/publish");
+const { publishResults, readSiteInclusion } = await import("@/server/publish/publish");
+const { leftOutSiteIds } = await import("@/lib/domain/publish/site-inclusion");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -75,11 +76,13 @@ beforeAll(async () => {
   expect(statuses.some((x) => x !== "accepted")).toBe(true);
   facts = { siteIds: enrolled.map((e) => e.siteId), varietyIds: entries.map((e) => e.varietyId), statuses, sharedSite: enrolled[0]!.siteId };
   await db.update(s.enrolments).set({ resultsShared: true }).where(and(eq(s.enrolments.trialId, trial.id), eq(s.enrolments.siteId, facts.sharedSite)));
-  await publishResults(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
+  // Published as the coordinator confirms it on the page: without the sites whose data are not accepted.
+  const confirmedLeftOut = leftOutSiteIds((await readSiteInclusion(coordinator, trial.id))!);
+  await publishResults(coordinator, { trialId: trial.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null, confirmedLeftOut });
 });
 
 afterAll(async () => {
-  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published%")));
   await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, trial.id));
   await db.update(s.trials).set({ status: trial.status }).where(eq(s.trials.id, trial.id));
   await db.update(s.enrolments).set({ resultsShared: false }).where(and(eq(s.enrolments.trialId, trial.id), inArray(s.enrolments.siteId, facts.siteIds)));

@@ -6,9 +6,13 @@ import path from "node:path";
 import { and, count, desc, eq, gt, like, sql } from "drizzle-orm";
 import * as s from "@/db/schema";
 import { pool as appPool } from "@/db/index";
-import { publishResults, withdrawResults } from "@/server/publish/publish";
+import { publishResults, readSiteInclusion, withdrawResults } from "@/server/publish/publish";
+import { leftOutSiteIds } from "@/lib/domain/publish/site-inclusion";
+import { publishedCsv, publishedXlsx } from "@/lib/domain/publish/downloads";
+import { deleteExclusion, insertExclusion } from "@/db/mutations/exclusions";
 import { getPublicReport, getPublicSite, getPublicVariety, listPublicTrials } from "@/server/publish/public-snapshots";
 import { buildSnapshot } from "@/server/publish/build";
+import { listReviewQueue } from "@/server/review/sheets";
 import { renderTrialReport } from "@/reports/trial-report/render";
 import type { Viewer } from "@/lib/domain/viewer";
 import { DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
@@ -22,9 +26,21 @@ let trialId: number;
 // The last outbox row before these tests, so only the mail they queue is counted.
 let mailMark = 0;
 
+const SETTINGS = { siteModel: "random", separation: "lsd" } as const;
+/** The sites a publication now would leave out, as the publish page names them. */
+const leftOutNow = async () => leftOutSiteIds((await readSiteInclusion(coordinator, trialId))!);
+
+/** Publishes as a coordinator who ticked the box naming the sites left out. */
 async function publish(changeNote: string | null) {
-  return publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote });
+  return publishResults(coordinator, { trialId, traitId: null, settings: SETTINGS, changeNote, confirmedLeftOut: await leftOutNow() });
 }
+
+// Private notes typed with two exclusions made before the first version; neither may leave the portal.
+const PRIVATE_NOTE = "Private: deer got in after the neighbour left the gate open";
+const SITE_NOTE = "Private: the grower sowed a week late and told me in confidence";
+const exclusionIds: number[] = [];
+let excludedPlot: { code: string; site: string };
+let excludedSite: string;
 
 beforeAll(async () => {
   const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, DEMO_STAFF[1].email));
@@ -33,21 +49,86 @@ beforeAll(async () => {
   trialId = t!.id;
   const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
   mailMark = last?.id ?? 0;
+  // One plot left out of marketable yield only, and one accepted site left out of bolting only.
+  const [yieldTrait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
+  const [boltingTrait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "bolting"));
+  const accepted = await db
+    .select({ siteId: s.enrolments.siteId, name: s.sites.name })
+    .from(s.enrolments)
+    .innerJoin(s.sites, eq(s.sites.id, s.enrolments.siteId))
+    .innerJoin(s.submissions, eq(s.submissions.enrolmentId, s.enrolments.id))
+    .where(and(eq(s.enrolments.trialId, trialId), eq(s.submissions.status, "accepted")))
+    .orderBy(s.sites.name);
+  const [plot] = await db.select({ id: s.plots.id, code: s.plots.plotCode }).from(s.plots).where(and(eq(s.plots.trialId, trialId), eq(s.plots.siteId, accepted[0]!.siteId))).limit(1);
+  excludedPlot = { code: plot!.code, site: accepted[0]!.name };
+  excludedSite = accepted[1]!.name;
+  exclusionIds.push(await insertExclusion(coordinator, { trialId, siteId: null, plotId: plot!.id, traitId: yieldTrait!.id, category: "plot_damaged", note: PRIVATE_NOTE }));
+  exclusionIds.push(await insertExclusion(coordinator, { trialId, siteId: accepted[1]!.siteId, plotId: null, traitId: boltingTrait!.id, category: "not_sown", note: SITE_NOTE }));
 });
 
-const cooperatorsOfTrial = () =>
+/** Growers of the trial's sites whose data are accepted (or, with false, not accepted). */
+const cooperatorsOfTrial = (accepted: boolean) =>
   db
     .selectDistinct({ email: s.users.email })
     .from(s.enrolments)
     .innerJoin(s.siteCooperators, eq(s.siteCooperators.siteId, s.enrolments.siteId))
     .innerJoin(s.users, eq(s.users.id, s.siteCooperators.userId))
-    .where(and(eq(s.enrolments.trialId, trialId), eq(s.users.active, true), sql`${s.users.passwordHash} IS NOT NULL`));
+    .leftJoin(s.submissions, eq(s.submissions.enrolmentId, s.enrolments.id))
+    .where(
+      and(
+        eq(s.enrolments.trialId, trialId),
+        eq(s.users.active, true),
+        sql`${s.users.passwordHash} IS NOT NULL`,
+        accepted ? sql`${s.submissions.status} = 'accepted'` : sql`COALESCE(${s.submissions.status}, 'draft') <> 'accepted'`,
+      ),
+    );
 const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, subject: s.mailOutbox.subject, text: s.mailOutbox.textBody }).from(s.mailOutbox).where(gt(s.mailOutbox.id, mark));
 afterAll(async () => {
+  for (const id of exclusionIds) await deleteExclusion(coordinator, { trialId, exclusionId: id });
   // The notices stay out of other files' delivery runs.
-  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published%")));
   await pool.end();
   await appPool.end();
+});
+
+/** The PDF's text as pdftotext reads it, with runs of white space made single spaces. */
+async function pdfText(pdf: Buffer | Uint8Array) {
+  const dir = await fs.mkdtemp(path.join(os.tmpdir(), "seedplot-report-text-"));
+  await fs.writeFile(path.join(dir, "report.pdf"), pdf);
+  return execFileSync("pdftotext", [path.join(dir, "report.pdf"), "-"]).toString().replace(/\s+/g, " ");
+}
+
+const versionsOfTrial = async () => (await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId)))[0]!.n;
+const lastMailId = async () => (await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1))[0]?.id ?? 0;
+
+describe("the publishing guard", () => {
+  it("publishing with a site whose data are not accepted is refused unless the confirmation names exactly the sites left out, and then stores nothing", async () => {
+    const inclusion = (await readSiteInclusion(coordinator, trialId))!;
+    const leftOut = inclusion.filter((x) => !x.included);
+    // The demo leaves one spinach site's data sent for review, not accepted.
+    expect(leftOut.map((x) => x.reason)).toEqual(["submitted"]);
+    const included = inclusion.find((x) => x.included)!;
+    const mark = await lastMailId();
+    const attempt = (confirmedLeftOut: number[]) => publishResults(coordinator, { trialId, traitId: null, settings: SETTINGS, changeNote: null, confirmedLeftOut });
+    await expect(attempt([])).rejects.toThrow(`This version would leave out ${leftOut[0]!.siteName}.`);
+    // A confirmation naming another site, or more sites than are left out, is not the one asked for.
+    await expect(attempt([included.siteId])).rejects.toThrow(/would now leave out/);
+    await expect(attempt([leftOut[0]!.siteId, included.siteId])).rejects.toThrow(/would now leave out/);
+    expect(await versionsOfTrial()).toBe(0);
+    expect(await queuedSince(mark)).toEqual([]);
+  });
+
+  it("a confirmation made before a site was accepted is refused, so a stale form cannot publish a different set of sites", async () => {
+    const leftOut = await leftOutNow();
+    const [enrolment] = await db.select({ id: s.enrolments.id }).from(s.enrolments).where(and(eq(s.enrolments.trialId, trialId), eq(s.enrolments.siteId, leftOut[0]!)));
+    await db.update(s.submissions).set({ status: "accepted" }).where(eq(s.submissions.enrolmentId, enrolment!.id));
+    try {
+      await expect(publishResults(coordinator, { trialId, traitId: null, settings: SETTINGS, changeNote: null, confirmedLeftOut: leftOut })).rejects.toThrow(/Every site is now included/);
+      expect(await versionsOfTrial()).toBe(0);
+    } finally {
+      await db.update(s.submissions).set({ status: "submitted" }).where(eq(s.submissions.enrolmentId, enrolment!.id));
+    }
+  });
 });
 
 describe("publishing a trial", () => {
@@ -118,6 +199,52 @@ describe("publishing a trial", () => {
     if (process.env.SEEDPLOT_KEEP_PDF) await fs.copyFile(file, process.env.SEEDPLOT_KEEP_PDF);
   }, 60_000);
 
+  it("says the results come from N of M sites and names the site left out, in the public shape and the PDF", async () => {
+    const report = await getPublicReport(TRIAL.code);
+    if (report?.kind !== "published") throw new Error("expected published");
+    const leftOut = (await readSiteInclusion(coordinator, trialId))!.filter((x) => !x.included);
+    expect(report.snapshot.coverage).toEqual({
+      inResults: TRIAL.siteIndexes.length - 1,
+      enrolled: TRIAL.siteIndexes.length,
+      notIncluded: [{ name: leftOut[0]!.siteName, reason: "its data were not checked and accepted in time for this version" }],
+    });
+    const text = await pdfText(await renderTrialReport(report.snapshot));
+    expect(text).toContain(`Results from ${TRIAL.siteIndexes.length - 1} of ${TRIAL.siteIndexes.length} sites. Not included: ${leftOut[0]!.siteName}`);
+  }, 60_000);
+
+  it("lists exactly the plots and sites left out of each trait, with plot code, site and public reason, and never the private note", async () => {
+    const report = await getPublicReport(TRIAL.code);
+    if (report?.kind !== "published") throw new Error("expected published");
+    const byTrait = Object.fromEntries(report.snapshot.results.map((r) => [r.trait, r.result.exclusions]));
+    // One plot's exclusion for one trait is listed under that trait only, with its plot code.
+    expect(byTrait.marketable_yield).toEqual([{ siteName: excludedPlot.site, plotCode: excludedPlot.code, traitName: "Marketable yield", category: "plot_damaged", reason: "plot damaged (animals, hail, flooding)" }]);
+    expect(byTrait.bolting).toEqual([{ siteName: excludedSite, plotCode: null, traitName: "Bolting at harvest", category: "not_sown", reason: "not sown, or sown late" }]);
+    for (const [trait, list] of Object.entries(byTrait)) if (trait !== "marketable_yield" && trait !== "bolting") expect([trait, list]).toEqual([trait, []]);
+
+    const text = await pdfText(await renderTrialReport(report.snapshot));
+    expect(text).toContain(`• Marketable yield: plot ${excludedPlot.code} at ${excludedPlot.site}, reason: plot damaged (animals, hail, flooding).`);
+    expect(text).toContain(`• Bolting at harvest: all plots at ${excludedSite}, reason: not sown, or sown late.`);
+    expect(text.match(new RegExp(`plot ${excludedPlot.code} at`, "g"))?.length).toBe(1);
+
+    // The notes stay in the portal: not in the stored snapshot, the public shape, the PDF or the downloads.
+    const [stored] = await db.select({ snapshot: s.publishedReports.snapshot }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId)).orderBy(desc(s.publishedReports.version)).limit(1);
+    const xlsx = await publishedXlsx(report.snapshot);
+    const dir = await fs.mkdtemp(path.join(os.tmpdir(), "seedplot-xlsx-"));
+    await fs.writeFile(path.join(dir, "data.xlsx"), xlsx);
+    const unzipped = execFileSync("unzip", ["-p", path.join(dir, "data.xlsx")]).toString();
+    for (const [where, body] of [["stored snapshot", stored!.snapshot], ["public shape", JSON.stringify(report.snapshot)], ["PDF", text], ["CSV", publishedCsv(report.snapshot)], ["xlsx", unzipped]] as const) {
+      for (const note of [PRIVATE_NOTE, SITE_NOTE]) expect([where, body.includes(note.slice(9))]).toEqual([where, false]);
+    }
+    // The workbook lists what each trait leaves out, with the public reason.
+    expect(unzipped).toContain("plot damaged (animals, hail, flooding)");
+  }, 60_000);
+
+  it("the review queue keeps the site left out of a published trial, marked as such, and drops the trial's accepted sites", async () => {
+    const queue = (await listReviewQueue(coordinator)).filter((r) => r.trialId === trialId);
+    const leftOut = (await readSiteInclusion(coordinator, trialId))!.filter((x) => !x.included);
+    expect(queue.map((r) => [r.siteName, r.status, r.leftOutOfPublished])).toEqual(leftOut.map((x) => [x.siteName, "submitted", true]));
+  });
+
   it("lists published trials, varieties and sites publicly without contact details", async () => {
     const index = await listPublicTrials({ q: "spinach" });
     expect(index.trials.map((t) => t.code)).toContain(TRIAL.code);
@@ -142,12 +269,23 @@ describe("publishing a trial", () => {
     await expect(withdrawResults(coordinator, { trialId, reason: "again and again" })).rejects.toThrow(/no published results/);
   });
 
-  it("queues a notice to each of the trial's cooperators with every version it publishes", async () => {
-    const cooperators = (await cooperatorsOfTrial()).map((c) => c.email).sort();
+  it("tells only the growers of included sites that their site's results are out, with every version it publishes", async () => {
+    const cooperators = (await cooperatorsOfTrial(true)).map((c) => c.email).sort();
+    const leftOutGrowers = (await cooperatorsOfTrial(false)).map((c) => c.email).filter((e) => !cooperators.includes(e)).sort();
     expect(cooperators.length).toBeGreaterThan(0);
-    const notices = (await queuedSince(mailMark)).filter((m) => m.subject === `Results published: ${TRIAL.title}`);
+    expect(leftOutGrowers.length).toBeGreaterThan(0);
+    const queued = await queuedSince(mailMark);
+    const notices = queued.filter((m) => m.subject === `Results published: ${TRIAL.title}`);
     expect(notices.filter((m) => !/version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
     expect(notices.filter((m) => /version 2/.test(m.text)).map((m) => m.to).sort()).toEqual(cooperators);
+    for (const m of notices) expect(m.text).toContain("which your site helped grow");
+    // The growers of the site left out hear only that this version does not include their site.
+    const without = queued.filter((m) => m.subject === `Results published without your site: ${TRIAL.title}`);
+    expect(without.map((m) => m.to).sort()).toEqual([...leftOutGrowers, ...leftOutGrowers].sort());
+    for (const m of without) {
+      expect(m.text).toContain("They do not include your site");
+      expect(m.text).not.toContain("which your site helped grow");
+    }
     for (const m of notices) expect(m.text).toContain(`/results/${TRIAL.code}`);
   });
 
@@ -157,7 +295,7 @@ describe("publishing a trial", () => {
     const versionsBefore = await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId));
     await db.update(s.trials).set({ status: "archived" }).where(eq(s.trials.id, trialId));
     try {
-      await expect(publishResults(coordinator, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: "Tried on an archived trial." })).rejects.toThrow(/archived trial cannot be published/);
+      await expect(publishResults(coordinator, { trialId, traitId: null, settings: SETTINGS, changeNote: "Tried on an archived trial.", confirmedLeftOut: await leftOutNow() })).rejects.toThrow(/archived trial cannot be published/);
       expect(await db.select({ n: count() }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId))).toEqual(versionsBefore);
       expect(await queuedSince(last?.id ?? 0)).toEqual([]);
       const [after] = await db.select({ status: s.trials.status }).from(s.trials).where(eq(s.trials.id, trialId));
@@ -169,12 +307,12 @@ describe("publishing a trial", () => {
 
   it("refuses a coordinator of another program and cooperators", async () => {
     const grower: Viewer = { id: 999999, email: "x@example.org", name: "X", role: "cooperator" };
-    await expect(buildSnapshot(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, version: 1, changeNote: null, publishedAt: new Date() })).rejects.toThrow(/not in your programs/);
+    await expect(buildSnapshot(grower, { trialId, traitId: null, settings: SETTINGS, version: 1, changeNote: null, publishedAt: new Date(), siteInclusion: [] })).rejects.toThrow(/not in your programs/);
     const [other] = await db.insert(s.users).values({ email: `other-coord-${Date.now()}@example.org`, name: "Other", role: "coordinator" }).$returningId();
     const outsider: Viewer = { id: other!.id, email: "o@example.org", name: "Other", role: "coordinator" };
     await expect(withdrawResults(outsider, { trialId, reason: "not my trial at all" })).rejects.toThrow(/not in your programs/);
     // Refused before anything is built, even though the trial has versions (no change-note hint about them).
-    await expect(publishResults(outsider, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
-    await expect(publishResults(grower, { trialId, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null })).rejects.toThrow(/not in your programs/);
+    await expect(publishResults(outsider, { trialId, traitId: null, settings: SETTINGS, changeNote: null, confirmedLeftOut: [] })).rejects.toThrow(/not in your programs/);
+    await expect(publishResults(grower, { trialId, traitId: null, settings: SETTINGS, changeNote: null, confirmedLeftOut: [] })).rejects.toThrow(/not in your programs/);
   });
 });

@@ -19,12 +19,6 @@ import type {
   ViewerAnalysis,
 } from "./types";
 
-/** Shown instead of a coordinator's exclusion reason before the reveal: free text may name a variety. */
-export const WITHHELD_REASON = "reason kept with the coordinator until the results are published";
-
-// The analysis writes an exclusion's reason into "why left out" and "why missing" as "excluded: <reason>".
-const withheld = (text: string) => (text.startsWith("excluded: ") ? `excluded: ${WITHHELD_REASON}` : text);
-
 /** The analysis as this viewer may see it; `withPlots` adds the plot rows. */
 export function analysisFor(viewer: Viewer, result: AnalysisResult, withPlots = false): ViewerAnalysis {
   return isStaff(viewer) ? toAnalysisPayload(result, withPlots) : toCooperatorView(result, withPlots);
@@ -67,7 +61,7 @@ export function toBlindPayload(result: AnalysisResult, withPlots = false): Blind
     settings: { traitId: st.traitId, siteIds: st.siteIds && [...st.siteIds], includeUnaccepted: st.includeUnaccepted, siteModel: st.siteModel, separation: st.separation },
     trait: { id: t.id, code: t.code, name: t.name, unit: t.unit, valueType: t.valueType, computation: t.computation, betterWhen: t.betterWhen, analysedAs: t.analysedAs },
     traits: result.traits.map((x) => ({ id: x.id, name: x.name, analysable: x.analysable })),
-    sites: result.sites.map((x) => ({ id: x.id, name: x.name, status: x.status, included: x.included, shared: x.shared, why: x.why && withheld(x.why) })),
+    sites: result.sites.map((x) => ({ id: x.id, name: x.name, status: x.status, included: x.included, shared: x.shared, why: x.why })),
     perSite: result.perSite.map((s) => ({ siteId: s.siteId, siteName: s.siteName, status: s.status, blocks: s.blocks, result: s.result && block(s.result), problem: s.problem })),
     combined: combined && {
       ...block(combined),
@@ -81,18 +75,21 @@ export function toBlindPayload(result: AnalysisResult, withPlots = false): Blind
         .sort((a, b) => a.siteName.localeCompare(b.siteName) || a.entryId - b.entryId),
     },
     combinedProblem: result.combinedProblem,
-    missing: result.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: withheld(m.reason), handling: m.handling })),
+    missing: result.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: m.reason, handling: m.handling })),
     exclusions: result.exclusions.map((x) => ({
       id: x.id,
       siteId: x.siteId,
       plotId: x.plotId,
       traitId: x.traitId,
-      reason: WITHHELD_REASON,
+      // The category is one of a fixed list of words, so it cannot name a variety; the staff's note never leaves the portal's staff.
+      category: x.category,
+      note: null,
       createdAt: x.createdAt,
       createdBy: null,
       siteName: x.siteName,
       plotCode: x.plotCode,
       traitName: x.traitName,
+      publicReason: x.publicReason,
     })),
     warnings: [...result.warnings],
     notes: [...result.notes],

@@ -38,7 +38,8 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
       ["Mean comparison", s.separation === "lsd" ? "protected LSD, alpha 0.05" : "Tukey HSD, alpha 0.05"],
       ["Data used", s.includeUnaccepted ? "accepted and not yet accepted" : "accepted only"],
       ...result.sites.map((site): Cell[] => [`Site: ${site.name}`, site.included ? `included (${site.status})` : `left out: ${site.why}`]),
-      ...result.exclusions.map((x): Cell[] => [`Exclusion ${x.id}`, `${x.plotCode ? `plot ${x.plotCode}` : `site ${x.siteName}`}, ${x.traitName ?? "all traits"}: ${x.reason} (${x.createdBy ?? "unknown"}, ${x.createdAt.slice(0, 10)})`]),
+      // A file travels beyond the portal, so it carries the public reason and never the staff's note.
+      ...result.exclusions.map((x): Cell[] => [`Left out`, `${x.plotCode ? `plot ${x.plotCode} (${x.siteName})` : `whole site ${x.siteName}`}, ${x.traitName ?? "all traits"}: ${x.publicReason} (${x.createdBy ?? "unknown"}, ${x.createdAt.slice(0, 10)})`]),
       ["Generated", generatedAt],
     ],
   };

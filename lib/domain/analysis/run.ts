@@ -17,6 +17,7 @@ import {
 } from "@/lib/domain/stats";
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { plural } from "@/lib/domain/vocabulary/words";
+import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
 import { countOf, formatNumber, formatP, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
 import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, orderWords, rankedValue } from "./ranking";
@@ -27,6 +28,7 @@ import type {
   AnalysisResult,
   AnalysisSettings,
   CombinedAnalysis,
+  DescribedExclusion,
   EntryResult,
   InputEntry,
   InputExclusion,
@@ -87,13 +89,13 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   ];
   // the seed-count sections add their own warnings
   const { germination, emergence } = analyseSeedCounts(input, includedSites, warnings);
-  const exclusionList = describeExclusions(input);
+  const exclusionList = describeExclusions(input, exclusions);
   const notes = [
     ...siteNotes(trait, analysedSites, missing),
     // names only once the key is public; before that the coordinator's notes and the growers' view use codes alike
     ...combinedNotes(trait, combined, analysedSites.length, input.trial.status === "published" || input.trial.status === "archived"),
     ...cvNote(cvs),
-    ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "exclusion")} recorded for this trial; the data stay stored and are listed below.`] : []),
+    ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "site or plot", "sites or plots")} left out of this trait by the coordinator, each listed with its reason; the data stay stored.`] : []),
   ];
 
   return {
@@ -134,7 +136,7 @@ function chooseSites(sites: InputSite[], siteExclusions: Map<number, InputExclus
     let why: string | null = null;
     if (settings.siteIds && !settings.siteIds.includes(site.id)) why = "not selected";
     else if (site.status !== "accepted" && !settings.includeUnaccepted) why = `data ${statusWords(site.status)}, not accepted yet`;
-    else if (siteExclusions.has(site.id)) why = `excluded: ${siteExclusions.get(site.id)!.reason}`;
+    else if (siteExclusions.has(site.id)) why = `excluded: ${EXCLUSION_CATEGORY_LABELS[siteExclusions.get(site.id)!.category]}`;
     return { id: site.id, name: site.name, status: site.status, included: why === null, why, shared: site.resultsShared ?? false };
   });
   const includedSites = sites.filter((_, i) => siteChoices[i]!.included);
@@ -176,7 +178,7 @@ function listMissingPlots(rows: PlotRow[]): MissingPlot[] {
   const missing: MissingPlot[] = [];
   for (const r of rows) {
     if (!sitesWithData.has(r.site.id)) continue;
-    const reason = r.excluded ? `excluded: ${r.excluded.reason}` : r.value === null ? (r.reason ?? "not recorded") : null;
+    const reason = r.excluded ? `excluded: ${EXCLUSION_CATEGORY_LABELS[r.excluded.category]}` : r.value === null ? (r.reason ?? "not recorded") : null;
     if (reason === null) continue;
     missing.push({ plotCode: r.plot.plotCode, siteName: r.site.name, blindCode: r.entry.blindCode, block: r.plot.block, reason, handling: "left out; estimated by least squares" });
   }
@@ -287,18 +289,25 @@ function analyseSeedCounts(input: AnalysisInput, includedSites: InputSite[], war
   return { germination: analyseGermination(input, plots, warnings), emergence: analyseEmergence(input, plots, warnings) };
 }
 
-/** Every exclusion recorded for the trial, with the names people know it by. */
-function describeExclusions(input: AnalysisInput): AnalysisResult["exclusions"] {
+/**
+ * The exclusions that leave something out of this trait, one per site or plot (the one that applies), with
+ * the names people know them by. Other traits' exclusions are theirs: a plot left out of yield still counts
+ * for height.
+ */
+function describeExclusions(input: AnalysisInput, applied: ReturnType<typeof exclusionsFor>): DescribedExclusion[] {
   const siteName = (siteId: number | undefined) => input.sites.find((s) => s.id === siteId)?.name ?? null;
-  return input.exclusions.map((x) => {
-    const plot = x.plotId !== null ? input.plots.find((p) => p.id === x.plotId) : undefined;
-    return {
-      ...x,
-      siteName: x.siteId !== null ? siteName(x.siteId) : x.plotId !== null ? siteName(plot?.siteId) : null,
-      plotCode: x.plotId !== null ? (plot?.plotCode ?? null) : null,
-      traitName: x.traitId !== null ? (input.traits.find((t) => t.id === x.traitId)?.name ?? null) : null,
-    };
-  });
+  return [...applied.bySite.values(), ...applied.byPlot.values()]
+    .sort((a, b) => a.id - b.id)
+    .map((x) => {
+      const plot = x.plotId !== null ? input.plots.find((p) => p.id === x.plotId) : undefined;
+      return {
+        ...x,
+        siteName: x.siteId !== null ? siteName(x.siteId) : siteName(plot?.siteId),
+        plotCode: plot?.plotCode ?? null,
+        traitName: x.traitId !== null ? (input.traits.find((t) => t.id === x.traitId)?.name ?? null) : null,
+        publicReason: EXCLUSION_CATEGORY_LABELS[x.category],
+      };
+    });
 }
 
 /** Plain-language summary of the per-site tests, then the missing plots. */

@@ -3,7 +3,7 @@
  * scoped to the viewer) and the result DTO the page, the JSON API and the exports all show.
  */
 import type { AnovaRow } from "@/lib/domain/stats";
-import type { BetterWhen, SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { BetterWhen, ExclusionCategory, SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 export type SiteModel = "random" | "fixed";
 export type Separation = "lsd" | "tukey";
@@ -75,7 +75,10 @@ export interface InputExclusion {
   plotId: number | null;
   /** null = every trait */
   traitId: number | null;
-  reason: string;
+  /** the public reason, published with the results */
+  category: ExclusionCategory;
+  /** the staff's own note: null for anyone else, and never published */
+  note: string | null;
   createdAt: string;
   createdBy: string | null;
 }
@@ -233,7 +236,8 @@ export interface AnalysisResult {
   /** why there is no combined analysis, when there is none */
   combinedProblem: string | null;
   missing: MissingPlot[];
-  exclusions: (InputExclusion & { siteName: string | null; plotCode: string | null; traitName: string | null })[];
+  /** the sites and plots left out of this trait's analysis (not other traits'), each with its public reason */
+  exclusions: DescribedExclusion[];
   warnings: string[];
   notes: string[];
   /** one-line explanations of the analysis choices, shown beside the controls */
@@ -243,6 +247,9 @@ export interface AnalysisResult {
   /** raw plot values used (after exclusions), for exports and the published data download */
   plots: PlotValue[];
 }
+
+/** An exclusion with the names people know it by; `publicReason` is the category in words. */
+export type DescribedExclusion = InputExclusion & { siteName: string | null; plotCode: string | null; traitName: string | null; publicReason: string };
 
 /** One plot's value as the analysis read it. */
 export interface PlotValue {

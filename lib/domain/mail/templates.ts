@@ -58,7 +58,24 @@ export function enrolmentNoticeMail(p: { to: string; name: string; siteName: str
   };
 }
 
-/** Notice to a trial's cooperators that results are out. */
+/**
+ * Notice to a grower whose sites are all left out of a published version: the results are public, without
+ * their site, and why (in the public words). Growers of included sites get resultsPublishedMail instead.
+ */
+export function resultsPublishedWithoutSiteMail(p: { to: string; name: string; trialTitle: string; version: number; link: string; sites: { name: string; why: string }[] }): OutgoingMail {
+  const what = p.version > 1 ? `A new version (version ${p.version}) of the results` : "The results";
+  const yours = p.sites.map((s) => `${s.name} (${s.why})`).join("; ");
+  return {
+    to: p.to,
+    subject: `Results published without your site: ${p.trialTitle}`,
+    text:
+      `Hello ${p.name},\n\n${what} of "${p.trialTitle}" are now public:\n${p.link}\n\n` +
+      `They do not include your site: ${yours}. If a later version includes your site's data, we will let you know.` +
+      SIGNATURE,
+  };
+}
+
+/** Notice to the growers of the sites a published version includes that the results are out. */
 export function resultsPublishedMail(p: { to: string; name: string; trialTitle: string; version: number; link: string }): OutgoingMail {
   const what = p.version > 1 ? `A corrected version (version ${p.version}) of the results` : "The results";
   return {

@@ -14,7 +14,7 @@ const DICTIONARY: [string, string][] = [
   ["trait", "What was measured. Dates are given as days from the site's sowing date."],
   ["unit", "Unit of the value."],
   ["value", "The value analysed for the plot. Empty when the plot is missing."],
-  ["status", "used = in the analysis; missing = no value (reason in the report); excluded = left out by the coordinator with a recorded reason."],
+  ["status", "used = in the analysis; missing = no value (reason in the report); excluded = left out by the coordinator (the reason is in the report and on the Excel file's Left out sheet)."],
 ];
 
 function dataRows(snapshot: PublicSnapshot) {
@@ -46,6 +46,14 @@ export async function publishedXlsx(snapshot: PublicSnapshot): Promise<Buffer> {
       addSheetRow(means, [result.trait.analysedAs, scope, m.varietyName ?? m.blindCode, m.blindCode, m.lsMean ?? m.mean, m.se, m.n, m.letter ?? "", m.rank, block.lsd, block.cv]);
     }
   }
+
+  // Exactly what each trait leaves out, with the public reason; sites not in this version at all come last.
+  const leftOut = book.addWorksheet("Left out");
+  addSheetRow(leftOut, ["trait", "site", "plot", "reason"]).font = { bold: true };
+  for (const { result } of snapshot.results) {
+    for (const x of result.exclusions) addSheetRow(leftOut, [result.trait.analysedAs, x.siteName ?? "", x.plotCode ?? "whole site", x.reason]);
+  }
+  for (const s of snapshot.coverage.notIncluded) addSheetRow(leftOut, ["every trait", s.name, "whole site", `not included: ${s.reason}`]);
 
   const dictionary = book.addWorksheet("Data dictionary");
   addSheetRow(dictionary, ["column", "meaning"]).font = { bold: true };

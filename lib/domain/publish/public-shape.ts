@@ -13,7 +13,9 @@
 import { blockView } from "@/lib/domain/analysis/block-view";
 import { assignRanks, compareWithCheck } from "@/lib/domain/analysis/ranking";
 import type { AnalysisBlock, AnalysisResult, EntryResult, GerminationRow } from "@/lib/domain/analysis/types";
-import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
+import { EXCLUSION_CATEGORIES, type BetterWhen, type ExclusionCategory } from "@/lib/domain/vocabulary/enums";
+import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
+import { publicNotIncludedWhy } from "./site-inclusion";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
 
 export interface PublicSite {
@@ -68,6 +70,17 @@ export interface PublicCombined extends PublicBlock {
 
 export type PublicGerminationRow = Omit<GerminationRow, "entryId" | "siteId">;
 
+export interface PublicExclusion {
+  siteName: string | null;
+  /** null when the whole site is left out */
+  plotCode: string | null;
+  /** null when the exclusion covers every trait */
+  traitName: string | null;
+  category: ExclusionCategory;
+  /** the category in words */
+  reason: string;
+}
+
 export interface PublicTraitResult {
   trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string; betterWhen: BetterWhen };
   /** the sites in this trait's analysis */
@@ -75,7 +88,8 @@ export interface PublicTraitResult {
   combined: PublicCombined | null;
   combinedProblem: string | null;
   missing: { plotCode: string; siteName: string; blindCode: string; block: number; reason: string; handling: string }[];
-  exclusions: { siteName: string | null; plotCode: string | null; traitName: string | null; reason: string }[];
+  /** exactly the sites and plots left out of this trait, with the public reason (never the staff's note) */
+  exclusions: PublicExclusion[];
   warnings: string[];
   notes: string[];
   germination: {
@@ -116,7 +130,10 @@ export interface PublicSnapshot {
   };
   /** code of the one trait published, or null when the whole trial is */
   scopeTrait: string | null;
+  /** every enrolled site */
   sites: PublicSite[];
+  /** "results from N of M sites": how many enrolled sites this version includes, and the others by name with why */
+  coverage: { inResults: number; enrolled: number; notIncluded: { name: string; reason: string }[] };
   entries: PublicEntry[];
   traits: PublicTrait[];
   results: { trait: string; result: PublicTraitResult }[];
@@ -156,6 +173,22 @@ function blockOf(b: AnalysisBlock, legacy: boolean): PublicBlock {
 
 const germinationRow = (g: GerminationRow): PublicGerminationRow => ({ blindCode: g.blindCode, varietyName: g.varietyName, siteName: g.siteName, sown: g.sown, emerged: g.emerged, percent: g.percent, lower: g.lower, upper: g.upper });
 
+// Versions published before exclusions had a category stored the coordinator's free text as the reason and
+// listed every exclusion under every trait; only the category (or "other") and this trait's own leave here.
+const categoryOf = (x: { category?: unknown }): ExclusionCategory => (EXCLUSION_CATEGORIES as readonly unknown[]).includes(x.category) ? (x.category as ExclusionCategory) : "other";
+const publicReasons = new Set(Object.values(EXCLUSION_CATEGORY_LABELS));
+const publicMissingReason = (reason: string) =>
+  reason.startsWith("excluded") && !publicReasons.has(reason.slice("excluded: ".length)) ? `excluded: ${EXCLUSION_CATEGORY_LABELS.other}` : reason;
+
+function exclusionsOf(r: AnalysisResult): PublicExclusion[] {
+  return r.exclusions
+    .filter((x) => x.traitId === null || x.traitId === undefined || x.traitId === r.trait.id)
+    .map((x) => {
+      const category = categoryOf(x);
+      return { siteName: x.siteName, plotCode: x.plotCode, traitName: x.traitName, category, reason: EXCLUSION_CATEGORY_LABELS[category] };
+    });
+}
+
 /** One trait's published analysis in its public shape. */
 export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
   const { combined, germination: g, emergence: e } = r;
@@ -176,8 +209,8 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
       cellMeans: combined.cellMeans.map((c) => ({ siteName: c.siteName, blindCode: codeOf.get(c.entryId) ?? "", mean: c.mean, n: c.n })),
     },
     combinedProblem: r.combinedProblem,
-    missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: m.reason, handling: m.handling })),
-    exclusions: r.exclusions.map((x) => ({ siteName: x.siteName, plotCode: x.plotCode, traitName: x.traitName, reason: x.reason })),
+    missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: publicMissingReason(m.reason), handling: m.handling })),
+    exclusions: exclusionsOf(r),
     warnings: [...r.warnings],
     notes: [...r.notes],
     germination: g && {
@@ -197,6 +230,20 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
   };
 }
 
+/**
+ * Which enrolled sites a version includes. Versions published before the inclusion was kept count the
+ * sites that appear in any trait's analysis.
+ */
+function coverageOf(s: PublishedSnapshot): PublicSnapshot["coverage"] {
+  if (s.siteInclusion) {
+    const out = s.siteInclusion.filter((x) => !x.included);
+    return { inResults: s.siteInclusion.length - out.length, enrolled: s.siteInclusion.length, notIncluded: out.map((x) => ({ name: x.siteName, reason: publicNotIncludedWhy(x) })) };
+  }
+  const analysed = new Set(s.results.flatMap(({ result }) => result.perSite.map((p) => p.siteName)));
+  const out = s.sites.filter((x) => !analysed.has(x.name));
+  return { inResults: s.sites.length - out.length, enrolled: s.sites.length, notIncluded: out.map((x) => ({ name: x.name, reason: "no accepted data in this version" })) };
+}
+
 /** A stored snapshot (any version of its format) in the public shape. */
 export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
   const t = s.trial;
@@ -209,6 +256,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     program: s.program,
     trial: { code: t.code, title: t.title, crop: t.crop, cropGroup: t.cropGroup, season: t.season, year: t.year, purpose: t.purpose, design: t.design, blocks: t.blocks, plotUnit: t.plotUnit, plotSize: t.plotSize, protocol: t.protocol },
     scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),
+    coverage: coverageOf(s),
     sites: s.sites.map((x) => ({ id: x.id, name: x.name, kind: x.kind, region: x.region, growingSetup: x.growingSetup, soil: x.soil, irrigation: x.irrigation, publicDescription: x.publicDescription, sownOn: x.sownOn })),
     entries: s.entries.map((e) => ({ blindCode: e.blindCode, varietyId: e.varietyId, variety: e.variety, isCheck: e.isCheck, seedSource: e.seedSource, lotCode: e.lotCode, labelGermination: e.labelGermination, treated: e.treated })),
     traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description, betterWhen: x.betterWhen ?? "neither" })),

@@ -1,5 +1,6 @@
 import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
+import type { SiteInclusion } from "./site-inclusion";
 
 /** Analysis settings chosen at publication (the same for every trait in one version). */
 export interface PublishSettings {
@@ -85,7 +86,10 @@ export interface PublishedSnapshot {
   };
   /** null when the whole trial is published; otherwise the one trait published */
   scopeTraitId: number | null;
+  /** every enrolled site */
   sites: PublishedSite[];
+  /** which enrolled sites this version includes and why not the others (absent in versions published before it was kept) */
+  siteInclusion?: SiteInclusion[];
   entries: PublishedEntry[];
   traits: PublishedTrait[];
   results: { traitId: number; result: AnalysisResult }[];

@@ -48,3 +48,7 @@ export type TokenKind = (typeof TOKEN_KINDS)[number];
 export const MAIL_STATUSES = ["pending", "sent", "failed"] as const;
 
 export const MISSING_REASONS = ["not_sown", "died", "animal_damage", "lost_label", "weather", "other"] as const;
+
+/** Why a site or plot is left out of an analysis, as the public reads it once results are published. */
+export const EXCLUSION_CATEGORIES = ["plot_damaged", "not_sown", "seed_mix_up", "protocol_not_followed", "site_data_incomplete", "other"] as const;
+export type ExclusionCategory = (typeof EXCLUSION_CATEGORIES)[number];

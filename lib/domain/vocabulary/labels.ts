@@ -1,4 +1,4 @@
-import type { CropGroup, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
+import type { CropGroup, ExclusionCategory, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
 
 export const ROLE_LABELS: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", cooperator: "Partner grower" };
 
@@ -50,3 +50,13 @@ export const PLOT_UNIT_LABELS: Record<PlotUnit, string> = {
 };
 
 export const SITE_KIND_LABELS = { farm: "Farm", garden: "Garden" } as const;
+
+/** The public reason for leaving a site or plot out of an analysis, in words a grower uses. */
+export const EXCLUSION_CATEGORY_LABELS: Record<ExclusionCategory, string> = {
+  plot_damaged: "plot damaged (animals, hail, flooding)",
+  not_sown: "not sown, or sown late",
+  seed_mix_up: "wrong seed or a seed mix-up",
+  protocol_not_followed: "trial protocol not followed",
+  site_data_incomplete: "site data incomplete",
+  other: "other reason",
+};

@@ -33,3 +33,29 @@ export const SUBMISSION_LABELS: Record<SubmissionStatus, string> = {
 };
 
 export const SUBMISSION_TONES: Record<SubmissionStatus, Tone> = { draft: "neutral", submitted: "info", returned: "warn", accepted: "good" };
+
+/**
+ * Whether an enrolled site's data are in a published version, and why not. Only accepted data are
+ * published; a site left out of every trait is "excluded".
+ */
+export type SiteInclusionReason = "accepted" | SubmissionStatus | "excluded" | "no_data";
+
+/** Staff-facing words on the publish page; the review states stay in the portal. */
+export const INCLUSION_LABELS: Record<SiteInclusionReason, string> = {
+  accepted: "Included: data accepted",
+  submitted: "Not included: sent for review, not accepted yet",
+  returned: "Not included: returned to the grower for corrections",
+  draft: "Not included: data still being recorded",
+  excluded: "Not included: left out of every trait",
+  no_data: "Not included: no data recorded",
+};
+
+export const INCLUSION_TONES: Record<SiteInclusionReason, Tone> = { accepted: "good", submitted: "warn", returned: "warn", draft: "warn", excluded: "bad", no_data: "bad" };
+
+/** Why a site is not in the published results, as the public reads it: no review states, no names of people. */
+export const PUBLIC_NOT_INCLUDED: Record<Exclude<SiteInclusionReason, "accepted" | "excluded">, string> = {
+  submitted: "its data were not checked and accepted in time for this version",
+  returned: "its data were not checked and accepted in time for this version",
+  draft: "its data were not complete in time for this version",
+  no_data: "no data were recorded",
+};

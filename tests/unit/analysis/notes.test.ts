@@ -104,12 +104,25 @@ describe("warnings", () => {
 
   it("applies and lists exclusions without losing the data", () => {
     const input = build({ sites: 3 });
-    input.exclusions.push({ id: 1, siteId: 51, plotId: null, traitId: null, reason: "flooded in May", createdAt: "2026-06-01T00:00:00.000Z", createdBy: "Invented Person" });
+    input.exclusions.push({ id: 1, siteId: 51, plotId: null, traitId: null, category: "plot_damaged", note: "flooded in May", createdAt: "2026-06-01T00:00:00.000Z", createdBy: "Invented Person" });
     const result = runAnalysis(input, settings());
-    expect(result.sites.find((s) => s.id === 51)!.why).toBe("excluded: flooded in May");
+    expect(result.sites.find((s) => s.id === 51)!.why).toBe("excluded: plot damaged (animals, hail, flooding)");
     expect(result.perSite.map((s) => s.siteId)).toEqual([50, 52]);
-    expect(result.exclusions[0]).toMatchObject({ siteName: "Site 2", reason: "flooded in May" });
+    expect(result.exclusions[0]).toMatchObject({ siteName: "Site 2", publicReason: "plot damaged (animals, hail, flooding)", note: "flooded in May" });
     expect(result.germination!.cmh!.sites).toBe(2);
+  });
+
+  it("lists one plot's exclusion for one trait under that trait only, with its plot code and site", () => {
+    const input = build({ sites: 2 });
+    const plot = input.plots.find((p) => p.siteId === 51)!;
+    input.exclusions.push({ id: 7, siteId: null, plotId: plot.id, traitId: 1, category: "seed_mix_up", note: "Invented staff note", createdAt: "2026-06-01T00:00:00.000Z", createdBy: null });
+    const yieldResult = runAnalysis(input, settings());
+    expect(yieldResult.exclusions.map((x) => [x.plotCode, x.siteName, x.publicReason])).toEqual([[plot.plotCode, "Site 2", "wrong seed or a seed mix-up"]]);
+    expect(yieldResult.missing.find((m) => m.plotCode === plot.plotCode)!.reason).toBe("excluded: wrong seed or a seed mix-up");
+    // Harvest date still counts the plot, and says nothing of the yield exclusion.
+    const daysResult = runAnalysis(input, settings({ traitId: 2 }));
+    expect(daysResult.exclusions).toEqual([]);
+    expect(daysResult.notes.some((n) => /left out|exclu/.test(n))).toBe(false);
   });
 });
 

@@ -47,7 +47,7 @@ function input(): AnalysisInput {
     sites,
     plots,
     observations,
-    exclusions: [{ id: 1, siteId: null, plotId: 5001, traitId: null, reason: "Invented Beta eaten by deer", createdAt: "2026-05-01T00:00:00.000Z", createdBy: "Rosa" }],
+    exclusions: [{ id: 1, siteId: null, plotId: 5001, traitId: null, category: "plot_damaged", note: "Invented Beta eaten by deer", createdAt: "2026-05-01T00:00:00.000Z", createdBy: "Rosa" }],
   };
 }
 

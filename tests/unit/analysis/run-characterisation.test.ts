@@ -94,7 +94,8 @@ function scenario(seed: number): { input: AnalysisInput; settings: AnalysisSetti
       siteId: onSite ? pick(sites).id : null,
       plotId: onSite || plots.length === 0 ? null : pick(plots).id,
       traitId: next() < 0.5 ? null : pick(TRAITS).id,
-      reason: `Invented reason ${x}`,
+      category: "other",
+      note: `Invented reason ${x}`,
       createdAt: "2026-05-01T00:00:00.000Z",
       createdBy: next() < 0.5 ? null : "Rosa",
     });

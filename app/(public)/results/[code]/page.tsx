@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getPublicReportAt } from "@/server/publish/public-snapshots";
 import { PublicTraitResults } from "@/components/public/trait-results";
+import { LeftOutOfTrait, SiteCoverage } from "@/components/public/left-out";
 import { toPublicTraitView } from "@/lib/domain/publish/public-view";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
@@ -48,6 +49,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
   const t = snapshot.trial;
   const isLatest = snapshot.version === latestVersion;
   const versionQuery = isLatest ? "" : `?version=${snapshot.version}`;
+  const notIncluded = new Set(snapshot.coverage.notIncluded.map((s) => s.name));
   return (
     <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
       <header>
@@ -56,8 +58,11 @@ export default async function PublicTrialPage({ params, searchParams }: { params
         </p>
         <h1 className="mt-1 text-3xl font-bold">{t.title}</h1>
         <p className="mt-1 text-loam-700">
-          {snapshot.program} · trial {t.code} · {snapshot.sites.length} sites · {snapshot.entries.length} varieties · {t.blocks} blocks per site
+          {snapshot.program} · trial {t.code} · {snapshot.entries.length} varieties · {t.blocks} blocks per site
         </p>
+        <div className="mt-2">
+          <SiteCoverage coverage={snapshot.coverage} />
+        </div>
         {!isLatest && (
           <p role="status" className="mt-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2">
             You are reading version {snapshot.version}. <Link href={`/results/${t.code}`}>See the latest version ({latestVersion})</Link>.
@@ -91,6 +96,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
         <section key={trait} aria-labelledby={`trait-${trait}`} className="rounded-xl border border-husk-200 bg-white p-5">
           <h2 id={`trait-${trait}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
           <PublicTraitResults view={toPublicTraitView(result)} />
+          <LeftOutOfTrait exclusions={result.exclusions} />
         </section>
       ))}
 
@@ -112,7 +118,10 @@ export default async function PublicTrialPage({ params, searchParams }: { params
           {snapshot.sites.map((s) => (
             <li key={s.id}>
               <Link href={`/sites/${s.id}`}>{s.name}</Link>{" "}
-              <span className="text-sm text-loam-700">— {s.region}, {SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup}</span>
+              <span className="text-sm text-loam-700">
+                — {s.region}, {SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup}
+                {notIncluded.has(s.name) && ", not included in these results"}
+              </span>
             </li>
           ))}
         </ul>

@@ -37,7 +37,11 @@ export default async function PublicSitePage({ params }: { params: Params }) {
       </dl>
       <h2 className="mt-8 text-xl font-bold">Published trials grown here</h2>
       <ul className="mt-2 list-disc pl-5">
-        {trials.map((t) => <li key={t.code}><Link href={`/results/${t.code}`}>{t.title}</Link> ({t.season})</li>)}
+        {trials.map((t) => (
+          <li key={t.code}>
+            <Link href={`/results/${t.code}`}>{t.title}</Link> ({t.season}){!t.inResults && ": this site is not included in the published results"}
+          </li>
+        ))}
       </ul>
     </div>
   );

@@ -8,7 +8,10 @@ import { listAnalysisTraits } from "@/db/queries/analysis";
 import { isPublishableTrait } from "@/lib/domain/vocabulary/traits";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
-import { PublishForm, UnpublishForm } from "@/components/publish/publish-forms";
+import { PublishForm, SiteInclusionList, UnpublishForm } from "@/components/publish/publish-forms";
+import { readSiteInclusion } from "@/server/publish/publish";
+import { inclusionWords } from "@/lib/domain/publish/site-inclusion";
+import { INCLUSION_TONES } from "@/lib/domain/vocabulary/statuses";
 
 export const metadata: Metadata = { title: "Publish results" };
 
@@ -16,8 +19,15 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
   const viewer = await requireRole("coordinator", "admin");
   const id = z.coerce.number().int().positive().safeParse((await params).trialId);
   if (!id.success) notFound();
-  const [context, versions, traits] = await Promise.all([getPublishContext(viewer, id.data), listReportVersions(viewer, id.data), listAnalysisTraits(viewer, id.data)]);
-  if (!context || !traits) notFound();
+  const [context, versions, traits, inclusion] = await Promise.all([
+    getPublishContext(viewer, id.data),
+    listReportVersions(viewer, id.data),
+    listAnalysisTraits(viewer, id.data),
+    readSiteInclusion(viewer, id.data),
+  ]);
+  if (!context || !traits || !inclusion) notFound();
+  const siteRows = inclusion.map((s) => ({ siteId: s.siteId, siteName: s.siteName, included: s.included, words: inclusionWords(s), tone: INCLUSION_TONES[s.reason] }));
+  const leftOut = inclusion.filter((s) => !s.included).map((s) => ({ siteId: s.siteId, siteName: s.siteName }));
   const { trial } = context;
   const live = versions.filter((v) => v.unpublishedAt === null);
   const nextVersion = (versions[0]?.version ?? 0) + 1;
@@ -26,13 +36,23 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
       <p className="text-sm"><Link href={`/portal/trials/${trial.id}`}>← {trial.title}</Link></p>
       <h1 className="text-3xl font-bold">Publish results: {trial.title}</h1>
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr] [&>*]:min-w-0">
-        <Card title="Publish a new version">
-          {trial.status === "draft" || trial.status === "archived" ? (
-            <p>A {trial.status} trial cannot be published.</p>
-          ) : (
-            <PublishForm trialId={trial.id} traits={traits.filter((t) => isPublishableTrait(t) && t.recorded > 0).map((t) => ({ id: t.id, name: t.name }))} nextVersion={nextVersion} />
-          )}
-        </Card>
+        <div className="space-y-6">
+          <Card title="Sites in the next version">
+            <SiteInclusionList sites={siteRows} />
+          </Card>
+          <Card title="Publish a new version">
+            {trial.status === "draft" || trial.status === "archived" ? (
+              <p>A {trial.status} trial cannot be published.</p>
+            ) : (
+              <PublishForm
+                trialId={trial.id}
+                traits={traits.filter((t) => isPublishableTrait(t) && t.recorded > 0).map((t) => ({ id: t.id, name: t.name }))}
+                nextVersion={nextVersion}
+                leftOut={leftOut}
+              />
+            )}
+          </Card>
+        </div>
         <div className="space-y-6">
           <Card title="Versions">
             {versions.length === 0 ? (

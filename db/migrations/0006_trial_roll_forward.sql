@@ -1,2 +1,0 @@
-ALTER TABLE `trials` ADD `previous_trial_id` int;--> statement-breakpoint
-ALTER TABLE `trials` ADD CONSTRAINT `trials_previous_trial_id_trials_id_fk` FOREIGN KEY (`previous_trial_id`) REFERENCES `trials`(`id`) ON DELETE set null ON UPDATE no action;
