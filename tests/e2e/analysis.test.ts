@@ -35,7 +35,7 @@ describe("trial analysis in a real browser", () => {
     const chart = page.getByTestId("means-chart");
     await chart.locator("svg").first().waitFor();
     const summary = chart.locator("[data-chart-summary]");
-    expect(await summary.textContent()).toMatch(/Combined means: Marketable yield \(g per plot\), highest first: /);
+    expect(await summary.textContent()).toMatch(/Combined means: Marketable yield \(g per plot\), highest first \(higher is better\): /);
 
     // A site's tables are drawn when its section is opened, so a trial of many sites stays light.
     expect(await page.locator("caption", { hasText: "Entry means at Cedar Hollow Market Garden" }).count()).toBe(0);

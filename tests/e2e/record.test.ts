@@ -40,7 +40,7 @@ describe("a grower records a day's counts on a phone", () => {
     const { page, context } = await newPage(browser, { width: 390, height: 844 });
     await signIn(page, "dev@fernbrookschool.example", GROWER_PASSWORD);
     await openKaleSite(page, "Fernbrook School Garden");
-    await page.getByText(/^Late: Seedlings emerged \(count\) day/).first().waitFor();
+    await page.getByText(/^Seedlings emerged \(count\), day \d+ \(was due .+\) — \d+ of \d+ plots to go$/).first().waitFor();
     // The form opens on the oldest late count.
     const chosen = await page.getByLabel("What are you recording?").inputValue();
     expect(chosen).toMatch(/^emergence_count@\d+$/);
