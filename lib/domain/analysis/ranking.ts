@@ -63,6 +63,13 @@ export function leaderHeading(trait: TraitShape): string {
   return trait.betterWhen === "neither" ? `${word.charAt(0).toUpperCase()}${word.slice(1)} here` : `Best here (${word})`;
 }
 
+/** Whether the mean comparison found no pair that differs: every entry shares one letter. */
+export function noPairDiffers(means: readonly { letter: string | null }[]): boolean {
+  const letters = means.map((m) => m.letter);
+  if (letters.length < 2 || letters.some((l) => !l)) return false;
+  return [...letters[0]!].some((ch) => letters.every((l) => l!.includes(ch)));
+}
+
 /** A short label of the direction for column headers and settings. */
 export function directionLabel(betterWhen: BetterWhen): string {
   return betterWhen === "higher" ? "Higher is better" : betterWhen === "lower" ? "Lower is better" : "No preference";

@@ -17,9 +17,10 @@ import {
 } from "@/lib/domain/stats";
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { plural } from "@/lib/domain/vocabulary/words";
-import { countOf, formatNumber, formatP, valueWithUnit } from "./format";
+import { ANOVA_SOURCE_LABELS } from "@/lib/domain/vocabulary/labels";
+import { countOf, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
-import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, orderWords, rankedValue } from "./ranking";
+import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, noPairDiffers, orderWords, rankedValue } from "./ranking";
 import { analysedAs, isAnalysable, plotValue } from "./values";
 import type {
   AnalysisBlock,
@@ -63,8 +64,13 @@ interface PlotRow {
 
 type EntriesById = Map<number, InputEntry>;
 
+/** How the result will be read: `forPublication` tells the notes that the key is revealed by the publication itself. */
+export interface RunOptions {
+  forPublication?: boolean;
+}
+
 /** Runs the whole analysis for the settings; never throws for data problems, it reports them instead. */
-export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): AnalysisResult {
+export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, options: RunOptions = {}): AnalysisResult {
   const trait = input.traits.find((t) => t.id === settings.traitId);
   if (!trait) throw new Error(`Trait ${settings.traitId} is not recorded in this trial.`);
   const entriesById: EntriesById = new Map(input.entries.map((e) => [e.id, e]));
@@ -77,7 +83,8 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const perSite = analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById);
   const analysedSites = perSite.analyses.filter((s) => s.result !== null);
   const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, trait, analysable, settings, entriesById);
-  const cvs = analysedSites.map((s) => ({ name: s.siteName, cv: s.result!.cv }));
+  // yes/no traits have no CV (see hasCv), so no CV rule applies to them
+  const cvs = analysedSites.flatMap((s) => (s.result!.cv === null ? [] : [{ name: s.siteName, cv: s.result!.cv }]));
 
   const warnings = [
     ...unacceptedDataWarning(includedSites),
@@ -90,8 +97,9 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const exclusionList = describeExclusions(input);
   const notes = [
     ...siteNotes(trait, analysedSites, missing),
-    // names only once the key is public; before that the coordinator's notes and the growers' view use codes alike
-    ...combinedNotes(trait, combined, analysedSites.length, input.trial.status === "published" || input.trial.status === "archived"),
+    // names only once the key is public (or made public by this very publication); before that the
+    // coordinator's notes and the growers' view use codes alike
+    ...combinedNotes(trait, combined, analysedSites.length, options.forPublication === true || input.trial.status === "published" || input.trial.status === "archived"),
     ...cvNote(cvs),
     ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "exclusion")} recorded for this trial; the data stay stored and are listed below.`] : []),
   ];
@@ -307,8 +315,8 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
   if (analysedSites.length > 0) {
     const label = analysedAs(trait);
     const lowerLabel = label.charAt(0).toLowerCase() + label.slice(1);
-    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA);
-    notes.push(`Entries differed in ${lowerLabel} at ${countOf(differed.length, analysedSites.length, "site")} (F test, α = ${ALPHA}).`);
+    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA).length;
+    notes.push(`${sitesDifferedWords(lowerLabel, differed, analysedSites.length)} (F test, α = ${ALPHA}).`);
   }
   if (missing.length > 0) {
     const lost = missing.filter((m) => !m.reason.startsWith("excluded")).length;
@@ -320,22 +328,39 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
   return notes;
 }
 
+/**
+ * How many sites' F tests found the varieties different, as a sentence that reads naturally for one site,
+ * none, some or all: "At the one site analysed, varieties did not differ clearly in yield".
+ */
+export function sitesDifferedWords(what: string, differed: number, analysed: number): string {
+  if (analysed === 1) return `At the one site analysed, varieties ${differed === 1 ? "differed" : "did not differ clearly"} in ${what}`;
+  if (differed === 0) return `Varieties did not differ clearly in ${what} at any of the ${analysed} sites`;
+  if (differed === analysed) return `Varieties differed in ${what} at ${analysed === 2 ? "both sites" : `all ${analysed} sites`}`;
+  return `Varieties differed in ${what} at ${countOf(differed, analysed, "site")}`;
+}
+
 /** What the combined analysis says: the entry test, the interaction, the top entry. */
 function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, analysedSiteCount: number, revealed: boolean): string[] {
   if (!combined) return analysedSiteCount === 1 ? [`Only one site could be analysed, so there is no combined analysis.`] : [];
   const notes: string[] = [];
-  const against = combined.siteModel === "random" ? "against the entry × site mean square, because sites are treated as a sample of farms" : "against the pooled error, because sites are treated as fixed";
+  const interaction = ANOVA_SOURCE_LABELS["entry:site"].toLowerCase();
+  const against = combined.siteModel === "random" ? `against the ${interaction} mean square, because sites are treated as a sample of farms` : "against the pooled error, because sites are treated as fixed";
   const differ = combined.entryP !== null && combined.entryP < ALPHA;
+  const test = `F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}`;
   notes.push(
     combined.entryF === null
-      ? `Across ${plural(combined.sites, "site")}, the entry test could not be run: its error term (${combined.siteModel === "random" ? "entry × site" : "residual"}) has no variation.`
-      : `Across ${plural(combined.sites, "site")}, entries ${differ ? "differed" : "did not differ clearly"} (F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}).`,
+      ? `Across ${plural(combined.sites, "site")}, the variety test could not be run: its error term (${combined.siteModel === "random" ? interaction : "residual"}) has no variation.`
+      : !differ
+        ? `Across ${plural(combined.sites, "site")}, varieties did not differ clearly (${test}).`
+        : noPairDiffers(combined.means)
+          ? `Across ${plural(combined.sites, "site")}, the F test was significant (${test}), but Tukey's test found no pair of varieties that differs at α = ${ALPHA}, so no variety is clearly ahead of another.`
+          : `Across ${plural(combined.sites, "site")}, varieties differed (${test}).`,
   );
   if (combined.interactionP !== null) {
     notes.push(
       combined.interactionP < ALPHA
-        ? `The entry × site interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
-        : `Entries ranked much the same from site to site (entry × site ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
+        ? `The ${interaction} interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
+        : `Varieties ranked much the same from site to site (${interaction} ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
     );
   }
   const ordered = inStatedOrder(combined.means);
@@ -345,8 +370,10 @@ function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, ana
     const lead =
       trait.betterWhen === "neither"
         ? `Combined means, ${orderWords(trait)}: ${extremeWord(trait, "first")} ${label(first)} (${valueWithUnit(trait, rankedValue(first))}), ${extremeWord(trait, "last")} ${label(ordered[ordered.length - 1]!)} (${valueWithUnit(trait, rankedValue(ordered[ordered.length - 1]!))})`
-        : `Best combined mean (${extremeWord(trait, "first")}): ${label(first)} (${valueWithUnit(trait, rankedValue(first))})`;
-    notes.push(`${lead}; ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`);
+        : differ && !noPairDiffers(combined.means)
+          ? `Best combined mean (${extremeWord(trait, "first")}): ${label(first)} (${valueWithUnit(trait, rankedValue(first))})`
+          : `${capitalise(extremeWord(trait, "first"))} combined mean: ${label(first)} (${valueWithUnit(trait, rankedValue(first))}), not clearly better than the others`;
+    notes.push(`${lead}; ${combined.comparisonNote} ${[cvWords(combined.cv), plural(combined.n, "plot")].filter(Boolean).join(", ")}.`);
   }
   return notes;
 }
@@ -394,6 +421,10 @@ function plotValueRow(r: PlotRow): PlotValue {
   };
 }
 
+function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
 function statusWords(status: InputSite["status"]): string {
   return status === "submitted" ? "submitted" : status === "returned" ? "returned for corrections" : status === "draft" ? "still in draft" : "accepted";
 }
@@ -418,16 +449,16 @@ function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSetti
       if (protectedLsd) {
         lsdValue = protectedLsd.lsd;
         letters = pairwiseLsd(table, ALPHA).letters;
-        comparisonNote = `LSD 0.05 = ${formatNumber(lsdValue)}${protectedLsd.equalReplication ? "" : " (average over pairs, since plots are missing)"}.`;
+        comparisonNote = `LSD 0.05 = ${differenceWithUnit(trait, lsdValue)}${protectedLsd.equalReplication ? "" : " (average over pairs, since plots are missing)"}.`;
       } else {
-        comparisonNote = `no LSD is given ${where} because the entry F test was not significant (protected LSD).`;
+        comparisonNote = `no LSD is given ${where} because the variety F test was not significant (protected LSD).`;
       }
     } else {
       const tukey = tukeyHsd(table, ALPHA);
       letters = tukey.letters;
       tukeyQ = tukey.q;
       const differ = tukey.pairs.filter((p) => p.pAdj < ALPHA).length;
-      comparisonNote = `Tukey found ${plural(differ, "pair")} that differ at α = ${ALPHA}.`;
+      comparisonNote = differ === 0 ? `Tukey found no pair that differs at α = ${ALPHA}.` : `Tukey found ${plural(differ, "pair")} that ${differ === 1 ? "differs" : "differ"} at α = ${ALPHA}.`;
     }
   } catch (e) {
     if (!isStatsError(e)) throw e;
@@ -462,7 +493,7 @@ function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSetti
     n: table.n,
     missing: table.missing,
     grandMean: table.grandMean,
-    cv: table.cv,
+    cv: hasCv(trait) ? table.cv : null,
     errorMs: table.errorMs,
     errorDf: table.errorDf,
     entryF: entryRow?.f ?? null,
