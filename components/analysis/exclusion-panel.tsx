@@ -7,6 +7,7 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { Button } from "@/components/ui/button";
 import { FormMessage } from "@/components/ui/form-message";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 export interface ExclusionTargets {
   sites: { id: number; name: string }[];
@@ -51,7 +52,7 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
                 {x.traitName ? `${x.traitName} only` : "all traits"}: {x.reason}
                 <span className="text-loam-700">
                   {" "}
-                  · {x.createdBy ?? "someone"}, {x.createdAt.slice(0, 10)}
+                  · {x.createdBy ?? "someone"}, {formatDate(x.createdAt)}
                 </span>
               </span>
               <form action={removeAction}>

@@ -9,6 +9,7 @@ import { isPublishableTrait } from "@/lib/domain/vocabulary/traits";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { PublishForm, UnpublishForm } from "@/components/publish/publish-forms";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 export const metadata: Metadata = { title: "Publish results" };
 
@@ -41,7 +42,7 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
               <ul className="space-y-3">
                 {versions.map((v) => (
                   <li key={v.id}>
-                    <span className="font-semibold">Version {v.version}</span> · {v.publishedAt.toISOString().slice(0, 10)} by {v.publishedBy ?? "—"}{" "}
+                    <span className="font-semibold">Version {v.version}</span> · {formatDate(v.publishedAt)} by {v.publishedBy ?? "—"}{" "}
                     {v.unpublishedAt ? <Badge tone="bad">Withdrawn</Badge> : <Badge tone="good">Public</Badge>}
                     {v.changeNote && <span className="block text-sm text-loam-700">{v.changeNote}</span>}
                     {v.unpublishReason && <span className="block text-sm text-beet-700">Withdrawn: {v.unpublishReason}</span>}
