@@ -68,7 +68,10 @@ function valueDigits(trait: UnitShape): number | undefined {
 /** A value as a number under its `unitHeading` ("6.9", "2,812", "40" for 40% yes), with the decimals `valueWithUnit` uses. */
 export function numberInUnit(trait: UnitShape, x: number | null | undefined, digits?: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  return formatNumber(inShownUnit(trait, x), digits ?? valueDigits(trait));
+  // A least-squares mean of 0/1 values can fall just outside 0-1 when plots are missing; no share of
+  // plots is below 0% or above 100%, so it is shown at the nearer end.
+  const value = trait.valueType === "yes_no" ? Math.min(1, Math.max(0, x)) : x;
+  return formatNumber(inShownUnit(trait, value), digits ?? valueDigits(trait));
 }
 
 /**

@@ -334,7 +334,7 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
  */
 export function sitesDifferedWords(what: string, differed: number, analysed: number): string {
   if (analysed === 1) return `At the one site analysed, varieties ${differed === 1 ? "differed" : "did not differ clearly"} in ${what}`;
-  if (differed === 0) return `Varieties did not differ clearly in ${what} at any of the ${analysed} sites`;
+  if (differed === 0) return `Varieties did not differ clearly in ${what} at ${analysed === 2 ? "either site" : `any of the ${analysed} sites`}`;
   if (differed === analysed) return `Varieties differed in ${what} at ${analysed === 2 ? "both sites" : `all ${analysed} sites`}`;
   return `Varieties differed in ${what} at ${countOf(differed, analysed, "site")}`;
 }

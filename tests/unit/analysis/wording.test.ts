@@ -49,6 +49,8 @@ describe("wording and formats people read", () => {
     expect(valueWithUnit(YIELD, 2812.04)).toBe("2,812 g per plot");
     expect(valueWithUnit({ unit: "date", valueType: "date", computation: "days_from_sowing" }, 23.84)).toBe("23.8 days");
     expect(valueWithUnit(BOLTING, 0.4)).toBe("40% yes");
+    // a least-squares share just below 0 (plots missing) is not told as a negative share
+    expect(valueWithUnit(BOLTING, -0.02)).toBe("0% yes");
     expect(differenceWithUnit(BOLTING, 0.09)).toBe("9 percentage points");
     expect(differenceWithUnit(QUALITY, 0.45)).toBe("0.45 points on the 1-9 scale");
     const quality = runAnalysis(invented(QUALITY, 2, (effect, n) => Math.min(9, Math.max(1, Math.round(5 + effect + n)))), settings());
@@ -72,6 +74,7 @@ describe("wording and formats people read", () => {
     expect(sitesDifferedWords("yield", 0, 5)).toBe("Varieties did not differ clearly in yield at any of the 5 sites");
     expect(sitesDifferedWords("yield", 3, 5)).toBe("Varieties differed in yield at 3 of 5 sites");
     expect(sitesDifferedWords("yield", 2, 2)).toBe("Varieties differed in yield at both sites");
+    expect(sitesDifferedWords("yield", 0, 2)).toBe("Varieties did not differ clearly in yield at either site");
     const oneSite = runAnalysis(invented(YIELD, 0), settings({ siteIds: [1] }));
     expect(oneSite.notes.join(" ")).not.toMatch(/\b0 of\b|of 1 site/);
   });
