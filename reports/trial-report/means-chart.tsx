@@ -1,16 +1,20 @@
 import { inStatedOrder } from "@/lib/domain/analysis/ranking";
 import { G, Line, Rect, Svg, Text as SvgText } from "@react-pdf/renderer";
 import type { PublicMean } from "@/lib/domain/publish/public-shape";
+import { differenceWithUnit, inShownUnit, unitHeading, type UnitShape } from "@/lib/domain/analysis/format";
 
 // Horizontal bars with ±1 SE whiskers, drawn as vector shapes in greys and black so the chart reads
 // the same when printed in black and white. The check variety gets a hatched-looking darker bar.
-export function MeansChart({ means, width = 480, unit, lsd }: { means: PublicMean[]; width?: number; unit: string | null; lsd: number | null }) {
+export function MeansChart({ means, width = 480, trait, lsd }: { means: PublicMean[]; width?: number; trait: UnitShape; lsd: number | null }) {
   const rows = inStatedOrder(means);
+  const unit = unitHeading(trait);
+  // values in the unit the axis is labelled with (a yes/no share as % yes)
+  const shown = (x: number) => inShownUnit(trait, x);
   const rowHeight = 16;
   const labelWidth = 120;
   const top = 6;
   const height = top + rows.length * rowHeight + 28;
-  const values = rows.map((m) => (m.lsMean ?? m.mean) + m.se);
+  const values = rows.map((m) => shown((m.lsMean ?? m.mean) + m.se));
   const maxValue = Math.max(...values, 0) * 1.08 || 1;
   const plotWidth = width - labelWidth - 12;
   const x = (v: number) => labelWidth + (Math.max(0, v) / maxValue) * plotWidth;
@@ -26,7 +30,8 @@ export function MeansChart({ means, width = 480, unit, lsd }: { means: PublicMea
         </G>
       ))}
       {rows.map((m, i) => {
-        const value = m.lsMean ?? m.mean;
+        const value = shown(m.lsMean ?? m.mean);
+        const se = shown(m.se);
         const y = top + i * rowHeight;
         return (
           <G key={m.blindCode}>
@@ -34,14 +39,14 @@ export function MeansChart({ means, width = 480, unit, lsd }: { means: PublicMea
               {`${m.varietyName ?? m.blindCode}${m.isCheck ? " (check)" : ""}`}
             </SvgText>
             <Rect x={labelWidth} y={y + 3} width={Math.max(0.5, x(value) - labelWidth)} height={rowHeight - 6} fill={m.isCheck ? "#4d4d4d" : "#a6a6a6"} stroke="#000000" strokeWidth={0.4} />
-            <Line x1={x(value - m.se)} y1={y + rowHeight / 2} x2={x(value + m.se)} y2={y + rowHeight / 2} stroke="#000000" strokeWidth={0.8} />
-            <Line x1={x(value - m.se)} y1={y + 5} x2={x(value - m.se)} y2={y + rowHeight - 5} stroke="#000000" strokeWidth={0.8} />
-            <Line x1={x(value + m.se)} y1={y + 5} x2={x(value + m.se)} y2={y + rowHeight - 5} stroke="#000000" strokeWidth={0.8} />
+            <Line x1={x(value - se)} y1={y + rowHeight / 2} x2={x(value + se)} y2={y + rowHeight / 2} stroke="#000000" strokeWidth={0.8} />
+            <Line x1={x(value - se)} y1={y + 5} x2={x(value - se)} y2={y + rowHeight - 5} stroke="#000000" strokeWidth={0.8} />
+            <Line x1={x(value + se)} y1={y + 5} x2={x(value + se)} y2={y + rowHeight - 5} stroke="#000000" strokeWidth={0.8} />
           </G>
         );
       })}
       <SvgText x={labelWidth + plotWidth / 2} y={height - 4} style={{ fontSize: 7 }} textAnchor="middle" fill="#000000">
-        {`Mean${unit ? ` (${unit})` : ""} ± 1 SE${lsd !== null ? `; LSD 0.05 = ${formatTick(lsd)}` : ""}`}
+        {`Mean${unit ? ` (${unit})` : ""} ± 1 SE${lsd !== null ? `; LSD 0.05 = ${differenceWithUnit(trait, lsd)}` : ""}`}
       </SvgText>
     </Svg>
   );
