@@ -117,7 +117,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, op
     exclusions: exclusionList,
     warnings,
     notes,
-    explanations: explanations(settings),
+    explanations: explanations(settings, trait),
     germination,
     emergence,
     plots: rows.map(plotValueRow),
@@ -389,7 +389,7 @@ function cvNote(cvs: { name: string; cv: number }[]): string[] {
 }
 
 /** One-line explanations of the chosen settings, shown beside the controls. */
-function explanations(settings: AnalysisSettings): AnalysisResult["explanations"] {
+function explanations(settings: AnalysisSettings, trait: InputTrait): AnalysisResult["explanations"] {
   return {
     siteModel:
       settings.siteModel === "random"
@@ -403,7 +403,9 @@ function explanations(settings: AnalysisSettings): AnalysisResult["explanations"
     unaccepted: settings.includeUnaccepted
       ? "Includes data still in draft or awaiting review; those sites are marked."
       : "Only data a coordinator has accepted are used.",
-    cv: `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`,
+    cv: hasCv(trait)
+      ? `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`
+      : "A yes/no trait has no CV (the spread of yes and no says nothing of the trial's precision); the share of plots with yes is shown instead.",
   };
 }
 

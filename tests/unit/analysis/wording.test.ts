@@ -96,6 +96,7 @@ describe("wording and formats people read", () => {
     expect(r.combined!.cv).toBeNull();
     expect(r.perSite.every((s) => s.result!.cv === null)).toBe(true);
     expect([...r.notes, ...r.warnings].join(" ")).not.toMatch(/\bCV\b/);
+    expect(r.explanations.cv).toMatch(/^A yes\/no trait has no CV/);
     expect(r.notes.join(" ")).toMatch(/\d+% yes/);
     expect(exportTables(r, "2026-05-03", true).find((t) => t.name === "Means")!.rows.every((row) => row.at(-1) === null)).toBe(true);
   });
