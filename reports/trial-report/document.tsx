@@ -89,7 +89,7 @@ function signed(trait: TraitShape, x: number): string {
 function MeansTable({ block, trait }: { block: PublicBlock; trait: TraitShape }) {
   const unit = unitHeading(trait);
   const ranked = trait.betterWhen !== "neither";
-  const withCheck = block.means.some((m) => m.percentOfCheck !== null);
+  const withCheck = block.means.some((m) => m.checkDifference !== null);
   const columns: Column<MeanRow>[] = [
     ...(ranked ? [{ label: "Rank", width: 28, align: "right" as const, value: (m: MeanRow) => (m.rank === null ? "" : String(m.rank)) }] : []),
     { label: "Variety", width: ranked ? 136 : 164, value: (m) => `${m.varietyName ?? m.blindCode}${m.isCheck ? " (check)" : ""}` },

@@ -76,7 +76,7 @@ export function directionLabel(betterWhen: BetterWhen): string {
 }
 
 export interface CheckComparison {
-  /** entry mean as a percentage of the check's (check = 100); null without a check or with a check mean of 0 */
+  /** entry mean as a percentage of the check's (check = 100); null without a check or when the check's mean is not above 0 (a yes/no check with no "yes", or a least-squares mean pushed below 0 by missing plots) */
   percentOfCheck: number | null;
   /** entry mean minus the check's mean */
   checkDifference: number | null;
@@ -95,7 +95,7 @@ export function compareWithCheck(means: readonly Comparable[], lsd: number | nul
   return means.map((m) => {
     const difference = rankedValue(m) - reference;
     return {
-      percentOfCheck: reference === 0 ? null : (100 * rankedValue(m)) / reference,
+      percentOfCheck: reference > 0 ? (100 * rankedValue(m)) / reference : null,
       checkDifference: difference,
       beyondLsd: lsd === null ? null : Math.abs(difference) > lsd,
     };

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { runAnalysis, sitesDifferedWords } from "@/lib/domain/analysis/run";
 import { analysedAs } from "@/lib/domain/analysis/values";
 import { differenceWithUnit, valueWithUnit } from "@/lib/domain/analysis/format";
-import { noPairDiffers } from "@/lib/domain/analysis/ranking";
+import { compareWithCheck, noPairDiffers } from "@/lib/domain/analysis/ranking";
 import { exportTables } from "@/lib/domain/analysis/export";
 import { summariseForGrowers } from "@/lib/domain/publish/summary";
 import { describeCorrections } from "@/lib/domain/observations/corrections";
@@ -59,6 +59,16 @@ describe("wording and formats people read", () => {
     expect(text).toMatch(/on the 1-9 scale/);
     const yields = runAnalysis(invented(YIELD, 400, (effect, n) => 2800 + effect + 150 * n), settings());
     expect(yields.notes.join(" ")).not.toMatch(/\d\.\d g per plot/);
+  });
+
+  it("gives no % of check when the check's mean is not above 0, rather than a percentage of nothing", () => {
+    const means = [
+      { mean: 0, lsMean: -0.02, isCheck: true },
+      { mean: 0.33, lsMean: 0.33, isCheck: false },
+    ];
+    expect(compareWithCheck(means, 0.03).map((c) => c.percentOfCheck)).toEqual([null, null]);
+    expect(compareWithCheck(means, 0.03)[1]!.checkDifference).toBeCloseTo(0.35, 10);
+    expect(compareWithCheck([{ mean: 0.1, lsMean: null, isCheck: true }, { mean: 0.2, lsMean: null, isCheck: false }], null)[1]!.percentOfCheck).toBeCloseTo(200, 10);
   });
 
   it("does not repeat a unit the trait's name already says", () => {
