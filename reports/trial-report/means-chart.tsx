@@ -3,6 +3,9 @@ import { G, Line, Rect, Svg, Text as SvgText } from "@react-pdf/renderer";
 import type { PublicMean } from "@/lib/domain/publish/public-shape";
 import { differenceWithUnit, inShownUnit, unitHeading, type UnitShape } from "@/lib/domain/analysis/format";
 
+// SVG text does not inherit the page's fonts; without a family it falls back to a Helvetica that is not embedded.
+const CHART_FONT = ["Inter", "Inter Greek"];
+
 // Horizontal bars with ±1 SE whiskers, drawn as vector shapes in greys and black so the chart reads
 // the same when printed in black and white. The check variety gets a hatched-looking darker bar.
 export function MeansChart({ means, width = 480, trait, lsd }: { means: PublicMean[]; width?: number; trait: UnitShape; lsd: number | null }) {
@@ -24,7 +27,7 @@ export function MeansChart({ means, width = 480, trait, lsd }: { means: PublicMe
       {ticks.map((t) => (
         <G key={`t${t}`}>
           <Line x1={x(t)} y1={top} x2={x(t)} y2={top + rows.length * rowHeight} stroke="#c9c9c9" strokeWidth={0.5} />
-          <SvgText x={x(t)} y={top + rows.length * rowHeight + 10} style={{ fontSize: 6.5 }} textAnchor="middle" fill="#333333">
+          <SvgText x={x(t)} y={top + rows.length * rowHeight + 10} style={{ fontSize: 6.5, fontFamily: CHART_FONT }} textAnchor="middle" fill="#333333">
             {formatTick(t)}
           </SvgText>
         </G>
@@ -35,7 +38,7 @@ export function MeansChart({ means, width = 480, trait, lsd }: { means: PublicMe
         const y = top + i * rowHeight;
         return (
           <G key={m.blindCode}>
-            <SvgText x={labelWidth - 6} y={y + 10} style={{ fontSize: 7.5 }} textAnchor="end" fill="#000000">
+            <SvgText x={labelWidth - 6} y={y + 10} style={{ fontSize: 7.5, fontFamily: CHART_FONT }} textAnchor="end" fill="#000000">
               {`${m.varietyName ?? m.blindCode}${m.isCheck ? " (check)" : ""}`}
             </SvgText>
             <Rect x={labelWidth} y={y + 3} width={Math.max(0.5, x(value) - labelWidth)} height={rowHeight - 6} fill={m.isCheck ? "#4d4d4d" : "#a6a6a6"} stroke="#000000" strokeWidth={0.4} />
@@ -45,7 +48,7 @@ export function MeansChart({ means, width = 480, trait, lsd }: { means: PublicMe
           </G>
         );
       })}
-      <SvgText x={labelWidth + plotWidth / 2} y={height - 4} style={{ fontSize: 7 }} textAnchor="middle" fill="#000000">
+      <SvgText x={labelWidth + plotWidth / 2} y={height - 4} style={{ fontSize: 7, fontFamily: CHART_FONT }} textAnchor="middle" fill="#000000">
         {`Mean${unit ? ` (${unit})` : ""} ± 1 SE${lsd !== null ? `; LSD 0.05 = ${differenceWithUnit(trait, lsd)}` : ""}`}
       </SvgText>
     </Svg>

@@ -89,6 +89,10 @@ describe("the published PDF report", () => {
     expect(text).toMatch(/germination differed between entries \(χ² = \d+\.\d\d, \d+ df, p [<=] [\d.]+\)/);
     expect(text).toMatch(/F test, α = 0\.05/);
     expect(text).not.toMatch(/[\uFFFDÇ]/);
+    // Every font is embedded (the charts' text included), so the report prints the same on any machine.
+    const fonts = execFileSync("pdffonts", [file]).toString().trim().split("\n").slice(2);
+    expect(fonts.length).toBeGreaterThan(0);
+    for (const font of fonts) expect(font, font).toMatch(/^\S+\s+.*\s+yes\s+yes\s+yes\s+\d+\s+\d+$/);
   });
 
   it("names varieties, not blind codes, in every note and summary line once the key is revealed", () => {
