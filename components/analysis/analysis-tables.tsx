@@ -4,6 +4,7 @@ import type { AnovaRow } from "@/lib/domain/stats";
 import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "@/lib/domain/analysis/types";
 import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import { DataTable } from "@/components/ui/data-table";
+import { ANOVA_SOURCE_LABELS } from "@/lib/domain/vocabulary/labels";
 
 export type EntryLabel = (e: { blindCode: string; varietyName?: string | null }) => string;
 
@@ -17,15 +18,6 @@ export type MeanRow = Pick<EntryResult, "blindCode" | "mean" | "lsMean" | "se" |
 export type GerminationRowView = Omit<GerminationRow, "entryId" | "siteId" | "varietyName"> & { varietyName?: string | null };
 type Labelled<T> = T & { shown: string };
 type EmergenceKinetics = { blindCode: string; varietyName?: string | null; meanEmergenceTime: number | null; t50: number | null; plots: number };
-
-const SOURCE_WORDS: Record<AnovaRow["source"], string> = {
-  site: "Sites",
-  block: "Blocks",
-  "block:site": "Blocks within sites",
-  entry: "Entries",
-  "entry:site": "Entry × site",
-  residual: "Error",
-};
 
 /** % of check as a cell: "95%", the difference, and a mark when it is larger than the LSD. */
 function CheckCell({ row }: { row: MeanRow }) {
@@ -82,13 +74,13 @@ export function MeansTable({ means, label, unit, caption, order, testId }: { mea
 /** The ANOVA table in plain words, in the model's order (sorting it would break the reading order of sources). */
 export function AnovaTable({ rows, caption }: { rows: AnovaRow[]; caption: string }) {
   const columns: ColumnDef<AnovaRow, unknown>[] = [
-    { id: "source", header: "Source", accessorFn: (r) => SOURCE_WORDS[r.source] },
+    { id: "source", header: "Source", accessorFn: (r) => ANOVA_SOURCE_LABELS[r.source] },
     { id: "df", header: "df", accessorFn: (r) => r.df },
     { id: "ss", header: "Sum of squares", accessorFn: (r) => r.ss, cell: (c) => formatNumber(c.getValue() as number) },
     { id: "ms", header: "Mean square", accessorFn: (r) => r.ms, cell: (c) => formatNumber(c.getValue() as number) },
     { id: "f", header: "F", accessorFn: (r) => r.f, cell: (c) => (c.getValue() === null ? "" : formatNumber(c.getValue() as number, 2)) },
     { id: "p", header: "p", accessorFn: (r) => r.p, cell: (c) => (c.getValue() === null ? "" : formatP(c.getValue() as number).replace(/^p [=<] ?/, (m) => (m.includes("<") ? "< " : ""))) },
-    { id: "against", header: "Tested against", accessorFn: (r) => (r.testedAgainst ? SOURCE_WORDS[r.testedAgainst] : "") },
+    { id: "against", header: "Tested against", accessorFn: (r) => (r.testedAgainst ? ANOVA_SOURCE_LABELS[r.testedAgainst] : "") },
   ];
   return <DataTable pageSize={null} data={rows} columns={columns.map((c) => ({ ...c, enableSorting: false }))} caption={caption} />;
 }

@@ -2,7 +2,8 @@
 import { useEffect, useMemo, useState } from "react";
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import type { AnalysisSettings, ViewerAnalysis } from "@/lib/domain/analysis/types";
-import { formatNumber, formatP } from "@/lib/domain/analysis/format";
+import { cvWords, differenceWithUnit, formatP, inShownUnit, unitHeading, valueWithUnit } from "@/lib/domain/analysis/format";
+import type { AnalysisBlock } from "@/lib/domain/analysis/types";
 import { Card } from "@/components/ui/card";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import { buttonClasses } from "@/components/ui/button";
@@ -59,12 +60,24 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
   const siteCells = useMemo(() => {
     const byId = new Map<number, { blindCode: string; varietyName?: string | null }>();
     for (const m of result.combined?.means ?? result.perSite.find((s) => s.result)?.result?.means ?? []) byId.set(m.entryId, m);
-    return (result.combined?.cellMeans ?? []).map((c) => ({ siteName: c.siteName, mean: c.mean, entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId) }));
+    return (result.combined?.cellMeans ?? []).map((c) => ({ siteName: c.siteName, mean: inShownUnit(result.trait, c.mean), entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId) }));
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [result, names]);
   const order = (result.combined?.means ?? []).map((m) => label(m));
   const emergenceOrder = [...new Set((result.emergence?.curve ?? []).map((c) => label(c)))];
-  const unit = result.trait.computation !== "none" || result.trait.valueType === "date" ? "days" : (result.trait.unit ?? "");
+  const unit = unitHeading(result.trait) ?? "";
+  // Tables and charts show values in the unit named above them: a yes/no share as % yes.
+  const shown = (x: number) => inShownUnit(result.trait, x);
+  const inUnit = <M extends { mean: number; lsMean: number | null; se: number; checkDifference?: number | null }>(means: M[]): M[] =>
+    means.map((m) => ({
+      ...m,
+      mean: shown(m.mean),
+      lsMean: m.lsMean === null ? null : shown(m.lsMean),
+      se: shown(m.se),
+      ...(m.checkDifference !== undefined ? { checkDifference: m.checkDifference === null ? null : shown(m.checkDifference) } : {}),
+    }));
+  // A yes/no trait has no CV (see hasCv); its share of "yes" says more.
+  const spread = (b: Pick<AnalysisBlock, "cv" | "grandMean">) => cvWords(b.cv) ?? `${valueWithUnit(result.trait, b.grandMean)} overall`;
   const update = (patch: Partial<AnalysisSettings>) => setSettings((s) => ({ ...s, ...patch }));
   const selectedSites = settings.siteIds ?? result.sites.map((s) => s.id);
   const toggleSite = (id: number) => {
@@ -188,11 +201,11 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         {result.combined ? (
           <Card title={`Across ${result.combined.sites} sites`}>
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <MeansChart means={result.combined.means} lsd={result.combined.lsd} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} direction={result.trait} testId="means-chart" />
+              <MeansChart means={inUnit(result.combined.means)} lsd={result.combined.lsd === null ? null : shown(result.combined.lsd)} label={label} unit={unit} title={`Combined means: ${result.trait.analysedAs}`} direction={result.trait} testId="means-chart" />
               <div className="space-y-2">
-                <MeansTable means={result.combined.means} label={label} unit={unit} order={orderWords(result.trait)} caption="Combined entry means" testId="means-table" />
+                <MeansTable means={inUnit(result.combined.means)} label={label} unit={unit} order={orderWords(result.trait)} caption="Combined entry means" testId="means-table" />
                 <p className="text-sm">
-                  CV {formatNumber(result.combined.cv, 1)}% · {result.combined.n} plots · entries {formatP(result.combined.entryP)} · entry × site {formatP(result.combined.interactionP)}
+                  {spread(result.combined)} · {result.combined.n} plots · varieties {formatP(result.combined.entryP)} · variety × site {formatP(result.combined.interactionP)}
                   {result.combined.bartlett && ` · Bartlett ${formatP(result.combined.bartlett.p)}`} · {result.combined.comparisonNote}
                 </p>
               </div>
@@ -238,7 +251,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                     <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <SubmissionStatusBadge status={s.status} />}{" "}
                     {s.result ? (
                       <span className="text-sm text-loam-700">
-                        CV {formatNumber(s.result.cv, 1)}% · entries {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${formatNumber(s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
+                        {spread(s.result)} · varieties {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${differenceWithUnit(result.trait, s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
                       </span>
                     ) : (
                       <span className="text-sm text-beet-700">{s.problem}</span>
@@ -248,7 +261,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
               >
                 {s.result && (
                   <div className="space-y-3 pb-3">
-                    <MeansTable means={s.result.means} label={label} unit={unit} order={orderWords(result.trait)} caption={`Entry means at ${s.siteName}`} />
+                    <MeansTable means={inUnit(s.result.means)} label={label} unit={unit} order={orderWords(result.trait)} caption={`Entry means at ${s.siteName}`} />
                     <p className="text-sm">{s.result.comparisonNote.charAt(0).toUpperCase() + s.result.comparisonNote.slice(1)}</p>
                     <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
                   </div>

@@ -9,6 +9,7 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { Button } from "@/components/ui/button";
 import { FormMessage } from "@/components/ui/form-message";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 export interface ExclusionTargets {
   sites: { id: number; name: string }[];
@@ -58,7 +59,7 @@ export function ExclusionPanel({ trialId, result, targets }: { trialId: number; 
                 {x.traitName ? `${x.traitName} only` : "all traits"}. Public reason: {EXCLUSION_CATEGORY_LABELS[x.category]}.
                 {x.note && <span className="block">Private note: {x.note}</span>}
                 <span className="block text-loam-700">
-                  {x.createdBy ?? "someone"}, {x.createdAt.slice(0, 10)}
+                  {x.createdBy ?? "someone"}, {formatDate(x.createdAt)}
                 </span>
               </span>
               <form action={removeAction}>

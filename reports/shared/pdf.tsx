@@ -15,6 +15,16 @@ export function registerFonts() {
       { src: path.join(dir, "inter-latin-700-normal.woff"), fontWeight: 700 },
     ],
   });
+  // The Latin subset has no Greek letters (χ² of the germination test, α); react-pdf takes each glyph the
+  // first family lacks from the next one in the page's fontFamily list.
+  Font.register({
+    family: "Inter Greek",
+    fonts: [
+      { src: path.join(dir, "inter-greek-400-normal.woff"), fontWeight: 400 },
+      { src: path.join(dir, "inter-greek-600-normal.woff"), fontWeight: 600 },
+      { src: path.join(dir, "inter-greek-700-normal.woff"), fontWeight: 700 },
+    ],
+  });
   // Codes such as "S01-2-03" must never be split across lines.
   Font.registerHyphenationCallback((word) => [word]);
   registered = true;
@@ -29,7 +39,7 @@ export const SHADE = "#f3f5f1";
 export const TREATED_INK = "#8a4b00";
 
 export const base = StyleSheet.create({
-  page: { fontFamily: "Inter", fontSize: 9, color: INK, padding: 28, paddingBottom: 40 },
+  page: { fontFamily: ["Inter", "Inter Greek"], fontSize: 9, color: INK, padding: 28, paddingBottom: 40 },
   h1: { fontSize: 15, fontWeight: 700, marginBottom: 2 },
   h2: { fontSize: 11, fontWeight: 700, marginTop: 8, marginBottom: 4, color: ACCENT },
   muted: { color: "#4f6446" },

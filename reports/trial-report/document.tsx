@@ -1,7 +1,9 @@
-import { inStatedOrder, leaderHeading } from "@/lib/domain/analysis/ranking";
+import type { ReactNode } from "react";
+import { inStatedOrder, leaderHeading, orderWords } from "@/lib/domain/analysis/ranking";
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
 import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/domain/publish/public-shape";
-import { formatNumber, formatP } from "@/lib/domain/analysis/format";
+import { cvWords, differenceUnit, differenceWithUnit, formatNumber, formatP, hasCv, inShownUnit, numberInUnit, unitHeading, valueWithUnit } from "@/lib/domain/analysis/format";
+import { ANOVA_SOURCE_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
 import { ACCENT, INK, RULE, SHADE, base } from "../shared/pdf";
 import { MeansChart } from "./means-chart";
 
@@ -22,11 +24,6 @@ const s = StyleSheet.create({
   note: { fontSize: 8, color: "#333333", marginBottom: 2 },
   tocRow: { flexDirection: "row", justifyContent: "space-between", borderBottomWidth: 0.3, borderBottomColor: RULE, paddingVertical: 3 },
 });
-
-// The shipped Latin subset of Inter has no Greek letters.
-function printable(text: string): string {
-  return text.replace(/α/g, "alpha");
-}
 
 export interface SectionPages {
   [id: string]: number;
@@ -77,82 +74,129 @@ function SectionStart({ id, title, pages }: { id: string; title: string; pages: 
   );
 }
 
-function MeansTable({ block, unit }: { block: PublicBlock; unit: string | null }) {
-  return (
-    <Table
-      columns={[
-        { label: "Rank", width: 30, align: "right", value: (m) => String(m.rank) },
-        { label: "Variety", width: 150, value: (m) => `${m.varietyName ?? "—"}${m.isCheck ? " (check)" : ""}` },
-        { label: "Code", width: 40, value: (m) => m.blindCode },
-        { label: `Mean${unit ? ` (${unit})` : ""}`, width: 80, align: "right", value: (m) => formatNumber(m.lsMean ?? m.mean) },
-        { label: "SE", width: 50, align: "right", value: (m) => formatNumber(m.se) },
-        { label: "Plots", width: 40, align: "right", value: (m) => String(m.n) },
-        { label: "Group", width: 50, value: (m) => m.letter ?? "" },
-      ]}
-      rows={inStatedOrder(block.means)}
-    />
-  );
+type TraitShape = PublicTraitResult["trait"];
+type MeanRow = PublicBlock["means"][number];
+
+/** The mark beside a difference to the check that is larger than the LSD 0.05, explained under the table. */
+const BEYOND_LSD = "*";
+
+/** A difference with its sign, "+2.1" or "−0.4", and no sign when it rounds to zero. */
+function signed(trait: TraitShape, x: number): string {
+  const shown = numberInUnit(trait, Math.abs(x));
+  return /[1-9]/.test(shown) ? `${x > 0 ? "+" : "−"}${shown}` : shown;
 }
 
-const SOURCE_LABEL: Record<string, string> = {
-  site: "Site",
-  block: "Block",
-  "block:site": "Block within site",
-  entry: "Variety",
-  "entry:site": "Variety × site",
-  residual: "Residual (error)",
-};
+function MeansTable({ block, trait }: { block: PublicBlock; trait: TraitShape }) {
+  const unit = unitHeading(trait);
+  const ranked = trait.betterWhen !== "neither";
+  const withCheck = block.means.some((m) => m.checkDifference !== null);
+  const columns: Column<MeanRow>[] = [
+    ...(ranked ? [{ label: "Rank", width: 28, align: "right" as const, value: (m: MeanRow) => (m.rank === null ? "" : String(m.rank)) }] : []),
+    { label: "Variety", width: ranked ? 136 : 164, value: (m) => `${m.varietyName ?? m.blindCode}${m.isCheck ? " (check)" : ""}` },
+    { label: "Code", width: 32, value: (m) => m.blindCode },
+    { label: `Mean${unit ? ` (${unit})` : ""}`, width: 78, align: "right", value: (m) => numberInUnit(trait, m.lsMean ?? m.mean) },
+    ...(withCheck
+      ? [
+          { label: "% of check", width: 50, align: "right" as const, value: (m: MeanRow) => formatNumber(m.percentOfCheck, 0) },
+          {
+            label: "vs check",
+            width: 58,
+            align: "right" as const,
+            value: (m: MeanRow) => (m.isCheck || m.checkDifference === null ? "" : `${signed(trait, m.checkDifference)}${m.beyondLsd ? ` ${BEYOND_LSD}` : ""}`),
+          },
+        ]
+      : []),
+    { label: "SE", width: 40, align: "right", value: (m) => formatNumber(inShownUnit(trait, m.se)) },
+    { label: "Plots", width: 32, align: "right", value: (m) => String(m.n) },
+    { label: "Group", width: 40, value: (m) => m.letter ?? "" },
+  ];
+  const checkWords = !withCheck
+    ? ""
+    : ` “% of check” is each mean as a percentage of the check variety's (check = 100); “vs check” is its difference from the check${differenceUnit(trait) ? ` in ${differenceUnit(trait)}` : ""}${
+        block.lsd === null ? " (no LSD 0.05 to judge it against)." : `, marked ${BEYOND_LSD} where it is larger than the LSD 0.05 (${differenceWithUnit(trait, block.lsd)}), a clear difference.`
+      }`;
+  return (
+    <>
+      <Table columns={columns} rows={inStatedOrder(block.means)} />
+      <Text style={s.note}>
+        Listed {orderWords(trait)}.{ranked ? "" : " No rank is given."}
+        {checkWords}
+      </Text>
+    </>
+  );
+}
 
 function AnovaTable({ block }: { block: PublicBlock }) {
   return (
     <Table
       columns={[
-        { label: "Source", width: 120, value: (r) => SOURCE_LABEL[r.source] ?? r.source },
+        { label: "Source", width: 120, value: (r) => ANOVA_SOURCE_LABELS[r.source] },
         { label: "df", width: 35, align: "right", value: (r) => String(r.df) },
         { label: "Sum of squares", width: 85, align: "right", value: (r) => formatNumber(r.ss, 2) },
         { label: "Mean square", width: 85, align: "right", value: (r) => formatNumber(r.ms, 2) },
         { label: "F", width: 50, align: "right", value: (r) => (r.f === null ? "" : formatNumber(r.f, 2)) },
         { label: "p", width: 55, align: "right", value: (r) => (r.p === null ? "" : formatP(r.p)) },
-        { label: "Tested against", width: 90, value: (r) => (r.testedAgainst ? SOURCE_LABEL[r.testedAgainst] ?? r.testedAgainst : "") },
+        { label: "Tested against", width: 90, value: (r) => (r.testedAgainst ? ANOVA_SOURCE_LABELS[r.testedAgainst] : "") },
       ]}
       rows={block.rows}
     />
   );
 }
 
+function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
 function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages: SectionPages; id: string }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
-  const unit = result.trait.valueType === "date" || result.trait.computation !== "none" ? "days" : result.trait.unit;
+  const trait = result.trait;
+  const figures = block
+    ? [
+        `Grand mean ${valueWithUnit(trait, block.grandMean)}`,
+        cvWords(block.cv),
+        block.lsd === null ? "LSD 0.05 not shown (varieties did not differ significantly)" : `LSD 0.05 ${differenceWithUnit(trait, block.lsd)}`,
+        `variety F test ${formatP(block.entryP)}`,
+      ].filter(Boolean)
+    : [];
   return (
-    <View break>
-      <SectionStart id={id} title={result.trait.analysedAs} pages={pages} />
+    <>
+      <SectionStart id={id} title={trait.analysedAs} pages={pages} />
       {!block ? (
         <Text style={s.para}>{result.combinedProblem ?? "No site had enough data for an analysis."}</Text>
       ) : (
         <>
           <Text style={s.para}>
             {result.combined ? `Combined analysis of ${result.combined.sites} sites (sites ${result.combined.siteModel}). ` : "One site analysed. "}
-            Grand mean {formatNumber(block.grandMean)}
-            {unit ? ` ${unit}` : ""}, CV {formatNumber(block.cv, 1)}%, LSD 0.05 {block.lsd === null ? "not shown (varieties did not differ significantly)" : formatNumber(block.lsd)}, variety F test {formatP(block.entryP)}.
+            {figures.join(", ")}.
           </Text>
-          <MeansChart means={block.means} unit={unit} lsd={block.lsd} />
-          <MeansTable block={block} unit={unit} />
-          <Text style={s.note}>{block.comparisonNote} Varieties sharing a letter in “Group” are not significantly different at the 5% level.</Text>
+          <MeansChart means={block.means} trait={trait} lsd={block.lsd} />
+          <MeansTable block={block} trait={trait} />
+          <Text style={s.note}>{capitalise(block.comparisonNote)} Varieties sharing a letter in “Group” are not significantly different at the 5% level.</Text>
           <Text style={[base.h2, { fontSize: 9 }]}>Analysis of variance</Text>
           <AnovaTable block={block} />
           {result.notes.map((n, i) => (
             <Text key={i} style={s.note}>
-              • {printable(n)}
+              • {n}
             </Text>
           ))}
           {result.warnings.map((w, i) => (
             <Text key={`w${i}`} style={s.note}>
-              Caution: {printable(w)}
+              Caution: {w}
             </Text>
           ))}
         </>
       )}
-    </View>
+    </>
+  );
+}
+
+/** One or more printed pages. Each section gets its own, so no forced break can leave a page empty. */
+function ReportPage({ footer, children }: { footer: ReactNode; children: ReactNode }) {
+  return (
+    <Page size="LETTER" style={base.page}>
+      {footer}
+      {children}
+    </Page>
   );
 }
 
@@ -197,7 +241,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
     { id: "sites", title: "Site-by-site results" },
     { id: "cautions", title: "Cautions and disclaimer" },
   ];
-  const published = snapshot.publishedAt.slice(0, 10);
+  const published = formatDate(snapshot.publishedAt);
   const footer = (
     <View style={base.footer} fixed>
       <Text>
@@ -230,8 +274,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
         ))}
         {footer}
       </Page>
-      <Page size="LETTER" style={base.page}>
-        {footer}
+      <ReportPage footer={footer}>
         <SectionStart id="summary" title="Summary for growers" pages={pages} />
         {snapshot.summary.map((line, i) => (
           <View key={i} style={s.bullet}>
@@ -263,7 +306,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
             { label: "Region", width: 90, value: (x) => x.region },
             { label: "Setup", width: 100, value: (x) => SETUP[x.growingSetup] ?? x.growingSetup },
             { label: "Soil / medium", width: 110, value: (x) => x.soil ?? "" },
-            { label: "Sown", width: 60, value: (x) => x.sownOn ?? "" },
+            { label: "Sown", width: 60, value: (x) => (x.sownOn ? formatDate(x.sownOn) : "") },
           ]}
           rows={snapshot.sites}
         />
@@ -285,81 +328,90 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
             {[...new Set(snapshot.results.flatMap((r) => r.result.missing.map((m) => `${m.plotCode} (${m.siteName}, ${m.reason})`)))].join("; ")}.
           </Text>
         )}
-      </Page>
-      <Page size="LETTER" style={base.page}>
-        {footer}
-        {snapshot.results.map((r, i) => (
-          <TraitSection key={r.trait} result={r.result} pages={pages} id={`trait-${r.trait}`} />
-        ))}
-        {germination && (
-          <View break>
-            <SectionStart id="germination" title="Germination" pages={pages} />
-            <Text style={s.para}>{germination.note}</Text>
-            <Table
-              columns={[
-                { label: "Variety", width: 150, value: (g) => g.varietyName ?? g.blindCode },
-                { label: "Sown", width: 50, align: "right", value: (g) => String(g.sown) },
-                { label: "Emerged", width: 50, align: "right", value: (g) => String(g.emerged) },
-                { label: "Emergence %", width: 70, align: "right", value: (g) => formatNumber(g.percent, 1) },
-                { label: "95% interval", width: 100, align: "right", value: (g) => `${formatNumber(g.lower, 1)}–${formatNumber(g.upper, 1)}` },
-              ]}
-              rows={germination.byEntry}
-            />
-            {germination.labels.map((l) => (
-              <Text key={l.blindCode} style={s.note}>
-                • {l.varietyName ?? l.blindCode}: {l.note}
-              </Text>
-            ))}
-          </View>
-        )}
-        <View break>
-          <SectionStart id="sites" title="Site-by-site results" pages={pages} />
-          {snapshot.results.map((r) => (
-            <View key={r.trait} style={{ marginBottom: 6 }}>
-              <Text style={{ fontWeight: 700, marginBottom: 2 }}>{r.result.trait.analysedAs}</Text>
-              <Table
-                columns={[
-                  { label: "Site", width: 140, value: (p) => p.siteName },
-                  { label: "Mean", width: 55, align: "right", value: (p) => (p.result ? formatNumber(p.result.grandMean) : "") },
-                  { label: "CV %", width: 45, align: "right", value: (p) => (p.result ? formatNumber(p.result.cv, 1) : "") },
-                  { label: "Variety p", width: 55, align: "right", value: (p) => (p.result ? formatP(p.result.entryP) : "") },
-                  { label: "LSD 0.05", width: 55, align: "right", value: (p) => (p.result?.lsd != null ? formatNumber(p.result.lsd) : p.result ? "n.s." : "") },
-                  {
-                    label: leaderHeading(r.result.trait),
-                    width: 150,
-                    value: (p) => {
-                      if (!p.result) return p.problem ?? "";
-                      const top = inStatedOrder(p.result.means)[0];
-                      return top ? top.varietyName ?? top.blindCode : "";
-                    },
-                  },
-                ]}
-                rows={r.result.perSite}
-              />
-            </View>
-          ))}
-        </View>
-        <View break>
-          <SectionStart id="cautions" title="Cautions and disclaimer" pages={pages} />
-          <Text style={s.para}>
-            These results describe the partner sites and the season named above. A variety that did well here may do differently
-            on your farm; try a small planting before changing a whole crop. Mention of a variety or seed source is not an
-            endorsement.
-          </Text>
-          {snapshot.entries.some((e) => e.treated) && (
-            <Text style={s.para}>
-              Some seed lots in this trial were treated. Treated seed is not for food or feed; read the seed tag, wear the gloves
-              it calls for, keep it from children and animals, and dispose of leftovers as the label and local rules direct.
-              Organic certification may not allow treated seed.
+      </ReportPage>
+      {snapshot.results.map((r) => (
+        <ReportPage key={r.trait} footer={footer}>
+          <TraitSection result={r.result} pages={pages} id={`trait-${r.trait}`} />
+        </ReportPage>
+      ))}
+      {germination && (
+        <ReportPage footer={footer}>
+          <SectionStart id="germination" title="Germination" pages={pages} />
+          <Text style={s.para}>{germination.note}</Text>
+          <Table
+            columns={[
+              { label: "Variety", width: 150, value: (g) => g.varietyName ?? g.blindCode },
+              { label: "Sown", width: 50, align: "right", value: (g) => String(g.sown) },
+              { label: "Emerged", width: 50, align: "right", value: (g) => String(g.emerged) },
+              { label: "Emergence %", width: 70, align: "right", value: (g) => formatNumber(g.percent, 1) },
+              { label: "95% interval", width: 100, align: "right", value: (g) => `${formatNumber(g.lower, 1)}–${formatNumber(g.upper, 1)}` },
+            ]}
+            rows={germination.byEntry}
+          />
+          {germination.labels.map((l) => (
+            <Text key={l.blindCode} style={s.note}>
+              • {l.varietyName ?? l.blindCode}: {l.note}
             </Text>
-          )}
+          ))}
+        </ReportPage>
+      )}
+      <ReportPage footer={footer}>
+        <SectionStart id="sites" title="Site-by-site results" pages={pages} />
+        {snapshot.results.map((r) => (
+          <SiteTable key={r.trait} result={r.result} />
+        ))}
+      </ReportPage>
+      <ReportPage footer={footer}>
+        <SectionStart id="cautions" title="Cautions and disclaimer" pages={pages} />
+        <Text style={s.para}>
+          These results describe the partner sites and the season named above. A variety that did well here may do differently
+          on your farm; try a small planting before changing a whole crop. Mention of a variety or seed source is not an
+          endorsement.
+        </Text>
+        {snapshot.entries.some((e) => e.treated) && (
           <Text style={s.para}>
-            Follow label directions for any seed treatment, sanitiser or pesticide, and local codes for electrical equipment such
-            as heat mats and grow lights near water. This report gives no prescriptive chemical or electrical advice.
+            Some seed lots in this trial were treated. Treated seed is not for food or feed; read the seed tag, wear the gloves
+            it calls for, keep it from children and animals, and dispose of leftovers as the label and local rules direct.
+            Organic certification may not allow treated seed.
           </Text>
-          <Text style={[s.para, { marginTop: 8 }]}>How to cite: {snapshot.citation}</Text>
-        </View>
-      </Page>
+        )}
+        <Text style={s.para}>
+          Follow label directions for any seed treatment, sanitiser or pesticide, and local codes for electrical equipment such
+          as heat mats and grow lights near water. This report gives no prescriptive chemical or electrical advice.
+        </Text>
+        <Text style={[s.para, { marginTop: 8 }]}>How to cite: {snapshot.citation}</Text>
+      </ReportPage>
     </Document>
+  );
+}
+
+/** One trait's per-site figures: mean, CV (none for yes/no), the variety test, LSD and who came first there. */
+function SiteTable({ result }: { result: PublicTraitResult }) {
+  const trait = result.trait;
+  const unit = unitHeading(trait);
+  type SiteRow = PublicTraitResult["perSite"][number];
+  const columns: Column<SiteRow>[] = [
+    { label: "Site", width: 140, value: (p) => p.siteName },
+    { label: `Mean${unit ? ` (${unit})` : ""}`, width: 70, align: "right", value: (p) => (p.result ? numberInUnit(trait, p.result.grandMean) : "") },
+    ...(hasCv(trait) ? [{ label: "CV %", width: 40, align: "right" as const, value: (p: SiteRow) => (p.result ? formatNumber(p.result.cv, 1) : "") }] : []),
+    { label: "Variety p", width: 55, align: "right", value: (p) => (p.result ? formatP(p.result.entryP) : "") },
+    { label: "LSD 0.05", width: 50, align: "right", value: (p) => (p.result?.lsd != null ? formatNumber(inShownUnit(trait, p.result.lsd)) : p.result ? "n.s." : "") },
+    {
+      label: leaderHeading(trait),
+      width: 160,
+      value: (p) => {
+        if (!p.result) return p.problem ?? "";
+        const top = inStatedOrder(p.result.means)[0];
+        return top ? (top.varietyName ?? top.blindCode) : "";
+      },
+    },
+  ];
+  return (
+    <View style={{ marginBottom: 6 }}>
+      <Text style={{ fontWeight: 700, marginBottom: 2 }} minPresenceAhead={60}>
+        {trait.analysedAs}
+      </Text>
+      <Table columns={columns} rows={result.perSite} />
+    </View>
   );
 }

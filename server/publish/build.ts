@@ -8,6 +8,7 @@ import { loadAnalysisInput } from "@/server/analysis/load-analysis";
 import { AppError } from "@/lib/errors";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import type { Viewer } from "@/lib/domain/viewer";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { summariseForGrowers } from "@/lib/domain/publish/summary";
 import type { PublishedSnapshot, PublishSettings } from "@/lib/domain/publish/types";
 import type { SiteInclusion } from "@/lib/domain/publish/site-inclusion";
@@ -30,7 +31,7 @@ export async function buildSnapshot(
   for (const trait of candidates) {
     const input = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
     if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-    const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation });
+    const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation }, { forPublication: true });
     // Who recorded an exclusion and the staff's note stay in the portal; the category is the public reason.
     result.exclusions = result.exclusions.map((e) => ({ ...e, note: null, createdBy: null }));
     results.push({ traitId: trait.id, result });
@@ -91,6 +92,6 @@ export async function buildSnapshot(
         status: plot.status,
       })),
     ),
-    citation: `${trial.program}. ${trial.title} (${trial.code}), ${trial.season}, version ${p.version}, published ${published.slice(0, 10)}. Seedplot.`,
+    citation: `${trial.program}. ${trial.title} (${trial.code}), ${trial.season}, version ${p.version}, published ${formatDate(published)}. Seedplot.`,
   };
 }

@@ -10,6 +10,7 @@ import { reminderMail } from "@/lib/domain/mail/observation-mails";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { getRecordingSheet } from "@/server/observations/sheet";
 import { recordLink } from "./submissions";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 // The reminder job reads every active site; it acts for the program, not for a signed-in person.
 const SYSTEM_READER: Viewer = { id: 0, email: "system@seedplot.invalid", name: "Seedplot", role: "admin" };
@@ -32,7 +33,7 @@ export async function insertDueReminders(p: { today?: string; appUrl: string }) 
       const enrolment = await getRecordableEnrolment(tx, SYSTEM_READER, target, true);
       if (!enrolment) return 0;
       if (await hasReminderBeenSent(tx, { enrolmentId: enrolment.enrolmentId, day: today })) return 0;
-      const label = (d: (typeof overdue)[number]) => `${d.label} (due ${d.dueOn}): ${d.expected - d.recorded} of ${d.expected} plots to record`;
+      const label = (d: (typeof overdue)[number]) => `${d.label} (due ${formatDate(d.dueOn)}): ${d.expected - d.recorded} of ${d.expected} plots to record`;
       const recipients = await listGrowerRecipients(tx, enrolment);
       for (const g of recipients) {
         await insertMail(tx, reminderMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, tomorrow: dueTomorrow.map(label), overdue: overdue.map(label), link: recordLink(p, enrolment) }));

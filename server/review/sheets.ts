@@ -5,6 +5,7 @@ import { db } from "@/db/index";
 import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
 import { flagValues } from "@/lib/domain/observations/flags";
+import { describeCorrections } from "@/lib/domain/observations/corrections";
 import { todayIso } from "@/lib/domain/schedule";
 import { getRecordingSheet, type RecordingSheet } from "@/server/observations/sheet";
 
@@ -63,6 +64,6 @@ export async function getReviewSheet(viewer: Viewer, p: { trialId: number; siteI
   const sheet = await getRecordingSheet(viewer, p, today);
   if (!sheet) return null;
   const [comments, changes, flags] = await Promise.all([listReviewComments(sheet.enrolment.enrolmentId), listRecentValueChanges(Object.values(sheet.observationIds)), siteFlags(sheet)]);
-  return { ...sheet, flags, allComments: comments, recentChanges: changes, completeness: completeness(sheet) };
+  return { ...sheet, flags, allComments: comments, recentChanges: describeCorrections(changes, sheet.columns), completeness: completeness(sheet) };
 }
 export type ReviewSheet = NonNullable<Awaited<ReturnType<typeof getReviewSheet>>>;

@@ -82,8 +82,8 @@ describe("coordinator sets up a trial in the browser", () => {
       await page.getByText("Enter the sowing date like 2027-03-18.").first().waitFor();
       await page.getByLabel(/^Sowing date at/).fill("2027-03-18");
       await page.getByRole("button", { name: "Save sowing date" }).click();
-      await page.getByText(/^Sowing date set to .*18 Mar 2027/).waitFor({ timeout: 20_000 });
-      await page.getByText(/^Sowing: .*18 Mar 2027/).waitFor({ timeout: 20_000 });
+      await page.getByText(/^Sowing date set to Mar 18, 2027/).waitFor({ timeout: 20_000 });
+      await page.getByText(/^Sowing: Mar 18, 2027/).waitFor({ timeout: 20_000 });
       expect(await page.evaluate(() => (window as unknown as { seedplotSamePage?: boolean }).seedplotSamePage)).toBe(true);
 
       await page.getByRole("link", { name: "Layout and printables" }).first().click();

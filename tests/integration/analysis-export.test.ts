@@ -69,7 +69,7 @@ describe("analysis exports", () => {
       const anova = workbook.getWorksheet("ANOVA")!;
       let entryF: number | null = null;
       anova.eachRow((row) => {
-        if (row.getCell(1).value === "All sites" && row.getCell(2).value === "Entries") entryF = row.getCell(6).value as number;
+        if (row.getCell(1).value === "All sites" && row.getCell(2).value === "Variety") entryF = row.getCell(6).value as number;
       });
       expect(entryF).toBeCloseTo(json.combined!.entryF!, 9);
 

@@ -108,7 +108,7 @@ describe("reminders", () => {
     const mail = await mailsSince("dev@fernbrookschool.example");
     expect(mail).toHaveLength(1);
     expect(mail[0]!.subject).toBe("Overdue counts at Fernbrook School Garden");
-    expect(mail[0]!.text).toMatch(/Seedlings emerged \(count\), day \d+ \(due 2026-\d\d-\d\d\): \d+ of 18 plots to record/);
+    expect(mail[0]!.text).toMatch(/Seedlings emerged \(count\), day \d+ \(due [A-Z][a-z]{2} \d{1,2}, 2026\): \d+ of 18 plots to record/);
     await insertDueReminders({ appUrl: links.appUrl });
     expect(await mailsSince("dev@fernbrookschool.example")).toHaveLength(1);
     // Accepted data is never chased.

@@ -83,7 +83,7 @@ describe("site printables", () => {
     const sheet = await buildSiteSheetData(layout, { appUrl: "http://seedplot.test", pageSize: "LETTER", withQr: false });
     const sheetText = pdfText(await renderSiteSheet("sheet", sheet), "sheet");
     expect(sheetText).toContain("Day 5");
-    expect(sheetText).toMatch(/23 Mar 2027/);
+    expect(sheetText).toMatch(/Mar 23, 2027/);
     for (const p of layout.plots) expect(sheetText).toContain(p.plotCode);
   });
 

@@ -3,6 +3,7 @@
  * numbers cannot drift apart. lib/domain/spreadsheets/write turns them into files and makes every cell safe.
  */
 import { inStatedOrder, orderWords } from "./ranking";
+import { ANOVA_SOURCE_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { AnalysisResult } from "./types";
 
 export type Cell = string | number | boolean | null;
@@ -11,15 +12,6 @@ export interface ExportTable {
   columns: string[];
   rows: Cell[][];
 }
-
-const SOURCE_WORDS: Record<string, string> = {
-  site: "Sites",
-  block: "Blocks",
-  "block:site": "Blocks within sites",
-  entry: "Entries",
-  "entry:site": "Entry x site",
-  residual: "Error",
-};
 
 /** Every table of the export, in sheet order. `generatedAt` is passed in so this stays pure. */
 export function exportTables(result: AnalysisResult, generatedAt: string, withNames: boolean): ExportTable[] {
@@ -34,7 +26,7 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
       ["Trait", result.trait.name],
       ["Analysed as", result.trait.analysedAs],
       ["Order", `${orderWords(result.trait)}${result.trait.betterWhen === "neither" ? "; not ranked" : ""}`],
-      ["Sites", s.siteModel === "random" ? "random (entries tested against entry x site)" : "fixed (entries tested against pooled error)"],
+      ["Sites", s.siteModel === "random" ? `random (varieties tested against ${ANOVA_SOURCE_LABELS["entry:site"]})` : "fixed (entries tested against pooled error)"],
       ["Mean comparison", s.separation === "lsd" ? "protected LSD, alpha 0.05" : "Tukey HSD, alpha 0.05"],
       ["Data used", s.includeUnaccepted ? "accepted and not yet accepted" : "accepted only"],
       ...result.sites.map((site): Cell[] => [`Site: ${site.name}`, site.included ? `included (${site.status})` : `left out: ${site.why}`]),
@@ -63,7 +55,7 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
     name: "ANOVA",
     columns: ["Scope", "Source", "df", "Sum of squares", "Mean square", "F", "p", "Tested against"],
     rows: scopes.flatMap(({ scope, block }) =>
-      block.rows.map((r): Cell[] => [scope, SOURCE_WORDS[r.source] ?? r.source, r.df, r.ss, r.ms, r.f, r.p, r.testedAgainst ? SOURCE_WORDS[r.testedAgainst] : null]),
+      block.rows.map((r): Cell[] => [scope, ANOVA_SOURCE_LABELS[r.source], r.df, r.ss, r.ms, r.f, r.p, r.testedAgainst ? ANOVA_SOURCE_LABELS[r.testedAgainst] : null]),
     ),
   };
   const tables = [settings, raw, means, anova];
@@ -99,7 +91,7 @@ function dataDictionary(result: AnalysisResult): ExportTable {
       ["Means", "Group", "Entries sharing a letter do not differ at alpha 0.05 (protected LSD or Tukey, see Settings). Blank when the F test was not significant under protected LSD."],
       ["Means", "LSD 0.05", "Least significant difference; blank when not given. With missing plots it is the average over pairs."],
       ["Means", "CV %", "100 x square root of the error mean square / grand mean."],
-      ["ANOVA", "Tested against", "Error term of the F test: with random sites, entries are tested against entry x site."],
+      ["ANOVA", "Tested against", `Error term of the F test: with random sites, varieties are tested against ${ANOVA_SOURCE_LABELS["entry:site"]}.`],
       ["Emergence", "Emergence %", "Seedlings emerged / seeds sown x 100, pooled over plots; 95% Wilson score interval."],
     ],
   };

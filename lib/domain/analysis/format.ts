@@ -25,14 +25,84 @@ export interface UnitShape {
   computation: string;
 }
 
+const isDays = (trait: UnitShape) => trait.computation !== "none" || trait.valueType === "date";
+
+/**
+ * The unit a column or axis of a trait's values is headed with: "days", "% yes", "1-9 scale", "g per plot",
+ * or null when the trait has none. Numbers under it come from `inShownUnit`.
+ */
+export function unitHeading(trait: UnitShape): string | null {
+  if (isDays(trait)) return "days";
+  if (trait.valueType === "yes_no") return "% yes";
+  if (trait.valueType === "rating") return trait.unit ? `${trait.unit} scale` : null;
+  return trait.unit;
+}
+
+/** A value, difference, SE or LSD in the unit `unitHeading` names: a yes/no share (0-1) becomes a percentage. */
+export function inShownUnit(trait: UnitShape, x: number): number;
+export function inShownUnit(trait: UnitShape, x: number | null): number | null;
+export function inShownUnit(trait: UnitShape, x: number | null): number | null {
+  return x !== null && trait.valueType === "yes_no" ? 100 * x : x;
+}
+
+/**
+ * Whether a CV means anything for the trait. Not for yes/no: the spread of 0/1 values over a small share
+ * gives CVs of 200% that say nothing about the trial's precision, so the share of "yes" is shown instead.
+ */
+export function hasCv(trait: Pick<UnitShape, "valueType">): boolean {
+  return trait.valueType !== "yes_no";
+}
+
+/** "CV 8.0%", or null when the trait has no CV (see `hasCv`). */
+export function cvWords(cv: number | null): string | null {
+  return cv === null || !Number.isFinite(cv) ? null : `CV ${formatNumber(cv, 1)}%`;
+}
+
+/** Decimals a trait's values are shown with: whole days to one decimal, % yes whole, ratings to one decimal. */
+function valueDigits(trait: UnitShape): number | undefined {
+  if (isDays(trait) || trait.valueType === "rating") return 1;
+  if (trait.valueType === "yes_no") return 0;
+  return undefined;
+}
+
+/** A value as a number under its `unitHeading` ("6.9", "2,812", "40" for 40% yes), with the decimals `valueWithUnit` uses. */
+export function numberInUnit(trait: UnitShape, x: number | null | undefined, digits?: number): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
+  // A least-squares mean of 0/1 values can fall just outside 0-1 when plots are missing; no share of
+  // plots is below 0% or above 100%, so it is shown at the nearer end.
+  const value = trait.valueType === "yes_no" ? Math.min(1, Math.max(0, x)) : x;
+  return formatNumber(inShownUnit(trait, value), digits ?? valueDigits(trait));
+}
+
 /**
  * A trait value as people write it: "6.9 on the 1-9 scale", "2,812 g per plot", "23.8 days", "40% yes".
  * Days are whole-day counts from sowing or transplanting, whatever the recorded unit ("date") says.
  */
 export function valueWithUnit(trait: UnitShape, x: number | null | undefined, digits?: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  if (trait.computation !== "none" || trait.valueType === "date") return `${formatNumber(x, digits ?? 1)} days`;
-  if (trait.valueType === "yes_no") return `${formatNumber(100 * x, digits ?? 0)}% yes`;
-  if (trait.valueType === "rating") return trait.unit ? `${formatNumber(x, digits ?? 1)} on the ${trait.unit} scale` : formatNumber(x, digits ?? 1);
-  return trait.unit ? `${formatNumber(x, digits)} ${trait.unit}` : formatNumber(x, digits);
+  const n = numberInUnit(trait, x, digits);
+  if (isDays(trait)) return `${n} days`;
+  if (trait.valueType === "yes_no") return `${n}% yes`;
+  if (trait.valueType === "rating") return trait.unit ? `${n} on the ${trait.unit} scale` : n;
+  return trait.unit ? `${n} ${trait.unit}` : n;
+}
+
+/** What a difference between two values is counted in: "days", "percentage points", "points on the 1-9 scale", "g per plot". */
+export function differenceUnit(trait: UnitShape): string | null {
+  if (isDays(trait)) return "days";
+  if (trait.valueType === "yes_no") return "percentage points";
+  if (trait.valueType === "rating") return trait.unit ? `points on the ${trait.unit} scale` : "points";
+  return trait.unit;
+}
+
+/**
+ * A difference between two values (an LSD, a gap to the check) as people write it: "134 g per plot",
+ * "0.48 days", "0.45 points on the 1-9 scale", "9 percentage points" for a yes/no share.
+ */
+export function differenceWithUnit(trait: UnitShape, d: number | null | undefined, digits?: number): string {
+  if (d === null || d === undefined || !Number.isFinite(d)) return "–";
+  const n = formatNumber(inShownUnit(trait, d), digits ?? (trait.valueType === "yes_no" ? 0 : undefined));
+  const unit = differenceUnit(trait);
+  if (unit === "days" && n === "1") return "1 day";
+  return unit ? `${n} ${unit}` : n;
 }

@@ -63,13 +63,20 @@ export function leaderHeading(trait: TraitShape): string {
   return trait.betterWhen === "neither" ? `${word.charAt(0).toUpperCase()}${word.slice(1)} here` : `Best here (${word})`;
 }
 
+/** Whether the mean comparison found no pair that differs: every entry shares one letter. */
+export function noPairDiffers(means: readonly { letter: string | null }[]): boolean {
+  const letters = means.map((m) => m.letter);
+  if (letters.length < 2 || letters.some((l) => !l)) return false;
+  return [...letters[0]!].some((ch) => letters.every((l) => l!.includes(ch)));
+}
+
 /** A short label of the direction for column headers and settings. */
 export function directionLabel(betterWhen: BetterWhen): string {
   return betterWhen === "higher" ? "Higher is better" : betterWhen === "lower" ? "Lower is better" : "No preference";
 }
 
 export interface CheckComparison {
-  /** entry mean as a percentage of the check's (check = 100); null without a check or with a check mean of 0 */
+  /** entry mean as a percentage of the check's (check = 100); null without a check or when the check's mean is not above 0 (a yes/no check with no "yes", or a least-squares mean pushed below 0 by missing plots) */
   percentOfCheck: number | null;
   /** entry mean minus the check's mean */
   checkDifference: number | null;
@@ -88,7 +95,7 @@ export function compareWithCheck(means: readonly Comparable[], lsd: number | nul
   return means.map((m) => {
     const difference = rankedValue(m) - reference;
     return {
-      percentOfCheck: reference === 0 ? null : (100 * rankedValue(m)) / reference,
+      percentOfCheck: reference > 0 ? (100 * rankedValue(m)) / reference : null,
       checkDifference: difference,
       beyondLsd: lsd === null ? null : Math.abs(difference) > lsd,
     };

@@ -17,10 +17,10 @@ import {
 } from "@/lib/domain/stats";
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { plural } from "@/lib/domain/vocabulary/words";
-import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
-import { countOf, formatNumber, formatP, valueWithUnit } from "./format";
+import { ANOVA_SOURCE_LABELS, EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
+import { countOf, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
-import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, orderWords, rankedValue } from "./ranking";
+import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, noPairDiffers, orderWords, rankedValue } from "./ranking";
 import { analysedAs, isAnalysable, plotValue } from "./values";
 import type {
   AnalysisBlock,
@@ -65,8 +65,13 @@ interface PlotRow {
 
 type EntriesById = Map<number, InputEntry>;
 
+/** How the result will be read: `forPublication` tells the notes that the key is revealed by the publication itself. */
+export interface RunOptions {
+  forPublication?: boolean;
+}
+
 /** Runs the whole analysis for the settings; never throws for data problems, it reports them instead. */
-export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): AnalysisResult {
+export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, options: RunOptions = {}): AnalysisResult {
   const trait = input.traits.find((t) => t.id === settings.traitId);
   if (!trait) throw new Error(`Trait ${settings.traitId} is not recorded in this trial.`);
   const entriesById: EntriesById = new Map(input.entries.map((e) => [e.id, e]));
@@ -79,7 +84,8 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const perSite = analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById);
   const analysedSites = perSite.analyses.filter((s) => s.result !== null);
   const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, trait, analysable, settings, entriesById);
-  const cvs = analysedSites.map((s) => ({ name: s.siteName, cv: s.result!.cv }));
+  // yes/no traits have no CV (see hasCv), so no CV rule applies to them
+  const cvs = analysedSites.flatMap((s) => (s.result!.cv === null ? [] : [{ name: s.siteName, cv: s.result!.cv }]));
 
   const warnings = [
     ...unacceptedDataWarning(includedSites),
@@ -92,8 +98,9 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
   const exclusionList = describeExclusions(input, exclusions);
   const notes = [
     ...siteNotes(trait, analysedSites, missing),
-    // names only once the key is public; before that the coordinator's notes and the growers' view use codes alike
-    ...combinedNotes(trait, combined, analysedSites.length, input.trial.status === "published" || input.trial.status === "archived"),
+    // names only once the key is public (or made public by this very publication); before that the
+    // coordinator's notes and the growers' view use codes alike
+    ...combinedNotes(trait, combined, analysedSites.length, options.forPublication === true || input.trial.status === "published" || input.trial.status === "archived"),
     ...cvNote(cvs),
     ...(exclusionList.length > 0 ? [`${plural(exclusionList.length, "site or plot", "sites or plots")} left out of this trait by the coordinator, each listed with its reason; the data stay stored.`] : []),
   ];
@@ -111,7 +118,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings): A
     exclusions: exclusionList,
     warnings,
     notes,
-    explanations: explanations(settings),
+    explanations: explanations(settings, trait),
     germination,
     emergence,
     plots: rows.map(plotValueRow),
@@ -316,8 +323,8 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
   if (analysedSites.length > 0) {
     const label = analysedAs(trait);
     const lowerLabel = label.charAt(0).toLowerCase() + label.slice(1);
-    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA);
-    notes.push(`Entries differed in ${lowerLabel} at ${countOf(differed.length, analysedSites.length, "site")} (F test, α = ${ALPHA}).`);
+    const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA).length;
+    notes.push(`${sitesDifferedWords(lowerLabel, differed, analysedSites.length)} (F test, α = ${ALPHA}).`);
   }
   if (missing.length > 0) {
     const lost = missing.filter((m) => !m.reason.startsWith("excluded")).length;
@@ -329,22 +336,39 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
   return notes;
 }
 
+/**
+ * How many sites' F tests found the varieties different, as a sentence that reads naturally for one site,
+ * none, some or all: "At the one site analysed, varieties did not differ clearly in yield".
+ */
+export function sitesDifferedWords(what: string, differed: number, analysed: number): string {
+  if (analysed === 1) return `At the one site analysed, varieties ${differed === 1 ? "differed" : "did not differ clearly"} in ${what}`;
+  if (differed === 0) return `Varieties did not differ clearly in ${what} at ${analysed === 2 ? "either site" : `any of the ${analysed} sites`}`;
+  if (differed === analysed) return `Varieties differed in ${what} at ${analysed === 2 ? "both sites" : `all ${analysed} sites`}`;
+  return `Varieties differed in ${what} at ${countOf(differed, analysed, "site")}`;
+}
+
 /** What the combined analysis says: the entry test, the interaction, the top entry. */
 function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, analysedSiteCount: number, revealed: boolean): string[] {
   if (!combined) return analysedSiteCount === 1 ? [`Only one site could be analysed, so there is no combined analysis.`] : [];
   const notes: string[] = [];
-  const against = combined.siteModel === "random" ? "against the entry × site mean square, because sites are treated as a sample of farms" : "against the pooled error, because sites are treated as fixed";
+  const interaction = ANOVA_SOURCE_LABELS["entry:site"].toLowerCase();
+  const against = combined.siteModel === "random" ? `against the ${interaction} mean square, because sites are treated as a sample of farms` : "against the pooled error, because sites are treated as fixed";
   const differ = combined.entryP !== null && combined.entryP < ALPHA;
+  const test = `F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}`;
   notes.push(
     combined.entryF === null
-      ? `Across ${plural(combined.sites, "site")}, the entry test could not be run: its error term (${combined.siteModel === "random" ? "entry × site" : "residual"}) has no variation.`
-      : `Across ${plural(combined.sites, "site")}, entries ${differ ? "differed" : "did not differ clearly"} (F = ${formatNumber(combined.entryF, 2)}, ${formatP(combined.entryP)}; tested ${against}).`,
+      ? `Across ${plural(combined.sites, "site")}, the variety test could not be run: its error term (${combined.siteModel === "random" ? interaction : "residual"}) has no variation.`
+      : !differ
+        ? `Across ${plural(combined.sites, "site")}, varieties did not differ clearly (${test}).`
+        : noPairDiffers(combined.means)
+          ? `Across ${plural(combined.sites, "site")}, the F test was significant (${test}), but Tukey's test found no pair of varieties that differs at α = ${ALPHA}, so no variety is clearly ahead of another.`
+          : `Across ${plural(combined.sites, "site")}, varieties differed (${test}).`,
   );
   if (combined.interactionP !== null) {
     notes.push(
       combined.interactionP < ALPHA
-        ? `The entry × site interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
-        : `Entries ranked much the same from site to site (entry × site ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
+        ? `The ${interaction} interaction was large (${formatP(combined.interactionP)}), so rank varieties per site rather than on the combined means.`
+        : `Varieties ranked much the same from site to site (${interaction} ${formatP(combined.interactionP)}), so the combined means are a fair summary.`,
     );
   }
   const ordered = inStatedOrder(combined.means);
@@ -354,8 +378,10 @@ function combinedNotes(trait: InputTrait, combined: CombinedAnalysis | null, ana
     const lead =
       trait.betterWhen === "neither"
         ? `Combined means, ${orderWords(trait)}: ${extremeWord(trait, "first")} ${label(first)} (${valueWithUnit(trait, rankedValue(first))}), ${extremeWord(trait, "last")} ${label(ordered[ordered.length - 1]!)} (${valueWithUnit(trait, rankedValue(ordered[ordered.length - 1]!))})`
-        : `Best combined mean (${extremeWord(trait, "first")}): ${label(first)} (${valueWithUnit(trait, rankedValue(first))})`;
-    notes.push(`${lead}; ${combined.comparisonNote} CV ${formatNumber(combined.cv, 1)}%, ${combined.n} plots.`);
+        : differ && !noPairDiffers(combined.means)
+          ? `Best combined mean (${extremeWord(trait, "first")}): ${label(first)} (${valueWithUnit(trait, rankedValue(first))})`
+          : `${capitalise(extremeWord(trait, "first"))} combined mean: ${label(first)} (${valueWithUnit(trait, rankedValue(first))}), not clearly better than the others`;
+    notes.push(`${lead}; ${combined.comparisonNote} ${[cvWords(combined.cv), plural(combined.n, "plot")].filter(Boolean).join(", ")}.`);
   }
   return notes;
 }
@@ -371,7 +397,7 @@ function cvNote(cvs: { name: string; cv: number }[]): string[] {
 }
 
 /** One-line explanations of the chosen settings, shown beside the controls. */
-function explanations(settings: AnalysisSettings): AnalysisResult["explanations"] {
+function explanations(settings: AnalysisSettings, trait: InputTrait): AnalysisResult["explanations"] {
   return {
     siteModel:
       settings.siteModel === "random"
@@ -385,7 +411,9 @@ function explanations(settings: AnalysisSettings): AnalysisResult["explanations"
     unaccepted: settings.includeUnaccepted
       ? "Includes data still in draft or awaiting review; those sites are marked."
       : "Only data a coordinator has accepted are used.",
-    cv: `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`,
+    cv: hasCv(trait)
+      ? `CV% is the plot-to-plot error as a share of the mean; ${CV_TARGET}% or less is the usual target.`
+      : "A yes/no trait has no CV (the spread of yes and no says nothing of the trial's precision); the share of plots with yes is shown instead.",
   };
 }
 
@@ -401,6 +429,10 @@ function plotValueRow(r: PlotRow): PlotValue {
     value: r.value,
     status: r.excluded ? "excluded" : r.value === null ? "missing" : "used",
   };
+}
+
+function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
 }
 
 function statusWords(status: InputSite["status"]): string {
@@ -427,16 +459,16 @@ function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSetti
       if (protectedLsd) {
         lsdValue = protectedLsd.lsd;
         letters = pairwiseLsd(table, ALPHA).letters;
-        comparisonNote = `LSD 0.05 = ${formatNumber(lsdValue)}${protectedLsd.equalReplication ? "" : " (average over pairs, since plots are missing)"}.`;
+        comparisonNote = `LSD 0.05 = ${differenceWithUnit(trait, lsdValue)}${protectedLsd.equalReplication ? "" : " (average over pairs, since plots are missing)"}.`;
       } else {
-        comparisonNote = `no LSD is given ${where} because the entry F test was not significant (protected LSD).`;
+        comparisonNote = `no LSD is given ${where} because the variety F test was not significant (protected LSD).`;
       }
     } else {
       const tukey = tukeyHsd(table, ALPHA);
       letters = tukey.letters;
       tukeyQ = tukey.q;
       const differ = tukey.pairs.filter((p) => p.pAdj < ALPHA).length;
-      comparisonNote = `Tukey found ${plural(differ, "pair")} that differ at α = ${ALPHA}.`;
+      comparisonNote = differ === 0 ? `Tukey found no pair that differs at α = ${ALPHA}.` : `Tukey found ${plural(differ, "pair")} that ${differ === 1 ? "differs" : "differ"} at α = ${ALPHA}.`;
     }
   } catch (e) {
     if (!isStatsError(e)) throw e;
@@ -471,7 +503,7 @@ function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSetti
     n: table.n,
     missing: table.missing,
     grandMean: table.grandMean,
-    cv: table.cv,
+    cv: hasCv(trait) ? table.cv : null,
     errorMs: table.errorMs,
     errorDf: table.errorDf,
     entryF: entryRow?.f ?? null,

@@ -126,7 +126,8 @@ export interface AnalysisBlock {
   n: number;
   missing: number;
   grandMean: number;
-  cv: number;
+  /** CV %; null for yes/no traits, where a CV says nothing (see hasCv) */
+  cv: number | null;
   errorMs: number;
   errorDf: number;
   entryF: number | null;

@@ -26,7 +26,16 @@ export function analysedAs(trait: InputTrait): string {
   if (trait.computation === "days_from_sowing" || (trait.valueType === "date" && trait.computation === "none")) return `${trait.name} (days from sowing)`;
   if (trait.computation === "days_from_transplant") return `${trait.name} (days from transplant)`;
   if (trait.valueType === "yes_no") return `${trait.name} (share of plots, 0–1)`;
-  return trait.unit ? `${trait.name} (${trait.unit})` : trait.name;
+  return trait.unit && !namesUnit(trait.name, trait.unit) ? `${trait.name} (${trait.unit})` : trait.name;
+}
+
+/** Whether a trait's name already says its unit ("Seedlings emerged (final)" in seedlings), so it is not said twice. */
+function namesUnit(name: string, unit: string): boolean {
+  const words = (text: string) => text.toLowerCase().match(/[a-z0-9-]+/g) ?? [];
+  const stem = (w: string) => w.replace(/(es|s)$/, "");
+  const nameStems = new Set(words(name).map(stem));
+  const unitWords = words(unit);
+  return unitWords.length > 0 && unitWords.every((w) => nameStems.has(stem(w)));
 }
 
 const REASON_WORDS: Record<string, string> = {

@@ -1,4 +1,4 @@
-import { extremeWord, inStatedOrder, rankedValue } from "@/lib/domain/analysis/ranking";
+import { extremeWord, inStatedOrder, noPairDiffers, rankedValue } from "@/lib/domain/analysis/ranking";
 import type { AnalysisResult, EntryResult } from "@/lib/domain/analysis/types";
 import { formatP, valueWithUnit } from "@/lib/domain/analysis/format";
 
@@ -29,6 +29,10 @@ export function summariseForGrowers(results: AnalysisResult[]): string[] {
     const significant = block.entryP !== null && block.entryP < 0.05;
     if (!significant) {
       lines.push(`${capitalise(trait)}: the varieties did not differ clearly ${sites} (${formatP(block.entryP)}); treat any order as a tie.`);
+      continue;
+    }
+    if (noPairDiffers(block.means)) {
+      lines.push(`${capitalise(trait)}: the F test found the varieties different ${sites} (${formatP(block.entryP)}), but Tukey's test found no pair that clearly differs; treat the order as a tie.`);
       continue;
     }
     const value = (m: EntryResult) => valueWithUnit(r.trait, rankedValue(m));

@@ -1,3 +1,4 @@
+import type { Source as AnovaSource } from "@/lib/domain/stats/anova";
 import type { CropGroup, ExclusionCategory, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
 
 export const ROLE_LABELS: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", cooperator: "Partner grower" };
@@ -9,12 +10,36 @@ export const SETUP_LABELS: Record<GrowingSetup, string> = {
   field: "Field",
 };
 
-/** Formats an ISO date as e.g. "Tue 1 Dec 2026" without time-zone drift. */
-export function formatDate(iso: string | null | undefined): string {
-  if (!iso) return "—";
+/**
+ * The one way dates are shown to people (pages, PDFs, mails): US English, "May 3, 2026". Takes an ISO date
+ * (YYYY-MM-DD, or a longer ISO timestamp whose day is used as written) or a Date (its UTC day), so a
+ * calendar date never drifts by a time zone.
+ */
+export function formatDate(value: string | Date | null | undefined): string {
+  if (value === null || value === undefined || value === "") return "—";
+  const iso = value instanceof Date ? value.toISOString() : value;
   const d = new Date(`${iso.slice(0, 10)}T00:00:00Z`);
-  return d.toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+  if (!Number.isFinite(d.getTime())) return "—";
+  return d.toLocaleDateString("en-US", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 }
+
+/** A moment with its time, in the same date format: "May 3, 2026, 14:05 UTC". */
+export function formatDateTime(value: string | Date | null | undefined): string {
+  if (value === null || value === undefined || value === "") return "—";
+  const d = value instanceof Date ? value : new Date(value);
+  if (!Number.isFinite(d.getTime())) return "—";
+  return `${formatDate(d)}, ${d.toISOString().slice(11, 16)} UTC`;
+}
+
+/** Rows of an analysis of variance, named the same on the analysis page, in the PDF report and in exports. */
+export const ANOVA_SOURCE_LABELS: Record<AnovaSource, string> = {
+  site: "Site",
+  block: "Block",
+  "block:site": "Block within site",
+  entry: "Variety",
+  "entry:site": "Variety × site",
+  residual: "Residual (error)",
+};
 
 export const CROP_GROUP_LABELS: Record<CropGroup, string> = {
   leafy_greens: "Leafy greens",

@@ -37,11 +37,11 @@ function build(opts: { sites: number; noisySite?: number; emergedLow?: boolean; 
 const settings = (over: Partial<AnalysisSettings> = {}): AnalysisSettings => ({ traitId: 1, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd", ...over });
 
 describe("plain-language notes", () => {
-  it("says at how many sites entries differed, in the trait's own words", () => {
+  it("says at how many sites varieties differed, in the trait's own words", () => {
     const result = runAnalysis(build({ sites: 3 }), settings());
-    expect(result.notes[0]).toMatch(/^Entries differed in marketable yield \(g per plot\) at \d of 3 sites \(F test, α = 0\.05\)\.$/);
-    expect(result.notes.some((n) => /^Across 3 sites, entries (differed|did not differ clearly) \(F = [\d.]+, p/.test(n))).toBe(true);
-    expect(result.notes.some((n) => /entry × site/.test(n))).toBe(true);
+    expect(result.notes[0]).toMatch(/^Varieties (differed|did not differ clearly) in marketable yield \(g per plot\) at (all 3 sites|\d of 3 sites|any of the 3 sites) \(F test, α = 0\.05\)\.$/);
+    expect(result.notes.some((n) => /^Across 3 sites, varieties (differed|did not differ clearly) \(F = [\d.]+, p/.test(n))).toBe(true);
+    expect(result.notes.some((n) => /variety × site/.test(n))).toBe(true);
   });
 
   it("describes date traits as days from sowing", () => {

@@ -5,6 +5,7 @@ import { listCapturedMailFor, mailIsCaptured } from "@/server/mail/mailbox";
 import { linkSegments } from "@/lib/domain/mail/linkify";
 import { env } from "@/lib/env";
 import { Card } from "@/components/ui/card";
+import { formatDateTime } from "@/lib/domain/vocabulary/labels";
 
 export const metadata: Metadata = { title: "Test mailbox" };
 
@@ -33,7 +34,7 @@ export default async function MailboxPage() {
           <article>
             <h2 className="text-lg font-bold">{m.subject}</h2>
             <p className="text-sm text-loam-700">
-              To {m.to.join(", ")} · {new Date(m.receivedAt).toLocaleString("en-GB", { timeZone: "UTC" })} UTC
+              To {m.to.join(", ")} · {formatDateTime(m.receivedAt)}
             </p>
             <pre className="mt-3 whitespace-pre-wrap break-words font-sans text-sm">
               {linkSegments(m.text, env.APP_URL).map((s, i) =>

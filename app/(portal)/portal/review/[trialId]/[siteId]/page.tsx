@@ -64,15 +64,15 @@ export default async function ReviewSitePage({ params, searchParams }: { params:
       {sheet.recentChanges.length > 0 && (
         <Card title="Recent corrections">
           <ul className="space-y-1 text-sm">
-            {sheet.recentChanges.map((c, i) => {
-              const o = c.oldValue as { plot?: string; column?: string; value?: string } | null;
-              const n = c.newValue as { value?: string; source?: string } | null;
-              return (
-                <li key={i}>
-                  {o?.plot} {o?.column}: {o?.value || "—"} → <span className="font-semibold">{n?.value || "—"}</span> <span className="text-loam-700">by {c.actor ?? "someone"}, {c.at.toISOString().slice(0, 16).replace("T", " ")}{n?.source === "upload" ? " (upload)" : ""}</span>
-                </li>
-              );
-            })}
+            {sheet.recentChanges.map((c, i) => (
+              <li key={i}>
+                {c.plotCode} {c.column}: {c.from} → <span className="font-semibold">{c.to}</span>{" "}
+                <span className="text-loam-700">
+                  by {c.by}, {c.when}
+                  {c.fromUpload ? " (upload)" : ""}
+                </span>
+              </li>
+            ))}
           </ul>
         </Card>
       )}

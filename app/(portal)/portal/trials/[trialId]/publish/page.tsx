@@ -12,6 +12,7 @@ import { PublishForm, SiteInclusionList, UnpublishForm } from "@/components/publ
 import { readSiteInclusion } from "@/server/publish/publish";
 import { inclusionWords } from "@/lib/domain/publish/site-inclusion";
 import { INCLUSION_TONES } from "@/lib/domain/vocabulary/statuses";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 export const metadata: Metadata = { title: "Publish results" };
 
@@ -61,7 +62,7 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
               <ul className="space-y-3">
                 {versions.map((v) => (
                   <li key={v.id}>
-                    <span className="font-semibold">Version {v.version}</span> · {v.publishedAt.toISOString().slice(0, 10)} by {v.publishedBy ?? "—"}{" "}
+                    <span className="font-semibold">Version {v.version}</span> · {formatDate(v.publishedAt)} by {v.publishedBy ?? "—"}{" "}
                     {v.unpublishedAt ? <Badge tone="bad">Withdrawn</Badge> : <Badge tone="good">Public</Badge>}
                     {v.changeNote && <span className="block text-sm text-loam-700">{v.changeNote}</span>}
                     {v.unpublishReason && <span className="block text-sm text-beet-700">Withdrawn: {v.unpublishReason}</span>}
