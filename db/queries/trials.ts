@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, eq, or, sql } from "drizzle-orm";
+import { and, asc, count, eq, isNull, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, programScope, staffTrialScope, trialProgress } from "../access";
@@ -8,7 +8,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 
 /**
- * Seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'
+ * Open seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'
  * own, for the trial form (staff only). A trial may record only its own program's custom traits; the
  * save checks that.
  */
@@ -18,7 +18,8 @@ export async function getTrialFormOptions(viewer: Viewer) {
     .select({ id: seasons.id, name: seasons.name, year: seasons.year, program: programs.name })
     .from(seasons)
     .innerJoin(programs, eq(programs.id, seasons.programId))
-    .where(programScope(viewer, seasons.programId))
+    // A closed season takes no new trials, so the form offers only open ones.
+    .where(and(programScope(viewer, seasons.programId), isNull(seasons.closedAt)))
     .orderBy(sql`${seasons.year} desc`, asc(seasons.name));
   const cropRows = await db.select({ id: crops.id, name: crops.name }).from(crops).orderBy(asc(crops.name));
   const traitRows = await db
