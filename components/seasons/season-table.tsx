@@ -17,13 +17,13 @@ type Notify = (text: string) => void;
 function SeasonActions({ season, notify }: { season: SeasonListRow; notify: Notify }) {
   const [editing, setEditing] = useState(false);
   return (
-    <div className="flex flex-wrap gap-1">
+    <div className="flex flex-wrap gap-1 whitespace-nowrap">
       <Button type="button" variant="ghost" onClick={() => setEditing(true)}>
         Edit<span className="sr-only"> {season.name}</span>
       </Button>
       {season.closed ? (
         <ConfirmAction
-          label="Reopen"
+          label="Reopen season"
           srLabel={season.name}
           title={`Reopen ${season.name}?`}
           confirmLabel="Reopen season"
@@ -36,7 +36,7 @@ function SeasonActions({ season, notify }: { season: SeasonListRow; notify: Noti
         </ConfirmAction>
       ) : (
         <ConfirmAction
-          label="Close"
+          label="Close season"
           srLabel={season.name}
           title={`Close ${season.name}?`}
           confirmLabel="Close season"
@@ -73,7 +73,21 @@ export function SeasonTable({ rows, showProgram }: { rows: SeasonListRow[]; show
       { id: "name", header: "Season", accessorFn: (s) => s.name, cell: (c) => <span className="font-semibold">{c.row.original.name}</span> },
       ...(showProgram ? [{ id: "program", header: "Program", accessorFn: (s: SeasonListRow) => s.program } satisfies ColumnDef<SeasonListRow, unknown>] : []),
       { id: "year", header: "Year", accessorFn: (s) => s.year },
-      { id: "dates", header: "Dates", accessorFn: dates },
+      {
+        id: "dates",
+        header: "Dates",
+        accessorFn: dates,
+        // Each date stays on one line; the words between may wrap.
+        cell: (c) =>
+          dates(c.row.original)
+            .split(" ")
+            .map((part, i) => (
+              <span key={i} className="whitespace-nowrap">
+                {i > 0 ? " " : ""}
+                {part}
+              </span>
+            )),
+      },
       {
         id: "trials",
         header: "Trials",

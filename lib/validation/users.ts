@@ -1,6 +1,5 @@
 import { z } from "zod";
 import { id } from "./common";
-import { email } from "./auth";
 
 /** Program checkboxes are named `program_<id>`; they are gathered into one list. */
 const withProgramIds = (v: unknown) => {
@@ -11,6 +10,15 @@ const withProgramIds = (v: unknown) => {
   return { ...(v as object), programIds };
 };
 
+// The person being invited, not the one filling in the form.
+const theirEmail = z
+  .string({ error: "Enter their e-mail address." })
+  .trim()
+  .toLowerCase()
+  .min(1, "Enter their e-mail address.")
+  .max(254, "That e-mail address is too long.")
+  .pipe(z.email({ error: "Enter an e-mail address like name@example.org." }));
+
 const programIds = z.array(z.number().int().positive()).max(100, "Choose at most 100 programs.");
 
 // Staff are invited as coordinators (of the programs ticked) or administrators (of every program).
@@ -19,7 +27,7 @@ export const inviteStaffSchema = z.preprocess(
   z
     .object({
       name: z.string({ error: "Enter the person's name." }).trim().min(2, "Enter the person's name.").max(120, "Use at most 120 characters."),
-      email,
+      email: theirEmail,
       role: z.enum(["coordinator", "admin"], { error: "Choose coordinator or administrator." }),
       programIds,
     })

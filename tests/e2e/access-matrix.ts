@@ -229,6 +229,7 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "trials.ts#randomiseSite": ["coordinator", "admin"],
   "trials.ts#changeSowingDate": ["coordinator", "admin"],
   "trials.ts#changeTrialStatus": ["coordinator", "admin"],
+  "trials.ts#setDirection": ["coordinator", "admin"],
   "users.ts#inviteCooperator": ["coordinator", "admin"],
   "users.ts#changeUserRole": ["admin"],
   "users.ts#setUserActive": ["admin"],

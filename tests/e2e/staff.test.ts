@@ -28,12 +28,12 @@ describe("the admin invites a coordinator, who accepts and lands signed in", () 
     // A coordinator without a program is refused, and the typed values stay.
     await admin.page.getByLabel("Name", { exact: true }).fill("Marta Lindqvist");
     await admin.page.getByLabel("E-mail", { exact: true }).fill(email);
-    await admin.page.getByRole("button", { name: "Send invitation" }).click();
+    await admin.page.getByRole("button", { name: "Send invitation", exact: true }).click();
     await admin.page.getByText("Tick at least one program for the coordinator.").waitFor();
     expect(await admin.page.getByLabel("E-mail", { exact: true }).inputValue()).toBe(email);
 
     await admin.page.getByRole("checkbox", { name: DEMO_SECOND_PROGRAM.name }).check();
-    await admin.page.getByRole("button", { name: "Send invitation" }).click();
+    await admin.page.getByRole("button", { name: "Send invitation", exact: true }).click();
     await admin.page.getByText(`Invitation sent to ${email} as coordinator. The link works for 7 days.`).waitFor();
 
     // The new person is listed with her role, program and a pending invitation, and search finds her by e-mail.
@@ -56,7 +56,9 @@ describe("the admin invites a coordinator, who accepts and lands signed in", () 
     await coordinator.page.getByRole("button", { name: "Set password and continue" }).click();
     // Signed in straight away: the portal opens, not an empty sign-in form.
     await coordinator.page.waitForURL("**/portal");
-    await coordinator.page.getByRole("heading", { name: "Hello, Marta" }).waitFor();
+    await coordinator.page.getByRole("heading", { name: "Program overview" }).waitFor();
+    expect(await coordinator.page.getByText("Marta Lindqvist · Coordinator").count()).toBe(1);
+    expect(await coordinator.page.getByText(DEMO_SECOND_PROGRAM.trial.code).count()).toBe(1);
     // She runs the program she was given, and only that one.
     await coordinator.page.goto("/portal/seasons");
     await coordinator.page.getByRole("heading", { name: "Seasons" }).waitFor();

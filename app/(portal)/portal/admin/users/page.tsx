@@ -29,16 +29,23 @@ export default async function UsersPage() {
   }));
   return (
     <div className="space-y-6">
-      <h1 className="text-3xl font-bold">Users and roles</h1>
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h1 className="text-3xl font-bold">Users and roles</h1>
+        <a href="#invite-staff" className="font-semibold">
+          Invite a coordinator or administrator
+        </a>
+      </div>
       <Card>
         <UsersTable users={users} viewerId={viewer.id} programs={programs} />
       </Card>
-      <Card title="Invite a coordinator or administrator">
-        <p className="mb-3 text-sm text-loam-700">
-          They get an e-mail with a link to set their password; it works once, for 7 days. Partner growers are invited from the Growers page, to a site.
-        </p>
-        <InviteStaffForm programs={programs} />
-      </Card>
+      <div id="invite-staff" className="scroll-mt-4">
+        <Card title="Invite a coordinator or administrator">
+          <p className="mb-3 text-sm text-loam-700">
+            They get an e-mail with a link to set their password; it works once, for 7 days. Partner growers are invited from the Growers page, to a site.
+          </p>
+          <InviteStaffForm programs={programs} />
+        </Card>
+      </div>
     </div>
   );
 }
