@@ -4,7 +4,7 @@ import { db, type Tx } from "../index";
 import { programCoordinators, programs, siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
-import { requireStaff, staffSiteScope } from "../access";
+import { isDuplicateKey, requireStaff, staffSiteScope } from "../access";
 import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -225,8 +225,15 @@ export async function insertStaffInvitation(
   tx: Tx,
   p: { viewer: Viewer; name: string; email: string; role: "coordinator" | "admin"; programIds: number[]; tokenHash: string; expiresAt: Date; mail: OutgoingMail },
 ): Promise<number> {
-  const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: p.role }).$returningId();
-  const userId = inserted!.id;
+  let userId: number;
+  try {
+    const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: p.role }).$returningId();
+    userId = inserted!.id;
+  } catch (e) {
+    // Another invitation to the same e-mail committed a moment before this one.
+    if (isDuplicateKey(e)) throw new AppError("conflict", "This e-mail already has an invitation. Use Resend in the list above to send a new link.", { email: ["This e-mail already has an invitation."] });
+    throw e;
+  }
   if (p.programIds.length > 0) await tx.insert(programCoordinators).values(p.programIds.map((programId) => ({ programId, userId })));
   await tx.insert(userTokens).values({ userId, kind: "invite", tokenHash: p.tokenHash, expiresAt: p.expiresAt, createdById: p.viewer.id });
   await insertMail(tx, p.mail);
