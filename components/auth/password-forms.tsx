@@ -3,7 +3,9 @@ import { useActionState } from "react";
 import { TextField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
+import { signIn } from "next-auth/react";
 import { acceptInvite, requestPasswordReset, resetPassword } from "@/server/actions/auth";
+import type { ActionResult } from "@/lib/validation/action-result";
 
 export function ForgotPasswordForm() {
   const [state, action] = useActionState(requestPasswordReset, null);
@@ -31,8 +33,20 @@ export function ResetPasswordForm({ token }: { token: string }) {
   );
 }
 
-export function AcceptInviteForm({ token, name }: { token: string; name: string }) {
-  const [state, action] = useActionState(acceptInvite, null);
+/** Sets the invited person's name and password, then signs them in with it and opens the portal. */
+export function AcceptInviteForm({ token, name, email }: { token: string; name: string; email: string }) {
+  const [state, action] = useActionState<ActionResult | null, FormData>(async (previous, formData) => {
+    const result = await acceptInvite(previous, formData);
+    if (!result.ok) return result;
+    try {
+      const signedIn = await signIn("credentials", { email, password: String(formData.get("password") ?? ""), redirect: false });
+      // Should the sign-in not go through (a lost connection), the password is set all the same.
+      window.location.assign(signedIn?.ok && !signedIn.error ? "/portal" : "/sign-in?welcome=1");
+    } catch {
+      window.location.assign("/sign-in?welcome=1");
+    }
+    return result;
+  }, null);
   const errors = state && !state.ok ? state.fieldErrors : undefined;
   return (
     <form action={action} noValidate className="space-y-4">

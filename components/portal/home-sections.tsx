@@ -213,7 +213,7 @@ export function UsersSummary({ users }: { users: Awaited<ReturnType<typeof listU
           <span className="flex gap-2">
             <Badge tone={u.role === "admin" ? "warn" : u.role === "coordinator" ? "info" : "neutral"}>{ROLE_LABELS[u.role]}</Badge>
             {!u.active && <Badge tone="bad">Inactive</Badge>}
-            {u.invited && <Badge>Invited</Badge>}
+            {!u.hasPassword && <Badge>Invited</Badge>}
           </span>
         </li>
       ))}

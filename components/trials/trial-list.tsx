@@ -28,6 +28,6 @@ const columns: ColumnDef<Row, unknown>[] = [
   { id: "status", accessorFn: (r) => STATUS_LABELS[r.status], header: "Status", cell: (c) => <TrialStatusBadge status={c.row.original.status} /> },
 ];
 
-export function TrialList({ rows }: { rows: Row[] }) {
-  return <DataTable data={rows} columns={columns} caption="Trials in your programs" filterLabel="Filter trials" empty="No trials yet. Create the first one." />;
+export function TrialList({ rows, empty = "No trials yet. Create the first one." }: { rows: Row[]; empty?: string }) {
+  return <DataTable data={rows} columns={columns} caption="Trials in your programs" filterLabel="Filter trials" empty={empty} />;
 }

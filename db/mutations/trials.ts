@@ -54,15 +54,21 @@ async function replaceTraits(tx: Tx, trialId: number, traitIds: number[]) {
 export async function insertTrial(tx: Tx, p: { viewer: Viewer; trial: NewTrialRow; programId?: number }): Promise<number> {
   const { viewer, trial: input } = p;
   requireStaff(viewer);
+  // Locked, so a season being closed at this moment either takes this trial first or refuses it.
   const [season] = await tx
-    .select({ id: seasons.id, programId: seasons.programId })
+    .select({ id: seasons.id, programId: seasons.programId, name: seasons.name, closedAt: seasons.closedAt })
     .from(seasons)
     .where(
       viewer.role === "admin"
         ? eq(seasons.id, input.seasonId)
         : and(eq(seasons.id, input.seasonId), inArray(seasons.programId, tx.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, viewer.id)))),
-    );
+    )
+    .for("update");
   if (!season) throw new AppError("bad_request", "Choose a season of a program you coordinate.", { seasonId: ["Choose a season from the list."] });
+  if (season.closedAt !== null) {
+    const message = `${season.name} is closed, so it takes no new trials. Choose an open season, or open a new one on the Seasons page.`;
+    throw new AppError("conflict", message, { seasonId: [message] });
+  }
   if (p.programId !== undefined && season.programId !== p.programId) {
     throw new AppError("bad_request", "Choose a season of this trial's own program: its varieties and sites belong to that program.", { seasonId: ["Choose a season of this trial's program."] });
   }

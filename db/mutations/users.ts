@@ -1,10 +1,10 @@
 import "server-only";
-import { and, eq, isNull, not, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, not, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
-import { siteCooperators, sites, users, userTokens } from "../schema";
+import { programCoordinators, programs, siteCooperators, sites, users, userTokens } from "../schema";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
-import { requireStaff, staffSiteScope } from "../access";
+import { isDuplicateKey, requireStaff, staffSiteScope } from "../access";
 import { insertMail } from "./mail";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -91,25 +91,28 @@ async function linkedOutsideViewerPrograms(tx: Tx, viewer: Viewer, userId: numbe
   return !!other;
 }
 
+/** Why a link was refused, in words for the person holding it. */
+function linkRefusal(kind: "invite" | "password_reset", row: { usedAt: Date | null; expiresAt: Date; hasPassword: boolean; active: boolean } | undefined) {
+  if (kind === "password_reset") return "This reset link has expired or was already used. Ask for a new one.";
+  if (row?.hasPassword) return "This invitation was already used. Sign in with the password you chose, or reset it from the sign-in page if you forgot it.";
+  if (row && row.active && row.usedAt === null) return "This invitation link has expired. Ask the person who invited you to send a new one.";
+  return "This invitation link no longer works. Ask the person who invited you to send a new one.";
+}
+
 /**
  * Uses a one-time token, found by its digest: sets the password (and name for invites) and marks the token
- * used. An unknown, used or expired token is refused.
+ * used. An unknown, used or expired token, or one of a deactivated account, is refused with its reason.
  */
 export async function updatePasswordWithToken(p: { tokenHash: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string }) {
   return db.transaction(async (tx) => {
-    const [row] = await tx
-      .select({ id: userTokens.id, userId: userTokens.userId, expiresAt: userTokens.expiresAt, usedAt: userTokens.usedAt })
+    const [found] = await tx
+      .select({ id: userTokens.id, userId: userTokens.userId, expiresAt: userTokens.expiresAt, usedAt: userTokens.usedAt, passwordHash: users.passwordHash, active: users.active })
       .from(userTokens)
+      .innerJoin(users, eq(users.id, userTokens.userId))
       .where(and(eq(userTokens.tokenHash, p.tokenHash), eq(userTokens.kind, p.kind)))
       .for("update");
-    if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now()) {
-      throw new AppError(
-        "bad_request",
-        p.kind === "invite"
-          ? "This invitation link has expired or was already used. Ask your coordinator to send a new one."
-          : "This reset link has expired or was already used. Ask for a new one.",
-      );
-    }
+    const row = found && { ...found, hasPassword: found.passwordHash !== null };
+    if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now() || !row.active) throw new AppError("bad_request", linkRefusal(p.kind, row));
     // This link and every other open link of its kind stop working.
     await voidOpenTokens(tx, row.userId, p.kind);
     // A new password ends every session signed in with the old one.
@@ -176,5 +179,93 @@ export async function endSessions(p: { userId: number; sessionGeneration: number
       .where(and(eq(users.id, p.userId), eq(users.sessionGeneration, p.sessionGeneration)));
     if (result.affectedRows === 0) return;
     await insertAudit(tx, { actorId: p.userId, action: "sign_out", entity: "user", entityId: p.userId });
+  });
+}
+
+/** Records a successful sign-in, for the admin's user list. */
+export async function updateLastSignIn(userId: number) {
+  await db.update(users).set({ lastSignedInAt: new Date() }).where(eq(users.id, userId));
+}
+
+/** An account for an admin to change, locked for the rest of the transaction. */
+export async function lockAccountForAdmin(tx: Tx, viewer: Viewer, userId: number) {
+  if (viewer.role !== "admin") throw new AppError("forbidden", "Only an administrator can change accounts.");
+  const [account] = await tx
+    .select({ id: users.id, name: users.name, email: users.email, role: users.role, active: users.active, passwordHash: users.passwordHash })
+    .from(users)
+    .where(eq(users.id, userId))
+    .for("update");
+  if (!account) throw new AppError("not_found", "That account no longer exists.");
+  const { passwordHash, ...rest } = account;
+  return { ...rest, hasPassword: passwordHash !== null };
+}
+
+/** The programs with these ids, by name; the caller compares the count to find unknown ids. */
+export async function listProgramsById(tx: Tx, programIds: number[]) {
+  if (programIds.length === 0) return [];
+  return tx.select({ id: programs.id, name: programs.name }).from(programs).where(inArray(programs.id, programIds)).orderBy(asc(programs.name));
+}
+
+/** The names of the programs a coordinator runs. */
+export async function listCoordinatorProgramNames(tx: Tx, userId: number) {
+  const rows = await tx
+    .select({ name: programs.name })
+    .from(programCoordinators)
+    .innerJoin(programs, eq(programs.id, programCoordinators.programId))
+    .where(eq(programCoordinators.userId, userId))
+    .orderBy(asc(programs.name));
+  return rows.map((r) => r.name);
+}
+
+/**
+ * Stores a staff invitation: a new account without a password in the given role, its programs (for a
+ * coordinator), the token's digest, its mail and an audit entry.
+ */
+export async function insertStaffInvitation(
+  tx: Tx,
+  p: { viewer: Viewer; name: string; email: string; role: "coordinator" | "admin"; programIds: number[]; tokenHash: string; expiresAt: Date; mail: OutgoingMail },
+): Promise<number> {
+  let userId: number;
+  try {
+    const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: p.role }).$returningId();
+    userId = inserted!.id;
+  } catch (e) {
+    // Another invitation to the same e-mail committed a moment before this one.
+    if (isDuplicateKey(e)) throw new AppError("conflict", "This e-mail already has an invitation. Use Resend in the list above to send a new link.", { email: ["This e-mail already has an invitation."] });
+    throw e;
+  }
+  if (p.programIds.length > 0) await tx.insert(programCoordinators).values(p.programIds.map((programId) => ({ programId, userId })));
+  await tx.insert(userTokens).values({ userId, kind: "invite", tokenHash: p.tokenHash, expiresAt: p.expiresAt, createdById: p.viewer.id });
+  await insertMail(tx, p.mail);
+  await insertAudit(tx, { actorId: p.viewer.id, action: "invite_staff", entity: "user", entityId: userId, newValue: { email: p.email, role: p.role, programIds: p.programIds } });
+  return userId;
+}
+
+/** A fresh invitation link for someone who has not set a password yet; their earlier links stop working. */
+export async function insertInvitationLink(tx: Tx, p: { viewer: Viewer; userId: number; tokenHash: string; expiresAt: Date; mail: OutgoingMail }) {
+  await voidOpenTokens(tx, p.userId, "invite");
+  await tx.insert(userTokens).values({ userId: p.userId, kind: "invite", tokenHash: p.tokenHash, expiresAt: p.expiresAt, createdById: p.viewer.id });
+  await insertMail(tx, p.mail);
+  await insertAudit(tx, { actorId: p.viewer.id, action: "resend_invite", entity: "user", entityId: p.userId });
+}
+
+/** Stops a person's open invitation links, with an audit entry. */
+export async function voidInvitation(tx: Tx, p: { viewer: Viewer; userId: number }) {
+  await voidOpenTokens(tx, p.userId, "invite");
+  await insertAudit(tx, { actorId: p.viewer.id, action: "cancel_invite", entity: "user", entityId: p.userId });
+}
+
+/** Sets the programs a coordinator runs to exactly these, with an audit entry of before and after. */
+export async function replaceCoordinatorPrograms(tx: Tx, p: { viewer: Viewer; userId: number; programIds: number[] }) {
+  const before = await tx.select({ id: programCoordinators.programId }).from(programCoordinators).where(eq(programCoordinators.userId, p.userId));
+  await tx.delete(programCoordinators).where(eq(programCoordinators.userId, p.userId));
+  if (p.programIds.length > 0) await tx.insert(programCoordinators).values(p.programIds.map((programId) => ({ programId, userId: p.userId })));
+  await insertAudit(tx, {
+    actorId: p.viewer.id,
+    action: "assign_programs",
+    entity: "user",
+    entityId: p.userId,
+    oldValue: { programIds: before.map((r) => r.id).sort((a, b) => a - b) },
+    newValue: { programIds: [...p.programIds].sort((a, b) => a - b) },
   });
 }

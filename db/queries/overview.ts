@@ -19,8 +19,8 @@ import {
 import { cooperatorEnrolmentScope, staffSiteScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 
-/** Trials in the coordinator's programs with entry and site counts, newest season first. */
-export async function listTrialsForViewer(viewer: Viewer) {
+/** Trials in the coordinator's programs with entry and site counts, newest season first; only one season's when `seasonId` is given. */
+export async function listTrialsForViewer(viewer: Viewer, filter: { seasonId?: number } = {}) {
   if (viewer.role === "cooperator") return [];
   const rows = await db
     .select({
@@ -41,7 +41,7 @@ export async function listTrialsForViewer(viewer: Viewer) {
     .innerJoin(programs, eq(programs.id, trials.programId))
     .leftJoin(trialEntries, eq(trialEntries.trialId, trials.id))
     .leftJoin(enrolments, eq(enrolments.trialId, trials.id))
-    .where(staffTrialScope(viewer))
+    .where(and(staffTrialScope(viewer), filter.seasonId === undefined ? undefined : eq(trials.seasonId, filter.seasonId)))
     .groupBy(trials.id, crops.name, seasons.name, seasons.year, programs.name)
     .orderBy(desc(seasons.year), desc(seasons.id), asc(trials.code));
   return rows;

@@ -1,6 +1,6 @@
 import "server-only";
 import type { KitEntry } from "@/lib/domain/design/kits";
-import { and, asc, count, eq, or, sql } from "drizzle-orm";
+import { and, asc, count, eq, isNull, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, programScope, staffTrialScope, trialProgress } from "../access";
@@ -9,7 +9,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 
 /**
- * Seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'
+ * Open seasons of the viewer's programs, the shared crops, and the built-in traits with the viewer's programs'
  * own, for the trial form (staff only). A trial may record only its own program's custom traits; the
  * save checks that.
  */
@@ -19,7 +19,8 @@ export async function getTrialFormOptions(viewer: Viewer) {
     .select({ id: seasons.id, name: seasons.name, year: seasons.year, program: programs.name })
     .from(seasons)
     .innerJoin(programs, eq(programs.id, seasons.programId))
-    .where(programScope(viewer, seasons.programId))
+    // A closed season takes no new trials, so the form offers only open ones.
+    .where(and(programScope(viewer, seasons.programId), isNull(seasons.closedAt)))
     .orderBy(sql`${seasons.year} desc`, asc(seasons.name));
   const cropRows = await db.select({ id: crops.id, name: crops.name }).from(crops).orderBy(asc(crops.name));
   const traitRows = await db
@@ -241,7 +242,7 @@ export async function listMyLayouts(viewer: Viewer) {
 
 /**
  * Where a trial sits in its line across seasons: the trial it was planned from and the ones planned from
- * it, plus the seasons of its program a next trial can go in. Null when the trial is not the viewer's.
+ * it, plus the open seasons of its program a next trial can go in. Null when the trial is not the viewer's.
  */
 export async function getTrialLineage(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
@@ -253,7 +254,7 @@ export async function getTrialLineage(viewer: Viewer, trialId: number) {
       ? Promise.resolve([])
       : db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.id, self!.previousTrialId), staffTrialScope(viewer))),
     db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.previousTrialId, trialId), staffTrialScope(viewer))).orderBy(asc(trials.code)),
-    db.select({ id: seasons.id, name: seasons.name, year: seasons.year }).from(seasons).where(eq(seasons.programId, self!.programId)).orderBy(sql`${seasons.year} desc`, asc(seasons.name)),
+    db.select({ id: seasons.id, name: seasons.name, year: seasons.year }).from(seasons).where(and(eq(seasons.programId, self!.programId), isNull(seasons.closedAt))).orderBy(sql`${seasons.year} desc`, asc(seasons.name)),
   ]);
   return { previous: previous[0] ?? null, next, seasons: seasonRows };
 }

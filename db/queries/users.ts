@@ -1,7 +1,8 @@
 import "server-only";
-import { and, asc, count, eq, gt, isNull, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, gt, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/mysql-core";
 import { db } from "../index";
-import { siteCooperators, sites, users, userTokens } from "../schema";
+import { auditLog, programCoordinators, programs, siteCooperators, sites, users, userTokens } from "../schema";
 import type { TokenKind } from "@/lib/domain/vocabulary/enums";
 import { staffSiteScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -38,14 +39,78 @@ export async function getActiveViewer(userId: number, sessionGeneration: number)
   return row ?? null;
 }
 
-/** Every account with its role, for the admin's user list (admin only; checked by the caller). */
+/**
+ * Every account for the admin's user list (admin only): role, the programs a coordinator runs, the last
+ * sign-in, and the newest invitation link (the page works out its state).
+ */
 export async function listUsersForAdmin(viewer: Viewer) {
   if (viewer.role !== "admin") return [];
-  return db
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role, active: users.active, hasPassword: users.passwordHash, createdAt: users.createdAt })
-    .from(users)
-    .orderBy(asc(users.role), asc(users.name))
-    .then((rows) => rows.map(({ hasPassword, ...r }) => ({ ...r, invited: hasPassword === null })));
+  const [accounts, programRows, links] = await Promise.all([
+    db
+      .select({ id: users.id, email: users.email, name: users.name, role: users.role, active: users.active, passwordHash: users.passwordHash, lastSignedInAt: users.lastSignedInAt, createdAt: users.createdAt })
+      .from(users)
+      .orderBy(asc(users.role), asc(users.name)),
+    db
+      .select({ userId: programCoordinators.userId, id: programs.id, name: programs.name })
+      .from(programCoordinators)
+      .innerJoin(programs, eq(programs.id, programCoordinators.programId))
+      .orderBy(asc(programs.name)),
+    db
+      .select({ userId: userTokens.userId, usedAt: userTokens.usedAt, expiresAt: userTokens.expiresAt })
+      .from(userTokens)
+      .where(eq(userTokens.kind, "invite"))
+      .orderBy(desc(userTokens.createdAt), desc(userTokens.id)),
+  ]);
+  const newestLink = new Map<number, { usedAt: Date | null; expiresAt: Date }>();
+  for (const l of links) if (!newestLink.has(l.userId)) newestLink.set(l.userId, { usedAt: l.usedAt, expiresAt: l.expiresAt });
+  return accounts.map(({ passwordHash, ...a }) => ({
+    ...a,
+    hasPassword: passwordHash !== null,
+    programs: programRows.filter((p) => p.userId === a.id).map((p) => ({ id: p.id, name: p.name })),
+    newestInvitation: newestLink.get(a.id) ?? null,
+  }));
+}
+
+/** An invitation link found by its digest, whatever its state, with its account and who sent it; for the invitation page. */
+export async function getInvitationLink(tokenHash: string) {
+  const inviter = alias(users, "inviter");
+  const [row] = await db
+    .select({
+      usedAt: userTokens.usedAt,
+      expiresAt: userTokens.expiresAt,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      active: users.active,
+      passwordHash: users.passwordHash,
+      inviterName: inviter.name,
+    })
+    .from(userTokens)
+    .innerJoin(users, eq(users.id, userTokens.userId))
+    .leftJoin(inviter, eq(inviter.id, userTokens.createdById))
+    .where(and(eq(userTokens.tokenHash, tokenHash), eq(userTokens.kind, "invite")))
+    .limit(1);
+  if (!row) return null;
+  const { passwordHash, ...rest } = row;
+  return { ...rest, hasPassword: passwordHash !== null };
+}
+
+/**
+ * Whom a deactivated person should ask: the administrator who deactivated the account, while still an
+ * active administrator, or else the longest-standing active administrator.
+ */
+export async function getDeactivationContact(userId: number): Promise<{ name: string; email: string } | null> {
+  const activeAdmin = and(eq(users.role, "admin"), eq(users.active, true));
+  const [deactivatedBy] = await db
+    .select({ name: users.name, email: users.email })
+    .from(auditLog)
+    .innerJoin(users, eq(users.id, auditLog.actorId))
+    .where(and(eq(auditLog.entity, "user"), eq(auditLog.entityId, String(userId)), eq(auditLog.action, "deactivate"), activeAdmin))
+    .orderBy(desc(auditLog.at), desc(auditLog.id))
+    .limit(1);
+  if (deactivatedBy) return deactivatedBy;
+  const [anyAdmin] = await db.select({ name: users.name, email: users.email }).from(users).where(activeAdmin).orderBy(asc(users.id)).limit(1);
+  return anyAdmin ?? null;
 }
 
 /** Counts accounts by role, for the admin's overview. */

@@ -1,4 +1,4 @@
-import { date, int, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { date, int, mysqlTable, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
 import { users } from "./users";
 
@@ -35,6 +35,8 @@ export const seasons = mysqlTable(
     year: int("year").notNull(),
     startsOn: date("starts_on", { mode: "string" }),
     endsOn: date("ends_on", { mode: "string" }),
+    // Set when the season is closed: it then takes no new trials (its trials carry on as they are).
+    closedAt: timestamp("closed_at", { mode: "date" }),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("seasons_program_name_unique").on(t.programId, t.name)],

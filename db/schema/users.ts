@@ -16,6 +16,7 @@ export const users = mysqlTable(
     // Each session carries the value it was issued with; raising it (sign-out, a new password,
     // deactivation) ends every session issued before.
     sessionGeneration: int("session_generation").notNull().default(0),
+    lastSignedInAt: timestamp("last_signed_in_at", { mode: "date" }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

@@ -12,12 +12,16 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { consumeRateLimit } from "@/server/auth/throttle";
 import { requestAddress } from "@/server/auth/request-address";
 
-/** An invited grower chooses their name and password through the link in their invitation. */
+/**
+ * An invited person chooses their name and password through the link in their invitation. The form then
+ * signs them in with that password through the usual sign-in (throttle, last sign-in and all), so they
+ * land in the portal rather than on an empty sign-in form.
+ */
 export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
   { roles: "public", schema: acceptInviteSchema },
   async (input) => {
     await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
-    redirect("/sign-in?welcome=1");
+    return { ok: true, message: "Your password is set. Signing you in…" };
   },
 );
 

@@ -2,13 +2,13 @@ import "server-only";
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { env } from "@/lib/env";
-import { getActiveViewer, getSignInRecord } from "@/db/queries/users";
-import { endSessions } from "@/db/mutations/users";
+import { getActiveViewer, getDeactivationContact, getSignInRecord } from "@/db/queries/users";
+import { endSessions, updateLastSignIn } from "@/db/mutations/users";
 import { signInSchema } from "@/lib/validation/auth";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
 import { requestAddress } from "./request-address";
-import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE } from "@/lib/domain/sign-in-messages";
+import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE, signInDeactivated } from "@/lib/domain/sign-in-messages";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 
 /** Thrown when a session's cookie is still signed but the account ended it; next-auth then clears the cookie. */
@@ -32,7 +32,7 @@ export const authOptions: NextAuthOptions = {
         if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
         const { email, password } = parsed.data;
         const address = requestAddress();
-        let outcome: "throttled" | "failed" | { id: number; email: string; name: string; role: Role; sessionGeneration: number };
+        let outcome: "throttled" | "failed" | { deactivated: string } | { id: number; email: string; name: string; role: Role; sessionGeneration: number };
         try {
           if (await isThrottled(email, address)) outcome = "throttled";
           else {
@@ -40,8 +40,12 @@ export const authOptions: NextAuthOptions = {
             // The hash check runs even for unknown e-mails so timing does not reveal which accounts exist.
             const ok = await verifyPassword(record?.passwordHash ?? null, password);
             const success = record !== null && ok && record.active;
+            // A deactivated account counts as a failed attempt (it must not lift the throttle), but its owner,
+            // who just proved the password, is told why and whom to ask. A wrong password gets the usual
+            // answer, so nobody without the password learns that the account exists or was deactivated.
             await recordAttempt(email, address, success);
-            outcome = success ? record : "failed";
+            if (success) await updateLastSignIn(record.id);
+            outcome = success ? record : record !== null && ok ? { deactivated: signInDeactivated(await getDeactivationContact(record.id)) } : "failed";
           }
         } catch (e) {
           // next-auth puts the thrown message in the URL, so internals (SQL, hosts) must never reach it.
@@ -50,6 +54,7 @@ export const authOptions: NextAuthOptions = {
         }
         if (outcome === "throttled") throw new Error(SIGN_IN_THROTTLED);
         if (outcome === "failed") throw new Error(SIGN_IN_FAILED);
+        if ("deactivated" in outcome) throw new Error(outcome.deactivated);
         return { id: String(outcome.id), email: outcome.email, name: outcome.name, role: outcome.role, sessionGeneration: outcome.sessionGeneration };
       },
     }),

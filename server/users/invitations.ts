@@ -7,7 +7,7 @@ import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
 import { hashToken, newToken } from "@/server/auth/tokens";
 
-const INVITE_DAYS = 7;
+export const INVITE_DAYS = 7;
 
 export interface GrowerInvitation {
   viewer: Viewer;

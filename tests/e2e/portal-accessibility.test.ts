@@ -35,7 +35,7 @@ describe("portal pages for people using assistive technology", () => {
     await page.goto("/portal/trials");
     const trialPath = await page.getByRole("link", { name: "Baby-leaf kale in trays under lights" }).getAttribute("href");
     expect(trialPath).toMatch(/^\/portal\/trials\/\d+$/);
-    for (const pathname of ["/portal", "/portal/trials", trialPath!, `${trialPath}/analysis`, "/portal/catalogue", "/portal/review", "/portal/sites", "/portal/cooperators"]) {
+    for (const pathname of ["/portal", "/portal/trials", trialPath!, `${trialPath}/analysis`, "/portal/catalogue", "/portal/review", "/portal/sites", "/portal/seasons", "/portal/cooperators"]) {
       await expectNoSeriousProblems(page, pathname);
     }
     // A trial's own page still belongs to Trials; the home link is current only on the home page.

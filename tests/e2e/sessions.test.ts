@@ -118,11 +118,13 @@ describe("sessions end on the server", () => {
     await page.goto("/portal/admin/users");
     const row = page.getByRole("row", { name: new RegExp(account.email.replace(/[.]/g, "\\.")) });
     await row.getByRole("button", { name: "Deactivate" }).click();
-    await row.getByText("Account deactivated.").waitFor();
+    await page.getByRole("dialog").getByRole("button", { name: "Deactivate account" }).click();
+    await page.getByText("Account deactivated.").waitFor();
     expect(await stillWorks(session)).toEqual(ENDED);
     await page.reload();
     await row.getByRole("button", { name: "Reactivate" }).click();
-    await row.getByText("Account activated.").waitFor();
+    await page.getByRole("dialog").getByRole("button", { name: "Reactivate account" }).click();
+    await page.getByText("Account activated.").waitFor();
     await context.close();
     expect(await stillWorks(session)).toEqual(ENDED);
     expect(await stillWorks(await httpSession(account.email, account.password))).toEqual(WORKS);

@@ -11,7 +11,7 @@ export default async function PortalLayout({ children }: { children: React.React
   const staff = viewer.role !== "cooperator";
   const links: [string, string][] = [["/portal", "Home"], ["/portal/record", "Record data"]];
   if (staff) links.push(["/portal/review", "Review"]);
-  if (staff) links.push(["/portal/trials", "Trials"], ["/portal/sites", "Sites"], ["/portal/catalogue", "Catalogue"], ["/portal/cooperators", "Growers"]);
+  if (staff) links.push(["/portal/trials", "Trials"], ["/portal/seasons", "Seasons"], ["/portal/sites", "Sites"], ["/portal/catalogue", "Catalogue"], ["/portal/cooperators", "Growers"]);
   if (viewer.role === "admin") links.push(["/portal/admin/users", "Users & roles"]);
   if (mailIsCaptured()) links.push(["/portal/mailbox", "Test mailbox"]);
   return (

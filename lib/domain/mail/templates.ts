@@ -7,6 +7,21 @@ export interface OutgoingMail {
 
 const SIGNATURE = "\n\n-- \nSeedplot, on-farm variety trials of the Tamarack Valley Extension District";
 
+/** Invitation for a coordinator or administrator, with the one-time link to set a password. */
+export function staffInviteMail(p: { to: string; name: string; inviterName: string; roleLabel: string; programNames: string[]; link: string }): OutgoingMail {
+  const programs = p.programNames.length > 0 ? ` for ${p.programNames.join(", ")}` : "";
+  return {
+    to: p.to,
+    subject: `You're invited to Seedplot as ${p.roleLabel.toLowerCase()}`,
+    text:
+      `Hello ${p.name},\n\n${p.inviterName} has invited you to Seedplot as ${p.roleLabel.toLowerCase()}${programs}. Seedplot is where ` +
+      `the extension program sets up its variety trials, and partner growers record their plots.\n\n` +
+      `Set your password and sign in here (the link works once, for 7 days):\n${p.link}\n\n` +
+      `If you were not expecting this, you can ignore this message.` +
+      SIGNATURE,
+  };
+}
+
 /** Invitation for a partner grower, with the one-time link to set a password. */
 export function inviteMail(p: { to: string; name: string; inviterName: string; link: string; siteName?: string | null }): OutgoingMail {
   const site = p.siteName ? ` for ${p.siteName}` : "";

@@ -59,3 +59,16 @@ export const PUBLIC_NOT_INCLUDED: Record<Exclude<SiteInclusionReason, "accepted"
   draft: "its data were not complete in time for this version",
   no_data: "no data were recorded",
 };
+
+/** Whether a season still takes new trials. */
+export type SeasonState = "open" | "closed";
+export const SEASON_STATE_LABELS: Record<SeasonState, string> = { open: "Open for new trials", closed: "Closed" };
+export const SEASON_STATE_TONES: Record<SeasonState, Tone> = { open: "good", closed: "neutral" };
+
+/**
+ * Where a person's invitation stands: pending (the link works), expired (it ran out unused), used (they set
+ * their password), cancelled (an admin stopped it, or a newer link replaced it and was not sent on).
+ */
+export type InvitationState = "pending" | "expired" | "used" | "cancelled";
+export const INVITATION_LABELS: Record<InvitationState, string> = { pending: "Invitation pending", expired: "Invitation expired", used: "Invitation used", cancelled: "Invitation cancelled" };
+export const INVITATION_TONES: Record<InvitationState, Tone> = { pending: "info", expired: "warn", used: "good", cancelled: "neutral" };

@@ -19,7 +19,10 @@ export default async function NewTrialPage() {
       <p className="text-loam-700">The trial starts as a draft. Add entries and enrol sites next; plots are laid out per site once entries are final.</p>
       {options.seasons.length === 0 ? (
         <Card>
-          <p>You do not coordinate a program with a season yet. Ask an administrator to add you to a program.</p>
+          <p>
+            None of your programs has an open season. Add one on the <Link href="/portal/seasons">Seasons</Link> page (if you coordinate no program yet,
+            ask an administrator to add you to one).
+          </p>
         </Card>
       ) : (
         <Card>
