@@ -31,6 +31,10 @@ export const DEMO_TRAITS = [
   { code: "marketable_yield", betterWhen: "higher", name: "Marketable yield", unit: "g per plot", valueType: "number", min: 0, max: 20000, dueNote: "At harvest", computation: "none" },
   { code: "quality", betterWhen: "higher", name: "Overall quality", unit: "1-9", valueType: "rating", min: 1, max: 9, dueNote: "At harvest", computation: "none", description: "1 = unmarketable, 5 = acceptable, 9 = excellent." },
   { code: "bolting", betterWhen: "lower", name: "Bolting at harvest", unit: "yes/no", valueType: "yes_no", dueNote: "At harvest", computation: "none" },
+  { code: "maturity_date", betterWhen: "neither", name: "Maturity date", unit: "date", valueType: "date", dueNote: "When most plants are ready to harvest", computation: "days_from_sowing", description: "Analysed as days to maturity from the sowing date." },
+  { code: "first_bloom_date", betterWhen: "neither", name: "First bloom date", unit: "date", valueType: "date", dueNote: "When the first flower opens", computation: "days_from_sowing", description: "Analysed as days to first bloom from the sowing date (flowers)." },
+  { code: "stem_length", betterWhen: "higher", name: "Stem length", unit: "cm", valueType: "number", min: 0, max: 300, dueNote: "At harvest", computation: "none", description: "Cut-flower stems, from the cut to the tip, in centimetres." },
+  { code: "cull_yield", betterWhen: "lower", name: "Cull yield", unit: "g per plot", valueType: "number", min: 0, max: 20000, dueNote: "At harvest", computation: "none", description: "Harvested weight that is not marketable." },
   { code: "plot_notes", betterWhen: "neither", name: "Plot notes", unit: null, valueType: "text", dueNote: "Any time", computation: "none" },
 ] as const;
 

@@ -45,9 +45,43 @@ async function checkTraitsUsable(tx: Tx, programId: number, traitIds: number[], 
   if (found.length !== new Set(traitIds).size) throw new AppError("bad_request", "One of the chosen traits is not in this program's trait library.", { traitIds: ["Choose traits from the list."] });
 }
 
+/**
+ * Sets the trial's traits to `traitIds`. Traits it already records keep their place and direction; new
+ * ones follow them in the order given; traits no longer chosen are dropped.
+ */
 async function replaceTraits(tx: Tx, trialId: number, traitIds: number[]) {
-  await tx.delete(trialTraits).where(eq(trialTraits.trialId, trialId));
-  if (traitIds.length > 0) await tx.insert(trialTraits).values([...new Set(traitIds)].map((traitId, i) => ({ trialId, traitId, sortOrder: i })));
+  const wanted = [...new Set(traitIds)];
+  const existing = await tx.select({ traitId: trialTraits.traitId }).from(trialTraits).where(eq(trialTraits.trialId, trialId)).orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
+  const kept = existing.map((e) => e.traitId).filter((id) => wanted.includes(id));
+  const dropped = existing.map((e) => e.traitId).filter((id) => !wanted.includes(id));
+  if (dropped.length > 0) await tx.delete(trialTraits).where(and(eq(trialTraits.trialId, trialId), inArray(trialTraits.traitId, dropped)));
+  const order = [...kept, ...wanted.filter((id) => !kept.includes(id))];
+  for (const [i, traitId] of order.entries()) {
+    if (kept.includes(traitId)) await tx.update(trialTraits).set({ sortOrder: i }).where(and(eq(trialTraits.trialId, trialId), eq(trialTraits.traitId, traitId)));
+    else await tx.insert(trialTraits).values({ trialId, traitId, sortOrder: i });
+  }
+}
+
+/** What ordering traits needs to know about the chosen ones (see defaultTraitOrder). */
+export async function listOrderableTraits(tx: Tx, traitIds: number[]) {
+  if (traitIds.length === 0) return [];
+  return tx
+    .select({ id: traits.id, code: traits.code, valueType: traits.valueType, dueDaysAfterSowing: traits.dueDaysAfterSowing, dueByDay: traits.dueByDay })
+    .from(traits)
+    .where(inArray(traits.id, traitIds));
+}
+
+/** Moves one of a trial's traits a place up or down in the order the form, sheets and reports follow. Audited. */
+export async function moveTrialTraitRow(tx: Tx, p: { viewer: Viewer; trialId: number; traitId: number; direction: "up" | "down" }): Promise<boolean> {
+  const rows = await tx.select({ id: trialTraits.id, traitId: trialTraits.traitId }).from(trialTraits).where(eq(trialTraits.trialId, p.trialId)).orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id)).for("update");
+  const i = rows.findIndex((r) => r.traitId === p.traitId);
+  if (i < 0) return false;
+  const j = p.direction === "up" ? i - 1 : i + 1;
+  if (j < 0 || j >= rows.length) return true;
+  [rows[i], rows[j]] = [rows[j]!, rows[i]!];
+  for (const [k, r] of rows.entries()) await tx.update(trialTraits).set({ sortOrder: k }).where(eq(trialTraits.id, r.id));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "move_trait", entity: "trial_trait", entityId: p.traitId, trialId: p.trialId, newValue: { direction: p.direction, order: rows.map((r) => r.traitId) } });
+  return true;
 }
 
 /** Inserts a draft trial in a season of one of the viewer's programs, with its traits and an audit entry. */

@@ -99,3 +99,10 @@ export const rollForwardSchema = z.object({
     .regex(/^[A-Z0-9][A-Z0-9-]{2,39}$/, "Use 3–40 letters, digits or dashes, e.g. W28-KALE."),
   title: requiredText("a title", 200, 3),
 });
+
+/** Move one of a trial's traits up or down its order. */
+export const moveTraitSchema = z.object({
+  trialId: id(),
+  traitId: id("Choose a trait."),
+  direction: z.enum(["up", "down"], { error: "Move a trait up or down." }),
+});

@@ -4,8 +4,8 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { traitDirectionSchema } from "@/lib/validation/analysis";
-import { rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
-import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, removeTrialEntry, rollTrialForward, setTraitDirection } from "@/server/trials/design";
+import { moveTraitSchema, rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, moveTrialTrait, removeTrialEntry, rollTrialForward, setTraitDirection } from "@/server/trials/design";
 import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
@@ -90,4 +90,10 @@ export const planNextSeason = defineAction({ roles: STAFF, schema: rollForwardSc
   revalidatePath("/portal/trials");
   revalidatePath(trialPath(input.trialId));
   redirect(trialPath(trialId));
+});
+
+export const moveTrait = defineAction({ roles: STAFF, schema: moveTraitSchema }, async (input, viewer) => {
+  await moveTrialTrait(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: "Trait order saved. The form, sheets, spreadsheet and reports follow it." };
 });

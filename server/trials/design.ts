@@ -13,6 +13,8 @@ import {
   updateTrialStatus,
   updateTrialTraitDirection,
   getTrialForRollForward,
+  listOrderableTraits,
+  moveTrialTraitRow,
   linkRolledForwardTrial,
   type NewTrialRow,
   type TrialDesignRow,
@@ -23,6 +25,7 @@ import { canEditDesign, canEditTraits, designLockReason, statusChangeProblem } f
 import type { BetterWhen, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
 import { AppError } from "@/lib/errors";
+import { defaultTraitOrder } from "@/lib/domain/vocabulary/traits";
 import { enrolSiteInTx } from "./enrolment";
 
 // A trial's set-up: creating it, editing its design and entries, and moving it along its life cycle. The
@@ -30,7 +33,21 @@ import { enrolSiteInTx } from "./enrolment";
 
 /** Creates a draft trial in a season of one of the viewer's programs, with its traits, in one transaction. */
 export async function createTrial(viewer: Viewer, trial: NewTrialRow): Promise<number> {
-  return db.transaction((tx) => insertTrial(tx, { viewer, trial }));
+  return db.transaction(async (tx) => {
+    // The form lists traits alphabetically; the trial records them in the order a grower meets them.
+    const ordered = defaultTraitOrder(await listOrderableTraits(tx, trial.traitIds)).map((t) => t.id);
+    const unknown = trial.traitIds.filter((id) => !ordered.includes(id));
+    return insertTrial(tx, { viewer, trial: { ...trial, traitIds: [...ordered, ...unknown] } });
+  });
+}
+
+/** Moves one of the trial's traits up or down; the form, sheets, spreadsheet, analysis and report follow. */
+export async function moveTrialTrait(viewer: Viewer, input: { trialId: number; traitId: number; direction: "up" | "down" }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    if (trial.status === "archived") throw new AppError("conflict", "This trial is archived, so its settings can no longer change.");
+    if (!(await moveTrialTraitRow(tx, { viewer, ...input }))) throw new AppError("not_found", "That trait is not recorded in this trial.");
+  });
 }
 
 async function trialState(tx: Tx, trial: LockedTrial) {

@@ -50,21 +50,19 @@ export interface SheetColumn {
   when: string;
 }
 
-/** Lists what is recorded on each plot, in due order: scheduled counts by day, then event-timed traits. */
+/** Lists what is recorded on each plot, in the trial's trait order (a scheduled count once per day, in place). */
 export function sheetColumns(
   traits: { id: number; name: string; unit: string | null; dueDaysAfterSowing: number[] | null; dueNote: string | null }[],
   dueDate: (day: number) => string | null,
 ): SheetColumn[] {
-  const scheduled: SheetColumn[] = [];
-  const other: SheetColumn[] = [];
+  const columns: SheetColumn[] = [];
   for (const t of traits) {
     const unit = t.unit ? ` (${t.unit})` : "";
     if (t.dueDaysAfterSowing && t.dueDaysAfterSowing.length > 0) {
-      for (const day of t.dueDaysAfterSowing) scheduled.push({ traitId: t.id, heading: `${t.name}${unit}`, day, when: `Day ${day}${dueDate(day) ? ` · ${dueDate(day)}` : ""}` });
+      for (const day of t.dueDaysAfterSowing) columns.push({ traitId: t.id, heading: `${t.name}${unit}`, day, when: `Day ${day}${dueDate(day) ? ` · ${dueDate(day)}` : ""}` });
     } else {
-      other.push({ traitId: t.id, heading: `${t.name}${unit}`, day: null, when: t.dueNote ?? "When it happens" });
+      columns.push({ traitId: t.id, heading: `${t.name}${unit}`, day: null, when: t.dueNote ?? "When it happens" });
     }
   }
-  scheduled.sort((a, b) => a.day! - b.day!);
-  return [...scheduled, ...other];
+  return columns;
 }

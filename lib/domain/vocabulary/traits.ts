@@ -32,3 +32,26 @@ export const SEED_COUNT_TRAITS = [SEEDS_SOWN_CODE, EMERGED_FINAL_CODE, EMERGENCE
 export function isPublishableTrait(trait: Parameters<typeof isAnalysable>[0] & { code: string }): boolean {
   return isAnalysable(trait) && trait.code !== SEEDS_SOWN_CODE;
 }
+
+/** What the default trait order needs to know about a trait. */
+export interface OrderableTrait {
+  id: number;
+  code: string;
+  valueType: string;
+  dueDaysAfterSowing: number[] | null;
+  dueByDay: number | null;
+}
+
+/**
+ * The order a new trial records its traits in, as a grower meets them: seeds sown first, then traits due
+ * on a day after sowing by that day, then traits an event times (harvest) in the order given, and free-text
+ * notes last. The coordinator can change it afterwards.
+ */
+export function defaultTraitOrder<T extends OrderableTrait>(traits: readonly T[]): T[] {
+  const firstDay = (t: T) => (t.code === SEEDS_SOWN_CODE ? -1 : (t.dueDaysAfterSowing?.[0] ?? t.dueByDay ?? null));
+  const rank = (t: T) => (t.valueType === "text" ? 2 : firstDay(t) === null ? 1 : 0);
+  return traits
+    .map((t, i) => ({ t, i }))
+    .sort((a, b) => rank(a.t) - rank(b.t) || (firstDay(a.t) ?? 0) - (firstDay(b.t) ?? 0) || a.i - b.i)
+    .map(({ t }) => t);
+}

@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { requireRole } from "@/server/auth/guards";
 import { getTrialDetail, getTrialLineage, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
 import { RollForwardForm } from "@/components/trials/roll-forward-form";
+import { TraitOrder } from "@/components/trials/trait-order";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
@@ -103,8 +104,10 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
                 </div>
               )}
               <div className="sm:col-span-2">
-                <dt className="font-semibold">Traits</dt>
-                <dd>{traits.length ? traits.map((t) => t.name).join(" · ") : "None chosen yet"}</dd>
+                <dt className="font-semibold">Traits, in the order growers record them</dt>
+                <dd>
+                  <TraitOrder trialId={trial.id} traits={traits} editable={trial.status !== "archived"} />
+                </dd>
               </div>
             </dl>
           </Card>
