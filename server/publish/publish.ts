@@ -1,4 +1,6 @@
 import "server-only";
+import { getAnalysisTrialStatus } from "@/db/queries/analysis";
+import { publishBlockReason } from "@/lib/domain/design/status";
 import { db } from "@/db/index";
 import { lockTrialForStaff } from "@/db/access";
 import { insertPublishedReport, updateReportsWithdrawn } from "@/db/mutations/publish";
@@ -60,6 +62,10 @@ export async function publishResults(
 ): Promise<{ id: number; version: number }> {
   const latest = await getLatestReportVersion(viewer, { trialId: p.trialId });
   if (latest === null) throw new AppError("not_found", NOT_YOURS);
+  // Said first, before any site list or analysis: the stage is the reason, whatever the data (checked again under the lock).
+  const stage = await getAnalysisTrialStatus(viewer, p.trialId);
+  const notYet = stage === null ? null : publishBlockReason(stage);
+  if (notYet) throw new AppError("conflict", notYet);
   const version = latest + 1;
   if (version > 1 && !p.changeNote) {
     throw new AppError("bad_request", "Say what changed since the last version.", { changeNote: ["A correction needs a change note."] });
@@ -79,8 +85,9 @@ export async function publishResults(
 
   return db.transaction(async (tx) => {
     const trial = await lockTrialForStaff(tx, viewer, p.trialId);
-    if (trial.status === "draft" || trial.status === "archived") {
-      throw new AppError("conflict", `A ${trial.status} trial cannot be published.`);
+    const blocked = publishBlockReason(trial.status);
+    if (blocked) {
+      throw new AppError("conflict", blocked);
     }
     if ((await getLatestReportVersion(viewer, { trialId: p.trialId, tx })) !== latest) {
       throw new AppError("conflict", "Someone published this trial at the same moment. Reload and try again.");

@@ -59,3 +59,27 @@ export function statusChangeProblem(t: TrialState & { entries: number; traits: n
   if (to === "collecting" && (t.sites === 0 || t.randomisedSites < t.sites)) return "Every enrolled site needs a layout before data collection starts.";
   return null;
 }
+
+/** What each stage of a trial means and allows, as the trial page states it. */
+export const STAGE_MEANINGS: Record<TrialStatus, string> = {
+  draft: "Set-up. Entries, design and traits can change. Growers see nothing of the trial yet.",
+  open: "Kits out. Growers see their site, its maps, labels and form, and can record from sowing on. Entries and design can still change until a site is laid out.",
+  collecting: "Recording. Every site is laid out; growers record and send their data for review. A late site can still join.",
+  analysing: "Review and analysis. You accept or return each site's data; unfinished or returned data can still be completed. Publishing is possible from here.",
+  published: "Results are public. Values are locked; a new version can be published after a correction, or the results withdrawn.",
+  archived: "Closed. Nothing changes any more; published results stay public.",
+};
+
+/**
+ * Results are published only after the data review step (analysing), or as a new version of published
+ * results; a trial still recording cannot go straight to the public.
+ */
+export const canPublish = (status: TrialStatus) => status === "analysing" || status === "published";
+
+/** Why a trial cannot be published now, in the coordinator's words, or null. */
+export function publishBlockReason(status: TrialStatus): string | null {
+  if (canPublish(status)) return null;
+  if (status === "archived") return "An archived trial cannot be published.";
+  if (status === "draft") return "A draft trial has no data to publish.";
+  return "Move the trial to Analysing first: that is the review step, where you accept each site's data, and results are published from there.";
+}

@@ -13,7 +13,9 @@ import { TrialEntriesCard, TrialSitesCard } from "@/components/trials/trial-pane
 import { QueryProvider } from "@/components/ui/query-provider";
 import { asJson } from "@/lib/domain/json";
 import { DESIGN_LABELS, PLOT_UNIT_LABELS } from "@/lib/domain/vocabulary/labels";
-import { canEditDesign, canEnrolSites, designLockReason, nextStatus } from "@/lib/domain/design/status";
+import { canEditDesign, canEnrolSites, canPublish, designLockReason, nextStatus, STAGE_MEANINGS } from "@/lib/domain/design/status";
+import { TRIAL_STATUSES } from "@/lib/domain/vocabulary/enums";
+import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -71,7 +73,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           <div className="flex items-center gap-3">
             {(trial.status === "draft" || trial.status === "open") && <Link href={`/portal/trials/${trial.id}/edit`}>Edit details</Link>}
             {progress.observationCount > 0 && <Link href={`/portal/trials/${trial.id}/analysis`}>Analysis</Link>}
-            {progress.observationCount > 0 && trial.status !== "draft" && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
+            {canPublish(trial.status) && <Link href={`/portal/trials/${trial.id}/publish`}>Publish</Link>}
             <TrialStatusBadge status={trial.status} />
           </div>
         </div>
@@ -112,6 +114,14 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             </dl>
           </Card>
           <Card title="Status">
+            <ol className="mb-3 space-y-1 text-sm">
+              {TRIAL_STATUSES.map((s) => (
+                <li key={s} aria-current={s === trial.status ? "step" : undefined} className={s === trial.status ? "rounded-lg bg-sprout-50 p-2 font-semibold" : "px-2 text-loam-700"}>
+                  {STATUS_LABELS[s]}
+                  {s === trial.status ? " (now)" : ""}: <span className="font-normal">{STAGE_MEANINGS[s]}</span>
+                </li>
+              ))}
+            </ol>
             <p className="mb-3 text-sm text-loam-700">{designLockReason(state) ?? "Entries and design can still change."}</p>
             <div className="flex flex-wrap gap-2">
               {next && <StatusButton trialId={trial.id} to={next} />}

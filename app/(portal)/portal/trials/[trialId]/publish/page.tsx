@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { publishBlockReason } from "@/lib/domain/design/status";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
@@ -42,8 +43,8 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
             <SiteInclusionList sites={siteRows} />
           </Card>
           <Card title="Publish a new version">
-            {trial.status === "draft" || trial.status === "archived" ? (
-              <p>A {trial.status} trial cannot be published.</p>
+            {publishBlockReason(trial.status) ? (
+              <p>{publishBlockReason(trial.status)}</p>
             ) : (
               <PublishForm
                 trialId={trial.id}
