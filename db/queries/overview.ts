@@ -73,7 +73,8 @@ export async function listScheduleRows(viewer: Viewer) {
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
     .leftJoin(plots, eq(plots.enrolmentId, enrolments.id))
     .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
-    .where(and(scope, inArray(trials.status, ["open", "collecting"])))
+    // In review, a site whose data are unfinished or returned still owes values, so it stays on the list.
+    .where(and(scope, or(inArray(trials.status, ["open", "collecting"]), and(eq(trials.status, "analysing"), sql`COALESCE(${submissions.status}, 'draft') IN ('draft', 'returned')`))))
     .groupBy(enrolments.id, trials.id, sites.id, submissions.id)
     .orderBy(asc(trials.code), asc(sites.name));
   if (enrolmentRows.length === 0) return { enrolments: enrolmentRows, traits: [], recordedCounts: [] };
