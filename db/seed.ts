@@ -339,7 +339,8 @@ async function seedTrial(
     }
     for (let i = 0; i < observationRows.length; i += 500) await tx.insert(s.observations).values(observationRows.slice(i, i + 500));
 
-    const accepted = trial.status === "analysing" && order !== 2;
+    // One site of a trial still in analysis waits in the review queue; a trial published at seeding has every site accepted.
+    const accepted = trial.status === "analysing" && (trial.publishedAtSeed === true || order !== 2);
     await tx.insert(s.submissions).values({
       enrolmentId: enrolment!.id,
       status: trial.status === "collecting" ? "draft" : accepted ? "accepted" : "submitted",
@@ -348,6 +349,28 @@ async function seedTrial(
       reviewedAt: accepted ? new Date("2026-06-28T10:00:00Z") : null,
       reviewedById: accepted ? p.coordinatorId : null,
     });
+  }
+}
+
+/**
+ * Publishes the demo trials marked `publishedAtSeed` through the real publish use case, as the coordinator,
+ * so their snapshots, versions, audit entries and grower notices are exactly what the publish page makes.
+ * It runs against the app's own database (DATABASE_URL), which is the one `main` seeds. The use case is
+ * server-only code: the seed command runs under the react-server condition (see package.json).
+ */
+async function publishDemoTrials(db: Database) {
+  const { publishResults } = await import("@/server/publish/publish");
+  const { pool } = await import("./index");
+  try {
+    const coordinator = DEMO_STAFF.find((p) => p.role === "coordinator")!;
+    const [[user]] = (await db.execute(sql`SELECT id FROM users WHERE email = ${coordinator.email}`)) as unknown as [[{ id: number }]];
+    const viewer = { id: user!.id, email: coordinator.email, name: coordinator.name, role: coordinator.role };
+    for (const trial of DEMO_TRIALS.filter((t) => t.publishedAtSeed)) {
+      const [[row]] = (await db.execute(sql`SELECT id FROM trials WHERE code = ${trial.code}`)) as unknown as [[{ id: number }]];
+      await publishResults(viewer, { trialId: row!.id, traitId: null, settings: { siteModel: "random", separation: "lsd" }, changeNote: null });
+    }
+  } finally {
+    await pool.end();
   }
 }
 
@@ -362,6 +385,7 @@ async function main() {
       return;
     }
     await seedDemo(db);
+    await publishDemoTrials(db);
     console.log("[seedplot] demo data loaded");
   } finally {
     await pool.end();
