@@ -3,6 +3,7 @@ import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type 
 import { parsePublishedAddress } from "@/lib/domain/publish/address";
 import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import type { PublicTrialCard } from "@/lib/domain/publish/public-view";
 import { AppError } from "@/lib/errors";
 
 // Everything public (pages, /api/public/trials/..., the downloads and the PDF) reads published versions
@@ -52,6 +53,13 @@ export async function requirePublishedSnapshot(code: string, request: Request): 
   return report.snapshot;
 }
 
+/** Like `requirePublishedSnapshot`, with the trial's latest live version number (for the open data API). */
+export async function requirePublishedReport(code: string, request: Request): Promise<{ snapshot: PublicSnapshot; latestVersion: number }> {
+  const report = await getPublicReportAt(code, new URL(request.url).searchParams.get("version"));
+  if (!report || report.kind !== "published") throw new AppError("not_found", "There are no published results at this address.");
+  return { snapshot: report.snapshot, latestVersion: report.latestVersion };
+}
+
 /** A download name such as "TV26-LET-results-v2.pdf". */
 export const downloadName = (s: PublicSnapshot, suffix: string) => `${s.trial.code}-results-v${s.version}.${suffix}`;
 
@@ -62,19 +70,7 @@ async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
   return ids.map((id) => snapshots.get(id)).filter((x): x is PublicSnapshot => x !== undefined);
 }
 
-export interface PublicTrialCard {
-  code: string;
-  title: string;
-  crop: string;
-  cropGroup: string;
-  season: string;
-  year: number;
-  sites: number;
-  entries: string[];
-  publishedAt: string;
-  version: number;
-  summary: string;
-}
+export type { PublicTrialCard };
 
 /** Published trials for the public index, filtered by free text, crop and season. */
 export async function listPublicTrials(filters: { q?: string; crop?: string; season?: string }) {

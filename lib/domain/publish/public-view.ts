@@ -22,3 +22,18 @@ export function toPublicTraitView(result: PublicTraitResult): PublicTraitView {
     combined: result.combined && { cellMeans: result.combined.cellMeans, sites: result.combined.sites },
   };
 }
+
+/** One published trial on the public index (and in the open data API's trial list). */
+export interface PublicTrialCard {
+  code: string;
+  title: string;
+  crop: string;
+  cropGroup: string;
+  season: string;
+  year: number;
+  sites: number;
+  entries: string[];
+  publishedAt: string;
+  version: number;
+  summary: string;
+}
