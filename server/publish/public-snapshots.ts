@@ -2,6 +2,7 @@ import "server-only";
 import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type PublicVersion } from "@/db/queries/public";
 import { parsePublishedAddress } from "@/lib/domain/publish/address";
 import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
+import { publishedUnit } from "@/lib/domain/publish/open-data";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 import type { PublicTrialCard } from "@/lib/domain/publish/public-view";
 import { AppError } from "@/lib/errors";
@@ -113,10 +114,12 @@ export async function getPublicVariety(varietyId: number) {
   return {
     name: appearances[0]!.entry.variety,
     crop: appearances[0]!.s.trial.crop,
-    trials: appearances.map(({ s, entry }) => ({
+    // oldest season first, so the % of check reads as a history
+    trials: [...appearances].sort((a, b) => a.s.trial.year - b.s.trial.year || a.s.publishedAt.localeCompare(b.s.publishedAt)).map(({ s, entry }) => ({
       code: s.trial.code,
       title: s.trial.title,
       season: s.trial.season,
+      year: s.trial.year,
       sites: s.sites.length,
       entriesInTrial: s.entries.length,
       isCheck: entry.isCheck,
@@ -125,10 +128,17 @@ export async function getPublicVariety(varietyId: number) {
         const mine = block?.means.find((m) => m.blindCode === entry.blindCode) ?? null;
         return {
           trait: result.trait.analysedAs,
+          traitCode: result.trait.code,
+          unit: publishedUnit(result.trait),
+          valueType: result.trait.valueType,
+          computation: result.trait.computation,
+          betterWhen: result.trait.betterWhen,
           mean: mine ? (mine.lsMean ?? mine.mean) : null,
           rank: mine?.rank ?? null,
           of: block?.means.length ?? 0,
           letter: mine?.letter ?? null,
+          percentOfCheck: mine?.percentOfCheck ?? null,
+          beyondLsd: mine?.beyondLsd ?? null,
         };
       }),
     })),
