@@ -8,7 +8,11 @@ import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 
 type Row = PublicMean & { shown: string };
 
-const signed = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : "±"}${formatNumber(Math.abs(x))}`;
+/** "+0.92", "−3.08"; a difference that rounds to nothing reads "±0". */
+function signed(x: number): string {
+  const shown = formatNumber(Math.abs(x));
+  return /[1-9]/.test(shown) ? `${x > 0 ? "+" : "−"}${shown}` : "±0";
+}
 
 /** "+152 (beyond the LSD)", "−38 (within the LSD)"; the check itself reads "the check". */
 function againstCheck(m: PublicMean): string {

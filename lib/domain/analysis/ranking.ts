@@ -69,7 +69,7 @@ export function directionLabel(betterWhen: BetterWhen): string {
 }
 
 export interface CheckComparison {
-  /** entry mean as a percentage of the check's (check = 100); null without a check or with a check mean of 0 */
+  /** entry mean as a percentage of the check's (check = 100); null without a check or with a check mean of 0 or below */
   percentOfCheck: number | null;
   /** entry mean minus the check's mean */
   checkDifference: number | null;
@@ -88,7 +88,8 @@ export function compareWithCheck(means: readonly Comparable[], lsd: number | nul
   return means.map((m) => {
     const difference = rankedValue(m) - reference;
     return {
-      percentOfCheck: reference === 0 ? null : (100 * rankedValue(m)) / reference,
+      // a percentage of a check mean at or below zero (a least-squares mean of rare events can dip below) says nothing
+      percentOfCheck: reference <= 0 ? null : (100 * rankedValue(m)) / reference,
       checkDifference: difference,
       beyondLsd: lsd === null ? null : Math.abs(difference) > lsd,
     };
