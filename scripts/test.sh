@@ -32,9 +32,9 @@ rm -rf "$E2E_MAILBOX" "$ROOT/.data/test-mailbox-int" "$ROOT/.data/test-storage"
 
 log "Migrating the test databases"
 DATABASE_URL="$TEST_DATABASE_URL" npx tsx db/migrate.ts
-DATABASE_URL="$TEST_DATABASE_URL" npx tsx --conditions=react-server db/seed.ts --reset >/dev/null
+DATABASE_URL="$TEST_DATABASE_URL" npx tsx db/seed.ts --reset >/dev/null
 DATABASE_URL="$E2E_DATABASE_URL" npx tsx db/migrate.ts
-DATABASE_URL="$E2E_DATABASE_URL" npx tsx --conditions=react-server db/seed.ts --reset
+DATABASE_URL="$E2E_DATABASE_URL" npx tsx db/seed.ts --reset
 
 # The test build lives in its own folder so it never replaces the build a running demo server uses.
 export NEXT_DIST_DIR=.next-test

@@ -40,7 +40,7 @@ start_background .data/fake-smtp.pid .data/fake-smtp.log node_modules/.bin/tsx s
 
 log "Applying migrations"
 npx tsx db/migrate.ts
-npx tsx --conditions=react-server db/seed.ts
+npx tsx db/seed.ts
 
 if [ "${1:-}" != "--no-build" ] || [ ! -f .next/BUILD_ID ]; then
   log "Building the app (about a minute)"

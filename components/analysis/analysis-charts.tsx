@@ -25,6 +25,7 @@ function entryScales(order: string[]) {
 }
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
+// `order` states how the dots are listed (the public pages pass the trait's `orderWords`); the analysis page does not pass it yet.
 export function MeansChart({ means, lsd, label, unit, title, order, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; order?: string; testId?: string }) {
   const rows = inStatedOrder(means).map((m) => {
       const centre = m.lsMean ?? m.mean;
@@ -32,7 +33,7 @@ export function MeansChart({ means, lsd, label, unit, title, order, testId }: { 
       return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };
     });
   const bars = lsd !== null ? `Bars are half an LSD (${formatNumber(lsd)}) each side, so entries whose bars do not overlap differ.` : "Bars are ± one standard error.";
-  const summary = `${title}, ${order ?? "in the order of the table"}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
+  const summary = `${title}, ${order ?? "highest first"}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
   return (
     <Chart
       title={title}
