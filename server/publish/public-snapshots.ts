@@ -3,6 +3,8 @@ import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type 
 import { parsePublishedAddress } from "@/lib/domain/publish/address";
 import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
 import { publishedUnit } from "@/lib/domain/publish/open-data";
+import { inStatedOrder, leaderHeading, rankedValue } from "@/lib/domain/analysis/ranking";
+import { valueWithUnit } from "@/lib/domain/analysis/format";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 import type { PublicTrialCard } from "@/lib/domain/publish/public-view";
 import { AppError } from "@/lib/errors";
@@ -49,9 +51,7 @@ export async function getPublicReportAt(code: string, version: string | null | u
  * not published, withdrawn or malformed is a plain 404, so guessed codes reveal nothing.
  */
 export async function requirePublishedSnapshot(code: string, request: Request): Promise<PublicSnapshot> {
-  const report = await getPublicReportAt(code, new URL(request.url).searchParams.get("version"));
-  if (!report || report.kind !== "published") throw new AppError("not_found", "There are no published results at this address.");
-  return report.snapshot;
+  return (await requirePublishedReport(code, request)).snapshot;
 }
 
 /** Like `requirePublishedSnapshot`, with the trial's latest live version number (for the open data API). */
@@ -153,6 +153,25 @@ export async function getPublicSite(siteId: number) {
   const site = appearances[0]!.sites.find((x) => x.id === siteId)!;
   return {
     site: { name: site.name, kind: site.kind, region: site.region, growingSetup: site.growingSetup, soil: site.soil, irrigation: site.irrigation, publicDescription: site.publicDescription },
-    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season })),
+    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season, leaders: leadersAt(s, site.name) })),
   };
+}
+
+/** Per trait, the variety that came first at one site: best for the trait's direction, or plainly the lowest (earliest). */
+function leadersAt(s: PublicSnapshot, siteName: string) {
+  return s.results.flatMap(({ result }) => {
+    const block = result.perSite.find((p) => p.siteName === siteName)?.result;
+    const first = block ? inStatedOrder(block.means)[0] : undefined;
+    if (!first) return [];
+    return [
+      {
+        trait: result.trait.analysedAs,
+        heading: leaderHeading(result.trait),
+        variety: first.varietyName ?? first.blindCode,
+        value: valueWithUnit(result.trait, rankedValue(first)),
+        percentOfCheck: first.percentOfCheck,
+        isCheck: first.isCheck,
+      },
+    ];
+  });
 }

@@ -229,7 +229,7 @@ describe("MariaDB stopped and started again under a running next start", () => {
 
     // What people see: the page's own message in place of the content, with a way to try again.
     const message = (p: Page) => p.getByRole("alert").filter({ hasText: "could not load" }).textContent({ timeout: HANG_MS });
-    await visitor.page.getByRole("link", { name: "Results" }).click();
+    await visitor.page.getByRole("link", { name: "Results", exact: true }).click();
     await expect(message(visitor.page)).resolves.toMatch(/This page could not load.*trouble reaching its data/);
     const reader = await tab();
     expect((await reader.page.goto("/results"))?.status()).toBe(500);
