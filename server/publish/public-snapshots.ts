@@ -157,7 +157,10 @@ export async function getPublicSite(siteId: number) {
   };
 }
 
-/** Per trait, the variety that came first at one site: best for the trait's direction, or plainly the lowest (earliest). */
+/**
+ * Per trait, the variety that came first at one site: best for the trait's direction, or plainly the lowest
+ * (earliest) when the trait has none; with the site's variety test, since a leader among equals means little.
+ */
 function leadersAt(s: PublicSnapshot, siteName: string) {
   return s.results.flatMap(({ result }) => {
     const block = result.perSite.find((p) => p.siteName === siteName)?.result;
@@ -166,6 +169,9 @@ function leadersAt(s: PublicSnapshot, siteName: string) {
     return [
       {
         trait: result.trait.analysedAs,
+        // a site whose varieties did not differ clearly has no leader worth naming
+        clear: block!.entryP !== null && block!.entryP < 0.05,
+        entryP: block!.entryP,
         heading: leaderHeading(result.trait),
         variety: first.varietyName ?? first.blindCode,
         value: valueWithUnit(result.trait, rankedValue(first)),

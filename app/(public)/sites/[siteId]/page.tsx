@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicSite } from "@/server/publish/public-snapshots";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
-import { formatNumber } from "@/lib/domain/analysis/format";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 
 type Params = Promise<{ siteId: string }>;
@@ -45,10 +45,16 @@ export default async function PublicSitePage({ params }: { params: Params }) {
               <dl className="mt-2 space-y-1 text-sm" aria-label={`What came first at ${site.name}`}>
                 {t.leaders.map((l) => (
                   <div key={l.trait}>
-                    <dt className="inline font-semibold">{l.trait}, {l.heading.charAt(0).toLowerCase()}{l.heading.slice(1)}: </dt>
+                    <dt className="inline font-semibold">{l.clear ? `${l.trait}, ${l.heading.charAt(0).toLowerCase()}${l.heading.slice(1)}: ` : `${l.trait}: `}</dt>
                     <dd className="inline">
-                      {l.variety}, {l.value}
-                      {l.isCheck ? " (the check)" : l.percentOfCheck !== null ? ` (${formatNumber(l.percentOfCheck, 0)}% of check)` : ""}
+                      {l.clear ? (
+                        <>
+                          {l.variety}, {l.value}
+                          {l.isCheck ? " (the check)" : l.percentOfCheck !== null ? ` (${formatNumber(l.percentOfCheck, 0)}% of check)` : ""}
+                        </>
+                      ) : (
+                        `the varieties did not differ clearly here (${formatP(l.entryP)}).`
+                      )}
                     </dd>
                   </div>
                 ))}
