@@ -61,6 +61,11 @@ export interface DemoTrial {
   crop: (typeof DEMO_CROPS)[number]["name"];
   season: "spring" | "winter";
   status: "analysing" | "collecting";
+  /**
+   * Published when the demo is loaded (every site accepted, then the publish use case), so a newcomer sees
+   * results, variety pages and the PDF at once; the other analysing trial keeps one site in review.
+   */
+  publishedAtSeed?: boolean;
   blocks: number;
   plotUnit: "insert" | "bed_row";
   plotSize: number;
@@ -100,6 +105,7 @@ export const DEMO_TRIALS: DemoTrial[] = [
     crop: "Spinach",
     season: "spring",
     status: "analysing",
+    publishedAtSeed: true,
     blocks: 3,
     plotUnit: "bed_row",
     plotSize: 12,

@@ -1,5 +1,7 @@
 import Link from "next/link";
 import { buttonClasses } from "@/components/ui/button";
+import { listPublicTrials } from "@/server/publish/public-snapshots";
+import { OPENAPI_PATH } from "@/lib/domain/publish/open-data";
 
 export const dynamic = "force-dynamic";
 
@@ -10,7 +12,8 @@ const STEPS = [
   { title: "Analyse and publish", text: "Staff check the data, compare varieties within and across sites, and publish plain-language results." },
 ];
 
-export default function HomePage() {
+export default async function HomePage() {
+  const latest = (await listPublicTrials({})).trials.slice(0, 4);
   return (
     <div>
       <section className="bg-loam-900 text-white">
@@ -24,7 +27,10 @@ export default function HomePage() {
               publishes which varieties did well where — and how sure we are.
             </p>
             <div className="mt-8 flex flex-wrap gap-3">
-              <Link href="/sign-in" className={buttonClasses("primary")}>
+              <Link href="/results" className={buttonClasses("primary")}>
+                See the results
+              </Link>
+              <Link href="/sign-in" className={buttonClasses("secondary")}>
                 Partner sign-in
               </Link>
             </div>
@@ -44,6 +50,23 @@ export default function HomePage() {
           </dl>
         </div>
       </section>
+      {latest.length > 0 && (
+        <section className="mx-auto max-w-6xl px-4 pt-12" aria-labelledby="latest">
+          <h2 id="latest" className="text-2xl font-bold">Latest results</h2>
+          <ul className="mt-4 grid gap-4 md:grid-cols-2">
+            {latest.map((t) => (
+              <li key={t.code} className="rounded-xl border border-husk-200 bg-white p-5">
+                <p className="text-sm font-semibold text-sprout-700">{t.crop} · {t.season}</p>
+                <h3 className="mt-1 text-lg font-bold"><Link href={`/results/${t.code}`}>{t.title}</Link></h3>
+                <p className="mt-2">{t.summary}</p>
+              </li>
+            ))}
+          </ul>
+          <p className="mt-4 text-sm text-loam-700">
+            <Link href="/results">All published results</Link> · open data for your own analysis: <a href={OPENAPI_PATH}>the JSON API and its description</a>
+          </p>
+        </section>
+      )}
       <section className="mx-auto max-w-6xl px-4 py-12" aria-labelledby="how">
         <h2 id="how" className="text-2xl font-bold">How a season works</h2>
         <ol className="mt-6 grid gap-4 md:grid-cols-4">

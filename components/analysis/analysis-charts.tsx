@@ -36,14 +36,15 @@ function entryScales(order: string[]) {
 }
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
-export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; direction?: ChartDirection; testId?: string }) {
+// `order` states how the dots are listed when a caller words it itself; otherwise the direction says it.
+export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, order, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; direction?: ChartDirection; order?: string; testId?: string }) {
   const rows = inStatedOrder(means).map((m) => {
       const centre = m.lsMean ?? m.mean;
       const half = lsd !== null ? lsd / 2 : m.se;
       return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };
     });
   const bars = lsd !== null ? `Bars are half an LSD (${formatNumber(lsd)}) each side, so entries whose bars do not overlap differ.` : "Bars are ± one standard error.";
-  const summary = `${title}, ${orderWords(direction)}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
+  const summary = `${title}, ${order ?? orderWords(direction)}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
   return (
     <Chart
       title={title}

@@ -3,10 +3,10 @@ import { listAnalysisTraits } from "@/db/queries/analysis";
 import { getPublishContext } from "@/db/queries/publish";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { analysedAs } from "@/lib/domain/analysis/values";
-import { isPublishableTrait } from "@/lib/domain/vocabulary/traits";
+import { EMERGED_TRAIT_CODES, isPublishableTrait, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { loadAnalysisInput } from "@/server/analysis/load-analysis";
 import { AppError } from "@/lib/errors";
-import type { AnalysisResult } from "@/lib/domain/analysis/types";
+import type { AnalysisInput, AnalysisResult } from "@/lib/domain/analysis/types";
 import type { Viewer } from "@/lib/domain/viewer";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { summariseForGrowers } from "@/lib/domain/publish/summary";
@@ -28,9 +28,11 @@ export async function buildSnapshot(
   if (candidates.length === 0) throw new AppError("conflict", "This trial has no recorded data yet, so there is nothing to publish.");
 
   const results: { traitId: number; result: AnalysisResult }[] = [];
+  let seedCounts = new Map<string, { sown: number | null; emerged: number | null }>();
   for (const trait of candidates) {
     const input = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
     if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    if (seedCounts.size === 0) seedCounts = seedCountsByPlot(input);
     const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation }, { forPublication: true });
     // Who recorded an exclusion and the staff's note stay in the portal; the category is the public reason.
     result.exclusions = result.exclusions.map((e) => ({ ...e, note: null, createdBy: null }));
@@ -79,19 +81,45 @@ export async function buildSnapshot(
     })),
     results,
     summary: summariseForGrowers(usable.map((r) => r.result)),
-    data: results.flatMap(({ result }) =>
-      result.plots.map((plot) => ({
+    data: results.flatMap(({ result }) => {
+      const missingReason = new Map(result.missing.map((m) => [m.plotCode, m.reason]));
+      return result.plots.map((plot) => ({
         site: plot.siteName,
         block: plot.block,
         plotCode: plot.plotCode,
         blindCode: plot.blindCode,
         variety: plot.varietyName ?? plot.blindCode,
         trait: result.trait.analysedAs,
-        unit: result.trait.unit,
+        // a date trait is published as whole days from sowing (or transplanting), so its unit is days
+        unit: result.trait.computation !== "none" || result.trait.valueType === "date" ? "days" : result.trait.unit,
         value: plot.value,
         status: plot.status,
-      })),
-    ),
+        // an excluded plot's reason is the coordinator's; only a missing plot's recorded reason is published
+        missingReason: plot.status === "missing" ? (missingReason.get(plot.plotCode) ?? "not recorded") : null,
+        seedsSown: seedCounts.get(plot.plotCode)?.sown ?? null,
+        emerged: seedCounts.get(plot.plotCode)?.emerged ?? null,
+      }));
+    }),
     citation: `${trial.program}. ${trial.title} (${trial.code}), ${trial.season}, version ${p.version}, published ${formatDate(published)}. Seedplot.`,
   };
+}
+
+/** Each plot's seeds sown and final seedling count (the last count of the emergence occasions), by plot code. */
+function seedCountsByPlot(input: AnalysisInput): Map<string, { sown: number | null; emerged: number | null }> {
+  const codeOfTrait = new Map(input.traits.map((t) => [t.id, t.code]));
+  const codeOfPlot = new Map(input.plots.map((p) => [p.id, p.plotCode]));
+  const counts = new Map<string, { sown: number | null; emerged: number | null; emergedOccasion: number }>();
+  for (const o of input.observations) {
+    const trait = codeOfTrait.get(o.traitId);
+    const plotCode = codeOfPlot.get(o.plotId);
+    if (!trait || !plotCode || o.valueNumber === null) continue;
+    const row = counts.get(plotCode) ?? { sown: null, emerged: null, emergedOccasion: -1 };
+    if (trait === SEEDS_SOWN_CODE) row.sown = o.valueNumber;
+    else if (EMERGED_TRAIT_CODES.includes(trait) && o.occasion >= row.emergedOccasion) {
+      row.emerged = o.valueNumber;
+      row.emergedOccasion = o.occasion;
+    }
+    counts.set(plotCode, row);
+  }
+  return new Map([...counts].map(([code, c]) => [code, { sown: c.sown, emerged: c.emerged }]));
 }

@@ -2,7 +2,11 @@ import "server-only";
 import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type PublicVersion } from "@/db/queries/public";
 import { parsePublishedAddress } from "@/lib/domain/publish/address";
 import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
+import { publishedUnit } from "@/lib/domain/publish/open-data";
+import { inStatedOrder, leaderHeading, rankedValue } from "@/lib/domain/analysis/ranking";
+import { valueWithUnit } from "@/lib/domain/analysis/format";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
+import type { PublicTrialCard } from "@/lib/domain/publish/public-view";
 import { AppError } from "@/lib/errors";
 
 // Everything public (pages, /api/public/trials/..., the downloads and the PDF) reads published versions
@@ -47,9 +51,14 @@ export async function getPublicReportAt(code: string, version: string | null | u
  * not published, withdrawn or malformed is a plain 404, so guessed codes reveal nothing.
  */
 export async function requirePublishedSnapshot(code: string, request: Request): Promise<PublicSnapshot> {
+  return (await requirePublishedReport(code, request)).snapshot;
+}
+
+/** Like `requirePublishedSnapshot`, with the trial's latest live version number (for the open data API). */
+export async function requirePublishedReport(code: string, request: Request): Promise<{ snapshot: PublicSnapshot; latestVersion: number }> {
   const report = await getPublicReportAt(code, new URL(request.url).searchParams.get("version"));
   if (!report || report.kind !== "published") throw new AppError("not_found", "There are no published results at this address.");
-  return report.snapshot;
+  return { snapshot: report.snapshot, latestVersion: report.latestVersion };
 }
 
 /** A download name such as "TV26-LET-results-v2.pdf". */
@@ -62,19 +71,7 @@ async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
   return ids.map((id) => snapshots.get(id)).filter((x): x is PublicSnapshot => x !== undefined);
 }
 
-export interface PublicTrialCard {
-  code: string;
-  title: string;
-  crop: string;
-  cropGroup: string;
-  season: string;
-  year: number;
-  sites: number;
-  entries: string[];
-  publishedAt: string;
-  version: number;
-  summary: string;
-}
+export type { PublicTrialCard };
 
 /** Published trials for the public index, filtered by free text, crop and season. */
 export async function listPublicTrials(filters: { q?: string; crop?: string; season?: string }) {
@@ -117,10 +114,12 @@ export async function getPublicVariety(varietyId: number) {
   return {
     name: appearances[0]!.entry.variety,
     crop: appearances[0]!.s.trial.crop,
-    trials: appearances.map(({ s, entry }) => ({
+    // oldest season first, so the % of check reads as a history
+    trials: [...appearances].sort((a, b) => a.s.trial.year - b.s.trial.year || a.s.publishedAt.localeCompare(b.s.publishedAt)).map(({ s, entry }) => ({
       code: s.trial.code,
       title: s.trial.title,
       season: s.trial.season,
+      year: s.trial.year,
       sites: s.sites.length,
       entriesInTrial: s.entries.length,
       isCheck: entry.isCheck,
@@ -129,10 +128,17 @@ export async function getPublicVariety(varietyId: number) {
         const mine = block?.means.find((m) => m.blindCode === entry.blindCode) ?? null;
         return {
           trait: result.trait.analysedAs,
+          traitCode: result.trait.code,
+          unit: publishedUnit(result.trait),
+          valueType: result.trait.valueType,
+          computation: result.trait.computation,
+          betterWhen: result.trait.betterWhen,
           mean: mine ? (mine.lsMean ?? mine.mean) : null,
           rank: mine?.rank ?? null,
           of: block?.means.length ?? 0,
           letter: mine?.letter ?? null,
+          percentOfCheck: mine?.percentOfCheck ?? null,
+          beyondLsd: mine?.beyondLsd ?? null,
         };
       }),
     })),
@@ -147,6 +153,37 @@ export async function getPublicSite(siteId: number) {
   const site = appearances[0]!.sites.find((x) => x.id === siteId)!;
   return {
     site: { name: site.name, kind: site.kind, region: site.region, growingSetup: site.growingSetup, soil: site.soil, irrigation: site.irrigation, publicDescription: site.publicDescription },
-    trials: appearances.map((s) => ({ code: s.trial.code, title: s.trial.title, season: s.trial.season, inResults: !s.coverage.notIncluded.some((x) => x.name === site.name) })),
+    trials: appearances.map((s) => ({
+      code: s.trial.code,
+      title: s.trial.title,
+      season: s.trial.season,
+      inResults: !s.coverage.notIncluded.some((x) => x.name === site.name),
+      leaders: leadersAt(s, site.name),
+    })),
   };
+}
+
+/**
+ * Per trait, the variety that came first at one site: best for the trait's direction, or plainly the lowest
+ * (earliest) when the trait has none; with the site's variety test, since a leader among equals means little.
+ */
+function leadersAt(s: PublicSnapshot, siteName: string) {
+  return s.results.flatMap(({ result }) => {
+    const block = result.perSite.find((p) => p.siteName === siteName)?.result;
+    const first = block ? inStatedOrder(block.means)[0] : undefined;
+    if (!first) return [];
+    return [
+      {
+        trait: result.trait.analysedAs,
+        // a site whose varieties did not differ clearly has no leader worth naming
+        clear: block!.entryP !== null && block!.entryP < 0.05,
+        entryP: block!.entryP,
+        heading: leaderHeading(result.trait),
+        variety: first.varietyName ?? first.blindCode,
+        value: valueWithUnit(result.trait, rankedValue(first)),
+        percentOfCheck: first.percentOfCheck,
+        isCheck: first.isCheck,
+      },
+    ];
+  });
 }

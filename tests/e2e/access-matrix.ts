@@ -19,7 +19,7 @@ export type Outcome = "ok" | "signin" | "deny" | "missing" | "unauth" | "refused
 export interface SampleIds {
   /** Collecting, never published during the run. */
   kal: number;
-  /** Analysing, never published during the run. */
+  /** Published when the demo is loaded (its analysis stays staff-only: no site shares it). */
   spn: number;
   /** Willow Bend Farm (cooperator A) and Cedar Hollow Market Garden (cooperator B), both in TV27-KAL. */
   siteA: number;
@@ -78,17 +78,26 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "PAGE /results": [{ note: "index", path: () => "/results", expect: everyone("ok") }],
   "PAGE /results/[code]": [
     { note: "unpublished kale", path: () => "/results/TV27-KAL", expect: everyone("missing") },
-    { note: "unpublished spinach", path: () => "/results/TV26-SPN", expect: everyone("missing") },
+    { note: "published spinach (the demo publishes it)", path: () => "/results/TV26-SPN", expect: everyone("ok") },
   ],
-  "GET /results/[code]/data": [{ note: "unpublished spinach csv", path: () => "/results/TV26-SPN/data?format=csv", expect: everyone("missing") }],
+  "GET /results/[code]/data": [
+    { note: "unpublished kale csv", path: () => "/results/TV27-KAL/data?format=csv", expect: everyone("missing") },
+    { note: "published spinach means csv", path: () => "/results/TV26-SPN/data?format=csv&table=means", expect: everyone("ok") },
+  ],
   "GET /results/[code]/report": [{ note: "unpublished kale pdf", path: () => "/results/TV27-KAL/report", expect: everyone("missing") }],
   "PAGE /sites/[siteId]": [{ note: "site only in an unpublished trial", path: (i) => `/sites/${i.unpublishedSite}`, expect: everyone("missing") }],
   "PAGE /varieties/[varietyId]": [{ note: "variety only in unpublished trials", path: (i) => `/varieties/${i.unpublishedVariety}`, expect: everyone("missing") }],
-  "GET /api/public/trials": [{ note: "published list", path: () => "/api/public/trials", expect: everyone("ok") }],
-  "GET /api/public/trials/[code]": [
-    { note: "unpublished kale", path: () => "/api/public/trials/TV27-KAL", expect: everyone("missing") },
-    { note: "unpublished spinach", path: () => "/api/public/trials/TV26-SPN", expect: everyone("missing") },
+  // The first public JSON addresses redirect to the open data API, which answers anonymously with published versions only.
+  "GET /api/public/trials": [{ note: "first list address", path: () => "/api/public/trials", expect: everyone({ redirect: "/api/public/v1/trials" }) }],
+  "GET /api/public/trials/[code]": [{ note: "first trial address", path: () => "/api/public/trials/TV27-KAL", expect: everyone({ redirect: "/api/public/v1/trials/TV27-KAL" }) }],
+  "GET /api/public/v1/trials": [{ note: "published list", path: () => "/api/public/v1/trials", expect: everyone("ok") }],
+  "GET /api/public/v1/trials/[code]": [
+    { note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL", expect: everyone("missing") },
+    { note: "published spinach", path: () => "/api/public/v1/trials/TV26-SPN", expect: everyone("ok") },
   ],
+  "GET /api/public/v1/trials/[code]/results": [{ note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL/results", expect: everyone("missing") }],
+  "GET /api/public/v1/trials/[code]/plots": [{ note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL/plots", expect: everyone("missing") }],
+  "GET /api/public/v1/openapi.json": [{ note: "the API description", path: () => "/api/public/v1/openapi.json", expect: everyone("ok") }],
 
   // Sign-in and account pages.
   "PAGE /sign-in": [{ note: "signed-in people go home", path: () => "/sign-in", expect: signedIn({ redirect: "/portal" }, "ok") }],

@@ -7,8 +7,10 @@ import { launchBrowser, newPage, signIn } from "../helpers/browser";
 import { httpSession, request } from "../helpers/http";
 
 // A grower whose spinach site's results are shared opens the analysis in a real browser and over plain
-// HTTP. The spinach trial is never published during the run, so the key must stay with staff: nothing
-// in the page, its data or the site's downloads may tell which blind code is which variety.
+// HTTP before the trial is published, so the key must stay with staff: nothing in the page, its data or
+// the site's downloads may tell which blind code is which variety. The demo ships the spinach trial
+// published, so this file puts the trial back in analysis for its run (the stored versions stay) and
+// restores it afterwards.
 
 const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
 const SPINACH = DEMO_TRIALS.find((t) => t.code === "TV26-SPN")!;
@@ -31,12 +33,14 @@ function expectBlind(where: string, text: string) {
 beforeAll(async () => {
   const [rows] = await e2e.pool.query("SELECT t.id AS trialId, s.id AS siteId FROM trials t JOIN enrolments e ON e.trial_id = t.id JOIN sites s ON s.id = e.site_id WHERE t.code = ? AND s.name = ?", [SPINACH.code, GROWER.name]);
   ({ trialId, siteId } = (rows as { trialId: number; siteId: number }[])[0]!);
+  await e2e.pool.query("UPDATE trials SET status = 'analysing' WHERE id = ?", [trialId]);
   await setShared(true);
   browser = await launchBrowser();
 });
 
 afterAll(async () => {
   await setShared(false);
+  await e2e.pool.query("UPDATE trials SET status = 'published' WHERE id = ?", [trialId]);
   await browser?.close();
   await e2e.pool.end();
 });

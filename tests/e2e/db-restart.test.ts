@@ -90,7 +90,7 @@ async function storedValue() {
 
 /** The answers a database outage must give: the API a 503 in JSON, pages a 5xx, saves a 503 that wrote nothing. */
 async function expectOutageAnswers() {
-  const api = await call("/api/public/trials");
+  const api = await call("/api/public/v1/trials");
   expect(api.status).toBe(503);
   expect(api.headers.get("retry-after")).toBe("30");
   const body = JSON.parse(api.text) as { error: string; code: string };
@@ -213,7 +213,7 @@ async function tab(): Promise<{ context: BrowserContext; page: Page }> {
 describe("MariaDB stopped and started again under a running next start", () => {
   it("answers plainly while it is stopped, and normally once it is back, without restarting the app", async () => {
     const appPid = next.pid;
-    expect((await call("/api/public/trials")).status).toBe(200);
+    expect((await call("/api/public/v1/trials")).status).toBe(200);
     expect((await call("/results")).status).toBe(200);
     expect((await call("/portal")).status).toBe(200);
     const saved = await save("41");
@@ -229,7 +229,7 @@ describe("MariaDB stopped and started again under a running next start", () => {
 
     // What people see: the page's own message in place of the content, with a way to try again.
     const message = (p: Page) => p.getByRole("alert").filter({ hasText: "could not load" }).textContent({ timeout: HANG_MS });
-    await visitor.page.getByRole("link", { name: "Results" }).click();
+    await visitor.page.getByRole("link", { name: "Results", exact: true }).click();
     await expect(message(visitor.page)).resolves.toMatch(/This page could not load.*trouble reaching its data/);
     const reader = await tab();
     expect((await reader.page.goto("/results"))?.status()).toBe(500);
@@ -242,7 +242,7 @@ describe("MariaDB stopped and started again under a running next start", () => {
     await maria.start();
     expect(next.pid).toBe(appPid);
     expect(nextExited).toBe(false);
-    expect((await call("/api/public/trials")).status).toBe(200);
+    expect((await call("/api/public/v1/trials")).status).toBe(200);
     expect((await call("/results")).status).toBe(200);
     expect((await call("/portal")).status).toBe(200);
     // The refused save left the earlier value alone; a new one goes through.
@@ -268,7 +268,7 @@ describe("MariaDB stopped and started again under a running next start", () => {
     const poller = (async () => {
       while (polling) {
         const startedAt = Date.now();
-        const status = await call("/api/public/trials").then((r) => r.status, () => "failed" as const);
+        const status = await call("/api/public/v1/trials").then((r) => r.status, () => "failed" as const);
         seen.push({ startedAt, endedAt: Date.now(), status });
         await sleep(25);
       }

@@ -21,7 +21,7 @@ export async function loadSampleIds(pool: Pool): Promise<SampleIds> {
   );
   const unpublishedVariety = await one(
     pool,
-    "SELECT te.variety_id AS id FROM trial_entries te JOIN trials t ON t.id = te.trial_id GROUP BY te.variety_id HAVING SUM(t.code NOT IN ('TV27-KAL', 'TV26-SPN')) = 0 ORDER BY te.variety_id LIMIT 1",
+    "SELECT te.variety_id AS id FROM trial_entries te JOIN trials t ON t.id = te.trial_id GROUP BY te.variety_id HAVING SUM(t.code <> 'TV27-KAL') = 0 ORDER BY te.variety_id LIMIT 1",
     [],
   );
   const variety = await one(pool, "SELECT variety_id AS id FROM trial_entries WHERE trial_id = ? ORDER BY id LIMIT 1", [kal]);

@@ -15,8 +15,10 @@ import { DEMO_STAFF } from "@/db/demo-data";
 // has a site whose data were submitted but not accepted, and here one site shares its results with its
 // grower: neither fact, nor any internal id, may reach a public output.
 
-const { GET: publicJson } = await import("@/app/api/public/trials/[code]/route");
-const { GET: publicList } = await import("@/app/api/public/trials/route");
+const { GET: publicJson } = await import("@/app/api/public/v1/trials/[code]/route");
+const { GET: publicResults } = await import("@/app/api/public/v1/trials/[code]/results/route");
+const { GET: publicPlots } = await import("@/app/api/public/v1/trials/[code]/plots/route");
+const { GET: publicList } = await import("@/app/api/public/v1/trials/route");
 const { GET: publicData } = await import("@/app/(public)/results/[code]/data/route");
 const { GET: publicReport } = await import("@/app/(public)/results/[code]/report/route");
 const { getPublicSite, getPublicVariety } = await import("@/server/publish/public-snapshots");
@@ -96,13 +98,17 @@ describe("public outputs carry only what a reader needs", () => {
     const [row] = await db.select({ snapshot: s.publishedReports.snapshot }).from(s.publishedReports).where(eq(s.publishedReports.trialId, trial.id));
     expect(row!.snapshot).toMatch(/"shared":true/);
     expect(row!.snapshot).toMatch(/not accepted yet/);
-    const res = await publicJson(new Request(`http://t/api/public/trials/${CODE}`), { params: Promise.resolve({ code: CODE }) });
+    const ctx = { params: Promise.resolve({ code: CODE }) };
+    const res = await publicJson(new Request(`http://t/api/public/v1/trials/${CODE}`), ctx);
     expect(res.status).toBe(200);
     const json = await res.json();
-    expect(json.trial.code).toBe(CODE);
-    expect(json.results.length).toBeGreaterThan(0);
+    expect(json.code).toBe(CODE);
     expectNoInternalState(json);
-    const list = await (await publicList(new Request(`http://t/api/public/trials?q=${CODE}`))).json();
+    const results = await (await publicResults(new Request(`http://t/api/public/v1/trials/${CODE}/results`), ctx)).json();
+    expect(results.results.length).toBeGreaterThan(0);
+    expectNoInternalState(results);
+    expectNoInternalState(await (await publicPlots(new Request(`http://t/api/public/v1/trials/${CODE}/plots`), ctx)).json());
+    const list = await (await publicList(new Request(`http://t/api/public/v1/trials?q=${CODE}`))).json();
     expect(list.trials.map((x: { code: string }) => x.code)).toContain(CODE);
     expectNoInternalState(list);
   });

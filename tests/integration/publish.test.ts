@@ -19,10 +19,13 @@ import { DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 import { testDatabase } from "../helpers/db";
 
 const { db, pool } = testDatabase();
-// The spinach trial is published here; the other test files leave it alone.
+// The spinach trial is published here from scratch. The demo ships it published, so this file sets aside
+// its stored versions and status first and puts them back afterwards, with the yield value it edits.
 const TRIAL = DEMO_TRIALS.find((t) => t.code === "TV26-SPN")!;
 let coordinator: Viewer;
 let trialId: number;
+let shipped: { reports: (typeof s.publishedReports.$inferSelect)[]; status: (typeof s.trials.$inferSelect)["status"] };
+let editedYield: { id: number; value: number } | null = null;
 // The last outbox row before these tests, so only the mail they queue is counted.
 let mailMark = 0;
 
@@ -45,8 +48,11 @@ let excludedSite: string;
 beforeAll(async () => {
   const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, DEMO_STAFF[1].email));
   coordinator = u!;
-  const [t] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, TRIAL.code));
+  const [t] = await db.select({ id: s.trials.id, status: s.trials.status }).from(s.trials).where(eq(s.trials.code, TRIAL.code));
   trialId = t!.id;
+  shipped = { reports: await db.select().from(s.publishedReports).where(eq(s.publishedReports.trialId, trialId)), status: t!.status };
+  await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, trialId));
+  await db.update(s.trials).set({ status: "analysing" }).where(eq(s.trials.id, trialId));
   const [last] = await db.select({ id: s.mailOutbox.id }).from(s.mailOutbox).orderBy(desc(s.mailOutbox.id)).limit(1);
   mailMark = last?.id ?? 0;
   // One plot left out of marketable yield only, and one accepted site left out of bolting only.
@@ -86,7 +92,11 @@ const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, su
 afterAll(async () => {
   for (const id of exclusionIds) await deleteExclusion(coordinator, { trialId, exclusionId: id });
   // The notices stay out of other files' delivery runs.
-  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published%")));
+  await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
+  if (editedYield) await db.update(s.observations).set({ valueNumber: editedYield.value }).where(eq(s.observations.id, editedYield.id));
+  await db.delete(s.publishedReports).where(eq(s.publishedReports.trialId, trialId));
+  if (shipped.reports.length > 0) await db.insert(s.publishedReports).values(shipped.reports);
+  await db.update(s.trials).set({ status: shipped.status }).where(eq(s.trials.id, trialId));
   await pool.end();
   await appPool.end();
 });
@@ -152,6 +162,7 @@ describe("publishing a trial", () => {
       .innerJoin(s.traits, eq(s.traits.id, s.observations.traitId))
       .where(and(eq(s.plots.trialId, trialId), eq(s.traits.code, "marketable_yield"), sql`${s.observations.valueNumber} IS NOT NULL`))
       .limit(1);
+    editedYield = { id: plot!.id, value: plot!.value! };
     await db.update(s.observations).set({ valueNumber: plot!.value! + 5000 }).where(eq(s.observations.id, plot!.id));
 
     const still = await getPublicReport(TRIAL.code);

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { listPublicTrials } from "@/server/publish/public-snapshots";
 import { SelectField, TextField } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
+import { API_BASE, OPENAPI_PATH } from "@/lib/domain/publish/open-data";
 
 export const metadata: Metadata = {
   title: "Variety trial results",
@@ -21,7 +22,8 @@ export default async function ResultsIndex({ searchParams }: { searchParams: Sea
       <h1 className="text-3xl font-bold">Variety trial results</h1>
       <p className="mt-2 max-w-3xl text-loam-700">
         Results our partner farms and gardens grew, with the varieties named. Each trial page has a plain-language summary, the
-        numbers behind it, a PDF report and the data.
+        numbers behind it, a PDF report and the data. Programs and researchers can read every published trial as open JSON from{" "}
+        <a href={`${API_BASE}/trials`}>the open data API</a> (<a href={OPENAPI_PATH}>OpenAPI description</a>).
       </p>
       <form role="search" aria-label="Find results" className="mt-6 grid gap-3 rounded-xl border border-husk-200 bg-white p-4 sm:grid-cols-[2fr_1fr_1fr_auto]">
         <TextField label="Search" name="q" id="q" defaultValue={filters.q} placeholder="Crop, variety or trial" />

@@ -108,6 +108,13 @@ export interface PublicTraitResult {
   } | null;
 }
 
+/** One plot's published value: dates as days (unit "days"), a missing plot with its reason, the plot's seed counts. */
+export interface PublicValue extends Omit<PublishedValue, "missingReason" | "seedsSown" | "emerged"> {
+  missingReason: string | null;
+  seedsSown: number | null;
+  emerged: number | null;
+}
+
 export interface PublicSnapshot {
   version: number;
   publishedAt: string;
@@ -138,7 +145,7 @@ export interface PublicSnapshot {
   traits: PublicTrait[];
   results: { trait: string; result: PublicTraitResult }[];
   summary: string[];
-  data: PublishedValue[];
+  data: PublicValue[];
   citation: string;
 }
 
@@ -244,9 +251,41 @@ function coverageOf(s: PublishedSnapshot): PublicSnapshot["coverage"] {
   return { inResults: s.sites.length - out.length, enrolled: s.sites.length, notIncluded: out.map((x) => ({ name: x.name, reason: "no accepted data in this version" })) };
 }
 
+/**
+ * What versions published before plot values carried their unit in days and their missing reason need to
+ * be read the same way: which traits are counted in days, and each missing plot's reason from the analysis.
+ */
+function factsForOlderValues(s: PublishedSnapshot) {
+  const daysTraits = new Set(s.results.filter(({ result: r }) => r.trait.computation !== "none" || r.trait.valueType === "date").map(({ result: r }) => r.trait.analysedAs));
+  const missingReasons = new Map<string, string>();
+  for (const { result: r } of s.results) {
+    for (const m of r.missing) if (!m.reason.startsWith("excluded")) missingReasons.set(`${r.trait.analysedAs}\u0000${m.plotCode}`, m.reason);
+  }
+  return { daysTraits, missingReasons };
+}
+
+function publicValue(d: PublishedValue, legacy: ReturnType<typeof factsForOlderValues>): PublicValue {
+  const missingReason = d.status !== "missing" ? null : (d.missingReason ?? legacy.missingReasons.get(`${d.trait}\u0000${d.plotCode}`) ?? "not recorded");
+  return {
+    site: d.site,
+    block: d.block,
+    plotCode: d.plotCode,
+    blindCode: d.blindCode,
+    variety: d.variety,
+    trait: d.trait,
+    unit: legacy.daysTraits.has(d.trait) ? "days" : d.unit,
+    value: d.value,
+    status: d.status,
+    missingReason,
+    seedsSown: d.seedsSown ?? null,
+    emerged: d.emerged ?? null,
+  };
+}
+
 /** A stored snapshot (any version of its format) in the public shape. */
 export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
   const t = s.trial;
+  const legacyFacts = factsForOlderValues(s);
   const traitCode = new Map(s.traits.map((x) => [x.id, x.code]));
   return {
     version: s.version,
@@ -262,7 +301,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     traits: s.traits.map((x) => ({ code: x.code, name: x.name, unit: x.unit, valueType: x.valueType, analysedAs: x.analysedAs, description: x.description, betterWhen: x.betterWhen ?? "neither" })),
     results: s.results.map(({ traitId, result }) => ({ trait: traitCode.get(traitId) ?? result.trait.code, result: toPublicTraitResult(result) })),
     summary: [...s.summary],
-    data: s.data.map((d) => ({ site: d.site, block: d.block, plotCode: d.plotCode, blindCode: d.blindCode, variety: d.variety, trait: d.trait, unit: d.unit, value: d.value, status: d.status })),
+    data: s.data.map((d) => publicValue(d, legacyFacts)),
     citation: s.citation,
   };
 }

@@ -56,6 +56,11 @@ export interface PublishedValue {
   /** the analysed value (dates become days from sowing); null for a missing plot */
   value: number | null;
   status: "used" | "missing" | "excluded";
+  /** why a missing plot has no value ("animal damage", "not recorded"); absent in versions published before it was kept */
+  missingReason?: string | null;
+  /** the plot's seeds sown and seedlings emerged (final stand), when the trial counts them; absent in older versions */
+  seedsSown?: number | null;
+  emerged?: number | null;
 }
 
 /**

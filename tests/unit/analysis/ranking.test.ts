@@ -66,6 +66,8 @@ describe("% of check", () => {
   it("gives nothing without a check, and no percentage of a zero check mean", () => {
     expect(compareWithCheck(means().map((x) => ({ ...x, isCheck: false })), 1)).toEqual(Array(3).fill({ percentOfCheck: null, checkDifference: null, beyondLsd: null }));
     expect(compareWithCheck([{ mean: 0, lsMean: null, isCheck: true }, { mean: 1, lsMean: null, isCheck: false }], null)[1]!.percentOfCheck).toBeNull();
+    // a least-squares check mean below zero (rare yes/no events) gives no percentage, not "-1,500%"
+    expect(compareWithCheck([{ mean: 0.01, lsMean: -0.01, isCheck: true }, { mean: 0.2, lsMean: 0.21, isCheck: false }], null)[1]).toEqual({ percentOfCheck: null, checkDifference: 0.22, beyondLsd: null });
   });
 });
 

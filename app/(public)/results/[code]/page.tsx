@@ -4,7 +4,9 @@ import { notFound } from "next/navigation";
 import { getPublicReportAt } from "@/server/publish/public-snapshots";
 import { PublicTraitResults } from "@/components/public/trait-results";
 import { LeftOutOfTrait, SiteCoverage } from "@/components/public/left-out";
-import { toPublicTraitView } from "@/lib/domain/publish/public-view";
+import { GerminationSection } from "@/components/public/germination-section";
+import { toPublicGerminationView, toPublicTraitView } from "@/lib/domain/publish/public-view";
+import { linksFor, OPENAPI_PATH } from "@/lib/domain/publish/open-data";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 
@@ -50,6 +52,8 @@ export default async function PublicTrialPage({ params, searchParams }: { params
   const isLatest = snapshot.version === latestVersion;
   const versionQuery = isLatest ? "" : `?version=${snapshot.version}`;
   const notIncluded = new Set(snapshot.coverage.notIncluded.map((s) => s.name));
+  const germination = toPublicGerminationView(snapshot.results);
+  const api = linksFor(t.code, isLatest ? null : snapshot.version);
   return (
     <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
       <header>
@@ -84,12 +88,19 @@ export default async function PublicTrialPage({ params, searchParams }: { params
             Download the PDF report
           </a>
           <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=csv${versionQuery ? `&version=${snapshot.version}` : ""}`}>
-            Data (CSV)
+            Plot data (CSV)
+          </a>
+          <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=csv&table=means${versionQuery ? `&version=${snapshot.version}` : ""}`}>
+            Means with % of check (CSV)
           </a>
           <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=xlsx${versionQuery ? `&version=${snapshot.version}` : ""}`}>
             Data (Excel)
           </a>
         </div>
+        <p className="mt-3 text-sm text-loam-700">
+          The same data as open JSON: <a href={api.self}>trial</a>, <a href={api.results}>results</a> and <a href={api.plots}>plot data</a>, described in the{" "}
+          <a href={OPENAPI_PATH}>open data API description</a> (OpenAPI 3.1).
+        </p>
       </section>
 
       {snapshot.results.map(({ trait, result }) => (
@@ -99,6 +110,13 @@ export default async function PublicTrialPage({ params, searchParams }: { params
           <LeftOutOfTrait exclusions={result.exclusions} />
         </section>
       ))}
+
+      {germination && (
+        <section aria-labelledby="germination" className="rounded-xl border border-husk-200 bg-white p-5">
+          <h2 id="germination" className="mb-3 text-xl font-bold">Germination</h2>
+          <GerminationSection germination={germination} />
+        </section>
+      )}
 
       <section aria-labelledby="varieties" className="rounded-xl border border-husk-200 bg-white p-5">
         <h2 id="varieties" className="text-xl font-bold">Varieties</h2>

@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicSite } from "@/server/publish/public-snapshots";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
+import { formatNumber, formatP } from "@/lib/domain/analysis/format";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 
 type Params = Promise<{ siteId: string }>;
@@ -36,13 +37,34 @@ export default async function PublicSitePage({ params }: { params: Params }) {
         {site.irrigation && (<><dt className="font-semibold">Watering</dt><dd>{site.irrigation}</dd></>)}
       </dl>
       <h2 className="mt-8 text-xl font-bold">Published trials grown here</h2>
-      <ul className="mt-2 list-disc pl-5">
+      <ul className="mt-2 space-y-4">
         {trials.map((t) => (
-          <li key={t.code}>
-            <Link href={`/results/${t.code}`}>{t.title}</Link> ({t.season}){!t.inResults && ": this site is not included in the published results"}
+          <li key={t.code} className="rounded-xl border border-husk-200 bg-white p-5">
+            <h3 className="font-bold"><Link href={`/results/${t.code}`}>{t.title}</Link> ({t.season})</h3>
+            {!t.inResults && <p className="mt-1 text-sm">This site is not included in the published results of this trial.</p>}
+            {t.leaders.length > 0 && (
+              <dl className="mt-2 space-y-1 text-sm" aria-label={`What came first at ${site.name}`}>
+                {t.leaders.map((l) => (
+                  <div key={l.trait}>
+                    <dt className="inline font-semibold">{l.clear ? `${l.trait}, ${l.heading.charAt(0).toLowerCase()}${l.heading.slice(1)}: ` : `${l.trait}: `}</dt>
+                    <dd className="inline">
+                      {l.clear ? (
+                        <>
+                          {l.variety}, {l.value}
+                          {l.isCheck ? " (the check)" : l.percentOfCheck !== null ? ` (${formatNumber(l.percentOfCheck, 0)}% of check)` : ""}
+                        </>
+                      ) : (
+                        `the varieties did not differ clearly here (${formatP(l.entryP)}).`
+                      )}
+                    </dd>
+                  </div>
+                ))}
+              </dl>
+            )}
           </li>
         ))}
       </ul>
+      <p className="mt-3 text-sm text-loam-700">One site and one season; the trial pages compare every variety across all sites.</p>
     </div>
   );
 }

@@ -1,9 +1,8 @@
 import { z } from "zod";
-import { requirePublishedSnapshot } from "@/server/publish/public-snapshots";
 import { defineRoute } from "@/server/http/define-route";
+import { API_BASE } from "@/lib/domain/publish/open-data";
 
-/** One published version as JSON: summary, entries, sites' public descriptions, results and data. */
-export const GET = defineRoute({ roles: "public", params: { schema: z.object({ code: z.string() }) } }, async ({ params, request }) => {
-  const snapshot = await requirePublishedSnapshot(params.code, request);
-  return Response.json(snapshot, { headers: { "Cache-Control": "public, max-age=60" } });
-});
+/** The first, unversioned address of one trial: a permanent redirect to the open data API (?version= kept). */
+export const GET = defineRoute({ roles: "public", params: { schema: z.object({ code: z.string().regex(/^[A-Za-z0-9-]{1,40}$/) }) } }, async ({ params, request }) =>
+  new Response(null, { status: 308, headers: { Location: `${API_BASE}/trials/${params.code}${new URL(request.url).search}` } }),
+);
