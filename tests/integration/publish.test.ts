@@ -44,6 +44,7 @@ const SITE_NOTE = "Private: the grower sowed a week late and told me in confiden
 const exclusionIds: number[] = [];
 let excludedPlot: { code: string; site: string };
 let excludedSite: string;
+let reviewedAgain: number;
 
 beforeAll(async () => {
   const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, DEMO_STAFF[1].email));
@@ -68,6 +69,11 @@ beforeAll(async () => {
   const [plot] = await db.select({ id: s.plots.id, code: s.plots.plotCode }).from(s.plots).where(and(eq(s.plots.trialId, trialId), eq(s.plots.siteId, accepted[0]!.siteId))).limit(1);
   excludedPlot = { code: plot!.code, site: accepted[0]!.name };
   excludedSite = accepted[1]!.name;
+  // The demo ships every spinach site accepted; one goes back to "sent for review" for the guard's checks.
+  const lastAccepted = accepted[accepted.length - 1]!;
+  const [enrolment] = await db.select({ id: s.enrolments.id }).from(s.enrolments).where(and(eq(s.enrolments.trialId, trialId), eq(s.enrolments.siteId, lastAccepted.siteId)));
+  reviewedAgain = enrolment!.id;
+  await db.update(s.submissions).set({ status: "submitted" }).where(eq(s.submissions.enrolmentId, reviewedAgain));
   exclusionIds.push(await insertExclusion(coordinator, { trialId, siteId: null, plotId: plot!.id, traitId: yieldTrait!.id, category: "plot_damaged", note: PRIVATE_NOTE }));
   exclusionIds.push(await insertExclusion(coordinator, { trialId, siteId: accepted[1]!.siteId, plotId: null, traitId: boltingTrait!.id, category: "not_sown", note: SITE_NOTE }));
 });
@@ -90,6 +96,7 @@ const cooperatorsOfTrial = (accepted: boolean) =>
     );
 const queuedSince = (mark: number) => db.select({ to: s.mailOutbox.toAddress, subject: s.mailOutbox.subject, text: s.mailOutbox.textBody }).from(s.mailOutbox).where(gt(s.mailOutbox.id, mark));
 afterAll(async () => {
+  await db.update(s.submissions).set({ status: "accepted" }).where(eq(s.submissions.enrolmentId, reviewedAgain));
   for (const id of exclusionIds) await deleteExclusion(coordinator, { trialId, exclusionId: id });
   // The notices stay out of other files' delivery runs.
   await db.delete(s.mailOutbox).where(and(gt(s.mailOutbox.id, mailMark), like(s.mailOutbox.subject, "Results published:%")));
@@ -160,7 +167,8 @@ describe("publishing a trial", () => {
       .from(s.observations)
       .innerJoin(s.plots, eq(s.plots.id, s.observations.plotId))
       .innerJoin(s.traits, eq(s.traits.id, s.observations.traitId))
-      .where(and(eq(s.plots.trialId, trialId), eq(s.traits.code, "marketable_yield"), sql`${s.observations.valueNumber} IS NOT NULL`))
+      // a plot of a site whose accepted data are in the results
+      .where(and(eq(s.plots.trialId, trialId), eq(s.traits.code, "marketable_yield"), sql`${s.observations.valueNumber} IS NOT NULL`, sql`${s.plots.enrolmentId} <> ${reviewedAgain}`))
       .limit(1);
     editedYield = { id: plot!.id, value: plot!.value! };
     await db.update(s.observations).set({ valueNumber: plot!.value! + 5000 }).where(eq(s.observations.id, plot!.id));
