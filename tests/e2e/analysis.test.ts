@@ -48,7 +48,7 @@ describe("trial analysis in a real browser", () => {
     await page.getByRole("heading", { name: "What the data say: First harvest date" }).waitFor();
     await chart.getByText(/Combined means: First harvest date \(days from sowing\)/).first().waitFor();
     expect(await table.locator("thead").textContent()).toContain("Mean (days)");
-    expect(await page.getByTestId("interaction-chart").locator("[data-chart-summary]").textContent()).toMatch(/Top entry per site/);
+    expect(await page.getByTestId("interaction-chart").locator("[data-chart-summary]").textContent()).toMatch(/Earliest entry per site — /);
 
     await page.getByRole("heading", { name: "Across 5 sites" }).waitFor();
     await page.getByRole("checkbox", { name: /Willow Bend Farm/ }).uncheck();
