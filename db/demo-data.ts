@@ -66,6 +66,8 @@ export interface DemoTrial {
    * results, variety pages and the PDF at once; the other analysing trial keeps one site in review.
    */
   publishedAtSeed?: boolean;
+  /** sites (by index into DEMO_SITES) whose growers did not agree to be named in public results */
+  unnamedSiteIndexes?: number[];
   blocks: number;
   plotUnit: "insert" | "bed_row";
   plotSize: number;
@@ -106,6 +108,8 @@ export const DEMO_TRIALS: DemoTrial[] = [
     season: "spring",
     status: "analysing",
     publishedAtSeed: true,
+    // The community garden's volunteers asked not to be named: it is published as "Site N, Fernbrook".
+    unnamedSiteIndexes: [3],
     blocks: 3,
     plotUnit: "bed_row",
     plotSize: 12,

@@ -195,7 +195,7 @@ async function seedSecondProgram(
       .$returningId();
     await tx.insert(s.trialEntries).values({ trialId, varietyId: variety!.id, seedLotId: lot!.id, blindCode: codes[i]!, entryNumber: i + 1, isCheck: "isCheck" in entry && entry.isCheck });
   }
-  await tx.insert(s.enrolments).values({ trialId, siteId: secondSiteId, cooperatorId: secondGrowerId });
+  await tx.insert(s.enrolments).values({ trialId, siteId: secondSiteId, cooperatorId: secondGrowerId, namedInResults: true });
 }
 
 async function seedTrial(
@@ -271,7 +271,15 @@ async function seedTrial(
     const seed = 1000 * (p.trialIndex + 1) + siteIndex;
     const [enrolment] = await tx
       .insert(s.enrolments)
-      .values({ trialId, siteId, cooperatorId: p.growerIds[siteIndex]!, sownOn, randomSeed: seed, randomisedAt: new Date(`${addDays(sownOn, -10)}T12:00:00Z`) })
+      .values({
+        trialId,
+        siteId,
+        cooperatorId: p.growerIds[siteIndex]!,
+        sownOn,
+        randomSeed: seed,
+        randomisedAt: new Date(`${addDays(sownOn, -10)}T12:00:00Z`),
+        namedInResults: !(trial.unnamedSiteIndexes ?? []).includes(siteIndex),
+      })
       .$returningId();
     // The same layout the randomise button would draw from this seed, flats and plot codes included.
     const layout = siteLayout({ design: "rcbd", blocks: trial.blocks, plotUnit: trial.plotUnit, plotSize: trial.plotSize, entryCount: entryIds.length, seed, siteNumber: order + 1 });

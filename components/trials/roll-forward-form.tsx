@@ -15,7 +15,8 @@ export function RollForwardForm({ trialId, title, seasons }: { trialId: number; 
       <p className="text-sm text-loam-700">
         Makes a new draft with this trial&apos;s crop, design, protocol, traits (order and directions), entries with their varieties and the check,
         and its sites. Entries get new blind codes and no seed lot: pick this season&apos;s lots, then add or drop entries. Sites are enrolled again
-        and their growers told, as for any enrolment; nothing is laid out or sown yet.
+        and their growers told, as for any enrolment, without consent to be named in public results: record each grower&apos;s answer
+        again. Nothing is laid out or sown yet.
       </p>
       <SelectField label="Season" name="seasonId" defaultValue={f?.values?.seasonId ?? ""} errors={f?.fieldErrors?.seasonId}>
         <option value="">Choose…</option>

@@ -4,7 +4,7 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { CheckboxField } from "@/components/ui/checkbox-field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { addEntry, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
+import { addEntry, changeSiteNaming, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
 import { useRefetchTrialAfter } from "./trial-data";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
@@ -73,6 +73,12 @@ export function EnrolSiteForm({ trialId, sites }: { trialId: number; sites: { id
         ))}
       </SelectField>
       <TextField label="Planned sowing date (optional)" name="sownOn" type="date" defaultValue={f?.values?.sownOn} errors={f?.fieldErrors?.sownOn} />
+      <CheckboxField
+        label="The grower agrees to the site being named in public results"
+        name="namedInResults"
+        defaultChecked={f?.values?.namedInResults === "on"}
+        hint={'Without it the site is published as "Site N, region" on every public page, download and report.'}
+      />
       <FormMessage state={state} />
       <SubmitButton pendingText="Enrolling…">Enrol site</SubmitButton>
     </form>
@@ -160,6 +166,24 @@ export function SowingDateForm({
       {/* A refusal about the date itself already shows under the field. */}
       <FormMessage state={f && !f.fieldErrors?.sownOn ? state : null} />
       <SubmitButton pendingText="Saving…">Save sowing date</SubmitButton>
+    </form>
+  );
+}
+
+/** Records the grower's answer on being named in public results; the next published version follows it. */
+export function SiteNamingForm({ trialId, siteId, siteName, named }: { trialId: number; siteId: number; siteName: string; named: boolean }) {
+  const [state, action] = useActionState(changeSiteNaming, null);
+  useRefetchTrialAfter(trialId, state);
+  return (
+    <form action={action} className="inline">
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="siteId" value={siteId} />
+      <input type="hidden" name="named" value={named ? "0" : "1"} />
+      <SubmitButton variant="ghost" pendingText="Saving…">
+        {named ? "Grower withdrew consent" : "Grower agreed to be named"}
+        <span className="sr-only"> ({siteName})</span>
+      </SubmitButton>
+      <FormMessage state={state} />
     </form>
   );
 }

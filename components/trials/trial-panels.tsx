@@ -6,7 +6,7 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { SETUP_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
 import { canChangeSowingDate, canEditDesign, canRandomiseSite } from "@/lib/domain/design/status";
-import { RandomiseButton, RemoveEntryButton, SowingDateForm } from "./trial-controls";
+import { RandomiseButton, RemoveEntryButton, SiteNamingForm, SowingDateForm } from "./trial-controls";
 import { SiteMap } from "./site-layout-view";
 import { useSiteLayout, useTrialDetail, type TrialDetailJson } from "./trial-data";
 
@@ -150,6 +150,10 @@ function SiteRow({ trial, site, entryCount, open, setOpen }: { trial: TrialDetai
             <p className="text-marigold-800">Not laid out yet</p>
           )}
           {site.observations > 0 && <p className="text-loam-700">{site.observations} values recorded; layout is fixed.</p>}
+          <p className="flex flex-wrap items-center gap-x-2 text-loam-700">
+            <span>{site.namedInResults ? "Named in public results" : `Published without its name ("Site N, ${site.region}")`}</span>
+            <SiteNamingForm trialId={trial.id} siteId={site.siteId} siteName={site.site} named={site.namedInResults} />
+          </p>
         </div>
         <div className="flex flex-wrap items-start gap-2">
           {laidOut && (

@@ -247,11 +247,11 @@ export async function listSiteGrowers(tx: Tx, siteId: number) {
 }
 
 /** Enrols a site in a trial with its named grower and sowing date, with an audit entry of who was invited. */
-export async function insertEnrolment(tx: Tx, p: { viewer: Viewer; trialId: number; siteId: number; cooperatorId: number | null; sownOn?: string; invited: string[] }) {
+export async function insertEnrolment(tx: Tx, p: { viewer: Viewer; trialId: number; siteId: number; cooperatorId: number | null; sownOn?: string; invited: string[]; namedInResults?: boolean }) {
   try {
     const [row] = await tx
       .insert(enrolments)
-      .values({ trialId: p.trialId, siteId: p.siteId, cooperatorId: p.cooperatorId, sownOn: p.sownOn ?? null })
+      .values({ trialId: p.trialId, siteId: p.siteId, cooperatorId: p.cooperatorId, sownOn: p.sownOn ?? null, namedInResults: p.namedInResults ?? false })
       .$returningId();
     await insertAudit(tx, { actorId: p.viewer.id, action: "enrol_site", entity: "enrolment", entityId: row!.id, trialId: p.trialId, newValue: { siteId: p.siteId, sownOn: p.sownOn ?? null, invited: p.invited } });
     return row!.id;
@@ -394,4 +394,13 @@ export async function linkRolledForwardTrial(tx: Tx, p: { viewer: Viewer; trialI
   }
   await tx.update(trials).set({ previousTrialId: p.previousTrialId }).where(eq(trials.id, p.trialId));
   await insertAudit(tx, { actorId: p.viewer.id, action: "roll_forward", entity: "trial", entityId: p.trialId, trialId: p.trialId, newValue: { previousTrialId: p.previousTrialId } });
+}
+
+/** Records whether a site's grower agreed to be named in public results; audited. False when it is not enrolled. */
+export async function updateSiteNaming(tx: Tx, p: { viewer: Viewer; trialId: number; siteId: number; named: boolean }): Promise<boolean> {
+  const [row] = await tx.select({ id: enrolments.id, named: enrolments.namedInResults }).from(enrolments).where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId))).for("update");
+  if (!row) return false;
+  await tx.update(enrolments).set({ namedInResults: p.named }).where(eq(enrolments.id, row.id));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "site_naming", entity: "enrolment", entityId: row.id, trialId: p.trialId, oldValue: { named: row.named }, newValue: { named: p.named } });
+  return true;
 }

@@ -27,6 +27,8 @@ export async function getPublishContext(viewer: Viewer, trialId: number) {
         irrigation: sites.irrigation,
         publicDescription: sites.publicDescription,
         sownOn: enrolments.sownOn,
+        named: enrolments.namedInResults,
+        joined: enrolments.id,
       })
       .from(enrolments)
       .innerJoin(sites, eq(sites.id, enrolments.siteId))

@@ -54,6 +54,7 @@ export async function getTrialDetail(viewer: Viewer, trialId: number) {
         sownOn: enrolments.sownOn,
         randomSeed: enrolments.randomSeed,
         randomisedAt: enrolments.randomisedAt,
+        namedInResults: enrolments.namedInResults,
         plots: sql<number>`(SELECT COUNT(*) FROM ${plots} WHERE ${plots.enrolmentId} = ${enrolments.id})`.mapWith(Number),
         observations: sql<number>`(SELECT COUNT(*) FROM ${observations} INNER JOIN ${plots} ON ${plots.id} = ${observations.plotId} WHERE ${plots.enrolmentId} = ${enrolments.id})`.mapWith(Number),
       })

@@ -85,6 +85,8 @@ export const enrolments = mysqlTable(
     randomisedAt: timestamp("randomised_at", { mode: "date" }),
     // The coordinator's choice to show this site's own analysis to its cooperators (never other sites').
     resultsShared: boolean("results_shared").notNull().default(false),
+    /** the grower agreed to the site being named in public results; without it the site is "Site N, region" */
+    namedInResults: boolean("named_in_results").notNull().default(false),
     createdAt: createdAt(),
   },
   (t) => [

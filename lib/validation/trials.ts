@@ -72,6 +72,7 @@ export const enrolSiteSchema = z.object({
   trialId: id(),
   siteId: id("Choose the site."),
   sownOn: optionalIsoDate("Enter the sowing date like 2027-03-18."),
+  namedInResults: checkbox,
 });
 
 export const sowingDateSchema = z.object({
@@ -105,4 +106,11 @@ export const moveTraitSchema = z.object({
   trialId: id(),
   traitId: id("Choose a trait."),
   direction: z.enum(["up", "down"], { error: "Move a trait up or down." }),
+});
+
+/** Whether the site's grower agreed to be named in public results. */
+export const siteNamingSchema = z.object({
+  trialId: id(),
+  siteId: id("Choose the site."),
+  named: z.enum(["1", "0"], { error: "Say whether the site may be named." }).transform((v) => v === "1"),
 });

@@ -4,9 +4,9 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { traitDirectionSchema } from "@/lib/validation/analysis";
-import { moveTraitSchema, rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { siteNamingSchema, moveTraitSchema, rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
 import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, moveTrialTrait, removeTrialEntry, rollTrialForward, setTraitDirection } from "@/server/trials/design";
-import { enrolTrialSite, moveSowingDate, randomiseTrialSite } from "@/server/trials/enrolment";
+import { enrolTrialSite, moveSowingDate, randomiseTrialSite, setSiteNaming } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
@@ -96,4 +96,13 @@ export const moveTrait = defineAction({ roles: STAFF, schema: moveTraitSchema },
   await moveTrialTrait(viewer, input);
   revalidatePath(trialPath(input.trialId));
   return { ok: true, message: "Trait order saved. The form, sheets, spreadsheet and reports follow it." };
+});
+
+export const changeSiteNaming = defineAction({ roles: STAFF, schema: siteNamingSchema }, async (input, viewer) => {
+  await setSiteNaming(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return {
+    ok: true,
+    message: input.named ? "The site will be named in the next published version." : "The site will be published as \"Site N, region\" from the next version on.",
+  };
 });

@@ -12,6 +12,7 @@ import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { summariseForGrowers } from "@/lib/domain/publish/summary";
 import type { PublishedSnapshot, PublishSettings } from "@/lib/domain/publish/types";
 import type { SiteInclusion } from "@/lib/domain/publish/site-inclusion";
+import { anonymousSiteNames } from "@/lib/domain/publish/site-naming";
 
 /**
  * Runs the analyses a publication shows and freezes them with the trial's public facts. Only accepted
@@ -27,11 +28,15 @@ export async function buildSnapshot(
   if (p.traitId !== null && candidates.length === 0) throw new AppError("bad_request", "That trait has no recorded data to publish.");
   if (candidates.length === 0) throw new AppError("conflict", "This trial has no recorded data yet, so there is nothing to publish.");
 
+  // Sites whose growers did not agree to be named go into the analyses under their public name, so every
+  // table, note and warning built from them says "Site N, region" and nothing else.
+  const anonymous = anonymousSiteNames(context.sites.map((s) => ({ siteId: s.id, name: s.name, region: s.region, named: s.named, joined: s.joined })));
   const results: { traitId: number; result: AnalysisResult }[] = [];
   let seedCounts = new Map<string, { sown: number | null; emerged: number | null }>();
   for (const trait of candidates) {
-    const input = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
-    if (!input) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const loaded = await loadAnalysisInput(viewer, { trialId: p.trialId, traitId: trait.id });
+    if (!loaded) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const input = { ...loaded, sites: loaded.sites.map((s) => (anonymous.has(s.id) ? { ...s, name: anonymous.get(s.id)! } : s)) };
     if (seedCounts.size === 0) seedCounts = seedCountsByPlot(input);
     const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation }, { forPublication: true });
     // Who recorded an exclusion and the staff's note stay in the portal; the category is the public reason.
@@ -66,8 +71,10 @@ export async function buildSnapshot(
       protocol: trial.protocol,
     },
     scopeTraitId: p.traitId,
-    sites: context.sites,
-    siteInclusion: p.siteInclusion,
+    sites: context.sites.map(({ named: _named, joined: _joined, ...s }) =>
+      anonymous.has(s.id) ? { ...s, id: null, name: anonymous.get(s.id)!, publicDescription: null } : s,
+    ),
+    siteInclusion: p.siteInclusion.map((s) => (anonymous.has(s.siteId) ? { ...s, siteName: anonymous.get(s.siteId)! } : s)),
     entries: context.entries,
     traits: candidates.map((t) => ({
       id: t.id,

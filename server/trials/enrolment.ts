@@ -12,6 +12,7 @@ import {
   listTrialEntries,
   lockEnrolment,
   replaceSitePlots,
+  updateSiteNaming,
   updateSowingDate,
 } from "@/db/mutations/trials";
 import { newSeed } from "@/lib/domain/design/random";
@@ -32,7 +33,7 @@ import { inviteGrowerInTx } from "@/server/users/invitations";
  * gets that person invited and attached; growers with accounts get a short notice. Everything, mail
  * included, is queued in the same transaction.
  */
-export async function enrolTrialSite(viewer: Viewer, input: { trialId: number; siteId: number; sownOn?: string }) {
+export async function enrolTrialSite(viewer: Viewer, input: { trialId: number; siteId: number; sownOn?: string; namedInResults?: boolean }) {
   return db.transaction(async (tx) => {
     const trial = await lockTrialForStaff(tx, viewer, input.trialId);
     const progress = await trialProgress(tx, trial.id);
@@ -42,7 +43,7 @@ export async function enrolTrialSite(viewer: Viewer, input: { trialId: number; s
 }
 
 /** Enrols a site in a trial already locked in `tx` (see enrolTrialSite), with its growers' invitations and notices. */
-export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, input: { siteId: number; sownOn?: string }) {
+export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, input: { siteId: number; sownOn?: string; namedInResults?: boolean }) {
   {
     const site = await getProgramSite(tx, { programId: trial.programId, siteId: input.siteId });
 
@@ -63,7 +64,7 @@ export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, 
     for (const g of growers.filter((g) => g.hasAccount && g.active)) {
       await insertMail(tx, enrolmentNoticeMail({ to: g.email, name: g.name, siteName: site.name, trialTitle: trial.title, link: `${env.APP_URL}/portal` }));
     }
-    const enrolmentId = await insertEnrolment(tx, { viewer, trialId: trial.id, siteId: site.id, cooperatorId: growers[0]?.id ?? null, sownOn: input.sownOn, invited });
+    const enrolmentId = await insertEnrolment(tx, { viewer, trialId: trial.id, siteId: site.id, cooperatorId: growers[0]?.id ?? null, sownOn: input.sownOn, invited, namedInResults: input.namedInResults ?? false });
     return { enrolmentId, invited };
   }
 }
@@ -124,5 +125,16 @@ export async function moveSowingDate(viewer: Viewer, input: { trialId: number; s
     if (enrolment.sownOn === input.sownOn) return { changed: false, values: recorded.values };
     await updateSowingDate(tx, { viewer, trialId: trial.id, enrolment, sownOn: input.sownOn, valuesAtSite: recorded.values });
     return { changed: true, values: recorded.values };
+  });
+}
+
+/**
+ * Records whether the site's grower agreed to be named in public results. Versions already published keep
+ * the naming they were published with; the next version follows the new answer.
+ */
+export async function setSiteNaming(viewer: Viewer, input: { trialId: number; siteId: number; named: boolean }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    if (!(await updateSiteNaming(tx, { viewer, siteId: input.siteId, named: input.named, trialId: trial.id }))) throw new AppError("not_found", "That site is not part of this trial.");
   });
 }

@@ -240,6 +240,8 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "trials.ts#changeTrialStatus": ["coordinator", "admin"],
   "trials.ts#setDirection": ["coordinator", "admin"],
   "trials.ts#planNextSeason": ["coordinator", "admin"],
+  "trials.ts#changeSiteNaming": ["coordinator", "admin"],
+  "trials.ts#moveTrait": ["coordinator", "admin"],
   "users.ts#inviteCooperator": ["coordinator", "admin"],
   "users.ts#changeUserRole": ["admin"],
   "users.ts#setUserActive": ["admin"],

@@ -19,8 +19,8 @@ import { publicNotIncludedWhy } from "./site-inclusion";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
 
 export interface PublicSite {
-  /** the number in the site's public address, /sites/:id */
-  id: number;
+  /** the number in the site's public address, /sites/:id; null for a site published without its name */
+  id: number | null;
   name: string;
   kind: string;
   region: string;

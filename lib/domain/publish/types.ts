@@ -9,7 +9,8 @@ export interface PublishSettings {
 }
 
 export interface PublishedSite {
-  id: number;
+  /** null for a site published without its name (see site-naming.ts), so no public address leads to it */
+  id: number | null;
   name: string;
   kind: string;
   region: string;

@@ -134,8 +134,8 @@ export default async function PublicTrialPage({ params, searchParams }: { params
         <h2 id="sites" className="text-xl font-bold">Partner sites</h2>
         <ul className="mt-3 grid gap-2 sm:grid-cols-2">
           {snapshot.sites.map((s) => (
-            <li key={s.id}>
-              <Link href={`/sites/${s.id}`}>{s.name}</Link>{" "}
+            <li key={s.name}>
+              {s.id !== null ? <Link href={`/sites/${s.id}`}>{s.name}</Link> : <span title="The grower asked not to be named">{s.name}</span>}{" "}
               <span className="text-sm text-loam-700">
                 — {s.region}, {SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup}
                 {notIncluded.has(s.name) && ", not included in these results"}
