@@ -22,7 +22,7 @@ export function RollForwardForm({ trialId, title, seasons }: { trialId: number; 
         <option value="">Choose…</option>
         {seasons.map((s) => (
           <option key={s.id} value={s.id}>
-            {s.name.includes(String(s.year)) ? s.name : `${s.name} ${s.year}`}
+            {/\d{4}/.test(s.name) ? s.name : `${s.name} ${s.year}`}
           </option>
         ))}
       </SelectField>

@@ -4,7 +4,7 @@ import { SelectField, TextField } from "@/components/ui/field";
 import { CheckboxField } from "@/components/ui/checkbox-field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
-import { addEntry, changeSiteNaming, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
+import { addEntry, chooseEntryLot, changeSiteNaming, changeSowingDate, changeTrialStatus, enrolSite, randomiseSite, removeEntry } from "@/server/actions/trials";
 import { useRefetchTrialAfter } from "./trial-data";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
 import { STATUS_LABELS } from "@/lib/domain/vocabulary/statuses";
@@ -182,6 +182,34 @@ export function SiteNamingForm({ trialId, siteId, siteName, named }: { trialId: 
       <SubmitButton variant="ghost" pendingText="Saving…">
         {named ? "Grower withdrew consent" : "Grower agreed to be named"}
         <span className="sr-only"> ({siteName})</span>
+      </SubmitButton>
+      <FormMessage state={state} />
+    </form>
+  );
+}
+
+/** Picks this season's seed lot for an entry, from the lots of its variety. */
+export function EntryLotForm({ trialId, entryId, variety, lots, current }: { trialId: number; entryId: number; variety: string; lots: { id: number; label: string }[]; current: number | null }) {
+  const [state, action] = useActionState(chooseEntryLot, null);
+  useRefetchTrialAfter(trialId, state);
+  if (lots.length === 0) return <span className="text-loam-700">No lot recorded for {variety} yet (Catalogue).</span>;
+  return (
+    <form action={action} className="flex flex-wrap items-center gap-2">
+      <input type="hidden" name="trialId" value={trialId} />
+      <input type="hidden" name="entryId" value={entryId} />
+      <label className="sr-only" htmlFor={`lot-${entryId}`}>
+        Seed lot for {variety}
+      </label>
+      <select id={`lot-${entryId}`} name="seedLotId" defaultValue={current ?? ""} className="min-h-11 rounded-lg border border-loam-300 bg-white px-2 text-sm">
+        <option value="">Choose a lot…</option>
+        {lots.map((l) => (
+          <option key={l.id} value={l.id}>
+            {l.label}
+          </option>
+        ))}
+      </select>
+      <SubmitButton variant="secondary" pendingText="Saving…">
+        Save lot<span className="sr-only"> for {variety}</span>
       </SubmitButton>
       <FormMessage state={state} />
     </form>

@@ -6,7 +6,7 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { SETUP_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
 import { canChangeSowingDate, canEditDesign, canRandomiseSite } from "@/lib/domain/design/status";
-import { RandomiseButton, RemoveEntryButton, SiteNamingForm, SowingDateForm } from "./trial-controls";
+import { EntryLotForm, RandomiseButton, RemoveEntryButton, SiteNamingForm, SowingDateForm } from "./trial-controls";
 import { SiteMap } from "./site-layout-view";
 import { useSiteLayout, useTrialDetail, type TrialDetailJson } from "./trial-data";
 
@@ -31,7 +31,7 @@ function FetchState({ what, isFetching, error, retry }: { what: string; isFetchi
 }
 
 /** The entry list with its blind-code key, kept current from the trial's JSON. */
-export function TrialEntriesCard({ trialId, initial }: { trialId: number; initial: TrialDetailJson }) {
+export function TrialEntriesCard({ trialId, initial, lotOptions = {} }: { trialId: number; initial: TrialDetailJson; lotOptions?: Record<number, { id: number; label: string }[]> }) {
   const { data, isFetching, error, refetch } = useTrialDetail(trialId, initial);
   const { trial, entries, progress } = data;
   const editable = canEditDesign({ status: trial.status, ...progress });
@@ -66,7 +66,13 @@ export function TrialEntriesCard({ trialId, initial }: { trialId: number; initia
                     {e.variety} {e.isCheck && <Badge tone="info">Check</Badge>}
                   </td>
                   <td className="py-2 pr-3">
-                    {e.lotCode ? `${e.source} · ${e.lotCode}` : "—"}
+                    {editable ? (
+                      <EntryLotForm trialId={trial.id} entryId={e.id} variety={e.variety} lots={lotOptions[e.varietyId] ?? []} current={e.seedLotId ?? null} />
+                    ) : e.lotCode ? (
+                      `${e.source} · ${e.lotCode}`
+                    ) : (
+                      "—"
+                    )}
                     {e.labelGerminationPct !== null && <span className="block text-loam-700">Label germination {e.labelGerminationPct}%</span>}
                     {e.treated && <Badge tone="warn">Treated</Badge>}
                   </td>

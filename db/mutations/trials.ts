@@ -404,3 +404,9 @@ export async function updateSiteNaming(tx: Tx, p: { viewer: Viewer; trialId: num
   await insertAudit(tx, { actorId: p.viewer.id, action: "site_naming", entity: "enrolment", entityId: row.id, trialId: p.trialId, oldValue: { named: row.named }, newValue: { named: p.named } });
   return true;
 }
+
+/** Sets the seed lot of one of the trial's entries (checked by the caller against the entry's variety); audited. */
+export async function updateEntrySeedLot(tx: Tx, p: { viewer: Viewer; trialId: number; entryId: number; seedLotId: number }) {
+  await tx.update(trialEntries).set({ seedLotId: p.seedLotId }).where(and(eq(trialEntries.id, p.entryId), eq(trialEntries.trialId, p.trialId)));
+  await insertAudit(tx, { actorId: p.viewer.id, action: "entry_seed_lot", entity: "trial_entry", entityId: p.entryId, trialId: p.trialId, newValue: { seedLotId: p.seedLotId } });
+}

@@ -114,3 +114,6 @@ export const siteNamingSchema = z.object({
   siteId: id("Choose the site."),
   named: z.enum(["1", "0"], { error: "Say whether the site may be named." }).transform((v) => v === "1"),
 });
+
+/** This season's seed lot for one entry. */
+export const entryLotSchema = z.object({ trialId: id(), entryId: id(), seedLotId: id("Choose a seed lot of this variety.") });

@@ -4,8 +4,8 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { defineAction } from "./define-action";
 import { traitDirectionSchema } from "@/lib/validation/analysis";
-import { siteNamingSchema, moveTraitSchema, rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
-import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, moveTrialTrait, removeTrialEntry, rollTrialForward, setTraitDirection } from "@/server/trials/design";
+import { entryLotSchema, siteNamingSchema, moveTraitSchema, rollForwardSchema, addEntrySchema, changeStatusSchema, createTrialSchema, enrolSiteSchema, randomiseSchema, removeEntrySchema, sowingDateSchema, updateTrialSchema } from "@/lib/validation/trials";
+import { addTrialEntry, createTrial as createTrialUseCase, editTrialDesign, moveTrialStatus, moveTrialTrait, removeTrialEntry, setEntrySeedLot, rollTrialForward, setTraitDirection } from "@/server/trials/design";
 import { enrolTrialSite, moveSowingDate, randomiseTrialSite, setSiteNaming } from "@/server/trials/enrolment";
 import { deliverSoon } from "@/server/mail/outbox";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
@@ -105,4 +105,10 @@ export const changeSiteNaming = defineAction({ roles: STAFF, schema: siteNamingS
     ok: true,
     message: input.named ? "The site will be named in the next published version." : "The site will be published as \"Site N, region\" from the next version on.",
   };
+});
+
+export const chooseEntryLot = defineAction({ roles: STAFF, schema: entryLotSchema }, async (input, viewer) => {
+  await setEntrySeedLot(viewer, input);
+  revalidatePath(trialPath(input.trialId));
+  return { ok: true, message: "Seed lot saved." };
 });

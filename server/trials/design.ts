@@ -12,6 +12,7 @@ import {
   updateTrialDesign,
   updateTrialStatus,
   updateTrialTraitDirection,
+  updateEntrySeedLot,
   getTrialForRollForward,
   listOrderableTraits,
   moveTrialTraitRow,
@@ -167,5 +168,17 @@ export async function rollTrialForward(viewer: Viewer, input: { trialId: number;
     for (const siteId of from.siteIds) invited.push(...(await enrolSiteInTx(tx, viewer, trial, { siteId })).invited);
     await linkRolledForwardTrial(tx, { viewer, trialId, previousTrialId: source.id, directions: from.traits });
     return { trialId, entries: from.entries.length, sites: from.siteIds.length, invited };
+  });
+}
+
+/** Picks the seed lot of an entry (this season's lot of the same variety) while the design can still change. */
+export async function setEntrySeedLot(viewer: Viewer, input: { trialId: number; entryId: number; seedLotId: number }) {
+  await db.transaction(async (tx) => {
+    const trial = await lockTrialForStaff(tx, viewer, input.trialId);
+    await requireDesignEditable(tx, trial);
+    const entry = (await listTrialEntries(tx, trial.id)).find((e) => e.id === input.entryId);
+    if (!entry) throw new AppError("not_found", "That entry is not part of this trial.");
+    await getEntryVariety(tx, { trial, varietyId: entry.varietyId, seedLotId: input.seedLotId });
+    await updateEntrySeedLot(tx, { viewer, trialId: trial.id, entryId: entry.id, seedLotId: input.seedLotId });
   });
 }

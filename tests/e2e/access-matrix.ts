@@ -242,6 +242,7 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "trials.ts#planNextSeason": ["coordinator", "admin"],
   "trials.ts#changeSiteNaming": ["coordinator", "admin"],
   "trials.ts#moveTrait": ["coordinator", "admin"],
+  "trials.ts#chooseEntryLot": ["coordinator", "admin"],
   "users.ts#inviteCooperator": ["coordinator", "admin"],
   "users.ts#changeUserRole": ["admin"],
   "users.ts#setUserActive": ["admin"],

@@ -12,7 +12,7 @@ afterAll(async () => {
 });
 
 describe("the next season in the browser", () => {
-  it("a coordinator plans next season from last season's lettuce trial and takes it through to randomised sites", async () => {
+  it("a coordinator plans next season from last season's lettuce trial and takes it through to randomised sites", { timeout: 90_000 }, async () => {
     const { page, context } = await newPage(browser);
     await signIn(page, "rosa.delgado@tamarack-valley.example", "seedplot-coordinator-demo");
     await page.goto("/portal/trials");
@@ -23,8 +23,9 @@ describe("the next season in the browser", () => {
     await page.getByLabel("Season").last().selectOption({ label: "Winter 2026–27" });
     await page.getByLabel("New trial code").fill(code);
     await page.getByLabel("Title").last().fill("Leaf lettuce, second year");
+    const source = page.url();
     await page.getByRole("button", { name: "Plan next season from this trial" }).click();
-    await page.waitForURL(/\/portal\/trials\/\d+$/, { timeout: 30_000 });
+    await page.waitForURL((url) => /\/portal\/trials\/\d+$/.test(url.pathname) && url.href !== source, { timeout: 30_000 });
     await page.getByRole("heading", { name: "Leaf lettuce, second year" }).waitFor();
     expect(await page.getByText(/^Planned from /).textContent()).toContain("TV26-LET");
     expect(await page.getByText(code).first().isVisible()).toBe(true);

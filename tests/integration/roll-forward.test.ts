@@ -1,7 +1,7 @@
 // Planning the next season from a trial copies its set-up, traits, entries and sites into a new draft
 // and links the two; nothing of another program can be reached, and a refused plan writes nothing.
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { and, asc, count, eq, inArray } from "drizzle-orm";
+import { and, asc, count, eq, inArray, ne } from "drizzle-orm";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { DEMO_SECOND_PROGRAM, DEMO_STAFF } from "@/db/demo-data";
@@ -10,7 +10,7 @@ import { demoViewer } from "../helpers/demo";
 
 vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 vi.mock("next/cache", () => ({ revalidatePath: () => undefined }));
-const { rollTrialForward, setTraitDirection } = await import("@/server/trials/design");
+const { rollTrialForward, setTraitDirection, setEntrySeedLot } = await import("@/server/trials/design");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -85,6 +85,15 @@ describe("planning the next season from a trial", () => {
     expect(sites).toBe(copiedSites.length);
     expect(copiedSites.every((e) => e.sownOn === null && e.randomisedAt === null)).toBe(true);
     expect((await db.select({ n: count() }).from(s.plots).where(eq(s.plots.trialId, trialId)))[0]!.n).toBe(0);
+
+    // The coordinator then picks this season's lot for an entry; a lot of another variety is refused.
+    const [entry] = await db.select({ id: s.trialEntries.id, varietyId: s.trialEntries.varietyId }).from(s.trialEntries).where(eq(s.trialEntries.trialId, trialId)).orderBy(asc(s.trialEntries.entryNumber)).limit(1);
+    const [ownLot] = await db.select({ id: s.seedLots.id }).from(s.seedLots).where(eq(s.seedLots.varietyId, entry!.varietyId)).limit(1);
+    const [otherLot] = await db.select({ id: s.seedLots.id }).from(s.seedLots).where(ne(s.seedLots.varietyId, entry!.varietyId)).limit(1);
+    await expect(setEntrySeedLot(rosa, { trialId, entryId: entry!.id, seedLotId: otherLot!.id })).rejects.toThrow("That seed lot belongs to another variety.");
+    await setEntrySeedLot(rosa, { trialId, entryId: entry!.id, seedLotId: ownLot!.id });
+    const [picked] = await db.select({ lot: s.trialEntries.seedLotId }).from(s.trialEntries).where(eq(s.trialEntries.id, entry!.id));
+    expect(picked!.lot).toBe(ownLot!.id);
   });
 
   it("refuses another program's coordinator as if the trial did not exist, and writes nothing", async () => {

@@ -71,7 +71,7 @@ export const DESIGN_LABELS: Record<TrialDesign, string> = {
 export const PLOT_UNIT_LABELS: Record<PlotUnit, string> = {
   insert: "Six-cell insert in a flat",
   cells: "A number of cells",
-  bed_row: "Bed row of N plants",
+  bed_row: "Bed row",
 };
 
 export const SITE_KIND_LABELS = { farm: "Farm", garden: "Garden" } as const;

@@ -131,7 +131,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
         </div>
 
         <div className="grid gap-6 lg:grid-cols-[2fr_1fr] [&>*]:min-w-0">
-          <TrialEntriesCard trialId={trial.id} initial={initial} />
+          <TrialEntriesCard trialId={trial.id} initial={initial} lotOptions={Object.fromEntries(varietyOptions.map((v) => [v.id, v.lots]))} />
           <Card title="Add an entry">
             {editable ? (
               <AddEntryForm trialId={trial.id} varieties={varietyOptions.filter((v) => !taken.has(v.name))} />
