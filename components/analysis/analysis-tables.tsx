@@ -29,7 +29,7 @@ function CheckCell({ row }: { row: MeanRow }) {
       {formatNumber(row.percentOfCheck, 0)}
       <span className="text-loam-700">
         {" "}
-        ({diff > 0 ? "+" : diff < 0 ? "−" : "±"}
+        ({formatNumber(Math.abs(diff)) === formatNumber(0) ? "±" : diff > 0 ? "+" : "−"}
         {formatNumber(Math.abs(diff))})
       </span>
       {row.beyondLsd && <span title="differs from the check by more than the LSD 0.05"> ◆</span>}

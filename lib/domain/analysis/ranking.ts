@@ -13,6 +13,11 @@ export function rankedValue(m: Pick<EntryResult, "mean" | "lsMean">): number {
   return m.lsMean ?? m.mean;
 }
 
+/** Equal up to rounding in the last digits of a least-squares solve (20 and 20.000000000004 tie). */
+function sameValue(a: number, b: number): boolean {
+  return Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+}
+
 /**
  * Sets `rank` on each mean: 1 is the best for the trait's direction; equal values share a rank. With no
  * preferred direction nothing is ranked (rank null), because a rank would read as "best".
@@ -26,7 +31,7 @@ export function assignRanks<T extends Ranked>(means: T[], betterWhen: BetterWhen
   const sorted = [...means].sort((a, b) => sign * (rankedValue(a) - rankedValue(b)));
   sorted.forEach((m, i) => {
     const previous = sorted[i - 1];
-    m.rank = previous && rankedValue(previous) === rankedValue(m) ? previous.rank : i + 1;
+    m.rank = previous && sameValue(rankedValue(previous), rankedValue(m)) ? previous.rank : i + 1;
   });
 }
 

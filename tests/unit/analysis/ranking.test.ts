@@ -117,3 +117,11 @@ describe("the analysis ranks and words each direction", () => {
     expect(a.beyondLsd).toBe(r.combined!.lsd === null ? null : Math.abs(a.checkDifference!) > r.combined!.lsd);
   });
 });
+
+describe("ties", () => {
+  it("ranks means equal up to a least-squares solve's rounding as a tie", () => {
+    const m = [{ mean: 20, lsMean: 20.000000000004, rank: null as number | null }, { mean: 20, lsMean: 20, rank: null as number | null }, { mean: 21, lsMean: 21, rank: null as number | null }];
+    assignRanks(m, "lower");
+    expect(m.map((x) => x.rank)).toEqual([1, 1, 3]);
+  });
+});
