@@ -66,12 +66,16 @@ export async function listTrialTraits(ex: Executor, trialId: number): Promise<Tr
 }
 
 /** Plots of an enrolment in layout order (block, then position), with blind codes only. */
-export async function listEnrolmentPlots(ex: Executor, enrolmentId: number) {
+/** `onlyPlots` narrows the rows to those plots of the enrolment (a save that names its plots by id). */
+const plotFilter = (enrolmentId: number, onlyPlots?: number[]) =>
+  onlyPlots && onlyPlots.length > 0 ? and(eq(plots.enrolmentId, enrolmentId), inArray(plots.id, onlyPlots)) : eq(plots.enrolmentId, enrolmentId);
+
+export async function listEnrolmentPlots(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
   return ex
     .select({ id: plots.id, plotCode: plots.plotCode, block: plots.block, position: plots.position, tray: plots.tray, traySlot: plots.traySlot, blindCode: trialEntries.blindCode })
     .from(plots)
     .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
-    .where(eq(plots.enrolmentId, enrolmentId))
+    .where(plotFilter(enrolmentId, onlyPlots))
     .orderBy(asc(plots.block), asc(plots.position));
 }
 export type EnrolmentPlot = Awaited<ReturnType<typeof listEnrolmentPlots>>[number];
@@ -81,13 +85,13 @@ export type EnrolmentPlot = Awaited<ReturnType<typeof listEnrolmentPlots>>[numbe
  * the packet gives none), by plot id. Unblinding data: server-side checks and staff pages only, never sent
  * to a grower.
  */
-export async function listPlotPacketDays(ex: Executor, enrolmentId: number): Promise<Record<number, number | null>> {
+export async function listPlotPacketDays(ex: Executor, enrolmentId: number, onlyPlots?: number[]): Promise<Record<number, number | null>> {
   const rows = await ex
     .select({ plotId: plots.id, packetDays: seedLots.packetDaysToMaturity })
     .from(plots)
     .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
     .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-    .where(eq(plots.enrolmentId, enrolmentId));
+    .where(plotFilter(enrolmentId, onlyPlots));
   return Object.fromEntries(rows.map((r) => [r.plotId, r.packetDays]));
 }
 
@@ -100,12 +104,12 @@ export interface ObservationRow extends CellValue {
 }
 
 /** Recorded values of an enrolment, by plot, trait and occasion (day after sowing, 0 for unscheduled traits). */
-export async function listEnrolmentObservations(ex: Executor, enrolmentId: number): Promise<ObservationRow[]> {
+export async function listEnrolmentObservations(ex: Executor, enrolmentId: number, onlyPlots?: number[]): Promise<ObservationRow[]> {
   const rows = await ex
     .select({ id: observations.id, plotId: observations.plotId, traitId: observations.traitId, occasion: observations.occasion, valueNumber: observations.valueNumber, valueDate: observations.valueDate, valueText: observations.valueText, missingReason: observations.missingReason })
     .from(observations)
     .innerJoin(plots, eq(plots.id, observations.plotId))
-    .where(eq(plots.enrolmentId, enrolmentId));
+    .where(plotFilter(enrolmentId, onlyPlots));
   return rows.map((r) => ({ ...r, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber) }));
 }
 

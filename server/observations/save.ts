@@ -93,11 +93,14 @@ export async function planSiteObservations(
   const sub = await getSubmissionRow(ex, enrolment.enrolmentId);
   assertEditable(viewer, enrolment, sub?.status ?? null);
 
+  // Every check is per plot, so a save that names its plots by id (the phone form) reads only those plots;
+  // a sheet names plots by code and reads the site's plots to find them.
+  const onlyPlots = input.cells.length > 0 && input.cells.every((c) => c.plotId !== undefined) ? [...new Set(input.cells.map((c) => c.plotId!))] : undefined;
   const [columns, plotRows, storedRows, packetDays] = await Promise.all([
     listTrialColumns(ex, enrolment.trialId),
-    listEnrolmentPlots(ex, enrolment.enrolmentId),
-    listEnrolmentObservations(ex, enrolment.enrolmentId),
-    listPlotPacketDays(ex, enrolment.enrolmentId),
+    listEnrolmentPlots(ex, enrolment.enrolmentId, onlyPlots),
+    listEnrolmentObservations(ex, enrolment.enrolmentId, onlyPlots),
+    listPlotPacketDays(ex, enrolment.enrolmentId, onlyPlots),
   ]);
   const stored = keyObservations(storedRows, columns);
   const byId = new Map(plotRows.map((p) => [p.id, p]));
