@@ -6,8 +6,6 @@ import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 export type ChartDirection = { betterWhen: BetterWhen; computation: string };
 const PLAIN: ChartDirection = { betterWhen: "neither", computation: "none" };
 
-const capitalised = (word: string) => word.charAt(0).toUpperCase() + word.slice(1);
-
 /** The entry that comes first among `rows` for the direction: the best one, or the lowest when there is no preference. */
 function firstOf<T extends { mean: number; entry: string }>(rows: T[], direction: ChartDirection): T | undefined {
   const sign = direction.betterWhen === "higher" ? -1 : 1;
@@ -19,6 +17,7 @@ import { formatNumber } from "@/lib/domain/analysis/format";
 import { Chart } from "./chart";
 import { ENTRY_COLOURS, ENTRY_SYMBOLS } from "./palette";
 import type { EntryLabel, GerminationRowView, MeanRow } from "./analysis-tables";
+import { capitalise } from "@/lib/domain/vocabulary/words";
 
 /** One entry's mean at one site, already labelled (blind code or name) by the caller. */
 export interface SiteCell {
@@ -75,7 +74,7 @@ export function InteractionChart({ cells, order, unit, direction = PLAIN }: { ce
   // A line joins its points in data order, so the points go in the order of the sites on the axis.
   const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean })).sort((a, b) => sites.indexOf(a.site) - sites.indexOf(b.site));
   const first = sites.map((site) => `${site}: ${firstOf(data.filter((d) => d.site === site), direction)?.entry ?? "–"}`);
-  const firstWords = direction.betterWhen === "neither" ? `${capitalised(extremeWord(direction, "first"))} entry per site` : `Best (${extremeWord(direction, "first")}) entry per site`;
+  const firstWords = direction.betterWhen === "neither" ? `${capitalise(extremeWord(direction, "first"))} entry per site` : `Best (${extremeWord(direction, "first")}) entry per site`;
   const summary = `Entry means at each site, sites ordered from lowest to highest site mean. ${firstWords} — ${first.join("; ")}. Lines that cross show entries changing places between sites.`;
   return (
     <Chart
@@ -135,7 +134,7 @@ export function SiteResponseChart({ cells, order, unit, direction = PLAIN }: { c
   const poorest = ordered[0]!;
   const best = ordered.at(-1)!;
   const firstAt = (name: string) => firstOf(data.filter((d) => d.site === name), direction)?.entry ?? "–";
-  const firstWords = direction.betterWhen === "neither" ? `${capitalised(extremeWord(direction, "first"))} entry` : `Best (${extremeWord(direction, "first")}) entry`;
+  const firstWords = direction.betterWhen === "neither" ? `${capitalise(extremeWord(direction, "first"))} entry` : `Best (${extremeWord(direction, "first")}) entry`;
   const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. ${firstWords} at the site with the lowest mean: ${firstAt(poorest.name)}; at the highest: ${firstAt(best.name)}.`;
   return (
     <Chart

@@ -14,6 +14,7 @@ import { SharingPanel } from "./sharing-panel";
 import { LazyDetails } from "./lazy-details";
 import { DirectionPanel } from "./direction-panel";
 import { orderWords } from "@/lib/domain/analysis/ranking";
+import { capitalise } from "@/lib/domain/vocabulary/words";
 
 /** URL search string for settings; the same string is the API query, the export query and the page URL. */
 export function settingsQuery(s: AnalysisSettings): string {
@@ -262,7 +263,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 {s.result && (
                   <div className="space-y-3 pb-3">
                     <MeansTable means={inUnit(s.result.means)} label={label} unit={unit} order={orderWords(result.trait)} caption={`Entry means at ${s.siteName}`} />
-                    <p className="text-sm">{s.result.comparisonNote.charAt(0).toUpperCase() + s.result.comparisonNote.slice(1)}</p>
+                    <p className="text-sm">{capitalise(s.result.comparisonNote)}</p>
                     <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
                   </div>
                 )}

@@ -6,6 +6,7 @@ import { cvWords, differenceUnit, differenceWithUnit, formatNumber, formatP, has
 import { ANOVA_SOURCE_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
 import { ACCENT, INK, RULE, SHADE, base } from "../shared/pdf";
 import { MeansChart } from "./means-chart";
+import { capitalise } from "@/lib/domain/vocabulary/words";
 
 const SETUP: Record<string, string> = { indoor_lights: "indoors under lights", greenhouse: "greenhouse", high_tunnel: "high tunnel", field: "field" };
 const DESIGN: Record<string, string> = { rcbd: "randomised complete blocks", crd: "completely randomised" };
@@ -143,9 +144,6 @@ function AnovaTable({ block }: { block: PublicBlock }) {
   );
 }
 
-function capitalise(text: string): string {
-  return text.charAt(0).toUpperCase() + text.slice(1);
-}
 
 function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages: SectionPages; id: string }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;

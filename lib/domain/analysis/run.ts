@@ -16,7 +16,7 @@ import {
   type MultiSitePlot,
 } from "@/lib/domain/stats";
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
-import { plural } from "@/lib/domain/vocabulary/words";
+import { capitalise, plural } from "@/lib/domain/vocabulary/words";
 import { ANOVA_SOURCE_LABELS, EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
 import { countOf, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
@@ -431,9 +431,6 @@ function plotValueRow(r: PlotRow): PlotValue {
   };
 }
 
-function capitalise(text: string): string {
-  return text.charAt(0).toUpperCase() + text.slice(1);
-}
 
 function statusWords(status: InputSite["status"]): string {
   return status === "submitted" ? "submitted" : status === "returned" ? "returned for corrections" : status === "draft" ? "still in draft" : "accepted";

@@ -1,6 +1,7 @@
 import { extremeWord, inStatedOrder, noPairDiffers, rankedValue } from "@/lib/domain/analysis/ranking";
 import type { AnalysisResult, EntryResult } from "@/lib/domain/analysis/types";
 import { formatP, valueWithUnit } from "@/lib/domain/analysis/format";
+import { capitalise } from "@/lib/domain/vocabulary/words";
 
 function nameOf(e: EntryResult): string {
   return e.varietyName ?? e.blindCode;
@@ -62,6 +63,3 @@ function sharesLetter(a: string, b: string): boolean {
   return [...a].some((ch) => b.includes(ch));
 }
 
-function capitalise(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
-}

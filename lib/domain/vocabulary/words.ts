@@ -4,3 +4,8 @@
 export function plural(n: number, noun: string, nouns = `${noun}s`): string {
   return `${n} ${n === 1 ? noun : nouns}`;
 }
+
+/** A sentence or heading that starts with a capital: "earliest here" -> "Earliest here". */
+export function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
