@@ -43,22 +43,25 @@ export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { 
 }
 export type RecordableEnrolment = NonNullable<Awaited<ReturnType<typeof getRecordableEnrolment>>>;
 
+/** What the recording form's columns and the schedule read of a trait (see entryColumns). */
+export const traitColumnFields = {
+  id: traits.id,
+  code: traits.code,
+  name: traits.name,
+  unit: traits.unit,
+  valueType: traits.valueType,
+  minValue: traits.minValue,
+  maxValue: traits.maxValue,
+  dueDaysAfterSowing: traits.dueDaysAfterSowing,
+  dueByDay: traits.dueByDay,
+  dueNote: traits.dueNote,
+  computation: traits.computation,
+};
+
 /** The traits recorded in a trial, in the trial's trait order (server/observations turns them into columns). */
 export async function listTrialTraits(ex: Executor, trialId: number): Promise<TraitForColumns[]> {
   return ex
-    .select({
-      id: traits.id,
-      code: traits.code,
-      name: traits.name,
-      unit: traits.unit,
-      valueType: traits.valueType,
-      minValue: traits.minValue,
-      maxValue: traits.maxValue,
-      dueDaysAfterSowing: traits.dueDaysAfterSowing,
-      dueByDay: traits.dueByDay,
-      dueNote: traits.dueNote,
-      computation: traits.computation,
-    })
+    .select(traitColumnFields)
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
     .where(eq(trialTraits.trialId, trialId))

@@ -17,6 +17,7 @@ import {
   trials,
 } from "../schema";
 import { cooperatorEnrolmentScope, staffSiteScope, staffTrialScope } from "../access";
+import { traitColumnFields } from "./observations";
 import type { Viewer } from "@/lib/domain/viewer";
 
 /** Trials in the coordinator's programs with entry and site counts, newest season first; only one season's when `seasonId` is given. */
@@ -81,19 +82,7 @@ export async function listScheduleRows(viewer: Viewer) {
 
   const trialIds = [...new Set(enrolmentRows.map((r) => r.trialId))];
   const traitRows = await db
-    .select({
-      trialId: trialTraits.trialId,
-      id: traits.id,
-      code: traits.code,
-      name: traits.name,
-      unit: traits.unit,
-      valueType: traits.valueType,
-      minValue: traits.minValue,
-      maxValue: traits.maxValue,
-      dueDaysAfterSowing: traits.dueDaysAfterSowing,
-      dueByDay: traits.dueByDay,
-      dueNote: traits.dueNote,
-    })
+    .select({ trialId: trialTraits.trialId, ...traitColumnFields })
     .from(trialTraits)
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
     .where(inArray(trialTraits.trialId, trialIds))
