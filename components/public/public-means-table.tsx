@@ -2,7 +2,7 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { formatNumber } from "@/lib/domain/analysis/format";
-import { inStatedOrder, rankedValue } from "@/lib/domain/analysis/ranking";
+import { inStatedOrder, lsdWords, rankedValue } from "@/lib/domain/analysis/ranking";
 import type { PublicMean } from "@/lib/domain/publish/public-shape";
 import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 
@@ -18,8 +18,7 @@ function signed(x: number): string {
 function againstCheck(m: PublicMean): string {
   if (m.isCheck) return "the check";
   if (m.checkDifference === null) return "–";
-  const lsd = m.beyondLsd === null ? "" : m.beyondLsd ? " (beyond the LSD)" : " (within the LSD)";
-  return `${signed(m.checkDifference)}${lsd}`;
+  return `${signed(m.checkDifference)}${lsdWords(m.beyondLsd)}`;
 }
 
 /**

@@ -2,7 +2,7 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import { formatNumber, valueWithUnit } from "@/lib/domain/analysis/format";
-import { directionLabel } from "@/lib/domain/analysis/ranking";
+import { directionLabel, lsdWords } from "@/lib/domain/analysis/ranking";
 import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 
 export interface VarietyTraitRow {
@@ -24,7 +24,7 @@ export interface VarietyTraitRow {
 export function percentOfCheckText(r: Pick<VarietyTraitRow, "percentOfCheck" | "beyondLsd">, isCheck: boolean): string {
   if (isCheck) return "100% (the check)";
   if (r.percentOfCheck === null) return "–";
-  return `${formatNumber(r.percentOfCheck, 0)}%${r.beyondLsd === null ? "" : r.beyondLsd ? " (beyond the LSD)" : " (within the LSD)"}`;
+  return `${formatNumber(r.percentOfCheck, 0)}%${lsdWords(r.beyondLsd)}`;
 }
 
 function columnsFor(isCheck: boolean): ColumnDef<VarietyTraitRow, unknown>[] {

@@ -4,6 +4,7 @@
  */
 import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 import type { EntryResult } from "./types";
+import { capitalise } from "@/lib/domain/vocabulary/words";
 
 type Ranked = Pick<EntryResult, "mean" | "lsMean" | "rank">;
 type Comparable = Pick<EntryResult, "mean" | "lsMean" | "isCheck">;
@@ -65,7 +66,7 @@ export function extremeWord(trait: TraitShape, which: "first" | "last"): string 
 /** The heading for the entry that comes first at a site: "Best here (earliest)", or plainly "Earliest here". */
 export function leaderHeading(trait: TraitShape): string {
   const word = extremeWord(trait, "first");
-  return trait.betterWhen === "neither" ? `${word.charAt(0).toUpperCase()}${word.slice(1)} here` : `Best here (${word})`;
+  return trait.betterWhen === "neither" ? `${capitalise(word)} here` : `Best here (${word})`;
 }
 
 /** Whether the mean comparison found no pair that differs: every entry shares one letter. */
@@ -105,4 +106,9 @@ export function compareWithCheck(means: readonly Comparable[], lsd: number | nul
       beyondLsd: lsd === null ? null : Math.abs(difference) > lsd,
     };
   });
+}
+
+/** " (beyond the LSD)", " (within the LSD)", or nothing when there is no LSD to judge by. */
+export function lsdWords(beyondLsd: boolean | null): string {
+  return beyondLsd === null ? "" : beyondLsd ? " (beyond the LSD)" : " (within the LSD)";
 }
