@@ -162,7 +162,7 @@ function cutAt(body: Buffer, separator: Buffer): Buffer[] {
 
 function answer(request: NextRequest, a: Answer, how: "hit" | "miss"): NextResponse {
   const nonce = newNonce();
-  const headers = new Headers(a.renderNonce === null ? a.headers : a.headers.map(([k, v]) => [k, v.replaceAll(a.renderNonce!, nonce)]));
+  const headers = new Headers(a.renderNonce === null ? a.headers : a.headers.map(([k, v]): [string, string] => [k, v.replaceAll(a.renderNonce!, nonce)]));
   headers.set("content-security-policy", contentSecurityPolicy(nonce));
   headers.set(PUBLIC_CACHE_HEADER, how);
   if (request.method === "HEAD") return new NextResponse(null, { status: a.status, headers });
