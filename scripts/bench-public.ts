@@ -4,14 +4,14 @@
 //   BENCH_BASE_URL=http://127.0.0.1:3250 npm run bench:public
 // It reads only public addresses (no database access, nothing is changed): the chunk, the trial, a variety
 // and a site are found from the server's own pages. Each address is warmed with a few requests, then run
-// by autocannon with BENCH_CONNECTIONS (default 10) for BENCH_SECONDS (default 5) seconds.
+// by autocannon with PUBLIC_CONNECTIONS (default 10) for PUBLIC_SECONDS (default 5) seconds.
 // Targets: each public address at least 40% of the floor's throughput, p95 under 50 ms.
 import autocannon from "autocannon";
 import { loadavg, availableParallelism } from "node:os";
 
 const BASE = (process.env.BENCH_BASE_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
-const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
-const SECONDS = Number(process.env.BENCH_SECONDS ?? 5);
+const CONNECTIONS = Number(process.env.PUBLIC_CONNECTIONS ?? 10);
+const SECONDS = Number(process.env.PUBLIC_SECONDS ?? 5);
 const MIN_RATIO = 0.4;
 const MAX_P95_MS = 50;
 const FLOOR_BYTES = 41 * 1024;
