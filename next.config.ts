@@ -20,6 +20,15 @@ const nextConfig: NextConfig = {
     // The copy of a page request's body Next makes for proxy.ts, which refuses anything over the page limit.
     proxyClientMaxBodySize: PROXY_BODY_COPY_BYTES,
   },
+  // The first, unversioned open data addresses move permanently to /api/public/v1 (query kept). Next's router
+  // answers them before proxy.ts, as cheaply as a static file; a malformed code falls through to the route
+  // handlers in app/api/public/trials, which refuse it with a 404.
+  async redirects() {
+    return [
+      { source: "/api/public/trials", destination: "/api/public/v1/trials", permanent: true },
+      { source: "/api/public/trials/:code([A-Za-z0-9-]{1,40})", destination: "/api/public/v1/trials/:code", permanent: true },
+    ];
+  },
   async headers() {
     return [
       { source: "/:path*", headers: securityHeaders },

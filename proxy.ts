@@ -4,24 +4,8 @@ import { env } from "@/lib/env";
 import { isAppError } from "@/lib/errors";
 import { readBodyWithin } from "@/server/http/body";
 import { assertOwnOrigin } from "@/server/http/origin";
-
-// A per-request nonce lets Next's own inline scripts run while any injected script is refused.
-function contentSecurityPolicy(nonce: string): string {
-  const dev = env.NODE_ENV === "development";
-  return [
-    "default-src 'self'",
-    `script-src 'self' 'nonce-${nonce}' 'strict-dynamic'${dev ? " 'unsafe-eval'" : ""}`,
-    // Charts and React set style attributes; styles cannot run code.
-    "style-src 'self' 'unsafe-inline'",
-    "img-src 'self' data: blob:",
-    "font-src 'self'",
-    "connect-src 'self'",
-    "object-src 'none'",
-    "base-uri 'self'",
-    "form-action 'self'",
-    "frame-ancestors 'none'",
-  ].join("; ");
-}
+import { contentSecurityPolicy, newNonce } from "@/server/http/content-security-policy";
+import { answerFromPublicCache } from "@/server/publish/public-cache";
 
 function isDecodable(pathname: string): boolean {
   try {
@@ -57,7 +41,8 @@ async function refuseWrite(request: NextRequest): Promise<NextResponse | null> {
  * Runs before every page and every route except those that read a body themselves (see config): refuses
  * undecodable paths with a 400 (Next would answer 500), refuses foreign or oversized writes, redirects
  * signed-out visitors away from /portal early (a convenience only: every page, action and route still
- * checks the viewer and role itself through server/auth/guards), and sets the CSP.
+ * checks the viewer and role itself through server/auth/guards), answers anonymous public requests from
+ * the public cache (server/publish/public-cache.ts), and sets the CSP with a nonce of its own on every answer.
  */
 export default async function proxy(request: NextRequest) {
   const { pathname, search } = request.nextUrl;
@@ -72,7 +57,9 @@ export default async function proxy(request: NextRequest) {
       return NextResponse.redirect(signIn);
     }
   }
-  const nonce = Buffer.from(crypto.randomUUID()).toString("base64");
+  const cached = await answerFromPublicCache(request);
+  if (cached) return cached;
+  const nonce = newNonce();
   const policy = contentSecurityPolicy(nonce);
   const headers = new Headers(request.headers);
   headers.set("x-nonce", nonce);

@@ -53,3 +53,12 @@ function parseEnv(): Env {
 }
 
 export const env: Env = parseEnv();
+
+/**
+ * The port this server listens on, read when asked: `next start` sets PORT once it listens, after the
+ * settings above are parsed. The public cache renders its answers through it (server/publish/public-cache.ts).
+ */
+export function listeningPort(): number | null {
+  const port = Number(process.env.PORT);
+  return Number.isInteger(port) && port > 0 && port < 65536 ? port : null;
+}

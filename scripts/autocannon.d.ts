@@ -1,4 +1,4 @@
-// autocannon ships no types; only what scripts/bench-load.ts uses is declared.
+// autocannon ships no types; only what the bench scripts use is declared.
 declare module "autocannon" {
   interface Options {
     url: string;
@@ -12,6 +12,9 @@ declare module "autocannon" {
     errors: number;
     timeouts: number;
     non2xx: number;
+    requests: { total: number; average: number };
+    latency: { p50: number; p97_5: number; p99: number; average: number };
+    throughput: { total: number };
   }
   interface Instance extends PromiseLike<Result> {
     on(event: "response", listener: (client: unknown, statusCode: number, resBytes: number, responseTime: number) => void): this;

@@ -22,7 +22,9 @@ const bytes = bigSiteCsv(site);
 const time = async <T>(label: string, fn: () => Promise<T>) => {
   const t0 = performance.now();
   const out = await fn();
-  console.log(`${label.padEnd(10)} ${(performance.now() - t0).toFixed(0).padStart(6)} ms`);
+  const ms = performance.now() - t0;
+  console.log(`${label.padEnd(10)} ${ms.toFixed(0).padStart(6)} ms`);
+  console.log(["RESULT", `${rows}-row upload, ${label}`, ms.toFixed(0), "ms", "-", "-", "-"].join("\t"));
   return out;
 };
 console.log(`${rows} rows, ${(bytes.length / 1024).toFixed(0)} KB CSV, ${rows * 3} values`);

@@ -1,7 +1,7 @@
 import "server-only";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import type { Tx } from "../index";
-import { publishedReports, trials } from "../schema";
+import { publicGeneration, publishedReports, trials } from "../schema";
 import { insertAudit } from "../audit";
 import { insertMail } from "./mail";
 import type { TrialStatus } from "@/lib/domain/vocabulary/enums";
@@ -46,7 +46,17 @@ export async function insertPublishedReport(tx: Tx, p: PreparedPublication): Pro
   await tx.update(trials).set({ status: "published" }).where(eq(trials.id, p.trialId));
   await insertAudit(tx, { actorId: p.actorId, action: "publish", entity: "trial", entityId: p.trialId, trialId: p.trialId, oldValue: { status: p.previousStatus }, newValue: { version: p.version, traitId: p.traitId } });
   for (const mail of p.mails) await insertMail(tx, mail);
+  await renewPublicGeneration(tx);
   return row!.id;
+}
+
+/**
+ * Gives the public generation a new stamp in the caller's transaction. Every write that changes what the
+ * public pages or API show calls it, so each app instance's public cache sees the change at its next
+ * request (server/publish/public-cache.ts).
+ */
+export async function renewPublicGeneration(tx: Tx) {
+  await tx.insert(publicGeneration).values({ id: 1, stamp: sql`UUID()` }).onDuplicateKeyUpdate({ set: { stamp: sql`UUID()` } });
 }
 
 /**
@@ -59,5 +69,6 @@ export async function updateReportsWithdrawn(tx: Tx, p: { actorId: number; trial
     .set({ unpublishedAt: p.withdrawnAt, unpublishReason: p.reason })
     .where(and(eq(publishedReports.trialId, p.trialId), isNull(publishedReports.unpublishedAt)));
   await tx.update(trials).set({ status: "analysing" }).where(eq(trials.id, p.trialId));
+  await renewPublicGeneration(tx);
   await insertAudit(tx, { actorId: p.actorId, action: "unpublish", entity: "trial", entityId: p.trialId, trialId: p.trialId, oldValue: { status: p.previousStatus }, newValue: { reason: p.reason } });
 }

@@ -5,6 +5,7 @@ import { enrolments, observations, plots, programCoordinators, seasons, seedLots
 import type { BetterWhen, PlotUnit, TrialDesign, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import type { SitePlot } from "@/lib/domain/design/site-layout";
 import { insertAudit } from "../audit";
+import { renewPublicGeneration } from "./publish";
 import { isDuplicateKey, requireStaff, type LockedTrial } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -157,6 +158,8 @@ export async function updateTrialDesign(tx: Tx, p: { viewer: Viewer; trial: Lock
     .set({ title: design.title, purpose: design.purpose ?? null, design: design.design, blocks: design.blocks, plotUnit: design.plotUnit, plotSize: design.plotSize, seedsPerCell: design.seedsPerCell, protocol: design.protocol ?? null })
     .where(eq(trials.id, trial.id));
   if (p.traitsChanged) await replaceTraits(tx, trial.id, design.traitIds);
+  // a withdrawn trial's public notice shows its current title
+  if (design.title !== trial.title) await renewPublicGeneration(tx);
   await insertAudit(tx, { actorId: p.viewer.id, action: "update", entity: "trial", entityId: trial.id, trialId: trial.id, oldValue: { ...trial, traitIds: p.currentTraitIds }, newValue: { trialId: trial.id, ...design } });
 }
 

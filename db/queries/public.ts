@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "../index";
-import { publishedReports, trials } from "../schema";
+import { publicGeneration, publishedReports, trials } from "../schema";
 
 // Public reads come only from published snapshots, never from live tables, so nothing unpublished can
 // leak and later data changes cannot alter what was published. These return stored rows; the public
@@ -74,4 +74,15 @@ export async function listLatestLiveReportIds(): Promise<number[]> {
 export async function listStoredSnapshots(reportIds: number[]): Promise<{ id: number; snapshot: string }[]> {
   if (reportIds.length === 0) return [];
   return db.select({ id: publishedReports.id, snapshot: publishedReports.snapshot }).from(publishedReports).where(inArray(publishedReports.id, reportIds));
+}
+
+const generationQuery = db.select({ stamp: publicGeneration.stamp }).from(publicGeneration).where(eq(publicGeneration.id, 1)).prepare();
+
+/**
+ * The stamp of what the public pages show now (a primary-key read): it changes with every publication,
+ * withdrawal or public title change; "none" while the row does not exist.
+ */
+export async function readPublicGeneration(): Promise<string> {
+  const [row] = await generationQuery.execute();
+  return row?.stamp ?? "none";
 }

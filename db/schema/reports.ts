@@ -1,4 +1,4 @@
-import { index, int, json, longtext, mysqlEnum, mysqlTable, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { char, index, int, json, longtext, mysqlEnum, mysqlTable, text, timestamp, tinyint, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref } from "./columns";
 import { traits } from "./traits";
 import { plots, trials } from "./trials";
@@ -29,6 +29,19 @@ export const publishedReports = mysqlTable(
   },
   (t) => [uniqueIndex("published_reports_version_unique").on(t.trialId, t.version)],
 );
+
+/**
+ * One row whose stamp changes, in the same transaction, with every write that changes what the public
+ * pages and API show (a publication, a withdrawal, a trial's title). Each app instance keeps rendered
+ * public answers in memory tagged with the stamp they were rendered under and reads this row (a primary-key
+ * lookup) on every public request, so a change made through any instance is seen by all at their next
+ * request (server/publish/public-cache.ts). No row (an emptied database) is a stamp of its own.
+ */
+export const publicGeneration = mysqlTable("public_generation", {
+  id: tinyint("id").primaryKey(),
+  stamp: char("stamp", { length: 36 }).notNull(),
+  changedAt: timestamp("changed_at", { mode: "date" }).notNull().defaultNow().onUpdateNow(),
+});
 
 /**
  * A site or plot left out of an analysis; the data itself is never deleted. The category is the public

@@ -20,14 +20,14 @@ const cookieHeader = (jar: Map<string, string>) => [...jar.entries()].map(([k, v
  * Signs in through next-auth's credentials endpoint, as the sign-in form does, with extra `headers` on
  * both requests. Every call comes from 127.0.0.1; a test whose failures must not count against that
  * address signs in from one of its own (helpers/from-address.ts). Answers the raw callback response too,
- * for tests about refusals.
+ * for tests about refusals. `base` is another server's address (default: the suite's server).
  */
-export async function credentialsSignIn(email: string, password: string, headers: Record<string, string> = {}) {
+export async function credentialsSignIn(email: string, password: string, headers: Record<string, string> = {}, base: string = baseUrl) {
   const jar = new Map<string, string>();
-  const csrf = await fetch(new URL("/api/auth/csrf", baseUrl), { headers });
+  const csrf = await fetch(new URL("/api/auth/csrf", base), { headers });
   mergeCookies(jar, csrf.headers.getSetCookie());
   const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-  const response = await fetch(new URL("/api/auth/callback/credentials", baseUrl), {
+  const response = await fetch(new URL("/api/auth/callback/credentials", base), {
     method: "POST",
     redirect: "manual",
     headers: { ...headers, "Content-Type": "application/x-www-form-urlencoded", Cookie: cookieHeader(jar) },
