@@ -67,7 +67,7 @@ export function MixedModelSection({
         ))}
       </ul>
       <DataTable pageSize={null} data={components} columns={componentColumns} caption={`How the variation splits (REML estimates over ${mixed.environments.length} ${env}s)`} />
-      <MeansTable means={means} label={label} unit={unit} order={order} caption="Variety means from the mixed model" />
+      <MeansTable means={means} label={label} unit={unit} order={order} caption="Variety means from the mixed model" lsdMarks={false} />
       <p className="text-sm">
         Varieties: F = {formatNumber(mixed.entryTest.f, 2)} on {mixed.entryTest.numDf} and {formatNumber(mixed.entryTest.denDf, 1)} df, {formatP(mixed.entryTest.p)} ·
         SE of the means from the mixed model (df {mixed.dfMethod === "satterthwaite" ? "by Satterthwaite" : "by Kenward-Roger"}: {formatNumber(Math.min(...dfs), 1)} to {formatNumber(Math.max(...dfs), 1)}) · letters from

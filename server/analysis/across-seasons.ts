@@ -2,7 +2,8 @@ import "server-only";
 import { listCropTrials, listCropsWithTrials, listTraitsOfTrials } from "@/db/queries/across-seasons";
 import { listAnalysisTraits } from "@/db/queries/analysis";
 import { loadAnalysis } from "./load-analysis";
-import { mixedAcrossSeasons, type SeasonResult } from "@/lib/domain/analysis/mixed-seasons";
+import { mixedAcrossSeasons, varietyKey, type SeasonResult } from "@/lib/domain/analysis/mixed-seasons";
+import { standingAcrossSeasons } from "@/lib/domain/analysis/mixed-variety";
 import { isAnalysable } from "@/lib/domain/analysis/values";
 import { isStaff } from "@/lib/domain/permissions";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -37,4 +38,22 @@ export async function loadAcrossSeasons(viewer: Viewer, p: { cropId?: number; tr
   const outcome = mixedAcrossSeasons(parts);
   const usedTrials = new Set(parts.filter((part) => part.result.plots.some((x) => x.status === "used")).map((part) => part.trialId));
   return { crops, crop, traits, trait, trials: trials.map((t) => ({ ...t, used: usedTrials.has(t.id) })), outcome };
+}
+
+/**
+ * A variety's standing in the across-seasons model of each trait, when it was grown in more than one
+ * season of the viewer's programs' trials (staff only, like the history page that shows it).
+ */
+export async function varietyAcrossSeasons(viewer: Viewer, p: { varietyId: number; cropId: number; traitCodes: string[] }) {
+  if (!isStaff(viewer)) return [];
+  const out = [];
+  for (const traitCode of p.traitCodes) {
+    const view = await loadAcrossSeasons(viewer, { cropId: p.cropId, traitCode });
+    const mixed = view?.outcome?.mixed;
+    const trait = view?.outcome?.trait;
+    if (!mixed || !trait) continue;
+    const standing = standingAcrossSeasons(mixed, varietyKey(0, { entryId: 0, varietyId: p.varietyId }));
+    if (standing) out.push({ traitCode, trait, seasons: view.outcome!.seasons, standing });
+  }
+  return out;
 }

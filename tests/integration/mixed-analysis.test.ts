@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
+import ExcelJS from "exceljs";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer } from "../helpers/demo";
 import { DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
@@ -13,6 +14,7 @@ import { DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 vi.mock("@/server/auth/guards", () => import("../helpers/signed-in-as"));
 const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
+const { GET: getExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { updateResultsShared } = await import("@/db/mutations/exclusions");
 const { loadAcrossSeasons } = await import("@/server/analysis/across-seasons");
 const { pool: appPool } = await import("@/db/index");
@@ -80,6 +82,50 @@ describe("mixed model on a trial's analysis", () => {
     } finally {
       await db.update(s.trials).set({ status: before!.status }).where(eq(s.trials.id, site.trialId));
     }
+  });
+});
+
+describe("mixed model in the exports", () => {
+  const exportAs = async (query: string) => {
+    auth.viewer = coordinator;
+    return getExport(new Request(`http://test.local/api/trials/${site.trialId}/analysis/export?${query}`), { params: Promise.resolve({ trialId: String(site.trialId) }) });
+  };
+
+  it("the .xlsx carries the mixed-model sheets, matching the page's numbers, when the mixed model is chosen", async () => {
+    const page = await analysisAs(coordinator, `trait=${yieldId}&mixed=1`);
+    const mixed = page.body.mixed as { means: { blindCode: string; mean: number; se: number; df: number }[] };
+    const res = await exportAs(`trait=${yieldId}&mixed=1&format=xlsx`);
+    expect(res.status).toBe(200);
+    const workbook = new ExcelJS.Workbook();
+    await workbook.xlsx.load(await res.arrayBuffer());
+    const names = workbook.worksheets.map((w) => w.name);
+    expect(names).toEqual(expect.arrayContaining(["Mixed model", "Mixed means", "Mixed pairs"]));
+    const sheet = workbook.getWorksheet("Mixed means")!;
+    const header = (sheet.getRow(1).values as unknown[]).slice(1);
+    const col = (name: string) => header.indexOf(name) + 1;
+    let rows = 0;
+    sheet.eachRow((row, n) => {
+      if (n === 1) return;
+      rows++;
+      const m = mixed.means.find((x) => x.blindCode === row.getCell(col("Entry")).value)!;
+      expect(row.getCell(col("Mean")).value).toBeCloseTo(m.mean, 9);
+      expect(row.getCell(col("SE")).value).toBeCloseTo(m.se, 9);
+      expect(row.getCell(col("df")).value).toBeCloseTo(m.df, 9);
+    });
+    expect(rows).toBe(mixed.means.length);
+  });
+
+  it("a CSV of the mixed pairs comes only when the mixed model is chosen", async () => {
+    const res = await exportAs(`trait=${yieldId}&mixed=1&format=csv&table=mixed-pairs`);
+    expect(res.status).toBe(200);
+    const text = await res.text();
+    expect(text.split("\n")[0]).toMatch(/First,Second/);
+    const without = await exportAs(`trait=${yieldId}&format=csv&table=mixed-pairs`);
+    expect(without.status).toBe(404);
+    const plain = await exportAs(`trait=${yieldId}&format=xlsx`);
+    const workbook = new ExcelJS.Workbook();
+    await workbook.xlsx.load(await plain.arrayBuffer());
+    expect(workbook.worksheets.map((w) => w.name)).not.toContain("Mixed means");
   });
 });
 

@@ -170,6 +170,11 @@ export function analyseMixed(
   return { mixed, problem: null };
 }
 
+/** A variance component's name in words: "variety × site", "blocks within a site-year", ... */
+export function termWords(term: MixedTerm, env: "site" | "site-year"): string {
+  return term === "environment" ? `differences between ${env}s` : term === "entry:environment" ? `variety × ${env}` : term === "block:environment" ? `blocks within a ${env}` : "plot to plot";
+}
+
 const sd = (variance: number) => Math.sqrt(Math.max(variance, 0));
 
 function componentWords(term: MixedTerm, variance: number, trait: TraitShape, env: "site" | "site-year"): string {
@@ -180,7 +185,7 @@ function componentWords(term: MixedTerm, variance: number, trait: TraitShape, en
       return `How much ${env === "site" ? "sites" : "sites and seasons"} differ: a typical ${where}'s average lies about ${spread} above or below the overall average.`;
     case "entry:environment":
       return variance <= 0
-        ? `How much varieties change rank between ${env}s: no more than chance, so the same varieties lead everywhere.`
+        ? `How much varieties change rank between ${env}s: no more than plot-to-plot noise would explain.`
         : `How much varieties change rank between ${env}s: a variety's advantage moves by about ${spread} from one ${where} to the next.`;
     case "block:environment":
       return `How much blocks within a ${where} differ: about ${spread}.`;
@@ -213,7 +218,7 @@ function mixedNotes(m: MixedAnalysis, trait: TraitShape): string[] {
   if (m.singular) {
     const zero = m.components.filter((c) => c.term !== "residual" && c.variance < 1e-8 * (m.components.find((x) => x.term === "residual")!.variance || 1));
     notes.push(
-      `Estimated at zero: ${zero.map((c) => c.term.replace("environment", m.environmentWord)).join(", ")}. The data show no such variation beyond plot-to-plot noise; the other figures stand.`,
+      `Estimated at zero: ${zero.map((c) => termWords(c.term, m.environmentWord)).join(", ")}. The data show no such variation beyond plot-to-plot noise; the other figures stand.`,
     );
   }
   return notes;
