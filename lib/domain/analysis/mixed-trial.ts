@@ -5,7 +5,7 @@
 import { analyseMixed, type MixedEntryInfo, type MixedRow } from "./mixed";
 import type { AnalysisResult, MixedOutcome } from "./types";
 
-export function mixedForTrial(result: AnalysisResult): MixedOutcome {
+export function mixedForTrial(result: AnalysisResult, options: { forPublication?: boolean } = {}): MixedOutcome {
   const analysed = new Set(result.perSite.filter((s) => s.result !== null).map((s) => s.siteId));
   if (analysed.size < 2) {
     return { mixed: null, mixedProblem: `The mixed model needs at least 2 analysed sites (there ${analysed.size === 1 ? "is" : "are"} ${analysed.size}).` };
@@ -13,7 +13,7 @@ export function mixedForTrial(result: AnalysisResult): MixedOutcome {
   const rows: MixedRow[] = result.plots.flatMap((p) =>
     p.status === "used" && p.value !== null && analysed.has(p.siteId) ? [{ site: `${p.siteId}`, block: String(p.block), entryKey: String(p.entryId), value: p.value }] : [],
   );
-  const named = result.trial.status === "published" || result.trial.status === "archived";
+  const named = options.forPublication === true || result.trial.status === "published" || result.trial.status === "archived";
   const seen = new Map<number, MixedEntryInfo>();
   for (const m of [...(result.combined?.means ?? []), ...result.perSite.flatMap((s) => s.result?.means ?? [])]) {
     if (seen.has(m.entryId)) continue;
