@@ -16,7 +16,7 @@ const { testAuth: auth } = await import("../helpers/signed-in-as");
 const { GET } = await import("@/app/api/trials/[trialId]/analysis/route");
 const { GET: getExport } = await import("@/app/api/trials/[trialId]/analysis/export/route");
 const { updateResultsShared } = await import("@/db/mutations/exclusions");
-const { loadAcrossSeasons } = await import("@/server/analysis/across-seasons");
+const { loadAcrossSeasons, varietyAcrossSeasons } = await import("@/server/analysis/across-seasons");
 const { pool: appPool } = await import("@/db/index");
 
 const { db, pool } = testDatabase();
@@ -144,6 +144,17 @@ describe("across seasons", () => {
     expect(mixed, view.outcome?.mixedProblem ?? "").toBeTruthy();
     expect(mixed!.environmentWord).toBe("site-year");
     expect(mixed!.environments.every((e) => /\d{4}/.test(e))).toBe(true);
+  });
+
+  it("a variety's standing across seasons is for staff: the coordinator gets mean, SE and site-years, a grower nothing", async () => {
+    const [crop] = await db.select({ id: s.crops.id }).from(s.crops).where(eq(s.crops.name, "Lettuce"));
+    const [variety] = await db.select({ id: s.varieties.id }).from(s.varieties).where(eq(s.varieties.name, LETTUCE.entries[0]!.variety));
+    const args = { varietyId: variety!.id, cropId: crop!.id, traitCodes: ["marketable_yield"] };
+    const rows = await varietyAcrossSeasons(coordinator, args);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]!.standing.se).toBeGreaterThan(0);
+    expect(rows[0]!.standing.environments).toBeGreaterThan(0);
+    expect(await varietyAcrossSeasons(grower, args)).toEqual([]);
   });
 
   it("a coordinator of another program sees none of this program's crops or trials", async () => {

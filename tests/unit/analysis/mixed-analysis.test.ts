@@ -4,6 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { mixedAcrossSeasons, type SeasonResult } from "@/lib/domain/analysis/mixed-seasons";
 import { analyseMixed, type MixedEntryInfo, type MixedRow } from "@/lib/domain/analysis/mixed";
+import { mixedFromPublished, standingAcrossSeasons, type PublishedSeason } from "@/lib/domain/analysis/mixed-variety";
 import type { AnalysisResult, PlotValue } from "@/lib/domain/analysis/types";
 import { readCsv, readJson, relativeError } from "../stats/fixtures";
 
@@ -104,5 +105,45 @@ describe("the mixed model in words", () => {
     const outcome = analyseMixed(rows.filter((r) => r.site === "S1"), entries, { name: "Yield", unit: "kg", valueType: "number", computation: "none", betterWhen: "higher" });
     expect(outcome.mixed).toBeNull();
     expect(outcome.problem).toMatch(/at least two/);
+  });
+});
+
+describe("variety history across seasons from published versions", () => {
+  /** Case 03 as one published version per season; `data` rows as the snapshot stores them. */
+  function published(): PublishedSeason[] {
+    const rows = readCsv("r-mixed/mix-pub-03-multi-year-unbalanced.csv").map(unquote);
+    return [...new Set(rows.map((r) => r.year))].map((year) => {
+      const mine = rows.filter((r) => r.year === year);
+      const varieties = [...new Set(mine.map((r) => r.entry))];
+      const code = (v: string) => `C${year.slice(2)}${varieties.indexOf(v)}`;
+      return {
+        trial: { code: `T${year}`, season: "Summer", year: Number(year) },
+        entries: varieties.map((v) => ({ blindCode: code(v), varietyId: Number(v.slice(1)), variety: v, isCheck: v === "V01" })),
+        results: [{ result: { trait: { ...TRAIT } } }],
+        data: mine.map((r) => ({ site: r.site, block: Number(r.block), blindCode: code(r.entry), trait: TRAIT.analysedAs, value: r.value === "" || r.value === "NA" ? null : Number(r.value), status: r.value === "" || r.value === "NA" ? "missing" : "used" })),
+      };
+    });
+  }
+
+  it("uses only the published versions' used values, with site-years as environments, as R's model", () => {
+    const { mixed, seasons } = mixedFromPublished(published(), "yield");
+    expect(seasons).toBe(3);
+    const reference = readJson("r-mixed/mix-pub-03-multi-year-unbalanced.json").analyses;
+    const means = reference.find((a: { id: string }) => a.id === "entry_means_satterthwaite").means;
+    for (const m of means) {
+      const standing = standingAcrossSeasons(mixed!, `variety:${Number(m.entry.slice(1))}`)!;
+      expect(relativeError(standing.mean, m.mean)).toBeLessThan(1e-7);
+      expect(relativeError(standing.se, m.se)).toBeLessThan(1e-6);
+      expect(standing.totalEnvironments).toBe(12);
+    }
+  });
+
+  it("a value marked excluded or from another trait never enters the model", () => {
+    const versions = published();
+    const clean = mixedFromPublished(versions, "yield").mixed!;
+    const tampered = versions.map((v) => ({ ...v, data: [...v.data, { site: "S1", block: 1, blindCode: v.entries[0]!.blindCode, trait: TRAIT.analysedAs, value: 1e6, status: "excluded" }, { site: "S1", block: 1, blindCode: v.entries[0]!.blindCode, trait: "Other trait", value: 1e6, status: "used" }] }));
+    const again = mixedFromPublished(tampered, "yield").mixed!;
+    expect(again.n).toBe(clean.n);
+    expect(again.means.map((m) => m.mean)).toEqual(clean.means.map((m) => m.mean));
   });
 });
