@@ -112,7 +112,6 @@ export async function getPublicVariety(varietyId: number) {
     .filter((x): x is { s: PublicSnapshot; entry: PublicSnapshot["entries"][number] } => x.entry !== undefined);
   if (appearances.length === 0) return null;
   return {
-    id: varietyId,
     name: appearances[0]!.entry.variety,
     crop: appearances[0]!.s.trial.crop,
     // oldest season first, so the % of check reads as a history

@@ -9,6 +9,11 @@ export interface TraitAcrossSeasons {
   standing: AcrossSeasonsStanding;
 }
 
+// Public pages are open to anyone: a fit is kept per variety and set of published versions, so repeated
+// requests cost a lookup, and a new publication (a new version) is a new key.
+const CACHE_LIMIT = 200;
+const cache = new Map<string, TraitAcrossSeasons[]>();
+
 const seasonOf = (t: { season: string; year: number }) => (t.season.includes(String(t.year)) ? t.season : `${t.season} ${t.year}`);
 
 /**
@@ -22,6 +27,9 @@ export async function publicVarietyAcrossSeasons(varietyId: number): Promise<Tra
   if (new Set(mine.map((s) => seasonOf(s.trial))).size < 2) return [];
   const crop = mine[0]!.trial.crop;
   const versions = snapshots.filter((s) => s.trial.crop === crop);
+  const key = `${varietyId}|${versions.map((s) => `${s.trial.code}:${s.version}`).join(",")}`;
+  const hit = cache.get(key);
+  if (hit) return hit;
   const codes = [...new Set(mine.flatMap((s) => s.results.map((r) => r.result.trait.code)))];
   const out: TraitAcrossSeasons[] = [];
   for (const code of codes) {
@@ -32,5 +40,7 @@ export async function publicVarietyAcrossSeasons(varietyId: number): Promise<Tra
     const trait = versions.flatMap((s) => s.results).find((r) => r.result.trait.code === code)!.result.trait;
     if (standing) out.push({ traitCode: code, trait, seasons, standing });
   }
+  cache.set(key, out);
+  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value!);
   return out;
 }

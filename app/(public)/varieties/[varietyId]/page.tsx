@@ -15,6 +15,11 @@ async function load(params: Params) {
   return id.success ? getPublicVariety(id.data) : null;
 }
 
+async function idOf(params: Params): Promise<number | null> {
+  const id = idSchema.safeParse((await params).varietyId);
+  return id.success ? id.data : null;
+}
+
 export async function generateMetadata({ params }: { params: Params }): Promise<Metadata> {
   const variety = await load(params);
   if (!variety) return { title: "Not found" };
@@ -24,7 +29,8 @@ export async function generateMetadata({ params }: { params: Params }): Promise<
 export default async function PublicVarietyPage({ params }: { params: Params }) {
   const variety = await load(params);
   if (!variety) notFound();
-  const acrossSeasons = await publicVarietyAcrossSeasons(variety.id);
+  // the id in the address, which the public page already shows; the view itself carries no ids
+  const acrossSeasons = await publicVarietyAcrossSeasons((await idOf(params))!);
   return (
     <div className="mx-auto max-w-5xl px-4 py-10">
       <p className="text-sm font-semibold text-sprout-700"><Link href="/results">Results</Link> · {variety.crop}</p>
