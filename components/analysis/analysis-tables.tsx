@@ -41,7 +41,7 @@ function CheckCell({ row }: { row: MeanRow }) {
  * Entry means with SE, n, rank, % of check and letters; sortable and filterable. Listed in the stated
  * order (`order`, from orderWords): best first when the trait has a direction, else lowest first with no rank.
  */
-export function MeansTable({ means, label, unit, caption, order, testId }: { means: MeanRow[]; label: EntryLabel; unit: string; caption: string; order?: string; testId?: string }) {
+export function MeansTable({ means, label, unit, caption, order, testId, lsdMarks = true }: { means: MeanRow[]; label: EntryLabel; unit: string; caption: string; order?: string; testId?: string; lsdMarks?: boolean }) {
   // The shown name is part of the data, because the table caches accessor values per row.
   const rows: Labelled<MeanRow>[] = means.map((m) => ({ ...m, shown: label(m) }));
   const showLs = means.some((m) => m.lsMean !== null && Math.abs(m.lsMean - m.mean) > 1e-9);
@@ -62,7 +62,7 @@ export function MeansTable({ means, label, unit, caption, order, testId }: { mea
     { id: "n", header: "Plots", accessorFn: (m) => m.n },
     { id: "letter", header: "Group", accessorFn: (m) => m.letter ?? "", cell: (c) => <span className="font-mono">{(c.getValue() as string) || "–"}</span> },
   ];
-  const notes = [order && `Listed ${order}.`, withCheck && "% of check: the entry's mean as a share of the check's (check = 100), with the difference in brackets; ◆ marks a difference larger than the LSD 0.05."].filter(Boolean).join(" ");
+  const notes = [order && `Listed ${order}.`, withCheck && `% of check: the entry's mean as a share of the check's (check = 100), with the difference in brackets${lsdMarks ? "; ◆ marks a difference larger than the LSD 0.05" : ""}.`].filter(Boolean).join(" ");
   return (
     <div className="space-y-1">
       <DataTable pageSize={null} data={rows} columns={columns} caption={caption} filterLabel="Filter entries" initialSort={[ranked ? { id: "rank", desc: false } : { id: "mean", desc: false }]} testId={testId} />

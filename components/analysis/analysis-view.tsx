@@ -13,6 +13,7 @@ import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { SharingPanel } from "./sharing-panel";
 import { LazyDetails } from "./lazy-details";
 import { DirectionPanel } from "./direction-panel";
+import { MixedModelSection } from "./mixed-model-card";
 import { orderWords } from "@/lib/domain/analysis/ranking";
 import { capitalise } from "@/lib/domain/vocabulary/words";
 
@@ -23,6 +24,7 @@ export function settingsQuery(s: AnalysisSettings): string {
   if (s.includeUnaccepted) q.set("unaccepted", "1");
   if (s.siteModel !== "random") q.set("model", s.siteModel);
   if (s.separation !== "lsd") q.set("compare", s.separation);
+  if (s.mixed) q.set("mixed", "1");
   return q.toString();
 }
 
@@ -155,6 +157,12 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             Include data not yet accepted (draft, submitted or returned)
           </label>
           <p className="text-sm text-loam-700">{result.explanations.unaccepted}</p>
+          {staff && (
+            <label className="flex min-h-11 items-center gap-2">
+              <input type="checkbox" className="size-5" checked={settings.mixed ?? false} onChange={(e) => update({ mixed: e.target.checked || undefined })} />
+              Also fit the REML mixed model (sites, blocks and variety × site random; for missing plots and uneven sites)
+            </label>
+          )}
         </fieldset>
         {(staff || keyed) && <div className="mt-4 flex flex-wrap items-center gap-3">
           {keyed && <label className="flex min-h-11 items-center gap-2">
@@ -236,6 +244,16 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         ) : (
           <Card title="Across sites">
             <p>{result.combinedProblem}</p>
+          </Card>
+        )}
+
+        {keyed && settings.mixed && (keyed.mixed || keyed.mixedProblem) && (
+          <Card title="Mixed model (REML) across sites">
+            {keyed.mixed ? (
+              <MixedModelSection mixed={keyed.mixed} trait={result.trait} label={label} unit={unit} order={orderWords(result.trait)} testId="mixed-model" />
+            ) : (
+              <p>{keyed.mixedProblem}</p>
+            )}
           </Card>
         )}
 

@@ -1,6 +1,7 @@
 "use client";
 import { useActionState } from "react";
 import { SelectField, TextField } from "@/components/ui/field";
+import { CheckboxField } from "@/components/ui/checkbox-field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
 import { Badge } from "@/components/ui/badge";
@@ -60,6 +61,12 @@ export function PublishForm({ trialId, traits, nextVersion, leftOut }: { trialId
         <option value="lsd">Protected LSD (0.05)</option>
         <option value="tukey">Tukey HSD (0.05)</option>
       </SelectField>
+      <CheckboxField
+        label="Also publish the REML mixed model"
+        name="mixed"
+        defaultChecked={failed?.values?.mixed === "on"}
+        hint="Adds to the report and downloads each trait's variance components (how much sites differ, how much varieties change rank between them) and means with SE from the mixed model."
+      />
       <TextField
         label={nextVersion > 1 ? "What changed since the last version (required)" : "Note (optional)"}
         name="changeNote"

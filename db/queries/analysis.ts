@@ -286,7 +286,7 @@ export async function listExclusionTargets(viewer: Viewer, trialId: number) {
 export async function getVarietyHistory(viewer: Viewer, varietyId: number) {
   if (!isStaff(viewer)) return null;
   const [variety] = await db
-    .select({ id: varieties.id, name: varieties.name, crop: crops.name })
+    .select({ id: varieties.id, name: varieties.name, crop: crops.name, cropId: crops.id })
     .from(varieties)
     .innerJoin(crops, eq(crops.id, varieties.cropId))
     .where(and(eq(varieties.id, varietyId), staffVarietyScope(viewer)));

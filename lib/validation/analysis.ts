@@ -17,6 +17,8 @@ export const analysisQuerySchema = z.object({
   unaccepted: flag.optional(),
   model: z.enum(["random", "fixed"], { error: "Sites must be random or fixed." }).optional(),
   compare: z.enum(["lsd", "tukey"], { error: "Compare means with lsd or tukey." }).optional(),
+  // the REML mixed model beside the least-squares analysis (staff only)
+  mixed: flag.optional(),
   // Not a setting: asks the JSON API to add every plot's value, which the page itself never needs.
   plots: flag.optional(),
 });
@@ -26,7 +28,7 @@ export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
 /** Reads URL search parameters into analysis settings, with a plain message on the first problem. */
 export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: AnalysisQuery } | { ok: false; message: string } {
   const raw: Record<string, string> = {};
-  for (const key of ["trait", "sites", "unaccepted", "model", "compare", "plots"]) {
+  for (const key of ["trait", "sites", "unaccepted", "model", "compare", "mixed", "plots"]) {
     const v = search.get(key);
     if (v !== null && v !== "") raw[key] = v;
   }
@@ -34,7 +36,7 @@ export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: A
   if (parsed.success) return { ok: true, data: parsed.data };
   const issue = parsed.error.issues[0]!;
   const field = String(issue.path[0] ?? "settings");
-  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" || field === "plots" ? `${field} must be 1 or 0.` : issue.message;
+  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" || field === "plots" || field === "mixed" ? `${field} must be 1 or 0.` : issue.message;
   return { ok: false, message };
 }
 
@@ -82,4 +84,10 @@ export const traitDirectionSchema = z.object({
   trialId: z.coerce.number().int().positive(),
   traitId: z.coerce.number({ error: "Choose a trait." }).int().positive("Choose a trait."),
   betterWhen: z.enum([...BETTER_WHEN, "default"], { error: "Choose higher is better, lower is better, or no preference." }).transform((v) => (v === "default" ? null : v)),
+});
+
+/** The across-seasons view's address: a crop id and a trait code (the same trait in every season). */
+export const acrossSeasonsQuerySchema = z.object({
+  crop: idParam.optional(),
+  trait: z.string().trim().regex(/^[a-z0-9_]{1,40}$/i, "Choose a trait from the list.").optional(),
 });

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { checkbox } from "./common";
 
 const id = z.coerce.number({ error: "That is not a valid id." }).int().positive("That is not a valid id.");
 
@@ -7,6 +8,7 @@ export const publishSchema = z.object({
   traitId: z.preprocess((v) => (v === "" || v === "all" || v === undefined ? null : v), id.nullable()),
   siteModel: z.enum(["random", "fixed"], { error: "Choose whether sites are random or fixed." }),
   separation: z.enum(["lsd", "tukey"], { error: "Choose protected LSD or Tukey." }),
+  mixed: checkbox.optional(),
   changeNote: z.preprocess(
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
     z.string().trim().max(2000, "Keep the change note under 2,000 characters.").optional(),

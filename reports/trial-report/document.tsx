@@ -2,6 +2,7 @@ import type { ReactNode } from "react";
 import { inStatedOrder, leaderHeading, orderWords } from "@/lib/domain/analysis/ranking";
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
 import type { PublicBlock, PublicSnapshot, PublicTraitResult } from "@/lib/domain/publish/public-shape";
+import type { PublicMixed } from "@/lib/domain/publish/public-mixed";
 import { cvWords, differenceUnit, differenceWithUnit, formatNumber, formatP, hasCv, inShownUnit, numberInUnit, unitHeading, valueWithUnit } from "@/lib/domain/analysis/format";
 import { ANOVA_SOURCE_LABELS, formatDate } from "@/lib/domain/vocabulary/labels";
 import { ACCENT, INK, RULE, SHADE, base } from "../shared/pdf";
@@ -145,6 +146,56 @@ function AnovaTable({ block }: { block: PublicBlock }) {
 }
 
 
+const MIXED_TERMS: Record<string, (env: string) => string> = {
+  environment: (env) => `Between ${env}s`,
+  "entry:environment": (env) => `Variety × ${env}`,
+  "block:environment": (env) => `Blocks within a ${env}`,
+  residual: () => "Plot to plot",
+};
+
+/** The REML mixed model published with the trait: variance components in words, then means with SE and groups. */
+function MixedSection({ mixed, trait }: { mixed: PublicMixed; trait: TraitShape }) {
+  const unit = unitHeading(trait);
+  const ranked = trait.betterWhen !== "neither";
+  const withCheck = mixed.means.some((m) => m.percentOfCheck !== null);
+  type MixedMean = PublicMixed["means"][number];
+  return (
+    <View>
+      <Text style={[base.h2, { fontSize: 9 }]} minPresenceAhead={80}>Mixed model (REML)</Text>
+      {mixed.notes.map((n, i) => (
+        <Text key={i} style={s.note}>
+          • {n}
+        </Text>
+      ))}
+      <Table
+        columns={[
+          { label: "Source", width: 110, value: (c) => MIXED_TERMS[c.term]?.(mixed.environmentWord) ?? c.term },
+          { label: `Spread (SD${unit ? `, ${unit}` : ""})`, width: 80, align: "right", value: (c) => numberInUnit(trait, Math.sqrt(Math.max(c.variance, 0))) },
+          { label: "% of variation", width: 60, align: "right", value: (c) => formatNumber(c.share, 0) },
+          { label: "What it means", width: 265, value: (c) => c.words },
+        ]}
+        rows={mixed.components}
+      />
+      <Table
+        columns={[
+          ...(ranked ? [{ label: "Rank", width: 28, align: "right" as const, value: (m: MixedMean) => (m.rank === null ? "" : String(m.rank)) }] : []),
+          { label: "Variety", width: ranked ? 150 : 178, value: (m) => `${m.varietyName ?? m.blindCode}${m.isCheck ? " (check)" : ""}` },
+          { label: `Mean${unit ? ` (${unit})` : ""}`, width: 78, align: "right", value: (m) => numberInUnit(trait, m.mean) },
+          ...(withCheck ? [{ label: "% of check", width: 50, align: "right" as const, value: (m: MixedMean) => formatNumber(m.percentOfCheck, 0) }] : []),
+          { label: "SE", width: 45, align: "right", value: (m) => formatNumber(inShownUnit(trait, m.se)) },
+          { label: "df", width: 35, align: "right", value: (m) => formatNumber(m.df, 1) },
+          { label: "Group", width: 40, value: (m) => m.letter ?? "" },
+        ]}
+        rows={mixed.means}
+      />
+      <Text style={s.note}>
+        Varieties F test: F = {formatNumber(mixed.entryTest.f, 2)} on {mixed.entryTest.numDf} and {formatNumber(mixed.entryTest.denDf, 1)} df ({mixed.dfMethod === "satterthwaite" ? "Satterthwaite" : "Kenward-Roger"}), {formatP(mixed.entryTest.p)}.
+        Groups come from pairwise t tests at the 5% level and are given only when the F test is significant; varieties sharing a letter do not differ.
+      </Text>
+    </View>
+  );
+}
+
 function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages: SectionPages; id: string }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
   const trait = result.trait;
@@ -172,6 +223,7 @@ function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages:
           <Text style={s.note}>{capitalise(block.comparisonNote)} Varieties sharing a letter in “Group” are not significantly different at the 5% level.</Text>
           <Text style={[base.h2, { fontSize: 9 }]}>Analysis of variance</Text>
           <AnovaTable block={block} />
+          {result.mixed && <MixedSection mixed={result.mixed} trait={trait} />}
           {result.notes.map((n, i) => (
             <Text key={i} style={s.note}>
               • {n}
@@ -297,6 +349,9 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
           Analysis: sites treated as {snapshot.settings.siteModel} ({snapshot.settings.siteModel === "random" ? "varieties tested against the variety × site interaction" : "varieties tested against the pooled plot error"}); mean separation by{" "}
           {snapshot.settings.separation === "lsd" ? "protected LSD (only after a significant F test)" : "Tukey's HSD"} at the 5% level. Only data accepted by the coordinator are included.
           Missing plots are handled by least squares (no values are filled in).
+          {snapshot.settings.mixed
+            ? " Each trait is also analysed with a REML mixed model (varieties fixed; sites, blocks within sites and variety × site random; Satterthwaite degrees of freedom), which weighs sites and missing plots by how much they vary."
+            : ""}
         </Text>
         <Table
           columns={[

@@ -3,6 +3,7 @@ import { createHash } from "node:crypto";
 import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
+import { mixedForTrial } from "@/lib/domain/analysis/mixed-trial";
 import { analysisFor } from "@/lib/domain/analysis/blind";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 import type { AnalysisInput, AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
@@ -64,6 +65,8 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
     includeUnaccepted: query.unaccepted ?? false,
     siteModel: query.model ?? "random",
     separation: query.compare ?? "lsd",
+    // staff only: a grower's view stays what it was (blind.ts builds theirs field by field)
+    ...(query.mixed && isStaff(viewer) ? { mixed: true } : {}),
   };
   const read = traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
   const version = await getAnalysisVersion(viewer, trialId, read);
@@ -81,7 +84,8 @@ async function computeAnalysis(viewer: Viewer, trialId: number, prepared: Prepar
   if (hit) return hit;
   const input = await loadAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
   if (!input) return null;
-  const result = runAnalysis(input, prepared.settings);
+  const plain = runAnalysis(input, prepared.settings);
+  const result = prepared.settings.mixed ? { ...plain, ...mixedForTrial(plain) } : plain;
   cache.set(key, result);
   if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value!);
   return result;

@@ -2,6 +2,7 @@ import "server-only";
 import { listAnalysisTraits } from "@/db/queries/analysis";
 import { getPublishContext } from "@/db/queries/publish";
 import { runAnalysis } from "@/lib/domain/analysis/run";
+import { mixedForTrial } from "@/lib/domain/analysis/mixed-trial";
 import { analysedAs } from "@/lib/domain/analysis/values";
 import { EMERGED_TRAIT_CODES, isPublishableTrait, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { loadAnalysisInput } from "@/server/analysis/load-analysis";
@@ -38,7 +39,8 @@ export async function buildSnapshot(
     if (!loaded) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
     const input = { ...loaded, sites: loaded.sites.map((s) => (anonymous.has(s.id) ? { ...s, name: anonymous.get(s.id)! } : s)) };
     if (seedCounts.size === 0) seedCounts = seedCountsByPlot(input);
-    const result = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation }, { forPublication: true });
+    const plain = runAnalysis(input, { traitId: trait.id, siteIds: null, includeUnaccepted: false, siteModel: p.settings.siteModel, separation: p.settings.separation }, { forPublication: true });
+    const result = p.settings.mixed ? { ...plain, ...mixedForTrial(plain, { forPublication: true }) } : plain;
     // Who recorded an exclusion and the staff's note stay in the portal; the category is the public reason.
     result.exclusions = result.exclusions.map((e) => ({ ...e, note: null, createdBy: null }));
     results.push({ traitId: trait.id, result });

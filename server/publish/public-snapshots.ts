@@ -65,7 +65,7 @@ export async function requirePublishedReport(code: string, request: Request): Pr
 export const downloadName = (s: PublicSnapshot, suffix: string) => `${s.trial.code}-results-v${s.version}.${suffix}`;
 
 /** The latest live snapshot of every published trial. */
-async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
+export async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
   const ids = await listLatestLiveReportIds();
   const snapshots = await publicSnapshotsById(ids);
   return ids.map((id) => snapshots.get(id)).filter((x): x is PublicSnapshot => x !== undefined);

@@ -138,6 +138,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   // Staff pages.
   "PAGE /portal/trials": [{ note: "list", path: () => "/portal/trials", expect: staffOnly() }],
   "PAGE /portal/trials/new": [{ note: "form", path: () => "/portal/trials/new", expect: staffOnly() }],
+  "PAGE /portal/trials/across-seasons": [{ note: "every season of a crop, own programs' trials only", path: () => "/portal/trials/across-seasons", expect: staffOnly() }],
   "PAGE /portal/trials/[trialId]": [
     { note: "kale detail with the code key", path: (i) => `/portal/trials/${i.kal}`, expect: firstProgramStaff() },
     { note: "the second program's draft trial", path: (i) => `/portal/trials/${i.otherTrial}`, expect: secondProgramStaff() },

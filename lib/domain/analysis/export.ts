@@ -5,6 +5,7 @@
 import { inStatedOrder, orderWords } from "./ranking";
 import { ANOVA_SOURCE_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { AnalysisResult } from "./types";
+import { mixedExportTables } from "./mixed-export";
 
 export type Cell = string | number | boolean | null;
 export interface ExportTable {
@@ -69,7 +70,8 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
   if (result.missing.length > 0) {
     tables.push({ name: "Missing plots", columns: ["Plot", "Site", "Block", "Entry code", "Why missing", "How handled"], rows: result.missing.map((m) => [m.plotCode, m.siteName, m.block, m.blindCode, m.reason, m.handling]) });
   }
-  tables.push({ name: "Notes", columns: ["Kind", "Text"], rows: [...result.warnings.map((w): Cell[] => ["warning", w]), ...result.notes.map((n): Cell[] => ["note", n])] });
+  tables.push(...mixedExportTables(result.mixed, withNames));
+  tables.push({ name: "Notes", columns: ["Kind", "Text"], rows: [...result.warnings.map((w): Cell[] => ["warning", w]), ...result.notes.map((n): Cell[] => ["note", n]), ...(result.mixed?.notes ?? []).map((n): Cell[] => ["mixed model", n])] });
   tables.push(dataDictionary(result));
   return tables;
 }

@@ -5,6 +5,8 @@
 import type { AnovaRow } from "@/lib/domain/stats";
 import type { BetterWhen, ExclusionCategory, SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
 
+import type { MixedAnalysis } from "./mixed";
+
 export type SiteModel = "random" | "fixed";
 export type Separation = "lsd" | "tukey";
 export type SubmissionState = SubmissionStatus;
@@ -16,6 +18,8 @@ export interface AnalysisSettings {
   includeUnaccepted: boolean;
   siteModel: SiteModel;
   separation: Separation;
+  /** also fit the REML mixed model (staff only; lib/domain/analysis/mixed-trial.ts) */
+  mixed?: boolean;
 }
 
 export interface InputTrait {
@@ -247,7 +251,12 @@ export interface AnalysisResult {
   emergence: EmergenceAnalysis | null;
   /** raw plot values used (after exclusions), for exports and the published data download */
   plots: PlotValue[];
+  /** the REML mixed model when settings.mixed asked for it; mixedProblem says why there is none */
+  mixed?: MixedAnalysis | null;
+  mixedProblem?: string | null;
 }
+
+export type MixedOutcome = { mixed: MixedAnalysis | null; mixedProblem: string | null };
 
 /** An exclusion with the names people know it by; `publicReason` is the category in words. */
 export type DescribedExclusion = InputExclusion & { siteName: string | null; plotCode: string | null; traitName: string | null; publicReason: string };

@@ -17,6 +17,7 @@ import { EXCLUSION_CATEGORIES, type BetterWhen, type ExclusionCategory } from "@
 import { EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
 import { publicNotIncludedWhy } from "./site-inclusion";
 import type { PublishedSnapshot, PublishedValue, PublishSettings } from "./types";
+import { toPublicMixed, type PublicMixed } from "./public-mixed";
 
 export interface PublicSite {
   /** the number in the site's public address, /sites/:id; null for a site published without its name */
@@ -87,6 +88,8 @@ export interface PublicTraitResult {
   perSite: { siteName: string; blocks: number; result: PublicBlock | null; problem: string | null }[];
   combined: PublicCombined | null;
   combinedProblem: string | null;
+  /** the REML mixed model when the version was published with it */
+  mixed?: PublicMixed | null;
   missing: { plotCode: string; siteName: string; blindCode: string; block: number; reason: string; handling: string }[];
   /** exactly the sites and plots left out of this trait, with the public reason (never the staff's note) */
   exclusions: PublicExclusion[];
@@ -205,6 +208,7 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
   for (const m of [...(combined?.means ?? []), ...r.perSite.flatMap((s) => s.result?.means ?? [])]) codeOf.set(m.entryId, m.blindCode);
   return {
     trait: { code: r.trait.code, name: r.trait.name, unit: r.trait.unit, valueType: r.trait.valueType, computation: r.trait.computation, analysedAs: r.trait.analysedAs, betterWhen: legacy ? "neither" : r.trait.betterWhen },
+    ...(r.mixed ? { mixed: toPublicMixed(r.mixed) } : {}),
     perSite: r.perSite.map((s) => ({ siteName: s.siteName, blocks: s.blocks, result: s.result && block(s.result), problem: s.problem })),
     combined: combined && {
       ...block(combined),
@@ -291,7 +295,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     version: s.version,
     publishedAt: s.publishedAt,
     changeNote: s.changeNote,
-    settings: { siteModel: s.settings.siteModel, separation: s.settings.separation },
+    settings: { siteModel: s.settings.siteModel, separation: s.settings.separation, ...(s.settings.mixed ? { mixed: true } : {}) },
     program: s.program,
     trial: { code: t.code, title: t.title, crop: t.crop, cropGroup: t.cropGroup, season: t.season, year: t.year, purpose: t.purpose, design: t.design, blocks: t.blocks, plotUnit: t.plotUnit, plotSize: t.plotSize, protocol: t.protocol },
     scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),

@@ -6,6 +6,8 @@ import type { SiteInclusion } from "./site-inclusion";
 export interface PublishSettings {
   siteModel: "random" | "fixed";
   separation: "lsd" | "tukey";
+  /** also publish the REML mixed model of each trait (absent in versions published before it existed) */
+  mixed?: boolean;
 }
 
 export interface PublishedSite {

@@ -16,6 +16,13 @@ export {
   type RcbdPlot,
   type MultiSitePlot,
 } from "./anova";
+export {
+  mixedModel,
+  type MixedPlot,
+  type MixedTerm,
+  type MixedModelResult,
+  type MixedModelOptions,
+} from "./mixed-model";
 export { lsd, pairwiseLsd, tukeyHsd, compactLetters, type LsdPair } from "./mean-separation";
 export { chiSquareGoodnessOfFit, chiSquareIndependence, cochranMantelHaenszel } from "./chi-square";
 export { bartlett, bartlettFromVariances } from "./variance-tests";

@@ -25,9 +25,14 @@ export default async function TrialsPage({ searchParams }: { searchParams: Promi
     <div className="space-y-6">
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-3xl font-bold">Trials</h1>
-        <Link href="/portal/trials/new" className={buttonClasses("primary")}>
-          New trial
-        </Link>
+        <div className="flex flex-wrap gap-2">
+          <Link href="/portal/trials/across-seasons" className={buttonClasses("secondary")}>
+            Across seasons
+          </Link>
+          <Link href="/portal/trials/new" className={buttonClasses("primary")}>
+            New trial
+          </Link>
+        </div>
       </div>
       <Card>
         <SeasonFilter seasons={seasons.map((s) => ({ id: s.id, label: showProgram ? `${s.name} · ${s.program}` : s.name, closed: s.closed }))} selected={season?.id} />

@@ -4,6 +4,8 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getPublicVariety } from "@/server/publish/public-snapshots";
 import { CheckHistoryTable, VarietyTraitTable } from "@/components/public/variety-trait-table";
+import { publicVarietyAcrossSeasons } from "@/server/publish/public-variety-mixed";
+import { AcrossSeasonsStanding } from "@/components/analysis/across-seasons-standing";
 
 type Params = Promise<{ varietyId: string }>;
 const idSchema = z.coerce.number().int().positive().max(2_000_000_000);
@@ -11,6 +13,11 @@ const idSchema = z.coerce.number().int().positive().max(2_000_000_000);
 async function load(params: Params) {
   const id = idSchema.safeParse((await params).varietyId);
   return id.success ? getPublicVariety(id.data) : null;
+}
+
+async function idOf(params: Params): Promise<number | null> {
+  const id = idSchema.safeParse((await params).varietyId);
+  return id.success ? id.data : null;
 }
 
 export async function generateMetadata({ params }: { params: Params }): Promise<Metadata> {
@@ -22,6 +29,8 @@ export async function generateMetadata({ params }: { params: Params }): Promise<
 export default async function PublicVarietyPage({ params }: { params: Params }) {
   const variety = await load(params);
   if (!variety) notFound();
+  // the id in the address, which the public page already shows; the view itself carries no ids
+  const acrossSeasons = await publicVarietyAcrossSeasons((await idOf(params))!);
   return (
     <div className="mx-auto max-w-5xl px-4 py-10">
       <p className="text-sm font-semibold text-sprout-700"><Link href="/results">Results</Link> · {variety.crop}</p>
@@ -37,6 +46,14 @@ export default async function PublicVarietyPage({ params }: { params: Params }) 
           <CheckHistoryTable seasons={variety.trials.map((t) => ({ code: t.code, season: t.season, isCheck: t.isCheck, traits: t.traits }))} caption={`${variety.name}: % of check by season`} />
         </div>
       </section>
+      {acrossSeasons.length > 0 && (
+        <section className="mt-6 rounded-xl border border-husk-200 bg-white p-5" aria-labelledby="across-seasons">
+          <h2 id="across-seasons" className="text-xl font-bold">All seasons together</h2>
+          <div className="mt-3">
+            <AcrossSeasonsStanding rows={acrossSeasons} name={variety.name} />
+          </div>
+        </section>
+      )}
       {variety.trials.map((t) => (
         <section key={t.code} className="mt-6 rounded-xl border border-husk-200 bg-white p-5" aria-labelledby={`t-${t.code}`}>
           <h2 id={`t-${t.code}`} className="text-xl font-bold">

@@ -8,6 +8,8 @@ import { loadAnalysis } from "@/server/analysis/load-analysis";
 import { standingOf, type TrialStanding } from "@/lib/domain/analysis/history";
 import { formatNumber } from "@/lib/domain/analysis/format";
 import { Card } from "@/components/ui/card";
+import { varietyAcrossSeasons } from "@/server/analysis/across-seasons";
+import { AcrossSeasonsStanding } from "@/components/analysis/across-seasons-standing";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
 
 export const metadata: Metadata = { title: "Variety history" };
@@ -21,16 +23,21 @@ export default async function VarietyHistoryPage({ params }: { params: Promise<{
   const history = await getVarietyHistory(viewer, varietyId.data);
   if (!history) notFound();
   // Each trial's default analysis (accepted data, sites random), from the same cache as the analysis page.
+  const traitCodes = new Set<string>();
   const standings = await Promise.all(
     history.trials.map(async (t): Promise<TrialStanding | null> => {
       try {
         const loaded = await loadAnalysis(viewer, t.trialId, {});
+        if (loaded) traitCodes.add(loaded.result.trait.code);
         return loaded ? standingOf(loaded.result, t.entryId) : null;
       } catch {
         return null;
       }
     }),
   );
+  // grown in more than one season: every season at once, through the mixed model
+  const seasonCount = new Set(history.trials.map((t) => `${t.season} ${t.year}`)).size;
+  const acrossSeasons = seasonCount > 1 ? await varietyAcrossSeasons(viewer, { varietyId: history.variety.id, cropId: history.variety.cropId, traitCodes: [...traitCodes] }) : [];
   return (
     <div className="space-y-6">
       <div>
@@ -38,6 +45,11 @@ export default async function VarietyHistoryPage({ params }: { params: Promise<{
         <p className="text-loam-700">{history.variety.crop} · history across trials and seasons</p>
       </div>
       {history.trials.length === 0 && <p>This variety has not been entered in any trial yet.</p>}
+      {acrossSeasons.length > 0 && (
+        <Card title={`All ${seasonCount} seasons together`} actions={<Link href={`/portal/trials/across-seasons?crop=${history.variety.cropId}&trait=${acrossSeasons[0]!.traitCode}`}>open the across-seasons analysis</Link>}>
+          <AcrossSeasonsStanding rows={acrossSeasons} name={history.variety.name} />
+        </Card>
+      )}
       <ul className="space-y-4">
         {history.trials.map((t, i) => {
           const s = standings[i];

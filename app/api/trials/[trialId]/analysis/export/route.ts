@@ -5,6 +5,7 @@ import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { loadAnalysis } from "@/server/analysis/load-analysis";
 import { exportTables } from "@/lib/domain/analysis/export";
+import { MIXED_SHEETS } from "@/lib/domain/analysis/mixed-export";
 import { addSheetRow, csvFile } from "@/lib/domain/spreadsheets/write";
 import { defineRoute } from "@/server/http/define-route";
 
@@ -14,7 +15,9 @@ export const dynamic = "force-dynamic";
 const paramsSchema = z.object({ trialId: idParam });
 const exportSchema = z.object({
   format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
-  table: z.enum(["raw", "means", "anova", "emergence"], { error: "Ask for table raw, means, anova or emergence." }).default("means"),
+  table: z
+    .enum(["raw", "means", "anova", "emergence", "mixed-model", "mixed-means", "mixed-pairs"], { error: "Ask for table raw, means, anova, emergence, mixed-model, mixed-means or mixed-pairs." })
+    .default("means"),
 });
 
 function exportQueryOf(search: URLSearchParams) {
@@ -24,7 +27,7 @@ function exportQueryOf(search: URLSearchParams) {
   if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
   return { analysis: analysis.data, options: options.data };
 }
-const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence" } as const;
+const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence", "mixed-model": MIXED_SHEETS.components, "mixed-means": MIXED_SHEETS.means, "mixed-pairs": MIXED_SHEETS.pairs } as const;
 
 /** The analysis as an .xlsx workbook (every table plus settings and a data dictionary) or one table as CSV. */
 export const GET = defineRoute(
@@ -39,7 +42,9 @@ export const GET = defineRoute(
 
     if (query.options.format === "csv") {
       const table = tables.find((t) => t.name === CSV_SHEETS[query.options.table]);
-      if (!table) throw new AppError("not_found", "This trial has no emergence counts to export.");
+      if (!table) {
+        throw new AppError("not_found", query.options.table.startsWith("mixed") ? "Tick the mixed model on the analysis page (mixed=1) to export its tables." : "This trial has no emergence counts to export.");
+      }
       return new Response(csvFile([table.columns, ...table.rows]), {
         headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${query.options.table}.csv"` },
       });
