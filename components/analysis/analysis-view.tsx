@@ -167,7 +167,10 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           </a>
           <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv`}>
             Download CSV
-          </a></>}
+          </a>
+          {result.combined?.stability && <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv&table=stability`}>
+            Download stability CSV
+          </a>}</>}
         </div>}
       </Card>
 

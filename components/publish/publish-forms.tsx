@@ -60,6 +60,13 @@ export function PublishForm({ trialId, traits, nextVersion, leftOut }: { trialId
         <option value="lsd">Protected LSD (0.05)</option>
         <option value="tukey">Tukey HSD (0.05)</option>
       </SelectField>
+      <label className="flex min-h-11 items-start gap-2">
+        <input type="checkbox" name="stabilityInReport" className="mt-1 size-5" defaultChecked={failed?.values?.stabilityInReport === "on"} />
+        <span>
+          Add stability across sites to the PDF report
+          <span className="block text-sm text-loam-700">Each variety's response to better and poorer sites, for traits analysed at 3 or more sites.</span>
+        </span>
+      </label>
       <TextField
         label={nextVersion > 1 ? "What changed since the last version (required)" : "Note (optional)"}
         name="changeNote"

@@ -7,6 +7,8 @@ export const publishSchema = z.object({
   traitId: z.preprocess((v) => (v === "" || v === "all" || v === undefined ? null : v), id.nullable()),
   siteModel: z.enum(["random", "fixed"], { error: "Choose whether sites are random or fixed." }),
   separation: z.enum(["lsd", "tukey"], { error: "Choose protected LSD or Tukey." }),
+  // a ticked box arrives as "on"; an unticked one not at all
+  stabilityInReport: z.preprocess((v) => v === "on" || v === "true" || v === true, z.boolean()),
   changeNote: z.preprocess(
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
     z.string().trim().max(2000, "Keep the change note under 2,000 characters.").optional(),

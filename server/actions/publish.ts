@@ -11,7 +11,7 @@ export const publishTrial = defineAction({ roles: ["coordinator", "admin"], sche
   const { version } = await publishResults(viewer, {
     trialId: input.trialId,
     traitId: input.traitId,
-    settings: { siteModel: input.siteModel, separation: input.separation },
+    settings: { siteModel: input.siteModel, separation: input.separation, stabilityInReport: input.stabilityInReport },
     changeNote: input.changeNote ?? null,
     confirmedLeftOut: input.confirmLeftOut,
   });

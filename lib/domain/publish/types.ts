@@ -6,6 +6,8 @@ import type { SiteInclusion } from "./site-inclusion";
 export interface PublishSettings {
   siteModel: "random" | "fixed";
   separation: "lsd" | "tukey";
+  /** the PDF report adds each trait's stability across sites (absent, so no, in versions published before it was offered) */
+  stabilityInReport?: boolean;
 }
 
 export interface PublishedSite {

@@ -14,7 +14,7 @@ export const dynamic = "force-dynamic";
 const paramsSchema = z.object({ trialId: idParam });
 const exportSchema = z.object({
   format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
-  table: z.enum(["raw", "means", "anova", "emergence"], { error: "Ask for table raw, means, anova or emergence." }).default("means"),
+  table: z.enum(["raw", "means", "anova", "emergence", "stability"], { error: "Ask for table raw, means, anova, emergence or stability." }).default("means"),
 });
 
 function exportQueryOf(search: URLSearchParams) {
@@ -24,7 +24,7 @@ function exportQueryOf(search: URLSearchParams) {
   if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
   return { analysis: analysis.data, options: options.data };
 }
-const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence" } as const;
+const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence", stability: "Stability" } as const;
 
 /** The analysis as an .xlsx workbook (every table plus settings and a data dictionary) or one table as CSV. */
 export const GET = defineRoute(
@@ -39,7 +39,12 @@ export const GET = defineRoute(
 
     if (query.options.format === "csv") {
       const table = tables.find((t) => t.name === CSV_SHEETS[query.options.table]);
-      if (!table) throw new AppError("not_found", "This trial has no emergence counts to export.");
+      if (!table) {
+        throw new AppError(
+          "not_found",
+          query.options.table === "stability" ? `There is no stability table for this trait: ${result.combined?.stabilityProblem ?? result.combinedProblem ?? "it needs a combined analysis of 3 or more sites."}` : "This trial has no emergence counts to export.",
+        );
+      }
       return new Response(csvFile([table.columns, ...table.rows]), {
         headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${query.options.table}.csv"` },
       });
