@@ -20,7 +20,7 @@ export function StabilityPanel({ stability, problem, label, order, shown }: { st
   if (!stability) {
     return (
       <section aria-labelledby="stability-h" className="mt-6 space-y-2" data-testid="stability">
-        <h3 id="stability-h" className="font-bold">Stability across sites</h3>
+        <h3 id="stability-h" className="font-bold">Stability: how each entry responds to the sites</h3>
         <p className="text-sm">{problem ?? "Stability is not available for this trait."}</p>
       </section>
     );
@@ -45,7 +45,7 @@ export function StabilityPanel({ stability, problem, label, order, shown }: { st
   ];
   return (
     <section aria-labelledby="stability-h" className="mt-6 space-y-3" data-testid="stability">
-      <h3 id="stability-h" className="font-bold">Stability across {stability.sites} sites</h3>
+      <h3 id="stability-h" className="font-bold">Stability: how each entry responds to {stability.sites} sites</h3>
       <ul className="list-disc space-y-1 pl-5 text-sm" data-testid="stability-notes">
         {stability.notes.map((n) => (
           <li key={n}>{n}</li>
@@ -68,8 +68,8 @@ function GgeBiplot({ gge, label, order }: { gge: StabilityView["gge"]; label: En
   const bestAt = sites.map((s) => ({ site: s.site, entry: [...entries].sort((a, b) => b.pc1 * s.pc1 + b.pc2 * s.pc2 - (a.pc1 * s.pc1 + a.pc2 * s.pc2))[0]?.entry ?? "–" }));
   const summary =
     `GGE biplot of the entry means at each site with the site means taken out. The first two components explain ${percent(gge.explained[0])} and ${percent(gge.explained[1])} ` +
-    `(${percent(gge.explained[0] + gge.explained[1])} together) of how entries differ and change places between sites. Entries further right scored higher on average: ` +
-    `${byPc1.map((e) => e.entry).join(", ")} from right to left. Sites are arrows from the centre; an entry far along a site's arrow scored high there ` +
+    `(${percent(gge.explained[0] + gge.explained[1])} together) of how entries differ and change places between sites. Entries further right tended to score higher on average: ` +
+    `${byPc1.map((e) => e.entry).join(", ")} from right to left. Sites are arrows from the centre; an entry far along a site's arrow tended to score high there ` +
     `(${bestAt.map((b) => `${b.site}: ${b.entry}`).join("; ")}). Sites whose arrows point the same way ranked entries alike.`;
   return (
     <Chart
