@@ -127,7 +127,8 @@ function siteMeanMap(cells: SiteCell[]) {
 }
 
 /** Site mean on x, each entry's mean there on y: a steep line is an entry that responds to good sites. */
-export function SiteResponseChart({ cells, order, unit, direction = PLAIN }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection }) {
+// `slopes` (from the stability analysis) are written at the end of each line and in the description.
+export function SiteResponseChart({ cells, order, unit, direction = PLAIN, slopes }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection; slopes?: { entry: string; slope: number }[] }) {
   const siteMeans = siteMeanMap(cells);
   const data = cells.map((c) => ({ siteMean: siteMeans.get(c.siteName)!.mean, site: c.siteName, entry: c.entry, mean: c.mean }));
   const ordered = [...siteMeans.values()].sort((a, b) => a.mean - b.mean);
@@ -135,22 +136,27 @@ export function SiteResponseChart({ cells, order, unit, direction = PLAIN }: { c
   const best = ordered.at(-1)!;
   const firstAt = (name: string) => firstOf(data.filter((d) => d.site === name), direction)?.entry ?? "–";
   const firstWords = direction.betterWhen === "neither" ? `${capitalise(extremeWord(direction, "first"))} entry` : `Best (${extremeWord(direction, "first")}) entry`;
-  const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. ${firstWords} at the site with the lowest mean: ${firstAt(poorest.name)}; at the highest: ${firstAt(best.name)}.`;
+  const slopeWords = slopes && slopes.length > 0 ? ` Slopes (1 = average response): ${slopes.map((s) => `${s.entry} ${formatNumber(s.slope, 2)}`).join("; ")}.` : "";
+  const summary = `Each site's mean (${formatNumber(poorest.mean)} at ${poorest.name} to ${formatNumber(best.mean)} at ${best.name}) against each entry's mean there, with a straight-line fit per entry. ${firstWords} at the site with the lowest mean: ${firstAt(poorest.name)}; at the highest: ${firstAt(best.name)}.${slopeWords}`;
+  const slopeOf = new Map((slopes ?? []).map((s) => [s.entry, s.slope]));
+  const lineEnds = slopes ? data.filter((d) => d.site === best.name).map((d) => ({ ...d, text: `${formatNumber(slopeOf.get(d.entry), 2)}` })) : [];
   return (
     <Chart
-      title="Site comparison: entry response to site mean"
+      title={slopes ? "Site comparison: entry response to site mean (numbers: each entry's slope)" : "Site comparison: entry response to site mean"}
       summary={summary}
       testId="site-response-chart"
       height={340}
       build={() => ({
         marginLeft: 56,
         marginBottom: 44,
+        marginRight: slopes ? 44 : 20,
         x: { label: `Site mean (${unit})`, labelAnchor: "center", labelOffset: 38, grid: true, nice: true },
         y: { label: `Entry mean (${unit})`, grid: true, nice: true },
         ...entryScales(order),
         marks: [
           Plot.linearRegressionY(data, { x: "siteMean", y: "mean", stroke: "entry", ci: 0 }),
           Plot.dot(data, { x: "siteMean", y: "mean", stroke: "entry", fill: "entry", symbol: "entry", r: 4 }),
+          Plot.text(lineEnds, { x: "siteMean", y: "mean", text: "text", fill: "entry", dx: 8, textAnchor: "start", fontWeight: 600 }),
         ],
       })}
     />

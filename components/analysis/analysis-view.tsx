@@ -10,6 +10,7 @@ import { buttonClasses } from "@/components/ui/button";
 import { AnovaTable, EmergenceTimeTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
+import { StabilityPanel } from "./stability-panel";
 import { SharingPanel } from "./sharing-panel";
 import { LazyDetails } from "./lazy-details";
 import { DirectionPanel } from "./direction-panel";
@@ -174,7 +175,10 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           </a>
           <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv`}>
             Download CSV
-          </a></>}
+          </a>
+          {result.combined?.stability && <a className={buttonClasses("secondary")} href={`/api/trials/${trialId}/analysis/export?${query}&format=csv&table=stability`}>
+            Download stability CSV
+          </a>}</>}
         </div>}
       </Card>
 
@@ -238,8 +242,9 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
             </details>
             <div className="mt-6 grid gap-6 *:min-w-0 xl:grid-cols-2">
               <InteractionChart cells={siteCells} order={order} unit={unit} direction={result.trait} />
-              <SiteResponseChart cells={siteCells} order={order} unit={unit} direction={result.trait} />
+              <SiteResponseChart cells={siteCells} order={order} unit={unit} direction={result.trait} slopes={result.combined.stability?.rows.map((r) => ({ entry: label(r), slope: r.slope }))} />
             </div>
+            <StabilityPanel stability={result.combined.stability ?? null} problem={result.combined.stabilityProblem ?? null} label={label} order={order} shown={shown} />
           </Card>
         ) : (
           <Card title="Across sites">

@@ -67,6 +67,12 @@ export function PublishForm({ trialId, traits, nextVersion, leftOut }: { trialId
         defaultChecked={failed?.values?.mixed === "on"}
         hint="Adds to the report and downloads each trait's variance components (how much sites differ, how much varieties change rank between them) and means with SE from the mixed model."
       />
+      <CheckboxField
+        label="Add stability across sites to the PDF report"
+        name="stabilityInReport"
+        defaultChecked={failed?.values?.stabilityInReport === "on"}
+        hint="Each variety's response to better and poorer sites, for traits analysed at 3 or more sites."
+      />
       <TextField
         label={nextVersion > 1 ? "What changed since the last version (required)" : "Note (optional)"}
         name="changeNote"

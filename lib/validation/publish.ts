@@ -9,6 +9,7 @@ export const publishSchema = z.object({
   siteModel: z.enum(["random", "fixed"], { error: "Choose whether sites are random or fixed." }),
   separation: z.enum(["lsd", "tukey"], { error: "Choose protected LSD or Tukey." }),
   mixed: checkbox.optional(),
+  stabilityInReport: checkbox,
   changeNote: z.preprocess(
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
     z.string().trim().max(2000, "Keep the change note under 2,000 characters.").optional(),

@@ -196,7 +196,39 @@ function MixedSection({ mixed, trait }: { mixed: PublicMixed; trait: TraitShape 
   );
 }
 
-function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages: SectionPages; id: string }) {
+type StabilityRow = NonNullable<PublicTraitResult["combined"]>["stability"] extends infer S ? (S extends { rows: (infer R)[] } ? R : never) : never;
+
+/** Each variety's response to the sites, when the coordinator chose it at publication. */
+function StabilityTable({ result }: { result: PublicTraitResult }) {
+  const stability = result.combined?.stability;
+  if (!stability) {
+    return <Text style={s.note}>Stability across sites: {result.combined ? "not worked out for this trait (it needs 3 or more analysed sites and a measured trait)." : "needs a combined analysis of 3 or more sites."}</Text>;
+  }
+  const trait = result.trait;
+  return (
+    <>
+      <Text style={[base.h2, { fontSize: 9 }]}>Stability across {stability.sites} sites</Text>
+      <Table<StabilityRow>
+        columns={[
+          { label: "Variety", width: 110, value: (r) => `${r.varietyName ?? r.blindCode}${r.isCheck ? " (check)" : ""}` },
+          { label: `Mean${unitHeading(trait) ? ` (${unitHeading(trait)})` : ""}`, width: 58, align: "right", value: (r) => numberInUnit(trait, r.mean) },
+          { label: "Slope ± SE", width: 60, align: "right", value: (r) => `${formatNumber(r.slope, 2)} ± ${formatNumber(r.slopeSe, 2)}` },
+          { label: "Deviation MS", width: 56, align: "right", value: (r) => formatNumber(r.deviationMs) },
+          { label: "Shukla", width: 46, align: "right", value: (r) => formatNumber(r.shuklaVariance) },
+          { label: "Reading", width: 206, value: (r) => r.reading },
+        ]}
+        rows={stability.rows}
+      />
+      {stability.notes.map((n, i) => (
+        <Text key={i} style={s.note}>
+          • {n}
+        </Text>
+      ))}
+    </>
+  );
+}
+
+function TraitSection({ result, pages, id, withStability }: { result: PublicTraitResult; pages: SectionPages; id: string; withStability: boolean }) {
   const block = result.combined ?? result.perSite.find((p) => p.result)?.result ?? null;
   const trait = result.trait;
   const figures = block
@@ -224,6 +256,7 @@ function TraitSection({ result, pages, id }: { result: PublicTraitResult; pages:
           <Text style={[base.h2, { fontSize: 9 }]}>Analysis of variance</Text>
           <AnovaTable block={block} />
           {result.mixed && <MixedSection mixed={result.mixed} trait={trait} />}
+          {withStability && result.combined && <StabilityTable result={result} />}
           {result.notes.map((n, i) => (
             <Text key={i} style={s.note}>
               • {n}
@@ -384,7 +417,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
       </ReportPage>
       {snapshot.results.map((r) => (
         <ReportPage key={r.trait} footer={footer}>
-          <TraitSection result={r.result} pages={pages} id={`trait-${r.trait}`} />
+          <TraitSection result={r.result} pages={pages} id={`trait-${r.trait}`} withStability={snapshot.settings.stabilityInReport === true} />
         </ReportPage>
       ))}
       {germination && (

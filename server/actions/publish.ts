@@ -11,7 +11,7 @@ export const publishTrial = defineAction({ roles: ["coordinator", "admin"], sche
   const { version } = await publishResults(viewer, {
     trialId: input.trialId,
     traitId: input.traitId,
-    settings: { siteModel: input.siteModel, separation: input.separation, ...(input.mixed ? { mixed: true } : {}) },
+    settings: { siteModel: input.siteModel, separation: input.separation, ...(input.mixed ? { mixed: true } : {}), stabilityInReport: input.stabilityInReport },
     changeNote: input.changeNote ?? null,
     confirmedLeftOut: input.confirmLeftOut,
   });

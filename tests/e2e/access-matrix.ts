@@ -171,6 +171,9 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "GET /api/trials/[trialId]/sites/[siteId]/layout": [{ note: "site B's layout", path: (i) => `/api/trials/${i.kal}/sites/${i.siteB}/layout`, expect: siteBObject("ok", "unauth") }],
   "GET /api/trials/[trialId]/analysis": [{ note: "spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis`, expect: firstProgramStaff("unauth") }],
   "GET /api/trials/[trialId]/analysis/export": [{ note: "spinach means csv", path: (i) => `/api/trials/${i.spn}/analysis/export?format=csv&table=means`, expect: firstProgramStaff("unauth") }],
+  // The demo has no second kale trial, so staff of the program get "not one of your trials of this crop" (spinach is
+  // another crop); the answer with a CV is checked in tests/integration/stability-planning.test.ts.
+  "GET /api/trials/[trialId]/planning": [{ note: "kale planned from spinach (another crop)", path: (i) => `/api/trials/${i.kal}/planning?from=${i.spn}&trait=1`, expect: { ...firstProgramStaff("unauth"), coordinator: "missing", admin: "missing" } }],
   "GET /api/sites": [{ note: "own sites", path: () => "/api/sites", expect: signedIn("ok", "unauth") }],
   "GET /api/submissions": [{ note: "site B's review state", path: (i) => `/api/submissions?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],
   "GET /api/observations": [{ note: "site B's sheet", path: (i) => `/api/observations?trialId=${i.kal}&siteId=${i.siteB}`, expect: siteBObject("ok", "unauth") }],

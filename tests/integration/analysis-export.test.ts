@@ -48,7 +48,7 @@ describe("analysis exports", () => {
       expect(res.headers.get("content-disposition")).toMatch(/tv26-let-marketable-yield-analysis\.xlsx/);
       const workbook = new ExcelJS.Workbook();
       await workbook.xlsx.load(await res.arrayBuffer());
-      expect(workbook.worksheets.map((w) => w.name)).toEqual(["Settings", "Raw data", "Means", "ANOVA", "Emergence", "Missing plots", "Notes", "Data dictionary"]);
+      expect(workbook.worksheets.map((w) => w.name)).toEqual(["Settings", "Raw data", "Means", "ANOVA", "Emergence", "Stability", "GGE biplot", "Missing plots", "Notes", "Data dictionary"]);
 
       const means = workbook.getWorksheet("Means")!;
       const header = (means.getRow(1).values as unknown[]).slice(1);

@@ -73,6 +73,20 @@ export function toBlindPayload(result: AnalysisResult, withPlots = false): Blind
       cellMeans: combined.cellMeans
         .map((c) => ({ siteId: c.siteId, siteName: c.siteName, entryId: blindId(c.entryId), mean: c.mean, n: c.n }))
         .sort((a, b) => a.siteName.localeCompare(b.siteName) || a.entryId - b.entryId),
+      stability: combined.stability && {
+        sites: combined.stability.sites,
+        rows: byCode(combined.stability.rows).map((r) => ({
+          entryId: blindId(r.entryId), blindCode: r.blindCode, mean: r.mean, slope: r.slope, slopeSe: r.slopeSe, slopeP: r.slopeP, deviationMs: r.deviationMs, deviationP: r.deviationP,
+          ecovalence: r.ecovalence, shuklaVariance: r.shuklaVariance, slopeReading: r.slopeReading, scattered: r.scattered, reading: r.reading,
+        })),
+        gge: {
+          explained: [combined.stability.gge.explained[0], combined.stability.gge.explained[1]],
+          entries: byCode(combined.stability.gge.entries).map((g) => ({ entryId: blindId(g.entryId), blindCode: g.blindCode, pc1: g.pc1, pc2: g.pc2 })),
+          sites: [...combined.stability.gge.sites].sort((a, b) => a.siteName.localeCompare(b.siteName)).map((g) => ({ siteId: g.siteId, siteName: g.siteName, pc1: g.pc1, pc2: g.pc2 })),
+        },
+        notes: [...combined.stability.notes],
+      },
+      stabilityProblem: combined.stabilityProblem,
     },
     combinedProblem: result.combinedProblem,
     missing: result.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: m.reason, handling: m.handling })),

@@ -67,6 +67,23 @@ export function exportTables(result: AnalysisResult, generatedAt: string, withNa
       rows: [...result.germination.byEntry, ...result.germination.bySite].map((g) => [g.siteName ?? "All sites", g.blindCode, name(g), g.sown, g.emerged, g.percent, g.lower, g.upper]),
     });
   }
+  const stability = result.combined?.stability;
+  if (stability) {
+    tables.push({
+      name: "Stability",
+      columns: ["Entry code", "Variety", "Check", "Mean of site means", "Slope on site mean", "Slope SE", "Slope p (vs 1)", "Deviation MS", "Deviation p", "Ecovalence", "Shukla variance", "Reading"],
+      rows: stability.rows.map((r): Cell[] => [r.blindCode, name(r), r.isCheck, r.mean, r.slope, r.slopeSe, r.slopeP, r.deviationMs, r.deviationP, r.ecovalence, r.shuklaVariance, r.reading]),
+    });
+    tables.push({
+      name: "GGE biplot",
+      columns: ["Kind", "Entry code or site", "Variety", "Component 1", "Component 2"],
+      rows: [
+        ...stability.gge.entries.map((g): Cell[] => ["entry", g.blindCode, name(g), g.pc1, g.pc2]),
+        ...stability.gge.sites.map((g): Cell[] => ["site", g.siteName, null, g.pc1, g.pc2]),
+        ["share explained", "", null, stability.gge.explained[0], stability.gge.explained[1]],
+      ],
+    });
+  }
   if (result.missing.length > 0) {
     tables.push({ name: "Missing plots", columns: ["Plot", "Site", "Block", "Entry code", "Why missing", "How handled"], rows: result.missing.map((m) => [m.plotCode, m.siteName, m.block, m.blindCode, m.reason, m.handling]) });
   }
@@ -95,6 +112,11 @@ function dataDictionary(result: AnalysisResult): ExportTable {
       ["Means", "CV %", "100 x square root of the error mean square / grand mean."],
       ["ANOVA", "Tested against", `Error term of the F test: with random sites, varieties are tested against ${ANOVA_SOURCE_LABELS["entry:site"]}.`],
       ["Emergence", "Emergence %", "Seedlings emerged / seeds sown x 100, pooled over plots; 95% Wilson score interval."],
+      ["Stability", "Slope on site mean", "Finlay-Wilkinson slope of the entry's site means on the site means (all entries): 1 = average response, above 1 responds more to good sites, below 1 steadier. Needs 3 or more sites."],
+      ["Stability", "Deviation MS", "Residual mean square about that line (Eberhart-Russell), tested against plot error / plots per site mean."],
+      ["Stability", "Ecovalence", "Wricke's ecovalence: the entry's sum of squares of the entry x site interaction."],
+      ["Stability", "Shukla variance", "Shukla's (1972) stability variance: the entry's own interaction variance; 0 or below = as steady as the trial can tell."],
+      ["GGE biplot", "Component 1, 2", "Scores of the entry x site table of means centred by site (singular value decomposition, symmetric scaling); share explained in the last row."],
     ],
   };
 }

@@ -22,6 +22,7 @@ import { countOf, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, val
 import { analyseGermination, analyseEmergence } from "./germination";
 import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, noPairDiffers, orderWords, rankedValue } from "./ranking";
 import { analysedAs, isAnalysable, plotValue } from "./values";
+import { analyseStability } from "./stability";
 import type {
   AnalysisBlock,
   AnalysisInput,
@@ -258,7 +259,12 @@ function analyseAcrossSites(
       interactionP: interaction?.p ?? null,
       bartlett: bartlett ? { statistic: bartlett.statistic, df: bartlett.df, p: bartlett.p } : null,
       cellMeans: cellMeans(used),
+      stability: null,
+      stabilityProblem: null,
     };
+    const { stability, problem } = analyseStability(combined, trait, entriesById);
+    combined.stability = stability;
+    combined.stabilityProblem = problem;
     return { combined, combinedProblem: null };
   } catch (e) {
     if (!isStatsError(e)) throw e;

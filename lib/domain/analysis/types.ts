@@ -4,6 +4,7 @@
  */
 import type { AnovaRow } from "@/lib/domain/stats";
 import type { BetterWhen, ExclusionCategory, SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
+import type { StabilityAnalysis, StabilityRow } from "./stability";
 
 import type { MixedAnalysis } from "./mixed";
 
@@ -163,6 +164,9 @@ export interface CombinedAnalysis extends AnalysisBlock {
   bartlett: { statistic: number; df: number; p: number } | null;
   /** entry mean per site, for the interaction plot */
   cellMeans: { siteId: number; siteName: string; entryId: number; mean: number; n: number }[];
+  /** each variety's response to the sites and the GGE biplot (stability.ts); null with `stabilityProblem` saying why */
+  stability: StabilityAnalysis | null;
+  stabilityProblem: string | null;
 }
 
 export interface MissingPlot {
@@ -296,10 +300,16 @@ export interface BlindAnalysisBlock extends Omit<AnalysisBlock, "means"> {
 export interface BlindAnalysisPayload extends Omit<AnalysisPayload, "perSite" | "combined" | "germination" | "emergence" | "plots"> {
   blind: true;
   perSite: (Omit<SiteAnalysis, "result"> & { result: BlindAnalysisBlock | null })[];
-  combined: (Omit<CombinedAnalysis, "means"> & { means: Unkeyed<EntryResult>[] }) | null;
+  combined: (Omit<CombinedAnalysis, "means" | "stability"> & { means: Unkeyed<EntryResult>[]; stability: BlindStability | null }) | null;
   germination: (Omit<GerminationAnalysis, "byEntry" | "bySite" | "labels"> & { byEntry: Unkeyed<GerminationRow>[]; bySite: Unkeyed<GerminationRow>[] }) | null;
   emergence: { days: number[]; curve: Unkeyed<EmergenceAnalysis["curve"][number]>[]; kinetics: Unkeyed<EmergenceAnalysis["kinetics"][number]>[]; note: string } | null;
   plots?: Unkeyed<PlotValue>[];
+}
+
+/** Stability as a grower sees it before the reveal: blind codes only. */
+export interface BlindStability extends Omit<StabilityAnalysis, "rows" | "gge"> {
+  rows: Unkeyed<StabilityRow>[];
+  gge: { explained: [number, number]; entries: Unkeyed<StabilityAnalysis["gge"]["entries"][number]>[]; sites: StabilityAnalysis["gge"]["sites"] };
 }
 
 /** What the analysis page and JSON API send a signed-in viewer: the whole payload for staff, blind for growers until the reveal. */

@@ -67,6 +67,16 @@ export interface PublicCombined extends PublicBlock {
   interactionP: number | null;
   bartlett: { statistic: number; df: number; p: number } | null;
   cellMeans: { siteName: string; blindCode: string; mean: number; n: number }[];
+  /** each variety's response to the sites; null without one (and in versions published before it was worked out) */
+  stability: PublicStability | null;
+}
+
+export interface PublicStability {
+  sites: number;
+  rows: { blindCode: string; varietyName: string | null; isCheck: boolean; mean: number; slope: number; slopeSe: number; deviationMs: number; shuklaVariance: number; reading: string }[];
+  /** share explained by the GGE biplot's first two components */
+  explained: [number, number];
+  notes: string[];
 }
 
 export type PublicGerminationRow = Omit<GerminationRow, "entryId" | "siteId">;
@@ -218,6 +228,14 @@ export function toPublicTraitResult(r: AnalysisResult): PublicTraitResult {
       interactionP: combined.interactionP,
       bartlett: combined.bartlett && { statistic: combined.bartlett.statistic, df: combined.bartlett.df, p: combined.bartlett.p },
       cellMeans: combined.cellMeans.map((c) => ({ siteName: c.siteName, blindCode: codeOf.get(c.entryId) ?? "", mean: c.mean, n: c.n })),
+      stability: combined.stability
+        ? {
+            sites: combined.stability.sites,
+            rows: combined.stability.rows.map((x) => ({ blindCode: x.blindCode, varietyName: x.varietyName, isCheck: x.isCheck, mean: x.mean, slope: x.slope, slopeSe: x.slopeSe, deviationMs: x.deviationMs, shuklaVariance: x.shuklaVariance, reading: x.reading })),
+            explained: [combined.stability.gge.explained[0], combined.stability.gge.explained[1]],
+            notes: [...combined.stability.notes],
+          }
+        : null,
     },
     combinedProblem: r.combinedProblem,
     missing: r.missing.map((m) => ({ plotCode: m.plotCode, siteName: m.siteName, blindCode: m.blindCode, block: m.block, reason: publicMissingReason(m.reason), handling: m.handling })),
@@ -295,7 +313,7 @@ export function toPublicSnapshot(s: PublishedSnapshot): PublicSnapshot {
     version: s.version,
     publishedAt: s.publishedAt,
     changeNote: s.changeNote,
-    settings: { siteModel: s.settings.siteModel, separation: s.settings.separation, ...(s.settings.mixed ? { mixed: true } : {}) },
+    settings: { siteModel: s.settings.siteModel, separation: s.settings.separation, ...(s.settings.mixed ? { mixed: true } : {}), stabilityInReport: s.settings.stabilityInReport === true },
     program: s.program,
     trial: { code: t.code, title: t.title, crop: t.crop, cropGroup: t.cropGroup, season: t.season, year: t.year, purpose: t.purpose, design: t.design, blocks: t.blocks, plotUnit: t.plotUnit, plotSize: t.plotSize, protocol: t.protocol },
     scopeTrait: s.scopeTraitId === null ? null : (traitCode.get(s.scopeTraitId) ?? null),

@@ -8,6 +8,8 @@ export interface PublishSettings {
   separation: "lsd" | "tukey";
   /** also publish the REML mixed model of each trait (absent in versions published before it existed) */
   mixed?: boolean;
+  /** the PDF report adds each trait's stability across sites (absent, so no, in versions published before it was offered) */
+  stabilityInReport?: boolean;
 }
 
 export interface PublishedSite {

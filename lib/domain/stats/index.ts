@@ -54,3 +54,6 @@ export {
   studentizedRangeCdf,
   studentizedRangeQuantile,
 } from "./distributions";
+export { stability, STABILITY_MIN_ENTRIES, STABILITY_MIN_ENVIRONMENTS, type CellMean, type EntryStability, type GgeResult, type StabilityResult } from "./stability";
+export { planTrial, PLANNING_MAX_BLOCKS, TARGET_POWER, type TrialPlan, type TrialPlanInput } from "./planning";
+export { noncentralTCdf } from "./noncentral-t";

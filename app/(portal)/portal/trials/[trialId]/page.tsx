@@ -4,6 +4,8 @@ import { notFound } from "next/navigation";
 import { requireRole } from "@/server/auth/guards";
 import { getTrialDetail, getTrialLineage, listEnrolableSites, listEntryOptions } from "@/db/queries/trials";
 import { RollForwardForm } from "@/components/trials/roll-forward-form";
+import { PlanningPanel } from "@/components/trials/planning-panel";
+import { listPlanningSources } from "@/db/queries/planning";
 import { TraitOrder } from "@/components/trials/trait-order";
 import { idParam } from "@/lib/validation/common";
 import { Card } from "@/components/ui/card";
@@ -30,10 +32,13 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const initial = asJson(detail);
   const state = { status: trial.status, ...progress };
   const editable = canEditDesign(state);
-  const [varietyOptions, enrolable, lineage] = await Promise.all([
+  // Planning the size matters while the design can still change.
+  const planning = trial.status === "draft" || trial.status === "open";
+  const [varietyOptions, enrolable, lineage, planningSources] = await Promise.all([
     editable ? listEntryOptions(viewer, trial.id) : Promise.resolve([]),
     canEnrolSites(state) ? listEnrolableSites(viewer, trial.id) : Promise.resolve([]),
     getTrialLineage(viewer, trial.id),
+    planning ? listPlanningSources(viewer, trial.id) : Promise.resolve([]),
   ]);
   const taken = new Set(entries.map((e) => e.variety));
   const next = nextStatus(trial.status);
@@ -157,6 +162,12 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
             )}
           </Card>
         </div>
+
+        {planning && (
+          <Card title="How many blocks does this trial need?">
+            <PlanningPanel trialId={trial.id} initial={initial} blocks={trial.blocks} sources={planningSources} previousTrialId={lineage?.previous?.id ?? null} />
+          </Card>
+        )}
 
         {lineage && lineage.seasons.length > 0 && (
           <Card title="Plan next season from this trial">

@@ -16,7 +16,9 @@ const paramsSchema = z.object({ trialId: idParam });
 const exportSchema = z.object({
   format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
   table: z
-    .enum(["raw", "means", "anova", "emergence", "mixed-model", "mixed-means", "mixed-pairs"], { error: "Ask for table raw, means, anova, emergence, mixed-model, mixed-means or mixed-pairs." })
+    .enum(["raw", "means", "anova", "emergence", "stability", "mixed-model", "mixed-means", "mixed-pairs"], {
+      error: "Ask for table raw, means, anova, emergence, stability, mixed-model, mixed-means or mixed-pairs.",
+    })
     .default("means"),
 });
 
@@ -27,7 +29,16 @@ function exportQueryOf(search: URLSearchParams) {
   if (!options.success) throw new AppError("bad_request", options.error.issues[0]!.message);
   return { analysis: analysis.data, options: options.data };
 }
-const CSV_SHEETS = { raw: "Raw data", means: "Means", anova: "ANOVA", emergence: "Emergence", "mixed-model": MIXED_SHEETS.components, "mixed-means": MIXED_SHEETS.means, "mixed-pairs": MIXED_SHEETS.pairs } as const;
+const CSV_SHEETS = {
+  raw: "Raw data",
+  means: "Means",
+  anova: "ANOVA",
+  emergence: "Emergence",
+  stability: "Stability",
+  "mixed-model": MIXED_SHEETS.components,
+  "mixed-means": MIXED_SHEETS.means,
+  "mixed-pairs": MIXED_SHEETS.pairs,
+} as const;
 
 /** The analysis as an .xlsx workbook (every table plus settings and a data dictionary) or one table as CSV. */
 export const GET = defineRoute(
@@ -43,7 +54,14 @@ export const GET = defineRoute(
     if (query.options.format === "csv") {
       const table = tables.find((t) => t.name === CSV_SHEETS[query.options.table]);
       if (!table) {
-        throw new AppError("not_found", query.options.table.startsWith("mixed") ? "Tick the mixed model on the analysis page (mixed=1) to export its tables." : "This trial has no emergence counts to export.");
+        throw new AppError(
+          "not_found",
+          query.options.table.startsWith("mixed")
+            ? "Tick the mixed model on the analysis page (mixed=1) to export its tables."
+            : query.options.table === "stability"
+              ? `There is no stability table for this trait: ${result.combined?.stabilityProblem ?? result.combinedProblem ?? "it needs a combined analysis of 3 or more sites."}`
+              : "This trial has no emergence counts to export.",
+        );
       }
       return new Response(csvFile([table.columns, ...table.rows]), {
         headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${base}-${query.options.table}.csv"` },
