@@ -203,8 +203,16 @@ function analyseEachSite(
 ): { analyses: SiteAnalysis[]; warnings: string[] } {
   const analyses: SiteAnalysis[] = [];
   const warnings: string[] = [];
+  // One pass over the plots instead of one per site.
+  const rowsBySite = new Map<number, PlotRow[]>();
+  for (const r of rows) {
+    if (r.excluded) continue;
+    const list = rowsBySite.get(r.site.id);
+    if (list) list.push(r);
+    else rowsBySite.set(r.site.id, [r]);
+  }
   for (const site of includedSites) {
-    const siteRows = rows.filter((r) => r.site.id === site.id && !r.excluded);
+    const siteRows = rowsBySite.get(site.id) ?? [];
     const blocksWithData = new Set(siteRows.filter((r) => r.value !== null).map((r) => r.plot.block));
     const base = { siteId: site.id, siteName: site.name, status: site.status, blocks: blocksWithData.size };
     if (!analysable) {

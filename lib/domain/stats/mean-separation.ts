@@ -219,33 +219,43 @@ export function compactLetters(
     differ[x][y] = c.differ;
     differ[y][x] = c.differ;
   }
-  let columns: boolean[][] = [new Array<boolean>(k).fill(true)];
+  // A column is a bit set over ranks (32 per word): the subset tests of the absorb step, which run for
+  // every pair of columns after every split, then cost a few word operations instead of a pass over k.
+  const words = Math.ceil(k / 32);
+  const has = (column: Uint32Array, x: number) => (column[x >>> 5]! & (1 << (x & 31))) !== 0;
+  const without = (column: Uint32Array, x: number) => {
+    const copy = column.slice();
+    copy[x >>> 5]! &= ~(1 << (x & 31));
+    return copy;
+  };
+  const all = new Uint32Array(words);
+  for (let x = 0; x < k; x++) all[x >>> 5]! |= 1 << (x & 31);
+  let columns: Uint32Array[] = [all];
   for (let i = 0; i < k - 1; i++) {
     for (let j = i + 1; j < k; j++) {
       if (!differ[i][j]) continue;
-      const split: boolean[][] = [];
+      // Only a column holding both entries splits; when none does, the columns (already absorbed) stay as they are.
+      if (!columns.some((column) => has(column, i) && has(column, j))) continue;
+      const split: Uint32Array[] = [];
       for (const column of columns) {
-        if (column[i] && column[j]) {
-          const withoutI = column.slice();
-          withoutI[i] = false;
-          const withoutJ = column.slice();
-          withoutJ[j] = false;
-          split.push(withoutI, withoutJ);
-        } else split.push(column);
+        if (has(column, i) && has(column, j)) split.push(without(column, i), without(column, j));
+        else split.push(column);
       }
       // absorb: drop a column contained in another (keeping the first of two equal columns)
       const keep = split.map(() => true);
       for (let p = 0; p < split.length; p++) {
         for (let r = 0; r < split.length; r++) {
           if (p === r || !keep[p] || !keep[r]) continue;
+          const a = split[p]!;
+          const b = split[r]!;
           let subset = true;
           let strict = false;
-          for (let x = 0; x < k; x++) {
-            if (split[p][x] && !split[r][x]) {
+          for (let w = 0; w < words; w++) {
+            if ((a[w]! & ~b[w]!) !== 0) {
               subset = false;
               break;
             }
-            if (!split[p][x] && split[r][x]) strict = true;
+            if ((b[w]! & ~a[w]!) !== 0) strict = true;
           }
           if (subset && (strict || p > r)) keep[p] = false;
         }
@@ -253,12 +263,16 @@ export function compactLetters(
       columns = split.filter((_, p) => keep[p]);
     }
   }
-  columns.sort((x, y) => x.indexOf(true) - y.indexOf(true));
+  const firstRank = (column: Uint32Array) => {
+    for (let x = 0; x < k; x++) if (has(column, x)) return x;
+    return -1;
+  };
+  columns.sort((x, y) => firstRank(x) - firstRank(y));
   const result: Record<string, string> = {};
   for (let rank = 0; rank < k; rank++) {
     let text = "";
     columns.forEach((column, c) => {
-      if (column[rank]) text += letterName(c);
+      if (has(column, rank)) text += letterName(c);
     });
     result[labels[order[rank]]] = text;
   }
