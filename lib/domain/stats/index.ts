@@ -16,7 +16,7 @@ export {
   type RcbdPlot,
   type MultiSitePlot,
 } from "./anova";
-export { lsd, pairwiseLsd, tukeyHsd, compactLetters, type LsdPair } from "./mean-separation";
+export { lsd, lsdLetters, pairwiseLsd, tukeyHsd, compactLetters, type LsdPair } from "./mean-separation";
 export { chiSquareGoodnessOfFit, chiSquareIndependence, cochranMantelHaenszel } from "./chi-square";
 export { bartlett, bartlettFromVariances } from "./variance-tests";
 export {
