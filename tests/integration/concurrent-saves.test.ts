@@ -7,7 +7,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { saveObservationsForViewer } from "@/server/observations/recording";
 
-// Saves at the same moment, on a trial of this file's own (two sites, a grower each), so other test files'
+// Saves at the same moment, on a trial of this file's own program (two sites, a grower each), so other test files'
 // saves never hold the locks these tests look at. A second connection plays "everyone else".
 
 const url = process.env.TEST_DATABASE_URL ?? process.env.DATABASE_URL!;
@@ -20,8 +20,9 @@ const sites: { siteId: number; enrolmentId: number; grower: Viewer; plotIds: num
 beforeAll(async () => {
   other = await mysql.createConnection(url);
   const tag = unique("concurrent");
-  const [program] = await db.select({ id: s.programs.id }).from(s.programs).limit(1);
-  const [season] = await db.select({ id: s.seasons.id }).from(s.seasons).where(eq(s.seasons.programId, program!.id)).limit(1);
+  // A program of its own, so no demo program's lists gain these sites and varieties.
+  const [program] = await db.insert(s.programs).values({ slug: tag.toLowerCase(), name: `Concurrent ${tag}` }).$returningId();
+  const [season] = await db.insert(s.seasons).values({ programId: program!.id, name: "Concurrent season", year: 2026 }).$returningId();
   const [crop] = await db.insert(s.crops).values({ name: `Crop ${tag}`, cropGroup: "leafy_greens" }).$returningId();
   const [trial] = await db
     .insert(s.trials)
