@@ -7,6 +7,7 @@
 // 50 growers saving values at the same time. Each is bounded by a request count and a time limit.
 // Settings: LOAD_REQUESTS (per read scenario, default 400), LOAD_CONNECTIONS (default 10), LOAD_SAVES
 // (saves per grower, default 20), LOAD_GROWERS (default 50), LOAD_SECONDS (time cap per scenario, default 60).
+import { readFileSync } from "node:fs";
 import autocannon from "autocannon";
 import { and, eq, inArray, isNull } from "drizzle-orm";
 import { createDatabase } from "../db/client";
@@ -55,6 +56,25 @@ function print(f: Figures) {
     `${f.scenario.padEnd(34)} ${String(f.requests).padStart(5)} req  ${(f.requests / f.seconds).toFixed(1).padStart(7)} req/s  ` +
       `p50 ${ms(pct(sorted, 50)).padStart(7)}  p95 ${ms(pct(sorted, 95)).padStart(7)}  p99 ${ms(pct(sorted, 99)).padStart(7)}  errors ${f.errors}${f.note ? `  (${f.note})` : ""}`,
   );
+}
+
+/**
+ * CPU time (ms) used so far by each process named in LOAD_CPU_PIDS ("pid" or "name=pid", comma-separated, e.g.
+ * the server and MariaDB), from /proc on Linux. On a shared machine throughput falls with the load; CPU per save does not.
+ */
+function processCpu(): Map<string, number> {
+  const out = new Map<string, number>();
+  for (const item of (process.env.LOAD_CPU_PIDS ?? "").split(",").filter(Boolean)) {
+    const [name, pid] = item.includes("=") ? item.split("=") : [item, item];
+    try {
+      const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1]!.split(" ");
+      // utime and stime are fields 14 and 15 of the whole line, in clock ticks (100 per second on Linux).
+      out.set(name!, ((Number(fields[11]) + Number(fields[12])) * 1000) / 100);
+    } catch {
+      // A pid that is gone or not on Linux: no figure for it.
+    }
+  }
+  return out;
 }
 
 /** Cookie header value from a response's Set-Cookie lines, merged into what we already hold. */
@@ -177,6 +197,7 @@ try {
 
   // Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
   // three plots with values unique to (grower, save), so the last accepted value of each plot is known.
+  const cpuBefore = processCpu();
   const lastWritten = new Map<number, string>();
   const saveLatencies: number[] = [];
   let saveErrors = 0;
@@ -207,10 +228,12 @@ try {
       }
     }),
   );
+  const cpuPerSave = [...processCpu()].map(([pid, ms]) => `${pid} ${((ms - (cpuBefore.get(pid) ?? 0)) / Math.max(1, saveCount)).toFixed(1)} ms`);
   figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });
 
   console.log("scenario                           requests    throughput   latency");
   for (const f of figures) print(f);
+  if (cpuPerSave.length > 0) console.log(`CPU time per save (user + system, whatever the machine's load): ${cpuPerSave.join(", ")}`);
 
   // Every value a save was told was stored must be in the database, with the last value written to that plot.
   const stored = await db
@@ -222,6 +245,15 @@ try {
   console.log(`\nRow-by-row check: ${lastWritten.size} plots saved, ${stored.length} rows found, ${wrong.length} lost or stale.`);
   for (const [plotId, value] of wrong.slice(0, 10)) console.log(`  plot ${plotId}: expected ${value}, found ${byPlot.get(plotId) ?? "nothing"}`);
   passed = wrong.length === 0 && figures.every((f) => f.errors === 0);
+
+  // One line per figure for `npm run bench` (tab-separated: figure, value, unit, ratio, target, met).
+  const saves = figures.at(-1)!;
+  const perSecond = saves.requests / saves.seconds;
+  const p95 = pct([...saves.latencies].sort((a, b) => a - b), 95);
+  const result = (figure: string, value: string, unit: string, target: string, met: boolean) => console.log(["RESULT", figure, value, unit, "-", target, met ? "met" : "not met"].join("\t"));
+  result(`saves, ${load.growers.length} growers x 3 values`, perSecond.toFixed(0), "saves/s", ">= 200 saves/s", perSecond >= 200);
+  result("saves p95", p95.toFixed(0), "ms", "< 200 ms", p95 < 200);
+  result("saved plot values lost or stale (row by row)", String(wrong.length), "plots", "0, and no failed save", wrong.length === 0 && saves.errors === 0);
 } finally {
   await removeThrowawayTrial(db, load.trialId, THROWAWAY);
   console.log(`Removed the throwaway trial LOAD-${tag} with its ${load.growers.length} sites and grower accounts.`);

@@ -1,6 +1,7 @@
 // Times the published PDF report of a 50-site trial: npm run bench:report
 // Builds realistic results with the real analysis code on generated data (5 traits, 8 varieties,
 // 4 blocks, 50 sites), then renders the report several times and prints the times.
+import { writeFileSync } from "node:fs";
 import { performance } from "node:perf_hooks";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { analysedAs } from "@/lib/domain/analysis/values";
@@ -66,13 +67,23 @@ console.log(`warm-up render of a one-site, one-trait report: ${(performance.now(
 // The server maps a stored snapshot to its public shape once and keeps it, so the mapping is not timed.
 const publicSnapshot = toPublicSnapshot(snapshot);
 const times: number[] = [];
+const cpuTimes: number[] = [];
 let pages = 0;
 for (let i = 0; i < 4; i += 1) {
   const start = performance.now();
+  const cpuStart = process.cpuUsage();
   const pdf = await renderTrialReport(publicSnapshot);
   times.push(performance.now() - start);
+  const cpu = process.cpuUsage(cpuStart);
+  cpuTimes.push((cpu.user + cpu.system) / 1000);
   pages = (pdf.toString("latin1").match(/\/Type \/Page\b/g) ?? []).length;
+  // BENCH_REPORT_PDF=file keeps the last render, to look at its pages (pdftoppm -png -r 60 file out).
+  if (process.env.BENCH_REPORT_PDF) writeFileSync(process.env.BENCH_REPORT_PDF, pdf);
 }
 const sorted = [...times].sort((a, b) => a - b);
 console.log(`Report for ${SITES} sites x ${ENTRIES} varieties x ${BLOCKS} blocks, ${traits.length} traits: ${pages} pages`);
-console.log(`render times (ms): ${times.map((t) => t.toFixed(0)).join(", ")}; median ${((sorted[1]! + sorted[2]!) / 2).toFixed(0)} ms (target under 5000 ms)`);
+const median = (sorted[1]! + sorted[2]!) / 2;
+console.log(`render times (ms): ${times.map((t) => t.toFixed(0)).join(", ")}; median ${median.toFixed(0)} ms (target under 2000 ms)`);
+// On a shared machine the wall time grows with the load; the process's own CPU time much less.
+console.log(`CPU time of each render (ms): ${cpuTimes.map((t) => t.toFixed(0)).join(", ")}`);
+console.log(["RESULT", `PDF report, ${SITES} sites x ${ENTRIES} varieties, median after warm-up`, median.toFixed(0), "ms", "-", "< 2000 ms", median < 2000 ? "met" : "not met"].join("\t"));

@@ -1,5 +1,5 @@
 import "server-only";
-import { eq } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import type { Tx } from "../index";
 import { auditLog, observationHistory, observations, submissions } from "../schema";
 import type { CellValue } from "@/lib/domain/observations/values";
@@ -35,12 +35,28 @@ export async function insertObservationHistory(tx: Tx, rows: (typeof observation
   for (let i = 0; i < rows.length; i += BATCH) await tx.insert(observationHistory).values(rows.slice(i, i + BATCH));
 }
 
-/** Replaces one stored value (a value clears the reason and a reason clears the value). */
-export async function updateObservation(tx: Tx, p: { id: number; value: CellValue; missingReason: MissingReason | null; recordedById: number; observedOn: string }) {
-  await tx
-    .update(observations)
-    .set({ valueNumber: p.value.valueNumber, valueDate: p.value.valueDate, valueText: p.value.valueText, missingReason: p.missingReason, recordedById: p.recordedById, observedOn: p.observedOn })
-    .where(eq(observations.id, p.id));
+/**
+ * Replaces stored values (a value clears the reason and a reason clears the value), each row naming its
+ * observation by id, in one statement per batch rather than one per value: every row exists, so MariaDB's
+ * INSERT ... ON DUPLICATE KEY UPDATE only ever takes the update branch.
+ */
+export async function updateObservations(tx: Tx, rows: (NewObservation & { id: number })[]) {
+  const replaced = (column: string) => sql`values(${sql.identifier(column)})`;
+  for (let i = 0; i < rows.length; i += BATCH) {
+    await tx
+      .insert(observations)
+      .values(rows.slice(i, i + BATCH))
+      .onDuplicateKeyUpdate({
+        set: {
+          valueNumber: replaced("value_number"),
+          valueDate: replaced("value_date"),
+          valueText: replaced("value_text"),
+          missingReason: replaced("missing_reason"),
+          recordedById: replaced("recorded_by_id"),
+          observedOn: replaced("observed_on"),
+        },
+      });
+  }
 }
 
 /** Audit entries for a batch of recorded values, in batches. */
@@ -48,8 +64,7 @@ export async function insertObservationAudits(tx: Tx, rows: AuditEntry[]) {
   for (let i = 0; i < rows.length; i += BATCH) await tx.insert(auditLog).values(rows.slice(i, i + BATCH));
 }
 
-/** Opens the site's data set as a draft for review, unless it already has one. */
+/** Opens the site's data set as a draft for review; the caller, holding the enrolment's lock, saw none. */
 export async function insertDraftSubmission(tx: Tx, enrolmentId: number) {
-  const [sub] = await tx.select({ id: submissions.id }).from(submissions).where(eq(submissions.enrolmentId, enrolmentId));
-  if (!sub) await tx.insert(submissions).values({ enrolmentId, status: "draft" });
+  await tx.insert(submissions).values({ enrolmentId, status: "draft" });
 }

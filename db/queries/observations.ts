@@ -16,8 +16,24 @@ export function recordScope(viewer: Viewer): SQL {
 
 type Executor = Tx | typeof db;
 
-/** One enrolment (site in a trial) the viewer may record for, optionally row-locked; null otherwise. */
+/**
+ * One enrolment (site in a trial) the viewer may record for; null otherwise. With `lock`, for the rest of the
+ * transaction the enrolment row is locked for writing (saves for one site run one after another) and the
+ * trial row for reading only, so saves at different sites of a trial run side by side while a change of
+ * the trial's status (which locks the trial for writing) waits for them, and they for it. The trial is
+ * locked before the enrolment, in the order every use case that changes a trial takes them, so the two
+ * never deadlock. The locking statements name rows by id only (a grower's by their own sites): the ownership check is the read after them,
+ * which, coming after the locks, also starts the transaction's snapshot, so every later read sees the
+ * latest committed values.
+ */
 export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false) {
+  if (lock) {
+    // MariaDB has no FOR SHARE; a FOR UPDATE over a join would lock the trial row for writing too.
+    await ex.execute(sql`SELECT ${trials.id} FROM ${trials} WHERE ${trials.id} = ${p.trialId} LOCK IN SHARE MODE`);
+    // A grower locks only their own sites' rows; staff scope needs the trial row, checked by the read below.
+    const own = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : undefined;
+    await ex.select({ id: enrolments.id }).from(enrolments).where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), own)).for("update");
+  }
   const q = ex
     .select({
       enrolmentId: enrolments.id,
@@ -33,12 +49,15 @@ export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { 
       sownOn: enrolments.sownOn,
       transplantedOn: enrolments.transplantedOn,
       cooperatorId: enrolments.cooperatorId,
+      /** the review state of the site's data set; null before anything was recorded */
+      submissionStatus: submissions.status,
     })
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
     .where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), recordScope(viewer)));
-  const [row] = lock ? await q.for("update") : await q;
+  const [row] = await q;
   return row ?? null;
 }
 export type RecordableEnrolment = NonNullable<Awaited<ReturnType<typeof getRecordableEnrolment>>>;
@@ -114,6 +133,51 @@ export async function listEnrolmentObservations(ex: Executor, enrolmentId: numbe
     .innerJoin(plots, eq(plots.id, observations.plotId))
     .where(plotFilter(enrolmentId, onlyPlots));
   return rows.map((r) => ({ ...r, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber) }));
+}
+
+/**
+ * What a save checks its values against, in one read: the enrolment's plots in layout order (all, or only
+ * `onlyPlots`), their stored values and the days to maturity on each plot's seed packet. The packet days are
+ * unblinding data: for the server's checks only, never sent to a grower.
+ */
+export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
+  const rows = await ex
+    .select({
+      id: plots.id,
+      plotCode: plots.plotCode,
+      block: plots.block,
+      position: plots.position,
+      tray: plots.tray,
+      traySlot: plots.traySlot,
+      blindCode: trialEntries.blindCode,
+      packetDays: seedLots.packetDaysToMaturity,
+      observationId: observations.id,
+      traitId: observations.traitId,
+      occasion: observations.occasion,
+      valueNumber: observations.valueNumber,
+      valueDate: observations.valueDate,
+      valueText: observations.valueText,
+      missingReason: observations.missingReason,
+    })
+    .from(plots)
+    .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
+    .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
+    .leftJoin(observations, eq(observations.plotId, plots.id))
+    .where(plotFilter(enrolmentId, onlyPlots))
+    .orderBy(asc(plots.block), asc(plots.position));
+  const plotRows: EnrolmentPlot[] = [];
+  const stored: ObservationRow[] = [];
+  const packetDays: Record<number, number | null> = {};
+  for (const r of rows) {
+    if (!(r.id in packetDays)) {
+      packetDays[r.id] = r.packetDays;
+      plotRows.push({ id: r.id, plotCode: r.plotCode, block: r.block, position: r.position, tray: r.tray, traySlot: r.traySlot, blindCode: r.blindCode });
+    }
+    if (r.observationId !== null && r.traitId !== null && r.occasion !== null) {
+      stored.push({ id: r.observationId, plotId: r.id, traitId: r.traitId, occasion: r.occasion, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber), valueDate: r.valueDate, valueText: r.valueText, missingReason: r.missingReason });
+    }
+  }
+  return { plots: plotRows, stored, packetDays };
 }
 
 /** Review state of an enrolment's data set, or null before anything was recorded. */

@@ -1,7 +1,7 @@
 import "server-only";
 import { db, type Tx } from "@/db/index";
-import { getRecordableEnrolment, getSubmissionRow, listEnrolmentObservations, listEnrolmentPlots, listPlotPacketDays, type RecordableEnrolment } from "@/db/queries/observations";
-import { insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservation, type AuditEntry } from "@/db/mutations/observations";
+import { getRecordableEnrolment, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
+import { insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservations, type AuditEntry } from "@/db/mutations/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
@@ -90,18 +90,12 @@ export async function planSiteObservations(
   const enrolment = await getRecordableEnrolment(ex, viewer, input, opts.lock);
   // Unknown and foreign sites look the same, so ids cannot be probed.
   if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
-  const sub = await getSubmissionRow(ex, enrolment.enrolmentId);
-  assertEditable(viewer, enrolment, sub?.status ?? null);
+  assertEditable(viewer, enrolment, enrolment.submissionStatus);
 
   // Every check is per plot, so a save that names its plots by id (the phone form) reads only those plots;
   // a sheet names plots by code and reads the site's plots to find them.
   const onlyPlots = input.cells.length > 0 && input.cells.every((c) => c.plotId !== undefined) ? [...new Set(input.cells.map((c) => c.plotId!))] : undefined;
-  const [columns, plotRows, storedRows, packetDays] = await Promise.all([
-    listTrialColumns(ex, enrolment.trialId),
-    listEnrolmentPlots(ex, enrolment.enrolmentId, onlyPlots),
-    listEnrolmentObservations(ex, enrolment.enrolmentId, onlyPlots),
-    listPlotPacketDays(ex, enrolment.enrolmentId, onlyPlots),
-  ]);
+  const [columns, { plots: plotRows, stored: storedRows, packetDays }] = await Promise.all([listTrialColumns(ex, enrolment.trialId), listPlotsForSave(ex, enrolment.enrolmentId, onlyPlots)]);
   const stored = keyObservations(storedRows, columns);
   const byId = new Map(plotRows.map((p) => [p.id, p]));
   const byCode = new Map(plotRows.map((p) => [p.plotCode.toUpperCase(), p]));
@@ -221,15 +215,16 @@ export async function saveSiteObservations(
       tx,
       updates.map((c) => ({ observationId: c.observationId!, valueNumber: c.oldValue?.valueNumber ?? null, valueDate: c.oldValue?.valueDate ?? null, valueText: c.oldValue?.valueText ?? null, changedById: viewer.id })),
     );
-    for (const c of updates) {
-      // The earlier reason stays in the audit entry.
-      await updateObservation(tx, { id: c.observationId!, value: c.newValue ?? NO_VALUE, missingReason: c.newReason, recordedById: viewer.id, observedOn });
-      audits.push(auditRow(c, c.observationId!));
-    }
+    // The earlier reason stays in the audit entry.
+    await updateObservations(
+      tx,
+      updates.map((c) => ({ id: c.observationId!, plotId: c.plotId, traitId: c.column.traitId, occasion: c.column.occasion, observedOn, ...(c.newValue ?? NO_VALUE), missingReason: c.newReason, recordedById: viewer.id })),
+    );
+    for (const c of updates) audits.push(auditRow(c, c.observationId!));
     await insertObservationAudits(tx, audits);
 
     // The first value recorded opens the site's data set as a draft for review.
-    if (todo.length > 0) await insertDraftSubmission(tx, enrolment.enrolmentId);
+    if (todo.length > 0 && enrolment.submissionStatus === null) await insertDraftSubmission(tx, enrolment.enrolmentId);
     return { counts: plan.counts, saved: todo.length, warnings: plan.warnings };
   });
 }

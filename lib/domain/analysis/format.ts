@@ -10,7 +10,18 @@ export function formatP(p: number | null): string {
 export function formatNumber(x: number | null | undefined, digits?: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";
   const d = digits ?? (Math.abs(x) >= 100 ? 0 : Math.abs(x) >= 10 ? 1 : 2);
-  return x.toLocaleString("en-US", { minimumFractionDigits: d, maximumFractionDigits: d });
+  return numberFormat(d).format(x);
+}
+
+// toLocaleString with options builds a new formatter on every call; an analysis formats thousands of numbers.
+const numberFormats = new Map<number, Intl.NumberFormat>();
+function numberFormat(digits: number): Intl.NumberFormat {
+  let format = numberFormats.get(digits);
+  if (!format) {
+    format = new Intl.NumberFormat("en-US", { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    numberFormats.set(digits, format);
+  }
+  return format;
 }
 
 /** "4 of 6 sites", "1 site". */

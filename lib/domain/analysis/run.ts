@@ -10,7 +10,7 @@ import {
   bartlettFromVariances,
   isStatsError,
   lsd,
-  pairwiseLsd,
+  lsdLetters,
   tukeyHsd,
   type AnovaTable,
   type MultiSitePlot,
@@ -69,6 +69,8 @@ type EntriesById = Map<number, InputEntry>;
 /** How the result will be read: `forPublication` tells the notes that the key is revealed by the publication itself. */
 export interface RunOptions {
   forPublication?: boolean;
+  /** Told how long each step took (benchmarks: scripts/bench-analysis.ts). */
+  onStep?: (step: string, ms: number) => void;
 }
 
 /** Runs the whole analysis for the settings; never throws for data problems, it reports them instead. */
@@ -79,12 +81,13 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, op
   const exclusions = exclusionsFor(input.exclusions, [trait.id]);
   const analysable = isAnalysable(trait);
 
+  const step = timer(options.onStep);
   const { siteChoices, includedSites } = chooseSites(input.sites, exclusions.bySite, settings);
-  const rows = collectPlotValues(input, trait, includedSites, exclusions.byPlot);
+  const rows = step("plot values", () => collectPlotValues(input, trait, includedSites, exclusions.byPlot));
   const missing = listMissingPlots(rows);
-  const perSite = analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById);
+  const perSite = step("per-site ANOVAs and letters", () => analyseEachSite(includedSites, rows, trait, analysable, settings, entriesById));
   const analysedSites = perSite.analyses.filter((s) => s.result !== null);
-  const { combined, combinedProblem } = analyseAcrossSites(analysedSites, rows, trait, analysable, settings, entriesById);
+  const { combined, combinedProblem } = step("combined ANOVA and letters", () => analyseAcrossSites(analysedSites, rows, trait, analysable, settings, entriesById));
   // yes/no traits have no CV (see hasCv), so no CV rule applies to them
   const cvs = analysedSites.flatMap((s) => (s.result!.cv === null ? [] : [{ name: s.siteName, cv: s.result!.cv }]));
 
@@ -95,7 +98,7 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, op
     ...varianceWarnings(cvs, combined),
   ];
   // the seed-count sections add their own warnings
-  const { germination, emergence } = analyseSeedCounts(input, includedSites, warnings);
+  const { germination, emergence } = step("germination and emergence", () => analyseSeedCounts(input, includedSites, warnings));
   const exclusionList = describeExclusions(input, exclusions);
   const notes = [
     ...siteNotes(trait, analysedSites, missing),
@@ -123,6 +126,17 @@ export function runAnalysis(input: AnalysisInput, settings: AnalysisSettings, op
     germination,
     emergence,
     plots: rows.map(plotValueRow),
+  };
+}
+
+/** Runs a step, telling `onStep` how long it took when asked to. */
+function timer(onStep: RunOptions["onStep"]) {
+  return <T>(name: string, run: () => T): T => {
+    if (!onStep) return run();
+    const started = performance.now();
+    const result = run();
+    onStep(name, performance.now() - started);
+    return result;
   };
 }
 
@@ -204,8 +218,16 @@ function analyseEachSite(
 ): { analyses: SiteAnalysis[]; warnings: string[] } {
   const analyses: SiteAnalysis[] = [];
   const warnings: string[] = [];
+  // One pass over the plots instead of one per site.
+  const rowsBySite = new Map<number, PlotRow[]>();
+  for (const r of rows) {
+    if (r.excluded) continue;
+    const list = rowsBySite.get(r.site.id);
+    if (list) list.push(r);
+    else rowsBySite.set(r.site.id, [r]);
+  }
   for (const site of includedSites) {
-    const siteRows = rows.filter((r) => r.site.id === site.id && !r.excluded);
+    const siteRows = rowsBySite.get(site.id) ?? [];
     const blocksWithData = new Set(siteRows.filter((r) => r.value !== null).map((r) => r.plot.block));
     const base = { siteId: site.id, siteName: site.name, status: site.status, blocks: blocksWithData.size };
     if (!analysable) {
@@ -461,7 +483,7 @@ function summarise(table: AnovaTable, trait: InputTrait, settings: AnalysisSetti
       const protectedLsd = lsd(table, ALPHA);
       if (protectedLsd) {
         lsdValue = protectedLsd.lsd;
-        letters = pairwiseLsd(table, ALPHA).letters;
+        letters = lsdLetters(table, ALPHA);
         comparisonNote = `LSD 0.05 = ${differenceWithUnit(trait, lsdValue)}${protectedLsd.equalReplication ? "" : " (average over pairs, since plots are missing)"}.`;
       } else {
         comparisonNote = `no LSD is given ${where} because the variety F test was not significant (protected LSD).`;

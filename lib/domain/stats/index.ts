@@ -23,7 +23,7 @@ export {
   type MixedModelResult,
   type MixedModelOptions,
 } from "./mixed-model";
-export { lsd, pairwiseLsd, tukeyHsd, compactLetters, type LsdPair } from "./mean-separation";
+export { lsd, lsdLetters, pairwiseLsd, tukeyHsd, compactLetters, type LsdPair } from "./mean-separation";
 export { chiSquareGoodnessOfFit, chiSquareIndependence, cochranMantelHaenszel } from "./chi-square";
 export { bartlett, bartlettFromVariances } from "./variance-tests";
 export {

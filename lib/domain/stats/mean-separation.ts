@@ -132,6 +132,18 @@ export function pairwiseLsd(
 }
 
 /**
+ * The letters of pairwiseLsd alone. A pair differs when its difference exceeds its own LSD, which needs no
+ * p-value, so the pairwise t tests' p-values (an incomplete beta function each, 780 pairs for 40 entries at
+ * every site) are not computed.
+ */
+export function lsdLetters(table: AnovaTable, alpha = 0.05): Record<string, string> {
+  requireAlpha(alpha);
+  const basis = comparisonBasis(table);
+  const t = studentTQuantile(1 - alpha / 2, basis.errorDf);
+  return lettersByIndex(basis.labels, basis.means, (i, j) => Math.abs(basis.means[i] - basis.means[j]) > t * Math.sqrt(basis.errorMs * basis.differenceVariance(i, j)));
+}
+
+/**
  * Fisher's protected LSD at level alpha, in the data's units: null when the entry F test is not
  * significant. With missing plots the pairs differ; `lsd` is then the mean over pairs (use
  * pairwiseLsd for each pair's own value). Uses the entry test's error MS and df.
@@ -206,46 +218,66 @@ export function compactLetters(
   means: number[],
   comparisons: { a: string; b: string; differ: boolean }[],
 ): Record<string, string> {
+  const labelIndex = new Map(labels.map((label, i) => [label, i]));
+  const differs = new Map<number, boolean>();
+  for (const c of comparisons) {
+    const a = labelIndex.get(c.a)!;
+    const b = labelIndex.get(c.b)!;
+    differs.set(Math.max(a, b) * labels.length + Math.min(a, b), c.differ);
+  }
+  return lettersByIndex(labels, means, (i, j) => differs.get(i * labels.length + j) ?? false);
+}
+
+/** compactLetters with whether entries i > j differ told by index, so no comparison list is built. */
+function lettersByIndex(labels: string[], means: number[], differAt: (i: number, j: number) => boolean): Record<string, string> {
   const k = labels.length;
   // rank entries by mean, highest first (stable for ties)
   const order = labels.map((_, i) => i).sort((x, y) => means[y] - means[x] || x - y);
   const position = new Array<number>(k);
   order.forEach((entryIndex, rank) => (position[entryIndex] = rank));
-  const labelIndex = new Map(labels.map((label, i) => [label, i]));
   const differ: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
-  for (const c of comparisons) {
-    const x = position[labelIndex.get(c.a)!];
-    const y = position[labelIndex.get(c.b)!];
-    differ[x][y] = c.differ;
-    differ[y][x] = c.differ;
-  }
-  let columns: boolean[][] = [new Array<boolean>(k).fill(true)];
+  forEachPair(k, (i, j) => {
+    const d = differAt(i, j);
+    differ[position[i]][position[j]] = d;
+    differ[position[j]][position[i]] = d;
+  });
+  // A column is a bit set over ranks (32 per word): the subset tests of the absorb step, which run for
+  // every pair of columns after every split, then cost a few word operations instead of a pass over k.
+  const words = Math.ceil(k / 32);
+  const has = (column: Uint32Array, x: number) => (column[x >>> 5]! & (1 << (x & 31))) !== 0;
+  const without = (column: Uint32Array, x: number) => {
+    const copy = column.slice();
+    copy[x >>> 5]! &= ~(1 << (x & 31));
+    return copy;
+  };
+  const all = new Uint32Array(words);
+  for (let x = 0; x < k; x++) all[x >>> 5]! |= 1 << (x & 31);
+  let columns: Uint32Array[] = [all];
   for (let i = 0; i < k - 1; i++) {
     for (let j = i + 1; j < k; j++) {
       if (!differ[i][j]) continue;
-      const split: boolean[][] = [];
+      // Only a column holding both entries splits; when none does, the columns (already absorbed) stay as they are.
+      if (!columns.some((column) => has(column, i) && has(column, j))) continue;
+      const split: Uint32Array[] = [];
       for (const column of columns) {
-        if (column[i] && column[j]) {
-          const withoutI = column.slice();
-          withoutI[i] = false;
-          const withoutJ = column.slice();
-          withoutJ[j] = false;
-          split.push(withoutI, withoutJ);
-        } else split.push(column);
+        if (has(column, i) && has(column, j)) split.push(without(column, i), without(column, j));
+        else split.push(column);
       }
       // absorb: drop a column contained in another (keeping the first of two equal columns)
       const keep = split.map(() => true);
       for (let p = 0; p < split.length; p++) {
         for (let r = 0; r < split.length; r++) {
           if (p === r || !keep[p] || !keep[r]) continue;
+          const a = split[p]!;
+          const b = split[r]!;
           let subset = true;
           let strict = false;
-          for (let x = 0; x < k; x++) {
-            if (split[p][x] && !split[r][x]) {
+          for (let w = 0; w < words; w++) {
+            if ((a[w]! & ~b[w]!) !== 0) {
               subset = false;
               break;
             }
-            if (!split[p][x] && split[r][x]) strict = true;
+            if ((b[w]! & ~a[w]!) !== 0) strict = true;
           }
           if (subset && (strict || p > r)) keep[p] = false;
         }
@@ -253,12 +285,16 @@ export function compactLetters(
       columns = split.filter((_, p) => keep[p]);
     }
   }
-  columns.sort((x, y) => x.indexOf(true) - y.indexOf(true));
+  const firstRank = (column: Uint32Array) => {
+    for (let x = 0; x < k; x++) if (has(column, x)) return x;
+    return -1;
+  };
+  columns.sort((x, y) => firstRank(x) - firstRank(y));
   const result: Record<string, string> = {};
   for (let rank = 0; rank < k; rank++) {
     let text = "";
     columns.forEach((column, c) => {
-      if (column[rank]) text += letterName(c);
+      if (has(column, rank)) text += letterName(c);
     });
     result[labels[order[rank]]] = text;
   }
