@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { idParam } from "@/lib/validation/common";
-import { readPhotoForViewer } from "@/server/photos/upload";
+import { deletePhotoForViewer, readPhotoForViewer } from "@/server/photos/upload";
 import { defineRoute } from "@/server/http/define-route";
 
 export const runtime = "nodejs";
@@ -11,5 +11,14 @@ export const GET = defineRoute(
   async ({ viewer, params }) => {
     const photo = await readPhotoForViewer(viewer, params.photoId);
     return new Response(new Uint8Array(photo.bytes), { headers: { "Content-Type": photo.contentType, "Cache-Control": "private, max-age=3600", "X-Content-Type-Options": "nosniff" } });
+  },
+);
+
+/** Removes a photo (its growers and the trial's staff): the row, then its stored object. */
+export const DELETE = defineRoute(
+  { roles: "signed-in", params: { schema: z.object({ photoId: idParam }), message: "That photo does not exist." } },
+  async ({ viewer, params }) => {
+    await deletePhotoForViewer(viewer, params.photoId);
+    return new Response(null, { status: 204 });
   },
 );
