@@ -40,6 +40,8 @@ const schema = z.object({
   // A name for this instance in logs and job leases (defaults to host name and process id).
   INSTANCE_NAME: z.string().max(60).default(""),
   // Seconds after start-up before this instance first looks for due reminders and cleanup (then every few minutes).
+  // How often each instance retries queued mail (each message is claimed in the database, so instances never send one twice).
+  MAIL_RETRY_SECONDS: z.coerce.number().min(1).max(3600).default(30),
   JOBS_FIRST_LOOK_SECONDS: z.coerce.number().min(0).max(3600).default(60),
   // The build folder (next.config.ts), read for the build id the health check reports.
   NEXT_DIST_DIR: z.string().default(".next"),

@@ -11,7 +11,6 @@ import { extendLease, releaseLease, takeLease } from "@/db/mutations/job-leases"
 // database (db/mutations/mail.ts, FOR UPDATE SKIP LOCKED), so any number of instances may deliver at once.
 // Reminders and cleanup run once per period across all instances: the instance that takes the job's lease
 // (db/mutations/job-leases.ts) runs it, the others skip until the period is over.
-const MAIL_RETRY_MS = 30_000;
 // Hourly is often enough for day-granular reminders; each site is reminded at most once a day.
 const PERIOD_SECONDS = 3600;
 // Each instance looks every few minutes, so the job runs soon after its period ends, whichever instance looks.
@@ -64,7 +63,7 @@ export function startBackgroundJobs(firstLookMs = 60_000) {
   state.started = true;
   const retryMail = setInterval(() => {
     deliverPendingMail().catch((e) => console.error("[jobs] mail retry failed:", e instanceof Error ? e.message : e));
-  }, MAIL_RETRY_MS);
+  }, env.MAIL_RETRY_SECONDS * 1000);
   const look = () => {
     for (const job of PERIODIC_JOBS) void runIfLeaseFree(job).catch((e) => console.error(`[jobs] ${job.name}: lease not reachable:`, e instanceof Error ? e.message : e));
   };
