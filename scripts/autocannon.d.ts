@@ -1,4 +1,4 @@
-// autocannon ships no types; only what scripts/bench-load.ts uses is declared.
+// autocannon ships no types; only what scripts/bench-load.ts and bench-scale.ts use is declared.
 declare module "autocannon" {
   interface Options {
     url: string;

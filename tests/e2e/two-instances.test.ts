@@ -112,8 +112,9 @@ async function brightwater() {
   return row!;
 }
 
-function photoForm(target: { trialId: number; siteId: number }) {
+function photoForm(target: { trialId: number; siteId: number }, caption?: string) {
   const form = new FormData();
+  if (caption) form.set("caption", caption);
   form.set("trialId", String(target.trialId));
   form.set("siteId", String(target.siteId));
   form.set("file", new Blob([new Uint8Array(photoBytes)], { type: "image/jpeg" }), "plot.jpg");
@@ -171,17 +172,23 @@ describe("two app instances on one database and one object store", () => {
   it("a photo uploaded on A is served by B, and deleting it on B removes it for A", async () => {
     const cookie = await signInOn(a, GROWER);
     const target = await brightwater();
-    const uploaded = await fetch(`${a.base}/api/photos`, { method: "POST", headers: { Cookie: cookie, Origin: a.base }, body: photoForm(target) });
+    const uploaded = await fetch(`${a.base}/api/photos`, { method: "POST", headers: { Cookie: cookie, Origin: a.base }, body: photoForm(target, "Shared across instances") });
     expect(uploaded.status).toBe(200);
     const { id } = (await uploaded.json()) as { id: number };
-    const onB = await fetch(`${b.base}/api/photos/${id}`, { headers: { Cookie: cookie } });
-    expect(onB.status).toBe(200);
-    expect(onB.headers.get("content-type")).toBe("image/jpeg");
+    const served = await fetch(`${b.base}/api/photos/${id}`, { headers: { Cookie: cookie } });
+    expect(served.status).toBe(200);
+    expect(served.headers.get("content-type")).toBe("image/jpeg");
     const [row] = await db.select({ key: s.photos.storageKey }).from(s.photos).where(eq(s.photos.id, id));
     expect(await storedObjects()).toContain(row!.key);
 
-    const removed = await fetch(`${b.base}/api/photos/${id}`, { method: "DELETE", headers: { Cookie: cookie, Origin: b.base } });
-    expect(removed.status).toBe(204);
+    const onB = await browser.newContext({ baseURL: b.base });
+    const page = await onB.newPage();
+    await signIn(page, GROWER.email, GROWER.password);
+    await page.goto(`/portal/record/${target.trialId}/${target.siteId}`);
+    await page.getByRole("button", { name: "Remove photo: Shared across instances" }).click();
+    await page.getByRole("dialog").getByRole("button", { name: "Remove photo" }).click();
+    await expect.poll(async () => (await db.select({ id: s.photos.id }).from(s.photos).where(eq(s.photos.id, id))).length, { timeout: 30_000 }).toBe(0);
+    await onB.close();
     expect((await fetch(`${a.base}/api/photos/${id}`, { headers: { Cookie: cookie } })).status).toBe(404);
     expect(await storedObjects()).not.toContain(row!.key);
   });

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { idParam } from "@/lib/validation/common";
-import { deletePhotoForViewer, readPhotoForViewer } from "@/server/photos/upload";
+import { readPhotoForViewer } from "@/server/photos/upload";
 import { defineRoute } from "@/server/http/define-route";
 
 export const runtime = "nodejs";
@@ -14,11 +14,3 @@ export const GET = defineRoute(
   },
 );
 
-/** Removes a photo (its growers and the trial's staff): the row, then its stored object. */
-export const DELETE = defineRoute(
-  { roles: "signed-in", params: { schema: z.object({ photoId: idParam }), message: "That photo does not exist." } },
-  async ({ viewer, params }) => {
-    await deletePhotoForViewer(viewer, params.photoId);
-    return new Response(null, { status: 204 });
-  },
-);
