@@ -11,6 +11,7 @@ import autocannon from "autocannon";
 import http from "node:http";
 import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
+import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { eq, isNull } from "drizzle-orm";
 import { createDatabase } from "../db/client";
@@ -36,20 +37,26 @@ if (!existsSync(path.join(root, DIST, "BUILD_ID"))) {
 }
 
 const proxyBase = `http://127.0.0.1:${PROXY_PORT}`;
+// Both instances must share the session secret (.env.local's when there is one), or a sign-in on one is unknown to the other.
+const sessionSecret = process.env.NEXTAUTH_SECRET ?? randomBytes(32).toString("base64url");
+const children: ChildProcess[] = [];
 
 /** Starts one `next start` of the build; resolves once it answers. */
 async function startInstance(port: number, name: string): Promise<ChildProcess> {
   const child = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
     cwd: root,
     detached: true,
-    stdio: ["ignore", "ignore", "inherit"],
-    env: { ...process.env, NODE_ENV: "production", NEXT_DIST_DIR: DIST, NEXT_TELEMETRY_DISABLED: "1", SEEDPLOT_DISABLE_JOBS: "1", INSTANCE_NAME: name, APP_URL: proxyBase, NEXTAUTH_URL: proxyBase },
+    stdio: ["ignore", "ignore", "pipe"],
+    env: { ...process.env, NODE_ENV: "production", NEXT_DIST_DIR: DIST, NEXT_TELEMETRY_DISABLED: "1", SEEDPLOT_DISABLE_JOBS: "1", INSTANCE_NAME: name, APP_URL: proxyBase, NEXTAUTH_URL: proxyBase, NEXTAUTH_SECRET: sessionSecret },
   });
-  const deadline = Date.now() + 90_000;
+  children.push(child);
+  let errors = "";
+  child.stderr!.on("data", (d) => (errors = (errors + d).slice(-2000)));
+  const deadline = Date.now() + 60_000;
   for (;;) {
-    if (child.exitCode !== null) throw new Error(`${name} exited while starting`);
+    if (child.exitCode !== null) throw new Error(`${name} exited while starting:\n${errors}`);
     if (await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok, () => false)) return child;
-    if (Date.now() > deadline) throw new Error(`${name} did not answer on port ${port}`);
+    if (Date.now() > deadline) throw new Error(`${name} did not answer on port ${port}:\n${errors}`);
     await new Promise((r) => setTimeout(r, 200));
   }
 }
@@ -73,7 +80,11 @@ function startProxy(backends: number[]) {
   return {
     setBackends: (ports: number[]) => backends.splice(0, backends.length, ...ports),
     listen: () => new Promise<void>((r) => server.listen(PROXY_PORT, "127.0.0.1", () => r())),
-    close: () => new Promise<void>((r) => (server.closeAllConnections(), server.close(() => r()), agent.destroy())),
+    close: () => {
+      server.closeAllConnections();
+      agent.destroy();
+      return new Promise<void>((r) => server.close(() => r()));
+    },
   };
 }
 
@@ -125,7 +136,6 @@ if (!live) {
   process.exit(1);
 }
 
-const children: ChildProcess[] = [];
 const proxy = startProxy([PORT_A]);
 const stopAll = () => {
   for (const c of children) {
@@ -140,7 +150,7 @@ process.on("exit", stopAll);
 let failed = false;
 try {
   console.log(`Starting two instances of ${DIST} on ports ${PORT_A} and ${PORT_B}, proxy on ${PROXY_PORT}`);
-  children.push(...(await Promise.all([startInstance(PORT_A, "bench-a"), startInstance(PORT_B, "bench-b")])));
+  await Promise.all([startInstance(PORT_A, "bench-a"), startInstance(PORT_B, "bench-b")]);
   await proxy.listen();
   const cookie = await signIn(COORDINATOR.email, COORDINATOR.password);
   const scenarios: { name: string; path: string; headers?: Record<string, string> }[] = [
