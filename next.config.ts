@@ -13,7 +13,7 @@ const nextConfig: NextConfig = {
   distDir: process.env.NEXT_DIST_DIR || ".next",
   poweredByHeader: false,
   reactStrictMode: true,
-  serverExternalPackages: ["mysql2", "exceljs", "smtp-server", "mailparser"],
+  serverExternalPackages: ["@aws-sdk/client-s3", "mysql2", "exceljs", "smtp-server", "mailparser"],
   experimental: {
     // Server actions read their body within this limit as it streams in (lib/domain/request-limits.ts).
     serverActions: { bodySizeLimit: BODY_LIMITS.pageForm.bytes },

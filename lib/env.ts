@@ -25,7 +25,26 @@ const schema = z.object({
   // mailbox page exist, showing each person the captured mail addressed to them. Unset means a real mail
   // server, so a forgotten setting never opens a mailbox.
   MAIL_MODE: z.enum(["capture", "relay"]).default("relay"),
+  // Where photos go: "disk" (one folder under STORAGE_DIR; a single machine) or "s3" (an S3-compatible
+  // object store shared by every instance, reached through S3_ENDPOINT/S3_BUCKET/S3_ACCESS_KEY_ID/
+  // S3_SECRET_ACCESS_KEY; S3_ENDPOINT may be left empty for AWS itself).
+  STORAGE_DRIVER: z.enum(["disk", "s3"]).default("disk"),
   STORAGE_DIR: z.string().default(".data/storage"),
+  S3_ENDPOINT: z.union([z.literal(""), z.string().url()]).default(""),
+  S3_REGION: z.string().min(1).default("us-east-1"),
+  S3_BUCKET: z.string().default(""),
+  S3_ACCESS_KEY_ID: z.string().default(""),
+  S3_SECRET_ACCESS_KEY: z.string().default(""),
+  // Path-style addresses (endpoint/bucket/key) for stores without per-bucket host names (MinIO, the local fake).
+  S3_FORCE_PATH_STYLE: z.enum(["0", "1"]).default("1").transform((v) => v === "1"),
+  // A name for this instance in logs and job leases (defaults to host name and process id).
+  INSTANCE_NAME: z.string().max(60).default(""),
+  // Seconds after start-up before this instance first looks for due reminders and cleanup (then every few minutes).
+  // How often each instance retries queued mail (each message is claimed in the database, so instances never send one twice).
+  MAIL_RETRY_SECONDS: z.coerce.number().min(1).max(3600).default(30),
+  JOBS_FIRST_LOOK_SECONDS: z.coerce.number().min(0).max(3600).default(60),
+  // The build folder (next.config.ts), read for the build id the health check reports.
+  NEXT_DIST_DIR: z.string().default(".next"),
   // Reverse proxies in front of Seedplot, as addresses or CIDR ranges separated by commas. Only a request
   // that arrives from one of them has its X-Forwarded-For read; by default nobody is trusted and the
   // address a request connects from is the client's (it keys the sign-in and reset limits).
@@ -49,6 +68,7 @@ function parseEnv(): Env {
     // A production server with the development secret would accept forged sessions.
     if (process.env.SEEDPLOT_ALLOW_DEV_SECRET !== "1") throw new Error("Set NEXTAUTH_SECRET for production.");
   }
+  if (parsed.data.STORAGE_DRIVER === "s3" && !parsed.data.S3_BUCKET) throw new Error("Seedplot settings are invalid: STORAGE_DRIVER=s3 needs S3_BUCKET.");
   return parsed.data;
 }
 

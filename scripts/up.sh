@@ -22,6 +22,10 @@ export PORT="${PORT:-3000}"
 export APP_URL="${APP_URL:-http://localhost:$PORT}" NEXTAUTH_URL="${NEXTAUTH_URL:-http://localhost:$PORT}"
 export SMTP_PORT="${SMTP_PORT:-2525}" MAILBOX_DIR="${MAILBOX_DIR:-$ROOT/.data/mailbox}" MAIL_MODE=capture
 export STORAGE_DIR="${STORAGE_DIR:-$ROOT/.data/storage}"
+# Photos go to a local fake S3 store (scripts/fake-s3.ts), the same path a deployment with several instances uses.
+export S3_PORT="${S3_PORT:-4569}"
+export STORAGE_DRIVER="${STORAGE_DRIVER:-s3}" S3_ENDPOINT="${S3_ENDPOINT:-http://127.0.0.1:$S3_PORT}" S3_BUCKET="${S3_BUCKET:-seedplot}"
+export S3_ACCESS_KEY_ID="${S3_ACCESS_KEY_ID:-S3RVER}" S3_SECRET_ACCESS_KEY="${S3_SECRET_ACCESS_KEY:-S3RVER}"
 
 ensure_node_modules
 bash scripts/db.sh start dev
@@ -30,6 +34,7 @@ cleanup() {
   log "Stopping"
   stop_pidfile "$ROOT/.data/next.pid"
   stop_pidfile "$ROOT/.data/fake-smtp.pid"
+  stop_pidfile "$ROOT/.data/fake-s3.pid"
   bash "$ROOT/scripts/db.sh" stop dev
 }
 trap cleanup EXIT INT TERM
@@ -37,6 +42,12 @@ trap cleanup EXIT INT TERM
 stop_pidfile .data/fake-smtp.pid
 require_free_port "$SMTP_PORT" SMTP_PORT
 start_background .data/fake-smtp.pid .data/fake-smtp.log node_modules/.bin/tsx scripts/fake-smtp.ts
+if [ "$STORAGE_DRIVER" = s3 ] && [ "$S3_ENDPOINT" = "http://127.0.0.1:$S3_PORT" ]; then
+  stop_pidfile .data/fake-s3.pid
+  require_free_port "$S3_PORT" S3_PORT
+  S3_DIR="$ROOT/.data/s3" start_background .data/fake-s3.pid .data/fake-s3.log node_modules/.bin/tsx scripts/fake-s3.ts
+  wait_for_http "$S3_ENDPOINT/" 30 || { tail -20 .data/fake-s3.log; die "The fake S3 store did not start"; }
+fi
 
 log "Applying migrations"
 npx tsx db/migrate.ts

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
 import { db, type Tx } from "../index";
-import { photos, plots } from "../schema";
+import { enrolments, photos, plots } from "../schema";
 import { getRecordableEnrolment } from "../queries/observations";
 import { insertAudit } from "../audit";
 import { AppError } from "@/lib/errors";
@@ -38,4 +38,22 @@ export async function insertPhoto(tx: Tx, viewer: Viewer, t: PhotoTarget & { sto
     .$returningId();
   await insertAudit(tx, { actorId: viewer.id, action: "photo.add", entity: "photo", entityId: row!.id, trialId: enrolment.trialId, newValue: { plotId: t.plotId ?? null, bytes: t.bytes, keptLocation: t.keepLocation, caption: t.caption ?? null } });
   return row!.id;
+}
+
+/**
+ * Removes a photo's row with an audit entry, when the viewer may attach photos at its site (its growers, the
+ * trial's staff); returns the storage key whose object the caller deletes after the commit, or null.
+ */
+export async function deletePhoto(tx: Tx, viewer: Viewer, photoId: number) {
+  const [photo] = await tx
+    .select({ id: photos.id, storageKey: photos.storageKey, plotId: photos.plotId, trialId: enrolments.trialId, siteId: enrolments.siteId })
+    .from(photos)
+    .innerJoin(enrolments, eq(enrolments.id, photos.enrolmentId))
+    .where(eq(photos.id, photoId));
+  if (!photo) return null;
+  const enrolment = await getRecordableEnrolment(tx, viewer, { trialId: photo.trialId, siteId: photo.siteId }, true);
+  if (!enrolment) return null;
+  await tx.delete(photos).where(eq(photos.id, photo.id));
+  await insertAudit(tx, { actorId: viewer.id, action: "photo.delete", entity: "photo", entityId: photo.id, trialId: photo.trialId, oldValue: { plotId: photo.plotId, storageKey: photo.storageKey } });
+  return photo.storageKey;
 }

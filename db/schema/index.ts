@@ -11,3 +11,4 @@ export * from "./reports";
 export * from "./audit";
 export * from "./mail";
 export * from "./photos";
+export * from "./jobs";

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { idParam } from "./common";
+import { id, idParam } from "./common";
 import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
 import { VALUE_AND_REASON_MESSAGE } from "@/lib/domain/observations/values";
 
@@ -44,3 +44,6 @@ export const photoFieldsSchema = siteParamsSchema.extend({
   takenOn: z.preprocess((v) => (v === "" || v === null ? undefined : v), z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Enter the date like 2026-11-30.").optional()),
   keepLocation: z.preprocess((v) => v === "on" || v === "true" || v === true, z.boolean()),
 });
+
+/** Removing a photo from a site's page: the photo, and the site page to show again. */
+export const removePhotoSchema = z.object({ photoId: id("That photo does not exist."), trialId: id(), siteId: id() });

@@ -4,7 +4,7 @@ import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { photoFieldsSchema } from "@/lib/validation/observations";
 import { fieldErrorsOf } from "@/lib/validation/field-errors";
-import { assertPhotoTarget, insertPhoto } from "@/db/mutations/photos";
+import { assertPhotoTarget, deletePhoto, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
 import { db } from "@/db/index";
@@ -27,7 +27,7 @@ export async function uploadPhotoForViewer(viewer: Viewer, fields: Record<string
   }
   const storageKey = `photos/${enrolment.trialId}/${enrolment.siteId}/${randomUUID()}.${EXT[prepared.contentType]}`;
   const storage = getStorage();
-  await storage.put(storageKey, prepared.bytes);
+  await storage.put(storageKey, prepared.bytes, prepared.contentType);
   try {
     const id = await db.transaction((tx) => insertPhoto(tx, viewer, { ...input, storageKey, contentType: prepared.contentType, bytes: prepared.bytes.length }));
     return { id, contentType: prepared.contentType, bytes: prepared.bytes.length };
@@ -45,4 +45,16 @@ export async function readPhotoForViewer(viewer: Viewer, photoId: number) {
   const bytes = await getStorage().get(photo.storageKey);
   if (!bytes) throw new AppError("not_found", "That photo's file is missing.");
   return { bytes, contentType: photo.contentType };
+}
+
+/**
+ * Route core for removing a photo: its row goes first (one transaction, with the audit entry), then its
+ * object, so a failure in between leaves at worst an unreferenced object, never a row pointing at nothing.
+ */
+export async function deletePhotoForViewer(viewer: Viewer, photoId: number) {
+  const storageKey = await db.transaction((tx) => deletePhoto(tx, viewer, photoId));
+  if (!storageKey) throw new AppError("not_found", "That photo does not exist, or it is not one of yours.");
+  await getStorage()
+    .delete(storageKey)
+    .catch((e) => console.error(`[photos] object ${storageKey} left behind:`, e instanceof Error ? e.message : e));
 }

@@ -98,6 +98,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "GET /api/public/v1/trials/[code]/results": [{ note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL/results", expect: everyone("missing") }],
   "GET /api/public/v1/trials/[code]/plots": [{ note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL/plots", expect: everyone("missing") }],
   "GET /api/public/v1/openapi.json": [{ note: "the API description", path: () => "/api/public/v1/openapi.json", expect: everyone("ok") }],
+  "GET /api/health": [{ note: "the load balancer's check", path: () => "/api/health", expect: everyone("ok") }],
 
   // Sign-in and account pages.
   "PAGE /sign-in": [{ note: "signed-in people go home", path: () => "/sign-in", expect: signedIn({ redirect: "/portal" }, "ok") }],
@@ -227,6 +228,7 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "exclusions.ts#excludeFromAnalysis": ["coordinator", "admin"],
   "exclusions.ts#includeInAnalysis": ["coordinator", "admin"],
   "exclusions.ts#shareSiteResults": ["coordinator", "admin"],
+  "photos.ts#removePhoto": ["cooperator", "coordinator", "admin"],
   "publish.ts#publishTrial": ["coordinator", "admin"],
   "publish.ts#unpublishTrial": ["coordinator", "admin"],
   "review.ts#submitForReview": ["cooperator", "coordinator", "admin"],

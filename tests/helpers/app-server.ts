@@ -10,6 +10,10 @@ const root = path.resolve(import.meta.dirname, "../..");
 export interface AppServer {
   base: string;
   stop: () => Promise<void>;
+  /** What the server has printed so far. */
+  output: () => string;
+  /** Ends the server at once (SIGKILL), as a crash would. */
+  kill: () => Promise<void>;
 }
 
 export async function startAppServer(settings: Record<string, string | undefined>): Promise<AppServer> {
@@ -53,6 +57,12 @@ export async function startAppServer(settings: Record<string, string | undefined
   }
   return {
     base,
+    output: () => log,
+    async kill() {
+      if (exited) return;
+      process.kill(-child.pid!, "SIGKILL");
+      while (!exited) await new Promise((r) => setTimeout(r, 20));
+    },
     async stop() {
       if (exited) return;
       try {

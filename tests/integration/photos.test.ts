@@ -1,11 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { eq } from "drizzle-orm";
+import * as schema from "@/db/schema";
 import sharp from "sharp";
 import { testDatabase } from "../helpers/db";
 import { demoSite, demoViewer, writeCounts } from "../helpers/demo";
 import type { Viewer } from "@/lib/domain/viewer";
-import { readPhotoForViewer, uploadPhotoForViewer } from "@/server/photos/upload";
+import { deletePhotoForViewer, readPhotoForViewer, uploadPhotoForViewer } from "@/server/photos/upload";
 import { listSitePhotos } from "@/db/queries/photos";
-import { localDiskStorage } from "@/server/storage";
+import { getStorage, localDiskStorage, s3Storage } from "@/server/storage";
+import { env } from "@/lib/env";
 import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
@@ -71,10 +74,43 @@ describe("plot photos", () => {
 
   it("local storage refuses keys that would leave its folder", async () => {
     const store = localDiskStorage(mkdtempSync(path.join(tmpdir(), "seedplot-store-")));
-    await store.put("photos/a.jpg", new Uint8Array([1, 2]));
+    await store.put("photos/a.jpg", new Uint8Array([1, 2]), "image/jpeg");
     expect([...(await store.get("photos/a.jpg"))!]).toEqual([1, 2]);
-    await expect(store.put("../escape.jpg", new Uint8Array([1]))).rejects.toThrow(/invalid storage key/);
-    await expect(store.put("photos/../../escape.jpg", new Uint8Array([1]))).rejects.toThrow(/invalid storage key/);
+    await expect(store.put("../escape.jpg", new Uint8Array([1]), "image/jpeg")).rejects.toThrow(/invalid storage key/);
+    await expect(store.put("photos/../../escape.jpg", new Uint8Array([1]), "image/jpeg")).rejects.toThrow(/invalid storage key/);
     expect(await store.get("photos/missing.jpg")).toBeNull();
+  });
+
+  it("are kept in the shared object store when the S3 store is set, where any instance reads them", async () => {
+    expect(env.STORAGE_DRIVER).toBe("s3");
+    const photo = await uploadPhotoForViewer(luis, fields(), withGps);
+    const [row] = await db.select({ key: schema.photos.storageKey }).from(schema.photos).where(eq(schema.photos.id, photo.id));
+    // A second client of the same bucket, as another app instance would have.
+    const other = s3Storage({ endpoint: env.S3_ENDPOINT, region: env.S3_REGION, bucket: env.S3_BUCKET, accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY, forcePathStyle: true });
+    expect(Buffer.compare((await other.get(row!.key))!, (await readPhotoForViewer(luis, photo.id)).bytes)).toBe(0);
+    expect(await other.get("photos/missing.jpg")).toBeNull();
+  });
+
+  it("a failed put leaves no row pointing at nothing", async () => {
+    const before = await writeCounts(db, brightwater.enrolmentId);
+    const photosBefore = (await listSitePhotos(luis, brightwater)).length;
+    const put = vi.spyOn(getStorage(), "put").mockRejectedValueOnce(new Error("store unreachable"));
+    await expect(uploadPhotoForViewer(luis, fields(), withGps)).rejects.toThrow(/store unreachable/);
+    put.mockRestore();
+    expect((await listSitePhotos(luis, brightwater)).length).toBe(photosBefore);
+    expect(await writeCounts(db, brightwater.enrolmentId)).toEqual(before);
+  });
+
+  it("deleting a photo deletes its object, and only the site's growers and the trial's staff may", async () => {
+    const photo = await uploadPhotoForViewer(luis, fields(), withGps);
+    const [row] = await db.select({ key: schema.photos.storageKey }).from(schema.photos).where(eq(schema.photos.id, photo.id));
+    await expect(deletePhotoForViewer(tomas, photo.id)).rejects.toMatchObject({ code: "not_found" });
+    expect(await getStorage().get(row!.key)).not.toBeNull();
+    await deletePhotoForViewer(luis, photo.id);
+    expect(await db.select().from(schema.photos).where(eq(schema.photos.id, photo.id))).toEqual([]);
+    expect(await getStorage().get(row!.key)).toBeNull();
+    const [audit] = await db.select({ action: schema.auditLog.action }).from(schema.auditLog).where(eq(schema.auditLog.entityId, String(photo.id)));
+    expect(audit).toBeDefined();
+    await expect(deletePhotoForViewer(luis, photo.id)).rejects.toMatchObject({ code: "not_found" });
   });
 });

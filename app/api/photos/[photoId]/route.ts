@@ -13,3 +13,4 @@ export const GET = defineRoute(
     return new Response(new Uint8Array(photo.bytes), { headers: { "Content-Type": photo.contentType, "Cache-Control": "private, max-age=3600", "X-Content-Type-Options": "nosniff" } });
   },
 );
+

@@ -11,6 +11,7 @@ import { buttonClasses } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { SubmitForReviewForm } from "@/components/review/review-forms";
 import { PhotoForm } from "@/components/record/photo-form";
+import { RemovePhoto } from "@/components/record/remove-photo";
 import { listSitePhotos } from "@/db/queries/photos";
 
 export const dynamic = "force-dynamic";
@@ -121,6 +122,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
                     <img src={`/api/photos/${ph.id}`} alt={ph.caption ?? `Photo of ${ph.plotCode ?? "the site"}`} className="h-24 w-32 rounded-lg object-cover" loading="lazy" />
                   </a>
                   {ph.plotCode ?? "Site"} {ph.caption ? `· ${ph.caption}` : ""}
+                  <RemovePhoto photoId={ph.id} trialId={sheet.enrolment.trialId} siteId={sheet.enrolment.siteId} name={ph.caption ?? `${ph.plotCode ?? "site"} photo`} />
                 </li>
               ))}
             </ul>
