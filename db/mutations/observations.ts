@@ -1,7 +1,7 @@
 import "server-only";
 import { eq } from "drizzle-orm";
 import type { Tx } from "../index";
-import { auditLog, observationHistory, observations, submissions } from "../schema";
+import { auditLog, clientSaves, observationHistory, observations, submissions } from "../schema";
 import type { CellValue } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 
@@ -52,4 +52,9 @@ export async function insertObservationAudits(tx: Tx, rows: AuditEntry[]) {
 export async function insertDraftSubmission(tx: Tx, enrolmentId: number) {
   const [sub] = await tx.select({ id: submissions.id }).from(submissions).where(eq(submissions.enrolmentId, enrolmentId));
   if (!sub) await tx.insert(submissions).values({ enrolmentId, status: "draft" });
+}
+
+/** Keeps the answer to a save sent with the phone's own id; a second row for the same user and id fails on the unique key. */
+export async function insertClientSave(tx: Tx, row: typeof clientSaves.$inferInsert) {
+  await tx.insert(clientSaves).values(row);
 }
