@@ -26,6 +26,8 @@ const schema = z.object({
   // server, so a forgotten setting never opens a mailbox.
   MAIL_MODE: z.enum(["capture", "relay"]).default("relay"),
   STORAGE_DIR: z.string().default(".data/storage"),
+  // The build folder next.config.ts builds into (test runs use their own); the service worker is read from it.
+  NEXT_DIST_DIR: z.string().default(".next"),
   // Reverse proxies in front of Seedplot, as addresses or CIDR ranges separated by commas. Only a request
   // that arrives from one of them has its X-Forwarded-For read; by default nobody is trusted and the
   // address a request connects from is the client's (it keys the sign-in and reset limits).
