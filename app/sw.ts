@@ -14,6 +14,16 @@ const onlyTheRealPage: SerwistPlugin = {
   cacheWillUpdate: async ({ response }) => (response.status === 200 && !response.redirected && !response.headers.has("x-nextjs-redirect") ? response : null),
 };
 
+// A label scan opens one plot (`?plot=`); without a signal the site's whole kept page stands in for it.
+const wholeSiteWithoutSignal: SerwistPlugin = {
+  handlerDidError: async ({ request }) => {
+    const url = new URL(request.url);
+    if (!url.search) return undefined;
+    const cache = await caches.open(PAGE_CACHE);
+    return cache.match(url.origin + url.pathname);
+  },
+};
+
 const isPlainGet = (request: Request, url: URL) =>
   request.method === "GET" && url.origin === sw.location.origin && !url.searchParams.has("_rsc") && !request.headers.has("RSC");
 
@@ -24,9 +34,9 @@ const serwist = new Serwist({
   navigationPreload: false,
   runtimeCaching: [
     // Recording pages: the network first, so the page always shows what is saved when there is a signal;
-    // the kept copy only when there is none.
-    { matcher: ({ request, url }) => isPlainGet(request, url) && isOfflinePage(url.pathname), handler: new NetworkFirst({ cacheName: PAGE_CACHE, networkTimeoutSeconds: 8, plugins: [onlyTheRealPage] }) },
-    { matcher: ({ request, url }) => isPlainGet(request, url) && isOfflineSheet(url.pathname), handler: new NetworkFirst({ cacheName: SHEET_CACHE, networkTimeoutSeconds: 8, plugins: [onlyTheRealPage] }) },
+    // the kept copy only when there is none, or when a weak signal has not answered in 20 s.
+    { matcher: ({ request, url }) => isPlainGet(request, url) && isOfflinePage(url.pathname), handler: new NetworkFirst({ cacheName: PAGE_CACHE, networkTimeoutSeconds: 20, plugins: [onlyTheRealPage, wholeSiteWithoutSignal] }) },
+    { matcher: ({ request, url }) => isPlainGet(request, url) && isOfflineSheet(url.pathname), handler: new NetworkFirst({ cacheName: SHEET_CACHE, networkTimeoutSeconds: 20, plugins: [onlyTheRealPage] }) },
     // The same for everyone: fonts and icons.
     {
       matcher: ({ request, url }) => isPlainGet(request, url) && (url.pathname.startsWith("/fonts/") || url.pathname.startsWith("/icons/")),

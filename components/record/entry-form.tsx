@@ -11,7 +11,7 @@ import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
 import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
-import { OFFLINE_WORDS, waitingOnPhone } from "@/lib/domain/vocabulary/offline-words";
+import { noSignalWaiting, OFFLINE_WORDS, waitingOnPhone } from "@/lib/domain/vocabulary/offline-words";
 
 export interface EntryPlot {
   id: number;
@@ -235,15 +235,14 @@ export function EntryForm(props: {
           )}
         </div>
         <div aria-live="polite" role="status" className="space-y-2 text-sm">
-          {!online && <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 font-semibold text-sky-800">{OFFLINE_WORDS.noSignal}</p>}
-          {queued - conflictCount > 0 ? (
+          {!online ? (
+            <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 font-semibold text-sky-800">{queued - conflictCount > 0 ? noSignalWaiting(queued - conflictCount) : OFFLINE_WORDS.noSignal}</p>
+          ) : queued - conflictCount > 0 ? (
             <div className="flex flex-wrap items-center gap-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
               <span className="font-semibold">{waitingOnPhone(queued - conflictCount)}</span>
-              {online && (
-                <Button type="button" variant="secondary" onClick={() => void retryAll()}>
-                  {OFFLINE_WORDS.retryNow}
-                </Button>
-              )}
+              <Button type="button" variant="secondary" onClick={() => void retryAll()}>
+                {OFFLINE_WORDS.retryNow}
+              </Button>
             </div>
           ) : (
             conflictCount === 0 && <span className="text-loam-700">{OFFLINE_WORDS.allSaved}</span>

@@ -45,10 +45,8 @@ const stateOf = (page: Page, plotId: number) => page.locator(`#v-${plotId}-quali
 
 /** Waits until the service worker controls the page and keeps this site's recording page. */
 async function waitUntilKeptForOffline(page: Page) {
-  await page.waitForFunction(async () => {
-    if (!navigator.serviceWorker.controller) return false;
-    return Boolean(await caches.match(location.pathname));
-  }, null, { timeout: 60_000, polling: 250 });
+  const kept = () => page.evaluate(async () => Boolean(navigator.serviceWorker.controller) && Boolean(await caches.match(location.pathname)));
+  await expect.poll(kept, { timeout: 60_000 }).toBe(true);
 }
 
 beforeAll(async () => {
@@ -100,6 +98,10 @@ describe("a grower records on a phone without a signal", () => {
     await page.reload();
     await page.getByRole("heading", { name: /Brightwater Flower Farm: Baby-leaf kale/ }).waitFor();
     await page.getByText("No signal. Values you type are kept on this phone and sent when the signal is back.").waitFor();
+    // A plot label scanned without a signal opens the site's kept page.
+    await page.goto(`${siteAddress()}?plot=${typed[0]!.id}`);
+    await page.getByRole("heading", { name: /Brightwater Flower Farm: Baby-leaf kale/ }).waitFor();
+    await page.goto(siteAddress());
     await chooseQuality(page);
     // The kept page is as it was: the coordinator's 8 is not on it yet.
     expect(await qualityInput(page, contested.id).inputValue()).toBe("");
@@ -110,7 +112,7 @@ describe("a grower records on a phone without a signal", () => {
     }
     await qualityInput(page, contested.id).fill("4");
     await qualityInput(page, contested.id).press("Enter");
-    await page.getByText("4 values are waiting on this phone. They are sent by themselves when there is a signal.").waitFor();
+    await page.getByText("No signal. 4 values are waiting on this phone and go by themselves when the signal is back.").waitFor();
     await expect.poll(() => stateOf(page, typed[0]!.id).textContent()).toBe("Waiting on this phone · Nothing saved on Seedplot yet");
     await page.screenshot({ path: path.join(os.tmpdir(), "seedplot-offline-waiting.png"), fullPage: false });
 
@@ -118,7 +120,7 @@ describe("a grower records on a phone without a signal", () => {
     await page.reload();
     await chooseQuality(page);
     await expect.poll(() => qualityInput(page, typed[2]!.id).inputValue()).toBe("7");
-    await page.getByText("4 values are waiting on this phone.", { exact: false }).waitFor();
+    await page.getByText("No signal. 4 values are waiting on this phone", { exact: false }).waitFor();
 
     // The browser is killed while still offline; nothing reached the server.
     await phone.close();
@@ -129,7 +131,7 @@ describe("a grower records on a phone without a signal", () => {
     page = phone.pages()[0] ?? (await phone.newPage());
     await page.goto(siteAddress());
     await chooseQuality(page);
-    const choice = page.getByRole("group", { name: new RegExp(`^${contested.plotCode}, .*: Changed by someone else`) });
+    const choice = page.getByRole("group", { name: new RegExp(`^${contested.plotCode}, .*: Someone else changed this value$`) });
     await choice.getByText("Seedplot now has 8. You typed 4. Which is right?").waitFor({ timeout: 30_000 });
     for (const plot of typed) await expect.poll(() => stateOf(page, plot.id).textContent(), { timeout: 30_000 }).toBe("Saved");
     await page.screenshot({ path: path.join(os.tmpdir(), "seedplot-offline-conflict.png"), fullPage: false });
@@ -151,12 +153,13 @@ describe("a grower records on a phone without a signal", () => {
     await phone.setOffline(true);
     await qualityInput(page, site.plots[4]!.id).fill("3");
     await qualityInput(page, site.plots[4]!.id).press("Enter");
-    await page.getByText("1 value is waiting on this phone.", { exact: false }).waitFor();
+    await page.getByText("No signal. 1 value is waiting on this phone", { exact: false }).waitFor();
     // Back online, but the save route stays out of reach, so the value is still waiting at sign-out.
     await phone.route("**/api/observations", (route) => route.abort());
     await phone.setOffline(false);
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByText("1 value typed on this phone has not reached Seedplot yet. Signing out deletes it from this phone.").waitFor();
+    await page.screenshot({ path: path.join(os.tmpdir(), "seedplot-offline-sign-out.png"), fullPage: false });
     await page.getByRole("button", { name: "Sign out and delete them" }).click();
     await page.waitForURL((url) => url.pathname === "/");
     const left = await page.evaluate(

@@ -46,7 +46,7 @@ afterAll(async () => {
 });
 
 describe("saves the phone sends again are written once", () => {
-  it("a save sent twice with the same id is written once and the repeat answers what the first did", async () => {
+  it("a save sent twice with the same id is written once and the repeat answers what the first did; ids are per user", async () => {
     const plot = site.plots[0]!;
     const clientSaveId = crypto.randomUUID();
     const body = { clientSaveId, values: [{ plotId: plot.id, key: TRAIT, value: "3" }] };
@@ -59,6 +59,11 @@ describe("saves the phone sends again are written once", () => {
     expect((await storedNote(plot.id))!.valueNumber).toBe(4);
     expect(await historyCount(plot.id)).toBe(1);
     expect(await db.select().from(s.clientSaves).where(and(eq(s.clientSaves.userId, luis.id), eq(s.clientSaves.clientSaveId, clientSaveId)))).toHaveLength(1);
+
+    // Another user's save with the same id is their own: it neither replays Luis's answer nor is blocked.
+    const meiSave = await saveObservationsForViewer(mei, { trialId: cedar.trialId, siteId: cedar.siteId, clientSaveId, values: [{ plotId: cedar.plots[0]!.id, key: TRAIT, value: "6" }, { plotId: cedar.plots[1]!.id, key: TRAIT, value: "6" }] });
+    expect(meiSave).toMatchObject({ saved: 2, counts: { new: 2 } });
+    await db.delete(s.observations).where(and(inArray(s.observations.plotId, [cedar.plots[0]!.id, cedar.plots[1]!.id]), eq(s.observations.traitId, cedar.traitId[TRAIT]!)));
   });
 
   it("two sends of the same save at once write it once", async () => {
@@ -70,26 +75,17 @@ describe("saves the phone sends again are written once", () => {
     expect(await historyCount(plot.id)).toBe(0);
   });
 
-  it("another user's save id is their own: it neither replays their answer nor blocks a save", async () => {
-    const clientSaveId = crypto.randomUUID();
-    await saveObservationsForViewer(mei, { trialId: cedar.trialId, siteId: cedar.siteId, clientSaveId, values: [{ plotId: cedar.plots[0]!.id, key: TRAIT, value: "6" }] });
-    const plot = site.plots[2]!;
-    const luisSave = await saveAs(luis, { clientSaveId, values: [{ plotId: plot.id, key: TRAIT, value: "7" }] });
-    expect(luisSave).toMatchObject({ saved: 1, counts: { new: 1 } });
-    expect((await storedNote(plot.id))!.valueNumber).toBe(7);
-    await db.delete(s.observations).where(and(eq(s.observations.plotId, cedar.plots[0]!.id), eq(s.observations.traitId, cedar.traitId[TRAIT]!)));
-  });
-
   it("a save id already used for another site is refused, not answered with that site's result", async () => {
     const clientSaveId = crypto.randomUUID();
     await saveAs(rosa, { clientSaveId, values: [{ plotId: site.plots[3]!.id, key: TRAIT, value: "2" }] });
-    const e = await refusal(saveObservationsForViewer(rosa, { trialId: cedar.trialId, siteId: cedar.siteId, clientSaveId, values: [{ plotId: cedar.plots[1]!.id, key: TRAIT, value: "x" }] }));
+    const e = await refusal(saveObservationsForViewer(rosa, { trialId: cedar.trialId, siteId: cedar.siteId, clientSaveId, values: [{ plotId: cedar.plots[1]!.id, key: TRAIT, value: "5" }] }));
+    expect(e.message).toBe("This save was already sent for another site.");
     expect(e.status).toBe(400);
   });
 
   it("a save id that is not a UUID is refused", async () => {
-    const e = await refusal(saveAs(luis, { clientSaveId: "1' OR 1=1", values: [{ plotId: site.plots[0]!.id, key: TRAIT, value: "x" }] }));
-    expect(e.status).toBe(400);
+    const e = await refusal(saveAs(luis, { clientSaveId: "1' OR 1=1", values: [{ plotId: site.plots[7]!.id, key: TRAIT, value: "5" }] }));
+    expect(e.message).toBe("That save id is not valid.");
   });
 });
 

@@ -13,7 +13,7 @@ export const OFFLINE_WORDS = {
   savedOnSeedplot: (shown: string) => `Saved on Seedplot: ${shown}`,
   nothingSavedYet: "Nothing saved on Seedplot yet",
   signedOut: "You have been signed out. Your values are kept on this phone; sign in again in another tab, then press Send now.",
-  conflictTitle: "Changed by someone else while you were away",
+  conflictTitle: "Someone else changed this value",
   conflictBoth: (theirs: string, yours: string) => `Seedplot now has ${theirs}. You typed ${yours}. Which is right?`,
   keepTheirs: (theirs: string) => `Keep ${theirs}`,
   useMine: (yours: string) => `Use mine (${yours})`,
@@ -29,4 +29,9 @@ export const OFFLINE_WORDS = {
 /** The waiting line over the form: how many values are on the phone only. */
 export function waitingOnPhone(n: number): string {
   return `${n === 1 ? "1 value is" : `${n} values are`} waiting on this phone. ${n === 1 ? "It is" : "They are"} sent by themselves when there is a signal.`;
+}
+
+/** The one line over the form without a signal, with what waits on the phone. */
+export function noSignalWaiting(n: number): string {
+  return `No signal. ${n === 1 ? "1 value is" : `${n} values are`} waiting on this phone and ${n === 1 ? "goes" : "go"} by ${n === 1 ? "itself" : "themselves"} when the signal is back.`;
 }
