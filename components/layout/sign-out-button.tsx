@@ -31,7 +31,7 @@ export function SignOutButton({ userId }: { userId: number }) {
               {OFFLINE_WORDS.stayHere}
             </Button>
             <Button type="button" variant="secondary" onClick={() => void leave()}>
-              {OFFLINE_WORDS.signOutAnyway}
+              {OFFLINE_WORDS.signOutAnyway(waiting)}
             </Button>
           </div>
         </Dialog>

@@ -176,6 +176,31 @@ export function readStoredQueue(stored: unknown): Queue {
   return out;
 }
 
+/**
+ * Values an earlier version of the form left in localStorage (text keyed by slot, no ids), as queue items that
+ * go after anything already waiting; what the server held is taken from the page. Anything unreadable is dropped.
+ */
+export function fromEarlierQueue(text: string | null, known: (slot: string) => KnownSaved, firstSeq: number, newId: () => string): Queue {
+  let parsed: unknown;
+  try {
+    parsed = text ? JSON.parse(text) : null;
+  } catch {
+    return {};
+  }
+  if (!parsed || typeof parsed !== "object" || Array.isArray(parsed)) return {};
+  const out: Queue = {};
+  let seq = firstSeq;
+  for (const x of Object.values(parsed)) {
+    if (typeof x !== "object" || x === null) continue;
+    const p = x as Record<string, unknown>;
+    if (!Number.isInteger(p.plotId) || typeof p.key !== "string" || typeof p.value !== "string") continue;
+    const reason = isMissingReason(p.reason) ? p.reason : null;
+    const slot = slotOf(p.plotId as number, p.key);
+    out[slot] = { plotId: p.plotId as number, key: p.key, value: p.value, reason, clientSaveId: newId(), seq: seq++, knownSaved: known(slot) };
+  }
+  return out;
+}
+
 /** Field values after restoring a stored queue: each queued slot shows the value that was waiting. */
 export function restoredInputs(inputs: Record<string, string>, stored: Queue): Record<string, string> {
   return { ...inputs, ...Object.fromEntries(Object.entries(stored).map(([slot, item]) => [slot, item.value])) };

@@ -8,6 +8,7 @@ import { readPhoneQueue, writePhoneQueue } from "@/components/offline/phone-stor
 import {
   afterConflict,
   afterSaved,
+  fromEarlierQueue,
   inSendingOrder,
   knownFromToken,
   readStoredQueue,
@@ -151,6 +152,17 @@ export function useSaveQueue(p: { userId: number; trialId: number; siteId: numbe
         stored = readStoredQueue(await readPhoneQueue(storageKey));
       } catch {
         stored = {};
+      }
+      if (cancelled) return;
+      // Values an earlier version of this form kept in localStorage move to the phone's store.
+      const earlierKey = `seedplot:unsaved:${trialId}:${siteId}`;
+      try {
+        const earlier = fromEarlierQueue(localStorage.getItem(earlierKey), (slot) => knownFromToken(saved.current[slot]), Date.now(), () => crypto.randomUUID());
+        stored = { ...earlier, ...stored };
+        if (Object.keys(earlier).length > 0) await writePhoneQueue(storageKey, stored);
+        localStorage.removeItem(earlierKey);
+      } catch {
+        // Storage refused: nothing to move.
       }
       if (cancelled) return;
       // Anything typed before the phone's copy was read goes after what was already waiting.

@@ -160,7 +160,7 @@ describe("a grower records on a phone without a signal", () => {
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.getByText("1 value typed on this phone has not reached Seedplot yet. Signing out deletes it from this phone.").waitFor();
     await page.screenshot({ path: path.join(os.tmpdir(), "seedplot-offline-sign-out.png"), fullPage: false });
-    await page.getByRole("button", { name: "Sign out and delete them" }).click();
+    await page.getByRole("button", { name: "Sign out and delete it" }).click();
     await page.waitForURL((url) => url.pathname === "/");
     const left = await page.evaluate(
       async ({ dbName, storeName, cacheNames }) => {

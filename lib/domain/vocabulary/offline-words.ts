@@ -22,7 +22,7 @@ export const OFFLINE_WORDS = {
   signOutTitle: "Values not sent yet",
   signOutWarning: (n: number) =>
     `${n === 1 ? "1 value typed on this phone has" : `${n} values typed on this phone have`} not reached Seedplot yet. Signing out deletes ${n === 1 ? "it" : "them"} from this phone.`,
-  signOutAnyway: "Sign out and delete them",
+  signOutAnyway: (n: number) => (n === 1 ? "Sign out and delete it" : "Sign out and delete them"),
   stayHere: "Stay signed in",
 } as const;
 

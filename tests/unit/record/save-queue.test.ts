@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   afterConflict,
   afterSaved,
+  fromEarlierQueue,
   inSendingOrder,
   knownFromToken,
   readStoredQueue,
@@ -95,6 +96,17 @@ describe("the phone form's offline queue", () => {
     expect(readStoredQueue(structuredClone(q))).toEqual(q);
     for (const stored of [null, undefined, "", "{not json", 42, [1, 2]]) expect(readStoredQueue(stored)).toEqual({});
     expect(readStoredQueue({ a: { plotId: 1, key: "quality", value: "5" }, [slot]: count("6") })).toEqual({ [slot]: expect.objectContaining({ value: "6" }) });
+  });
+
+  it("values an earlier version of the form left in localStorage are not lost: they join the queue with ids and what the page says is saved", () => {
+    const text = JSON.stringify({ [slot]: { plotId: 7, key: "emergence_count@5", value: "4", reason: null }, "9:quality": { plotId: 9, key: "quality", value: "", reason: "weather" }, bad: { plotId: "x" } });
+    const ids = ["a", "b"];
+    const q = fromEarlierQueue(text, (s) => (s === slot ? { value: "3", missingReason: null } : nothing), 100, () => ids.shift()!);
+    expect(q).toEqual({
+      [slot]: { plotId: 7, key: "emergence_count@5", value: "4", reason: null, clientSaveId: "a", seq: 100, knownSaved: { value: "3", missingReason: null } },
+      "9:quality": { plotId: 9, key: "quality", value: "", reason: "weather", clientSaveId: "b", seq: 101, knownSaved: nothing },
+    });
+    for (const t of [null, "", "{not json", "[1]", "42"]) expect(fromEarlierQueue(t, () => nothing, 1, () => "x")).toEqual({});
   });
 
   it("shows restored values in their fields, and a restored value clears a reason shown for its field", () => {
