@@ -63,14 +63,14 @@ export function withoutSlot(queue: Queue, slot: string): Queue {
 }
 
 /**
- * The queue after `item` was saved: its slot leaves, unless a newer value was typed while it was on its
+ * The queue after `item` was saved: its slot leaves, unless a different value was typed while it was on its
  * way; that newer one now knows the server holds this phone's own value, so it is no conflict.
  */
 export function afterSaved(queue: Queue, item: Pending): Queue {
   const slot = slotOf(item.plotId, item.key);
   const queued = queue[slot];
   if (!queued) return queue;
-  if (queued.clientSaveId === item.clientSaveId) return withoutSlot(queue, slot);
+  if (queued.clientSaveId === item.clientSaveId || (!queued.conflict && tokenOf(queued.value, queued.reason) === tokenOf(item.value, item.reason))) return withoutSlot(queue, slot);
   return { ...queue, [slot]: { ...queued, knownSaved: { value: item.reason ? null : item.value || null, missingReason: item.reason ?? null } } };
 }
 

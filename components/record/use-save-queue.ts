@@ -193,6 +193,12 @@ export function useSaveQueue(p: { userId: number; trialId: number; siteId: numbe
   const enqueue = useCallback(
     (typed: Typed) => {
       const slot = slotOf(typed.plotId, typed.key);
+      // Leaving a field after Enter commits the same value again: the one already waiting stands.
+      const waiting = queueRef.current[slot];
+      if (waiting && !waiting.conflict && tokenOf(waiting.value, waiting.reason) === tokenOf(typed.value, typed.reason)) {
+        void sendWaiting();
+        return;
+      }
       const item: Pending = { ...typed, clientSaveId: crypto.randomUUID(), seq: (seq.current = Math.max(seq.current + 1, Date.now())), knownSaved: knownFromToken(saved.current[slot]) };
       updateQueue((q) => withQueued(q, item));
       setStatus((s) => ({ ...s, [slot]: "queued" }));

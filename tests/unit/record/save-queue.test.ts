@@ -36,6 +36,8 @@ describe("the phone form's offline queue", () => {
     const q = withQueued({}, newer);
     expect(afterSaved(q, older)[slot]).toEqual({ ...newer, knownSaved: { value: "4", missingReason: null } });
     expect(afterSaved(q, newer)).toEqual({});
+    // The same value committed twice (Enter, then leaving the field) is one save.
+    expect(afterSaved(withQueued({}, count("4")), older)).toEqual({});
   });
 
   it("values go out in the order they were typed, and one waiting for the grower's choice stays back", () => {
