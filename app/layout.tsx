@@ -20,6 +20,7 @@ export const metadata: Metadata = {
   title: { default: "Seedplot · On-farm variety trials", template: "%s · Seedplot" },
   description:
     "Seedplot runs the Tamarack Valley Extension District's on-farm vegetable and flower variety trials with partner farms and gardens, and publishes the results for growers.",
+  icons: { icon: "/icons/icon-192.png", apple: "/icons/apple-touch-icon.png" },
 };
 
 export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#1b5c2e" };

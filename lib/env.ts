@@ -43,7 +43,8 @@ const schema = z.object({
   // How often each instance retries queued mail (each message is claimed in the database, so instances never send one twice).
   MAIL_RETRY_SECONDS: z.coerce.number().min(1).max(3600).default(30),
   JOBS_FIRST_LOOK_SECONDS: z.coerce.number().min(0).max(3600).default(60),
-  // The build folder (next.config.ts), read for the build id the health check reports.
+  // The build folder next.config.ts builds into (test runs use their own): the health check reads the build id
+  // from it and the service worker is served from it.
   NEXT_DIST_DIR: z.string().default(".next"),
   // Reverse proxies in front of Seedplot, as addresses or CIDR ranges separated by commas. Only a request
   // that arrives from one of them has its X-Forwarded-For read; by default nobody is trusted and the

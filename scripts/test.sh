@@ -43,7 +43,7 @@ DATABASE_URL="$E2E_DATABASE_URL" npx tsx db/seed.ts --reset
 # The test build lives in its own folder so it never replaces the build a running demo server uses.
 export NEXT_DIST_DIR=.next-test
 log "Building the app for the browser tests"
-npx next build > .data/test-build.log 2>&1 || { tail -40 .data/test-build.log; die "The build failed; see .data/test-build.log"; }
+{ npx next build && npx tsx scripts/build-service-worker.ts; } > .data/test-build.log 2>&1 || { tail -40 .data/test-build.log; die "The build failed; see .data/test-build.log"; }
 
 cleanup() {
   stop_pidfile "$ROOT/.data/test-next.pid"

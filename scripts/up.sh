@@ -55,7 +55,7 @@ npx tsx db/seed.ts
 
 if [ "${1:-}" != "--no-build" ] || [ ! -f .next/BUILD_ID ]; then
   log "Building the app (about a minute)"
-  npx next build > .data/build.log 2>&1 || { tail -40 .data/build.log; die "The build failed; see .data/build.log"; }
+  { npx next build && npx tsx scripts/build-service-worker.ts; } > .data/build.log 2>&1 || { tail -40 .data/build.log; die "The build failed; see .data/build.log"; }
 fi
 
 log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md; captured mail: npm run mailbox). Ctrl-C to stop."

@@ -6,6 +6,7 @@ import { deliverPendingMail } from "@/server/mail/outbox";
 import { runDueReminders } from "@/server/observations/reminders";
 import { deleteOldSignInAttempts } from "@/db/mutations/sign-in-attempts";
 import { extendLease, releaseLease, takeLease } from "@/db/mutations/job-leases";
+import { deleteOldClientSaves } from "@/db/mutations/observations";
 
 // Every instance runs the same timers. Mail needs no lease: each message is claimed row by row in the
 // database (db/mutations/mail.ts, FOR UPDATE SKIP LOCKED), so any number of instances may deliver at once.
@@ -29,6 +30,7 @@ export interface PeriodicJob {
 const PERIODIC_JOBS: PeriodicJob[] = [
   { name: "reminders", run: () => runDueReminders() },
   { name: "sign-in-log-cleanup", run: () => deleteOldSignInAttempts() },
+  { name: "phone-save-log-cleanup", run: () => deleteOldClientSaves() },
 ];
 
 const state = { started: false, stopping: false, timers: [] as NodeJS.Timeout[], running: new Map<string, { holder: string; done: Promise<void> }>() };

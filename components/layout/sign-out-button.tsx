@@ -1,10 +1,41 @@
 "use client";
+import { useState } from "react";
 import { signOut } from "next-auth/react";
+import { Dialog } from "@/components/ui/dialog";
+import { Button } from "@/components/ui/button";
+import { clearPhone, countWaitingOnPhone } from "@/components/offline/phone-store";
+import { OFFLINE_WORDS } from "@/lib/domain/vocabulary/offline-words";
 
-export function SignOutButton() {
+/** Signing out empties what the phone keeps (values waiting, kept pages); values not sent yet are named first. */
+export function SignOutButton({ userId }: { userId: number }) {
+  const [waiting, setWaiting] = useState(0);
+  async function leave() {
+    await clearPhone().catch(() => undefined);
+    await signOut({ callbackUrl: "/" });
+  }
+  async function start() {
+    const n = await countWaitingOnPhone(userId).catch(() => 0);
+    if (n > 0) setWaiting(n);
+    else await leave();
+  }
   return (
-    <button type="button" onClick={() => signOut({ callbackUrl: "/" })} className="min-h-11 rounded-lg px-3 font-semibold text-loam-700 hover:bg-husk-100">
-      Sign out
-    </button>
+    <>
+      <button type="button" onClick={() => void start()} className="min-h-11 rounded-lg px-3 font-semibold text-loam-700 hover:bg-husk-100">
+        Sign out
+      </button>
+      {waiting > 0 && (
+        <Dialog title={OFFLINE_WORDS.signOutTitle} onClose={() => setWaiting(0)}>
+          <p>{OFFLINE_WORDS.signOutWarning(waiting)}</p>
+          <div className="flex flex-wrap gap-2">
+            <Button type="button" onClick={() => setWaiting(0)}>
+              {OFFLINE_WORDS.stayHere}
+            </Button>
+            <Button type="button" variant="secondary" onClick={() => void leave()}>
+              {OFFLINE_WORDS.signOutAnyway(waiting)}
+            </Button>
+          </div>
+        </Dialog>
+      )}
+    </>
   );
 }

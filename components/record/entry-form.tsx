@@ -1,16 +1,17 @@
 "use client";
 
-import { useCallback, useMemo, useState } from "react";
+import { useCallback, useMemo, useState, useSyncExternalStore } from "react";
 import { cn } from "@/components/ui/cn";
 import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
 import { parseCell, type CellValue } from "@/lib/domain/observations/values";
 import { datesToCheck } from "@/lib/domain/observations/date-order";
 import { Button } from "@/components/ui/button";
-import { restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./save-queue";
+import { knownFromToken, restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./save-queue";
 import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
 import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
+import { noSignalWaiting, OFFLINE_WORDS, waitingOnPhone } from "@/lib/domain/vocabulary/offline-words";
 
 export interface EntryPlot {
   id: number;
@@ -24,12 +25,30 @@ export interface EntryPlot {
 
 const REASON_OPTIONS = Object.entries(MISSING_REASON_LABELS) as [MissingReason, string][];
 
+const onlineSubscribe = (notify: () => void) => {
+  window.addEventListener("online", notify);
+  window.addEventListener("offline", notify);
+  return () => {
+    window.removeEventListener("online", notify);
+    window.removeEventListener("offline", notify);
+  };
+};
+
+/** How a value (or a reason) reads in a sentence: "4", "no value (plant died)". */
+function shownValue(value: string, reason: MissingReason | null | undefined): string {
+  if (reason) return `${OFFLINE_WORDS.emptyValue} (${MISSING_REASON_LABELS[reason].toLowerCase()})`;
+  return value === "" ? OFFLINE_WORDS.emptyValue : value;
+}
+
 /**
- * Plot-by-plot entry in layout order. Every value is saved on its own as soon as the grower leaves the
- * field; a save that fails for want of a connection stays in this device's storage and is retried until it
- * lands, so a dropped signal in the greenhouse never loses a count.
+ * Plot-by-plot entry in layout order. Every value is kept on the phone first and saved on its own as soon
+ * as the grower leaves the field; without a signal it waits on the phone (through reloads, a closed tab
+ * and a restart) and goes when the signal is back, so a dropped signal in the greenhouse never loses a count.
+ * Each field says what Seedplot holds and what waits on the phone.
  */
 export function EntryForm(props: {
+  /** The person signed in: what waits on the phone is kept per person. */
+  userId: number;
   trialId: number;
   siteId: number;
   columns: EntryColumn[];
@@ -57,7 +76,29 @@ export function EntryForm(props: {
     setInputs((i) => restoredInputs(i, stored));
     setReasons((r) => restoredReasons(r, stored));
   }, []);
-  const { queuedCount: queued, status, errors, warnings: savedWarnings, notice, enqueue, retryAll, differs, setSlotError } = useSaveQueue({ trialId, siteId, initial: props.initial, initialReasons: props.initialReasons, onRestore });
+  const { queue, queuedCount: queued, conflictCount, savedTokens, status, errors, warnings: savedWarnings, notice, enqueue, choose, retryAll, differs, setSlotError } = useSaveQueue({
+    userId: props.userId,
+    trialId,
+    siteId,
+    initial: props.initial,
+    initialReasons: props.initialReasons,
+    onRestore,
+  });
+  const online = useSyncExternalStore(onlineSubscribe, () => navigator.onLine, () => true);
+
+  function settle(slot: string, keep: "theirs" | "mine") {
+    const item = queue[slot];
+    if (!item?.conflict) return;
+    if (keep === "theirs") {
+      const { saved, savedReason } = item.conflict;
+      setInputs((i) => ({ ...i, [slot]: savedReason ? "" : saved }));
+      setReasons((r) => {
+        const { [slot]: _old, ...rest } = r;
+        return savedReason ? { ...rest, [slot]: savedReason } : rest;
+      });
+    }
+    choose(slot, keep);
+  }
 
   const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today }), [props.sownOn, props.transplantedOn, props.today]);
 
@@ -193,20 +234,21 @@ export function EntryForm(props: {
             </Dialog>
           )}
         </div>
-        <div aria-live="polite" role="status" className="text-sm">
-          {queued > 0 ? (
+        <div aria-live="polite" role="status" className="space-y-2 text-sm">
+          {!online ? (
+            <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 font-semibold text-sky-800">{queued - conflictCount > 0 ? noSignalWaiting(queued - conflictCount) : OFFLINE_WORDS.noSignal}</p>
+          ) : queued - conflictCount > 0 ? (
             <div className="flex flex-wrap items-center gap-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
-              <span className="font-semibold">
-                {queued} {queued === 1 ? "value is" : "values are"} not saved yet. They are kept on this device and retried automatically.
-              </span>
-              <Button type="button" variant="secondary" onClick={retryAll}>
-                Retry now
+              <span className="font-semibold">{waitingOnPhone(queued - conflictCount)}</span>
+              <Button type="button" variant="secondary" onClick={() => void retryAll()}>
+                {OFFLINE_WORDS.retryNow}
               </Button>
             </div>
           ) : (
-            <span className="text-loam-700">Values save as you go.</span>
+            conflictCount === 0 && <span className="text-loam-700">{OFFLINE_WORDS.allSaved}</span>
           )}
-          {notice && <p className="mt-2 font-semibold text-beet-700">{notice}</p>}
+          {conflictCount > 0 && <p className="rounded-lg border border-beet-600 bg-white px-3 py-2 font-semibold text-beet-700">{OFFLINE_WORDS.conflictsWaiting(conflictCount)}</p>}
+          {notice && <p className="font-semibold text-beet-700">{notice}</p>}
         </div>
       </div>
       {props.locked && <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 text-sky-800">{props.locked}</p>}
@@ -233,6 +275,9 @@ export function EntryForm(props: {
                 const err = errors[slot];
                 const reason = reasons[slot];
                 const whyId = `${id}-why`;
+                const waitingHere = queue[slot];
+                const serverToken = knownFromToken(savedTokens[slot]);
+                const onServer = serverToken.value === null && serverToken.missingReason === null ? OFFLINE_WORDS.nothingSavedYet : OFFLINE_WORDS.savedOnSeedplot(shownValue(serverToken.value ?? "", serverToken.missingReason));
                 // Packet warnings belong to the value saved (the latest save's answer, else the page's); once the
                 // field shows something else they are stale.
                 const packet = slot in savedWarnings ? savedWarnings[slot]!.filter((w) => w.kind === "far_from_packet").map((w) => w.message) : (props.packetChecks[slot] ?? []);
@@ -286,7 +331,15 @@ export function EntryForm(props: {
                     <div className="mt-1 flex items-start justify-between gap-2">
                       <p id={`${id}-state`} className={cn("min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
                         {err ??
-                          (st === "saving" ? "Saving…" : st === "saved" ? "Saved" : st === "queued" ? "Not saved yet — will retry" : choice === "all" && !reason ? describeRange(c) : "")}
+                          (waitingHere && !waitingHere.conflict
+                            ? `${st === "saving" ? OFFLINE_WORDS.stateSaving : OFFLINE_WORDS.stateWaiting} · ${onServer}`
+                            : st === "saving"
+                              ? OFFLINE_WORDS.stateSaving
+                              : st === "saved"
+                                ? OFFLINE_WORDS.stateSaved
+                                : choice === "all" && !reason
+                                  ? describeRange(c)
+                                  : "")}
                       </p>
                       {!reason && !askWhy[slot] && !props.locked && (
                         <button
@@ -306,6 +359,20 @@ export function EntryForm(props: {
                         </button>
                       )}
                     </div>
+                    {waitingHere?.conflict && (
+                      <div id={`${id}-conflict`} role="group" aria-label={`${p.plotCode}, ${c.name}: ${OFFLINE_WORDS.conflictTitle}`} className="mt-1 space-y-2 rounded-lg border border-beet-600 bg-white px-3 py-2 text-sm text-loam-900">
+                        <p className="font-semibold text-beet-700">{OFFLINE_WORDS.conflictTitle}</p>
+                        <p>{OFFLINE_WORDS.conflictBoth(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason), shownValue(waitingHere.value, waitingHere.reason))}</p>
+                        <div className="flex flex-wrap gap-2">
+                          <Button type="button" variant="secondary" onClick={() => settle(slot, "theirs")}>
+                            {OFFLINE_WORDS.keepTheirs(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason))}
+                          </Button>
+                          <Button type="button" variant="secondary" onClick={() => settle(slot, "mine")}>
+                            {OFFLINE_WORDS.useMine(shownValue(waitingHere.value, waitingHere.reason))}
+                          </Button>
+                        </div>
+                      </div>
+                    )}
                     {toCheck.length > 0 && (
                       <div id={`${id}-check`} className="mt-1 space-y-1 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
                         {toCheck.map((m) => (

@@ -1,7 +1,7 @@
 import "server-only";
-import { sql } from "drizzle-orm";
-import type { Tx } from "../index";
-import { auditLog, observationHistory, observations, submissions } from "../schema";
+import { lt, sql } from "drizzle-orm";
+import { db, type Tx } from "../index";
+import { auditLog, clientSaves, observationHistory, observations, submissions } from "../schema";
 import type { CellValue } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 
@@ -67,4 +67,14 @@ export async function insertObservationAudits(tx: Tx, rows: AuditEntry[]) {
 /** Opens the site's data set as a draft for review; the caller, holding the enrolment's lock, saw none. */
 export async function insertDraftSubmission(tx: Tx, enrolmentId: number) {
   await tx.insert(submissions).values({ enrolmentId, status: "draft" });
+}
+
+/** Keeps the answer to a save sent with the phone's own id; a second row for the same user and id fails on the unique key. */
+export async function insertClientSave(tx: Tx, row: typeof clientSaves.$inferInsert) {
+  await tx.insert(clientSaves).values(row);
+}
+
+/** Forgets the answers to phone saves older than 90 days (a phone that kept a value longer has it checked again). Run by the background job. */
+export async function deleteOldClientSaves() {
+  await db.delete(clientSaves).where(lt(clientSaves.createdAt, new Date(Date.now() - 90 * 24 * 3600_000)));
 }

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, eq, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "../index";
-import { enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
+import { clientSaves, enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { TraitForColumns } from "@/lib/domain/observations/columns";
@@ -178,6 +178,15 @@ export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPl
     }
   }
   return { plots: plotRows, stored, packetDays };
+}
+
+/** The stored answer to a save the viewer sent earlier with this id (ids are scoped to their user), or null. */
+export async function getClientSave(ex: Executor, userId: number, clientSaveId: string) {
+  const [row] = await ex
+    .select({ trialId: clientSaves.trialId, siteId: clientSaves.siteId, answer: clientSaves.answer })
+    .from(clientSaves)
+    .where(and(eq(clientSaves.userId, userId), eq(clientSaves.clientSaveId, clientSaveId)));
+  return row ?? null;
 }
 
 /** Review state of an enrolment's data set, or null before anything was recorded. */

@@ -1,4 +1,4 @@
-import { date, decimal, index, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { date, decimal, index, mediumtext, mysqlEnum, mysqlTable, smallint, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
 import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
 import { traits } from "./traits";
@@ -49,3 +49,22 @@ export const observationHistory = mysqlTable(
 );
 
 export type Observation = typeof observations.$inferSelect;
+
+/**
+ * The answer to a save the phone sent with its own id, kept so that a save sent again (the phone lost the
+ * answer, or went offline before it came) is answered the same and written once. Ids belong to their user:
+ * another user's id is simply a different save.
+ */
+export const clientSaves = mysqlTable(
+  "client_saves",
+  {
+    id: id(),
+    userId: ref("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    clientSaveId: varchar("client_save_id", { length: 36 }).notNull(),
+    trialId: ref("trial_id").notNull(),
+    siteId: ref("site_id").notNull(),
+    answer: mediumtext("answer").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("client_saves_user_id_unique").on(t.userId, t.clientSaveId)],
+);

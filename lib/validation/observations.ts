@@ -6,9 +6,18 @@ import { VALUE_AND_REASON_MESSAGE } from "@/lib/domain/observations/values";
 // Requests from the data-entry form and the review page. Values stay strings here: how a string becomes a
 // count, date or rating depends on the trait, which lib/domain/observations/values.ts decides with the trait row.
 
+// What the phone last knew as saved in a slot when the value was typed; a slot that changed on the server since
+// then comes back as a choice instead of being overwritten.
+const knownSavedSchema = z.object({
+  value: z.string().max(2000, "That value is too long.").nullable(),
+  missingReason: z.enum(MISSING_REASONS).nullable(),
+});
+
 export const saveObservationsSchema = z.object({
   trialId: idParam,
   siteId: idParam,
+  // The phone's own id for this save, so a save sent again after a lost answer is written once.
+  clientSaveId: z.uuid({ error: "That save id is not valid." }).optional(),
   values: z
     .array(
       z
@@ -18,6 +27,7 @@ export const saveObservationsSchema = z.object({
           value: z.string().max(2000, "That value is too long.").nullable(),
           // Why the plot has no value; sending null with no value clears both.
           missingReason: z.enum(MISSING_REASONS, { error: "Choose one of the listed reasons." }).nullable().optional(),
+          knownSaved: knownSavedSchema.optional(),
         })
         .refine((v) => !(v.missingReason && v.value !== null && v.value.trim() !== ""), { error: VALUE_AND_REASON_MESSAGE }),
     )

@@ -10,12 +10,13 @@ import { getRecordingSheet } from "./sheet";
 export async function saveObservationsForViewer(viewer: Viewer, body: unknown) {
   const parsed = saveObservationsSchema.safeParse(body);
   if (!parsed.success) throw new AppError("bad_request", parsed.error.issues[0]?.message ?? "That request was not understood.");
-  const { trialId, siteId, values } = parsed.data;
+  const { trialId, siteId, values, clientSaveId } = parsed.data;
   const result = await saveSiteObservations(viewer, {
     trialId,
     siteId,
     source: "form",
-    cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value, missing: v.missingReason ?? null })),
+    clientSaveId,
+    cells: values.map((v) => ({ plotId: v.plotId, key: v.key, raw: v.value, missing: v.missingReason ?? null, knownSaved: v.knownSaved ? { raw: v.knownSaved.value, missing: v.knownSaved.missingReason } : undefined })),
   });
   return {
     ok: true as const,

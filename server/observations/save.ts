@@ -1,10 +1,10 @@
 import "server-only";
 import { db, type Tx } from "@/db/index";
-import { getRecordableEnrolment, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
-import { insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservations, type AuditEntry } from "@/db/mutations/observations";
+import { getClientSave, getRecordableEnrolment, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
+import { insertClientSave, insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservations, type AuditEntry } from "@/db/mutations/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import { crossCheckPlot, displayEntry, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
+import { crossCheckPlot, displayEntry, displayValue, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 import type { EntryColumn } from "@/lib/domain/observations/columns";
 import { datesToCheck, type DateCheckKind } from "@/lib/domain/observations/date-order";
@@ -22,6 +22,19 @@ export interface CellInput {
   raw: unknown;
   missing?: MissingReason | null;
   row?: number;
+  /** What the sender last knew as saved in this slot (forms); a slot changed since then is a conflict, not an overwrite. */
+  knownSaved?: { raw: string | null; missing: MissingReason | null };
+}
+
+/** A slot someone else changed since the sender last saw it: both values, so the grower can choose. */
+export interface Conflict {
+  plotId: number;
+  plotCode: string;
+  key: string;
+  column: string;
+  /** What the server holds now, as the form shows it ("" when empty). */
+  saved: string;
+  savedReason: MissingReason | null;
 }
 
 export interface Problem {
@@ -59,6 +72,7 @@ export interface PlannedChange {
 export interface ObservationPlan {
   enrolment: RecordableEnrolment;
   problems: Problem[];
+  conflicts: Conflict[];
   warnings: Warning[];
   changes: PlannedChange[];
   counts: Record<ChangeKind, number>;
@@ -105,7 +119,7 @@ export async function planSiteObservations(
   const ctx = { ...site, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
 
   const problems: Problem[] = [];
-  const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number }[] = [];
+  const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number; knownSaved?: CellInput["knownSaved"] }[] = [];
   const seen = new Map<string, number | undefined>();
   for (const cell of input.cells) {
     const plot = cell.plotId !== undefined ? byId.get(cell.plotId) : cell.plotCode !== undefined ? byCode.get(cell.plotCode.trim().toUpperCase()) : undefined;
@@ -127,7 +141,7 @@ export async function planSiteObservations(
     seen.set(slot, cell.row);
     const parsed = parseEntry(column, cell.raw, cell.missing, ctx);
     if (!parsed.ok) problems.push({ ...where, plotId: plot.id, plotCode: plot.plotCode, message: parsed.message });
-    else accepted.push({ plot, column, value: parsed.value, reason: parsed.reason, row: cell.row });
+    else accepted.push({ plot, column, value: parsed.value, reason: parsed.reason, row: cell.row, knownSaved: cell.knownSaved });
   }
 
   // Cross-checks see the plot as it would be after the save: stored values overlaid with the new ones.
@@ -136,6 +150,23 @@ export async function planSiteObservations(
     const oldValue = old && !isBlank(old) ? old : null;
     return sameValue(oldValue, a.value && !isBlank(a.value) ? a.value : null) && (old?.missingReason ?? null) === a.reason;
   };
+  // The row-by-row stale check: a slot whose stored value is no longer what the sender last saw, and that this
+  // save would change, is someone else's newer value (a coordinator's correction); it is never overwritten unseen.
+  const storedMatches = (a: (typeof accepted)[number]) => {
+    if (!a.knownSaved) return true;
+    const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
+    const oldValue = old && !isBlank(old) ? old : null;
+    const oldReason = old?.missingReason ?? null;
+    const known = parseEntry(a.column, a.knownSaved.raw, a.knownSaved.missing, ctx);
+    if (known.ok) return sameValue(oldValue, known.value && !isBlank(known.value) ? known.value : null) && oldReason === known.reason;
+    return displayValue(a.column, oldValue) === (a.knownSaved.raw ?? "") && oldReason === a.knownSaved.missing;
+  };
+  const conflicts: Conflict[] = [];
+  for (const a of accepted) {
+    if (storedMatches(a) || isUnchanged(a)) continue;
+    const old = existing.get(`${a.plot.id}:${a.column.key}`) ?? null;
+    conflicts.push({ plotId: a.plot.id, plotCode: a.plot.plotCode, key: a.column.key, column: a.column.heading, saved: displayValue(a.column, old && !isBlank(old) ? old : null), savedReason: old?.missingReason ?? null });
+  }
   const warnings: Warning[] = [];
   const byPlot = new Map<number, typeof accepted>();
   for (const a of accepted) byPlot.set(a.plot.id, [...(byPlot.get(a.plot.id) ?? []), a]);
@@ -170,7 +201,7 @@ export async function planSiteObservations(
   }
   problems.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
   warnings.sort((x, y) => (x.row ?? 0) - (y.row ?? 0));
-  return { enrolment, problems, warnings, changes, counts };
+  return { enrolment, problems, conflicts, warnings, changes, counts };
 }
 
 /**
@@ -180,11 +211,55 @@ export async function planSiteObservations(
  */
 export async function saveSiteObservations(
   viewer: Viewer,
-  input: { trialId: number; siteId: number; cells: CellInput[]; source: "form" | "upload"; textNumberCommas?: TextNumberCommas },
+  input: { trialId: number; siteId: number; cells: CellInput[]; source: "form" | "upload"; textNumberCommas?: TextNumberCommas; clientSaveId?: string },
   opts: { today?: string } = {},
-) {
+): Promise<SaveAnswer> {
+  try {
+    return await saveOnce(viewer, input, opts);
+  } catch (e) {
+    // The same save sent twice at once: the first committed its answer, the second lost on the unique key.
+    if (input.clientSaveId && isDuplicateKey(e)) {
+      const earlier = await getClientSave(db, viewer.id, input.clientSaveId);
+      if (earlier) return earlierAnswer(earlier, input);
+    }
+    throw e;
+  }
+}
+
+export interface SaveAnswer {
+  counts: Record<ChangeKind, number>;
+  saved: number;
+  warnings: Warning[];
+}
+
+/** Nothing was written: these slots changed on the server since the sender last saw them. */
+export class StaleValuesError extends AppError {
+  constructor(public readonly conflicts: Conflict[]) {
+    super("conflict", conflicts.length === 1 ? "This value was changed by someone else since you last saw it." : `${conflicts.length} values were changed by someone else since you last saw them.`);
+  }
+}
+
+function earlierAnswer(earlier: { trialId: number; siteId: number; answer: string }, input: { trialId: number; siteId: number }): SaveAnswer {
+  if (earlier.trialId !== input.trialId || earlier.siteId !== input.siteId) throw new AppError("bad_request", "This save was already sent for another site.");
+  return JSON.parse(earlier.answer) as SaveAnswer;
+}
+
+function isDuplicateKey(e: unknown, depth = 0): boolean {
+  if (!e || typeof e !== "object" || depth > 5) return false;
+  if ((e as { code?: unknown }).code === "ER_DUP_ENTRY") return true;
+  return isDuplicateKey((e as { cause?: unknown }).cause, depth + 1);
+}
+
+async function saveOnce(viewer: Viewer, input: Parameters<typeof saveSiteObservations>[1], opts: { today?: string }): Promise<SaveAnswer> {
   const observedOn = opts.today ?? todayIso();
   return db.transaction(async (tx) => {
+    // A save the phone sent before (the answer was lost on the way) answers what it answered then. The site's
+    // lock comes first, so this read (and the plan's) sees any save of the same id that committed meanwhile.
+    if (input.clientSaveId) {
+      await getRecordableEnrolment(tx, viewer, input, true);
+      const earlier = await getClientSave(tx, viewer.id, input.clientSaveId);
+      if (earlier) return earlierAnswer(earlier, input);
+    }
     // The enrolment row lock serialises saves for one site, so two phones never insert the same value twice.
     const plan = await planSiteObservations(tx, viewer, input, { lock: true, today: opts.today });
     if (plan.problems.length > 0) {
@@ -192,6 +267,7 @@ export async function saveSiteObservations(
       for (const p of plan.problems) (fieldErrors[`${p.plotId ?? p.plotCode ?? "row" + p.row}:${p.key ?? ""}`] ??= []).push(p.message);
       throw new AppError("bad_request", plan.problems.length === 1 ? plan.problems[0]!.message : `${plan.problems.length} values need fixing. Nothing was saved.`, fieldErrors);
     }
+    if (plan.conflicts.length > 0) throw new StaleValuesError(plan.conflicts);
     const { enrolment } = plan;
     const todo = plan.changes.filter((c) => c.kind !== "unchanged");
     const auditRow = (c: PlannedChange, observationId: number): AuditEntry => ({
@@ -225,6 +301,8 @@ export async function saveSiteObservations(
 
     // The first value recorded opens the site's data set as a draft for review.
     if (todo.length > 0 && enrolment.submissionStatus === null) await insertDraftSubmission(tx, enrolment.enrolmentId);
-    return { counts: plan.counts, saved: todo.length, warnings: plan.warnings };
+    const answer: SaveAnswer = { counts: plan.counts, saved: todo.length, warnings: plan.warnings };
+    if (input.clientSaveId) await insertClientSave(tx, { userId: viewer.id, clientSaveId: input.clientSaveId, trialId: input.trialId, siteId: input.siteId, answer: JSON.stringify(answer) });
+    return answer;
   });
 }

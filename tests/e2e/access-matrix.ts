@@ -99,6 +99,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "GET /api/public/v1/trials/[code]/plots": [{ note: "unpublished kale", path: () => "/api/public/v1/trials/TV27-KAL/plots", expect: everyone("missing") }],
   "GET /api/public/v1/openapi.json": [{ note: "the API description", path: () => "/api/public/v1/openapi.json", expect: everyone("ok") }],
   "GET /api/health": [{ note: "the load balancer's check", path: () => "/api/health", expect: everyone("ok") }],
+  "GET /sw.js": [{ note: "the service worker (the same script for everyone)", path: () => "/sw.js", expect: everyone("ok") }],
 
   // Sign-in and account pages.
   "PAGE /sign-in": [{ note: "signed-in people go home", path: () => "/sign-in", expect: signedIn({ redirect: "/portal" }, "ok") }],

@@ -4,7 +4,7 @@ import { chromium, type Browser, type BrowserContext, type Page } from "playwrig
 export const baseUrl = process.env.E2E_BASE_URL ?? "http://localhost:3000";
 
 // Flags for Debian's chromium in a sandboxed CI machine with no outside network.
-const FLAGS = [
+export const FLAGS = [
   "--headless=new",
   "--no-sandbox",
   "--disable-gpu",

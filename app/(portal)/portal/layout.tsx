@@ -2,6 +2,7 @@ import Link from "next/link";
 import { Logo } from "@/components/layout/logo";
 import { NavLink } from "@/components/layout/nav-link";
 import { SignOutButton } from "@/components/layout/sign-out-button";
+import { OfflineSetup } from "@/components/offline/offline-setup";
 import { requireUser } from "@/server/auth/guards";
 import { ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
 import { mailIsCaptured } from "@/server/mail/mailbox";
@@ -25,7 +26,7 @@ export default async function PortalLayout({ children }: { children: React.React
             <span className="text-loam-700">
               {viewer.name} · <span className="font-semibold">{ROLE_LABELS[viewer.role]}</span>
             </span>
-            <SignOutButton />
+            <SignOutButton userId={viewer.id} />
           </div>
         </div>
         <nav aria-label="Portal" className="mx-auto flex max-w-6xl gap-1 overflow-x-auto px-4">
@@ -43,6 +44,7 @@ export default async function PortalLayout({ children }: { children: React.React
           ))}
         </nav>
       </header>
+      <OfflineSetup userId={viewer.id} />
       <main id="main" className="mx-auto max-w-6xl px-4 py-8">
         {children}
       </main>

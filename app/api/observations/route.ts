@@ -1,5 +1,6 @@
 import { defineRoute } from "@/server/http/define-route";
 import { getRecordingSheetForApi, saveObservationsForViewer } from "@/server/observations/recording";
+import { StaleValuesError } from "@/server/observations/save";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -10,7 +11,16 @@ export const GET = defineRoute({ roles: "signed-in" }, async ({ viewer, request 
   return Response.json(await getRecordingSheetForApi(viewer, { trialId: search.get("trialId"), siteId: search.get("siteId") }), { headers: { "Cache-Control": "private, no-store" } });
 });
 
-/** Saves values typed in the data-entry form; answers per-field problems with 400 and writes nothing then. */
+/**
+ * Saves values typed in the data-entry form; answers per-field problems with 400, and values someone else
+ * changed since the phone last saw them with 409 and both values, writing nothing in either case.
+ */
 export const POST = defineRoute({ roles: "signed-in", body: { kind: "observations", as: "json" } }, async ({ viewer, body }) => {
-  return Response.json(await saveObservationsForViewer(viewer, body));
+  try {
+    return Response.json(await saveObservationsForViewer(viewer, body));
+  } catch (e) {
+    // The form shows both values and lets the grower choose.
+    if (e instanceof StaleValuesError) return Response.json({ error: e.message, conflicts: e.conflicts }, { status: 409 });
+    throw e;
+  }
 });

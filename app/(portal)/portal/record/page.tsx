@@ -2,6 +2,8 @@ import Link from "next/link";
 import { requireUser } from "@/server/auth/guards";
 import { listRecordableSites } from "@/server/observations/sheet";
 import { RecordableSitesList } from "@/components/record/sites-list";
+import { KeepReadyOffline } from "@/components/offline/offline-setup";
+import { offlineUrlsForSite } from "@/lib/domain/offline";
 
 export const dynamic = "force-dynamic";
 
@@ -15,6 +17,7 @@ export default async function RecordIndexPage() {
         <p className="text-loam-700">Pick a site and trial. What is due today and anything late is listed first.</p>
       </div>
       <RecordableSitesList sites={sites} />
+      <KeepReadyOffline userId={viewer.id} urls={["/portal", "/portal/record", ...sites.flatMap((s) => offlineUrlsForSite(s.trialId, s.siteId))]} />
       <p className="text-sm text-loam-700">
         Scanning a plot label opens that plot directly. <Link href="/portal">Back to the portal home</Link>.
       </p>

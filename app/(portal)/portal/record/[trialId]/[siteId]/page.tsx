@@ -13,6 +13,8 @@ import { SubmitForReviewForm } from "@/components/review/review-forms";
 import { PhotoForm } from "@/components/record/photo-form";
 import { RemovePhoto } from "@/components/record/remove-photo";
 import { listSitePhotos } from "@/db/queries/photos";
+import { KeepReadyOffline } from "@/components/offline/offline-setup";
+import { offlineUrlsForSite } from "@/lib/domain/offline";
 
 export const dynamic = "force-dynamic";
 
@@ -50,6 +52,8 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   return (
     <div className="space-y-6">
       <SiteHeader sheet={sheet} />
+      {/* The plain address (not a one-plot view) is what the phone keeps for use without a signal. */}
+      <KeepReadyOffline userId={viewer.id} urls={["/portal", "/portal/record", ...offlineUrlsForSite(sheet.enrolment.trialId, sheet.enrolment.siteId)]} />
       <DuePanel sheet={sheet} />
       {sheet.submission?.status === "returned" && (
         <Card title="Returned by your coordinator">
@@ -88,6 +92,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
         <p className="text-loam-700">This site has no plot layout yet. Your coordinator lays out the plots before data can be recorded.</p>
       ) : (
         <EntryForm
+          userId={viewer.id}
           trialId={sheet.enrolment.trialId}
           siteId={sheet.enrolment.siteId}
           columns={sheet.columns}
