@@ -4,6 +4,7 @@ import { env } from "@/lib/env";
 import { isAppError } from "@/lib/errors";
 import { readBodyWithin } from "@/server/http/body";
 import { assertOwnOrigin } from "@/server/http/origin";
+import { addressLocale, LANGUAGE_HEADER, languageFromAddress } from "@/lib/domain/i18n/language-choice";
 
 // A per-request nonce lets Next's own inline scripts run while any injected script is refused.
 function contentSecurityPolicy(nonce: string): string {
@@ -77,6 +78,9 @@ export default async function proxy(request: NextRequest) {
   const headers = new Headers(request.headers);
   headers.set("x-nonce", nonce);
   headers.set("content-security-policy", policy);
+  // The language header is ours alone: a client's copy is dropped; public pages get the one their address asks for.
+  headers.delete(LANGUAGE_HEADER);
+  if (languageFromAddress(pathname)) headers.set(LANGUAGE_HEADER, addressLocale(request.nextUrl.searchParams));
   const response = NextResponse.next({ request: { headers } });
   response.headers.set("Content-Security-Policy", policy);
   return response;

@@ -1,6 +1,8 @@
 "use client";
 
 import { useCallback, useMemo, useState } from "react";
+import { useLocale, useTranslations } from "next-intl";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { cn } from "@/components/ui/cn";
 import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
 import { parseCell, type CellValue } from "@/lib/domain/observations/values";
@@ -10,7 +12,7 @@ import { restoredInputs, restoredReasons, slotOf, tokenOf, type Queue } from "./
 import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
-import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
+import { missingReasonLabels, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 
 export interface EntryPlot {
   id: number;
@@ -21,8 +23,6 @@ export interface EntryPlot {
   tray: number | null;
   traySlot: number | null;
 }
-
-const REASON_OPTIONS = Object.entries(MISSING_REASON_LABELS) as [MissingReason, string][];
 
 /**
  * Plot-by-plot entry in layout order. Every value is saved on its own as soon as the grower leaves the
@@ -49,6 +49,9 @@ export function EntryForm(props: {
   plotSize: number;
 }) {
   const { trialId, siteId, columns, plots } = props;
+  const t = useTranslations("entry");
+  const words = translatorFor(useLocale());
+  const reasonOptions = Object.entries(missingReasonLabels(words)) as [MissingReason, string][];
   const [choice, setChoice] = useState(props.defaultColumn);
   const [inputs, setInputs] = useState<Record<string, string>>(props.initial);
   const [reasons, setReasons] = useState<Record<string, MissingReason>>(props.initialReasons);
@@ -59,7 +62,7 @@ export function EntryForm(props: {
   }, []);
   const { queuedCount: queued, status, errors, warnings: savedWarnings, notice, enqueue, retryAll, differs, setSlotError } = useSaveQueue({ trialId, siteId, initial: props.initial, initialReasons: props.initialReasons, onRestore });
 
-  const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today }), [props.sownOn, props.transplantedOn, props.today]);
+  const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today, t: words }), [props.sownOn, props.transplantedOn, props.today, words]);
 
   // Dates out of order, from what is in the fields now (typed, not only saved), under every date involved.
   // The packet's days to maturity stay on the server (growers record blind); its warnings come with a save.
@@ -126,7 +129,7 @@ export function EntryForm(props: {
     if (!fillColumn) return;
     const parsed = parseCell(fillColumn, fillValue, ctx);
     if (fillValue.trim() === "" || !parsed.ok) {
-      setFillError(parsed.ok ? "Type the value to fill in." : parsed.message);
+      setFillError(parsed.ok ? t("typeValue") : parsed.message);
       return;
     }
     setInputs((i) => ({ ...i, ...Object.fromEntries(emptyPlots.map((p) => [slotOf(p.id, fillColumn.key), fillValue])) }));
@@ -149,7 +152,7 @@ export function EntryForm(props: {
       <div className="sticky top-0 z-10 -mx-4 space-y-3 border-b border-husk-200 bg-husk-50 px-4 py-3">
         <div>
           <label htmlFor="entry-column" className="block text-sm font-semibold text-loam-900">
-            What are you recording?
+            {t("whatRecording")}
           </label>
           <select id="entry-column" value={choice} onChange={(e) => setChoice(e.target.value)} className="mt-1 block min-h-12 w-full rounded-lg border border-loam-300 bg-white px-3 text-base">
             {columns.map((c) => (
@@ -158,22 +161,19 @@ export function EntryForm(props: {
                 {c.unit ? ` (${c.unit})` : ""}
               </option>
             ))}
-            <option value="all">All values, plot by plot</option>
+            <option value="all">{t("allValues")}</option>
           </select>
-          {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">Valid: {describeRange(shown[0])}.</p>}
+          {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">{t("valid", { range: describeRange(shown[0], words) })}</p>}
           {fillColumn && emptyPlots.length > 1 && (
             <Button type="button" variant="secondary" className="mt-2" onClick={() => setFilling(true)}>
-              Same value for the {emptyPlots.length} empty plots…
+              {t("sameValue", { count: String(emptyPlots.length) })}
             </Button>
           )}
           {filling && fillColumn && (
-            <Dialog title={`${fillColumn.name}: one value for every empty plot`} onClose={() => setFilling(false)}>
-              <p>
-                This writes the value into the {emptyPlots.length} plots that have no {fillColumn.name.toLowerCase()} yet. Plots with a value or a
-                reason keep theirs. Use it only where the value really is the same, such as seeds sown.
-              </p>
+            <Dialog title={t("fillTitle", { column: fillColumn.name })} onClose={() => setFilling(false)}>
+              <p>{t("fillHelp", { count: String(emptyPlots.length), column: fillColumn.name.toLowerCase() })}</p>
               <label htmlFor="fill-value" className="block text-sm font-semibold">
-                Value ({describeRange(fillColumn)})
+                {t("fillValue", { range: describeRange(fillColumn, words) })}
               </label>
               <input
                 id="fill-value"
@@ -188,7 +188,7 @@ export function EntryForm(props: {
                 {fillError}
               </p>
               <Button type="button" onClick={fillDown}>
-                Fill {emptyPlots.length} plots
+                {t("fill", { count: String(emptyPlots.length) })}
               </Button>
             </Dialog>
           )}
@@ -196,15 +196,13 @@ export function EntryForm(props: {
         <div aria-live="polite" role="status" className="text-sm">
           {queued > 0 ? (
             <div className="flex flex-wrap items-center gap-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
-              <span className="font-semibold">
-                {queued} {queued === 1 ? "value is" : "values are"} not saved yet. They are kept on this device and retried automatically.
-              </span>
+              <span className="font-semibold">{t("queued", { count: queued })}</span>
               <Button type="button" variant="secondary" onClick={retryAll}>
-                Retry now
+                {t("retry")}
               </Button>
             </div>
           ) : (
-            <span className="text-loam-700">Values save as you go.</span>
+            <span className="text-loam-700">{t("savesAsYouGo")}</span>
           )}
           {notice && <p className="mt-2 font-semibold text-beet-700">{notice}</p>}
         </div>
@@ -216,13 +214,13 @@ export function EntryForm(props: {
             <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
               <span className="font-mono text-lg font-bold text-loam-900">{p.plotCode}</span>
               <span className="text-sm text-loam-700">
-                Block {p.block} · Code <span className="font-semibold">{p.blindCode}</span>
-                {` · ${plotPlace(props.plotUnit, p, props.plotSize)}`}
+                {t("blockCode", { block: String(p.block) })} <span className="font-semibold">{p.blindCode}</span>
+                {` · ${plotPlace(props.plotUnit, p, props.plotSize, words)}`}
               </span>
             </div>
             {props.comments[p.id]?.map((c, i) => (
               <p key={i} className="mb-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
-                Coordinator: {c}
+                {t("coordinator", { comment: c })}
               </p>
             ))}
             <div className={cn("grid gap-3", choice === "all" && "sm:grid-cols-2")}>
@@ -255,8 +253,8 @@ export function EntryForm(props: {
                     {c.valueType === "yes_no" ? (
                       <select {...common} value={inputs[slot] ?? ""} onChange={(e) => { setInputs((i) => ({ ...i, [slot]: e.target.value })); commit(p.id, c, e.target.value); }}>
                         <option value="">—</option>
-                        <option value="yes">Yes</option>
-                        <option value="no">No</option>
+                        <option value="yes">{words("common.yes")}</option>
+                        <option value="no">{words("common.no")}</option>
                       </select>
                     ) : (
                       <input
@@ -266,7 +264,7 @@ export function EntryForm(props: {
                         autoComplete="off"
                         enterKeyHint="next"
                         value={inputs[slot] ?? ""}
-                        placeholder={reason ? "No value" : undefined}
+                        placeholder={reason ? t("noValue") : undefined}
                         onChange={(e) => {
                           const value = e.target.value;
                           setInputs((i) => ({ ...i, [slot]: value }));
@@ -286,7 +284,7 @@ export function EntryForm(props: {
                     <div className="mt-1 flex items-start justify-between gap-2">
                       <p id={`${id}-state`} className={cn("min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
                         {err ??
-                          (st === "saving" ? "Saving…" : st === "saved" ? "Saved" : st === "queued" ? "Not saved yet — will retry" : choice === "all" && !reason ? describeRange(c) : "")}
+                          (st === "saving" ? t("saving") : st === "saved" ? t("savedState") : st === "queued" ? t("notSavedYet") : choice === "all" && !reason ? describeRange(c, words) : "")}
                       </p>
                       {!reason && !askWhy[slot] && !props.locked && (
                         <button
@@ -298,10 +296,10 @@ export function EntryForm(props: {
                           }}
                         >
                           {/* the spoken name starts with the visible words, so voice control finds it */}
-                          No value?
+                          {t("noValueQ")}
                           <span className="sr-only">
                             {" "}
-                            {p.plotCode}, {c.name}: say why
+                            {t("sayWhy", { plot: p.plotCode, column: c.name })}
                           </span>
                         </button>
                       )}
@@ -310,7 +308,7 @@ export function EntryForm(props: {
                       <div id={`${id}-check`} className="mt-1 space-y-1 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
                         {toCheck.map((m) => (
                           <p key={m}>
-                            <span className="font-semibold">Check: </span>
+                            <span className="font-semibold">{t("check")}</span>
                             {m}
                           </p>
                         ))}
@@ -319,7 +317,7 @@ export function EntryForm(props: {
                     {(reason || askWhy[slot]) && (
                       <div className="mt-1">
                         <label htmlFor={whyId} className="block text-sm font-semibold text-loam-900">
-                          <span className="sr-only">{p.plotCode}, {c.name}: </span>No value because
+                          <span className="sr-only">{p.plotCode}, {c.name}: </span>{t("noValueBecause")}
                         </label>
                         <select
                           id={whyId}
@@ -328,8 +326,8 @@ export function EntryForm(props: {
                           onChange={(e) => chooseReason(p.id, c, e.target.value)}
                           className={cn("mt-1 block min-h-11 w-full rounded-lg border px-3 text-base", reason ? "border-marigold-400 bg-marigold-100 text-marigold-800" : "border-loam-300 bg-white")}
                         >
-                          <option value="">— there is a value —</option>
-                          {REASON_OPTIONS.map(([r, label]) => (
+                          <option value="">{t("thereIsValue")}</option>
+                          {reasonOptions.map(([r, label]) => (
                             <option key={r} value={r}>
                               {label}
                             </option>
