@@ -192,9 +192,9 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
         </p>
       )}
       <p className="flex flex-wrap gap-2">
-        <Badge tone="good">{t("new", { count: String(c.new) })}</Badge>
-        <Badge tone="warn">{t("changed", { count: String(c.changed) })}</Badge>
-        <Badge>{t("unchanged", { count: String(c.unchanged) })}</Badge>
+        <Badge tone="good">{t("new", { count: c.new })}</Badge>
+        <Badge tone="warn">{t("changed", { count: c.changed })}</Badge>
+        <Badge>{t("unchanged", { count: c.unchanged })}</Badge>
         {preview.blankRows && preview.blankRows.length > 0 && <Badge>{t("emptyRows", { count: String(preview.blankRows.length) })}</Badge>}
       </p>
       {preview.warnings && preview.warnings.length > 0 && <WarningList warnings={preview.warnings} />}

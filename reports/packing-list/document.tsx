@@ -5,14 +5,15 @@ import { MIN_SPARE_SEEDS, SPARE_SHARE } from "@/lib/domain/design/kits";
 import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 const COLUMNS = [
-  { label: "sheets.colPacked", width: 44 },
-  { label: "sheets.colCode", width: 56 },
-  { label: "sheets.colLot", width: 170 },
-  { label: "sheets.colTreated", width: 58 },
-  { label: "sheets.colPlots", width: 36 },
-  { label: "sheets.colSeedsPerPlot", width: 58 },
-  { label: "sheets.colSpares", width: 42 },
-  { label: "sheets.colSeedsToCount", width: 60 },
+  // Wide enough for the longer Spanish headings ("Empacado", "Semillas por parcela").
+  { label: "sheets.colPacked", width: 56 },
+  { label: "sheets.colCode", width: 50 },
+  { label: "sheets.colLot", width: 158 },
+  { label: "sheets.colTreated", width: 54 },
+  { label: "sheets.colPlots", width: 46 },
+  { label: "sheets.colSeedsPerPlot", width: 62 },
+  { label: "sheets.colSpares", width: 50 },
+  { label: "sheets.colSeedsToCount", width: 62 },
 ] as const;
 
 /** The packer's list for one site's kit: each blind code, its lot, treated or not, and how many seeds to count. */

@@ -25,7 +25,7 @@ export function PlotLabelsDocument({ data }: { data: SiteSheetData }) {
               wrap={false}
               style={{ width: `${100 / PER_ROW}%`, height: 104, borderWidth: 0.75, borderStyle: "dashed", borderColor: RULE, padding: 6, flexDirection: "row" }}
             >
-              <View style={{ flexGrow: 1, justifyContent: "space-between" }}>
+              <View style={{ flexGrow: 1, flexShrink: 1, justifyContent: "space-between" }}>
                 <View>
                   <Text style={{ fontSize: 7, color: "#4f6446" }}>{data.trialCode}</Text>
                   <Text style={{ fontSize: 24, fontWeight: 700, color: ACCENT, letterSpacing: 1.5 }}>{p.blindCode}</Text>
