@@ -12,6 +12,19 @@ import { getViewer } from "@/server/auth/guards";
  */
 export default getRequestConfig(async () => {
   const fromAddress = (await headers()).get(LANGUAGE_HEADER);
-  const locale = fromAddress !== null ? localeOr(fromAddress) : localeOr((await getViewer())?.locale);
+  const locale = fromAddress !== null ? localeOr(fromAddress) : await profileLocale();
   return { locale, messages: CATALOGUES[locale], timeZone: "UTC" };
 });
+
+/**
+ * The signed-in person's language, English for a visitor. The root layout asks this before any page runs, so a
+ * database outage must not fail it here: the page's own guard reads the same (memoised) viewer and answers the
+ * outage as it always does, through its error boundary.
+ */
+async function profileLocale() {
+  try {
+    return localeOr((await getViewer())?.locale);
+  } catch {
+    return localeOr(null);
+  }
+}

@@ -218,6 +218,16 @@ describe("a grower whose language is Spanish", () => {
     const forged = await page.request.get("/results", { headers: { "x-seedplot-language": "es" } });
     expect(await forged.text()).toContain("Variety trial results");
     await page.screenshot({ path: path.join(shots, "desktop-results-es.png"), fullPage: false });
+    // A trial page in Spanish keeps the language in its links; a public page carries no portal wording.
+    await page.getByRole("link", { name: /Spinach|spinach/ }).first().click();
+    await page.getByRole("heading", { name: "Resumen para productores" }).waitFor();
+    expect(await page.getByRole("link", { name: "Descargar el informe en PDF" }).count()).toBe(1);
+    expect(await page.getByRole("link", { name: "Resultados", exact: true }).first().getAttribute("href")).toBe("/results?lang=es");
+    expect(await (await page.request.get(page.url())).text()).not.toContain("Qué registrar ahora");
+    await page.screenshot({ path: path.join(shots, "desktop-trial-es.png"), fullPage: false });
+    await page.getByRole("link", { name: "Read in English" }).click();
+    await page.getByRole("heading", { name: "Summary for growers" }).waitFor();
+    await page.goto("/results?lang=es");
     await page.getByRole("link", { name: "Read in English" }).click();
     await page.waitForURL(/\/results$/);
     await page.getByRole("heading", { name: "Variety trial results" }).waitFor();

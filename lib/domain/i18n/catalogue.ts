@@ -4,19 +4,15 @@
 import { createTranslator } from "use-intl/core";
 import en from "@/messages/en.json";
 import es from "@/messages/es.json";
-import { LOCALES, type Locale } from "@/lib/domain/vocabulary/enums";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
+import { DEFAULT_LOCALE } from "./locales";
+
+export { DEFAULT_LOCALE, isLocale, localeOr } from "./locales";
 
 export type Messages = typeof en;
 
 /** English is the source; every other catalogue has the same keys and placeholders (tests/unit/i18n). */
 export const CATALOGUES: Record<Locale, Messages> = { en, es: es as Messages };
-
-export const DEFAULT_LOCALE: Locale = "en";
-
-export const isLocale = (value: unknown): value is Locale => typeof value === "string" && (LOCALES as readonly string[]).includes(value);
-
-/** A language from an untrusted string (a query parameter, a header), English when it is none of ours. */
-export const localeOr = (value: unknown, fallback: Locale = DEFAULT_LOCALE): Locale => (isLocale(value) ? value : fallback);
 
 const translators = new Map<Locale, Translator>();
 

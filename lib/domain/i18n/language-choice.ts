@@ -1,4 +1,4 @@
-import { localeOr } from "./catalogue";
+import { localeOr } from "./locales";
 import type { Locale } from "@/lib/domain/vocabulary/enums";
 
 /** Set by proxy.ts from the address on pages whose language the URL chooses; never taken from a client. */
