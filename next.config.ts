@@ -1,4 +1,5 @@
 import type { NextConfig } from "next";
+import createNextIntlPlugin from "next-intl/plugin";
 import { BODY_LIMITS, PROXY_BODY_COPY_BYTES } from "./lib/domain/request-limits";
 
 const securityHeaders = [
@@ -38,4 +39,7 @@ const nextConfig: NextConfig = {
   },
 };
 
-export default nextConfig;
+// next-intl reads each request's language and catalogue here (profile in the portal, ?lang= on public pages).
+const withNextIntl = createNextIntlPlugin("./server/i18n/request.ts");
+
+export default withNextIntl(nextConfig);

@@ -6,6 +6,7 @@ import { readBodyWithin } from "@/server/http/body";
 import { assertOwnOrigin } from "@/server/http/origin";
 import { contentSecurityPolicy, newNonce } from "@/server/http/content-security-policy";
 import { answerFromPublicCache } from "@/server/publish/public-cache";
+import { addressLocale, LANGUAGE_HEADER, languageFromAddress } from "@/lib/domain/i18n/language-choice";
 
 function isDecodable(pathname: string): boolean {
   try {
@@ -64,6 +65,9 @@ export default async function proxy(request: NextRequest) {
   const headers = new Headers(request.headers);
   headers.set("x-nonce", nonce);
   headers.set("content-security-policy", policy);
+  // The language header is ours alone: a client's copy is dropped; public pages get the one their address asks for.
+  headers.delete(LANGUAGE_HEADER);
+  if (languageFromAddress(pathname)) headers.set(LANGUAGE_HEADER, addressLocale(request.nextUrl.searchParams));
   const response = NextResponse.next({ request: { headers } });
   response.headers.set("Content-Security-Policy", policy);
   return response;

@@ -5,9 +5,11 @@ import { Dialog } from "@/components/ui/dialog";
 import { Button } from "@/components/ui/button";
 import { clearPhone, countWaitingOnPhone } from "@/components/offline/phone-store";
 import { OFFLINE_WORDS } from "@/lib/domain/vocabulary/offline-words";
+import { useTranslations } from "next-intl";
 
 /** Signing out empties what the phone keeps (values waiting, kept pages); values not sent yet are named first. */
 export function SignOutButton({ userId }: { userId: number }) {
+  const t = useTranslations("nav");
   const [waiting, setWaiting] = useState(0);
   async function leave() {
     await clearPhone().catch(() => undefined);
@@ -21,7 +23,7 @@ export function SignOutButton({ userId }: { userId: number }) {
   return (
     <>
       <button type="button" onClick={() => void start()} className="min-h-11 rounded-lg px-3 font-semibold text-loam-700 hover:bg-husk-100">
-        Sign out
+        {t("signOut")}
       </button>
       {waiting > 0 && (
         <Dialog title={OFFLINE_WORDS.signOutTitle} onClose={() => setWaiting(0)}>

@@ -1,11 +1,11 @@
 import Link from "next/link";
+import { useLocale, useTranslations } from "next-intl";
 import { Card } from "@/components/ui/card";
 import { Badge } from "@/components/ui/badge";
 import { TrialStatusBadge } from "@/components/ui/status-badge";
-import { formatDate, ROLE_LABELS, SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
+import { formatDate, ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { listMyPublishedTrials, listMySites, listTrialsForViewer } from "@/db/queries/overview";
 import { DUE_SOON_DAYS, type DueItem } from "@/lib/domain/schedule";
-import { plural } from "@/lib/domain/vocabulary/words";
 import type { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import type { listUsersForAdmin } from "@/db/queries/users";
 import type { listMyLayouts } from "@/db/queries/trials";
@@ -73,12 +73,14 @@ export function LateSitesList({ sites }: { sites: LateSites }) {
   );
 }
 
-/** One owed item as a grower reads it: "Seeds sown — due 2 Nov, 0 of 20 plots". */
-function owedLine(i: DueItem) {
-  return `${i.label} — ${i.dueOn ? `due ${formatDate(i.dueOn)}` : i.when}, ${i.recorded} of ${i.expected} plots`;
-}
-
 function OwedList({ title, items, tone }: { title: string; items: DueItem[]; tone: string }) {
+  const t = useTranslations("home");
+  const locale = useLocale();
+  // One owed item as a grower reads it: "Seeds sown — due Nov 2, 2026, 0 of 20 plots".
+  const owedLine = (i: DueItem) => {
+    const counts = { label: i.label, recorded: String(i.recorded), expected: String(i.expected) };
+    return i.dueOn ? t("owedDated", { ...counts, date: formatDate(i.dueOn, locale) }) : t("owedEvent", { ...counts, when: i.when });
+  };
   if (items.length === 0) return null;
   return (
     <div className="mt-2">
@@ -94,34 +96,34 @@ function OwedList({ title, items, tone }: { title: string; items: DueItem[]; ton
 
 /** What one site owes, or where its data set stands once sent: never "all in" while a value is missing. */
 function SiteOwed({ s }: { s: Awaited<ReturnType<typeof listMySchedules>>[number] }) {
+  const t = useTranslations("home");
+  const locale = useLocale();
   const { summary } = s;
   if (s.submissionStatus === "returned") {
     return (
       <div className="mt-2 rounded-lg border border-beet-300 bg-beet-50 p-2 text-sm">
-        <p className="font-semibold text-beet-700">Returned for corrections</p>
-        {s.reviewComment && <p className="mt-1">Your coordinator wrote: “{s.reviewComment}”</p>}
-        {s.openComments > 0 && <p className="mt-1">{plural(s.openComments, "comment")} on plots or values to look at.</p>}
+        <p className="font-semibold text-beet-700">{t("returned")}</p>
+        {s.reviewComment && <p className="mt-1">{t("coordinatorWrote", { comment: s.reviewComment })}</p>}
+        {s.openComments > 0 && <p className="mt-1">{t("openComments", { count: s.openComments })}</p>}
         <p className="mt-1">
-          <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>Open the form to correct and send again</Link>
+          <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>{t("openToCorrect")}</Link>
         </p>
       </div>
     );
   }
-  if (s.submissionStatus === "submitted") return <p className="mt-2 text-sm">Sent for review{s.submittedAt ? ` on ${formatDate(s.submittedAt.toISOString().slice(0, 10))}` : ""}. Your coordinator is checking it; nothing to record unless it comes back.</p>;
-  if (s.submissionStatus === "accepted") return <p className="mt-2 text-sm text-sprout-700">Accepted by your coordinator. Thank you!</p>;
-  if (!s.sownOn) return <p className="mt-2 text-sm">No sowing date is recorded for this site yet; due dates start from it.</p>;
+  if (s.submissionStatus === "submitted") return <p className="mt-2 text-sm">{t("submitted", { date: s.submittedAt ? formatDate(s.submittedAt.toISOString().slice(0, 10), locale) : "none" })}</p>;
+  if (s.submissionStatus === "accepted") return <p className="mt-2 text-sm text-sprout-700">{t("accepted")}</p>;
+  if (!s.sownOn) return <p className="mt-2 text-sm">{t("noSowingDate")}</p>;
   return (
     <>
       <p className="mt-1 text-sm">
-        <span className="font-semibold">
-          {summary.values.recorded} of {summary.values.expected} values recorded
-        </span>
-        {summary.allIn ? " — everything the form asks for is in. Check it, then send it for review." : "."}
+        <span className="font-semibold">{t("valuesRecorded", { recorded: String(summary.values.recorded), expected: String(summary.values.expected) })}</span>
+        {summary.allIn ? t("allIn") : "."}
       </p>
-      <OwedList title="Late" items={summary.late} tone="text-beet-700" />
-      <OwedList title="Due today" items={summary.dueToday} tone="text-marigold-800" />
-      <OwedList title={`Due in the next ${DUE_SOON_DAYS} days`} items={summary.dueSoon} tone="text-loam-900" />
-      <OwedList title="When it happens" items={summary.atEvent} tone="text-loam-900" />
+      <OwedList title={t("late")} items={summary.late} tone="text-beet-700" />
+      <OwedList title={t("dueToday")} items={summary.dueToday} tone="text-marigold-800" />
+      <OwedList title={t("dueSoon", { days: String(DUE_SOON_DAYS) })} items={summary.dueSoon} tone="text-loam-900" />
+      <OwedList title={t("atEvent")} items={summary.atEvent} tone="text-loam-900" />
     </>
   );
 }
@@ -135,13 +137,15 @@ export function MySchedules({
   sites: Awaited<ReturnType<typeof listMySites>>;
   published: Awaited<ReturnType<typeof listMyPublishedTrials>>;
 }) {
+  const t = useTranslations("home");
+  const locale = useLocale();
   // A returned data set is the first thing to deal with.
   const ordered = [...schedules].sort((a, b) => Number(b.submissionStatus === "returned") - Number(a.submissionStatus === "returned"));
   return (
     <div className="grid gap-6 md:grid-cols-2">
-      <Card title="What to record next">
+      <Card title={t("whatNext")}>
         {schedules.length === 0 ? (
-          <p className="text-loam-700">No active trials at your sites right now.</p>
+          <p className="text-loam-700">{t("noActive")}</p>
         ) : (
           <ul className="space-y-4">
             {ordered.map((s) => (
@@ -150,7 +154,7 @@ export function MySchedules({
                   <Link href={`/portal/record/${s.trialId}/${s.siteId}`}>{s.trialTitle}</Link>
                 </p>
                 <p className="text-sm text-loam-700">
-                  {s.siteName} · sown {formatDate(s.sownOn)} · {s.plotCount} plots
+                  {t("siteLine", { site: s.siteName, date: formatDate(s.sownOn, locale), plots: s.plotCount })}
                 </p>
                 <SiteOwed s={s} />
               </li>
@@ -160,23 +164,23 @@ export function MySchedules({
       </Card>
       <div className="space-y-6">
         {published.length > 0 && (
-          <Card title="Published results from your sites">
+          <Card title={t("published")}>
             <ul className="space-y-1">
               {published.map((p) => (
                 <li key={`${p.code}:${p.siteName}`}>
-                  <Link href={`/results/${encodeURIComponent(p.code)}`}>{p.title}</Link> <span className="text-sm text-loam-700">({p.siteName})</span>
+                  <Link href={`/results/${encodeURIComponent(p.code)}${locale === "en" ? "" : `?lang=${locale}`}`}>{p.title}</Link> <span className="text-sm text-loam-700">({p.siteName})</span>
                 </li>
               ))}
             </ul>
           </Card>
         )}
-      <Card title="My sites">
+      <Card title={t("mySites")}>
         <ul className="space-y-2">
           {sites.map((s) => (
             <li key={s.id}>
               <span className="font-semibold">{s.name}</span>
               <span className="block text-sm text-loam-700">
-                {s.region} · {SETUP_LABELS[s.growingSetup]}
+                {s.region} · {t("setup", { setup: s.growingSetup })}
               </span>
             </li>
           ))}

@@ -1,6 +1,8 @@
 "use client";
 
 import { useCallback, useMemo, useState, useSyncExternalStore } from "react";
+import { useLocale, useTranslations } from "next-intl";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { cn } from "@/components/ui/cn";
 import { describeRange, type EntryColumn } from "@/lib/domain/observations/columns";
 import { parseCell, type CellValue } from "@/lib/domain/observations/values";
@@ -10,7 +12,7 @@ import { knownFromToken, restoredInputs, restoredReasons, slotOf, tokenOf, type 
 import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
-import { MISSING_REASON_LABELS, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
+import { missingReasonLabels, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 import { noSignalWaiting, OFFLINE_WORDS, waitingOnPhone } from "@/lib/domain/vocabulary/offline-words";
 
 export interface EntryPlot {
@@ -23,8 +25,6 @@ export interface EntryPlot {
   traySlot: number | null;
 }
 
-const REASON_OPTIONS = Object.entries(MISSING_REASON_LABELS) as [MissingReason, string][];
-
 const onlineSubscribe = (notify: () => void) => {
   window.addEventListener("online", notify);
   window.addEventListener("offline", notify);
@@ -35,8 +35,8 @@ const onlineSubscribe = (notify: () => void) => {
 };
 
 /** How a value (or a reason) reads in a sentence: "4", "no value (plant died)". */
-function shownValue(value: string, reason: MissingReason | null | undefined): string {
-  if (reason) return `${OFFLINE_WORDS.emptyValue} (${MISSING_REASON_LABELS[reason].toLowerCase()})`;
+function shownValue(value: string, reason: MissingReason | null | undefined, reasonLabels: Record<MissingReason, string>): string {
+  if (reason) return `${OFFLINE_WORDS.emptyValue} (${reasonLabels[reason].toLowerCase()})`;
   return value === "" ? OFFLINE_WORDS.emptyValue : value;
 }
 
@@ -68,6 +68,10 @@ export function EntryForm(props: {
   plotSize: number;
 }) {
   const { trialId, siteId, columns, plots } = props;
+  const t = useTranslations("entry");
+  const words = translatorFor(useLocale());
+  const reasonLabels = useMemo(() => missingReasonLabels(words), [words]);
+  const reasonOptions = Object.entries(reasonLabels) as [MissingReason, string][];
   const [choice, setChoice] = useState(props.defaultColumn);
   const [inputs, setInputs] = useState<Record<string, string>>(props.initial);
   const [reasons, setReasons] = useState<Record<string, MissingReason>>(props.initialReasons);
@@ -100,7 +104,7 @@ export function EntryForm(props: {
     choose(slot, keep);
   }
 
-  const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today }), [props.sownOn, props.transplantedOn, props.today]);
+  const ctx = useMemo(() => ({ sownOn: props.sownOn, transplantedOn: props.transplantedOn, today: props.today, t: words }), [props.sownOn, props.transplantedOn, props.today, words]);
 
   // Dates out of order, from what is in the fields now (typed, not only saved), under every date involved.
   // The packet's days to maturity stay on the server (growers record blind); its warnings come with a save.
@@ -167,7 +171,7 @@ export function EntryForm(props: {
     if (!fillColumn) return;
     const parsed = parseCell(fillColumn, fillValue, ctx);
     if (fillValue.trim() === "" || !parsed.ok) {
-      setFillError(parsed.ok ? "Type the value to fill in." : parsed.message);
+      setFillError(parsed.ok ? t("typeValue") : parsed.message);
       return;
     }
     setInputs((i) => ({ ...i, ...Object.fromEntries(emptyPlots.map((p) => [slotOf(p.id, fillColumn.key), fillValue])) }));
@@ -190,7 +194,7 @@ export function EntryForm(props: {
       <div className="sticky top-0 z-10 -mx-4 space-y-3 border-b border-husk-200 bg-husk-50 px-4 py-3">
         <div>
           <label htmlFor="entry-column" className="block text-sm font-semibold text-loam-900">
-            What are you recording?
+            {t("whatRecording")}
           </label>
           <select id="entry-column" value={choice} onChange={(e) => setChoice(e.target.value)} className="mt-1 block min-h-12 w-full rounded-lg border border-loam-300 bg-white px-3 text-base">
             {columns.map((c) => (
@@ -199,22 +203,19 @@ export function EntryForm(props: {
                 {c.unit ? ` (${c.unit})` : ""}
               </option>
             ))}
-            <option value="all">All values, plot by plot</option>
+            <option value="all">{t("allValues")}</option>
           </select>
-          {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">Valid: {describeRange(shown[0])}.</p>}
+          {choice !== "all" && shown[0] && <p className="mt-1 text-sm text-loam-700">{t("valid", { range: describeRange(shown[0], words) })}</p>}
           {fillColumn && emptyPlots.length > 1 && (
             <Button type="button" variant="secondary" className="mt-2" onClick={() => setFilling(true)}>
-              Same value for the {emptyPlots.length} empty plots…
+              {t("sameValue", { count: String(emptyPlots.length) })}
             </Button>
           )}
           {filling && fillColumn && (
-            <Dialog title={`${fillColumn.name}: one value for every empty plot`} onClose={() => setFilling(false)}>
-              <p>
-                This writes the value into the {emptyPlots.length} plots that have no {fillColumn.name.toLowerCase()} yet. Plots with a value or a
-                reason keep theirs. Use it only where the value really is the same, such as seeds sown.
-              </p>
+            <Dialog title={t("fillTitle", { column: fillColumn.name })} onClose={() => setFilling(false)}>
+              <p>{t("fillHelp", { count: String(emptyPlots.length), column: fillColumn.name.toLowerCase() })}</p>
               <label htmlFor="fill-value" className="block text-sm font-semibold">
-                Value ({describeRange(fillColumn)})
+                {t("fillValue", { range: describeRange(fillColumn, words) })}
               </label>
               <input
                 id="fill-value"
@@ -229,7 +230,7 @@ export function EntryForm(props: {
                 {fillError}
               </p>
               <Button type="button" onClick={fillDown}>
-                Fill {emptyPlots.length} plots
+                {t("fill", { count: String(emptyPlots.length) })}
               </Button>
             </Dialog>
           )}
@@ -258,13 +259,13 @@ export function EntryForm(props: {
             <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
               <span className="font-mono text-lg font-bold text-loam-900">{p.plotCode}</span>
               <span className="text-sm text-loam-700">
-                Block {p.block} · Code <span className="font-semibold">{p.blindCode}</span>
-                {` · ${plotPlace(props.plotUnit, p, props.plotSize)}`}
+                {t("blockCode", { block: String(p.block) })} <span className="font-semibold">{p.blindCode}</span>
+                {` · ${plotPlace(props.plotUnit, p, props.plotSize, words)}`}
               </span>
             </div>
             {props.comments[p.id]?.map((c, i) => (
               <p key={i} className="mb-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
-                Coordinator: {c}
+                {t("coordinator", { comment: c })}
               </p>
             ))}
             <div className={cn("grid gap-3", choice === "all" && "sm:grid-cols-2")}>
@@ -277,7 +278,7 @@ export function EntryForm(props: {
                 const whyId = `${id}-why`;
                 const waitingHere = queue[slot];
                 const serverToken = knownFromToken(savedTokens[slot]);
-                const onServer = serverToken.value === null && serverToken.missingReason === null ? OFFLINE_WORDS.nothingSavedYet : OFFLINE_WORDS.savedOnSeedplot(shownValue(serverToken.value ?? "", serverToken.missingReason));
+                const onServer = serverToken.value === null && serverToken.missingReason === null ? OFFLINE_WORDS.nothingSavedYet : OFFLINE_WORDS.savedOnSeedplot(shownValue(serverToken.value ?? "", serverToken.missingReason, reasonLabels));
                 // Packet warnings belong to the value saved (the latest save's answer, else the page's); once the
                 // field shows something else they are stale.
                 const packet = slot in savedWarnings ? savedWarnings[slot]!.filter((w) => w.kind === "far_from_packet").map((w) => w.message) : (props.packetChecks[slot] ?? []);
@@ -300,8 +301,8 @@ export function EntryForm(props: {
                     {c.valueType === "yes_no" ? (
                       <select {...common} value={inputs[slot] ?? ""} onChange={(e) => { setInputs((i) => ({ ...i, [slot]: e.target.value })); commit(p.id, c, e.target.value); }}>
                         <option value="">—</option>
-                        <option value="yes">Yes</option>
-                        <option value="no">No</option>
+                        <option value="yes">{words("common.yes")}</option>
+                        <option value="no">{words("common.no")}</option>
                       </select>
                     ) : (
                       <input
@@ -311,7 +312,7 @@ export function EntryForm(props: {
                         autoComplete="off"
                         enterKeyHint="next"
                         value={inputs[slot] ?? ""}
-                        placeholder={reason ? "No value" : undefined}
+                        placeholder={reason ? t("noValue") : undefined}
                         onChange={(e) => {
                           const value = e.target.value;
                           setInputs((i) => ({ ...i, [slot]: value }));
@@ -332,13 +333,13 @@ export function EntryForm(props: {
                       <p id={`${id}-state`} className={cn("min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
                         {err ??
                           (waitingHere && !waitingHere.conflict
-                            ? `${st === "saving" ? OFFLINE_WORDS.stateSaving : OFFLINE_WORDS.stateWaiting} · ${onServer}`
+                            ? `${st === "saving" ? t("saving") : OFFLINE_WORDS.stateWaiting} · ${onServer}`
                             : st === "saving"
-                              ? OFFLINE_WORDS.stateSaving
+                              ? t("saving")
                               : st === "saved"
-                                ? OFFLINE_WORDS.stateSaved
+                                ? t("savedState")
                                 : choice === "all" && !reason
-                                  ? describeRange(c)
+                                  ? describeRange(c, words)
                                   : "")}
                       </p>
                       {!reason && !askWhy[slot] && !props.locked && (
@@ -351,10 +352,10 @@ export function EntryForm(props: {
                           }}
                         >
                           {/* the spoken name starts with the visible words, so voice control finds it */}
-                          No value?
+                          {t("noValueQ")}
                           <span className="sr-only">
                             {" "}
-                            {p.plotCode}, {c.name}: say why
+                            {t("sayWhy", { plot: p.plotCode, column: c.name })}
                           </span>
                         </button>
                       )}
@@ -362,13 +363,13 @@ export function EntryForm(props: {
                     {waitingHere?.conflict && (
                       <div id={`${id}-conflict`} role="group" aria-label={`${p.plotCode}, ${c.name}: ${OFFLINE_WORDS.conflictTitle}`} className="mt-1 space-y-2 rounded-lg border border-beet-600 bg-white px-3 py-2 text-sm text-loam-900">
                         <p className="font-semibold text-beet-700">{OFFLINE_WORDS.conflictTitle}</p>
-                        <p>{OFFLINE_WORDS.conflictBoth(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason), shownValue(waitingHere.value, waitingHere.reason))}</p>
+                        <p>{OFFLINE_WORDS.conflictBoth(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels), shownValue(waitingHere.value, waitingHere.reason, reasonLabels))}</p>
                         <div className="flex flex-wrap gap-2">
                           <Button type="button" variant="secondary" onClick={() => settle(slot, "theirs")}>
-                            {OFFLINE_WORDS.keepTheirs(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason))}
+                            {OFFLINE_WORDS.keepTheirs(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels))}
                           </Button>
                           <Button type="button" variant="secondary" onClick={() => settle(slot, "mine")}>
-                            {OFFLINE_WORDS.useMine(shownValue(waitingHere.value, waitingHere.reason))}
+                            {OFFLINE_WORDS.useMine(shownValue(waitingHere.value, waitingHere.reason, reasonLabels))}
                           </Button>
                         </div>
                       </div>
@@ -377,7 +378,7 @@ export function EntryForm(props: {
                       <div id={`${id}-check`} className="mt-1 space-y-1 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-sm text-marigold-800">
                         {toCheck.map((m) => (
                           <p key={m}>
-                            <span className="font-semibold">Check: </span>
+                            <span className="font-semibold">{t("check")}</span>
                             {m}
                           </p>
                         ))}
@@ -386,7 +387,7 @@ export function EntryForm(props: {
                     {(reason || askWhy[slot]) && (
                       <div className="mt-1">
                         <label htmlFor={whyId} className="block text-sm font-semibold text-loam-900">
-                          <span className="sr-only">{p.plotCode}, {c.name}: </span>No value because
+                          <span className="sr-only">{p.plotCode}, {c.name}: </span>{t("noValueBecause")}
                         </label>
                         <select
                           id={whyId}
@@ -395,8 +396,8 @@ export function EntryForm(props: {
                           onChange={(e) => chooseReason(p.id, c, e.target.value)}
                           className={cn("mt-1 block min-h-11 w-full rounded-lg border px-3 text-base", reason ? "border-marigold-400 bg-marigold-100 text-marigold-800" : "border-loam-300 bg-white")}
                         >
-                          <option value="">— there is a value —</option>
-                          {REASON_OPTIONS.map(([r, label]) => (
+                          <option value="">{t("thereIsValue")}</option>
+                          {reasonOptions.map(([r, label]) => (
                             <option key={r} value={r}>
                               {label}
                             </option>

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { useLocale, useTranslations } from "next-intl";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import type { listRecordableSites } from "@/server/observations/sheet";
@@ -7,7 +8,9 @@ type Sites = Awaited<ReturnType<typeof listRecordableSites>>;
 
 /** The viewer's sites in trials taking data, late ones first. */
 export function RecordableSitesList({ sites }: { sites: Sites }) {
-  if (sites.length === 0) return <p className="text-loam-700">No trials are taking data at your sites right now.</p>;
+  const t = useTranslations("record");
+  const locale = useLocale();
+  if (sites.length === 0) return <p className="text-loam-700">{t("noneTaking")}</p>;
   const ordered = [...sites].sort((a, b) => b.late.length - a.late.length || b.dueToday.length - a.dueToday.length);
   return (
     <ul className="space-y-3">
@@ -19,11 +22,11 @@ export function RecordableSitesList({ sites }: { sites: Sites }) {
               <SubmissionStatusBadge status={s.submissionStatus ?? "draft"} />
             </span>
             <span className="block text-loam-700">
-              {s.trialTitle} <span className="font-mono text-sm">{s.trialCode}</span> · sown {formatDate(s.sownOn)} · {s.plotCount} plots
+              {s.trialTitle} <span className="font-mono text-sm">{s.trialCode}</span> · {t("siteListLine", { date: formatDate(s.sownOn, locale), plots: s.plotCount })}
             </span>
-            {s.late.length > 0 && <span className="mt-1 block font-semibold text-beet-700">Late: {s.late.map((d) => d.label).join(", ")}</span>}
-            {s.dueToday.length > 0 && <span className="mt-1 block font-semibold text-marigold-800">Due today: {s.dueToday.map((d) => d.label).join(", ")}</span>}
-            {s.openComments > 0 && <span className="mt-1 block font-semibold text-sky-800">{s.openComments} comment(s) from your coordinator</span>}
+            {s.late.length > 0 && <span className="mt-1 block font-semibold text-beet-700">{t("lateList", { items: s.late.map((d) => d.label).join(", ") })}</span>}
+            {s.dueToday.length > 0 && <span className="mt-1 block font-semibold text-marigold-800">{t("todayList", { items: s.dueToday.map((d) => d.label).join(", ") })}</span>}
+            {s.openComments > 0 && <span className="mt-1 block font-semibold text-sky-800">{t("commentsFrom", { count: s.openComments })}</span>}
           </Link>
         </li>
       ))}

@@ -2,6 +2,7 @@
 
 import { useRef, useState } from "react";
 import Link from "next/link";
+import { useTranslations } from "next-intl";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
 import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/domain/request-limits";
@@ -59,6 +60,7 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
   const [preview, setPreview] = useState<Preview | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [saved, setSaved] = useState<number | null>(null);
+  const t = useTranslations("upload");
 
   async function run(mode: "preview" | "commit") {
     if (!file) return;
@@ -75,19 +77,19 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
         if (pct >= 100) setPhase(mode === "preview" ? "checking" : "saving");
       });
       const body = res.body as (Preview & { error?: string; saved?: number; preview?: Preview }) | null;
-      if (!body) setError("The server did not answer as expected. Nothing was saved. Please try again.");
+      if (!body) setError(t("noAnswer"));
       else if (mode === "preview") {
-        if (res.status >= 400) setError(body.error ?? "The file could not be checked.");
+        if (res.status >= 400) setError(body.error ?? t("couldNotCheck"));
         else setPreview(body);
       } else if (res.status === 200) {
         setSaved(body.saved ?? 0);
         setPreview(null);
       } else {
-        setError(body.error ?? "Nothing was saved: the file has problems. See the list below.");
+        setError(body.error ?? t("hasProblems"));
         if (body.preview) setPreview(body.preview);
       }
     } catch {
-      setError("The upload did not get through. Check your connection and try again; nothing was saved.");
+      setError(t("noConnection"));
     } finally {
       setPhase("done");
       setProgress(null);
@@ -99,7 +101,7 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
     <div className="space-y-4">
       <div className="space-y-2 rounded-xl border border-husk-200 bg-white p-4">
         <label htmlFor="upload-file" className="block font-semibold text-loam-900">
-          Spreadsheet (.xlsx or .csv, up to {statedFileLimit("spreadsheet")})
+          {t("fileLabel", { limit: statedFileLimit("spreadsheet") })}
         </label>
         <input
           ref={input}
@@ -115,26 +117,26 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
           }}
         />
         <Button type="button" onClick={() => run("preview")} disabled={!file || busy}>
-          Check the file
+          {t("check")}
         </Button>
         <div aria-live="polite" role="status" className="text-sm">
           {progress !== null && phase === "uploading" && (
             <div className="space-y-1">
-              <progress max={100} value={progress} className="h-3 w-full" aria-label="Upload progress" />
-              <span>Uploading… {progress}%</span>
+              <progress max={100} value={progress} className="h-3 w-full" aria-label={t("progress")} />
+              <span>{t("uploading", { pct: String(progress) })}</span>
             </div>
           )}
-          {phase === "checking" && <span>Checking every row…</span>}
-          {phase === "saving" && <span>Saving…</span>}
+          {phase === "checking" && <span>{t("checking")}</span>}
+          {phase === "saving" && <span>{t("saving")}</span>}
         </div>
       </div>
 
       {error && <p className="rounded-lg border border-beet-600 bg-beet-50 px-3 py-2 font-medium text-beet-700">{error}</p>}
       {saved !== null && (
         <div className="rounded-lg border border-sprout-500 bg-sprout-50 px-3 py-2 text-sprout-700">
-          <p className="font-semibold">Saved: {saved} {saved === 1 ? "value" : "values"} recorded or corrected. Earlier values are kept in the history.</p>
+          <p className="font-semibold">{t("saved", { count: saved })}</p>
           <Link href={backHref} className={buttonClasses("secondary", "mt-2")}>
-            Back to the plots
+            {t("backToPlots")}
           </Link>
         </div>
       )}
@@ -143,19 +145,25 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
   );
 }
 
-const where = (p: Problem) => `${p.row ? `Row ${p.row}` : "File"}${p.column ? `, ${p.column}` : ""}`;
+type Words = ReturnType<typeof useTranslations<"upload">>;
+
+/** Where a problem is, as the grower finds it in their spreadsheet: "Row 5, column E (Quality [1-9])". */
+const where = (t: Words, p: Problem) => {
+  const place = p.row ? t("row", { row: String(p.row) }) : t("file");
+  return p.column ? t("where", { place, column: p.column }) : place;
+};
 
 function WarningList({ warnings }: { warnings: Problem[] }) {
+  const t = useTranslations("upload");
   return (
     <div className="space-y-2 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
       <p>
-        <span className="font-semibold">Worth a second look ({warnings.length}).</span> These values can be saved as written, and the coordinator sees them under Values to check. If one is wrong,
-        correct the sheet and check the file again.
+        <span className="font-semibold">{t("secondLook", { count: String(warnings.length) })}</span> {t("secondLookHelp")}
       </p>
       <ul className="list-disc space-y-1 pl-5">
         {warnings.slice(0, 200).map((w, i) => (
           <li key={i}>
-            {where(w)}: {w.message}
+            {where(t, w)}: {w.message}
           </li>
         ))}
       </ul>
@@ -164,40 +172,41 @@ function WarningList({ warnings }: { warnings: Problem[] }) {
 }
 
 function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boolean; onCommit: () => void }) {
+  const t = useTranslations("upload");
   if (preview.refused) {
     return (
       <div className="rounded-xl border border-beet-600 bg-beet-50 p-4 text-beet-700" role="alert">
-        <p className="font-bold">This file cannot be used. Nothing was saved.</p>
+        <p className="font-bold">{t("cannotUse")}</p>
         <p>{preview.refused}</p>
       </div>
     );
   }
   const c = preview.counts!;
   return (
-    <section className="space-y-3 rounded-xl border border-husk-200 bg-white p-4" aria-label="What this file would change">
-      <h3 className="text-lg font-bold text-loam-900">What this file would change</h3>
+    <section className="space-y-3 rounded-xl border border-husk-200 bg-white p-4" aria-label={t("wouldChange")}>
+      <h3 className="text-lg font-bold text-loam-900">{t("wouldChange")}</h3>
       {preview.sheet && (
         <p className="text-loam-700">
-          Read from the sheet “{preview.sheet}”.
-          {preview.otherSheets && preview.otherSheets.length > 0 && ` Not read: ${preview.otherSheets.map((n) => `“${n}”`).join(", ")}.`}
+          {t("readFrom", { sheet: preview.sheet })}
+          {preview.otherSheets && preview.otherSheets.length > 0 && t("notRead", { sheets: preview.otherSheets.map((n) => `“${n}”`).join(", ") })}
         </p>
       )}
       <p className="flex flex-wrap gap-2">
-        <Badge tone="good">{c.new} new</Badge>
-        <Badge tone="warn">{c.changed} changed</Badge>
-        <Badge>{c.unchanged} unchanged</Badge>
-        {preview.blankRows && preview.blankRows.length > 0 && <Badge>{preview.blankRows.length} empty rows skipped</Badge>}
+        <Badge tone="good">{t("new", { count: c.new })}</Badge>
+        <Badge tone="warn">{t("changed", { count: c.changed })}</Badge>
+        <Badge>{t("unchanged", { count: c.unchanged })}</Badge>
+        {preview.blankRows && preview.blankRows.length > 0 && <Badge>{t("emptyRows", { count: String(preview.blankRows.length) })}</Badge>}
       </p>
       {preview.warnings && preview.warnings.length > 0 && <WarningList warnings={preview.warnings} />}
       {preview.problems.length > 0 ? (
         <div role="alert" className="space-y-2">
           <p className="font-semibold text-beet-700">
-            {preview.problems.length} {preview.problems.length === 1 ? "problem needs" : "problems need"} fixing before anything can be saved. Correct the sheet and upload it again.
+            {t("problems", { count: preview.problems.length })}
           </p>
           <ul className="list-disc space-y-1 pl-5 text-beet-700">
             {preview.problems.slice(0, 200).map((p, i) => (
               <li key={i}>
-                {where(p)}: {p.message}
+                {where(t, p)}: {p.message}
               </li>
             ))}
           </ul>
@@ -207,14 +216,14 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
           {preview.changes && preview.changes.length > 0 && (
             <div className="max-h-96 overflow-auto">
               <table className="w-full text-left text-sm">
-                <caption className="sr-only">Values that would be saved</caption>
+                <caption className="sr-only">{t("valuesToSave")}</caption>
                 <thead className="border-b border-husk-200 text-loam-700">
                   <tr>
-                    <th scope="col" className="py-1 pr-2">Row</th>
-                    <th scope="col" className="py-1 pr-2">Plot</th>
-                    <th scope="col" className="py-1 pr-2">Column</th>
-                    <th scope="col" className="py-1 pr-2">Now</th>
-                    <th scope="col" className="py-1">New</th>
+                    <th scope="col" className="py-1 pr-2">{t("colRow")}</th>
+                    <th scope="col" className="py-1 pr-2">{t("colPlot")}</th>
+                    <th scope="col" className="py-1 pr-2">{t("colColumn")}</th>
+                    <th scope="col" className="py-1 pr-2">{t("colNow")}</th>
+                    <th scope="col" className="py-1">{t("colNew")}</th>
                   </tr>
                 </thead>
                 <tbody>
@@ -231,9 +240,9 @@ function PreviewPanel({ preview, busy, onCommit }: { preview: Preview; busy: boo
               </table>
             </div>
           )}
-          {c.new + c.changed === 0 && <p className="text-loam-700">Every value in this file is already saved, so there is nothing new to save.</p>}
+          {c.new + c.changed === 0 && <p className="text-loam-700">{t("nothingNew")}</p>}
           <Button type="button" onClick={onCommit} disabled={busy || c.new + c.changed === 0}>
-            {c.new + c.changed === 0 ? "Nothing to save" : `Save ${c.new + c.changed} values`}
+            {c.new + c.changed === 0 ? t("nothingToSave") : t("saveValues", { count: String(c.new + c.changed) })}
           </Button>
         </>
       )}

@@ -1,5 +1,6 @@
 "use client";
 import { useActionState } from "react";
+import { useTranslations } from "next-intl";
 import { SelectField } from "@/components/ui/field";
 import { SubmitButton } from "@/components/ui/submit-button";
 import { FormMessage } from "@/components/ui/form-message";
@@ -99,11 +100,12 @@ export function AcceptForm({ site }: { site: Site }) {
 /** The grower's "send for review" button. */
 export function SubmitForReviewForm({ site }: { site: Site }) {
   const [state, action] = useActionState(submitForReview, null);
+  const t = useTranslations("record");
   return (
     <form action={action} className="space-y-3">
       <Hidden site={site} />
       <FormMessage state={state} />
-      <SubmitButton pendingText="Sending…">Send for review</SubmitButton>
+      <SubmitButton pendingText={t("sending")}>{t("sendForReview")}</SubmitButton>
     </form>
   );
 }

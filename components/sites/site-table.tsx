@@ -4,6 +4,7 @@ import { DataTable } from "@/components/ui/data-table";
 import { Badge } from "@/components/ui/badge";
 import type { SiteRow } from "@/db/queries/sites";
 import { SETUP_LABELS, SITE_KIND_LABELS } from "@/lib/domain/vocabulary/labels";
+import { PrintLanguageForm } from "./print-language-form";
 
 const columns: ColumnDef<SiteRow, unknown>[] = [
   { accessorKey: "name", header: "Site", cell: (c) => <span className="font-semibold">{c.row.original.name}</span> },
@@ -28,6 +29,13 @@ const columns: ColumnDef<SiteRow, unknown>[] = [
         </ul>
       );
     },
+  },
+  {
+    id: "printLocale",
+    header: "Printouts in",
+    enableSorting: false,
+    accessorFn: (r) => r.printLocale ?? "",
+    cell: (c) => <PrintLanguageForm siteId={c.row.original.id} siteName={c.row.original.name} current={c.row.original.printLocale} />,
   },
 ];
 

@@ -1,3 +1,4 @@
+import { useTranslations } from "next-intl";
 import { Badge } from "@/components/ui/badge";
 import type { SubmissionStatus, TrialStatus } from "@/lib/domain/vocabulary/enums";
 import {
@@ -7,7 +8,6 @@ import {
   SEASON_STATE_TONES,
   STATUS_LABELS,
   STATUS_TONES,
-  SUBMISSION_LABELS,
   SUBMISSION_TONES,
   type InvitationState,
   type SeasonState,
@@ -20,7 +20,8 @@ export function TrialStatusBadge({ status }: { status: TrialStatus }) {
 
 /** A site's data status (being recorded, sent for review, returned, accepted) in its words and its one tone. */
 export function SubmissionStatusBadge({ status }: { status: SubmissionStatus }) {
-  return <Badge tone={SUBMISSION_TONES[status]}>{SUBMISSION_LABELS[status]}</Badge>;
+  const t = useTranslations("record");
+  return <Badge tone={SUBMISSION_TONES[status]}>{t("status", { status })}</Badge>;
 }
 
 /** Whether a season takes new trials. */

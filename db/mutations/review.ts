@@ -24,7 +24,7 @@ export async function lockSubmission(tx: Tx, viewer: Viewer, p: { trialId: numbe
 /** The site's active growers (its cooperator and everyone attached to the site). */
 export async function listGrowerRecipients(tx: Tx, enrolment: RecordableEnrolment) {
   return tx
-    .selectDistinct({ email: users.email, name: users.name })
+    .selectDistinct({ email: users.email, name: users.name, locale: users.locale })
     .from(users)
     .where(
       and(

@@ -2,10 +2,11 @@ import "server-only";
 import { db } from "../index";
 import { sites } from "../schema";
 import { insertAudit } from "../audit";
-import { isDuplicateKey, requireStaff, resolveProgram } from "../access";
+import { and, eq } from "drizzle-orm";
+import { isDuplicateKey, requireStaff, resolveProgram, staffSiteScope } from "../access";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
-import type { GrowingSetup, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+import type { GrowingSetup, Locale, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
 
 /** A partner site as the form delivers it once validated (lib/validation/sites.ts). */
 export interface SiteInput {
@@ -55,4 +56,15 @@ export async function insertSite(viewer: Viewer, input: SiteInput) {
     if (isDuplicateKey(e)) throw new AppError("conflict", "This program already has a site with this name.", { name: ["This program already has a site with this name."] });
     throw e;
   }
+}
+
+/** Sets the language of one of the viewer's program's sites' printouts (null: the language of whoever prints). */
+export async function updateSitePrintLocale(viewer: Viewer, p: { siteId: number; printLocale: Locale | null }) {
+  requireStaff(viewer);
+  await db.transaction(async (tx) => {
+    const [site] = await tx.select({ printLocale: sites.printLocale }).from(sites).where(and(eq(sites.id, p.siteId), staffSiteScope(viewer))).for("update");
+    if (!site) throw new AppError("not_found", "That site does not exist, or it is not one of your program's.");
+    await tx.update(sites).set({ printLocale: p.printLocale }).where(eq(sites.id, p.siteId));
+    await insertAudit(tx, { actorId: viewer.id, action: "change_print_language", entity: "site", entityId: p.siteId, oldValue: { printLocale: site.printLocale }, newValue: { printLocale: p.printLocale } });
+  });
 }

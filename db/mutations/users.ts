@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, eq, inArray, isNull, not, sql } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { programCoordinators, programs, siteCooperators, sites, users, userTokens } from "../schema";
-import type { Role } from "@/lib/domain/vocabulary/enums";
+import type { Locale, Role } from "@/lib/domain/vocabulary/enums";
 import { insertAudit } from "../audit";
 import { isDuplicateKey, requireStaff, staffSiteScope } from "../access";
 import { insertMail } from "./mail";
@@ -267,5 +267,15 @@ export async function replaceCoordinatorPrograms(tx: Tx, p: { viewer: Viewer; us
     entityId: p.userId,
     oldValue: { programIds: before.map((r) => r.id).sort((a, b) => a - b) },
     newValue: { programIds: [...p.programIds].sort((a, b) => a - b) },
+  });
+}
+
+/** Sets the language of one person's own screens, mails and printouts (the caller passes the viewer's own id). */
+export async function updateUserLocale(p: { userId: number; locale: Locale }) {
+  await db.transaction(async (tx) => {
+    const [user] = await tx.select({ locale: users.locale }).from(users).where(eq(users.id, p.userId)).for("update");
+    if (!user) throw new AppError("not_found", "That account no longer exists.");
+    await tx.update(users).set({ locale: p.locale }).where(eq(users.id, p.userId));
+    await insertAudit(tx, { actorId: p.userId, action: "change_language", entity: "user", entityId: p.userId, oldValue: { locale: user.locale }, newValue: { locale: p.locale } });
   });
 }

@@ -19,6 +19,7 @@ export async function listSitesForStaff(viewer: Viewer) {
       growingSetup: sites.growingSetup,
       soil: sites.soil,
       irrigation: sites.irrigation,
+      printLocale: sites.printLocale,
       latitude: sites.latitude,
       longitude: sites.longitude,
       contactName: sites.contactName,

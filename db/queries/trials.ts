@@ -143,6 +143,7 @@ export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId
       siteName: sites.name,
       region: sites.region,
       growingSetup: sites.growingSetup,
+      printLocale: sites.printLocale,
     })
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))

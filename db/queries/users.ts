@@ -32,7 +32,7 @@ export async function getSignInRecord(email: string) {
  */
 export async function getActiveViewer(userId: number, sessionGeneration: number): Promise<Viewer | null> {
   const [row] = await db
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role })
+    .select({ id: users.id, email: users.email, name: users.name, role: users.role, locale: users.locale })
     .from(users)
     .where(and(eq(users.id, userId), eq(users.active, true), eq(users.sessionGeneration, sessionGeneration)))
     .limit(1);

@@ -1,6 +1,6 @@
 import { decimal, index, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { GROWING_SETUPS, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+import { GROWING_SETUPS, LOCALES, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
 import { users } from "./users";
 import { programs } from "./programs";
 
@@ -22,6 +22,9 @@ export const sites = mysqlTable(
     soil: varchar("soil", { length: 160 }),
     irrigation: varchar("irrigation", { length: 160 }),
     publicDescription: text("public_description"),
+    // The language of the site's printouts (field sheets, labels, tray maps, packing lists); null prints in the
+    // language of whoever prints them.
+    printLocale: mysqlEnum("print_locale", LOCALES),
     contactName: varchar("contact_name", { length: 120 }),
     contactEmail: varchar("contact_email", { length: 254 }),
     contactPhone: varchar("contact_phone", { length: 40 }),

@@ -1,6 +1,6 @@
 import { boolean, index, int, mysqlEnum, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { createdAt, id, ref, updatedAt } from "./columns";
-import { ROLES, TOKEN_KINDS } from "@/lib/domain/vocabulary/enums";
+import { LOCALES, ROLES, TOKEN_KINDS } from "@/lib/domain/vocabulary/enums";
 
 export const users = mysqlTable(
   "users",
@@ -12,6 +12,8 @@ export const users = mysqlTable(
     // Null until an invited person sets a password.
     passwordHash: varchar("password_hash", { length: 255 }),
     phone: varchar("phone", { length: 40 }),
+    // The language of the person's screens, mails and printouts; each person sets their own.
+    locale: mysqlEnum("locale", LOCALES).notNull().default("en"),
     active: boolean("active").notNull().default(true),
     // Each session carries the value it was issued with; raising it (sign-out, a new password,
     // deactivation) ends every session issued before.

@@ -1,6 +1,7 @@
 // When observations fall due at a site: pure date arithmetic over the site's own sowing date.
 
 import type { EntryColumn } from "@/lib/domain/observations/columns";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 /**
  * done: every plot has a value (or a reason it has none); late: its day has passed; due_today;
@@ -50,7 +51,10 @@ export function scheduleForSite(p: {
   columns: readonly ScheduleColumn[];
   recorded: Map<string, number>; // key `${traitId}:${occasion}`
   today: string;
+  /** The reader's language for `when` and labels; English when absent. */
+  t?: Translator;
 }): DueItem[] {
+  const t = p.t ?? translatorFor();
   if (!p.sownOn || p.plotCount === 0) return [];
   const soon = addDays(p.today, DUE_SOON_DAYS);
   const items: DueItem[] = [];
@@ -77,7 +81,7 @@ export function scheduleForSite(p: {
       occasion: c.occasion,
       label: c.name === traitName ? traitName : `${traitName}, day ${c.occasion}`,
       dueOn,
-      when: c.dueDay === null ? (c.dueNote ?? "when it happens").replace(/^./, (ch) => ch.toLowerCase()) : `day ${c.dueDay} after sowing`,
+      when: c.dueDay === null ? (c.dueNote ?? t("schedule.whenItHappens")).replace(/^./, (ch) => ch.toLowerCase()) : t("schedule.daysAfterSowing", { day: String(c.dueDay) }),
       expected: p.plotCount,
       recorded,
       status,

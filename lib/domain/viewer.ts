@@ -1,4 +1,4 @@
-import type { Role } from "@/lib/domain/vocabulary/enums";
+import type { Locale, Role } from "@/lib/domain/vocabulary/enums";
 
 /** The signed-in person as the rest of the app sees them. */
 export interface Viewer {
@@ -6,4 +6,6 @@ export interface Viewer {
   email: string;
   name: string;
   role: Role;
+  /** Their language for screens, mails and printouts; absent means English. */
+  locale?: Locale;
 }

@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { GROWING_SETUPS, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+import { GROWING_SETUPS, LOCALES, SITE_KINDS } from "@/lib/domain/vocabulary/enums";
+import { id } from "./common";
 import { optionalId, optionalNumber, optionalText, requiredText } from "./common";
 
 export const siteSchema = z
@@ -22,3 +23,9 @@ export const siteSchema = z
   })
   .refine((v) => (v.latitude === undefined) === (v.longitude === undefined), { path: ["longitude"], message: "Give both latitude and longitude, or neither." })
   .refine((v) => !v.cooperatorEmail || !!v.cooperatorName, { path: ["cooperatorName"], message: "Enter the grower's name to invite them." });
+
+/** The language a site's printouts are in; empty means the language of whoever prints them. */
+export const sitePrintLanguageSchema = z.object({
+  siteId: id("Choose a site."),
+  printLocale: z.preprocess((v) => (v === "" ? null : v), z.enum(LOCALES, { error: "Choose English, Spanish or the reader's language." }).nullable()),
+});

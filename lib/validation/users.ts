@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { id } from "./common";
+import { LOCALES } from "@/lib/domain/vocabulary/enums";
 
 /** Program checkboxes are named `program_<id>`; they are gathered into one list. */
 const withProgramIds = (v: unknown) => {
@@ -37,3 +38,8 @@ export const inviteStaffSchema = z.preprocess(
 export const coordinatorProgramsSchema = z.preprocess(withProgramIds, z.object({ userId: id(), programIds }));
 
 export const invitationSchema = z.object({ userId: id() });
+
+/** A person's own language (profile); only the viewer's own account is ever changed. */
+export const languageSchema = z.object({
+  locale: z.enum(LOCALES, { error: "Choose English or Spanish." }),
+});

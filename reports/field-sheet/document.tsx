@@ -1,5 +1,6 @@
 import { Document, Page, Text, View } from "@react-pdf/renderer";
 import type { SiteSheetData } from "../shared/sheet-data";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { base, Cautions, Footer, Protocol, RULE, SHADE, SheetHeader, registerFonts } from "../shared/pdf";
 
 // Enough writing room per value on a clipboard; more columns go on a following table.
@@ -17,20 +18,19 @@ const cell = { borderRightWidth: 0.75, borderColor: RULE, padding: 3 } as const;
 export function FieldSheetDocument({ data }: { data: SiteSheetData }) {
   registerFonts();
   const groups = chunk(data.columns, COLUMNS_PER_TABLE);
+  const t = translatorFor(data.locale);
   return (
-    <Document title={`Field data sheet – ${data.trialCode} – ${data.siteName}`} author="Seedplot">
+    <Document title={`${t("sheets.fieldSheet")} – ${data.trialCode} – ${data.siteName}`} author="Seedplot" language={data.locale}>
       <Page size={data.pageSize} orientation="landscape" style={base.page}>
-        <SheetHeader data={data} title="Field data sheet" />
-        <Text style={{ marginBottom: 4 }}>
-          Write one value per box. Leave a box empty if you could not record it and note why in the margin (e.g. animal damage, lost label).
-        </Text>
+        <SheetHeader data={data} title={t("sheets.fieldSheet")} />
+        <Text style={{ marginBottom: 4 }}>{t("sheets.fieldSheetHelp")}</Text>
         {groups.map((cols, g) => (
           <View key={g} style={{ marginBottom: 10 }} break={g > 0}>
-            {g > 0 ? <SheetHeader data={data} title={`Field data sheet (continued ${g + 1}/${groups.length})`} /> : null}
+            {g > 0 ? <SheetHeader data={data} title={t("sheets.fieldSheetContinued", { part: String(g + 1), parts: String(groups.length) })} /> : null}
             <View style={{ flexDirection: "row", borderWidth: 0.75, borderColor: RULE, backgroundColor: SHADE }} fixed>
-              <Text style={{ ...cell, width: 62, fontWeight: 700 }}>Plot</Text>
-              <Text style={{ ...cell, width: 36, fontWeight: 700 }}>Block</Text>
-              <Text style={{ ...cell, width: 40, fontWeight: 700 }}>Code</Text>
+              <Text style={{ ...cell, width: 62, fontWeight: 700 }}>{t("sheets.colPlot")}</Text>
+              <Text style={{ ...cell, width: 36, fontWeight: 700 }}>{t("sheets.colBlock")}</Text>
+              <Text style={{ ...cell, width: 40, fontWeight: 700 }}>{t("sheets.colCode")}</Text>
               {cols.map((c, i) => (
                 <View key={i} style={{ ...cell, flex: 1 }}>
                   <Text style={{ fontWeight: 700 }}>{c.heading}</Text>

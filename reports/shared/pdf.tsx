@@ -1,6 +1,7 @@
 import path from "node:path";
 import { Font, StyleSheet, Text, View } from "@react-pdf/renderer";
 import type { SiteSheetData } from "./sheet-data";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 // Fonts ship with the app; nothing is fetched at render time.
 let registered = false;
@@ -47,6 +48,7 @@ export const base = StyleSheet.create({
 });
 
 export function SheetHeader({ data, title }: { data: SiteSheetData; title: string }) {
+  const t = translatorFor(data.locale);
   return (
     <View style={{ marginBottom: 6 }}>
       <Text style={base.h1}>{title}</Text>
@@ -54,27 +56,28 @@ export function SheetHeader({ data, title }: { data: SiteSheetData; title: strin
         {data.trialTitle} ({data.trialCode}) · {data.crop} · {data.season}
       </Text>
       <Text style={base.muted}>
-        Site: {data.siteName}, {data.region} · Sown: {data.sownOn ?? "not yet recorded"} · Layout seed: {data.randomSeed ?? "not randomised"}
+        {t("sheets.site", { site: data.siteName, region: data.region })} · {t("sheets.sown", { date: data.sownOn ?? t("sheets.notSown") })} ·{" "}
+        {t("sheets.layoutSeed", { seed: data.randomSeed === null ? t("sheets.notRandomised") : String(data.randomSeed) })}
       </Text>
     </View>
   );
 }
 
 export function Footer({ data }: { data: SiteSheetData }) {
+  const t = translatorFor(data.locale);
   return (
     <View style={base.footer} fixed>
-      <Text>
-        Seedplot · {data.trialCode} · {data.siteName} · printed {data.generatedOn}
-      </Text>
-      <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
+      <Text>{t("sheets.printed", { trial: data.trialCode, site: data.siteName, date: data.generatedOn })}</Text>
+      <Text render={({ pageNumber, totalPages }) => t("sheets.page", { page: String(pageNumber), total: String(totalPages) })} />
     </View>
   );
 }
 
 export function Cautions({ data }: { data: SiteSheetData }) {
+  const t = translatorFor(data.locale);
   return (
     <View wrap={false} style={{ marginTop: 8, borderWidth: 1, borderColor: "#b5740d", backgroundColor: "#fdf0d5", padding: 6 }}>
-      <Text style={{ fontWeight: 700, marginBottom: 2 }}>Safety and handling</Text>
+      <Text style={{ fontWeight: 700, marginBottom: 2 }}>{t("sheets.safety")}</Text>
       {data.cautions.map((c) => (
         <Text key={c.title} style={{ marginBottom: 2 }}>
           <Text style={{ fontWeight: 600 }}>{c.title}: </Text>
@@ -86,17 +89,18 @@ export function Cautions({ data }: { data: SiteSheetData }) {
 }
 
 export function Protocol({ data }: { data: SiteSheetData }) {
+  const t = translatorFor(data.locale);
   const unit =
     data.plotUnit === "insert"
-      ? `one six-cell insert per plot, ${data.seedsPerCell} seed${data.seedsPerCell === 1 ? "" : "s"} per cell`
+      ? t("sheets.unitInsert", { seeds: data.seedsPerCell })
       : data.plotUnit === "cells"
-        ? `${data.plotSize} cells per plot, ${data.seedsPerCell} seed${data.seedsPerCell === 1 ? "" : "s"} per cell`
-        : `a bed row of ${data.plotSize} plants per plot`;
+        ? t("sheets.unitCells", { cells: String(data.plotSize), seeds: data.seedsPerCell })
+        : t("sheets.unitBed", { plants: String(data.plotSize) });
   return (
     <View wrap={false}>
-      <Text style={base.h2}>Protocol</Text>
+      <Text style={base.h2}>{t("sheets.protocol")}</Text>
       <Text>
-        {data.design === "rcbd" ? `${data.blocks} blocks; every entry once in each block` : `${data.blocks} replicates, completely randomised`}; {unit}.
+        {data.design === "rcbd" ? t("sheets.designRcbd", { blocks: String(data.blocks) }) : t("sheets.designCrd", { blocks: String(data.blocks) })}; {unit}.
       </Text>
       {data.protocol ? <Text style={{ marginTop: 2 }}>{data.protocol}</Text> : null}
     </View>

@@ -1,4 +1,5 @@
 import type { PackingRow } from "@/lib/domain/design/kits";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
 
 // The one DTO every site printable is rendered from. Built by the route from a scoped query; it never
 // carries variety names, so a printed sheet handed to a grower cannot unblind the trial.
@@ -41,4 +42,6 @@ export interface SiteSheetData {
   appUrl: string;
   pageSize: "LETTER" | "A4";
   generatedOn: string;
+  /** The language the sheet prints in: the site's printout language, else the reader's. */
+  locale: Locale;
 }

@@ -7,6 +7,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { crossCheckPlot, displayEntry, displayValue, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 import type { EntryColumn } from "@/lib/domain/observations/columns";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { datesToCheck, type DateCheckKind } from "@/lib/domain/observations/date-order";
 import { todayIso } from "@/lib/domain/schedule";
 import { keyObservations, listTrialColumns } from "./sheet";
@@ -116,7 +117,9 @@ export async function planSiteObservations(
   const colByKey = new Map(columns.map((c) => [c.key, c]));
   const existing = new Map(stored.map((o) => [`${o.plotId}:${o.key}`, o]));
   const site = { sownOn: enrolment.sownOn, transplantedOn: enrolment.transplantedOn };
-  const ctx = { ...site, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas };
+  // Messages in the viewer's language (a grower reads them on the form and in the upload preview).
+  const t = translatorFor(viewer.locale);
+  const ctx = { ...site, today: opts.today ?? todayIso(), textNumberCommas: input.textNumberCommas, t };
 
   const problems: Problem[] = [];
   const accepted: { plot: (typeof plotRows)[number]; column: EntryColumn; value: CellValue | null; reason: MissingReason | null; row?: number; knownSaved?: CellInput["knownSaved"] }[] = [];
@@ -126,16 +129,16 @@ export async function planSiteObservations(
     const column = colByKey.get(cell.key);
     const where = { row: cell.row, plotId: cell.plotId, plotCode: cell.plotCode, key: cell.key, column: column?.heading };
     if (!plot) {
-      problems.push({ ...where, message: cell.plotCode !== undefined ? `Plot "${cell.plotCode}" is not one of this site's plots in this trial. Check the plot id on the label.` : "That plot is not one of this site's plots." });
+      problems.push({ ...where, message: cell.plotCode !== undefined ? t("upload.unknownPlot", { plot: cell.plotCode }) : t("upload.unknownPlotId") });
       continue;
     }
     if (!column) {
-      problems.push({ ...where, message: "This trial does not record that value." });
+      problems.push({ ...where, message: t("upload.notRecorded") });
       continue;
     }
     const slot = `${plot.id}:${column.key}`;
     if (seen.has(slot)) {
-      problems.push({ ...where, message: `Plot ${plot.plotCode} appears more than once${seen.get(slot) ? ` (also row ${seen.get(slot)})` : ""}. Keep one row per plot.` });
+      problems.push({ ...where, message: t("upload.plotTwice", { plot: plot.plotCode, row: seen.get(slot) ? String(seen.get(slot)) : "none" }) });
       continue;
     }
     seen.set(slot, cell.row);
@@ -174,7 +177,7 @@ export async function planSiteObservations(
     const merged = new Map<string, CellValue | null>();
     for (const o of stored) if (o.plotId === plotId) merged.set(o.key, o);
     for (const a of items) merged.set(a.column.key, a.value);
-    for (const issue of crossCheckPlot(columns, merged, new Set(items.map((a) => a.column.key)))) {
+    for (const issue of crossCheckPlot(columns, merged, new Set(items.map((a) => a.column.key)), t)) {
       const a = items.find((x) => x.column.key === issue.key)!;
       problems.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: issue.key, column: a.column.heading, message: issue.message });
     }
@@ -265,7 +268,7 @@ async function saveOnce(viewer: Viewer, input: Parameters<typeof saveSiteObserva
     if (plan.problems.length > 0) {
       const fieldErrors: Record<string, string[]> = {};
       for (const p of plan.problems) (fieldErrors[`${p.plotId ?? p.plotCode ?? "row" + p.row}:${p.key ?? ""}`] ??= []).push(p.message);
-      throw new AppError("bad_request", plan.problems.length === 1 ? plan.problems[0]!.message : `${plan.problems.length} values need fixing. Nothing was saved.`, fieldErrors);
+      throw new AppError("bad_request", plan.problems.length === 1 ? plan.problems[0]!.message : translatorFor(viewer.locale)("upload.valuesNeedFixing", { count: String(plan.problems.length) }), fieldErrors);
     }
     if (plan.conflicts.length > 0) throw new StaleValuesError(plan.conflicts);
     const { enrolment } = plan;

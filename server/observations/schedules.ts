@@ -4,6 +4,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import type { SubmissionStatus } from "@/lib/domain/vocabulary/enums";
 import { scheduleForSite, scheduleSummary, todayIso, type DueItem } from "@/lib/domain/schedule";
 import { entryColumns } from "@/lib/domain/observations/columns";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 export interface SiteSchedule {
   enrolmentId: number;
@@ -32,11 +33,13 @@ async function listSchedules(viewer: Viewer, today: string): Promise<SiteSchedul
     m.set(`${c.traitId}:${c.occasion}`, c.n);
     recordedByEnrolment.set(c.enrolmentId, m);
   }
+  const t = translatorFor(viewer.locale);
   return rows.enrolments.map((r) => {
     const items = scheduleForSite({
+      t,
       sownOn: r.sownOn,
       plotCount: r.plotCount,
-      columns: entryColumns(rows.traits.filter((t) => t.trialId === r.trialId)),
+      columns: entryColumns(rows.traits.filter((trait) => trait.trialId === r.trialId), t),
       recorded: recordedByEnrolment.get(r.enrolmentId) ?? new Map(),
       today,
     });

@@ -7,6 +7,7 @@ import { scheduleForSite, todayIso } from "@/lib/domain/schedule";
 import { getRecordingRows, listPlotPacketDays, listRecordableSiteRows, listTrialTraits, type ObservationRow } from "@/db/queries/observations";
 import { db, type Tx } from "@/db/index";
 import { datesToCheck } from "@/lib/domain/observations/date-order";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 export interface StoredObservation extends CellValue {
   id: number;
@@ -39,7 +40,9 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
   const rows = await getRecordingRows(viewer, p);
   if (!rows) return null;
   const { enrolment, plots: plotRows, submission, comments } = rows;
-  const columns = entryColumns(rows.traits);
+  // Column names, units and due notes in the viewer's language; headings stay the stored ones uploads are read by.
+  const t = translatorFor(viewer.locale);
+  const columns = entryColumns(rows.traits, t);
   const stored = keyObservations(rows.observations, columns);
   const values: Record<number, Record<string, CellValue>> = {};
   const missing: Record<number, Record<string, MissingReason>> = {};
@@ -51,7 +54,7 @@ export async function getRecordingSheet(viewer: Viewer, p: { trialId: number; si
     // A plot marked missing with a reason is done for that count, just like one with a value.
     if (o.valueNumber !== null || o.valueDate !== null || o.valueText !== null || o.missingReason) recorded.set(`${col.traitId}:${col.occasion}`, (recorded.get(`${col.traitId}:${col.occasion}`) ?? 0) + 1);
   }
-  const due = scheduleForSite({ sownOn: enrolment.sownOn, plotCount: plotRows.length, columns, recorded, today });
+  const due = scheduleForSite({ sownOn: enrolment.sownOn, plotCount: plotRows.length, columns, recorded, today, t });
   const observationIds: Record<string, number> = {};
   for (const o of stored) observationIds[`${o.plotId}:${o.key}`] = o.id;
   return {

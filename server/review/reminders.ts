@@ -7,6 +7,7 @@ import { insertMail } from "@/db/mutations/mail";
 import { hasReminderBeenSent, listGrowerRecipients } from "@/db/mutations/review";
 import type { Viewer } from "@/lib/domain/viewer";
 import { reminderMail } from "@/lib/domain/mail/observation-mails";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { getRecordingSheet } from "@/server/observations/sheet";
 import { recordLink } from "./submissions";
@@ -33,10 +34,17 @@ export async function insertDueReminders(p: { today?: string; appUrl: string }) 
       const enrolment = await getRecordableEnrolment(tx, SYSTEM_READER, target, true);
       if (!enrolment) return 0;
       if (await hasReminderBeenSent(tx, { enrolmentId: enrolment.enrolmentId, day: today })) return 0;
-      const label = (d: (typeof overdue)[number]) => `${d.label} (due ${formatDate(d.dueOn)}): ${d.expected - d.recorded} of ${d.expected} plots to record`;
       const recipients = await listGrowerRecipients(tx, enrolment);
       for (const g of recipients) {
-        await insertMail(tx, reminderMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, tomorrow: dueTomorrow.map(label), overdue: overdue.map(label), link: recordLink(p, enrolment) }));
+        // Each grower reads the counts in their own language (trait names, dates and the frame).
+        const t = translatorFor(g.locale);
+        const theirs = g.locale === "en" ? sheet : ((await getRecordingSheet({ ...SYSTEM_READER, locale: g.locale }, target, today)) ?? sheet);
+        const inTheirWords = (d: (typeof overdue)[number]) => theirs.due.find((x) => x.traitId === d.traitId && x.occasion === d.occasion) ?? d;
+        const label = (d: (typeof overdue)[number]) => {
+          const item = inTheirWords(d);
+          return t("mail.reminderItem", { label: item.label, date: formatDate(item.dueOn, g.locale), missing: String(item.expected - item.recorded), expected: String(item.expected) });
+        };
+        await insertMail(tx, reminderMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, tomorrow: dueTomorrow.map(label), overdue: overdue.map(label), link: recordLink(p, enrolment), locale: g.locale }));
       }
       await insertAudit(tx, { actorId: null, action: "reminder.sent", entity: "enrolment", entityId: enrolment.enrolmentId, trialId: enrolment.trialId, newValue: { day: today, to: recipients.length, tomorrow: dueTomorrow.length, overdue: overdue.length } });
       return recipients.length;

@@ -20,6 +20,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { isStaff } from "@/lib/domain/permissions";
 import type { SubmissionStatus } from "@/lib/domain/vocabulary/enums";
 import { dataAcceptedMail, dataReturnedMail, submissionReceivedMail } from "@/lib/domain/mail/observation-mails";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { listTrialColumns } from "@/server/observations/sheet";
 
 export interface Links {
@@ -60,7 +61,7 @@ export async function updateSubmissionAccepted(viewer: Viewer, p: { trialId: num
     await updateCommentsResolved(tx, submission.id);
     await insertAudit(tx, { actorId: viewer.id, action: "submission.accept", entity: "submission", entityId: submission.id, trialId: enrolment.trialId, oldValue: { status: submission.status }, newValue: { status: "accepted" } });
     for (const g of await listGrowerRecipients(tx, enrolment)) {
-      await insertMail(tx, dataAcceptedMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, link: recordLink(links, enrolment) }));
+      await insertMail(tx, dataAcceptedMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, link: recordLink(links, enrolment), locale: g.locale }));
     }
   });
 }
@@ -75,9 +76,11 @@ export async function updateSubmissionReturned(viewer: Viewer, p: { trialId: num
     if (open.length === 0 && !p.message) throw new AppError("bad_request", "Add a comment on a value or a message saying what to check before returning the data.", { message: ["Say what the grower should check."] });
     await updateSubmission(tx, { id: submission.id, status: "returned", reviewedAt: new Date(), reviewedById: viewer.id, reviewComment: p.message ?? null });
     await insertAudit(tx, { actorId: viewer.id, action: "submission.return", entity: "submission", entityId: submission.id, trialId: enrolment.trialId, oldValue: { status: submission.status }, newValue: { status: "returned", message: p.message ?? null, comments: open.length } });
-    const comments = open.map((c) => (c.plotCode ? `Plot ${c.plotCode}: ${c.body}` : c.body));
     for (const g of await listGrowerRecipients(tx, enrolment)) {
-      await insertMail(tx, dataReturnedMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, message: p.message ?? null, comments, link: recordLink(links, enrolment) }));
+      // The frame is in the grower's language; the coordinator's own words go as they were written.
+      const t = translatorFor(g.locale);
+      const comments = open.map((c) => (c.plotCode ? t("record.plotComment", { plot: c.plotCode, comment: c.body }) : c.body));
+      await insertMail(tx, dataReturnedMail({ to: g.email, name: g.name, siteName: enrolment.siteName, trialTitle: enrolment.trialTitle, message: p.message ?? null, comments, link: recordLink(links, enrolment), locale: g.locale }));
     }
   });
 }

@@ -21,6 +21,7 @@ async function templateInput(viewer: Viewer, params: unknown): Promise<TemplateI
     plots: sheet.plots,
     values: sheet.values,
     missing: sheet.missing,
+    locale: viewer.locale,
     fileStem: `${e.trialCode}-${e.siteName}`.replace(/[^A-Za-z0-9]+/g, "-").toLowerCase(),
   };
 }

@@ -8,6 +8,7 @@ import { displayEntry } from "@/lib/domain/observations/values";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { listWords, readUpload, type ReadResult, type SheetRow } from "@/lib/domain/spreadsheets/read";
 import { inspectUpload, UploadRefused } from "@/lib/domain/spreadsheets/safety";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 export interface UploadProblem {
   row: number | null;
@@ -25,9 +26,10 @@ export interface UploadTarget {
 const MAX_PREVIEW_CHANGES = 500;
 
 /** Where a problem is, in the grower's terms: "Row 5, column E (Quality [1-9])". */
-function place(row: number | undefined, letter: string | undefined, heading: string | undefined) {
+function place(t: Translator, row: number | undefined, letter: string | undefined, heading: string | undefined) {
   if (row === undefined) return null;
-  return letter ? `column ${letter}${heading ? ` (${heading})` : ""}` : heading ?? null;
+  if (!letter) return heading ?? null;
+  return heading ? t("upload.columnHeading", { letter, heading }) : t("upload.column", { letter });
 }
 
 /** A cell's value as text, for telling whether two rows of the same plot agree. */
@@ -37,20 +39,21 @@ function cellText(v: unknown): string {
   return String(v).trim();
 }
 
-const shown = (v: string) => (v === "" ? "empty" : `"${v.length > 40 ? `${v.slice(0, 40)}…` : v}"`);
+const shown = (t: Translator, v: string) => (v === "" ? t("upload.empty") : `"${v.length > 40 ? `${v.slice(0, 40)}…` : v}"`);
 
 /** Says which columns two rows of the same plot disagree in, so the grower knows which row to keep. */
-function duplicateMessage(first: SheetRow, again: SheetRow, read: ReadResult, sheet: RecordingSheet): string {
+function duplicateMessage(t: Translator, first: SheetRow, again: SheetRow, read: ReadResult, sheet: RecordingSheet): string {
   const compared: [string, string, string, string][] = [
     [read.letters["#block"]!, "Block", first.block, again.block],
     [read.letters["#code"]!, "Code", first.code, again.code],
     ...sheet.columns.map((c) => [read.letters[c.key]!, c.heading, cellText(first.values[c.key]), cellText(again.values[c.key])] as [string, string, string, string]),
   ];
   const differ = compared.filter(([, , a, b]) => a !== b);
-  if (differ.length === 0) return `Plot ${again.plotCode} is on row ${first.row} and again on row ${again.row}, with the same values. Delete one of the two rows.`;
-  const listed = differ.slice(0, 5).map(([letter, heading, a, b]) => `column ${letter} (${heading}: ${shown(a)} on row ${first.row}, ${shown(b)} on row ${again.row})`);
-  if (differ.length > 5) listed.push(`${differ.length - 5} more columns`);
-  return `Plot ${again.plotCode} is on row ${first.row} and again on row ${again.row}, and the two rows disagree in ${listWords(listed)}. Keep the row with the right values, delete the other, and upload again.`;
+  const rows = { plot: again.plotCode, first: String(first.row), again: String(again.row) };
+  if (differ.length === 0) return t("upload.duplicateSame", rows);
+  const listed = differ.slice(0, 5).map(([letter, heading, a, b]) => t("upload.duplicateColumn", { ...rows, letter, heading, a: shown(t, a), b: shown(t, b) }));
+  if (differ.length > 5) listed.push(t("upload.moreColumns", { count: String(differ.length - 5) }));
+  return t("upload.duplicateDiffer", { ...rows, columns: listWords(listed, t.locale) });
 }
 
 /** What to say about a sheet with plot rows but not one value in them (an unfilled template). */
@@ -81,26 +84,27 @@ async function prepare(viewer: Viewer, t: UploadTarget) {
   const firstRow = new Map<string, SheetRow>();
   const rowProblems: UploadProblem[] = [];
   const cells: CellInput[] = [];
-  const plotColumn = `column ${read.letters["#plot"]} (Plot)`;
+  const tr = translatorFor(viewer.locale);
+  const plotColumn = tr("upload.columnHeading", { letter: read.letters["#plot"]!, heading: "Plot" });
   for (const r of read.rows) {
     const code = r.plotCode.toUpperCase();
     if (!code) {
       const filled = Object.entries(r.values).filter(([, v]) => cellText(v) !== "").map(([key]) => `${read.letters[key]}${r.row}`);
-      const holds = filled.length > 0 ? `, but it holds ${filled.length === 1 ? "a value in cell" : "values in cells"} ${filled.slice(0, 3).join(", ")}${filled.length > 3 ? " and more" : ""}` : "";
-      rowProblems.push({ row: r.row, column: plotColumn, message: `This row has no plot id in cell ${read.letters["#plot"]}${r.row}${holds}. Write the plot id from the label, or delete the row if it is not a plot.` });
+      const holds = filled.length > 0 ? tr("upload.holds", { count: filled.length, cells: filled.slice(0, 3).join(", "), more: filled.length > 3 ? "yes" : "no" }) : "";
+      rowProblems.push({ row: r.row, column: plotColumn, message: tr("upload.noPlotId", { cell: `${read.letters["#plot"]}${r.row}`, holds }) });
       continue;
     }
     const earlier = firstRow.get(code);
     if (earlier) {
-      rowProblems.push({ row: r.row, column: plotColumn, message: duplicateMessage(earlier, r, read, sheet) });
+      rowProblems.push({ row: r.row, column: plotColumn, message: duplicateMessage(tr, earlier, r, read, sheet) });
       continue;
     }
     firstRow.set(code, r);
     const plot = byCode.get(code);
     if (plot) {
       // A sorted or shifted sheet shows up as a block or code that no longer matches the plot id.
-      if (r.block !== "" && r.block !== String(plot.block)) rowProblems.push({ row: r.row, column: `column ${read.letters["#block"]} (Block)`, message: `Plot ${plot.plotCode} is in block ${plot.block}, but this row says block ${r.block}. Check the row was not moved.` });
-      if (r.code !== "" && r.code.toUpperCase() !== plot.blindCode.toUpperCase()) rowProblems.push({ row: r.row, column: `column ${read.letters["#code"]} (Code)`, message: `Plot ${plot.plotCode} has code ${plot.blindCode}, but this row says ${r.code}. Check the row was not moved.` });
+      if (r.block !== "" && r.block !== String(plot.block)) rowProblems.push({ row: r.row, column: tr("upload.columnHeading", { letter: read.letters["#block"]!, heading: "Block" }), message: tr("upload.wrongBlock", { plot: plot.plotCode, block: String(plot.block), said: r.block }) });
+      if (r.code !== "" && r.code.toUpperCase() !== plot.blindCode.toUpperCase()) rowProblems.push({ row: r.row, column: tr("upload.columnHeading", { letter: read.letters["#code"]!, heading: "Code" }), message: tr("upload.wrongCode", { plot: plot.plotCode, code: plot.blindCode, said: r.code }) });
     }
     for (const [key, raw] of Object.entries(r.values)) {
       // An empty cell leaves a recorded value alone, so an older copy of the sheet never erases phone entries.
@@ -128,12 +132,13 @@ async function analyse(viewer: Viewer, t: UploadTarget) {
   const { textNumberCommas } = prep.read;
   const plan = await planSiteObservations(db, viewer, { trialId: t.trialId, siteId: t.siteId, cells: prep.cells, textNumberCommas });
   const letters = prep.read.letters;
+  const tr = translatorFor(viewer.locale);
   const problems: UploadProblem[] = [
     ...prep.rowProblems,
-    ...plan.problems.map((p) => ({ row: p.row ?? null, column: place(p.row, p.key ? letters[p.key] : undefined, p.column), message: p.message })),
+    ...plan.problems.map((p) => ({ row: p.row ?? null, column: place(tr, p.row, p.key ? letters[p.key] : undefined, p.column), message: p.message })),
   ].sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
   // Values that save but are worth a second look; they never stop the save.
-  const warnings: UploadProblem[] = plan.warnings.map((w) => ({ row: w.row ?? null, column: place(w.row, letters[w.key], w.column), message: w.message }));
+  const warnings: UploadProblem[] = plan.warnings.map((w) => ({ row: w.row ?? null, column: place(tr, w.row, letters[w.key], w.column), message: w.message }));
   const changes = plan.changes
     .filter((c) => c.kind !== "unchanged")
     .slice(0, MAX_PREVIEW_CHANGES)

@@ -119,6 +119,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   // Portal pages for everyone signed in.
   "PAGE /portal": [{ note: "home", path: () => "/portal", expect: signedIn("ok") }],
   "PAGE /portal/forbidden": [{ note: "refusal page", path: () => "/portal/forbidden", expect: signedIn("ok") }],
+  "PAGE /portal/account": [{ note: "own account and language", path: () => "/portal/account", expect: signedIn("ok") }],
   "PAGE /portal/record": [{ note: "own sites", path: () => "/portal/record", expect: signedIn("ok") }],
   "PAGE /portal/record/[trialId]/[siteId]": [
     { note: "site B's entry page", path: (i) => `/portal/record/${i.kal}/${i.siteB}`, expect: siteBObject() },
@@ -237,6 +238,8 @@ export const ACTION_MATRIX: Record<string, readonly string[] | "public"> = {
   "review.ts#returnSubmission": ["coordinator", "admin"],
   "review.ts#addReviewComment": ["coordinator", "admin"],
   "sites.ts#createSite": ["coordinator", "admin"],
+  "sites.ts#setSitePrintLanguage": ["coordinator", "admin"],
+  "account.ts#setMyLanguage": ["admin", "coordinator", "cooperator"],
   "trials.ts#createTrial": ["coordinator", "admin"],
   "trials.ts#editTrial": ["coordinator", "admin"],
   "trials.ts#addEntry": ["coordinator", "admin"],

@@ -48,7 +48,7 @@ describe("portal pages for people using assistive technology", () => {
 
   it("has no serious or critical problems on a grower's pages on a phone", async () => {
     const page = await signedIn(DEMO_SITES[0].grower.email, DEMO_PASSWORDS.cooperator, { width: 390, height: 844 });
-    for (const pathname of ["/portal", "/portal/record"]) await expectNoSeriousProblems(page, pathname);
+    for (const pathname of ["/portal", "/portal/account", "/portal/record"]) await expectNoSeriousProblems(page, pathname);
     expect(await currentSection(page).allTextContents()).toEqual(["Record data"]);
     // the data-entry page itself, with a field per plot and trait, for the trial still taking values
     const entryPath = await page.locator('main a[href^="/portal/record/"]', { hasText: "Baby-leaf kale" }).first().getAttribute("href");

@@ -5,7 +5,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 
 /** A demo person as the app sees them after sign-in. */
 export async function demoViewer(db: Database, email: string): Promise<Viewer> {
-  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
+  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role, locale: s.users.locale }).from(s.users).where(eq(s.users.email, email));
   if (!u) throw new Error(`demo user ${email} missing; reseed the test database`);
   return u;
 }

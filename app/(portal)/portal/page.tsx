@@ -4,6 +4,7 @@ import { listMyPublishedTrials, listMySites, listTrialsForViewer } from "@/db/qu
 import { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import { listUsersForAdmin } from "@/db/queries/users";
 import { listMyLayouts } from "@/db/queries/trials";
+import { getTranslations } from "next-intl/server";
 import { Card } from "@/components/ui/card";
 import { LateSitesList, MyLayouts, MySchedules, SectionLink, TrialsTable, UsersSummary } from "@/components/portal/home-sections";
 
@@ -13,14 +14,14 @@ export default async function PortalHome() {
   const viewer = await requireUser();
 
   if (viewer.role === "cooperator") {
-    const [schedules, sites, layouts, published] = await Promise.all([listMySchedules(viewer), listMySites(viewer), listMyLayouts(viewer), listMyPublishedTrials(viewer)]);
+    const [schedules, sites, layouts, published, t] = await Promise.all([listMySchedules(viewer), listMySites(viewer), listMyLayouts(viewer), listMyPublishedTrials(viewer), getTranslations("home")]);
     return (
       <div className="space-y-6">
-        <h1 className="text-3xl font-bold">Hello, {viewer.name.split(" ")[0]}</h1>
-        <p className="text-loam-700">Your sites and the counts due next. Dates follow your own sowing date.</p>
+        <h1 className="text-3xl font-bold">{t("hello", { name: viewer.name.split(" ")[0]! })}</h1>
+        <p className="text-loam-700">{t("intro")}</p>
         <MySchedules schedules={schedules} sites={sites} published={published} />
         {layouts.length > 0 && (
-          <Card title="Maps, labels and data sheets">
+          <Card title={t("printables")}>
             <MyLayouts layouts={layouts} />
           </Card>
         )}

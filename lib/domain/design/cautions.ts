@@ -1,6 +1,9 @@
 // Protocol cautions printed on every sheet. They point to the label and to local rules rather than
 // prescribing products or electrical work, which Seedplot has no business advising on.
 
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import { localDueNote, localTraitName, localUnit } from "@/lib/domain/i18n/traits";
+
 export interface CautionContext {
   /** blind codes whose packets hold treated seed */
   treatedCodes: readonly string[];
@@ -13,31 +16,20 @@ export interface Caution {
   text: string;
 }
 
-export function cautionsFor(c: CautionContext): Caution[] {
+/**
+ * The cautions in the reader's language. Their wording lives in the catalogue ("cautions"); every language
+ * keeps the same meaning: follow the label, keep treated seed from food and feed, local rules come first.
+ */
+export function cautionsFor(c: CautionContext, t: Translator = translatorFor()): Caution[] {
   const out: Caution[] = [];
   if (c.treatedCodes.length > 0) {
-    const codes = c.treatedCodes.join(", ");
-    out.push({
-      title: "Treated seed in this kit",
-      text: `${c.treatedCodes.length === 1 ? `The packet coded ${codes} holds` : `The packets coded ${codes} hold`} treated seed (marked TREATED on the maps and labels). Read the seed tag and follow its directions: wear gloves when handling, keep it away from children and animals; treated seed is not for food or feed. Dispose of leftovers as the label and local rules require. Organic certification may not allow it; check before sowing.`,
-    });
+    out.push({ title: t("cautions.treatedTitle"), text: t("cautions.treatedText", { count: c.treatedCodes.length, codes: c.treatedCodes.join(", ") }) });
   }
-  if (c.plotUnit !== "bed_row") {
-    out.push({
-      title: "Clean trays before sowing",
-      text: "Wash reused flats and inserts, then sanitise them as the product label directs (a common method is a soak in diluted household bleach, then a rinse). Never mix cleaning products.",
-    });
-  }
+  if (c.plotUnit !== "bed_row") out.push({ title: t("cautions.traysTitle"), text: t("cautions.traysText") });
   if (c.growingSetup === "indoor_lights" || c.growingSetup === "greenhouse" || c.plotUnit !== "bed_row") {
-    out.push({
-      title: "Electrical equipment near water",
-      text: "Heat mats, lights and timers sit close to water. Use equipment made for the purpose, plugged into a protected (GFCI) outlet; keep cords and plugs dry and off the floor, and follow the maker's instructions and your local electrical code.",
-    });
+    out.push({ title: t("cautions.electricTitle"), text: t("cautions.electricText") });
   }
-  out.push({
-    title: "Labels and local rules come first",
-    text: "Where these notes differ from a product label, the label and your local regulations apply. Ask your coordinator if in doubt.",
-  });
+  out.push({ title: t("cautions.rulesTitle"), text: t("cautions.rulesText") });
   return out;
 }
 
@@ -52,16 +44,21 @@ export interface SheetColumn {
 
 /** Lists what is recorded on each plot, in the trial's trait order (a scheduled count once per day, in place). */
 export function sheetColumns(
-  traits: { id: number; name: string; unit: string | null; dueDaysAfterSowing: number[] | null; dueNote: string | null }[],
+  traits: { id: number; code: string; name: string; unit: string | null; dueDaysAfterSowing: number[] | null; dueNote: string | null }[],
   dueDate: (day: number) => string | null,
+  words: Translator = translatorFor(),
 ): SheetColumn[] {
   const columns: SheetColumn[] = [];
   for (const t of traits) {
-    const unit = t.unit ? ` (${t.unit})` : "";
+    const unitWord = localUnit(words, t.unit);
+    const heading = `${localTraitName(words, t)}${unitWord ? ` (${unitWord})` : ""}`;
     if (t.dueDaysAfterSowing && t.dueDaysAfterSowing.length > 0) {
-      for (const day of t.dueDaysAfterSowing) columns.push({ traitId: t.id, heading: `${t.name}${unit}`, day, when: `Day ${day}${dueDate(day) ? ` · ${dueDate(day)}` : ""}` });
+      for (const day of t.dueDaysAfterSowing) {
+        const date = dueDate(day);
+        columns.push({ traitId: t.id, heading, day, when: date ? words("sheets.dayDate", { day: String(day), date }) : words("sheets.day", { day: String(day) }) });
+      }
     } else {
-      columns.push({ traitId: t.id, heading: `${t.name}${unit}`, day: null, when: t.dueNote ?? "When it happens" });
+      columns.push({ traitId: t.id, heading, day: null, when: localDueNote(words, t) ?? words("sheets.whenItHappens") });
     }
   }
   return columns;

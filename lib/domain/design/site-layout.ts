@@ -1,3 +1,4 @@
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 import type { PlotUnit, TrialDesign } from "@/lib/domain/vocabulary/enums";
 import { plotCode, randomiseBlocks, randomiseCompletely } from "./randomise";
 import { cellsPerPlot, insertNumber, packTrays } from "./trays";
@@ -45,8 +46,9 @@ export function siteLayout(p: { design: TrialDesign; blocks: number; plotUnit: P
  * Where a plot sits, in the one wording every screen and printout uses: "Flat 2, insert 3" for six-cell
  * inserts, "Flat 2, cells 13–18" for cell plots, "position 5" along a bed row.
  */
-export function plotPlace(plotUnit: "insert" | "cells" | "bed_row", p: { tray: number | null; traySlot: number | null; position: number }, plotSize = 1): string {
-  if (p.tray === null || p.traySlot === null) return `position ${p.position}`;
-  if (plotUnit === "insert") return `Flat ${p.tray}, insert ${p.traySlot}`;
-  return plotSize > 1 ? `Flat ${p.tray}, cells ${p.traySlot}–${p.traySlot + plotSize - 1}` : `Flat ${p.tray}, cell ${p.traySlot}`;
+export function plotPlace(plotUnit: "insert" | "cells" | "bed_row", p: { tray: number | null; traySlot: number | null; position: number }, plotSize = 1, t: Translator = translatorFor()): string {
+  if (p.tray === null || p.traySlot === null) return t("places.position", { position: String(p.position) });
+  const at = { tray: String(p.tray), slot: String(p.traySlot) };
+  if (plotUnit === "insert") return t("places.insert", at);
+  return plotSize > 1 ? t("places.cells", { tray: at.tray, from: at.slot, to: String(p.traySlot + plotSize - 1) }) : t("places.cell", at);
 }

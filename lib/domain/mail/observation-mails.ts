@@ -1,4 +1,6 @@
 import type { OutgoingMail } from "./templates";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
 
 // E-mails about a site's data: what happened, what to do next, and a link. Plain text, short.
 
@@ -12,32 +14,39 @@ export function submissionReceivedMail(p: { to: string; name: string; siteName: 
   };
 }
 
-export function dataReturnedMail(p: { to: string; name: string; siteName: string; trialTitle: string; message: string | null; comments: string[]; link: string }): OutgoingMail {
-  const list = p.comments.length ? `\n\nComments:\n${p.comments.map((c) => `- ${c}`).join("\n")}` : "";
+// Mails to growers are in the recipient's own language (their profile); `locale` absent means English.
+
+export function dataReturnedMail(p: { to: string; name: string; siteName: string; trialTitle: string; message: string | null; comments: string[]; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
+  const where = { site: p.siteName, trial: p.trialTitle };
+  const list = p.comments.length ? `\n\n${t("mail.returnedList")}\n${p.comments.map((c) => `- ${c}`).join("\n")}` : "";
   const note = p.message ? `\n\n${p.message}` : "";
   return {
     to: p.to,
-    subject: `Please check your data: ${p.siteName}, ${p.trialTitle}`,
-    text: `Hello ${p.name},\n\nYour coordinator has returned the data of ${p.siteName} for "${p.trialTitle}" with questions.${note}${list}\n\nCorrect or confirm the values, then send the data again:\n${p.link}` + SIGNATURE,
+    subject: t("mail.returnedSubject", where),
+    text: `${t("mail.hello", { name: p.name })}\n\n${t("mail.returnedBody", where)}${note}${list}\n\n${t("mail.returnedAction")}\n${p.link}` + t("mail.signature"),
   };
 }
 
-export function dataAcceptedMail(p: { to: string; name: string; siteName: string; trialTitle: string; link: string }): OutgoingMail {
+export function dataAcceptedMail(p: { to: string; name: string; siteName: string; trialTitle: string; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
+  const where = { site: p.siteName, trial: p.trialTitle };
   return {
     to: p.to,
-    subject: `Data accepted: ${p.siteName}, ${p.trialTitle}`,
-    text: `Hello ${p.name},\n\nYour coordinator has accepted the data of ${p.siteName} for "${p.trialTitle}". Thank you for your careful work.\n\n${p.link}` + SIGNATURE,
+    subject: t("mail.acceptedSubject", where),
+    text: `${t("mail.hello", { name: p.name })}\n\n${t("mail.acceptedBody", where)}\n\n${p.link}` + t("mail.signature"),
   };
 }
 
 /** One reminder per grower and site: counts due tomorrow and counts already overdue. */
-export function reminderMail(p: { to: string; name: string; siteName: string; trialTitle: string; tomorrow: string[]; overdue: string[]; link: string }): OutgoingMail {
+export function reminderMail(p: { to: string; name: string; siteName: string; trialTitle: string; tomorrow: string[]; overdue: string[]; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
   const parts: string[] = [];
-  if (p.overdue.length) parts.push(`Overdue:\n${p.overdue.map((x) => `- ${x}`).join("\n")}`);
-  if (p.tomorrow.length) parts.push(`Due tomorrow:\n${p.tomorrow.map((x) => `- ${x}`).join("\n")}`);
+  if (p.overdue.length) parts.push(`${t("mail.reminderOverdue")}\n${p.overdue.map((x) => `- ${x}`).join("\n")}`);
+  if (p.tomorrow.length) parts.push(`${t("mail.reminderTomorrow")}\n${p.tomorrow.map((x) => `- ${x}`).join("\n")}`);
   return {
     to: p.to,
-    subject: p.overdue.length ? `Overdue counts at ${p.siteName}` : `Counts due tomorrow at ${p.siteName}`,
-    text: `Hello ${p.name},\n\nA reminder for "${p.trialTitle}" at ${p.siteName}.\n\n${parts.join("\n\n")}\n\nRecord them here (on your phone too):\n${p.link}` + SIGNATURE,
+    subject: p.overdue.length ? t("mail.reminderSubjectOverdue", { site: p.siteName }) : t("mail.reminderSubjectTomorrow", { site: p.siteName }),
+    text: `${t("mail.hello", { name: p.name })}\n\n${t("mail.reminderBody", { site: p.siteName, trial: p.trialTitle })}\n\n${parts.join("\n\n")}\n\n${t("mail.reminderAction")}\n${p.link}` + t("mail.signature"),
   };
 }

@@ -1,4 +1,6 @@
 import type { TraitComputation, TraitType } from "@/lib/domain/vocabulary/enums";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import { localDueNote, localTraitName, localUnit } from "@/lib/domain/i18n/traits";
 
 // A trait recorded on scheduled days becomes one column per day (occasion = day after sowing); any other
 // trait is a single column with occasion 0. Form fields, template headings and upload headings share this.
@@ -34,7 +36,10 @@ export interface EntryColumn {
   dueNote: string | null;
   /** Which site date a date value is counted from in the analysis. */
   computation: TraitComputation;
-  /** Heading in templates and uploads, e.g. "Seedlings emerged (count) day 5 [seedlings]". */
+  /**
+   * Heading in templates and uploads, e.g. "Seedlings emerged (count) day 5 [seedlings]": always the stored
+   * names, since an upload is read by its headings; `name`, `unit` and `dueNote` are in the reader's language.
+   */
   heading: string;
 }
 
@@ -42,15 +47,18 @@ export interface EntryColumn {
 export const RATING_MIN = 1;
 export const RATING_MAX = 9;
 
-export function entryColumns(traits: TraitForColumns[]): EntryColumn[] {
+export function entryColumns(traits: TraitForColumns[], words?: Translator): EntryColumn[] {
   const out: EntryColumn[] = [];
   for (const t of traits) {
     const days = t.dueDaysAfterSowing && t.dueDaysAfterSowing.length > 0 ? t.dueDaysAfterSowing : null;
     const min = t.valueType === "rating" ? (t.minValue ?? RATING_MIN) : t.minValue;
     const max = t.valueType === "rating" ? (t.maxValue ?? RATING_MAX) : t.maxValue;
-    const unit = t.unit && t.valueType !== "date" && t.valueType !== "yes_no" ? t.unit : null;
+    const storedUnit = t.unit && t.valueType !== "date" && t.valueType !== "yes_no" ? t.unit : null;
+    const unit = words ? localUnit(words, storedUnit) : storedUnit;
+    const localName = words ? localTraitName(words, t) : t.name;
     for (const day of days ?? [0]) {
-      const name = days ? `${t.name} day ${day}` : t.name;
+      const stored = days ? `${t.name} day ${day}` : t.name;
+      const name = days ? (words ? words("columns.day", { name: localName, day: String(day) }) : stored) : localName;
       out.push({
         key: days ? `${t.code}@${day}` : t.code,
         traitId: t.id,
@@ -62,9 +70,9 @@ export function entryColumns(traits: TraitForColumns[]): EntryColumn[] {
         min,
         max,
         dueDay: days ? day : (t.dueByDay ?? null),
-        dueNote: days ? null : t.dueNote,
+        dueNote: days ? null : words ? localDueNote(words, t) : t.dueNote,
         computation: t.computation ?? "none",
-        heading: unit ? `${name} [${unit}]` : name,
+        heading: storedUnit ? `${stored} [${storedUnit}]` : stored,
       });
     }
   }
@@ -72,23 +80,22 @@ export function entryColumns(traits: TraitForColumns[]): EntryColumn[] {
 }
 
 /** The range a grower sees under an input, e.g. "0–500 seedlings" or "1 (poor) to 9 (excellent)". */
-export function describeRange(c: Pick<EntryColumn, "valueType" | "min" | "max" | "unit">): string {
+export function describeRange(c: Pick<EntryColumn, "valueType" | "min" | "max" | "unit">, t: Translator = translatorFor()): string {
   switch (c.valueType) {
     case "date":
-      return "a date on or after sowing";
+      return t("values.rangeDate");
     case "yes_no":
-      return "yes or no";
+      return t("values.rangeYesNo");
     case "text":
-      return "a short note";
+      return t("values.rangeText");
     case "rating":
-      return `whole number ${c.min ?? RATING_MIN} to ${c.max ?? RATING_MAX}`;
+      return t("values.rangeRating", { min: String(c.min ?? RATING_MIN), max: String(c.max ?? RATING_MAX) });
     default: {
-      const unit = c.unit ? ` ${c.unit}` : "";
-      const kind = c.valueType === "count" ? "whole number " : "";
-      if (c.min !== null && c.max !== null) return `${kind}${c.min} to ${c.max}${unit}`;
-      if (c.min !== null) return `${kind}at least ${c.min}${unit}`;
-      if (c.max !== null) return `${kind}at most ${c.max}${unit}`;
-      return `${kind}number${unit}`.trim();
+      const v = { whole: c.valueType === "count" ? "yes" : "no", min: String(c.min), max: String(c.max), unit: c.unit ? ` ${c.unit}` : "" };
+      if (c.min !== null && c.max !== null) return t("values.rangeBetween", v);
+      if (c.min !== null) return t("values.rangeAtLeast", v);
+      if (c.max !== null) return t("values.rangeAtMost", v);
+      return t("values.rangeAny", v).trim();
     }
   }
 }

@@ -1,11 +1,17 @@
 import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 export type MissingReason = (typeof MISSING_REASONS)[number];
 
 // Why a plot has no value. The phone form offers the labels; a spreadsheet cell holds "missing:" and one of
 // the short words, which is also how exports write reasons, so an exported sheet uploads back unchanged.
 
-/** What the phone form shows for each reason. */
+/** What the phone form shows for each reason, in the grower's language (the catalogue's "missing" words). */
+export function missingReasonLabels(t: Translator = translatorFor()): Record<MissingReason, string> {
+  return Object.fromEntries(MISSING_REASONS.map((r) => [r, t(`missing.${r}`)])) as Record<MissingReason, string>;
+}
+
+/** What the phone form shows for each reason (English). */
 export const MISSING_REASON_LABELS: Record<MissingReason, string> = {
   not_sown: "Not sown",
   died: "Plants died",
@@ -48,15 +54,12 @@ export const missingWordsList = () => MISSING_REASONS.map((r) => MISSING_REASON_
  * Reads a cell that starts with "missing" ("missing: died", "Missing - animals"). Null when the cell is not a
  * missing marker at all, so ordinary values and notes go on to be parsed as values.
  */
-export function parseMissingText(raw: unknown): { ok: true; reason: MissingReason } | { ok: false; message: string } | null {
+export function parseMissingText(raw: unknown, t: Translator = translatorFor()): { ok: true; reason: MissingReason } | { ok: false; message: string } | null {
   if (typeof raw !== "string") return null;
   const m = /^\s*missing\b\s*[:\-–]?\s*(.*)$/i.exec(raw);
   if (!m) return null;
   const reason = ACCEPTED.get(squash(m[1] ?? ""));
   if (reason) return { ok: true, reason };
   const said = (m[1] ?? "").trim();
-  return {
-    ok: false,
-    message: `${said ? `"${said}" is not one of the reasons` : "Say why the value is missing"}. Write missing: and one of ${missingWordsList()} (for example "missing: died"), or type the value.`,
-  };
+  return { ok: false, message: said ? t("values.missingNotReason", { said, words: missingWordsList() }) : t("values.missingSayWhy", { words: missingWordsList() }) };
 }

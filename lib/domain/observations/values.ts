@@ -2,6 +2,7 @@ import type { EntryColumn } from "./columns";
 import { missingCell, parseMissingText, type MissingReason } from "./missing";
 import { SEEDS_SOWN_CODE, EMERGED_TRAIT_CODES } from "@/lib/domain/vocabulary/traits";
 import { siteDateRefusal } from "./date-order";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 // Turning what a grower typed (or a spreadsheet cell) into a stored value, with messages a grower
 // understands. Pure, so the browser gives the same answer as the server, which always re-checks.
@@ -30,6 +31,8 @@ export interface ParseContext {
   today: string;
   /** Default "decimal". */
   textNumberCommas?: TextNumberCommas;
+  /** The grower's language for messages; English when absent. */
+  t?: Translator;
 }
 
 export const MAX_TEXT = 1000;
@@ -47,18 +50,19 @@ function isoFromParts(y: number, m: number, d: number): string | null {
   return date.toISOString().slice(0, 10);
 }
 
-const spoken = (iso: string) => {
+const spoken = (iso: string, t: Translator) => {
   const [y, m, d] = iso.split("-").map(Number);
-  return `${d} ${MONTH_NAMES[m! - 1]} ${y}`;
+  if (t.locale === "en") return `${d} ${MONTH_NAMES[m! - 1]} ${y}`;
+  return new Date(Date.UTC(y!, m! - 1, d)).toLocaleDateString(t.locale, { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" });
 };
 
 /**
  * Reads a date typed in any common unambiguous way. Day/month order is only guessed when one of the two
  * numbers is above 12; "03/04/2026" could be either, so the grower is asked to write it as YYYY-MM-DD.
  */
-export function parseDateText(raw: string): { ok: true; iso: string } | { ok: false; message: string } {
+export function parseDateText(raw: string, t: Translator = translatorFor()): { ok: true; iso: string } | { ok: false; message: string } {
   const s = raw.trim().replace(/\s+/g, " ");
-  const bad = { ok: false as const, message: `"${raw}" is not a date we can read. Write it like 2026-04-03.` };
+  const bad = { ok: false as const, message: t("values.notADate", { raw }) };
   let m = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})$/.exec(s);
   if (m) {
     const iso = isoFromParts(+m[1]!, +m[2]!, +m[3]!);
@@ -66,7 +70,7 @@ export function parseDateText(raw: string): { ok: true; iso: string } | { ok: fa
   }
   m = /^(\d{1,2})[-/.](\d{1,2})[-/.](\d{2}|\d{4})$/.exec(s);
   if (m) {
-    if (m[3]!.length === 2) return { ok: false, message: `"${raw}" has a two-digit year. Write the year in full, like 2026-04-03.` };
+    if (m[3]!.length === 2) return { ok: false, message: t("values.twoDigitYear", { raw }) };
     const a = +m[1]!;
     const b = +m[2]!;
     const y = +m[3]!;
@@ -74,7 +78,7 @@ export function parseDateText(raw: string): { ok: true; iso: string } | { ok: fa
       const dayFirst = isoFromParts(y, b, a);
       const monthFirst = isoFromParts(y, a, b);
       if (dayFirst && monthFirst) {
-        return { ok: false, message: `"${raw}" could be ${spoken(dayFirst)} or ${spoken(monthFirst)}. Write it as ${dayFirst} or ${monthFirst}.` };
+        return { ok: false, message: t("values.ambiguousDate", { raw, dayFirst: spoken(dayFirst, t), monthFirst: spoken(monthFirst, t), dayFirstIso: dayFirst, monthFirstIso: monthFirst }) };
       }
     }
     const iso = a > 12 ? isoFromParts(y, b, a) : b > 12 ? isoFromParts(y, a, b) : isoFromParts(y, b, a);
@@ -104,7 +108,7 @@ export function parseDateText(raw: string): { ok: true; iso: string } | { ok: fa
  * digits ("1,250") could be a thousands separator or a decimal comma, so it is refused with both readings.
  * With commas "ask" (a workbook's text cell), any comma is refused that way.
  */
-export function parseNumberText(raw: string, commas: TextNumberCommas = "decimal"): { ok: true; n: number } | { ok: false; message: string } {
+export function parseNumberText(raw: string, commas: TextNumberCommas = "decimal", t: Translator = translatorFor()): { ok: true; n: number } | { ok: false; message: string } {
   const s = raw.trim().replace(/\s/g, "");
   if (/^[+-]?\d+(\.\d+)?$/.test(s)) return { ok: true, n: Number(s) };
   if (/^[+-]?\.\d+$/.test(s)) return { ok: true, n: Number(s) };
@@ -112,29 +116,31 @@ export function parseNumberText(raw: string, commas: TextNumberCommas = "decimal
   if (comma && commas === "ask") {
     return {
       ok: false,
-      message: `"${raw.trim()}" is stored in this cell as text, not as a number: your spreadsheet program did not read it as one, so the comma could mark decimals (${comma[1]}.${comma[2]}) or separate thousands. Type the number again without the comma, using a point for decimals (like ${comma[1]}.${comma[2]}).`,
+      message: t("values.commaAsText", { raw: raw.trim(), decimal: `${comma[1]}.${comma[2]}` }),
     };
   }
   if (comma) {
     if (comma[2]!.length === 3) {
-      return { ok: false, message: `"${raw}" could mean ${comma[1]}${comma[2]} or ${comma[1]}.${comma[2]}. Write it without the comma, or with a point for decimals.` };
+      return { ok: false, message: t("values.commaAmbiguous", { raw, thousands: `${comma[1]}${comma[2]}`, decimal: `${comma[1]}.${comma[2]}` }) };
     }
     return { ok: true, n: Number(`${comma[1]}.${comma[2]}`) };
   }
-  return { ok: false, message: `"${raw}" is not a number. Type digits only, like 12 or 12.5.` };
+  return { ok: false, message: t("values.notANumber", { raw }) };
 }
 
-function checkRange(c: EntryColumn, n: number): string | null {
+function checkRange(c: EntryColumn, n: number, t: Translator): string | null {
+  // Numbers go in as typed text so the message shows them exactly as the grower wrote them.
   const unit = c.unit ? ` ${c.unit}` : "";
+  const v = { n: String(n), min: String(c.min), max: String(c.max), unit };
   if (c.valueType === "rating") {
     if (!Number.isInteger(n) || (c.min !== null && n < c.min) || (c.max !== null && n > c.max)) {
-      return `Ratings are whole numbers from ${c.min ?? 1} to ${c.max ?? 9}; ${n} is not one of them.`;
+      return t("values.ratingRange", { ...v, min: String(c.min ?? 1), max: String(c.max ?? 9) });
     }
     return null;
   }
-  if (c.valueType === "count" && !Number.isInteger(n)) return `${n} is not a whole number. Counts are whole numbers.`;
-  if (c.min !== null && n < c.min) return c.max !== null ? `${n} is outside the valid range ${c.min} to ${c.max}${unit}.` : `${n} is below the smallest valid value, ${c.min}${unit}.`;
-  if (c.max !== null && n > c.max) return c.min !== null ? `${n} is outside the valid range ${c.min} to ${c.max}${unit}.` : `${n} is above the largest valid value, ${c.max}${unit}.`;
+  if (c.valueType === "count" && !Number.isInteger(n)) return t("values.notWhole", v);
+  if (c.min !== null && n < c.min) return c.max !== null ? t("values.outsideRange", v) : t("values.belowMin", v);
+  if (c.max !== null && n > c.max) return c.min !== null ? t("values.outsideRange", v) : t("values.aboveMax", v);
   return null;
 }
 
@@ -144,6 +150,7 @@ function dateFromSheet(d: Date): string {
 
 /** Parses one value for one column. A blank value parses to null (it clears the value). */
 export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): ParseResult {
+  const t = ctx.t ?? translatorFor();
   if (raw === null || raw === undefined) return { ok: true, value: null };
   if (typeof raw === "string" && raw.trim() === "") return { ok: true, value: null };
 
@@ -154,39 +161,39 @@ export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): Pars
       let n: number;
       if (typeof raw === "number") n = raw;
       else if (typeof raw === "string") {
-        const parsed = parseNumberText(raw, ctx.textNumberCommas);
+        const parsed = parseNumberText(raw, ctx.textNumberCommas, t);
         if (!parsed.ok) return fail(parsed.message);
         n = parsed.n;
-      } else if (raw instanceof Date) return fail("This is a date, but a number belongs here.");
-      else return fail("A number belongs here.");
-      if (!Number.isFinite(n)) return fail("A number belongs here.");
-      const problem = checkRange(c, n);
+      } else if (raw instanceof Date) return fail(t("values.dateNotNumber"));
+      else return fail(t("values.numberHere"));
+      if (!Number.isFinite(n)) return fail(t("values.numberHere"));
+      const problem = checkRange(c, n, t);
       return problem ? fail(problem) : { ok: true, value: num(n) };
     }
     case "date": {
       let iso: string;
       if (raw instanceof Date) {
-        if (Number.isNaN(raw.getTime())) return fail("This is not a date we can read. Write it like 2026-04-03.");
+        if (Number.isNaN(raw.getTime())) return fail(t("values.unreadableDate"));
         iso = dateFromSheet(raw);
       } else if (typeof raw === "string") {
-        const parsed = parseDateText(raw);
+        const parsed = parseDateText(raw, t);
         if (!parsed.ok) return fail(parsed.message);
         iso = parsed.iso;
-      } else return fail(`${String(raw)} is not a date. Write it like 2026-04-03.`);
+      } else return fail(t("values.notADateValue", { raw: String(raw) }));
       const refusal = siteDateRefusal(c, iso, { sownOn: ctx.sownOn, transplantedOn: ctx.transplantedOn ?? null });
       if (refusal) return fail(refusal);
-      if (iso > ctx.today) return fail(`${iso} is in the future. Record a date once it has happened.`);
+      if (iso > ctx.today) return fail(t("values.future", { iso }));
       return { ok: true, value: { valueNumber: null, valueDate: iso, valueText: null } };
     }
     case "yes_no": {
       const s = String(raw).trim().toLowerCase();
-      if (["yes", "y", "1", "true"].includes(s)) return { ok: true, value: num(1) };
+      if (["yes", "y", "1", "true", "sí", "si", "s"].includes(s)) return { ok: true, value: num(1) };
       if (["no", "n", "0", "false"].includes(s)) return { ok: true, value: num(0) };
-      return fail(`"${String(raw)}" is not yes or no. Write yes or no.`);
+      return fail(t("values.notYesNo", { raw: String(raw) }));
     }
     case "text": {
       const s = raw instanceof Date ? dateFromSheet(raw) : String(raw).trim();
-      if (s.length > MAX_TEXT) return fail(`This note is ${s.length} characters long; keep it under ${MAX_TEXT}.`);
+      if (s.length > MAX_TEXT) return fail(t("values.noteTooLong", { length: String(s.length), max: String(MAX_TEXT) }));
       return { ok: true, value: { valueNumber: null, valueDate: null, valueText: s } };
     }
   }
@@ -196,7 +203,7 @@ export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): Pars
  * Checks between values of one plot: seedlings emerged can never exceed seeds sown. Problems are
  * reported on the changed value, so the grower sees the message where they just typed.
  */
-export function crossCheckPlot(columns: EntryColumn[], values: Map<string, CellValue | null>, changed: Set<string>): { key: string; message: string }[] {
+export function crossCheckPlot(columns: EntryColumn[], values: Map<string, CellValue | null>, changed: Set<string>, t: Translator = translatorFor()): { key: string; message: string }[] {
   const sownCol = columns.find((c) => c.traitCode === SEEDS_SOWN_CODE);
   const sown = sownCol ? values.get(sownCol.key)?.valueNumber ?? null : null;
   if (sown === null || !sownCol) return [];
@@ -205,7 +212,7 @@ export function crossCheckPlot(columns: EntryColumn[], values: Map<string, CellV
     if (!EMERGED_TRAIT_CODES.includes(c.traitCode)) continue;
     const emerged = values.get(c.key)?.valueNumber ?? null;
     if (emerged === null || emerged <= sown) continue;
-    const message = `${emerged} seedlings emerged is more than the ${sown} seeds sown in this plot. Check both numbers.`;
+    const message = t("values.emergedOverSown", { emerged: String(emerged), sown: String(sown) });
     if (changed.has(c.key)) out.push({ key: c.key, message });
     else if (changed.has(sownCol.key)) out.push({ key: sownCol.key, message });
   }
@@ -236,8 +243,8 @@ export type EntryResult = { ok: true; value: CellValue | null; reason: MissingRe
  */
 export function parseEntry(c: EntryColumn, raw: unknown, reason: MissingReason | null | undefined, ctx: ParseContext): EntryResult {
   const blank = raw === null || raw === undefined || (typeof raw === "string" && raw.trim() === "");
-  if (reason) return blank ? { ok: true, value: null, reason } : { ok: false, message: VALUE_AND_REASON_MESSAGE };
-  const missing = parseMissingText(raw);
+  if (reason) return blank ? { ok: true, value: null, reason } : { ok: false, message: ctx.t ? ctx.t("values.valueAndReason") : VALUE_AND_REASON_MESSAGE };
+  const missing = parseMissingText(raw, ctx.t);
   if (missing) return missing.ok ? { ok: true, value: null, reason: missing.reason } : missing;
   const parsed = parseCell(c, raw, ctx);
   return parsed.ok ? { ok: true, value: parsed.value, reason: null } : parsed;

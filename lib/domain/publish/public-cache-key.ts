@@ -1,3 +1,5 @@
+import { LANGUAGE_PARAM } from "../i18n/language-choice";
+
 // Which public addresses may be answered from the shared public cache (server/publish/public-cache.ts), and
 // under which key. Only the addresses below, and only with the query parameters each page or route reads
 // (each at most once, in a plain form), are cached; anything else is rendered as before. The key is the
@@ -6,13 +8,15 @@
 const TRIAL_CODE = "[A-Za-z0-9-]{1,40}";
 const ID = "[1-9][0-9]{0,9}";
 const FILTERS = ["q", "crop", "season"] as const;
+// Public pages name their language in the address (?lang=es), so each language is its own cached copy.
+const LANGUAGE = LANGUAGE_PARAM;
 
 const CACHEABLE: { path: RegExp; params: readonly string[] }[] = [
-  { path: /^\/$/, params: [] },
-  { path: /^\/results$/, params: FILTERS },
-  { path: new RegExp(`^/results/${TRIAL_CODE}$`), params: ["version"] },
-  { path: new RegExp(`^/varieties/${ID}$`), params: [] },
-  { path: new RegExp(`^/sites/${ID}$`), params: [] },
+  { path: /^\/$/, params: [LANGUAGE] },
+  { path: /^\/results$/, params: [...FILTERS, LANGUAGE] },
+  { path: new RegExp(`^/results/${TRIAL_CODE}$`), params: ["version", LANGUAGE] },
+  { path: new RegExp(`^/varieties/${ID}$`), params: [LANGUAGE] },
+  { path: new RegExp(`^/sites/${ID}$`), params: [LANGUAGE] },
   { path: /^\/api\/public\/v1\/trials$/, params: FILTERS },
   { path: new RegExp(`^/api/public/v1/trials/${TRIAL_CODE}(?:/results|/plots)?$`), params: ["version"] },
   { path: /^\/api\/public\/v1\/openapi\.json$/, params: [] },
@@ -20,6 +24,7 @@ const CACHEABLE: { path: RegExp; params: readonly string[] }[] = [
 
 const PLAIN_VALUE: Record<string, RegExp> = {
   version: /^[1-9][0-9]{0,5}$/,
+  [LANGUAGE]: /^(?:en|es)$/,
 };
 const MAX_VALUE_LENGTH = 100;
 

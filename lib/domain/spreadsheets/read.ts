@@ -1,3 +1,4 @@
+import type { Locale } from "@/lib/domain/vocabulary/enums";
 import ExcelJS from "exceljs";
 import type { EntryColumn } from "@/lib/domain/observations/columns";
 import type { TextNumberCommas } from "@/lib/domain/observations/values";
@@ -66,7 +67,8 @@ export function columnLetter(index: number): string {
 }
 
 /** "A", "A and B", "A, B and C" */
-export function listWords(items: string[]): string {
+export function listWords(items: string[], locale: Locale = "en"): string {
+  if (locale !== "en") return new Intl.ListFormat(locale, { type: "conjunction" }).format(items);
   return items.length <= 1 ? (items[0] ?? "") : `${items.slice(0, -1).join(", ")} and ${items.at(-1)}`;
 }
 

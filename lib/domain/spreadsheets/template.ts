@@ -4,7 +4,8 @@ import { displayValue, type CellValue } from "@/lib/domain/observations/values";
 import { MISSING_REASONS } from "@/lib/domain/vocabulary/enums";
 import { missingCell, missingWordsList, type MissingReason } from "@/lib/domain/observations/missing";
 import { addDays } from "@/lib/domain/schedule";
-import { TRAIT_TYPE_LABELS } from "@/lib/domain/vocabulary/labels";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
 import { FIXED_HEADINGS, PLOT_SHEET } from "./read";
 import { addSheetRow, csvFile, type SheetCell } from "./write";
 
@@ -18,17 +19,17 @@ export interface TemplateInput {
   values: Record<number, Record<string, CellValue>>;
   /** Why a plot has no value, by plot id and column key. */
   missing: Record<number, Record<string, MissingReason>>;
+  /** The language of the data dictionary and the cell prompts; the plot sheet's headings stay as stored. */
+  locale?: Locale;
 }
-
-const MISSING_HINT = `or missing: and why (${missingWordsList()})`;
 
 /**
  * Excel checks each cell as it is typed: a value in range, or text starting with "missing" (the upload then
  * checks the reason word). Custom formulas are relative to the cell they sit on, so `ref` is that cell.
  */
-function validationFor(c: EntryColumn, sownOn: string | null, ref: string): ExcelJS.DataValidation | null {
-  const error = `Enter ${describeRange(c)}, ${MISSING_HINT}.`;
-  const base = { allowBlank: true, showErrorMessage: true, errorStyle: "stop", errorTitle: c.name, error, showInputMessage: true, promptTitle: c.name, prompt: `${describeRange(c)}, ${MISSING_HINT}` } as const;
+function validationFor(c: EntryColumn, sownOn: string | null, ref: string, t: Translator): ExcelJS.DataValidation | null {
+  const hint = { range: describeRange(c, t), words: missingWordsList() };
+  const base = { allowBlank: true, showErrorMessage: true, errorStyle: "stop", errorTitle: c.name, error: t("template.enter", hint), showInputMessage: true, promptTitle: c.name, prompt: t("template.prompt", hint) } as const;
   const missing = `LEFT(TRIM(${ref}),7)="missing"`;
   const numeric = (checks: string[]) => ({ ...base, type: "custom" as const, formulae: [`OR(${missing},AND(ISNUMBER(${ref}),${checks.join(",")}))`] });
   switch (c.valueType) {
@@ -54,6 +55,7 @@ function validationFor(c: EntryColumn, sownOn: string | null, ref: string): Exce
  * Values already recorded are filled in, so a corrected sheet can be uploaded again.
  */
 export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
+  const words = translatorFor(t.locale);
   const wb = new ExcelJS.Workbook();
   wb.creator = "Seedplot";
   const ws = wb.addWorksheet(PLOT_SHEET, { views: [{ state: "frozen", xSplit: 1, ySplit: 1 }] });
@@ -78,27 +80,30 @@ export async function buildTemplate(t: TemplateInput): Promise<Buffer> {
   for (let r = 2; r <= t.plots.length + 1; r += 1) {
     t.columns.forEach((c, i) => {
       const cell = ws.getCell(r, FIXED_HEADINGS.length + i + 1);
-      const dv = validationFor(c, t.sownOn, cell.address);
+      const dv = validationFor(c, t.sownOn, cell.address, words);
       if (dv) cell.dataValidation = dv;
       if (c.valueType === "date") cell.numFmt = "yyyy-mm-dd";
     });
   }
 
-  const dict = wb.addWorksheet("Data dictionary", { views: [{ state: "frozen", ySplit: 1 }] });
-  addSheetRow(dict, ["Column heading", "Trait", "Unit", "Type", "Valid values", "Due"]);
+  const dict = wb.addWorksheet(words("template.dictionary"), { views: [{ state: "frozen", ySplit: 1 }] });
+  addSheetRow(dict, [words("template.colHeading"), words("template.colTrait"), words("template.colUnit"), words("template.colType"), words("template.colValid"), words("template.colDue")]);
   dict.getRow(1).font = { bold: true };
-  addSheetRow(dict, ["Plot", "Plot id from the label", "", "Text", "Do not change", ""]);
-  addSheetRow(dict, ["Block", "Block (replicate)", "", "Whole number", "Do not change", ""]);
-  addSheetRow(dict, ["Code", "Blind code of the variety", "", "Text", "Do not change", ""]);
+  const fixed = { change: words("template.doNotChange"), text: words("template.text") };
+  addSheetRow(dict, ["Plot", words("template.plotWhat"), "", fixed.text, fixed.change, ""]);
+  addSheetRow(dict, ["Block", words("template.blockWhat"), "", words("template.wholeNumber"), fixed.change, ""]);
+  addSheetRow(dict, ["Code", words("template.codeWhat"), "", fixed.text, fixed.change, ""]);
   for (const c of t.columns) {
-    const due = c.dueDay !== null ? `Day ${c.dueDay} after sowing${t.sownOn ? ` (${addDays(t.sownOn, c.dueDay)})` : ""}` : (c.dueNote ?? "");
-    addSheetRow(dict, [c.heading, c.name, c.unit ?? "", TRAIT_TYPE_LABELS[c.valueType], describeRange(c), due]);
+    const due = c.dueDay !== null ? (t.sownOn ? words("template.dueDayDate", { day: String(c.dueDay), date: addDays(t.sownOn, c.dueDay) }) : words("template.dueDay", { day: String(c.dueDay) })) : (c.dueNote ?? "");
+    addSheetRow(dict, [c.heading, c.name, c.unit ?? "", words("template.type", { type: c.valueType }), describeRange(c, words), due]);
   }
   addSheetRow(dict, []);
-  addSheetRow(dict, [`${t.trialCode} · ${t.trialTitle} · ${t.siteName}${t.sownOn ? ` · sown ${t.sownOn}` : ""}`]);
-  addSheetRow(dict, ["Leave a cell empty when the value is not recorded. Dates as YYYY-MM-DD. Do not rename, add or remove columns, merge cells or use formulas."]);
-  addSheetRow(dict, [`A plot that will never have a value: write missing: and why in its cell instead, for example "missing: died". The reasons are ${missingWordsList()}.`]);
-  addSheetRow(dict, ["A value typed over a missing: cell replaces the reason, and a missing: cell replaces a value recorded before."]);
+  const about = { code: t.trialCode, trial: t.trialTitle, site: t.siteName };
+  addSheetRow(dict, [t.sownOn ? words("template.titleSown", { ...about, date: t.sownOn }) : words("template.title", about)]);
+  addSheetRow(dict, [words("template.howEmpty")]);
+  addSheetRow(dict, [words("template.howMissing", { words: missingWordsList() })]);
+  addSheetRow(dict, [words("template.howReplace")]);
+  if ((t.locale ?? "en") !== "en") addSheetRow(dict, [words("template.headingsNote")]);
   dict.columns = [{ width: 40 }, { width: 30 }, { width: 14 }, { width: 14 }, { width: 30 }, { width: 34 }];
   return Buffer.from(await wb.xlsx.writeBuffer());
 }

@@ -3,6 +3,10 @@
 export const ROLES = ["admin", "coordinator", "cooperator"] as const;
 export type Role = (typeof ROLES)[number];
 
+/** The languages Seedplot speaks to growers and the public; the first is the default. */
+export const LOCALES = ["en", "es"] as const;
+export type Locale = (typeof LOCALES)[number];
+
 export const SITE_KINDS = ["farm", "garden"] as const;
 export const GROWING_SETUPS = ["indoor_lights", "greenhouse", "high_tunnel", "field"] as const;
 export type GrowingSetup = (typeof GROWING_SETUPS)[number];

@@ -1,5 +1,5 @@
 import type { Source as AnovaSource } from "@/lib/domain/stats/anova";
-import type { CropGroup, ExclusionCategory, GrowingSetup, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
+import type { CropGroup, ExclusionCategory, GrowingSetup, Locale, PlotUnit, Role, TraitType, TrialDesign } from "@/lib/domain/vocabulary/enums";
 
 export const ROLE_LABELS: Record<Role, string> = { admin: "Administrator", coordinator: "Coordinator", cooperator: "Partner grower" };
 
@@ -10,25 +10,28 @@ export const SETUP_LABELS: Record<GrowingSetup, string> = {
   field: "Field",
 };
 
+/** BCP 47 tags for dates and numbers in each language Seedplot speaks. */
+const DATE_LOCALES: Record<Locale, string> = { en: "en-US", es: "es" };
+
 /**
- * The one way dates are shown to people (pages, PDFs, mails): US English, "May 3, 2026". Takes an ISO date
- * (YYYY-MM-DD, or a longer ISO timestamp whose day is used as written) or a Date (its UTC day), so a
- * calendar date never drifts by a time zone.
+ * The one way dates are shown to people (pages, PDFs, mails), in the reader's language: "May 3, 2026",
+ * "3 may 2026". Takes an ISO date (YYYY-MM-DD, or a longer ISO timestamp whose day is used as written) or a
+ * Date (its UTC day), so a calendar date never drifts by a time zone.
  */
-export function formatDate(value: string | Date | null | undefined): string {
+export function formatDate(value: string | Date | null | undefined, locale: Locale = "en"): string {
   if (value === null || value === undefined || value === "") return "—";
   const iso = value instanceof Date ? value.toISOString() : value;
   const d = new Date(`${iso.slice(0, 10)}T00:00:00Z`);
   if (!Number.isFinite(d.getTime())) return "—";
-  return d.toLocaleDateString("en-US", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+  return d.toLocaleDateString(DATE_LOCALES[locale], { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 }
 
 /** A moment with its time, in the same date format: "May 3, 2026, 14:05 UTC". */
-export function formatDateTime(value: string | Date | null | undefined): string {
+export function formatDateTime(value: string | Date | null | undefined, locale: Locale = "en"): string {
   if (value === null || value === undefined || value === "") return "—";
   const d = value instanceof Date ? value : new Date(value);
   if (!Number.isFinite(d.getTime())) return "—";
-  return `${formatDate(d)}, ${d.toISOString().slice(11, 16)} UTC`;
+  return `${formatDate(d, locale)}, ${d.toISOString().slice(11, 16)} UTC`;
 }
 
 /** Rows of an analysis of variance, named the same on the analysis page, in the PDF report and in exports. */

@@ -9,6 +9,9 @@ import { toPublicGerminationView, toPublicTraitView } from "@/lib/domain/publish
 import { linksFor, OPENAPI_PATH } from "@/lib/domain/publish/open-data";
 import { SETUP_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
+import { getLocale, getTranslations } from "next-intl/server";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
+import { formatDate } from "@/lib/domain/vocabulary/labels";
 
 type Params = Promise<{ code: string }>;
 type Search = Promise<Record<string, string | string[] | undefined>>;
@@ -34,16 +37,19 @@ export async function generateMetadata({ params, searchParams }: { params: Param
 export default async function PublicTrialPage({ params, searchParams }: { params: Params; searchParams: Search }) {
   const report = await load(params, searchParams);
   if (!report) notFound();
+  // Page frames follow the address's language (?lang=es); the summary and tables are published English text.
+  const [words, nav, menu, locale] = await Promise.all([getTranslations("public"), getTranslations("home"), getTranslations("nav"), getLocale()]);
+  const here = (href: string) => withLanguage(href, locale);
   if (report.kind === "withdrawn") {
     return (
       <div className="mx-auto max-w-3xl px-4 py-12">
         <h1 className="text-3xl font-bold">{report.title}</h1>
         <div role="status" className="mt-6 rounded-xl border border-marigold-400 bg-marigold-100 p-5">
-          <h2 className="text-lg font-bold">These results have been withdrawn</h2>
+          <h2 className="text-lg font-bold">{words("withdrawnTitle")}</h2>
           <p className="mt-2">{report.reason}</p>
-          <p className="mt-2 text-sm text-loam-700">Withdrawn on {report.withdrawnAt.toISOString().slice(0, 10)}. Please do not rely on copies downloaded earlier.</p>
+          <p className="mt-2 text-sm text-loam-700">{words("withdrawnOn", { date: locale === "en" ? report.withdrawnAt.toISOString().slice(0, 10) : formatDate(report.withdrawnAt, locale) })}</p>
         </div>
-        <p className="mt-6"><Link href="/results">All published results</Link></p>
+        <p className="mt-6"><Link href={here("/results")}>{words("allResults")}</Link></p>
       </div>
     );
   }
@@ -58,43 +64,43 @@ export default async function PublicTrialPage({ params, searchParams }: { params
     <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
       <header>
         <p className="text-sm font-semibold text-sprout-700">
-          <Link href="/results">Results</Link> · {t.crop} · {t.season}
+          <Link href={here("/results")}>{menu("results")}</Link> · {t.crop} · {t.season}
         </p>
         <h1 className="mt-1 text-3xl font-bold">{t.title}</h1>
         <p className="mt-1 text-loam-700">
-          {snapshot.program} · trial {t.code} · {snapshot.entries.length} varieties · {t.blocks} blocks per site
+          {words("trialLineFull", { program: snapshot.program, code: t.code, entries: String(snapshot.entries.length), blocks: String(t.blocks) })}
         </p>
         <div className="mt-2">
           <SiteCoverage coverage={snapshot.coverage} />
         </div>
         {!isLatest && (
           <p role="status" className="mt-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2">
-            You are reading version {snapshot.version}. <Link href={`/results/${t.code}`}>See the latest version ({latestVersion})</Link>.
+            {words("oldVersion", { version: String(snapshot.version) })} <Link href={here(`/results/${t.code}`)}>{words("latest", { version: String(latestVersion) })}</Link>.
           </p>
         )}
       </header>
 
       <section aria-labelledby="summary" className="rounded-xl border border-husk-200 bg-white p-5">
-        <h2 id="summary" className="text-xl font-bold">Summary for growers</h2>
+        <h2 id="summary" className="text-xl font-bold">{words("summary")}</h2>
+        {locale !== "en" && <p className="mt-1 text-sm text-loam-700">{words("englishOnly")}</p>}
         <ul className="mt-3 list-disc space-y-2 pl-5">
           {snapshot.summary.map((line, i) => <li key={i}>{line}</li>)}
         </ul>
         <p className="mt-3 text-sm text-loam-700">
-          Varieties sharing a letter are not clearly different (5% level). These results come from these sites and this season; try a
-          small planting before changing a whole crop.
+          {words("lettersNote")}
         </p>
         <div className="mt-4 flex flex-wrap gap-3">
           <a className="inline-flex min-h-11 items-center rounded-lg bg-sprout-600 px-4 font-semibold text-white no-underline hover:bg-sprout-700" href={`/results/${t.code}/report${versionQuery}`}>
-            Download the PDF report
+            {words("pdf")}
           </a>
           <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=csv${versionQuery ? `&version=${snapshot.version}` : ""}`}>
-            Plot data (CSV)
+            {words("plotCsv")}
           </a>
           <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=csv&table=means${versionQuery ? `&version=${snapshot.version}` : ""}`}>
-            Means with % of check (CSV)
+            {words("meansCsv")}
           </a>
           <a className="inline-flex min-h-11 items-center rounded-lg border border-loam-300 bg-white px-4 font-semibold no-underline" href={`/results/${t.code}/data?format=xlsx${versionQuery ? `&version=${snapshot.version}` : ""}`}>
-            Data (Excel)
+            {words("excel")}
           </a>
         </div>
         <p className="mt-3 text-sm text-loam-700">
@@ -113,32 +119,32 @@ export default async function PublicTrialPage({ params, searchParams }: { params
 
       {germination && (
         <section aria-labelledby="germination" className="rounded-xl border border-husk-200 bg-white p-5">
-          <h2 id="germination" className="mb-3 text-xl font-bold">Germination</h2>
+          <h2 id="germination" className="mb-3 text-xl font-bold">{words("germination")}</h2>
           <GerminationSection germination={germination} />
         </section>
       )}
 
       <section aria-labelledby="varieties" className="rounded-xl border border-husk-200 bg-white p-5">
-        <h2 id="varieties" className="text-xl font-bold">Varieties</h2>
+        <h2 id="varieties" className="text-xl font-bold">{words("varieties")}</h2>
         <ul className="mt-3 grid gap-2 sm:grid-cols-2">
           {snapshot.entries.map((e) => (
             <li key={e.blindCode}>
-              <Link href={`/varieties/${e.varietyId}`}>{e.variety}</Link>
-              {e.isCheck && " (check)"} <span className="text-sm text-loam-700">— {e.seedSource ?? "source not recorded"}{e.treated ? ", treated seed" : ""}</span>
+              <Link href={here(`/varieties/${e.varietyId}`)}>{e.variety}</Link>
+              {e.isCheck && words("check")} <span className="text-sm text-loam-700">— {e.seedSource ?? words("noSource")}{e.treated ? words("treatedSeed") : ""}</span>
             </li>
           ))}
         </ul>
       </section>
 
       <section aria-labelledby="sites" className="rounded-xl border border-husk-200 bg-white p-5">
-        <h2 id="sites" className="text-xl font-bold">Partner sites</h2>
+        <h2 id="sites" className="text-xl font-bold">{words("sites")}</h2>
         <ul className="mt-3 grid gap-2 sm:grid-cols-2">
           {snapshot.sites.map((s) => (
             <li key={s.name}>
-              {s.id !== null ? <Link href={`/sites/${s.id}`}>{s.name}</Link> : <span title="The grower asked not to be named">{s.name}</span>}{" "}
+              {s.id !== null ? <Link href={here(`/sites/${s.id}`)}>{s.name}</Link> : <span title={words("unnamed")}>{s.name}</span>}{" "}
               <span className="text-sm text-loam-700">
-                — {s.region}, {SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup}
-                {notIncluded.has(s.name) && ", not included in these results"}
+                — {s.region}, {locale === "en" ? (SETUP_LABELS[s.growingSetup as GrowingSetup] ?? s.growingSetup) : nav("setup", { setup: s.growingSetup })}
+                {notIncluded.has(s.name) && words("notIncluded")}
               </span>
             </li>
           ))}
@@ -146,16 +152,16 @@ export default async function PublicTrialPage({ params, searchParams }: { params
       </section>
 
       <section aria-labelledby="versions" className="text-sm text-loam-700">
-        <h2 id="versions" className="text-base font-bold text-loam-900">Versions</h2>
+        <h2 id="versions" className="text-base font-bold text-loam-900">{words("versions")}</h2>
         <ul className="mt-2 space-y-1">
           {versions.map((v) => (
             <li key={v.version}>
-              <Link href={`/results/${t.code}${v.version === latestVersion ? "" : `?version=${v.version}`}`}>Version {v.version}</Link>, {v.publishedAt.toISOString().slice(0, 10)}
+              <Link href={here(`/results/${t.code}${v.version === latestVersion ? "" : `?version=${v.version}`}`)}>{words("version", { version: String(v.version) })}</Link>, {v.publishedAt.toISOString().slice(0, 10)}
               {v.changeNote ? ` — ${v.changeNote}` : ""}
             </li>
           ))}
         </ul>
-        <p className="mt-3">Cite as: {snapshot.citation}</p>
+        <p className="mt-3">{words("citeAs", { citation: snapshot.citation })}</p>
       </section>
     </div>
   );

@@ -15,6 +15,8 @@ import { RemovePhoto } from "@/components/record/remove-photo";
 import { listSitePhotos } from "@/db/queries/photos";
 import { KeepReadyOffline } from "@/components/offline/offline-setup";
 import { offlineUrlsForSite } from "@/lib/domain/offline";
+import { getTranslations } from "next-intl/server";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 export const dynamic = "force-dynamic";
 
@@ -47,6 +49,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   const comments: Record<number, string[]> = {};
   for (const c of sheet.comments) if (c.plotId) (comments[c.plotId] ??= []).push(c.body);
   const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
+  const t = await getTranslations("record");
   const sendable = (sheet.submission?.status ?? "draft") !== "submitted" && sheet.submission?.status !== "accepted" && Object.keys(sheet.values).length > 0;
 
   return (
@@ -56,40 +59,39 @@ export default async function RecordSitePage({ params, searchParams }: { params:
       <KeepReadyOffline userId={viewer.id} urls={["/portal", "/portal/record", ...offlineUrlsForSite(sheet.enrolment.trialId, sheet.enrolment.siteId)]} />
       <DuePanel sheet={sheet} />
       {sheet.submission?.status === "returned" && (
-        <Card title="Returned by your coordinator">
+        <Card title={t("returnedTitle")}>
           {sheet.submission.reviewComment && <p className="mb-2">{sheet.submission.reviewComment}</p>}
           <ul className="list-disc pl-5">
             {sheet.comments.map((c) => (
               <li key={c.id}>
-                {c.plotId ? `Plot ${sheet.plots.find((x) => x.id === c.plotId)?.plotCode ?? ""}: ` : ""}
-                {c.body}
+                {c.plotId ? t("plotComment", { plot: sheet.plots.find((x) => x.id === c.plotId)?.plotCode ?? "", comment: c.body }) : c.body}
               </li>
             ))}
           </ul>
-          <p className="mt-2 text-sm text-loam-700">Correct or confirm these values below, then send the data again.</p>
+          <p className="mt-2 text-sm text-loam-700">{t("returnedHelp")}</p>
         </Card>
       )}
       <div className="flex flex-wrap gap-2">
         <a className={buttonClasses("secondary")} href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>
-          Download spreadsheet (.xlsx)
+          {t("downloadSheet")}
         </a>
         <Link className={buttonClasses("secondary")} href={`${base}/upload`}>
-          Upload a filled-in sheet
+          {t("uploadSheet")}
         </Link>
       </div>
       {sendable && (
-        <Card title="When everything is in">
-          <p className="mb-3 text-loam-700">Send the data to your coordinator for review. The values are locked until they accept it or return it with questions.</p>
+        <Card title={t("whenAllIn")}>
+          <p className="mb-3 text-loam-700">{t("sendHelp")}</p>
           <SubmitForReviewForm site={{ trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }} />
         </Card>
       )}
       {plotFilter.success && (
         <p>
-          Showing one plot. <Link href={base}>Show all {sheet.plots.length} plots</Link>
+          {t("showingOne")} <Link href={base}>{t("showAll", { count: String(sheet.plots.length) })}</Link>
         </p>
       )}
       {plots.length === 0 ? (
-        <p className="text-loam-700">This site has no plot layout yet. Your coordinator lays out the plots before data can be recorded.</p>
+        <p className="text-loam-700">{t("noLayout")}</p>
       ) : (
         <EntryForm
           userId={viewer.id}
@@ -104,29 +106,29 @@ export default async function RecordSitePage({ params, searchParams }: { params:
           transplantedOn={sheet.enrolment.transplantedOn}
           packetChecks={packetChecks}
           today={sheet.today}
-          locked={lockMessage(viewer.role, sheet)}
+          locked={lockMessage(viewer.role, sheet, translatorFor(viewer.locale))}
           comments={comments}
           plotUnit={sheet.enrolment.plotUnit}
           plotSize={sheet.enrolment.plotSize}
         />
       )}
       {plots.length > 0 && sendable && (
-        <Card title="Done recording?">
-          <p className="mb-3 text-loam-700">Send the data to your coordinator for review. The values are locked until they accept it or return it with questions.</p>
+        <Card title={t("doneRecording")}>
+          <p className="mb-3 text-loam-700">{t("sendHelp")}</p>
           <SubmitForReviewForm site={{ trialId: sheet.enrolment.trialId, siteId: sheet.enrolment.siteId }} />
         </Card>
       )}
       {plots.length > 0 && (
-        <Card title="Photos">
+        <Card title={t("photos")}>
           {photos.length > 0 && (
             <ul className="mb-4 flex flex-wrap gap-3">
               {photos.slice(0, 24).map((ph) => (
                 <li key={ph.id} className="w-32 text-xs text-loam-700">
                   <a href={`/api/photos/${ph.id}`}>
                     {/* eslint-disable-next-line @next/next/no-img-element -- private photos are served by our own route, not the image optimiser */}
-                    <img src={`/api/photos/${ph.id}`} alt={ph.caption ?? `Photo of ${ph.plotCode ?? "the site"}`} className="h-24 w-32 rounded-lg object-cover" loading="lazy" />
+                    <img src={`/api/photos/${ph.id}`} alt={ph.caption ?? t("photoOf", { what: ph.plotCode ?? t("theSite") })} className="h-24 w-32 rounded-lg object-cover" loading="lazy" />
                   </a>
-                  {ph.plotCode ?? "Site"} {ph.caption ? `· ${ph.caption}` : ""}
+                  {ph.plotCode ?? t("site")} {ph.caption ? `· ${ph.caption}` : ""}
                   <RemovePhoto photoId={ph.id} trialId={sheet.enrolment.trialId} siteId={sheet.enrolment.siteId} name={ph.caption ?? `${ph.plotCode ?? "site"} photo`} />
                 </li>
               ))}

@@ -5,6 +5,8 @@ import { getRecordingSheet } from "@/server/observations/sheet";
 import { idParam } from "@/lib/validation/common";
 import { UploadForm } from "@/components/record/upload-form";
 import { lockMessage, SiteHeader } from "@/components/record/site-panels";
+import { getTranslations } from "next-intl/server";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 export const dynamic = "force-dynamic";
 
@@ -17,15 +19,15 @@ export default async function UploadPage({ params }: { params: Promise<{ trialId
   const sheet = await getRecordingSheet(viewer, { trialId: trialId.data, siteId: siteId.data });
   if (!sheet) notFound();
   const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
-  const locked = lockMessage(viewer.role, sheet);
+  const locked = lockMessage(viewer.role, sheet, translatorFor(viewer.locale));
+  const t = await getTranslations("upload");
   return (
     <div className="space-y-6">
       <SiteHeader sheet={sheet} />
       <div className="space-y-2 text-loam-900">
-        <h2 className="text-xl font-bold">Upload a filled-in sheet</h2>
+        <h2 className="text-xl font-bold">{t("title")}</h2>
         <p>
-          Use the <a href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>Excel template for this site</a> (or a CSV with the same columns). You will see
-          what changes before anything is saved. Empty cells leave recorded values as they are.
+          {t("introBefore")} <a href={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/template`}>{t("templateLink")}</a> {t("introAfter")}
         </p>
       </div>
       {locked ? (
@@ -34,7 +36,7 @@ export default async function UploadPage({ params }: { params: Promise<{ trialId
         <UploadForm endpoint={`/api/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}/upload`} backHref={base} />
       )}
       <p>
-        <Link href={base}>Back to the plots</Link>
+        <Link href={base}>{t("backToPlots")}</Link>
       </p>
     </div>
   );

@@ -32,7 +32,8 @@ export async function GET(request: Request, context: { params: Promise<{ trialId
     if (!layout) throw new AppError("not_found", "That trial or site does not exist, or it is not one of yours.");
     if (layout.plots.length === 0) throw new AppError("conflict", "This site has no plot layout yet. Randomise it first.");
 
-    const data = await buildSiteSheetData(layout, { appUrl: env.APP_URL, pageSize: size.data, withQr: kind.data === "labels" });
+    // A site's own printout language (set by staff) wins over the reader's, so a kit prints alike for everyone.
+    const data = await buildSiteSheetData(layout, { appUrl: env.APP_URL, pageSize: size.data, withQr: kind.data === "labels", locale: layout.printLocale ?? viewer.locale ?? "en" });
     const pdf = await renderSiteSheet(kind.data, data);
     const fileName = `${layout.code}-${layout.siteName.replace(/[^A-Za-z0-9]+/g, "-")}-${SHEET_FILE_NAMES[kind.data]}.pdf`.toLowerCase();
     return new Response(new Uint8Array(pdf), {
