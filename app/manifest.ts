@@ -1,12 +1,11 @@
 import type { MetadataRoute } from "next";
-import { OFFLINE_WORDS } from "@/lib/domain/vocabulary/offline-words";
 
 /** Makes Seedplot installable on a phone: it opens on the list of sites to record. Icons: scripts/make-icons.ts. */
 export default function manifest(): MetadataRoute.Manifest {
   return {
-    name: OFFLINE_WORDS.appName,
-    short_name: OFFLINE_WORDS.appName,
-    description: OFFLINE_WORDS.appDescription,
+    name: "Seedplot",
+    short_name: "Seedplot",
+    description: "Record on-farm trial observations plot by plot, with or without a signal.",
     id: "/portal/record",
     start_url: "/portal/record",
     scope: "/",

@@ -4,12 +4,12 @@ import { signOut } from "next-auth/react";
 import { Dialog } from "@/components/ui/dialog";
 import { Button } from "@/components/ui/button";
 import { clearPhone, countWaitingOnPhone } from "@/components/offline/phone-store";
-import { OFFLINE_WORDS } from "@/lib/domain/vocabulary/offline-words";
 import { useTranslations } from "next-intl";
 
 /** Signing out empties what the phone keeps (values waiting, kept pages); values not sent yet are named first. */
 export function SignOutButton({ userId }: { userId: number }) {
   const t = useTranslations("nav");
+  const tOffline = useTranslations("offline");
   const [waiting, setWaiting] = useState(0);
   async function leave() {
     await clearPhone().catch(() => undefined);
@@ -26,14 +26,14 @@ export function SignOutButton({ userId }: { userId: number }) {
         {t("signOut")}
       </button>
       {waiting > 0 && (
-        <Dialog title={OFFLINE_WORDS.signOutTitle} onClose={() => setWaiting(0)}>
-          <p>{OFFLINE_WORDS.signOutWarning(waiting)}</p>
+        <Dialog title={tOffline("signOutTitle")} onClose={() => setWaiting(0)}>
+          <p>{tOffline("signOutWarning", { count: waiting })}</p>
           <div className="flex flex-wrap gap-2">
             <Button type="button" onClick={() => setWaiting(0)}>
-              {OFFLINE_WORDS.stayHere}
+              {tOffline("stayHere")}
             </Button>
             <Button type="button" variant="secondary" onClick={() => void leave()}>
-              {OFFLINE_WORDS.signOutAnyway(waiting)}
+              {tOffline("signOutAnyway", { count: waiting })}
             </Button>
           </div>
         </Dialog>

@@ -13,7 +13,6 @@ import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
 import { missingReasonLabels, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
-import { noSignalWaiting, OFFLINE_WORDS, waitingOnPhone } from "@/lib/domain/vocabulary/offline-words";
 
 export interface EntryPlot {
   id: number;
@@ -35,9 +34,9 @@ const onlineSubscribe = (notify: () => void) => {
 };
 
 /** How a value (or a reason) reads in a sentence: "4", "no value (plant died)". */
-function shownValue(value: string, reason: MissingReason | null | undefined, reasonLabels: Record<MissingReason, string>): string {
-  if (reason) return `${OFFLINE_WORDS.emptyValue} (${reasonLabels[reason].toLowerCase()})`;
-  return value === "" ? OFFLINE_WORDS.emptyValue : value;
+function shownValue(value: string, reason: MissingReason | null | undefined, reasonLabels: Record<MissingReason, string>, emptyValue: string): string {
+  if (reason) return `${emptyValue} (${reasonLabels[reason].toLowerCase()})`;
+  return value === "" ? emptyValue : value;
 }
 
 /**
@@ -69,6 +68,7 @@ export function EntryForm(props: {
 }) {
   const { trialId, siteId, columns, plots } = props;
   const t = useTranslations("entry");
+  const tOffline = useTranslations("offline");
   const words = translatorFor(useLocale());
   const reasonLabels = useMemo(() => missingReasonLabels(words), [words]);
   const reasonOptions = Object.entries(reasonLabels) as [MissingReason, string][];
@@ -237,18 +237,18 @@ export function EntryForm(props: {
         </div>
         <div aria-live="polite" role="status" className="space-y-2 text-sm">
           {!online ? (
-            <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 font-semibold text-sky-800">{queued - conflictCount > 0 ? noSignalWaiting(queued - conflictCount) : OFFLINE_WORDS.noSignal}</p>
+            <p className="rounded-lg border border-sky-600 bg-sky-100 px-3 py-2 font-semibold text-sky-800">{queued - conflictCount > 0 ? tOffline("noSignalWaiting", { count: queued - conflictCount }) : tOffline("noSignal")}</p>
           ) : queued - conflictCount > 0 ? (
             <div className="flex flex-wrap items-center gap-3 rounded-lg border border-marigold-400 bg-marigold-100 px-3 py-2 text-marigold-800">
-              <span className="font-semibold">{waitingOnPhone(queued - conflictCount)}</span>
+              <span className="font-semibold">{tOffline("waitingOnPhone", { count: queued - conflictCount })}</span>
               <Button type="button" variant="secondary" onClick={() => void retryAll()}>
-                {OFFLINE_WORDS.retryNow}
+                {tOffline("retryNow")}
               </Button>
             </div>
           ) : (
-            conflictCount === 0 && <span className="text-loam-700">{OFFLINE_WORDS.allSaved}</span>
+            conflictCount === 0 && <span className="text-loam-700">{tOffline("allSaved")}</span>
           )}
-          {conflictCount > 0 && <p className="rounded-lg border border-beet-600 bg-white px-3 py-2 font-semibold text-beet-700">{OFFLINE_WORDS.conflictsWaiting(conflictCount)}</p>}
+          {conflictCount > 0 && <p className="rounded-lg border border-beet-600 bg-white px-3 py-2 font-semibold text-beet-700">{tOffline("conflictsWaiting", { count: conflictCount })}</p>}
           {notice && <p className="font-semibold text-beet-700">{notice}</p>}
         </div>
       </div>
@@ -278,7 +278,7 @@ export function EntryForm(props: {
                 const whyId = `${id}-why`;
                 const waitingHere = queue[slot];
                 const serverToken = knownFromToken(savedTokens[slot]);
-                const onServer = serverToken.value === null && serverToken.missingReason === null ? OFFLINE_WORDS.nothingSavedYet : OFFLINE_WORDS.savedOnSeedplot(shownValue(serverToken.value ?? "", serverToken.missingReason, reasonLabels));
+                const onServer = serverToken.value === null && serverToken.missingReason === null ? tOffline("nothingSavedYet") : tOffline("savedOnSeedplot", { value: shownValue(serverToken.value ?? "", serverToken.missingReason, reasonLabels, tOffline("emptyValue")) });
                 // Packet warnings belong to the value saved (the latest save's answer, else the page's); once the
                 // field shows something else they are stale.
                 const packet = slot in savedWarnings ? savedWarnings[slot]!.filter((w) => w.kind === "far_from_packet").map((w) => w.message) : (props.packetChecks[slot] ?? []);
@@ -333,7 +333,7 @@ export function EntryForm(props: {
                       <p id={`${id}-state`} className={cn("min-h-5 text-sm", err ? "font-semibold text-beet-700" : "text-loam-700")}>
                         {err ??
                           (waitingHere && !waitingHere.conflict
-                            ? `${st === "saving" ? t("saving") : OFFLINE_WORDS.stateWaiting} · ${onServer}`
+                            ? `${st === "saving" ? t("saving") : tOffline("stateWaiting")} · ${onServer}`
                             : st === "saving"
                               ? t("saving")
                               : st === "saved"
@@ -361,15 +361,15 @@ export function EntryForm(props: {
                       )}
                     </div>
                     {waitingHere?.conflict && (
-                      <div id={`${id}-conflict`} role="group" aria-label={`${p.plotCode}, ${c.name}: ${OFFLINE_WORDS.conflictTitle}`} className="mt-1 space-y-2 rounded-lg border border-beet-600 bg-white px-3 py-2 text-sm text-loam-900">
-                        <p className="font-semibold text-beet-700">{OFFLINE_WORDS.conflictTitle}</p>
-                        <p>{OFFLINE_WORDS.conflictBoth(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels), shownValue(waitingHere.value, waitingHere.reason, reasonLabels))}</p>
+                      <div id={`${id}-conflict`} role="group" aria-label={`${p.plotCode}, ${c.name}: ${tOffline("conflictTitle")}`} className="mt-1 space-y-2 rounded-lg border border-beet-600 bg-white px-3 py-2 text-sm text-loam-900">
+                        <p className="font-semibold text-beet-700">{tOffline("conflictTitle")}</p>
+                        <p>{tOffline("conflictBoth", { theirs: shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels, tOffline("emptyValue")), yours: shownValue(waitingHere.value, waitingHere.reason, reasonLabels, tOffline("emptyValue")) })}</p>
                         <div className="flex flex-wrap gap-2">
                           <Button type="button" variant="secondary" onClick={() => settle(slot, "theirs")}>
-                            {OFFLINE_WORDS.keepTheirs(shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels))}
+                            {tOffline("keepTheirs", { theirs: shownValue(waitingHere.conflict.saved, waitingHere.conflict.savedReason, reasonLabels, tOffline("emptyValue")) })}
                           </Button>
                           <Button type="button" variant="secondary" onClick={() => settle(slot, "mine")}>
-                            {OFFLINE_WORDS.useMine(shownValue(waitingHere.value, waitingHere.reason, reasonLabels))}
+                            {tOffline("useMine", { yours: shownValue(waitingHere.value, waitingHere.reason, reasonLabels, tOffline("emptyValue")) })}
                           </Button>
                         </div>
                       </div>

@@ -118,8 +118,8 @@ export function warningsFor(warnings: unknown, item: Pick<Pending, "plotId" | "k
 
 export type SaveOutcome =
   | { kind: "saved" }
-  /** The server refused the value itself: retrying would not help, the grower needs to fix it. */
-  | { kind: "refused"; message: string }
+  /** The server refused the value itself: retrying would not help, the grower needs to fix it (null: it gave no reason). */
+  | { kind: "refused"; message: string | null }
   /** Someone else changed the slot since the phone last saw it: the grower chooses. */
   | { kind: "conflict"; server: ServerValue }
   /** No answer, a signed-out session or a server in trouble: keep the value and try again later. */
@@ -144,7 +144,7 @@ export function saveOutcome(p: { status: number; ok: boolean; slot: string; body
     });
     if (mine) return { kind: "conflict", server: { saved: mine.saved, savedReason: isMissingReason(mine.savedReason) ? mine.savedReason : null } };
   }
-  if (REFUSED.has(p.status)) return { kind: "refused", message: p.body?.fieldErrors?.[p.slot]?.join(" ") ?? p.body?.error ?? "This value was not accepted." };
+  if (REFUSED.has(p.status)) return { kind: "refused", message: p.body?.fieldErrors?.[p.slot]?.join(" ") ?? p.body?.error ?? null };
   return { kind: "retry", signedOut: p.status === 401 };
 }
 

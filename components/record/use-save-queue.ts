@@ -1,9 +1,9 @@
 "use client";
 
 import { useCallback, useEffect, useRef, useState } from "react";
+import { useTranslations } from "next-intl";
 import type { MissingReason } from "@/lib/domain/observations/missing";
 import { phoneQueueKey } from "@/lib/domain/offline";
-import { OFFLINE_WORDS } from "@/lib/domain/vocabulary/offline-words";
 import { readPhoneQueue, writePhoneQueue } from "@/components/offline/phone-store";
 import {
   afterConflict,
@@ -40,6 +40,7 @@ export type Typed = Pick<Pending, "plotId" | "key" | "value" | "reason">;
  */
 export function useSaveQueue(p: { userId: number; trialId: number; siteId: number; initial: Record<string, string>; initialReasons: Record<string, MissingReason>; onRestore: (stored: Queue) => void }) {
   const { trialId, siteId } = p;
+  const t = useTranslations("offline");
   const storageKey = phoneQueueKey(p.userId, trialId, siteId);
   const [queue, setQueue] = useState<Queue>({});
   const queueRef = useRef<Queue>({});
@@ -112,11 +113,11 @@ export function useSaveQueue(p: { userId: number; trialId: number; siteId: numbe
           return true;
         }
         if (outcome.kind === "refused") {
-          setSlotError(slot, outcome.message);
+          setSlotError(slot, outcome.message ?? t("notAccepted"));
           updateQueue((q) => (q[slot]?.clientSaveId === item.clientSaveId ? withoutSlot(q, slot) : q));
           return true;
         }
-        if (outcome.signedOut) setNotice(OFFLINE_WORDS.signedOut);
+        if (outcome.signedOut) setNotice(t("signedOut"));
         setStatus((s) => ({ ...s, [slot]: "queued" }));
         return false;
       } catch {
@@ -124,7 +125,7 @@ export function useSaveQueue(p: { userId: number; trialId: number; siteId: numbe
         return false;
       }
     },
-    [trialId, siteId, updateQueue, setSlotError, markSaved],
+    [trialId, siteId, updateQueue, setSlotError, markSaved, t],
   );
 
   /** Sends what waits, oldest first, one at a time; stops at the first that finds no connection. */

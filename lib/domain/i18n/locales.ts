@@ -13,4 +13,4 @@ export const localeOr = (value: unknown, fallback: Locale = DEFAULT_LOCALE): Loc
  * The catalogue namespaces client components read through next-intl; only these travel to the browser with a
  * page, so a public page carries no portal wording (nor words like review states) it does not show.
  */
-export const CLIENT_NAMESPACES = ["common", "nav", "public", "account", "languages", "entry", "upload", "record"] as const;
+export const CLIENT_NAMESPACES = ["common", "nav", "public", "account", "languages", "entry", "offline", "upload", "record"] as const;

@@ -39,7 +39,7 @@ describe("message catalogue", () => {
     for (const locale of LOCALES) {
       const t = translatorFor(locale);
       expect(t("upload.row", { row: "7" })).toBe(locale === "en" ? "Row 7" : "Fila 7");
-      expect(t("entry.queued", { count: 2 })).toContain("2");
+      expect(t("offline.waitingOnPhone", { count: 2 })).toContain("2");
     }
   });
 });
