@@ -104,6 +104,18 @@ describe("a grower whose language is Spanish", () => {
     await page.getByText("Los valores se guardan a medida que escribe.").waitFor();
     await page.screenshot({ path: path.join(shots, "phone-record-es.png"), fullPage: false });
 
+    // Without a signal, what waits on the phone is said in Spanish too, and goes out when the signal is back.
+    await context.setOffline(true);
+    await inputs.nth(3).fill("5");
+    await inputs.nth(3).press("Enter");
+    await page.getByText("Sin señal. 1 valor espera en este teléfono y se envía solo cuando vuelva la señal.").waitFor();
+    await expect.poll(() => state3.textContent()).toMatch(/^Esperando en este teléfono · (Aún no hay nada guardado en Seedplot|Guardado en Seedplot: .+)$/);
+    await inputs.nth(3).scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(shots, "phone-record-waiting-es.png"), fullPage: false });
+    await context.setOffline(false);
+    await expect.poll(() => state3.textContent(), { timeout: 30_000 }).toBe("Guardado");
+    await page.getByText("Los valores se guardan a medida que escribe.").waitFor();
+
     // An upload with mistakes: messages in Spanish, each with its row and column; nothing saved.
     const templateHref = await page.getByRole("link", { name: "Descargar hoja de cálculo (.xlsx)" }).getAttribute("href");
     const workbook = new ExcelJS.Workbook();
