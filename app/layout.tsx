@@ -2,7 +2,7 @@ import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
 import { NextIntlClientProvider } from "next-intl";
 import { getLocale, getMessages, getTranslations } from "next-intl/server";
-import { CLIENT_NAMESPACES } from "@/lib/domain/i18n/locales";
+import { clientMessages } from "@/lib/domain/i18n/locales";
 import "./globals.css";
 
 // Inter is shipped with the app (public/fonts, SIL Open Font License); nothing is downloaded at build.
@@ -30,14 +30,13 @@ export const viewport: Viewport = { width: "device-width", initialScale: 1, them
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
   const [locale, t, messages] = await Promise.all([getLocale(), getTranslations("common"), getMessages()]);
-  const clientMessages = Object.fromEntries(CLIENT_NAMESPACES.map((ns) => [ns, messages[ns]]));
   return (
     <html lang={locale} className={inter.variable}>
       <body className="min-h-screen font-sans">
         <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2">
           {t("skipToContent")}
         </a>
-        <NextIntlClientProvider messages={clientMessages}>{children}</NextIntlClientProvider>
+        <NextIntlClientProvider messages={clientMessages(messages)}>{children}</NextIntlClientProvider>
       </body>
     </html>
   );

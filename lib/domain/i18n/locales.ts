@@ -10,7 +10,22 @@ export const isLocale = (value: unknown): value is Locale => typeof value === "s
 export const localeOr = (value: unknown, fallback: Locale = DEFAULT_LOCALE): Locale => (isLocale(value) ? value : fallback);
 
 /**
- * The catalogue namespaces client components read through next-intl; only these travel to the browser with a
- * page, so a public page carries no portal wording (nor words like review states) it does not show.
+ * What of the catalogue travels to the browser with a page: the namespaces only client components read, and
+ * from the namespaces server components share (nav, public) just the keys client components use. So a page
+ * carries no wording it does not show (a public page no portal words, a live page no withdrawal notice).
  */
-export const CLIENT_NAMESPACES = ["common", "nav", "public", "account", "languages", "entry", "offline", "upload", "record"] as const;
+export const CLIENT_NAMESPACES = ["common", "account", "languages", "entry", "offline", "upload", "record"] as const;
+export const CLIENT_KEYS: Record<string, readonly string[]> = {
+  nav: ["signOut"],
+  public: ["switchTo"],
+};
+
+/** The part of a catalogue sent to client components. */
+export function clientMessages<T extends Record<string, unknown>>(messages: T): Record<string, unknown> {
+  const picked: Record<string, unknown> = Object.fromEntries(CLIENT_NAMESPACES.map((ns) => [ns, messages[ns]]));
+  for (const [ns, keys] of Object.entries(CLIENT_KEYS)) {
+    const all = (messages[ns] ?? {}) as Record<string, unknown>;
+    picked[ns] = Object.fromEntries(keys.filter((k) => k in all).map((k) => [k, all[k]]));
+  }
+  return picked;
+}
