@@ -156,10 +156,11 @@ function SiteRow({ trial, site, entryCount, open, setOpen }: { trial: TrialDetai
             <p className="text-marigold-800">Not laid out yet</p>
           )}
           {site.observations > 0 && <p className="text-loam-700">{site.observations} values recorded; layout is fixed.</p>}
-          <p className="flex flex-wrap items-center gap-x-2 text-loam-700">
+          {/* a div, not a p: the consent form inside may not sit in a paragraph */}
+          <div className="flex flex-wrap items-center gap-x-2 text-loam-700">
             <span>{site.namedInResults ? "Named in public results" : `Published without its name ("Site N, ${site.region}")`}</span>
             <SiteNamingForm trialId={trial.id} siteId={site.siteId} siteName={site.site} named={site.namedInResults} />
-          </p>
+          </div>
         </div>
         <div className="flex flex-wrap items-start gap-2">
           {laidOut && (

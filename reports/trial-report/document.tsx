@@ -1,3 +1,4 @@
+import { missingPlotList } from "@/lib/domain/observations/missing";
 import type { ReactNode } from "react";
 import { inStatedOrder, leaderHeading, orderWords } from "@/lib/domain/analysis/ranking";
 import { Document, Page, StyleSheet, Text, View } from "@react-pdf/renderer";
@@ -411,7 +412,7 @@ export function TrialReport({ snapshot, pages }: { snapshot: PublicSnapshot; pag
         {snapshot.results.flatMap((r) => r.result.missing).length > 0 && (
           <Text style={s.note}>
             Missing plots:{" "}
-            {[...new Set(snapshot.results.flatMap((r) => r.result.missing.map((m) => `${m.plotCode} (${m.siteName}, ${m.reason})`)))].join("; ")}.
+            {missingPlotList(snapshot.results.flatMap((r) => r.result.missing))}.
           </Text>
         )}
       </ReportPage>

@@ -63,3 +63,15 @@ export function parseMissingText(raw: unknown, t: Translator = translatorFor()):
   const said = (m[1] ?? "").trim();
   return { ok: false, message: said ? t("values.missingNotReason", { said, words: missingWordsList() }) : t("values.missingSayWhy", { words: missingWordsList() }) };
 }
+
+/** Each missing plot once, with every reason the traits gave for it ("S01-1-03 (Willow Bend, not sown / plants died)"). */
+export function missingPlotList(missing: { plotCode: string; siteName: string; reason: string }[]): string {
+  const reasons = new Map<string, { plot: string; site: string; reasons: Set<string> }>();
+  for (const m of missing) {
+    const key = `${m.siteName}\u0000${m.plotCode}`;
+    const entry = reasons.get(key) ?? { plot: m.plotCode, site: m.siteName, reasons: new Set<string>() };
+    entry.reasons.add(m.reason);
+    reasons.set(key, entry);
+  }
+  return [...reasons.values()].map((p) => `${p.plot} (${p.site}, ${[...p.reasons].join(" / ")})`).join("; ");
+}
