@@ -203,15 +203,20 @@ describe("a grower whose language is Spanish", () => {
 
     // Staff set the site's printouts to Spanish: the packing list prints in Spanish for an English-reading coordinator.
     await staff.page.goto("/portal/sites");
+    // The same "Saved" stays on screen between two changes, so each change waits for its own answer.
+    const printoutLanguageSaved = () => staff.page.waitForResponse((r) => r.request().method() === "POST" && new URL(r.url()).pathname === "/portal/sites");
+    let saved = printoutLanguageSaved();
     await staff.page.getByLabel(`Printout language for ${SITE}`).selectOption("es");
+    await saved;
     await staff.page.locator("tr", { hasText: SITE }).getByText("Saved").waitFor();
     const packing = pdfText(Buffer.from(await (await staff.page.request.get(`${sheets}?kind=packing`)).body()), "packing-list-es");
     expect(packing).toContain("Lista de empaque del kit de semillas");
     expect(packing).toMatch(/Empacado\s+Código\s+Lote de semilla\s+Tratada\s+Parcelas/);
     expect(packing).toContain("sin tratar");
     // Without a site language, the same list prints in the coordinator's own language.
+    saved = printoutLanguageSaved();
     await staff.page.getByLabel(`Printout language for ${SITE}`).selectOption("");
-    await staff.page.locator("tr", { hasText: SITE }).getByText("Saved").waitFor();
+    await saved;
     const english = pdfText(Buffer.from(await (await staff.page.request.get(`${sheets}?kind=packing`)).body()), "packing-list-en");
     expect(english).toContain("Seed kit packing list");
     await staff.context.close();
