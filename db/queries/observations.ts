@@ -3,6 +3,7 @@ import { and, asc, eq, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "../index";
 import { clientSaves, enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
+import { plotLayoutFields } from "./trial-parts";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { TraitForColumns } from "@/lib/domain/observations/columns";
 import type { CellValue } from "@/lib/domain/observations/values";
@@ -94,7 +95,7 @@ const plotFilter = (enrolmentId: number, onlyPlots?: number[]) =>
 
 export async function listEnrolmentPlots(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
   return ex
-    .select({ id: plots.id, plotCode: plots.plotCode, block: plots.block, position: plots.position, tray: plots.tray, traySlot: plots.traySlot, blindCode: trialEntries.blindCode })
+    .select(plotLayoutFields)
     .from(plots)
     .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
     .where(plotFilter(enrolmentId, onlyPlots))
@@ -143,13 +144,7 @@ export async function listEnrolmentObservations(ex: Executor, enrolmentId: numbe
 export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
   const rows = await ex
     .select({
-      id: plots.id,
-      plotCode: plots.plotCode,
-      block: plots.block,
-      position: plots.position,
-      tray: plots.tray,
-      traySlot: plots.traySlot,
-      blindCode: trialEntries.blindCode,
+      ...plotLayoutFields,
       packetDays: seedLots.packetDaysToMaturity,
       observationId: observations.id,
       traitId: observations.traitId,

@@ -1,12 +1,23 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "../index";
-import { crops, programs, seasons, seedLots, trialEntries, trialTraits, traits, trials, varieties } from "../schema";
+import { crops, plots, programs, seasons, seedLots, trialEntries, trialTraits, traits, trials, varieties } from "../schema";
 import { staffTrialScope } from "../access";
 import type { Viewer } from "@/lib/domain/viewer";
 
 // Building blocks shared by the trial page, publishing and analysis queries. Callers check the
 // viewer's role first; `findStaffTrial` also scopes the trial to the viewer's programs.
+
+/** A plot's place in the layout and its blind code: what every plot list shows (select with plots joined to trial_entries). */
+export const plotLayoutFields = {
+  id: plots.id,
+  plotCode: plots.plotCode,
+  block: plots.block,
+  position: plots.position,
+  tray: plots.tray,
+  traySlot: plots.traySlot,
+  blindCode: trialEntries.blindCode,
+};
 
 /** One trial with its crop, season and program names; null when it is not in the viewer's programs. */
 export async function findStaffTrial(viewer: Viewer, trialId: number) {

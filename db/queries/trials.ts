@@ -4,7 +4,7 @@ import { and, asc, count, eq, isNull, or, sql } from "drizzle-orm";
 import { db } from "../index";
 import { crops, enrolments, observations, plots, programs, seasons, seedLots, sites, trialEntries, traits, trials, users, varieties } from "../schema";
 import { cooperatorEnrolmentScope, programScope, staffTrialScope, trialProgress } from "../access";
-import { findStaffTrial, listEntriesWithLots, listTrialTraits } from "./trial-parts";
+import { findStaffTrial, listEntriesWithLots, listTrialTraits, plotLayoutFields } from "./trial-parts";
 import type { Viewer } from "@/lib/domain/viewer";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 
@@ -155,13 +155,7 @@ export async function getSiteLayout(viewer: Viewer, p: { trialId: number; siteId
   const showKey = viewer.role !== "cooperator" && canSeeBlindKey(viewer, row);
   const plotRows = await db
     .select({
-      id: plots.id,
-      plotCode: plots.plotCode,
-      block: plots.block,
-      position: plots.position,
-      tray: plots.tray,
-      traySlot: plots.traySlot,
-      blindCode: trialEntries.blindCode,
+      ...plotLayoutFields,
       variety: varieties.name,
       isCheck: trialEntries.isCheck,
       treated: seedLots.treated,
@@ -206,13 +200,7 @@ export async function getPlotForViewer(viewer: Viewer, plotId: number) {
   const scope = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : staffTrialScope(viewer);
   const [row] = await db
     .select({
-      id: plots.id,
-      plotCode: plots.plotCode,
-      block: plots.block,
-      position: plots.position,
-      tray: plots.tray,
-      traySlot: plots.traySlot,
-      blindCode: trialEntries.blindCode,
+      ...plotLayoutFields,
       trialId: trials.id,
       trialTitle: trials.title,
       trialCode: trials.code,
