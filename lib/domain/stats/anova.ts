@@ -236,11 +236,11 @@ function readOneWayPlots(data: readonly OneWayPlot[]): OneWayValues {
     const plot = data[i];
     const e = entries.indexOf(plot.entry);
     const value = plot.value;
-    if (value === null || value === undefined) {
+    if (value == null) {
       missing++;
       continue;
     }
-    if (typeof value !== "number" || !Number.isFinite(value)) nonFinite(i, value);
+    if (!Number.isFinite(value)) nonFinite(i, value);
     if (e >= capacity) {
       capacity *= 4;
       counts = grown(counts, capacity);
