@@ -2,7 +2,7 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import type { AnovaRow } from "@/lib/domain/stats";
 import type { EntryResult, GerminationRow, LabelComparison, MissingPlot } from "@/lib/domain/analysis/types";
-import { formatNumber, formatP } from "@/lib/domain/analysis/format";
+import { formatNumber, formatP, signedDifference } from "@/lib/domain/analysis/format";
 import { DataTable } from "@/components/ui/data-table";
 import { ANOVA_SOURCE_LABELS } from "@/lib/domain/vocabulary/labels";
 
@@ -23,15 +23,10 @@ type EmergenceKinetics = { blindCode: string; varietyName?: string | null; meanE
 function CheckCell({ row }: { row: MeanRow }) {
   if (row.percentOfCheck === null || row.percentOfCheck === undefined) return <span>–</span>;
   if (row.isCheck) return <span>100 (check)</span>;
-  const diff = row.checkDifference ?? 0;
   return (
     <span>
       {formatNumber(row.percentOfCheck, 0)}
-      <span className="text-loam-700">
-        {" "}
-        ({formatNumber(Math.abs(diff)) === formatNumber(0) ? "±" : diff > 0 ? "+" : "−"}
-        {formatNumber(Math.abs(diff))})
-      </span>
+      <span className="text-loam-700"> ({signedDifference(row.checkDifference ?? 0)})</span>
       {row.beyondLsd && <span title="differs from the check by more than the LSD 0.05"> ◆</span>}
     </span>
   );

@@ -1,24 +1,18 @@
 "use client";
 import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
-import { formatNumber } from "@/lib/domain/analysis/format";
+import { formatNumber, signedDifference } from "@/lib/domain/analysis/format";
 import { inStatedOrder, lsdWords, rankedValue } from "@/lib/domain/analysis/ranking";
 import type { PublicMean } from "@/lib/domain/publish/public-shape";
 import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 
 type Row = PublicMean & { shown: string };
 
-/** "+0.92", "−3.08"; a difference that rounds to nothing reads "±0". */
-function signed(x: number): string {
-  const shown = formatNumber(Math.abs(x));
-  return /[1-9]/.test(shown) ? `${x > 0 ? "+" : "−"}${shown}` : "±0";
-}
-
 /** "+152 (beyond the LSD)", "−38 (within the LSD)"; the check itself reads "the check". */
 function againstCheck(m: PublicMean): string {
   if (m.isCheck) return "the check";
   if (m.checkDifference === null) return "–";
-  return `${signed(m.checkDifference)}${lsdWords(m.beyondLsd)}`;
+  return `${signedDifference(m.checkDifference)}${lsdWords(m.beyondLsd)}`;
 }
 
 /**

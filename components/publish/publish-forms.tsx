@@ -119,9 +119,14 @@ export function PublishForm({ trialId, traits, nextVersion, leftOut }: { trialId
   );
 }
 
-export function UnpublishForm({ trialId }: { trialId: number }) {
+/**
+ * Withdraws the live version. It stays on the page once nothing is live any more (the withdrawal refreshes
+ * the page), so the confirmation is still read after the form itself has gone.
+ */
+export function UnpublishForm({ trialId, live }: { trialId: number; live: boolean }) {
   const [state, action] = useActionState(unpublishTrial, null);
   const failed = state && !state.ok ? state : null;
+  if (!live) return state?.ok ? <FormMessage state={state} /> : <p className="text-loam-700">No version is public, so there is nothing to withdraw.</p>;
   return (
     <form action={action} noValidate className="space-y-4">
       <input type="hidden" name="trialId" value={trialId} />

@@ -12,6 +12,7 @@ import { knownFromToken, restoredInputs, restoredReasons, slotOf, tokenOf, type 
 import { useSaveQueue } from "./use-save-queue";
 import { plotPlace } from "@/lib/domain/design/site-layout";
 import { Dialog } from "@/components/ui/dialog";
+import { useScrollClearance } from "@/components/ui/use-scroll-clearance";
 import { missingReasonLabels, isMissingReason, type MissingReason } from "@/lib/domain/observations/missing";
 
 export interface EntryPlot {
@@ -188,10 +189,11 @@ export function EntryForm(props: {
   }
 
   const visiblePlots = plots;
+  const stickyBar = useScrollClearance<HTMLDivElement>();
 
   return (
     <div className="space-y-4">
-      <div className="sticky top-0 z-10 -mx-4 space-y-3 border-b border-husk-200 bg-husk-50 px-4 py-3">
+      <div ref={stickyBar} className="sticky top-0 z-10 -mx-4 space-y-3 border-b border-husk-200 bg-husk-50 px-4 py-3">
         <div>
           <label htmlFor="entry-column" className="block text-sm font-semibold text-loam-900">
             {t("whatRecording")}

@@ -2,7 +2,7 @@
 import { useId, useState } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { planTrial, PLANNING_MAX_BLOCKS, TARGET_POWER, isStatsError, type TrialPlan } from "@/lib/domain/stats";
-import { formatNumber } from "@/lib/domain/analysis/format";
+import { CV_TARGET, formatNumber } from "@/lib/domain/analysis/format";
 import { plural } from "@/lib/domain/vocabulary/words";
 import { pastTrialPlanSchema, typedPlanSchema } from "@/lib/validation/planning";
 import type { PlanningSource } from "@/db/queries/planning";
@@ -99,7 +99,7 @@ export function PlanningPanel({ trialId, initial, blocks, sources, previousTrial
             Type a CV
           </label>
         </div>
-        {sources.length === 0 && <p className="text-sm text-loam-700">None of your other trials of this crop has recorded values yet, so type a CV (12% is a usual target for a well-run trial).</p>}
+        {sources.length === 0 && <p className="text-sm text-loam-700">None of your other trials of this crop has recorded values yet, so type a CV ({CV_TARGET}% is a usual target for a well-run trial).</p>}
       </fieldset>
 
       {mode === "past" && source ? (

@@ -92,7 +92,7 @@ export function RandomiseButton({ trialId, siteId, again, siteName, onDone }: { 
     <form
       action={action}
       onSubmit={(e) => {
-        if (again && !window.confirm(`Draw a new layout for ${siteName}? Printed maps and labels for this site will no longer match.`)) e.preventDefault();
+        if (again && !window.confirm(`Draw a new layout for ${siteName}? Printed maps and labels for this site will no longer match, and photos of its plots are deleted.`)) e.preventDefault();
       }}
       className="space-y-1"
     >

@@ -57,3 +57,16 @@ export async function deletePhoto(tx: Tx, viewer: Viewer, photoId: number) {
   await insertAudit(tx, { actorId: viewer.id, action: "photo.delete", entity: "photo", entityId: photo.id, trialId: photo.trialId, oldValue: { plotId: photo.plotId, storageKey: photo.storageKey } });
   return photo.storageKey;
 }
+
+/**
+ * The storage keys of the photos taken of a site's plots, read in the caller's transaction before the plots
+ * are replaced: their rows go with the plots (ON DELETE CASCADE), and the caller deletes the objects after commit.
+ */
+export async function listPlotPhotoKeys(tx: Tx, enrolmentId: number): Promise<string[]> {
+  const rows = await tx
+    .select({ storageKey: photos.storageKey })
+    .from(photos)
+    .innerJoin(plots, eq(plots.id, photos.plotId))
+    .where(eq(plots.enrolmentId, enrolmentId));
+  return rows.map((r) => r.storageKey);
+}

@@ -236,15 +236,14 @@ export async function listMyLayouts(viewer: Viewer) {
  */
 export async function getTrialLineage(viewer: Viewer, trialId: number) {
   if (!isStaff(viewer)) return null;
-  const trial = await findStaffTrial(viewer, trialId);
-  if (!trial) return null;
-  const [self] = await db.select({ previousTrialId: trials.previousTrialId, programId: trials.programId }).from(trials).where(eq(trials.id, trialId));
+  const [self] = await db.select({ previousTrialId: trials.previousTrialId, programId: trials.programId }).from(trials).where(and(eq(trials.id, trialId), staffTrialScope(viewer)));
+  if (!self) return null;
   const [previous, next, seasonRows] = await Promise.all([
-    self!.previousTrialId === null
+    self.previousTrialId === null
       ? Promise.resolve([])
-      : db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.id, self!.previousTrialId), staffTrialScope(viewer))),
+      : db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.id, self.previousTrialId), staffTrialScope(viewer))),
     db.select({ id: trials.id, code: trials.code, title: trials.title }).from(trials).where(and(eq(trials.previousTrialId, trialId), staffTrialScope(viewer))).orderBy(asc(trials.code)),
-    db.select({ id: seasons.id, name: seasons.name, year: seasons.year }).from(seasons).where(and(eq(seasons.programId, self!.programId), isNull(seasons.closedAt))).orderBy(sql`${seasons.year} desc`, asc(seasons.name)),
+    db.select({ id: seasons.id, name: seasons.name, year: seasons.year }).from(seasons).where(and(eq(seasons.programId, self.programId), isNull(seasons.closedAt))).orderBy(sql`${seasons.year} desc`, asc(seasons.name)),
   ]);
   return { previous: previous[0] ?? null, next, seasons: seasonRows };
 }

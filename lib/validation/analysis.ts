@@ -2,6 +2,7 @@ import { z } from "zod";
 import { BETTER_WHEN } from "@/lib/domain/vocabulary/enums";
 import { idParam } from "./common";
 import { EXCLUSION_CATEGORIES } from "@/lib/domain/vocabulary/enums";
+import { ACROSS_SEASONS_CSV_TABLES } from "@/lib/domain/analysis/across-seasons-export";
 
 // Analysis settings arrive as URL search parameters (the page's controls and outside tools alike).
 
@@ -87,7 +88,17 @@ export const traitDirectionSchema = z.object({
 });
 
 /** The across-seasons view's address: a crop id and a trait code (the same trait in every season). */
+const acrossSeasonsTrait = z.string().trim().regex(/^[a-z0-9_]{1,40}$/i, "Choose a trait from the list.");
+
 export const acrossSeasonsQuerySchema = z.object({
   crop: idParam.optional(),
-  trait: z.string().trim().regex(/^[a-z0-9_]{1,40}$/i, "Choose a trait from the list.").optional(),
+  trait: acrossSeasonsTrait.optional(),
+});
+
+/** A download of the across-seasons view: its crop and trait, and which file (an .xlsx, or one table as CSV). */
+export const acrossSeasonsExportSchema = z.object({
+  crop: idParam,
+  trait: acrossSeasonsTrait,
+  format: z.enum(["xlsx", "csv"], { error: "Ask for format xlsx or csv." }).default("xlsx"),
+  table: z.enum(ACROSS_SEASONS_CSV_TABLES, { error: `Ask for table ${ACROSS_SEASONS_CSV_TABLES.join(", ")}.` }).default("means"),
 });

@@ -7,6 +7,7 @@ import { fieldErrorsOf } from "@/lib/validation/field-errors";
 import { assertPhotoTarget, deletePhoto, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
+import { deleteStoredPhotos } from "./stored-objects";
 import { db } from "@/db/index";
 import { PhotoRefused, preparePhoto } from "./images";
 
@@ -54,7 +55,5 @@ export async function readPhotoForViewer(viewer: Viewer, photoId: number) {
 export async function deletePhotoForViewer(viewer: Viewer, photoId: number) {
   const storageKey = await db.transaction((tx) => deletePhoto(tx, viewer, photoId));
   if (!storageKey) throw new AppError("not_found", "That photo does not exist, or it is not one of yours.");
-  await getStorage()
-    .delete(storageKey)
-    .catch((e) => console.error(`[photos] object ${storageKey} left behind:`, e instanceof Error ? e.message : e));
+  await deleteStoredPhotos([storageKey]);
 }

@@ -2,6 +2,8 @@ import "server-only";
 import { db, type Tx } from "@/db/index";
 import { lockTrialForStaff, trialProgress, type LockedTrial } from "@/db/access";
 import { insertMail } from "@/db/mutations/mail";
+import { listPlotPhotoKeys } from "@/db/mutations/photos";
+import { deleteStoredPhotos } from "@/server/photos/stored-objects";
 import { insertSiteCooperator, lockAccountByEmail } from "@/db/mutations/users";
 import {
   countSiteObservations,
@@ -75,7 +77,7 @@ export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, 
  * `seed` is for tests and for reproducing a stored layout; normally a new one is drawn.
  */
 export async function randomiseTrialSite(viewer: Viewer, input: { trialId: number; siteId: number; seed?: number }) {
-  return db.transaction(async (tx) => {
+  const laidOut = await db.transaction(async (tx) => {
     const trial = await lockTrialForStaff(tx, viewer, input.trialId);
     const enrolment = await lockEnrolment(tx, { trialId: trial.id, siteId: input.siteId });
     const { values } = await countSiteObservations(tx, enrolment.id);
@@ -93,9 +95,13 @@ export async function randomiseTrialSite(viewer: Viewer, input: { trialId: numbe
     const seed = (input.seed ?? newSeed()) >>> 0;
     const layout = siteLayout({ design: trial.design, blocks: trial.blocks, plotUnit: trial.plotUnit, plotSize: trial.plotSize, entryCount: entries.length, seed, siteNumber });
 
+    // Photos of the old plots go with them (ON DELETE CASCADE); their objects are deleted once this commits.
+    const photoKeys = await listPlotPhotoKeys(tx, enrolment.id);
     await replaceSitePlots(tx, { viewer, trialId: trial.id, siteId: input.siteId, enrolment, entryIds: entries.map((e) => e.id), layout, seed });
-    return { seed, plots: layout.length };
+    return { seed, plots: layout.length, photoKeys };
   });
+  await deleteStoredPhotos(laidOut.photoKeys);
+  return { seed: laidOut.seed, plots: laidOut.plots };
 }
 
 /**

@@ -164,3 +164,38 @@ describe("a coordinator returns one value with a comment", () => {
     await grower.context.close();
   }, 90_000);
 });
+
+describe("the recording form's sticky bar on a phone", () => {
+  it("a field focused just below the sticky bar is scrolled clear of it, not typed into under it", async () => {
+    const { page, context } = await newPage(browser, { width: 390, height: 844 });
+    await signIn(page, "dev@fernbrookschool.example", GROWER_PASSWORD);
+    await openKaleSite(page, "Fernbrook School Garden");
+    const inputs = page.locator("[data-entry-input]");
+    await inputs.first().waitFor();
+    // Whatever stays stuck to the top of the screen while the plots scroll under it.
+    const sticky = () => Array.from(document.querySelectorAll("body *")).filter((el) => getComputedStyle(el).position === "sticky");
+    const barBottom = () => page.evaluate(`Math.max(0, ...(${sticky.toString()})().map((el) => el.getBoundingClientRect().bottom))`) as Promise<number>;
+    const barHeight = await page.evaluate(`Math.max(0, ...(${sticky.toString()})().map((el) => el.getBoundingClientRect().height))`) as number;
+    expect(barHeight).toBeGreaterThan(0);
+    const field = inputs.nth(Math.floor((await inputs.count()) / 2));
+    // Scroll so a field halfway down the page has its top a little above the stuck bar's lower edge, still
+    // inside the screen, as a grower scrolling back up leaves it, then move into it.
+    await page.waitForLoadState("networkidle");
+    // Scrolling settles over a frame or two while the page lays out; step until the field sits there.
+    const under = barHeight - 20;
+    await expect
+      .poll(() =>
+        field.evaluate((el, target) => {
+          const off = el.getBoundingClientRect().top - target;
+          if (Math.abs(off) >= 1) window.scrollBy({ top: off, behavior: "instant" });
+          return Math.round(el.getBoundingClientRect().top - target);
+        }, under),
+      )
+      .toBe(0);
+    expect(await field.evaluate((el) => el.getBoundingClientRect().top)).toBeLessThan(await barBottom());
+    await field.focus();
+    const box = await field.evaluate((el) => el.getBoundingClientRect().top);
+    expect(box).toBeGreaterThanOrEqual(await barBottom());
+    await context.close();
+  }, 60_000);
+});

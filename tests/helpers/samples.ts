@@ -27,5 +27,6 @@ export async function loadSampleIds(pool: Pool): Promise<SampleIds> {
   const variety = await one(pool, "SELECT variety_id AS id FROM trial_entries WHERE trial_id = ? ORDER BY id LIMIT 1", [kal]);
   const otherTrial = await trial("JF27-LET");
   const otherVariety = await one(pool, "SELECT variety_id AS id FROM trial_entries WHERE trial_id = ? ORDER BY id LIMIT 1", [otherTrial]);
-  return { kal, spn, siteA, siteB, unpublishedSite, unpublishedVariety, variety, otherTrial, otherVariety, plotA: await plot(siteA), plotB: await plot(siteB) };
+  const kalCrop = await one(pool, "SELECT crop_id AS id FROM trials WHERE id = ?", [kal]);
+  return { kal, kalCrop, spn, siteA, siteB, unpublishedSite, unpublishedVariety, variety, otherTrial, otherVariety, plotA: await plot(siteA), plotB: await plot(siteB) };
 }

@@ -12,6 +12,11 @@ import { env } from "@/lib/env";
 import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { and, inArray } from "drizzle-orm";
+import { DEMO_STAFF } from "@/db/demo-data";
+import { unique } from "../helpers/db";
+import { rollTrialForward } from "@/server/trials/design";
+import { randomiseTrialSite } from "@/server/trials/enrolment";
 
 const { db, pool } = testDatabase();
 let luis: Viewer;
@@ -33,7 +38,14 @@ beforeAll(async () => {
   expect(hasGps((await sharp(withGps).metadata()).exif)).toBe(true);
 });
 
+const createdTrials: number[] = [];
+
 afterAll(async () => {
+  // Children first: plots refer to entries with ON DELETE RESTRICT.
+  if (createdTrials.length) {
+    await db.delete(schema.plots).where(inArray(schema.plots.trialId, createdTrials));
+    await db.delete(schema.trials).where(inArray(schema.trials.id, createdTrials));
+  }
   await pool.end();
 });
 
@@ -112,5 +124,28 @@ describe("plot photos", () => {
     const [audit] = await db.select({ action: schema.auditLog.action }).from(schema.auditLog).where(eq(schema.auditLog.entityId, String(photo.id)));
     expect(audit).toBeDefined();
     await expect(deletePhotoForViewer(luis, photo.id)).rejects.toMatchObject({ code: "not_found" });
+  });
+
+  it("re-drawing a site's layout deletes the photos of its old plots, rows and stored objects alike", async () => {
+    const rosa = await demoViewer(db, DEMO_STAFF[1].email);
+    const [season] = await db.select({ id: schema.seasons.id }).from(schema.seasons).where(eq(schema.seasons.name, "Winter 2026–27"));
+    const { trialId } = await rollTrialForward(rosa, { trialId: brightwater.trialId, seasonId: season!.id, code: unique("PH").toUpperCase().replace(/[^A-Z0-9-]/g, "").slice(0, 30), title: "Kale photos, re-drawn" });
+    createdTrials.push(trialId);
+    const site = { trialId: String(trialId), siteId: String(brightwater.siteId) };
+    await randomiseTrialSite(rosa, { trialId, siteId: brightwater.siteId });
+    const [plot] = await db.select({ id: schema.plots.id, enrolmentId: schema.plots.enrolmentId }).from(schema.plots).where(and(eq(schema.plots.trialId, trialId), eq(schema.plots.siteId, brightwater.siteId))).limit(1);
+    const ofPlot = await uploadPhotoForViewer(rosa, { ...site, plotId: String(plot!.id) }, withGps);
+    const ofSite = await uploadPhotoForViewer(rosa, site, withGps);
+    const keys = Object.fromEntries(
+      (await db.select({ id: schema.photos.id, key: schema.photos.storageKey }).from(schema.photos).where(inArray(schema.photos.id, [ofPlot.id, ofSite.id]))).map((r) => [r.id, r.key]),
+    );
+    expect(await getStorage().get(keys[ofPlot.id]!)).not.toBeNull();
+
+    await randomiseTrialSite(rosa, { trialId, siteId: brightwater.siteId });
+    expect(await db.select().from(schema.photos).where(eq(schema.photos.id, ofPlot.id))).toEqual([]);
+    expect(await getStorage().get(keys[ofPlot.id]!)).toBeNull();
+    // A photo of the site as a whole belongs to no plot and stays, with its object.
+    expect((await db.select({ id: schema.photos.id }).from(schema.photos).where(eq(schema.photos.id, ofSite.id))).length).toBe(1);
+    expect(await getStorage().get(keys[ofSite.id]!)).not.toBeNull();
   });
 });

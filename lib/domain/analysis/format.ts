@@ -24,6 +24,18 @@ function numberFormat(digits: number): Intl.NumberFormat {
   return format;
 }
 
+/**
+ * A difference (from the check) with its sign, as every table shows it: "+0.92", "−3.08", and "±0" for one
+ * that rounds to nothing at the decimals its size gets, so "±0.00" and "−0.00" never appear.
+ */
+export function signedDifference(x: number): string {
+  const shown = formatNumber(Math.abs(x));
+  return /[1-9]/.test(shown) ? `${x > 0 ? "+" : "−"}${shown}` : "±0";
+}
+
+/** CV% a well-run variety trial aims for (Ohio State SC-166; FarmWest: under 12% is "well-controlled"). */
+export const CV_TARGET = 12;
+
 /** "4 of 6 sites", "1 site". */
 export function countOf(n: number, total: number, noun: string): string {
   return `${n} of ${total} ${total === 1 ? noun : `${noun}s`}`;

@@ -18,7 +18,7 @@ import {
 import { SEED_COUNT_TRAITS, SEEDS_SOWN_CODE } from "@/lib/domain/vocabulary/traits";
 import { capitalise, plural } from "@/lib/domain/vocabulary/words";
 import { ANOVA_SOURCE_LABELS, EXCLUSION_CATEGORY_LABELS } from "@/lib/domain/vocabulary/labels";
-import { countOf, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, valueWithUnit } from "./format";
+import { countOf, CV_TARGET, cvWords, differenceWithUnit, formatNumber, formatP, hasCv, valueWithUnit } from "./format";
 import { analyseGermination, analyseEmergence } from "./germination";
 import { assignRanks, compareWithCheck, extremeWord, inStatedOrder, noPairDiffers, orderWords, rankedValue } from "./ranking";
 import { analysedAs, isAnalysable, plotValue } from "./values";
@@ -45,8 +45,6 @@ import type {
 
 /** Significance level for every test and comparison on the page (the trade's standard 0.05). */
 export const ALPHA = 0.05;
-/** CV% a well-run variety trial aims for (Ohio State SC-166; FarmWest: under 12% is "well-controlled"). */
-export const CV_TARGET = 12;
 /** A site's CV counts as far above the others at this multiple of their median (our rule of thumb, common practice). */
 export const CV_OUTLIER_FACTOR = 2;
 

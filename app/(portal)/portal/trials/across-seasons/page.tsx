@@ -21,6 +21,7 @@ export default async function AcrossSeasonsPage({ searchParams }: { searchParams
   const query = parsed.success ? parsed.data : {};
   const view = (await loadAcrossSeasons(viewer, { cropId: query.crop, traitCode: query.trait }))!;
   const { outcome, trait } = view;
+  const download = view.crop && trait ? `/api/trials/across-seasons/export?${new URLSearchParams({ crop: String(view.crop.id), trait: trait.code })}` : "";
   return (
     <div className="space-y-6">
       <p className="text-sm">
@@ -76,7 +77,24 @@ export default async function AcrossSeasonsPage({ searchParams }: { searchParams
       </Card>
 
       {view.crop && trait && (
-        <Card title={`${trait.name}: ${view.crop.name}, every season`}>
+        <Card
+          title={`${trait.name}: ${view.crop.name}, every season`}
+          actions={
+            <div className="flex flex-wrap gap-2">
+              <a className={buttonClasses("secondary")} href={`${download}&format=xlsx`}>
+                Download .xlsx
+              </a>
+              {outcome?.mixed && (
+                <a className={buttonClasses("secondary")} href={`${download}&format=csv&table=means`}>
+                  Download means CSV
+                </a>
+              )}
+              <a className={buttonClasses("secondary")} href={`${download}&format=csv&table=trials`}>
+                Download trials CSV
+              </a>
+            </div>
+          }
+        >
           {outcome?.mixed && outcome.trait ? (
             <AcrossSeasonsResults
               mixed={outcome.mixed}

@@ -75,9 +75,9 @@ export default async function PublishPage({ params }: { params: Promise<{ trialI
               <p className="mt-4"><Link href={`/results/${trial.code}`}>Open the public page</Link></p>
             )}
           </Card>
-          {live.length > 0 && (
+          {versions.length > 0 && (
             <Card title="Withdraw">
-              <UnpublishForm trialId={trial.id} />
+              <UnpublishForm trialId={trial.id} live={live.length > 0} />
             </Card>
           )}
         </div>
