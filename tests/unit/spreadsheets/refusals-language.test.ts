@@ -17,7 +17,7 @@ const trait = (t: Partial<TraitForColumns> & Pick<TraitForColumns, "id" | "code"
   maxValue: null,
   dueDaysAfterSowing: null,
   dueNote: null,
-  computation: null,
+  computation: "none",
   ...t,
 });
 const columns = entryColumns([trait({ id: 1, code: "seeds_sown", name: "Seeds sown", unit: "seeds" }), trait({ id: 2, code: "quality", name: "Overall quality", valueType: "rating", unit: "1-9", minValue: 1, maxValue: 9 })]);
