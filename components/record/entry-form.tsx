@@ -119,7 +119,7 @@ export function EntryForm(props: {
         const parsed = c ? parseCell(c, inputs[slotOf(p.id, key)] ?? "", ctx) : null;
         return parsed?.ok ? parsed.value : null;
       };
-      for (const w of datesToCheck({ columns: dateColumns, value, site: ctx, packetDays: null, audience: "grower" })) {
+      for (const w of datesToCheck({ columns: dateColumns, value, site: ctx, packetDays: null, audience: "grower", t: words })) {
         for (const key of w.keys) (out[slotOf(p.id, key)] ??= []).push(w.message);
       }
     }

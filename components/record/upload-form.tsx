@@ -2,10 +2,11 @@
 
 import { useRef, useState } from "react";
 import Link from "next/link";
-import { useTranslations } from "next-intl";
+import { useLocale, useTranslations } from "next-intl";
 import { Button, buttonClasses } from "@/components/ui/button";
 import { Badge } from "@/components/ui/badge";
-import { BODY_LIMITS, fileTooLarge, statedFileLimit } from "@/lib/domain/request-limits";
+import { BODY_LIMITS, statedFileLimit } from "@/lib/domain/request-limits";
+import { sizeInMb } from "@/lib/domain/i18n/files";
 
 interface Problem {
   row: number | null;
@@ -61,12 +62,14 @@ export function UploadForm({ endpoint, backHref }: { endpoint: string; backHref:
   const [error, setError] = useState<string | null>(null);
   const [saved, setSaved] = useState<number | null>(null);
   const t = useTranslations("upload");
+  const files = useTranslations("files");
+  const locale = useLocale();
 
   async function run(mode: "preview" | "commit") {
     if (!file) return;
     setError(null);
     if (file.size > BODY_LIMITS.spreadsheet.fileBytes) {
-      setError(fileTooLarge("spreadsheet", file.size));
+      setError(files("tooLarge", { kind: "spreadsheet", size: sizeInMb(file.size, locale), limit: statedFileLimit("spreadsheet") }));
       return;
     }
     setProgress(0);

@@ -20,6 +20,8 @@ export function ConfirmAction({
   children,
   confirmLabel,
   pendingText = "Saving…",
+  cancelLabel = "Keep as it is",
+  closeLabel,
   variant = "ghost",
   confirmVariant = "danger",
   action,
@@ -33,6 +35,10 @@ export function ConfirmAction({
   children: React.ReactNode;
   confirmLabel: string;
   pendingText?: string;
+  /** The button that closes the dialog without sending. */
+  cancelLabel?: string;
+  /** The dialog's own close button ("Close" unless given). */
+  closeLabel?: string;
   variant?: ButtonVariant;
   confirmVariant?: ButtonVariant;
   action: FormAction;
@@ -56,7 +62,7 @@ export function ConfirmAction({
         {srLabel && <span className="sr-only"> {srLabel}</span>}
       </Button>
       {open && (
-        <Dialog title={title} onClose={() => setOpen(false)}>
+        <Dialog title={title} onClose={() => setOpen(false)} closeLabel={closeLabel}>
           <div className="space-y-2 text-base">{children}</div>
           <form action={formAction} className="space-y-3">
             {Object.entries(fields).map(([name, value]) => (
@@ -68,7 +74,7 @@ export function ConfirmAction({
                 {confirmLabel}
               </SubmitButton>
               <Button type="button" variant="secondary" onClick={() => setOpen(false)}>
-                Keep as it is
+                {cancelLabel}
               </Button>
             </div>
           </form>

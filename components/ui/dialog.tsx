@@ -6,7 +6,7 @@ import { Button } from "./button";
  * A modal built on the native <dialog>: the browser traps focus, Escape closes it and focus returns to
  * the button that opened it. Mount it to open it; `onClose` runs however it was closed.
  */
-export function Dialog({ title, onClose, children }: { title: string; onClose: () => void; children: React.ReactNode }) {
+export function Dialog({ title, onClose, children, closeLabel = "Close" }: { title: string; onClose: () => void; children: React.ReactNode; closeLabel?: string }) {
   const ref = useRef<HTMLDialogElement>(null);
   const titleId = useId();
   // No close() on cleanup: its close event would unmount the dialog again when React re-runs effects,
@@ -28,7 +28,7 @@ export function Dialog({ title, onClose, children }: { title: string; onClose: (
             {title}
           </h2>
           <Button type="button" variant="ghost" onClick={() => ref.current?.close()}>
-            Close
+            {closeLabel}
           </Button>
         </div>
         {children}

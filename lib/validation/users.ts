@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { id } from "./common";
 import { LOCALES } from "@/lib/domain/vocabulary/enums";
+import type { Translator } from "@/lib/domain/i18n/catalogue";
 
 /** Program checkboxes are named `program_<id>`; they are gathered into one list. */
 const withProgramIds = (v: unknown) => {
@@ -39,7 +40,8 @@ export const coordinatorProgramsSchema = z.preprocess(withProgramIds, z.object({
 
 export const invitationSchema = z.object({ userId: id() });
 
-/** A person's own language (profile); only the viewer's own account is ever changed. */
-export const languageSchema = z.object({
-  locale: z.enum(LOCALES, { error: "Choose English or Spanish." }),
-});
+/** A person's own language (profile), worded in their current one; only the viewer's own account is ever changed. */
+export const languageSchema = (t: Translator) =>
+  z.object({
+    locale: z.enum(LOCALES, { error: t("forms.chooseLanguage") }),
+  });

@@ -6,6 +6,7 @@ import { returnSubmissionSchema, reviewCommentSchema, siteParamsSchema } from "@
 import { insertReviewComment, updateSubmissionAccepted, updateSubmissionReturned, updateSubmissionSubmitted } from "@/server/review/submissions";
 import { deliverSoon } from "@/server/mail/outbox";
 import { env } from "@/lib/env";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 const STAFF = ["coordinator", "admin"] as ("coordinator" | "admin")[];
 const paths = (p: { trialId: number; siteId: number }) => {
@@ -19,7 +20,7 @@ export const submitForReview = defineAction({ roles: ["cooperator", "coordinator
   await updateSubmissionSubmitted(viewer, input, { appUrl: env.APP_URL });
   await deliverSoon();
   paths(input);
-  return { ok: true, message: "Sent for review. Your coordinator has been told; the values are locked until they answer." };
+  return { ok: true, message: translatorFor(viewer.locale)("forms.sentForReview") };
 });
 
 export const acceptSubmission = defineAction({ roles: STAFF, schema: siteParamsSchema }, async (input, viewer) => {

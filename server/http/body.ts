@@ -1,6 +1,8 @@
 import "server-only";
 import { AppError } from "@/lib/errors";
 import { BODY_LIMITS, type BodyKind } from "@/lib/domain/request-limits";
+import type { Translator } from "@/lib/domain/i18n/catalogue";
+import { localBodyTooLarge } from "@/lib/domain/i18n/files";
 
 // Request bodies are read only through here, each up to its route's limit from lib/domain/request-limits.ts. A body
 // is counted while it streams in and refused (413) the moment it passes the limit, whether or not the
@@ -9,8 +11,9 @@ import { BODY_LIMITS, type BodyKind } from "@/lib/domain/request-limits";
 
 const readToTheEnd = new WeakSet<Request>();
 
-export function bodyTooLarge(kind: BodyKind): AppError {
-  return new AppError("payload_too_large", BODY_LIMITS[kind].tooLarge);
+/** The 413 refusal, in the signed-in reader's language when known (`t`), else in the words the proxy uses. */
+export function bodyTooLarge(kind: BodyKind, t?: Translator): AppError {
+  return new AppError("payload_too_large", t ? localBodyTooLarge(t, kind) : BODY_LIMITS[kind].tooLarge);
 }
 
 /** The media type of the body, without parameters, in lower case ("" when none was sent). */
@@ -90,10 +93,10 @@ export async function readShortFormWithin(request: Request, kind: BodyKind): Pro
 }
 
 /** The form's `file` field, refused with its kind's 413 message when the file alone is over the stated limit. */
-export function fileWithin(form: FormData, kind: "photo" | "spreadsheet"): File | null {
+export function fileWithin(form: FormData, kind: "photo" | "spreadsheet", t?: Translator): File | null {
   const file = form.get("file");
   if (!(file instanceof File)) return null;
-  if (file.size > BODY_LIMITS[kind].fileBytes) throw bodyTooLarge(kind);
+  if (file.size > BODY_LIMITS[kind].fileBytes) throw bodyTooLarge(kind, t);
   return file;
 }
 

@@ -1,11 +1,12 @@
 import "server-only";
 import type { z } from "zod";
 import { assertRole } from "@/server/auth/guards";
-import { AppError, toResponse, type AppErrorCode } from "@/lib/errors";
+import { AppError, isAppError, toResponse, type AppErrorCode } from "@/lib/errors";
 import type { BodyKind } from "@/lib/domain/request-limits";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
-import { closeUnreadBody, readFormWithin, readJsonWithin, readShortFormWithin } from "./body";
+import { bodyTooLarge, closeUnreadBody, readFormWithin, readJsonWithin, readShortFormWithin } from "./body";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { assertOwnOrigin } from "./origin";
 
 // The one skeleton of every route handler under app/api: the origin check for anything that changes state,
@@ -87,7 +88,10 @@ export function defineRoute<R extends Roles, P = undefined, Q = undefined, B ext
           : typeof options.query === "function"
             ? options.query(search())
             : parseChecked(options.query, Object.fromEntries(search()), "bad_request");
-      const body = await readBody(request, options.body);
+      const body = await readBody(request, options.body).catch((e: unknown) => {
+        // A body over its limit is refused in the signed-in reader's own language.
+        throw viewer && options.body && isAppError(e) && e.code === "payload_too_large" ? bodyTooLarge(options.body.kind, translatorFor(viewer.locale)) : e;
+      });
       return await handler({ request, context, viewer, params, query, body } as RouteInput<R, P, Q, B>);
     } catch (e) {
       return closeUnreadBody(request, toResponse(e));

@@ -83,13 +83,12 @@ const NO_VALUE: CellValue = { valueNumber: null, valueDate: null, valueText: nul
 
 /** Whether the viewer may still change this site's values (sent or accepted data is locked for growers). */
 function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: string | null) {
-  if (enrolment.trialStatus === "published" || enrolment.trialStatus === "archived") {
-    throw new AppError("conflict", "This trial's results are published, so its values can no longer change.");
-  }
+  const t = translatorFor(viewer.locale);
+  if (enrolment.trialStatus === "published" || enrolment.trialStatus === "archived") throw new AppError("conflict", t("forms.publishedLocked"));
   if (viewer.role !== "cooperator") return;
-  if (enrolment.trialStatus === "draft") throw new AppError("conflict", "This trial is not taking data yet.");
-  if (status === "submitted") throw new AppError("conflict", "You have sent this site's data for review, so it is locked until your coordinator accepts or returns it.");
-  if (status === "accepted") throw new AppError("conflict", "Your coordinator has accepted this site's data, so it is locked. Ask them if something needs correcting.");
+  if (enrolment.trialStatus === "draft") throw new AppError("conflict", t("forms.notTakingData"));
+  if (status === "submitted") throw new AppError("conflict", t("forms.submittedLocked"));
+  if (status === "accepted") throw new AppError("conflict", t("forms.acceptedLocked"));
 }
 
 /**
@@ -104,7 +103,7 @@ export async function planSiteObservations(
 ): Promise<ObservationPlan> {
   const enrolment = await getRecordableEnrolment(ex, viewer, input, opts.lock);
   // Unknown and foreign sites look the same, so ids cannot be probed.
-  if (!enrolment) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  if (!enrolment) throw new AppError("not_found", translatorFor(viewer.locale)("forms.notYours"));
   assertEditable(viewer, enrolment, enrolment.submissionStatus);
 
   // Every check is per plot, so a save that names its plots by id (the phone form) reads only those plots;
@@ -185,7 +184,7 @@ export async function planSiteObservations(
     // change); a sheet sent again with the same values repeats nothing already under Values to check.
     const audience = viewer.role === "cooperator" ? "grower" : "staff";
     const changing = items.filter((a) => !isUnchanged(a));
-    for (const w of datesToCheck({ columns, value: (key) => merged.get(key), site, packetDays: packetDays[plotId] ?? null, audience })) {
+    for (const w of datesToCheck({ columns, value: (key) => merged.get(key), site, packetDays: packetDays[plotId] ?? null, audience, t })) {
       const a = changing.find((x) => x.column.key === w.key) ?? changing.find((x) => w.keys.includes(x.column.key));
       if (a) warnings.push({ row: a.row, plotId, plotCode: a.plot.plotCode, key: a.column.key, column: a.column.heading, kind: w.kind, message: w.message });
     }

@@ -81,9 +81,10 @@ export async function packetChecksForViewer(viewer: Viewer, sheet: RecordingShee
   const packetDays = await listPlotPacketDays(db, sheet.enrolment.enrolmentId);
   const site = { sownOn: sheet.enrolment.sownOn, transplantedOn: sheet.enrolment.transplantedOn };
   const audience = viewer.role === "cooperator" ? "grower" : "staff";
+  const t = translatorFor(viewer.locale);
   const out: Record<string, string[]> = {};
   for (const plot of sheet.plots) {
-    const found = datesToCheck({ columns: sheet.columns, value: (key) => sheet.values[plot.id]?.[key], site, packetDays: packetDays[plot.id] ?? null, audience });
+    const found = datesToCheck({ columns: sheet.columns, value: (key) => sheet.values[plot.id]?.[key], site, packetDays: packetDays[plot.id] ?? null, audience, t });
     for (const w of found) if (w.kind === "far_from_packet") (out[`${plot.id}:${w.key}`] ??= []).push(w.message);
   }
   return out;

@@ -1,6 +1,8 @@
 import "server-only";
 import sharp from "sharp";
-import { BODY_LIMITS, fileTooLarge } from "@/lib/domain/request-limits";
+import { BODY_LIMITS } from "@/lib/domain/request-limits";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import { localFileTooLarge } from "@/lib/domain/i18n/files";
 
 // Photos are accepted by what their bytes are, then re-encoded: re-encoding drops every metadata block
 // (camera serial, GPS position of the farm) unless the grower chose to keep the location.
@@ -30,14 +32,15 @@ function isHeic(b: Uint8Array) {
   return b.length >= 12 && String.fromCharCode(...b.subarray(4, 8)) === "ftyp" && /^(heic|heix|hevc|mif1|msf1|avif)$/.test(String.fromCharCode(...b.subarray(8, 12)));
 }
 
-/** Checks and re-encodes a photo. Returns the bytes to store and their type. */
-export async function preparePhoto(bytes: Uint8Array, opts: { keepLocation: boolean }): Promise<{ bytes: Buffer; contentType: ImageType; width: number; height: number }> {
-  if (bytes.length === 0) throw new PhotoRefused("The photo is empty. Choose it again.");
-  if (bytes.length > MAX_PHOTO_BYTES) throw new PhotoRefused(fileTooLarge("photo", bytes.length));
+/** Checks and re-encodes a photo. Returns the bytes to store and their type; refusals in the language of `opts.t`. */
+export async function preparePhoto(bytes: Uint8Array, opts: { keepLocation: boolean; t?: Translator }): Promise<{ bytes: Buffer; contentType: ImageType; width: number; height: number }> {
+  const t = opts.t ?? translatorFor();
+  if (bytes.length === 0) throw new PhotoRefused(t("photos.empty"));
+  if (bytes.length > MAX_PHOTO_BYTES) throw new PhotoRefused(localFileTooLarge(t, "photo", bytes.length));
   const type = detectImage(bytes);
   if (!type) {
-    if (isHeic(bytes)) throw new PhotoRefused("This is an iPhone HEIC photo. Set the camera to \"Most Compatible\" (JPEG), or share it as JPEG, and try again.");
-    throw new PhotoRefused("This file is not a JPEG, PNG or WebP picture. Only photos can be attached.");
+    if (isHeic(bytes)) throw new PhotoRefused(t("photos.heic"));
+    throw new PhotoRefused(t("photos.notImage"));
   }
   let img = sharp(bytes, { failOn: "error", limitInputPixels: MAX_PIXELS }).rotate();
   if (opts.keepLocation) img = img.keepMetadata();
@@ -45,6 +48,6 @@ export async function preparePhoto(bytes: Uint8Array, opts: { keepLocation: bool
     const out = type === "image/png" ? await img.png().toBuffer({ resolveWithObject: true }) : type === "image/webp" ? await img.webp({ quality: 85 }).toBuffer({ resolveWithObject: true }) : await img.jpeg({ quality: 88, mozjpeg: true }).toBuffer({ resolveWithObject: true });
     return { bytes: out.data, contentType: type, width: out.info.width, height: out.info.height };
   } catch {
-    throw new PhotoRefused("This picture is damaged or too large to open. Try taking or exporting it again.");
+    throw new PhotoRefused(t("photos.damaged"));
   }
 }

@@ -3,7 +3,8 @@ import { randomUUID } from "node:crypto";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { photoFieldsSchema } from "@/lib/validation/observations";
-import { fieldErrorsOf } from "@/lib/validation/field-errors";
+import { fieldErrorsOf, parseIn } from "@/lib/validation/field-errors";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { assertPhotoTarget, deletePhoto, insertPhoto } from "@/db/mutations/photos";
 import { getPhotoForViewer } from "@/db/queries/photos";
 import { getStorage } from "@/server/storage";
@@ -15,13 +16,14 @@ const EXT = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp" } as
 
 /** Route core: validates the fields, checks ownership, re-encodes the image, stores it, then records it. */
 export async function uploadPhotoForViewer(viewer: Viewer, fields: Record<string, unknown>, bytes: Uint8Array) {
-  const parsed = photoFieldsSchema.safeParse(fields);
-  if (!parsed.success) throw new AppError("bad_request", parsed.error.issues[0]?.message ?? "That request was not understood.", fieldErrorsOf(parsed.error));
+  const t = translatorFor(viewer.locale);
+  const parsed = parseIn(photoFieldsSchema, fields, t);
+  if (!parsed.success) throw new AppError("bad_request", parsed.error.issues[0]?.message ?? t("forms.notUnderstood"), fieldErrorsOf(parsed.error));
   const input = parsed.data;
   const enrolment = await assertPhotoTarget(viewer, input);
   let prepared;
   try {
-    prepared = await preparePhoto(bytes, { keepLocation: input.keepLocation });
+    prepared = await preparePhoto(bytes, { keepLocation: input.keepLocation, t });
   } catch (e) {
     if (e instanceof PhotoRefused) throw new AppError("bad_request", e.message);
     throw e;
@@ -54,6 +56,6 @@ export async function readPhotoForViewer(viewer: Viewer, photoId: number) {
  */
 export async function deletePhotoForViewer(viewer: Viewer, photoId: number) {
   const storageKey = await db.transaction((tx) => deletePhoto(tx, viewer, photoId));
-  if (!storageKey) throw new AppError("not_found", "That photo does not exist, or it is not one of yours.");
+  if (!storageKey) throw new AppError("not_found", translatorFor(viewer.locale)("forms.noSuchPhoto"));
   await deleteStoredPhotos([storageKey]);
 }

@@ -38,8 +38,9 @@ const reviewLink = (l: Links, e: RecordableEnrolment) => `${l.appUrl.replace(/\/
 export async function updateSubmissionSubmitted(viewer: Viewer, p: { trialId: number; siteId: number }, links: Links) {
   return db.transaction(async (tx) => {
     const { enrolment, submission } = await lockSubmission(tx, viewer, p);
-    transition(submission.status, ["draft", "returned"], submission.status === "submitted" ? "This data has already been sent for review." : "This data has been accepted and is locked.");
-    if ((await countEnrolmentObservations(tx, enrolment.enrolmentId)) === 0) throw new AppError("conflict", "There are no values to send yet. Record some values first.");
+    const t = translatorFor(viewer.locale);
+    transition(submission.status, ["draft", "returned"], t(submission.status === "submitted" ? "forms.alreadySent" : "forms.acceptedNoSend"));
+    if ((await countEnrolmentObservations(tx, enrolment.enrolmentId)) === 0) throw new AppError("conflict", t("forms.nothingToSend"));
     await updateSubmission(tx, { id: submission.id, status: "submitted", submittedAt: new Date(), submittedById: viewer.id });
     // Sending again answers the coordinator's open comments.
     await updateCommentsResolved(tx, submission.id);

@@ -4,13 +4,15 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { getRecordingSheet } from "@/server/observations/sheet";
 import { siteParamsSchema } from "@/lib/validation/observations";
 import { buildCsvExport, buildTemplate, type TemplateInput } from "@/lib/domain/spreadsheets/template";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 async function templateInput(viewer: Viewer, params: unknown): Promise<TemplateInput & { fileStem: string }> {
+  const t = translatorFor(viewer.locale);
   const parsed = siteParamsSchema.safeParse(params);
-  if (!parsed.success) throw new AppError("not_found", "That site or trial does not exist.");
+  if (!parsed.success) throw new AppError("not_found", t("forms.noSuchSite"));
   const sheet = await getRecordingSheet(viewer, parsed.data);
-  if (!sheet) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
-  if (sheet.plots.length === 0) throw new AppError("conflict", "This site has no plot layout yet, so there is no sheet to fill in.");
+  if (!sheet) throw new AppError("not_found", t("forms.notYours"));
+  if (sheet.plots.length === 0) throw new AppError("conflict", t("forms.noLayoutToFill"));
   const e = sheet.enrolment;
   return {
     trialCode: e.trialCode,

@@ -57,25 +57,25 @@ function duplicateMessage(t: Translator, first: SheetRow, again: SheetRow, read:
 }
 
 /** What to say about a sheet with plot rows but not one value in them (an unfilled template). */
-function nothingFilledIn(sheet: RecordingSheet, read: ReadResult): string {
-  if (read.rows.length === 0) {
-    return "The sheet has the column headings but no plot rows under them. Download this site's template, which lists every plot, fill in the values you have measured, and upload it again.";
-  }
+function nothingFilledIn(t: Translator, sheet: RecordingSheet, read: ReadResult): string {
+  if (read.rows.length === 0) return t("refusals.noPlotRows");
   const today = todayIso();
   const sownOn = sheet.enrolment.sownOn;
   const due = sownOn ? sheet.columns.filter((c) => c.dueDay !== null && addDays(sownOn, c.dueDay) <= today) : [];
-  const named = (cols: typeof sheet.columns) => listWords([...cols.slice(0, 4).map((c) => `${c.name} in column ${read.letters[c.key]}`), ...(cols.length > 4 ? [`${cols.length - 4} more`] : [])]);
-  const what = due.length > 0 ? `due by now: ${named(due)}` : `for example ${named(sheet.columns)}`;
-  return `This sheet has no values in it yet: every value cell is empty. Type what you have measured in each plot's row (${what}), leave a cell empty for anything not measured yet, and upload the sheet again.`;
+  const named = (cols: typeof sheet.columns) =>
+    listWords([...cols.slice(0, 4).map((c) => t("refusals.columnAt", { name: c.name, letter: read.letters[c.key]! })), ...(cols.length > 4 ? [t("refusals.moreItems", { count: String(cols.length - 4) })] : [])], t.locale);
+  const what = due.length > 0 ? t("refusals.dueByNow", { columns: named(due) }) : t("refusals.forExample", { columns: named(sheet.columns) });
+  return t("refusals.nothingFilled", { what });
 }
 
 async function prepare(viewer: Viewer, t: UploadTarget) {
   let read: ReadResult;
+  const tr = translatorFor(viewer.locale);
   const sheet = await getRecordingSheet(viewer, { trialId: t.trialId, siteId: t.siteId });
-  if (!sheet) throw new AppError("not_found", "That site or trial does not exist, or it is not one of yours.");
+  if (!sheet) throw new AppError("not_found", tr("forms.notYours"));
   try {
-    const kind = inspectUpload(t.bytes, t.fileName);
-    read = await readUpload(t.bytes, kind, { columns: sheet.columns, plotCodes: sheet.plots.map((p) => p.plotCode) });
+    const kind = inspectUpload(t.bytes, t.fileName, tr);
+    read = await readUpload(t.bytes, kind, { columns: sheet.columns, plotCodes: sheet.plots.map((p) => p.plotCode) }, tr);
   } catch (e) {
     if (e instanceof UploadRefused) return { refused: e.message, sheetName: e.sheet, sheet, read: null, cells: [], rowProblems: [] };
     throw e;
@@ -84,7 +84,6 @@ async function prepare(viewer: Viewer, t: UploadTarget) {
   const firstRow = new Map<string, SheetRow>();
   const rowProblems: UploadProblem[] = [];
   const cells: CellInput[] = [];
-  const tr = translatorFor(viewer.locale);
   const plotColumn = tr("upload.columnHeading", { letter: read.letters["#plot"]!, heading: "Plot" });
   for (const r of read.rows) {
     const code = r.plotCode.toUpperCase();
@@ -112,7 +111,7 @@ async function prepare(viewer: Viewer, t: UploadTarget) {
       cells.push({ plotCode: r.plotCode, key, raw, row: r.row });
     }
   }
-  if (cells.length === 0 && rowProblems.length === 0) return { refused: nothingFilledIn(sheet, read), sheetName: read.sheet, sheet, read: null, cells, rowProblems };
+  if (cells.length === 0 && rowProblems.length === 0) return { refused: nothingFilledIn(tr, sheet, read), sheetName: read.sheet, sheet, read: null, cells, rowProblems };
   return { refused: null, sheetName: read.sheet, sheet, read, cells, rowProblems };
 }
 

@@ -143,9 +143,17 @@ describe("a grower whose language is Spanish", () => {
     expect(listed).toContain(`Fila 4, columna ${letter} (Overall quality [1-9]): Las calificaciones son números enteros del 1 al 9; 12 no es una de ellas.`);
     expect(await page.getByRole("button", { name: /^Guardar \d+ valores$/ }).count()).toBe(0);
     await page.screenshot({ path: path.join(shots, "phone-upload-es.png"), fullPage: true });
+    // A file that is no spreadsheet at all is refused whole, in Spanish, saying what it really is.
+    await page.getByLabel(/Hoja de cálculo \(\.xlsx o \.csv/).setInputFiles({ name: "cedar-hollow.xlsx", mimeType: "application/pdf", buffer: Buffer.from("%PDF-1.7 not a sheet") });
+    await page.getByRole("button", { name: "Revisar el archivo" }).click();
+    await page.getByText("Este archivo se llama .xlsx, pero es un PDF. Suba la plantilla de Excel (.xlsx) o un archivo CSV (.csv) con las mismas columnas.").waitFor();
 
     // She sends the data; the coordinator (whose screens stay English) returns it with a comment on a plot.
     await openSite(page);
+    // The photo form speaks Spanish, and so does the server's refusal of a file that is not a picture.
+    await page.getByLabel("Foto (JPEG, PNG o WebP, hasta 15 MB)").setInputFiles({ name: "surco.jpg", mimeType: "image/jpeg", buffer: Buffer.from("%PDF-1.7 not a photo") });
+    await page.getByRole("button", { name: "Adjuntar foto" }).click();
+    await page.getByText("Este archivo no es una imagen JPEG, PNG ni WebP. Solo se pueden adjuntar fotos.").waitFor();
     await page.getByRole("button", { name: "Enviar a revisión" }).first().click();
     await page.getByText(/Usted envió estos datos a revisión/).waitFor();
     const [, trialId, siteId] = page.url().match(/\/portal\/record\/(\d+)\/(\d+)/)!;

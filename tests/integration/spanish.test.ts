@@ -10,6 +10,7 @@ import { languageSchema } from "@/lib/validation/users";
 import { previewUpload } from "@/server/spreadsheets/upload";
 import { templateForViewer } from "@/server/spreadsheets/files";
 import ExcelJS from "exceljs";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 const { db, pool } = testDatabase();
 const MEI = "mei@cedarhollow.example";
@@ -78,7 +79,7 @@ describe("languages are chosen by whom they belong to", () => {
   });
 
   it("the profile form can only name a language, never whose: a smuggled account id is dropped", () => {
-    expect(languageSchema.parse({ locale: "es", userId: "1", id: "1" })).toEqual({ locale: "es" });
-    expect(languageSchema.safeParse({ locale: "fr" }).success).toBe(false);
+    expect(languageSchema(translatorFor()).parse({ locale: "es", userId: "1", id: "1" })).toEqual({ locale: "es" });
+    expect(languageSchema(translatorFor()).safeParse({ locale: "fr" }).success).toBe(false);
   });
 });

@@ -1,6 +1,7 @@
 import type { EntryColumn } from "./columns";
 import type { CellValue } from "./values";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 import { EMERGENCE_DATE_CODE, isMaturityDateCode } from "@/lib/domain/vocabulary/traits";
 
 // Whether a plot's dates can be in the order they were recorded. Pure, so the phone form, the upload
@@ -34,9 +35,12 @@ export interface DateWarning {
 
 type DateColumn = Pick<EntryColumn, "key" | "name" | "traitCode" | "valueType" | "computation">;
 
-/** "First harvest date" -> "First harvest", so sentences read "First harvest on Sun 3 May 2026". */
+/**
+ * "First harvest date" -> "First harvest", so sentences read "First harvest on 3 May 2026"; a Spanish column
+ * name "Fecha de primera cosecha" -> "primera cosecha", for "La fecha de primera cosecha (3 may 2026)".
+ */
 function eventName(c: Pick<EntryColumn, "name">): string {
-  const name = c.name.replace(/\s+date$/i, "").trim();
+  const name = c.name.replace(/\s+date$/i, "").replace(/^fecha de\s+/i, "").trim();
   return name === "" ? c.name : name;
 }
 const lowerFirst = (s: string) => (/^[A-Z][a-z]/.test(s) ? s[0]!.toLowerCase() + s.slice(1) : s);
@@ -44,7 +48,6 @@ const lowerFirst = (s: string) => (/^[A-Z][a-z]/.test(s) ? s[0]!.toLowerCase() +
 function daysBetween(fromIso: string, toIso: string): number {
   return Math.round((Date.parse(`${toIso}T00:00:00Z`) - Date.parse(`${fromIso}T00:00:00Z`)) / 86_400_000);
 }
-const days = (n: number) => `${n} ${Math.abs(n) === 1 ? "day" : "days"}`;
 
 /**
  * How far from the packet's days to maturity a harvest may fall before it is worth a second look: two
@@ -59,13 +62,11 @@ export function packetTolerance(packetDays: number): number {
  * Why one recorded date cannot be right against the site's own dates, or null. Applies to every date
  * trait: nothing is recorded before sowing, and a date counted from transplanting is not before it.
  */
-export function siteDateRefusal(c: Pick<EntryColumn, "name" | "computation">, iso: string, site: SiteDates): string | null {
-  const what = `${eventName(c)} on ${formatDate(iso)}`;
-  if (site.sownOn && iso < site.sownOn) {
-    return `${what} is before this site's sowing date, ${formatDate(site.sownOn)}. Check the date; if the sowing date is wrong, ask your coordinator to correct it.`;
-  }
+export function siteDateRefusal(c: Pick<EntryColumn, "name" | "computation">, iso: string, site: SiteDates, t: Translator = translatorFor()): string | null {
+  const what = { event: eventName(c), date: formatDate(iso, t.locale) };
+  if (site.sownOn && iso < site.sownOn) return t("dateChecks.beforeSowing", { ...what, sown: formatDate(site.sownOn, t.locale) });
   if (c.computation === "days_from_transplant" && site.transplantedOn && iso < site.transplantedOn) {
-    return `${what} is before this site's transplanting date, ${formatDate(site.transplantedOn)}, and it is counted in days from transplanting. Check the date; if the transplanting date is wrong, ask your coordinator to correct it.`;
+    return t("dateChecks.beforeTransplantCounted", { ...what, transplanted: formatDate(site.transplantedOn, t.locale) });
   }
   return null;
 }
@@ -81,7 +82,10 @@ export function datesToCheck(p: {
   site: SiteDates;
   packetDays: number | null;
   audience: "grower" | "staff";
+  /** The reader's language (English when left out). */
+  t?: Translator;
 }): DateWarning[] {
+  const t = p.t ?? translatorFor();
   const dateOf = (c: DateColumn) => (c.valueType === "date" ? (p.value(c.key)?.valueDate ?? null) : null);
   const emergence = p.columns.find((c) => c.valueType === "date" && c.traitCode === EMERGENCE_DATE_CODE);
   const emergedOn = emergence ? dateOf(emergence) : null;
@@ -90,24 +94,24 @@ export function datesToCheck(p: {
     if (c.valueType !== "date" || !isMaturityDateCode(c.traitCode)) continue;
     const on = dateOf(c);
     if (!on) continue;
-    const what = `${eventName(c)} on ${formatDate(on)}`;
+    const what = { event: eventName(c), date: formatDate(on, t.locale) };
     if (emergence && emergedOn && on <= emergedOn) {
-      const when = on < emergedOn ? "before" : "on the same day as";
-      out.push({ key: c.key, keys: [c.key, emergence.key], kind: "date_order", message: `${what} is ${when} ${lowerFirst(eventName(emergence))} on ${formatDate(emergedOn)} in this plot — check both dates.` });
+      const message = t("dateChecks.beforeEmergence", { ...what, same: on === emergedOn ? "yes" : "no", other: lowerFirst(eventName(emergence)), otherDate: formatDate(emergedOn, t.locale) });
+      out.push({ key: c.key, keys: [c.key, emergence.key], kind: "date_order", message });
     }
     if (c.computation !== "days_from_transplant" && p.site.transplantedOn && on < p.site.transplantedOn) {
-      out.push({ key: c.key, keys: [c.key], kind: "date_order", message: `${what} is before this site's transplanting date, ${formatDate(p.site.transplantedOn)} — check the date.` });
+      out.push({ key: c.key, keys: [c.key], kind: "date_order", message: t("dateChecks.beforeTransplant", { ...what, transplanted: formatDate(p.site.transplantedOn, t.locale) }) });
     }
     const fromTransplant = c.computation === "days_from_transplant";
     const start = fromTransplant ? p.site.transplantedOn : p.site.sownOn;
     if (p.packetDays !== null && p.packetDays > 0 && start && on >= start) {
       const taken = daysBetween(start, on);
       if (Math.abs(taken - p.packetDays) > packetTolerance(p.packetDays)) {
-        const after = `${days(taken)} after ${fromTransplant ? "transplanting" : "sowing"}`;
+        const after = { ...what, taken, from: fromTransplant ? "transplant" : "sowing" };
         const message =
           p.audience === "staff"
-            ? `${what} is ${after}, far from the ${days(p.packetDays)} to maturity on this entry's seed packet — check the date.`
-            : `${what} is ${after}, much ${taken < p.packetDays ? "sooner" : "later"} than this entry is expected to be ready — check the date.`;
+            ? t("dateChecks.farFromPacket", { ...after, packet: p.packetDays })
+            : t("dateChecks.farFromExpected", { ...after, sooner: taken < p.packetDays ? "yes" : "no" });
         out.push({ key: c.key, keys: [c.key], kind: "far_from_packet", message });
       }
     }

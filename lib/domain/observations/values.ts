@@ -180,7 +180,7 @@ export function parseCell(c: EntryColumn, raw: unknown, ctx: ParseContext): Pars
         if (!parsed.ok) return fail(parsed.message);
         iso = parsed.iso;
       } else return fail(t("values.notADateValue", { raw: String(raw) }));
-      const refusal = siteDateRefusal(c, iso, { sownOn: ctx.sownOn, transplantedOn: ctx.transplantedOn ?? null });
+      const refusal = siteDateRefusal(c, iso, { sownOn: ctx.sownOn, transplantedOn: ctx.transplantedOn ?? null }, t);
       if (refusal) return fail(refusal);
       if (iso > ctx.today) return fail(t("values.future", { iso }));
       return { ok: true, value: { valueNumber: null, valueDate: iso, valueText: null } };

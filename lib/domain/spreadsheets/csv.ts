@@ -1,4 +1,5 @@
 import { UploadRefused } from "./safety";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 type CsvSeparator = "," | ";" | "\t";
 
@@ -19,7 +20,7 @@ export function parseCsv(text: string): string[][] {
  * Reads CSV text into records with their row and line numbers.
  * Records with no value at all are left out unless `keepBlank`, so a file of empty lines stays small.
  */
-export function parseCsvRecords(text: string, opts: { keepBlank?: boolean } = {}): { records: CsvRecord[] } {
+export function parseCsvRecords(text: string, opts: { keepBlank?: boolean; t?: Translator } = {}): { records: CsvRecord[] } {
   const body = text.replace(/^\uFEFF/, "");
   const firstLine = body.split(/\r?\n/, 1)[0] ?? "";
   const counts = { ",": 0, ";": 0, "\t": 0 } as Record<CsvSeparator, number>;
@@ -69,16 +70,16 @@ export function parseCsvRecords(text: string, opts: { keepBlank?: boolean } = {}
       recordLine = line;
     } else cell += ch;
   }
-  if (inQuotes) throw new UploadRefused(`The CSV file has a quote (") in the row starting on line ${recordLine} that is never closed, so we cannot tell where the values end. Save it again from your spreadsheet program.`);
+  if (inQuotes) throw new UploadRefused((opts.t ?? translatorFor())("refusals.unclosedQuote", { line: String(recordLine) }));
   if (cell !== "" || row.length > 0) finish();
   return { records };
 }
 
 /** Decodes CSV bytes as UTF-8, refusing other encodings rather than guessing and garbling notes. */
-export function decodeCsv(bytes: Uint8Array): string {
+export function decodeCsv(bytes: Uint8Array, t: Translator = translatorFor()): string {
   try {
     return new TextDecoder("utf-8", { fatal: true }).decode(bytes);
   } catch {
-    throw new UploadRefused("The CSV file is not in UTF-8. In your spreadsheet program choose Save As → CSV UTF-8 and try again.");
+    throw new UploadRefused(t("refusals.notUtf8"));
   }
 }

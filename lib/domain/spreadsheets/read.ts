@@ -5,10 +5,12 @@ import type { TextNumberCommas } from "@/lib/domain/observations/values";
 import { decodeCsv, parseCsvRecords } from "./csv";
 import { UploadRefused, type UploadKind } from "./safety";
 import { restoreText } from "./write";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 // Turns an uploaded template (xlsx or CSV) into plot rows. Anything that makes the layout of the sheet
 // uncertain (formulas, merged cells, unknown or missing columns, short CSV lines, two sheets that could hold
-// the plots, values far below them) refuses the whole file, with a message naming the row, cell or sheet.
+// the plots, values far below them) refuses the whole file, with a message naming the row, cell or sheet,
+// in the grower's language (the Translator passed in; English when none).
 
 export const FIXED_HEADINGS = ["Plot", "Block", "Code"] as const;
 export const PLOT_SHEET = "Plots";
@@ -86,21 +88,19 @@ const matchCount = (cells: unknown[], expected: Map<string, string>) => cells.fi
  * Refuses a first row that holds none of the template's headings with one plain message: the headings were
  * moved down, or the heading row was deleted (row 1 then holds a plot's values).
  */
-function checkHeadingRow(t: Table, expected: Map<string, string>) {
+function checkHeadingRow(t: Table, expected: Map<string, string>, words: Translator) {
   if (matchCount(t.header, expected) > 0) return;
   const moved = t.rows.find((r) => r.row > 1 && r.row <= HEADING_SEARCH_ROWS && matchCount(r.cells, expected) >= 2);
   if (moved) {
-    throw new UploadRefused(`The column headings are on row ${moved.row}, but they must be on row 1. Delete the ${moved.row === 2 ? "row" : "rows"} above them (${moved.row === 2 ? "row 1" : `rows 1 to ${moved.row - 1}`}) and upload again.`);
+    throw new UploadRefused(words("refusals.headingsMoved", { row: String(moved.row), second: moved.row === 2 ? "yes" : "no", last: String(moved.row - 1) }));
   }
   const shown = t.header.map(asText).filter((v) => v.trim() !== "");
-  const holds = shown.length === 0 ? "it is empty" : `it holds ${shown.slice(0, 3).map((v) => `"${v.trim().slice(0, 40)}"`).join(", ")}${shown.length > 3 ? " …" : ""}`;
-  throw new UploadRefused(
-    `Row 1 must hold the column headings from the template (Plot, Block, Code and one heading for each value), but ${holds}, so the heading row seems to be missing. Copy row 1 from a fresh template (download it from this page), insert it above your first plot, and upload again.`,
-  );
+  const cells = `${shown.slice(0, 3).map((v) => `"${v.trim().slice(0, 40)}"`).join(", ")}${shown.length > 3 ? " …" : ""}`;
+  throw new UploadRefused(words("refusals.headingsMissing", { empty: shown.length === 0 ? "yes" : "no", cells }));
 }
 
 /** Matches the header row against the template's headings; returns column index → key ("" for none). */
-function matchHeader(header: string[], columns: EntryColumn[]): string[] {
+function matchHeader(header: string[], columns: EntryColumn[], t: Translator): string[] {
   const expected = expectedHeadings(columns);
   const keys: string[] = [];
   const problems: string[] = [];
@@ -110,16 +110,17 @@ function matchHeader(header: string[], columns: EntryColumn[]): string[] {
   for (let i = 0; i < last; i += 1) {
     const h = header[i]!.trim();
     const key = expected.get(norm(h));
-    if (!h) problems.push(`Column ${columnLetter(i)} has no heading. Delete the column or give it back its heading from the template.`);
-    else if (!key) problems.push(`Column ${columnLetter(i)} "${h}" is not one of this trial's columns. Use the headings from the template exactly, without renaming them.`);
-    else if (found.has(key)) problems.push(`Column ${columnLetter(i)} "${h}" appears twice. Keep one of them.`);
+    const letter = columnLetter(i);
+    if (!h) problems.push(t("refusals.noHeading", { letter }));
+    else if (!key) problems.push(t("refusals.notTrialColumn", { letter, heading: h }));
+    else if (found.has(key)) problems.push(t("refusals.columnTwice", { letter, heading: h }));
     else found.add(key);
     keys.push(key ?? "");
   }
   for (const [heading, key] of [...FIXED_HEADINGS.map((h) => [h, `#${h.toLowerCase()}`] as const), ...columns.map((c) => [c.heading, c.key] as const)]) {
-    if (!found.has(key)) problems.push(`The column "${heading}" is missing. Download a fresh template, or add the column back with that exact heading.`);
+    if (!found.has(key)) problems.push(t("refusals.columnMissing", { heading }));
   }
-  if (problems.length > 0) throw new UploadRefused(`The columns do not match this trial's template. ${problems.join(" ")}`);
+  if (problems.length > 0) throw new UploadRefused(t("refusals.columnsMismatch", { problems: problems.join(" ") }));
   return keys;
 }
 
@@ -133,45 +134,43 @@ function filledCells(row: number, cells: unknown[], limit = 3): string[] {
 }
 
 /** Refuses values far below the plot list (a stray keystroke at the bottom of the sheet), naming their cells. */
-function checkFarBelow(rows: Table["rows"]) {
+function checkFarBelow(rows: Table["rows"], t: Translator) {
   let previous = 1;
   for (let i = 0; i < rows.length; i += 1) {
     if (rows[i]!.row - previous - 1 > FAR_BELOW_GAP) {
       const stray = rows.slice(i);
       const cells = stray.flatMap((r) => filledCells(r.row, r.cells)).slice(0, 3);
       const one = cells.length === 1 && stray.length === 1 && stray[0]!.cells.filter((v) => !isEmpty(v)).length === 1;
-      const what = one ? `a value in cell ${cells[0]}` : `values in cells ${listWords(cells)}${stray.reduce((n, r) => n + r.cells.filter((v) => !isEmpty(v)).length, 0) > cells.length ? " and others" : ""}`;
-      throw new UploadRefused(`There ${one ? "is" : "are"} ${what}, far below the plots (the rows above ${one ? "it" : "them"} end at row ${previous}). Delete ${one ? "it" : "them"}, or move ${one ? "it" : "them"} into the right plot's row, and upload again.`);
+      const others = stray.reduce((n, r) => n + r.cells.filter((v) => !isEmpty(v)).length, 0) > cells.length;
+      throw new UploadRefused(t("refusals.farBelow", { one: one ? "yes" : "no", cells: listWords(cells, t.locale), others: others ? "yes" : "no", last: String(previous) }));
     }
     previous = rows[i]!.row;
   }
 }
 
 /** Refuses CSV lines with fewer fields than the heading line: their last values were lost, not left empty. */
-function checkShortLines(rows: Table["rows"], width: number, header: string[]) {
+function checkShortLines(rows: Table["rows"], width: number, header: string[], t: Translator) {
   const short = rows.filter((r) => r.cells.length < width);
   if (short.length === 0) return;
   const describe = (r: Table["rows"][number]) => {
-    const lacking = header.slice(r.cells.length, width).map((h, j) => `${h.trim() || "(no heading)"} (column ${columnLetter(r.cells.length + j)})`);
-    const at = r.line !== undefined && r.line !== r.row ? `Line ${r.line} (row ${r.row})` : `Line ${r.row}`;
-    return `${at} has ${r.cells.length} of the ${width} fields, so it has no place for ${listWords(lacking.length > 4 ? [...lacking.slice(0, 4), `${lacking.length - 4} more`] : lacking)}.`;
+    const lacking = header.slice(r.cells.length, width).map((h, j) => t("refusals.lackingColumn", { heading: h.trim() || t("refusals.noHeadingName"), letter: columnLetter(r.cells.length + j) }));
+    const at = r.line !== undefined && r.line !== r.row ? t("refusals.lineOfRow", { line: String(r.line), row: String(r.row) }) : t("refusals.line", { line: String(r.row) });
+    const named = lacking.length > 4 ? [...lacking.slice(0, 4), t("refusals.moreItems", { count: String(lacking.length - 4) })] : lacking;
+    return t("refusals.shortLine", { at, have: String(r.cells.length), width: String(width), lacking: listWords(named, t.locale) });
   };
   const listed = short.slice(0, 5).map(describe).join(" ");
-  const more = short.length > 5 ? ` ${short.length - 5} more lines are short too.` : "";
-  throw new UploadRefused(
-    `${listed}${more} A line with fewer fields than the heading line has lost values or separators, so nothing was saved. Check ${short.length === 1 ? "that line" : "those lines"} in your spreadsheet program (every plot row needs a field for every column, even an empty one), save the file as CSV again, and upload it.`,
-  );
+  throw new UploadRefused(t("refusals.shortLines", { listed, more: short.length > 5 ? String(short.length - 5) : "none", one: short.length === 1 ? "yes" : "no" }));
 }
 
-function toRows(t: Table, ctx: ReadContext, kind: UploadKind): Omit<ReadResult, "sheet" | "otherSheets"> {
+function toRows(t: Table, ctx: ReadContext, kind: UploadKind, words: Translator): Omit<ReadResult, "sheet" | "otherSheets"> {
   const expected = expectedHeadings(ctx.columns);
-  checkHeadingRow(t, expected);
+  checkHeadingRow(t, expected, words);
   const header = t.header.map((v) => restoreText(asText(v)));
-  const keys = matchHeader(header, ctx.columns);
+  const keys = matchHeader(header, ctx.columns, words);
   const body = t.rows.filter((r) => r.row > 1 && r.cells.some((v) => !isEmpty(v)));
-  if (body.length > MAX_ROWS) throw new UploadRefused(`The sheet has ${body.length} rows with values; the limit is ${MAX_ROWS}. Split it into smaller files.`);
-  checkFarBelow(body);
-  if (kind === "csv") checkShortLines(body, keys.length, header);
+  if (body.length > MAX_ROWS) throw new UploadRefused(words("refusals.tooManyRows", { count: String(body.length), max: String(MAX_ROWS) }));
+  checkFarBelow(body, words);
+  if (kind === "csv") checkShortLines(body, keys.length, header, words);
   const rows: SheetRow[] = [];
   const blankRows: number[] = [];
   let previous = 1;
@@ -186,7 +185,7 @@ function toRows(t: Table, ctx: ReadContext, kind: UploadKind): Omit<ReadResult, 
     cells.forEach((cell, i) => {
       const key = keys[i];
       if (!key) {
-        if (!isEmpty(cell)) throw new UploadRefused(`Row ${row} has a value in cell ${columnLetter(i)}${row}, a column with no heading. Delete it or move it into the right column.`);
+        if (!isEmpty(cell)) throw new UploadRefused(words("refusals.strayValue", { row: String(row), cell: `${columnLetter(i)}${row}` }));
         return;
       }
       const v = typeof cell === "string" ? restoreText(cell) : cell;
@@ -207,13 +206,13 @@ function toRows(t: Table, ctx: ReadContext, kind: UploadKind): Omit<ReadResult, 
 }
 
 /** A cell's value as exceljs gives it, refusing formulas and flattening rich text and hyperlinks. */
-function cellValue(cell: ExcelJS.Cell, where: () => string): unknown {
+function cellValue(cell: ExcelJS.Cell, where: () => string, t: Translator): unknown {
   const v = cell.value as unknown;
   if (v === null || v === undefined) return null;
   if (typeof v === "object" && !(v instanceof Date)) {
     const o = v as Record<string, unknown>;
-    if ("formula" in o || "sharedFormula" in o) throw new UploadRefused(`${where()} holds a formula. Replace formulas with the values themselves (copy, then Paste Values) and upload again.`);
-    if ("error" in o) throw new UploadRefused(`${where()} shows a spreadsheet error (${String(o.error)}). Type the value itself.`);
+    if ("formula" in o || "sharedFormula" in o) throw new UploadRefused(t("refusals.formula", { where: where() }));
+    if ("error" in o) throw new UploadRefused(t("refusals.cellError", { where: where(), error: String(o.error) }));
     if (Array.isArray(o.richText)) return (o.richText as { text: string }[]).map((t) => t.text).join("");
     if ("text" in o) return String(o.text);
     return null;
@@ -225,7 +224,7 @@ function cellValue(cell: ExcelJS.Cell, where: () => string): unknown {
 /** A cell's text for recognising a sheet, without refusing anything yet. */
 function looseText(cell: ExcelJS.Cell): string {
   try {
-    return asText(cellValue(cell, () => ""));
+    return asText(cellValue(cell, () => "", translatorFor()));
   } catch {
     return "";
   }
@@ -244,74 +243,73 @@ function couldHoldPlots(ws: ExcelJS.Worksheet, expected: Map<string, string>, pl
   return found;
 }
 
-const sheetLabel = (ws: ExcelJS.Worksheet) => `"${ws.name}"${ws.state && ws.state !== "visible" ? " (a hidden sheet)" : ""}`;
+const sheetLabel = (ws: ExcelJS.Worksheet, t: Translator) => t(ws.state && ws.state !== "visible" ? "refusals.hiddenSheetName" : "refusals.sheetName", { name: ws.name });
 
 /**
  * Picks the worksheet to read: the only one that could hold the plot values. Two or more such sheets are
  * refused, naming them, because saving the wrong one would record the wrong values.
  */
-function pickSheet(wb: ExcelJS.Workbook, ctx: ReadContext): ExcelJS.Worksheet {
+function pickSheet(wb: ExcelJS.Workbook, ctx: ReadContext, t: Translator): ExcelJS.Worksheet {
   const expected = expectedHeadings(ctx.columns);
   const plotCodes = new Set(ctx.plotCodes.map((c) => c.toUpperCase()));
   const candidates = wb.worksheets.filter((ws) => couldHoldPlots(ws, expected, plotCodes));
   if (candidates.length > 1) {
-    throw new UploadRefused(
-      `Sheets ${listWords(candidates.map(sheetLabel))} could each hold the plot values, so we cannot tell which one to save. Keep only the sheet you want saved (delete the ${candidates.length === 2 ? "other one" : "others"}, or move ${candidates.length === 2 ? "it" : "them"} to another file) and upload again.`,
-    );
+    throw new UploadRefused(t("refusals.twoSheets", { sheets: listWords(candidates.map((ws) => sheetLabel(ws, t)), t.locale), two: candidates.length === 2 ? "yes" : "no" }));
   }
   const ws = candidates[0] ?? wb.getWorksheet(PLOT_SHEET) ?? wb.worksheets[0];
-  if (!ws) throw new UploadRefused("The workbook has no sheets.");
+  if (!ws) throw new UploadRefused(t("refusals.noSheets"));
   return ws;
 }
 
 /** Every row of a worksheet that holds anything, without creating the empty rows in between. */
-function worksheetTable(ws: ExcelJS.Worksheet): Table {
+function worksheetTable(ws: ExcelJS.Worksheet, t: Translator): Table {
   const merges = ((ws.model as unknown as { merges?: string[] }).merges ?? []).filter(Boolean);
-  if (merges.length > 0) throw new UploadRefused(`The sheet has merged cells (${merges.slice(0, 3).join(", ")}). Unmerge them so every plot has its own row, then upload again.`);
+  if (merges.length > 0) throw new UploadRefused(t("refusals.mergedCells", { cells: merges.slice(0, 3).join(", ") }));
   const header: unknown[] = [];
   ws.getRow(1).eachCell((cell, c) => {
-    header[c - 1] = asText(cellValue(cell, () => `Cell ${columnLetter(c - 1)}1 of the heading row`));
+    header[c - 1] = asText(cellValue(cell, () => t("refusals.headingCell", { letter: columnLetter(c - 1) }), t));
   });
   const rows: Table["rows"] = [];
   ws.eachRow((row, r) => {
     if (r === 1) return;
     const cells: unknown[] = [];
     row.eachCell((cell, c) => {
-      cells[c - 1] = cellValue(cell, () => `Row ${r}, column ${columnLetter(c - 1)}${header[c - 1] ? ` ("${asText(header[c - 1])}")` : ""}`);
+      const at = { row: String(r), letter: columnLetter(c - 1) };
+      cells[c - 1] = cellValue(cell, () => (header[c - 1] ? t("refusals.rowCellHeading", { ...at, heading: asText(header[c - 1]) }) : t("refusals.rowCell", at)), t);
     });
     if (!cells.some((v) => !isEmpty(v))) return;
-    if (rows.length >= MAX_ROWS) throw new UploadRefused(`The sheet has more than ${MAX_ROWS} rows with values; the limit is ${MAX_ROWS}. Split it into smaller files.`);
+    if (rows.length >= MAX_ROWS) throw new UploadRefused(t("refusals.tooManyRowsSoFar", { max: String(MAX_ROWS) }));
     rows.push({ row: r, cells });
   });
   return { header, rows };
 }
 
-/** Reads the plots of an uploaded workbook or CSV into rows keyed by column. */
-export async function readUpload(bytes: Uint8Array, kind: UploadKind, ctx: ReadContext): Promise<ReadResult> {
+/** Reads the plots of an uploaded workbook or CSV into rows keyed by column; refusals in the language of `t`. */
+export async function readUpload(bytes: Uint8Array, kind: UploadKind, ctx: ReadContext, t: Translator = translatorFor()): Promise<ReadResult> {
   if (kind === "csv") {
-    const { records } = parseCsvRecords(decodeCsv(bytes));
+    const { records } = parseCsvRecords(decodeCsv(bytes, t), { t });
     for (const r of records) {
       if (r.row === 1) continue;
       r.cells.forEach((v, i) => {
-        if (/^\s*=/.test(v)) throw new UploadRefused(`Row ${r.row}, column ${columnLetter(i)} ("${records[0]?.row === 1 ? (records[0].cells[i] ?? "") : ""}") starts with "=", which spreadsheet programs run as a formula. Type the value itself.`);
+        if (/^\s*=/.test(v)) throw new UploadRefused(t("refusals.csvFormula", { row: String(r.row), letter: columnLetter(i), heading: records[0]?.row === 1 ? (records[0].cells[i] ?? "") : "" }));
       });
     }
     const header = records[0]?.row === 1 ? records[0].cells : [];
     const table = { header, rows: records.filter((r) => r.row > 1) };
-    return { ...toRows(table, ctx, "csv"), sheet: null, otherSheets: [] };
+    return { ...toRows(table, ctx, "csv", t), sheet: null, otherSheets: [] };
   }
   const wb = new ExcelJS.Workbook();
   try {
     await wb.xlsx.load(bytes as unknown as ArrayBuffer);
   } catch {
-    throw new UploadRefused("This workbook could not be opened. Open it in your spreadsheet program, save it again as .xlsx and retry.");
+    throw new UploadRefused(t("refusals.cannotOpen"));
   }
-  const ws = pickSheet(wb, ctx);
+  const ws = pickSheet(wb, ctx, t);
   try {
-    const read = toRows(worksheetTable(ws), ctx, "xlsx");
+    const read = toRows(worksheetTable(ws, t), ctx, "xlsx", t);
     return { ...read, sheet: ws.name, otherSheets: wb.worksheets.filter((w) => w !== ws).map((w) => w.name) };
   } catch (e) {
-    if (e instanceof UploadRefused) throw new UploadRefused(`Sheet "${ws.name}": ${e.message}`, ws.name);
+    if (e instanceof UploadRefused) throw new UploadRefused(t("refusals.onSheet", { sheet: ws.name, message: e.message }), ws.name);
     throw e;
   }
 }

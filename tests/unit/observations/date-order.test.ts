@@ -4,6 +4,7 @@ import { datesToCheck, packetTolerance, type SiteDates } from "@/lib/domain/obse
 import { flagValues } from "@/lib/domain/observations/flags";
 import { parseCell, type CellValue } from "@/lib/domain/observations/values";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 const trait = (t: Partial<TraitForColumns> & Pick<TraitForColumns, "id" | "code" | "name">): TraitForColumns => ({
   unit: "date",
@@ -112,5 +113,22 @@ describe("date-order checks", () => {
       [10, "harvest_date", "far_from_packet"],
     ]);
     expect(flags[1]!.message).toMatch(/46 days to maturity on this entry's seed packet/);
+  });
+  it("a grower reading Spanish gets date-order warnings and refusals in Spanish, with the dates written the Spanish way", () => {
+    const es = translatorFor("es");
+    const spanish = entryColumns([trait({ id: 1, code: "emergence_date", name: "Emergence date" }), trait({ id: 2, code: "harvest_date", name: "First harvest date" })], es);
+    const found = datesToCheck({ columns: spanish, value: (key) => ({ emergence_date: date("2026-05-09"), harvest_date: date("2026-05-03") })[key] ?? null, site, packetDays: 80, audience: "grower", t: es });
+    expect(found.map((w) => w.message)).toEqual([
+      `La fecha de primera cosecha (${formatDate("2026-05-03", "es")}) es anterior a la de emergencia (${formatDate("2026-05-09", "es")}) en esta parcela: revise ambas fechas.`,
+      `La fecha de primera cosecha (${formatDate("2026-05-03", "es")}) cae 32 días después de la siembra, mucho antes de cuando se espera que esta variedad esté lista: revise la fecha.`,
+    ]);
+    expect(formatDate("2026-05-03", "es")).toMatch(/^3 may/);
+    const sameDay = datesToCheck({ columns: spanish, value: () => date("2026-05-09"), site, packetDays: null, audience: "grower", t: es });
+    expect(sameDay[0]!.message).toMatch(/^La fecha de primera cosecha \(.+\) cae el mismo día que la de emergencia \(.+\) en esta parcela/);
+    const emergence = spanish.find((c) => c.traitCode === "emergence_date")!;
+    expect(parseCell(emergence, "2026-03-30", { ...ctx, t: es })).toEqual({
+      ok: false,
+      message: `La fecha de emergencia (${formatDate("2026-03-30", "es")}) es anterior a la fecha de siembra de este sitio, ${formatDate("2026-04-01", "es")}. Revise la fecha; si la fecha de siembra está mal, pida a la coordinación que la corrija.`,
+    });
   });
 });

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
-import { fieldErrorsOf } from "@/lib/validation/field-errors";
+import { fieldErrorsOf, parseIn } from "@/lib/validation/field-errors";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 
 describe("field errors from a zod failure", () => {
   it("puts every message under its own field, in order, and form-wide ones under _form", () => {
@@ -12,5 +13,15 @@ describe("field errors from a zod failure", () => {
     expect(fieldErrorsOf(parsed.error!)).toEqual({ email: ["Enter an e-mail address.", "Too short."], rows: ["Not a number."] });
     const whole = z.object({ a: z.string() }).refine(() => false, "The form as a whole is wrong.").safeParse({ a: "ok" });
     expect(fieldErrorsOf(whole.error!)).toEqual({ _form: ["The form as a whole is wrong."] });
+  });
+
+  it("zod's own issues and a schema built from the reader's Translator come out in the reader's language", () => {
+    const schema = (t: Translator) => z.object({ name: z.string().trim().min(1).max(5), count: z.number().max(3), caption: z.string().max(3, t("forms.atMostChars", { max: "3" })) });
+    const input = { count: 9, caption: "long" };
+    const spanish = parseIn(schema, input, translatorFor("es"));
+    expect(fieldErrorsOf(spanish.error!)).toEqual({ name: ["Este campo es obligatorio."], count: ["Escriba un número no mayor que 3."], caption: ["Use como máximo 3 caracteres."] });
+    const english = parseIn(schema, { ...input, name: "far too long" });
+    expect(fieldErrorsOf(english.error!)).toEqual({ name: ["Use at most 5 characters."], count: ["Enter a number of at most 3."], caption: ["Use at most 3 characters."] });
+    expect(parseIn(schema, { name: "ok", count: 1, caption: "ab" }, translatorFor("es")).data).toEqual({ name: "ok", count: 1, caption: "ab" });
   });
 });

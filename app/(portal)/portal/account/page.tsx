@@ -4,7 +4,9 @@ import { requireUser } from "@/server/auth/guards";
 import { Card } from "@/components/ui/card";
 import { LanguageForm } from "@/components/account/language-form";
 
-export const metadata: Metadata = { title: "My account" };
+export async function generateMetadata(): Promise<Metadata> {
+  return { title: (await getTranslations("account"))("title") };
+}
 
 export default async function AccountPage() {
   const viewer = await requireUser();

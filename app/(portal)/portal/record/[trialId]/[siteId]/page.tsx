@@ -50,6 +50,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
   for (const c of sheet.comments) if (c.plotId) (comments[c.plotId] ??= []).push(c.body);
   const base = `/portal/record/${sheet.enrolment.trialId}/${sheet.enrolment.siteId}`;
   const t = await getTranslations("record");
+  const photoWords = await getTranslations("photos");
   const sendable = (sheet.submission?.status ?? "draft") !== "submitted" && sheet.submission?.status !== "accepted" && Object.keys(sheet.values).length > 0;
 
   return (
@@ -129,7 +130,7 @@ export default async function RecordSitePage({ params, searchParams }: { params:
                     <img src={`/api/photos/${ph.id}`} alt={ph.caption ?? t("photoOf", { what: ph.plotCode ?? t("theSite") })} className="h-24 w-32 rounded-lg object-cover" loading="lazy" />
                   </a>
                   {ph.plotCode ?? t("site")} {ph.caption ? `· ${ph.caption}` : ""}
-                  <RemovePhoto photoId={ph.id} trialId={sheet.enrolment.trialId} siteId={sheet.enrolment.siteId} name={ph.caption ?? `${ph.plotCode ?? "site"} photo`} />
+                  <RemovePhoto photoId={ph.id} trialId={sheet.enrolment.trialId} siteId={sheet.enrolment.siteId} name={ph.caption ?? photoWords("namedPhoto", { what: ph.plotCode ?? photoWords("siteWord") })} />
                 </li>
               ))}
             </ul>

@@ -4,11 +4,12 @@ import { siteParamsSchema } from "@/lib/validation/observations";
 import { commitUpload, previewUpload } from "@/server/spreadsheets/upload";
 import { fileWithin } from "@/server/http/body";
 import { defineRoute } from "@/server/http/define-route";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
 
-const modeSchema = z.enum(["preview", "commit"], { error: "Ask for a preview or to save." });
+const modeSchema = z.enum(["preview", "commit"]);
 
 /**
  * Takes a filled-in sheet (multipart field `file`) with `mode` preview or commit. Preview never writes;
@@ -21,8 +22,9 @@ export const POST = defineRoute(
     body: { kind: "spreadsheet", as: "form" },
   },
   async ({ viewer, params, body: form }) => {
-    const file = fileWithin(form, "spreadsheet");
-    if (!file) throw new AppError("bad_request", "Choose a file to upload.");
+    const t = translatorFor(viewer.locale);
+    const file = fileWithin(form, "spreadsheet", t);
+    if (!file) throw new AppError("bad_request", t("upload.chooseFile"));
     const mode = modeSchema.safeParse(form.get("mode") ?? "preview");
     if (!mode.success) throw new AppError("bad_request", "Ask for a preview or to save.");
     const target = { ...params, bytes: new Uint8Array(await file.arrayBuffer()), fileName: file.name };
