@@ -77,6 +77,12 @@ function processCpu(): Map<string, number> {
   return out;
 }
 
+/** Statements MariaDB has run for all its clients so far (its Questions counter); the run's own two reads add two. */
+async function statementsRun(): Promise<number> {
+  const [rows] = (await pool.query("SHOW GLOBAL STATUS LIKE 'Questions'")) as unknown as [{ Value: string }[]];
+  return Number(rows[0]!.Value);
+}
+
 /** Cookie header value from a response's Set-Cookie lines, merged into what we already hold. */
 function mergeCookies(jar: Map<string, string>, res: Response) {
   for (const line of res.headers.getSetCookie()) {
@@ -198,6 +204,7 @@ try {
   // Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
   // three plots with values unique to (grower, save), so the last accepted value of each plot is known.
   const cpuBefore = processCpu();
+  const statementsBefore = await statementsRun();
   const lastWritten = new Map<number, string>();
   const saveLatencies: number[] = [];
   let saveErrors = 0;
@@ -228,12 +235,14 @@ try {
       }
     }),
   );
+  const statementsPerSave = (await statementsRun()) - statementsBefore;
   const cpuPerSave = [...processCpu()].map(([pid, ms]) => `${pid} ${((ms - (cpuBefore.get(pid) ?? 0)) / Math.max(1, saveCount)).toFixed(1)} ms`);
   figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });
 
   console.log("scenario                           requests    throughput   latency");
   for (const f of figures) print(f);
   if (cpuPerSave.length > 0) console.log(`CPU time per save (user + system, whatever the machine's load): ${cpuPerSave.join(", ")}`);
+  console.log(`Statements MariaDB ran per save (round trips, whatever the load; counts every client of the database): ${(statementsPerSave / Math.max(1, saveCount)).toFixed(1)}`);
 
   // Every value a save was told was stored must be in the database, with the last value written to that plot.
   const stored = await db
@@ -253,6 +262,7 @@ try {
   const result = (figure: string, value: string, unit: string, target: string, met: boolean) => console.log(["RESULT", figure, value, unit, "-", target, met ? "met" : "not met"].join("\t"));
   result(`saves, ${load.growers.length} growers x 3 values`, perSecond.toFixed(0), "saves/s", ">= 200 saves/s", perSecond >= 200);
   result("saves p95", p95.toFixed(0), "ms", "< 200 ms", p95 < 200);
+  console.log(["RESULT", "database statements per save", (statementsPerSave / Math.max(1, saveCount)).toFixed(1), "statements", "-", "-", "-"].join("\t"));
   result("saved plot values lost or stale (row by row)", String(wrong.length), "plots", "0, and no failed save", wrong.length === 0 && saves.errors === 0);
 } finally {
   await removeThrowawayTrial(db, load.trialId, THROWAWAY);

@@ -28,39 +28,46 @@ type Executor = Tx | typeof db;
  * latest committed values.
  */
 export async function getRecordableEnrolment(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false) {
-  if (lock) {
-    // MariaDB has no FOR SHARE; a FOR UPDATE over a join would lock the trial row for writing too.
-    await ex.execute(sql`SELECT ${trials.id} FROM ${trials} WHERE ${trials.id} = ${p.trialId} LOCK IN SHARE MODE`);
-    // A grower locks only their own sites' rows; staff scope needs the trial row, checked by the read below.
-    const own = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : undefined;
-    await ex.select({ id: enrolments.id }).from(enrolments).where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), own)).for("update");
-  }
-  const q = ex
-    .select({
-      enrolmentId: enrolments.id,
-      trialId: trials.id,
-      trialCode: trials.code,
-      trialTitle: trials.title,
-      trialStatus: trials.status,
-      plotUnit: trials.plotUnit,
-      plotSize: trials.plotSize,
-      programId: trials.programId,
-      siteId: sites.id,
-      siteName: sites.name,
-      sownOn: enrolments.sownOn,
-      transplantedOn: enrolments.transplantedOn,
-      cooperatorId: enrolments.cooperatorId,
-      /** the review state of the site's data set; null before anything was recorded */
-      submissionStatus: submissions.status,
-    })
+  if (lock) await lockRecordableEnrolment(ex, viewer, p);
+  const [row] = await ex
+    .select(recordableEnrolmentFields)
     .from(enrolments)
     .innerJoin(trials, eq(trials.id, enrolments.trialId))
     .innerJoin(sites, eq(sites.id, enrolments.siteId))
     .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
-    .where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), recordScope(viewer)));
-  const [row] = await q;
+    .where(recordableEnrolmentWhere(viewer, p));
   return row ?? null;
 }
+
+/** The two locking statements of getRecordableEnrolment(…, lock): the trial row for reading, the site's enrolment row for writing. */
+async function lockRecordableEnrolment(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }) {
+  // MariaDB has no FOR SHARE; a FOR UPDATE over a join would lock the trial row for writing too.
+  await ex.execute(sql`SELECT ${trials.id} FROM ${trials} WHERE ${trials.id} = ${p.trialId} LOCK IN SHARE MODE`);
+  // A grower locks only their own sites' rows; staff scope needs the trial row, checked by the read after the locks.
+  const own = viewer.role === "cooperator" ? cooperatorEnrolmentScope(viewer) : undefined;
+  await ex.select({ id: enrolments.id }).from(enrolments).where(and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), own)).for("update");
+}
+
+const recordableEnrolmentFields = {
+  enrolmentId: enrolments.id,
+  trialId: trials.id,
+  trialCode: trials.code,
+  trialTitle: trials.title,
+  trialStatus: trials.status,
+  plotUnit: trials.plotUnit,
+  plotSize: trials.plotSize,
+  programId: trials.programId,
+  siteId: sites.id,
+  siteName: sites.name,
+  sownOn: enrolments.sownOn,
+  transplantedOn: enrolments.transplantedOn,
+  cooperatorId: enrolments.cooperatorId,
+  /** the review state of the site's data set; null before anything was recorded */
+  submissionStatus: submissions.status,
+};
+
+const recordableEnrolmentWhere = (viewer: Viewer, p: { trialId: number; siteId: number }) => and(eq(enrolments.trialId, p.trialId), eq(enrolments.siteId, p.siteId), recordScope(viewer));
+
 export type RecordableEnrolment = NonNullable<Awaited<ReturnType<typeof getRecordableEnrolment>>>;
 
 /** What the recording form's columns and the schedule read of a trait (see entryColumns). */
@@ -86,6 +93,29 @@ export async function listTrialTraits(ex: Executor, trialId: number): Promise<Tr
     .innerJoin(traits, eq(traits.id, trialTraits.traitId))
     .where(eq(trialTraits.trialId, trialId))
     .orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
+}
+
+/**
+ * getRecordableEnrolment and listTrialTraits in one read, for a save: one row per trait of the trial (in the
+ * trial's trait order) carrying the enrolment, or one row with no trait when the trial has none. Null when
+ * the enrolment is not the viewer's. `lock` takes the same locks as getRecordableEnrolment, before the read.
+ */
+export async function getRecordableEnrolmentWithTraits(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false) {
+  if (lock) await lockRecordableEnrolment(ex, viewer, p);
+  const rows = await ex
+    .select({ enrolment: recordableEnrolmentFields, trait: traitColumnFields })
+    .from(enrolments)
+    .innerJoin(trials, eq(trials.id, enrolments.trialId))
+    .innerJoin(sites, eq(sites.id, enrolments.siteId))
+    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
+    .leftJoin(trialTraits, eq(trialTraits.trialId, trials.id))
+    .leftJoin(traits, eq(traits.id, trialTraits.traitId))
+    .where(recordableEnrolmentWhere(viewer, p))
+    .orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
+  if (rows.length === 0) return null;
+  const traitRows: TraitForColumns[] = [];
+  for (const r of rows) if (r.trait) traitRows.push(r.trait);
+  return { enrolment: rows[0]!.enrolment, traits: traitRows };
 }
 
 /** Plots of an enrolment in layout order (block, then position), with blind codes only. */

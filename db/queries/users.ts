@@ -31,13 +31,17 @@ export async function getSignInRecord(email: string) {
  * session was ended: issued before the account's last sign-out, password change or deactivation.
  */
 export async function getActiveViewer(userId: number, sessionGeneration: number): Promise<Viewer | null> {
-  const [row] = await db
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role, locale: users.locale })
-    .from(users)
-    .where(and(eq(users.id, userId), eq(users.active, true), eq(users.sessionGeneration, sessionGeneration)))
-    .limit(1);
+  const [row] = await activeViewerQuery.execute({ userId, sessionGeneration });
   return row ?? null;
 }
+
+// Run for every signed-in request, so its SQL is built once, not on each call.
+const activeViewerQuery = db
+  .select({ id: users.id, email: users.email, name: users.name, role: users.role, locale: users.locale })
+  .from(users)
+  .where(and(eq(users.id, sql.placeholder("userId")), eq(users.active, true), eq(users.sessionGeneration, sql.placeholder("sessionGeneration"))))
+  .limit(1)
+  .prepare();
 
 /**
  * Every account for the admin's user list (admin only): role, the programs a coordinator runs, the last

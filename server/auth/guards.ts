@@ -1,10 +1,11 @@
 import "server-only";
 import { cache } from "react";
 import { cookies } from "next/headers";
-import { getToken } from "next-auth/jwt";
+import { decode, getToken } from "next-auth/jwt";
 import { redirect } from "next/navigation";
 import { env } from "@/lib/env";
 import { getActiveViewer } from "@/db/queries/users";
+import { BoundedStore } from "@/lib/domain/cache/bounded-store";
 import { AppError } from "@/lib/errors";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -16,10 +17,39 @@ import type { Viewer } from "@/lib/domain/viewer";
  */
 export const getViewer = cache(async (): Promise<Viewer | null> => {
   // The same cookie and secret next-auth uses; headers are left out so only the cookie can carry a session.
-  const token = await getToken({ req: { cookies: await cookies(), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"], secret: env.NEXTAUTH_SECRET });
-  if (typeof token?.uid !== "number" || typeof token.gen !== "number") return null;
-  return getActiveViewer(token.uid, token.gen);
+  const token = await getToken({ req: { cookies: await cookies(), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"], secret: env.NEXTAUTH_SECRET, raw: true });
+  const session = token ? await decodeSession(token) : null;
+  if (!session) return null;
+  return getActiveViewer(session.uid, session.gen);
 });
+
+interface DecodedSession {
+  uid: number;
+  gen: number;
+  /** when the cookie's own expiry passes (ms) */
+  expiresAt: number;
+  bytes: number;
+}
+
+/**
+ * Session cookies already decoded, by their exact text. Decoding one (a key derivation and a decryption) was a
+ * twentieth of the server's work per save, and a grower's phone sends the same cookie with every save. Only
+ * what the cookie itself says is kept (who, which session generation, until when), which never changes for
+ * the same text; whether that session still counts (signed out, new password, deactivated) and the person's
+ * role are read from the database on every request by getActiveViewer, so keeping the decoding grants nothing
+ * the database has since taken away. Only cookies that decoded are kept, so made-up ones cannot fill it.
+ */
+const decodedSessions = new BoundedStore<DecodedSession>(5_000, 8 * 1024 * 1024);
+
+async function decodeSession(token: string): Promise<{ uid: number; gen: number } | null> {
+  const known = decodedSessions.get(token);
+  if (known && known.expiresAt > Date.now()) return known;
+  // As getToken decodes: anything that does not decrypt, or is past its expiry, is no session.
+  const payload = await decode({ token, secret: env.NEXTAUTH_SECRET }).catch(() => null);
+  if (typeof payload?.uid !== "number" || typeof payload.gen !== "number") return null;
+  if (typeof payload.exp === "number") decodedSessions.set(token, { uid: payload.uid, gen: payload.gen, expiresAt: payload.exp * 1000, bytes: token.length });
+  return { uid: payload.uid, gen: payload.gen };
+}
 
 /** For pages: the viewer, or a redirect to sign-in. */
 export async function requireUser(): Promise<Viewer> {

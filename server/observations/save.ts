@@ -1,16 +1,16 @@
 import "server-only";
 import { db, type Tx } from "@/db/index";
-import { getClientSave, getRecordableEnrolment, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
+import { getClientSave, getRecordableEnrolmentWithTraits, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
 import { insertClientSave, insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservations, type AuditEntry } from "@/db/mutations/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
 import { crossCheckPlot, displayEntry, displayValue, isBlank, parseEntry, sameValue, type CellValue, type TextNumberCommas } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
-import type { EntryColumn } from "@/lib/domain/observations/columns";
+import { entryColumns, type EntryColumn } from "@/lib/domain/observations/columns";
 import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import { datesToCheck, type DateCheckKind } from "@/lib/domain/observations/date-order";
 import { todayIso } from "@/lib/domain/schedule";
-import { keyObservations, listTrialColumns } from "./sheet";
+import { keyObservations } from "./sheet";
 
 /**
  * One value to record: the plot by id (forms) or by its label code (spreadsheets). `row` names a spreadsheet
@@ -91,6 +91,23 @@ function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: 
   if (status === "accepted") throw new AppError("conflict", t("forms.acceptedLocked"));
 }
 
+/** The site a save writes to and the trial's columns, read together (and locked, inside a save). */
+interface SaveTarget {
+  enrolment: RecordableEnrolment;
+  columns: EntryColumn[];
+}
+
+async function readSaveTarget(ex: Tx | typeof db, viewer: Viewer, p: { trialId: number; siteId: number }, lock: boolean): Promise<SaveTarget | null> {
+  const found = await getRecordableEnrolmentWithTraits(ex, viewer, p, lock);
+  return found && { enrolment: found.enrolment, columns: entryColumns(found.traits) };
+}
+
+function assertRecordable(viewer: Viewer, target: SaveTarget | null): asserts target is SaveTarget {
+  // Unknown and foreign sites look the same, so ids cannot be probed.
+  if (!target) throw new AppError("not_found", translatorFor(viewer.locale)("forms.notYours"));
+  assertEditable(viewer, target.enrolment, target.enrolment.submissionStatus);
+}
+
 /**
  * Checks every value against its trait, the plot layout and the other values of the same plot, and works
  * out what would be new, changed or unchanged. Writes nothing; used for previews and inside the save.
@@ -101,15 +118,22 @@ export async function planSiteObservations(
   input: { trialId: number; siteId: number; cells: CellInput[]; textNumberCommas?: TextNumberCommas },
   opts: { lock?: boolean; today?: string } = {},
 ): Promise<ObservationPlan> {
-  const enrolment = await getRecordableEnrolment(ex, viewer, input, opts.lock);
-  // Unknown and foreign sites look the same, so ids cannot be probed.
-  if (!enrolment) throw new AppError("not_found", translatorFor(viewer.locale)("forms.notYours"));
-  assertEditable(viewer, enrolment, enrolment.submissionStatus);
+  const target = await readSaveTarget(ex, viewer, input, opts.lock ?? false);
+  assertRecordable(viewer, target);
+  return planForTarget(ex, viewer, target, input, opts);
+}
 
+async function planForTarget(
+  ex: Tx | typeof db,
+  viewer: Viewer,
+  { enrolment, columns }: SaveTarget,
+  input: { cells: CellInput[]; textNumberCommas?: TextNumberCommas },
+  opts: { today?: string },
+): Promise<ObservationPlan> {
   // Every check is per plot, so a save that names its plots by id (the phone form) reads only those plots;
   // a sheet names plots by code and reads the site's plots to find them.
   const onlyPlots = input.cells.length > 0 && input.cells.every((c) => c.plotId !== undefined) ? [...new Set(input.cells.map((c) => c.plotId!))] : undefined;
-  const [columns, { plots: plotRows, stored: storedRows, packetDays }] = await Promise.all([listTrialColumns(ex, enrolment.trialId), listPlotsForSave(ex, enrolment.enrolmentId, onlyPlots)]);
+  const { plots: plotRows, stored: storedRows, packetDays } = await listPlotsForSave(ex, enrolment.enrolmentId, onlyPlots);
   const stored = keyObservations(storedRows, columns);
   const byId = new Map(plotRows.map((p) => [p.id, p]));
   const byCode = new Map(plotRows.map((p) => [p.plotCode.toUpperCase(), p]));
@@ -255,15 +279,18 @@ function isDuplicateKey(e: unknown, depth = 0): boolean {
 async function saveOnce(viewer: Viewer, input: Parameters<typeof saveSiteObservations>[1], opts: { today?: string }): Promise<SaveAnswer> {
   const observedOn = opts.today ?? todayIso();
   return db.transaction(async (tx) => {
-    // A save the phone sent before (the answer was lost on the way) answers what it answered then. The site's
-    // lock comes first, so this read (and the plan's) sees any save of the same id that committed meanwhile.
+    // The enrolment row lock serialises saves for one site, so two phones never insert the same value twice.
+    // The site and the trial's columns are read once, after the locks.
+    const target = await readSaveTarget(tx, viewer, input, true);
+    // A save the phone sent before (the answer was lost on the way) answers what it answered then, even if the
+    // site has been sent for review since. The site's lock comes first, so this read (and the plan's) sees any
+    // save of the same id that committed meanwhile.
     if (input.clientSaveId) {
-      await getRecordableEnrolment(tx, viewer, input, true);
       const earlier = await getClientSave(tx, viewer.id, input.clientSaveId);
       if (earlier) return earlierAnswer(earlier, input);
     }
-    // The enrolment row lock serialises saves for one site, so two phones never insert the same value twice.
-    const plan = await planSiteObservations(tx, viewer, input, { lock: true, today: opts.today });
+    assertRecordable(viewer, target);
+    const plan = await planForTarget(tx, viewer, target, input, { today: opts.today });
     if (plan.problems.length > 0) {
       const fieldErrors: Record<string, string[]> = {};
       for (const p of plan.problems) (fieldErrors[`${p.plotId ?? p.plotCode ?? "row" + p.row}:${p.key ?? ""}`] ??= []).push(p.message);

@@ -5,8 +5,9 @@ import type { Browser, Page } from "playwright-core";
 import { createDatabase } from "@/db/client";
 import { insertThrowawayGrower } from "../helpers/throwaway-account";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
-import { launchBrowser, newPage, signIn } from "../helpers/browser";
+import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
 import { httpSession, request, type HttpSession } from "../helpers/http";
+import { loadSampleIds } from "../helpers/samples";
 import { oneTimeLink, waitForMailTo } from "../helpers/captured-mail";
 
 const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
@@ -77,6 +78,46 @@ describe("sessions end on the server", () => {
     // A stale cookie cannot sign out the session that came after it.
     await signOut(laptop);
     expect(await stillWorks(again)).toEqual(WORKS);
+  });
+
+  it("a grower's cookie that keeps saving is checked afresh on every save: a role change and a sign-out count at the next save", async () => {
+    const account = await newAccount("saving");
+    const ids = await loadSampleIds(e2e.pool);
+    const [[grower]] = (await e2e.pool.query("SELECT id FROM users WHERE email = ?", [account.email])) as unknown as [[{ id: number }]];
+    const [[quality]] = (await e2e.pool.query("SELECT id FROM traits WHERE code = 'quality'")) as unknown as [[{ id: number }]];
+    // A plot of site A with no quality value yet, so the test leaves the demo data as it found it.
+    const [[plot]] = (await e2e.pool.query(
+      "SELECT p.id FROM plots p JOIN enrolments e ON e.id = p.enrolment_id WHERE e.trial_id = ? AND e.site_id = ? AND NOT EXISTS (SELECT 1 FROM observations o WHERE o.plot_id = p.id AND o.trait_id = ?) ORDER BY p.id DESC LIMIT 1",
+      [ids.kal, ids.siteA, quality!.id],
+    )) as unknown as [[{ id: number }]];
+    // The throwaway grower helps on site A, so the save reaches the site through site_cooperators.
+    await e2e.pool.query("INSERT INTO site_cooperators (site_id, user_id) VALUES (?, ?)", [ids.siteA, grower!.id]);
+    const save = async (session: HttpSession, value: string) => {
+      const response = await request("/api/observations", session, {
+        method: "POST",
+        headers: { "Content-Type": "application/json", Origin: new URL(baseUrl).origin },
+        body: JSON.stringify({ trialId: ids.kal, siteId: ids.siteA, values: [{ plotId: plot!.id, key: "quality", value }] }),
+      });
+      await response.body?.cancel();
+      return response.status;
+    };
+    try {
+      const phone = await httpSession(account.email, account.password);
+      expect(await save(phone, "4")).toBe(200);
+      expect(await save(phone, "5")).toBe(200);
+      // A coordinator of no program reaches no site: the same cookie now answers as for a site that is not theirs.
+      await e2e.pool.query("UPDATE users SET role = 'coordinator' WHERE id = ?", [grower!.id]);
+      expect(await save(phone, "6")).toBe(404);
+      await e2e.pool.query("UPDATE users SET role = 'cooperator' WHERE id = ?", [grower!.id]);
+      expect(await save(phone, "6")).toBe(200);
+      await signOut(phone);
+      expect(await save(phone, "7")).toBe(401);
+      const [[stored]] = (await e2e.pool.query("SELECT value_number AS v FROM observations WHERE plot_id = ? AND trait_id = ?", [plot!.id, quality!.id])) as unknown as [[{ v: number }]];
+      expect(Number(stored!.v)).toBe(6);
+    } finally {
+      await e2e.pool.query("DELETE FROM observations WHERE plot_id = ? AND trait_id = ?", [plot!.id, quality!.id]);
+      await e2e.pool.query("DELETE FROM site_cooperators WHERE user_id = ?", [grower!.id]);
+    }
   });
 
   it("a session from before a password reset stops working once the new password is set", async () => {

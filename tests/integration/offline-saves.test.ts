@@ -83,6 +83,29 @@ describe("saves the phone sends again are written once", () => {
     expect(e.status).toBe(400);
   });
 
+  it("a save repeated after the site was sent for review answers what it answered then, while a new save is refused as locked", async () => {
+    const plot = site.plots[8]!;
+    const body = { clientSaveId: crypto.randomUUID(), values: [{ plotId: plot.id, key: TRAIT, value: "7" }] };
+    const first = await saveAs(luis, body);
+    await db.update(s.submissions).set({ status: "submitted" }).where(eq(s.submissions.enrolmentId, site.enrolmentId));
+    try {
+      expect(await saveAs(luis, body)).toEqual(first);
+      const e = await refusal(saveAs(luis, { clientSaveId: crypto.randomUUID(), values: [{ plotId: plot.id, key: TRAIT, value: "8" }] }));
+      expect(e.message).toMatch(/sent this site's data for review/);
+      expect((await storedNote(plot.id))!.valueNumber).toBe(7);
+    } finally {
+      await db.update(s.submissions).set({ status: "draft" }).where(eq(s.submissions.enrolmentId, site.enrolmentId));
+    }
+  });
+
+  it("a save with a phone id for another grower's site is refused as unknown and leaves no answer behind", async () => {
+    const clientSaveId = crypto.randomUUID();
+    const e = await refusal(saveObservationsForViewer(mei, { trialId: site.trialId, siteId: site.siteId, clientSaveId, values: [{ plotId: site.plots[9]!.id, key: TRAIT, value: "2" }] }));
+    expect(e.code).toBe("not_found");
+    expect(await storedNote(site.plots[9]!.id)).toBeNull();
+    expect(await db.select().from(s.clientSaves).where(and(eq(s.clientSaves.userId, mei.id), eq(s.clientSaves.clientSaveId, clientSaveId)))).toHaveLength(0);
+  });
+
   it("a save id that is not a UUID is refused", async () => {
     const e = await refusal(saveAs(luis, { clientSaveId: "1' OR 1=1", values: [{ plotId: site.plots[7]!.id, key: TRAIT, value: "5" }] }));
     expect(e.message).toBe("That save id is not valid.");

@@ -12,15 +12,21 @@ export const GET = defineRoute({ roles: "signed-in" }, async ({ viewer, request 
 });
 
 /**
+ * A save's answer is a few hundred bytes: gzipping it (Next compresses any answer whose length it does not know)
+ * costs the server more than sending it, so `no-transform` tells Next's compression to leave it alone.
+ */
+const SAVE_ANSWER_HEADERS = { "Cache-Control": "private, no-store, no-transform" };
+
+/**
  * Saves values typed in the data-entry form; answers per-field problems with 400, and values someone else
  * changed since the phone last saw them with 409 and both values, writing nothing in either case.
  */
 export const POST = defineRoute({ roles: "signed-in", body: { kind: "observations", as: "json" } }, async ({ viewer, body }) => {
   try {
-    return Response.json(await saveObservationsForViewer(viewer, body));
+    return Response.json(await saveObservationsForViewer(viewer, body), { headers: SAVE_ANSWER_HEADERS });
   } catch (e) {
     // The form shows both values and lets the grower choose.
-    if (e instanceof StaleValuesError) return Response.json({ error: e.message, conflicts: e.conflicts }, { status: 409 });
+    if (e instanceof StaleValuesError) return Response.json({ error: e.message, conflicts: e.conflicts }, { status: 409, headers: SAVE_ANSWER_HEADERS });
     throw e;
   }
 });
