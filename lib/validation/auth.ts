@@ -1,3 +1,4 @@
+import { LOCALES } from "@/lib/domain/vocabulary/enums";
 import { z } from "zod";
 
 export const email = z
@@ -42,6 +43,8 @@ export const inviteCooperatorSchema = z.object({
   name: z.string({ error: "Enter the grower's name." }).trim().min(2, "Enter the grower's name.").max(120, "Use at most 120 characters."),
   email,
   siteId: z.coerce.number({ error: "Choose the grower's site." }).int("Choose the grower's site.").positive("Choose the grower's site."),
+  /** the language of the invitation mail and of the new account */
+  locale: z.enum(LOCALES, { error: "Choose English or Spanish." }).default("en"),
 });
 
 export const changeRoleSchema = z.object({

@@ -20,9 +20,13 @@ export const CLIENT_KEYS: Record<string, readonly string[]> = {
   public: ["switchTo"],
 };
 
-/** The part of a catalogue sent to client components. */
-export function clientMessages<T extends Record<string, unknown>>(messages: T): Record<string, unknown> {
-  const picked: Record<string, unknown> = Object.fromEntries(CLIENT_NAMESPACES.map((ns) => [ns, messages[ns]]));
+/** Namespaces only some layouts' client components read, sent by those layouts alone (app/(auth), app/(public)). */
+export const AUTH_CLIENT_NAMESPACES = ["auth"] as const;
+export const PUBLIC_CLIENT_NAMESPACES = ["publicTables", "figures"] as const;
+
+/** The part of a catalogue sent to client components, with the `extra` namespaces a layout adds for its own. */
+export function clientMessages<T extends Record<string, unknown>>(messages: T, extra: readonly string[] = []): Record<string, unknown> {
+  const picked: Record<string, unknown> = Object.fromEntries([...CLIENT_NAMESPACES, ...extra].map((ns) => [ns, messages[ns]]));
   for (const [ns, keys] of Object.entries(CLIENT_KEYS)) {
     const all = (messages[ns] ?? {}) as Record<string, unknown>;
     picked[ns] = Object.fromEntries(keys.filter((k) => k in all).map((k) => [k, all[k]]));
