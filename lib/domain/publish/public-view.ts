@@ -94,7 +94,30 @@ export interface PublicTrialCard {
 /** The germination section of a published trial (the same figures as the PDF's), or null when seeds were not counted. */
 export type PublicGerminationView = NonNullable<PublicTraitResult["germination"]>;
 
-export function toPublicGerminationView(results: { result: PublicTraitResult }[]): PublicGerminationView | null {
+export function toPublicGerminationView(results: { result: PublicTraitResult }[], t: Translator = translatorFor("en")): PublicGerminationView | null {
   const g = results.find((r) => r.result.germination)?.result.germination ?? null;
-  return g && { byEntry: g.byEntry, bySite: g.bySite, chiSquare: g.chiSquare, cmh: g.cmh, labels: g.labels, note: g.note };
+  if (!g) return null;
+  const view = { byEntry: g.byEntry, bySite: g.bySite, chiSquare: g.chiSquare, cmh: g.cmh, labels: g.labels, note: g.note };
+  return t.locale === "en" ? view : { ...view, note: localGerminationNote(t, g), labels: g.labels.map((l) => ({ ...l, note: localLabelNote(t, l) })) };
+}
+
+/**
+ * The germination notes worded again from the published figures (published versions keep them in English);
+ * a note that reports a test that could not be run stays as published.
+ */
+function localGerminationNote(t: Translator, g: PublicGerminationView): string {
+  if (g.note.includes("could not be run")) return g.note;
+  const figures = figuresOf(t);
+  const parts: string[] = [];
+  if (g.chiSquare) parts.push(t("summary.germinationPooled", { differed: g.chiSquare.p < 0.05 ? "yes" : "no", statistic: figures.number(g.chiSquare.statistic, 2), df: String(g.chiSquare.df), p: figures.p(g.chiSquare.p) }));
+  if (g.cmh) parts.push(t("summary.germinationBySite", { sites: String(g.cmh.sites), differed: g.cmh.p < 0.05 ? "yes" : "no", p: figures.p(g.cmh.p) }));
+  parts.push(t("summary.germinationLabelGuide"));
+  return parts.join(" ");
+}
+
+function localLabelNote(t: Translator, l: PublicGerminationView["labels"][number]): string {
+  if (l.labelPercent === null) return t("summary.labelNone");
+  if (l.withinTolerance === null || l.tolerance === null) return t("summary.labelFewSeeds");
+  if (l.withinTolerance) return t("summary.labelWithin", { tolerance: String(l.tolerance) });
+  return t("summary.labelBelow", { shortfall: figuresOf(t).number(l.labelPercent - l.observedPercent, 1), tolerance: String(l.tolerance) });
 }

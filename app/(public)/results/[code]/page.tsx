@@ -72,7 +72,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
   const isLatest = snapshot.version === latestVersion;
   const versionQuery = isLatest ? "" : `?version=${snapshot.version}`;
   const notIncluded = new Set(snapshot.coverage.notIncluded.map((s) => s.name));
-  const germination = toPublicGerminationView(snapshot.results);
+  const germination = toPublicGerminationView(snapshot.results, translator);
   const api = linksFor(t.code, isLatest ? null : snapshot.version);
   return (
     <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
