@@ -137,6 +137,9 @@ describe("public pages in Spanish", () => {
       expect(a.body.includes("Resumen para productores"), `answer ${i}`).toBe(isSpanish);
       expect(a.body.includes("Summary for growers"), `answer ${i}`).toBe(!isSpanish);
       expect(/<html[^>]*lang="es"/.test(a.body), `answer ${i}`).toBe(isSpanish);
+      // the whole page, the summary included, in the address's language
+      expect(/came first|did not differ clearly/.test(a.body), `answer ${i}`).toBe(!isSpanish);
+      expect(/quedó en primer lugar|no difirieron claramente/.test(a.body), `answer ${i}`).toBe(isSpanish);
     }
   });
 });
