@@ -8,7 +8,7 @@ import { withLanguage } from "@/lib/domain/i18n/language-choice";
 // Catches what the nearer boundaries cannot: a failing layout (the portal layout reads the signed-in
 // account from the database) and the sign-in pages. Without it a database outage shows Next's bare error.
 export default function AppErrorPage({ retry }: { error: unknown; retry: () => void }) {
-  const t = useTranslations("shared");
+  const t = useTranslations("frame");
   const locale = useLocale();
   return (
     <main id="main" role="alert" className="mx-auto max-w-xl px-4 py-16 text-center">

@@ -2,7 +2,7 @@
 import { useTranslations } from "next-intl";
 
 export default function PublicError({ retry }: { error: unknown; retry: () => void }) {
-  const t = useTranslations("shared");
+  const t = useTranslations("frame");
   return (
     <div role="alert" className="mx-auto max-w-xl px-4 py-16 text-center">
       <h1 className="text-2xl font-bold">{t("title")}</h1>

@@ -43,7 +43,7 @@ export function Chart({
     return () => chart.remove();
   }, [build, width, height]);
 
-  const t = useTranslations("shared");
+  const t = useTranslations("frame");
   return (
     <figure className="space-y-2" data-testid={testId}>
       <figcaption className="font-semibold text-loam-900">{title}</figcaption>

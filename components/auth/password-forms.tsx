@@ -11,10 +11,12 @@ import { withLanguage } from "@/lib/domain/i18n/language-choice";
 
 export function ForgotPasswordForm() {
   const t = useTranslations("auth");
+  const locale = useLocale();
   const [state, action] = useActionState(requestPasswordReset, null);
   const errors = state && !state.ok ? state.fieldErrors : undefined;
   return (
     <form action={action} noValidate className="space-y-4">
+      <input type="hidden" name="lang" value={locale} />
       <TextField label={t("email")} name="email" type="email" autoComplete="email" required errors={errors?.email} defaultValue={state && !state.ok ? state.values?.email : undefined} />
       <FormMessage state={state} />
       <SubmitButton pendingText={t("sending")}>{t("sendReset")}</SubmitButton>
@@ -24,10 +26,12 @@ export function ForgotPasswordForm() {
 
 export function ResetPasswordForm({ token }: { token: string }) {
   const t = useTranslations("auth");
+  const locale = useLocale();
   const [state, action] = useActionState(resetPassword, null);
   const errors = state && !state.ok ? state.fieldErrors : undefined;
   return (
     <form action={action} noValidate className="space-y-4">
+      <input type="hidden" name="lang" value={locale} />
       <input type="hidden" name="token" value={token} />
       <TextField label={t("newPassword")} name="password" type="password" autoComplete="new-password" hint={t("atLeast")} required errors={errors?.password} />
       <TextField label={t("newPasswordAgain")} name="confirm" type="password" autoComplete="new-password" required errors={errors?.confirm} />
@@ -58,6 +62,7 @@ export function AcceptInviteForm({ token, name, email }: { token: string; name: 
   return (
     <form action={action} noValidate className="space-y-4">
       <input type="hidden" name="token" value={token} />
+      <input type="hidden" name="lang" value={locale} />
       <TextField label={t("yourName")} name="name" autoComplete="name" required defaultValue={(state && !state.ok && state.values?.name) || name} errors={errors?.name} />
       <TextField label={t("choosePassword")} name="password" type="password" autoComplete="new-password" hint={t("atLeast")} required errors={errors?.password} />
       <TextField label={t("passwordAgain")} name="confirm" type="password" autoComplete="new-password" required errors={errors?.confirm} />

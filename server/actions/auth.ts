@@ -11,15 +11,12 @@ import { sendPasswordResetLink } from "@/server/auth/password-reset";
 import type { Viewer } from "@/lib/domain/viewer";
 import { consumeRateLimit } from "@/server/auth/throttle";
 import { requestAddress } from "@/server/auth/request-address";
-import { getLocale } from "next-intl/server";
 import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
 import { withLanguage } from "@/lib/domain/i18n/language-choice";
 import type { LinkRefusalWords } from "@/db/mutations/users";
 
-/** These forms have no signed-in reader: they answer in their page's language (`?lang=es`, see proxy.ts). */
-async function pageWords(): Promise<Translator> {
-  return translatorFor(await getLocale());
-}
+// These forms have no signed-in reader: they answer in the language of the page they were sent from (its
+// `?lang=es`, which the form sends as `lang`).
 
 const refusalWords = (t: Translator): LinkRefusalWords => ({
   resetRefused: t("auth.resetRefused"),
@@ -36,7 +33,7 @@ const refusalWords = (t: Translator): LinkRefusalWords => ({
 export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
   { roles: "public", schema: acceptInviteSchema },
   async (input) => {
-    const t = await pageWords();
+    const t = translatorFor(input.lang);
     await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "invite", passwordHash: await hashPassword(input.password), name: input.name, refusals: refusalWords(t) });
     return { ok: true, message: t("auth.passwordSet") };
   },
@@ -50,7 +47,7 @@ export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | nul
 export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
   { roles: "public", schema: forgotPasswordSchema },
   async (input) => {
-    const sameAnswer = { ok: true as const, message: (await pageWords())("auth.resetSent") };
+    const sameAnswer = { ok: true as const, message: translatorFor(input.lang)("auth.resetSent") };
     const allowed = await consumeRateLimit(
       [
         { key: `reset-to:${input.email}`, max: 3 },
@@ -67,7 +64,7 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
 export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
   { roles: "public", schema: resetPasswordSchema },
   async (input) => {
-    const t = await pageWords();
+    const t = translatorFor(input.lang);
     await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "password_reset", passwordHash: await hashPassword(input.password), refusals: refusalWords(t) });
     redirect(withLanguage("/sign-in?reset=1", t.locale));
   },

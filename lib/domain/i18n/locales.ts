@@ -14,7 +14,7 @@ export const localeOr = (value: unknown, fallback: Locale = DEFAULT_LOCALE): Loc
  * from the namespaces server components share (nav, public) just the keys client components use. So a page
  * carries no wording it does not show (a public page no portal words, a live page no withdrawal notice).
  */
-export const CLIENT_NAMESPACES = ["shared", "common", "account", "languages", "entry", "offline", "upload", "record"] as const;
+export const CLIENT_NAMESPACES = ["frame", "common", "account", "languages", "entry", "offline", "upload", "record"] as const;
 export const CLIENT_KEYS: Record<string, readonly string[]> = {
   nav: ["signOut"],
   public: ["switchTo"],
