@@ -6,7 +6,7 @@ import { readBodyWithin } from "@/server/http/body";
 import { assertOwnOrigin } from "@/server/http/origin";
 import { contentSecurityPolicy, newNonce } from "@/server/http/content-security-policy";
 import { answerFromPublicCache } from "@/server/publish/public-cache";
-import { addressLocale, LANGUAGE_HEADER, languageFromAddress } from "@/lib/domain/i18n/language-choice";
+import { addressLocale, LANGUAGE_HEADER, LANGUAGE_PARAM, languageFromAddress } from "@/lib/domain/i18n/language-choice";
 
 function isDecodable(pathname: string): boolean {
   try {
@@ -55,6 +55,8 @@ export default async function proxy(request: NextRequest) {
     if (!token) {
       const signIn = new URL("/sign-in", request.url);
       signIn.searchParams.set("callbackUrl", `${pathname}${search}`);
+      // A link from a Spanish mail (/portal?lang=es) lands on a Spanish sign-in page.
+      if (addressLocale(request.nextUrl.searchParams) !== "en") signIn.searchParams.set(LANGUAGE_PARAM, addressLocale(request.nextUrl.searchParams));
       return NextResponse.redirect(signIn);
     }
   }

@@ -38,14 +38,17 @@ function entryScales(order: string[]) {
 
 /** Entry means with LSD bars (half an LSD each side: bars that do not overlap differ) or ± SE bars. */
 // `order` states how the dots are listed when a caller words it itself; otherwise the direction says it.
-export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, order, testId }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; direction?: ChartDirection; order?: string; testId?: string }) {
+// `words` lets a page in another language word the text alternative and format its numbers (the public pages).
+export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, order, testId, words }: { means: MeanRow[]; lsd: number | null; label: EntryLabel; unit: string; title: string; direction?: ChartDirection; order?: string; testId?: string; words?: MeansChartWords }) {
   const rows = inStatedOrder(means).map((m) => {
       const centre = m.lsMean ?? m.mean;
       const half = lsd !== null ? lsd / 2 : m.se;
       return { entry: label(m), centre, low: centre - half, high: centre + half, letter: m.letter ?? "" };
     });
+  const number = words?.number ?? ((x: number) => formatNumber(x));
+  const values = rows.map((r) => `${r.entry} ${number(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ");
   const bars = lsd !== null ? `Bars are half an LSD (${formatNumber(lsd)}) each side, so entries whose bars do not overlap differ.` : "Bars are ± one standard error.";
-  const summary = `${title}, ${order ?? orderWords(direction)}: ${rows.map((r) => `${r.entry} ${formatNumber(r.centre)}${r.letter ? ` (${r.letter})` : ""}`).join("; ")}. ${bars}`;
+  const summary = words ? words.summary(values, lsd) : `${title}, ${order ?? orderWords(direction)}: ${values}. ${bars}`;
   return (
     <Chart
       title={title}
@@ -67,18 +70,24 @@ export function MeansChart({ means, lsd, label, unit, title, direction = PLAIN, 
   );
 }
 
+/** The text of a means chart in the page's language: its text alternative from the listed values, and its numbers. */
+export interface MeansChartWords {
+  number: (x: number) => string;
+  summary: (values: string, lsd: number | null) => string;
+}
+
 /** Entry means per site, sites ordered from poorest to best: crossing lines are the entry × site interaction. */
-export function InteractionChart({ cells, order, unit, direction = PLAIN }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection }) {
+export function InteractionChart({ cells, order, unit, direction = PLAIN, words }: { cells: SiteCell[]; order: string[]; unit: string; direction?: ChartDirection; words?: { title: string; summary: (perSite: string) => string } }) {
   const siteMeans = siteMeanMap(cells);
   const sites = [...siteMeans.entries()].sort((a, b) => a[1].mean - b[1].mean).map(([, s]) => s.name);
   // A line joins its points in data order, so the points go in the order of the sites on the axis.
   const data = cells.map((c) => ({ site: c.siteName, entry: c.entry, mean: c.mean })).sort((a, b) => sites.indexOf(a.site) - sites.indexOf(b.site));
   const first = sites.map((site) => `${site}: ${firstOf(data.filter((d) => d.site === site), direction)?.entry ?? "–"}`);
   const firstWords = direction.betterWhen === "neither" ? `${capitalise(extremeWord(direction, "first"))} entry per site` : `Best (${extremeWord(direction, "first")}) entry per site`;
-  const summary = `Entry means at each site, sites ordered from lowest to highest site mean. ${firstWords} — ${first.join("; ")}. Lines that cross show entries changing places between sites.`;
+  const summary = words ? words.summary(first.join("; ")) : `Entry means at each site, sites ordered from lowest to highest site mean. ${firstWords} — ${first.join("; ")}. Lines that cross show entries changing places between sites.`;
   return (
     <Chart
-      title="Entry × site: means at each site"
+      title={words?.title ?? "Entry × site: means at each site"}
       summary={summary}
       testId="interaction-chart"
       height={360}

@@ -1,6 +1,7 @@
 "use client";
 import { useEffect, useRef, useState } from "react";
 import * as Plot from "@observablehq/plot";
+import { useTranslations } from "next-intl";
 
 /**
  * An Observable Plot chart that redraws at the width of its container (phone or desktop). The chart
@@ -42,12 +43,13 @@ export function Chart({
     return () => chart.remove();
   }, [build, width, height]);
 
+  const t = useTranslations("frame");
   return (
     <figure className="space-y-2" data-testid={testId}>
       <figcaption className="font-semibold text-loam-900">{title}</figcaption>
       <div ref={box} className="w-full overflow-hidden" style={{ minHeight: height }} />
       <p className="text-sm text-loam-700" data-chart-summary>
-        <span className="sr-only">Chart description: </span>
+        <span className="sr-only">{t("chartDescription")}</span>
         {summary}
       </p>
       {children}

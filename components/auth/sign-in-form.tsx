@@ -6,8 +6,12 @@ import { TextField } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { signInSchema } from "@/lib/validation/auth";
 import { fieldErrorsOf } from "@/lib/validation/field-errors";
+import { useLocale, useTranslations } from "next-intl";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
 
 export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notice?: string }) {
+  const t = useTranslations("auth");
+  const locale = useLocale();
   const [pending, setPending] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const [fieldErrors, setFieldErrors] = useState<Record<string, string[]>>({});
@@ -18,21 +22,22 @@ export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notic
     const parsed = signInSchema.safeParse({ email: form.get("email"), password: form.get("password") });
     if (!parsed.success) {
       setFieldErrors(fieldErrorsOf(parsed.error));
-      setError("Please correct the marked fields.");
+      setError(t("correctFields"));
       return;
     }
     setFieldErrors({});
     setError(null);
     setPending(true);
     try {
-      const result = await signIn("credentials", { ...parsed.data, redirect: false });
+      // `lang` lets the server answer a refused sign-in in this page's language.
+      const result = await signIn("credentials", { ...parsed.data, lang: locale, redirect: false });
       if (!result || result.error) {
-        setError(result?.error && result.error !== "CredentialsSignin" ? result.error : "That e-mail and password do not match an account.");
+        setError(result?.error && result.error !== "CredentialsSignin" ? result.error : t("failed"));
         return;
       }
       window.location.assign(callbackUrl);
     } catch {
-      setError("We could not reach Seedplot. Check your connection and try again.");
+      setError(t("unreachable"));
     } finally {
       setPending(false);
     }
@@ -41,16 +46,16 @@ export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notic
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       {notice && <p className="rounded-lg bg-sprout-50 px-3 py-2 text-sm font-medium text-sprout-700">{notice}</p>}
-      <TextField label="E-mail" name="email" type="email" autoComplete="email" required errors={fieldErrors.email} />
-      <TextField label="Password" name="password" type="password" autoComplete="current-password" required errors={fieldErrors.password} />
+      <TextField label={t("email")} name="email" type="email" autoComplete="email" required errors={fieldErrors.email} />
+      <TextField label={t("password")} name="password" type="password" autoComplete="current-password" required errors={fieldErrors.password} />
       <div aria-live="polite" role="status">
         {error && <p className="rounded-lg border border-beet-600 bg-beet-50 px-3 py-2 text-sm font-medium text-beet-700">{error}</p>}
       </div>
       <Button type="submit" disabled={pending} className="w-full">
-        {pending ? "Signing in…" : "Sign in"}
+        {pending ? t("signingIn") : t("signIn")}
       </Button>
       <p className="text-center text-sm">
-        <Link href="/forgot-password">Forgot your password?</Link>
+        <Link href={withLanguage("/forgot-password", locale)}>{t("forgot")}</Link>
       </p>
     </form>
   );

@@ -1,19 +1,22 @@
+import { useTranslations } from "next-intl";
 import type { PublicExclusion, PublicSnapshot } from "@/lib/domain/publish/public-shape";
-import { plural } from "@/lib/domain/vocabulary/words";
+import { notIncludedKind } from "@/lib/domain/publish/site-inclusion";
 
 /** "Results from N of M sites", naming the sites this version does not include and why. */
 export function SiteCoverage({ coverage }: { coverage: PublicSnapshot["coverage"] }) {
+  const t = useTranslations("publicTables");
+  const whyInWords = (why: string) => {
+    const kind = notIncludedKind(why);
+    if (!kind) return why;
+    return "why" in kind ? t("notIncludedWhy", { why: kind.why }) : t("leftOutWhy", { reason: t("exclusion", { category: kind.category }) });
+  };
   return (
     <div>
-      <p className="font-semibold">
-        Results from {coverage.inResults} of {plural(coverage.enrolled, "site")}.
-      </p>
+      <p className="font-semibold">{t("coverage", { count: String(coverage.inResults), total: coverage.enrolled })}</p>
       {coverage.notIncluded.length > 0 && (
-        <ul className="mt-1 list-disc pl-5 text-sm text-loam-700" aria-label="Sites not included">
+        <ul className="mt-1 list-disc pl-5 text-sm text-loam-700" aria-label={t("sitesNotIncluded")}>
           {coverage.notIncluded.map((s) => (
-            <li key={s.name}>
-              {s.name} is not included: {s.reason}.
-            </li>
+            <li key={s.name}>{t("siteNotIncluded", { site: s.name, reason: whyInWords(s.reason) })}</li>
           ))}
         </ul>
       )}
@@ -21,16 +24,17 @@ export function SiteCoverage({ coverage }: { coverage: PublicSnapshot["coverage"
   );
 }
 
-/** The sites and plots left out of one trait's analysis, with the public reason. */
+/** The sites and plots left out of one trait's analysis, with the public reason (its category, in the page's language). */
 export function LeftOutOfTrait({ exclusions }: { exclusions: PublicExclusion[] }) {
+  const t = useTranslations("publicTables");
   if (exclusions.length === 0) return null;
   return (
     <div className="mt-4 text-sm">
-      <h3 className="font-bold">Left out of this analysis</h3>
+      <h3 className="font-bold">{t("leftOut")}</h3>
       <ul className="mt-1 list-disc pl-5">
         {exclusions.map((x, i) => (
           <li key={i}>
-            {x.plotCode ? `Plot ${x.plotCode} at ${x.siteName}` : `All plots at ${x.siteName}`}: {x.reason}
+            {x.plotCode ? t("plotAt", { plot: x.plotCode, site: x.siteName ?? "" }) : t("allPlotsAt", { site: x.siteName ?? "" })}: {t("exclusion", { category: x.category })}
           </li>
         ))}
       </ul>

@@ -20,6 +20,10 @@ export function InviteForm({ sites }: { sites: { id: number; name: string }[] })
           </option>
         ))}
       </SelectField>
+      <SelectField label="Language of the invitation" name="locale" hint="Seedplot writes to the grower, and shows their pages, in this language; they can change it later on My account." defaultValue={failed?.values?.locale ?? "en"} errors={failed?.fieldErrors?.locale}>
+        <option value="en">English</option>
+        <option value="es">Español (Spanish)</option>
+      </SelectField>
       <FormMessage state={state} />
       <SubmitButton pendingText="Sending…">Send invitation</SubmitButton>
     </form>

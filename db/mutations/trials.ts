@@ -241,7 +241,7 @@ export async function getProgramSite(tx: Tx, p: { programId: number; siteId: num
 /** The growers attached to a site, first attached first; `hasAccount` is false until an invitation is accepted. */
 export async function listSiteGrowers(tx: Tx, siteId: number) {
   const rows = await tx
-    .select({ id: users.id, name: users.name, email: users.email, passwordHash: users.passwordHash, active: users.active })
+    .select({ id: users.id, name: users.name, email: users.email, locale: users.locale, passwordHash: users.passwordHash, active: users.active })
     .from(siteCooperators)
     .innerJoin(users, eq(users.id, siteCooperators.userId))
     .where(eq(siteCooperators.siteId, siteId))

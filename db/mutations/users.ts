@@ -32,7 +32,7 @@ export async function getStaffSite(tx: Tx, viewer: Viewer, siteId: number) {
 /** The account with this e-mail, locked for the rest of the transaction; `hasPassword` is false until an invitation is accepted. */
 export async function lockAccountByEmail(tx: Tx, email: string) {
   const [account] = await tx
-    .select({ id: users.id, name: users.name, role: users.role, active: users.active, passwordHash: users.passwordHash })
+    .select({ id: users.id, name: users.name, role: users.role, active: users.active, locale: users.locale, passwordHash: users.passwordHash })
     .from(users)
     .where(eq(users.email, email))
     .for("update");
@@ -61,15 +61,15 @@ export async function insertSiteAttachment(tx: Tx, p: { viewer: Viewer; siteId: 
  */
 export async function insertInvitation(
   tx: Tx,
-  p: { viewer: Viewer; siteId: number; name: string; email: string; existingUserId: number | null; tokenHash: string; expiresAt: Date; mail: OutgoingMail },
+  p: { viewer: Viewer; siteId: number; name: string; email: string; locale: Locale; existingUserId: number | null; tokenHash: string; expiresAt: Date; mail: OutgoingMail },
 ): Promise<number> {
   let userId: number;
   if (p.existingUserId !== null) {
     userId = p.existingUserId;
-    if (!(await linkedOutsideViewerPrograms(tx, p.viewer, userId))) await tx.update(users).set({ name: p.name }).where(eq(users.id, userId));
+    if (!(await linkedOutsideViewerPrograms(tx, p.viewer, userId))) await tx.update(users).set({ name: p.name, locale: p.locale }).where(eq(users.id, userId));
     await voidOpenTokens(tx, userId, "invite");
   } else {
-    const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator" }).$returningId();
+    const [inserted] = await tx.insert(users).values({ email: p.email, name: p.name, role: "cooperator", locale: p.locale }).$returningId();
     userId = inserted!.id;
   }
   await insertSiteCooperator(tx, { siteId: p.siteId, userId });
@@ -91,19 +91,34 @@ async function linkedOutsideViewerPrograms(tx: Tx, viewer: Viewer, userId: numbe
   return !!other;
 }
 
+/** The words a refused link is answered with, in the reader's language (English when the caller gives none). */
+export interface LinkRefusalWords {
+  resetRefused: string;
+  inviteUsedRefused: string;
+  inviteExpiredRefused: string;
+  inviteDeadRefused: string;
+}
+
+const ENGLISH_REFUSALS: LinkRefusalWords = {
+  resetRefused: "This reset link has expired or was already used. Ask for a new one.",
+  inviteUsedRefused: "This invitation was already used. Sign in with the password you chose, or reset it from the sign-in page if you forgot it.",
+  inviteExpiredRefused: "This invitation link has expired. Ask the person who invited you to send a new one.",
+  inviteDeadRefused: "This invitation link no longer works. Ask the person who invited you to send a new one.",
+};
+
 /** Why a link was refused, in words for the person holding it. */
-function linkRefusal(kind: "invite" | "password_reset", row: { usedAt: Date | null; expiresAt: Date; hasPassword: boolean; active: boolean } | undefined) {
-  if (kind === "password_reset") return "This reset link has expired or was already used. Ask for a new one.";
-  if (row?.hasPassword) return "This invitation was already used. Sign in with the password you chose, or reset it from the sign-in page if you forgot it.";
-  if (row && row.active && row.usedAt === null) return "This invitation link has expired. Ask the person who invited you to send a new one.";
-  return "This invitation link no longer works. Ask the person who invited you to send a new one.";
+function linkRefusal(kind: "invite" | "password_reset", row: { usedAt: Date | null; expiresAt: Date; hasPassword: boolean; active: boolean } | undefined, words: LinkRefusalWords) {
+  if (kind === "password_reset") return words.resetRefused;
+  if (row?.hasPassword) return words.inviteUsedRefused;
+  if (row && row.active && row.usedAt === null) return words.inviteExpiredRefused;
+  return words.inviteDeadRefused;
 }
 
 /**
  * Uses a one-time token, found by its digest: sets the password (and name for invites) and marks the token
  * used. An unknown, used or expired token, or one of a deactivated account, is refused with its reason.
  */
-export async function updatePasswordWithToken(p: { tokenHash: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string }) {
+export async function updatePasswordWithToken(p: { tokenHash: string; kind: "invite" | "password_reset"; passwordHash: string; name?: string; refusals?: LinkRefusalWords }) {
   return db.transaction(async (tx) => {
     const [found] = await tx
       .select({ id: userTokens.id, userId: userTokens.userId, expiresAt: userTokens.expiresAt, usedAt: userTokens.usedAt, passwordHash: users.passwordHash, active: users.active })
@@ -112,7 +127,7 @@ export async function updatePasswordWithToken(p: { tokenHash: string; kind: "inv
       .where(and(eq(userTokens.tokenHash, p.tokenHash), eq(userTokens.kind, p.kind)))
       .for("update");
     const row = found && { ...found, hasPassword: found.passwordHash !== null };
-    if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now() || !row.active) throw new AppError("bad_request", linkRefusal(p.kind, row));
+    if (!row || row.usedAt !== null || row.expiresAt.getTime() <= Date.now() || !row.active) throw new AppError("bad_request", linkRefusal(p.kind, row, p.refusals ?? ENGLISH_REFUSALS));
     // This link and every other open link of its kind stop working.
     await voidOpenTokens(tx, row.userId, p.kind);
     // A new password ends every session signed in with the old one.
@@ -128,12 +143,12 @@ export async function updatePasswordWithToken(p: { tokenHash: string; kind: "inv
 /** The active account with this e-mail, locked for the rest of the transaction, or null. */
 export async function lockActiveAccountByEmail(tx: Tx, email: string) {
   const [user] = await tx
-    .select({ id: users.id, name: users.name, passwordHash: users.passwordHash })
+    .select({ id: users.id, name: users.name, locale: users.locale, passwordHash: users.passwordHash })
     .from(users)
     .where(and(eq(users.email, email), eq(users.active, true)))
     .for("update");
   if (!user) return null;
-  return { id: user.id, name: user.name, hasPassword: user.passwordHash !== null };
+  return { id: user.id, name: user.name, locale: user.locale, hasPassword: user.passwordHash !== null };
 }
 
 /** Stores a reset token's digest and queues its mail; only the newest link works, earlier ones are voided. */
@@ -191,7 +206,7 @@ export async function updateLastSignIn(userId: number) {
 export async function lockAccountForAdmin(tx: Tx, viewer: Viewer, userId: number) {
   if (viewer.role !== "admin") throw new AppError("forbidden", "Only an administrator can change accounts.");
   const [account] = await tx
-    .select({ id: users.id, name: users.name, email: users.email, role: users.role, active: users.active, passwordHash: users.passwordHash })
+    .select({ id: users.id, name: users.name, email: users.email, role: users.role, active: users.active, locale: users.locale, passwordHash: users.passwordHash })
     .from(users)
     .where(eq(users.id, userId))
     .for("update");

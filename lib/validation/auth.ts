@@ -1,3 +1,4 @@
+import { LOCALES } from "@/lib/domain/vocabulary/enums";
 import { z } from "zod";
 
 export const email = z
@@ -25,23 +26,29 @@ export const newPasswordSchema = z
 
 export const tokenSchema = z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, "This link is not valid.");
 
+/** The language of the page a signed-out form was sent from (its `?lang=`), for the words of the answer. */
+const pageLanguage = z.enum(LOCALES).catch("en");
+
 export const acceptInviteSchema = z.intersection(
   newPasswordSchema,
   z.object({
+    lang: pageLanguage,
     token: tokenSchema,
     name: z.string().trim().min(2, "Enter your name.").max(120, "Use at most 120 characters."),
   }),
 );
 
-export const resetPasswordSchema = z.intersection(newPasswordSchema, z.object({ token: tokenSchema }));
+export const resetPasswordSchema = z.intersection(newPasswordSchema, z.object({ token: tokenSchema, lang: pageLanguage }));
 
-export const forgotPasswordSchema = z.object({ email });
+export const forgotPasswordSchema = z.object({ email, lang: pageLanguage });
 
 // A grower is always invited to a site: the site's program is what lets its coordinators see them.
 export const inviteCooperatorSchema = z.object({
   name: z.string({ error: "Enter the grower's name." }).trim().min(2, "Enter the grower's name.").max(120, "Use at most 120 characters."),
   email,
   siteId: z.coerce.number({ error: "Choose the grower's site." }).int("Choose the grower's site.").positive("Choose the grower's site."),
+  /** the language of the invitation mail and of the new account */
+  locale: z.enum(LOCALES, { error: "Choose English or Spanish." }).default("en"),
 });
 
 export const changeRoleSchema = z.object({

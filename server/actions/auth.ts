@@ -11,6 +11,19 @@ import { sendPasswordResetLink } from "@/server/auth/password-reset";
 import type { Viewer } from "@/lib/domain/viewer";
 import { consumeRateLimit } from "@/server/auth/throttle";
 import { requestAddress } from "@/server/auth/request-address";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
+import type { LinkRefusalWords } from "@/db/mutations/users";
+
+// These forms have no signed-in reader: they answer in the language of the page they were sent from (its
+// `?lang=es`, which the form sends as `lang`).
+
+const refusalWords = (t: Translator): LinkRefusalWords => ({
+  resetRefused: t("auth.resetRefused"),
+  inviteUsedRefused: t("auth.inviteUsedRefused"),
+  inviteExpiredRefused: t("auth.inviteExpiredRefused"),
+  inviteDeadRefused: t("auth.inviteDeadRefused"),
+});
 
 /**
  * An invited person chooses their name and password through the link in their invitation. The form then
@@ -20,8 +33,9 @@ import { requestAddress } from "@/server/auth/request-address";
 export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
   { roles: "public", schema: acceptInviteSchema },
   async (input) => {
-    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "invite", passwordHash: await hashPassword(input.password), name: input.name });
-    return { ok: true, message: "Your password is set. Signing you in…" };
+    const t = translatorFor(input.lang);
+    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "invite", passwordHash: await hashPassword(input.password), name: input.name, refusals: refusalWords(t) });
+    return { ok: true, message: t("auth.passwordSet") };
   },
 );
 
@@ -33,7 +47,7 @@ export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | nul
 export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
   { roles: "public", schema: forgotPasswordSchema },
   async (input) => {
-    const sameAnswer = { ok: true as const, message: "If that e-mail belongs to a Seedplot account, a reset link is on its way. It works for one hour." };
+    const sameAnswer = { ok: true as const, message: translatorFor(input.lang)("auth.resetSent") };
     const allowed = await consumeRateLimit(
       [
         { key: `reset-to:${input.email}`, max: 3 },
@@ -50,7 +64,8 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
 export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
   { roles: "public", schema: resetPasswordSchema },
   async (input) => {
-    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "password_reset", passwordHash: await hashPassword(input.password) });
-    redirect("/sign-in?reset=1");
+    const t = translatorFor(input.lang);
+    await updatePasswordWithToken({ tokenHash: hashToken(input.token), kind: "password_reset", passwordHash: await hashPassword(input.password), refusals: refusalWords(t) });
+    redirect(withLanguage("/sign-in?reset=1", t.locale));
   },
 );

@@ -23,7 +23,7 @@ export const inviteCooperator = defineAction({ roles: ["coordinator", "admin"], 
     60,
   );
   if (!allowed) throw new AppError("too_many_requests", "Too many invitations in the last hour. Please wait before sending more.");
-  const { invited } = await inviteGrower({ viewer, name: input.name, email: input.email, siteId: input.siteId, noticeForAccount: true });
+  const { invited } = await inviteGrower({ viewer, name: input.name, email: input.email, siteId: input.siteId, locale: input.locale, noticeForAccount: true });
   await deliverSoon();
   revalidatePath("/portal/cooperators");
   revalidatePath("/portal/sites");

@@ -8,7 +8,8 @@ import { signInSchema } from "@/lib/validation/auth";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
 import { requestAddress } from "./request-address";
-import { SIGN_IN_FAILED, SIGN_IN_THROTTLED, SIGN_IN_UNAVAILABLE, signInDeactivated } from "@/lib/domain/sign-in-messages";
+import { signInAnswer, signInDeactivated } from "@/lib/domain/sign-in-messages";
+import { localeOr, translatorFor } from "@/lib/domain/i18n/catalogue";
 import type { Role } from "@/lib/domain/vocabulary/enums";
 
 /** Thrown when a session's cookie is still signed but the account ended it; next-auth then clears the cookie. */
@@ -28,8 +29,10 @@ export const authOptions: NextAuthOptions = {
       name: "E-mail and password",
       credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
       async authorize(credentials) {
+        // The form sends its page's language (`lang`, as in the address), so the answers below are in it.
+        const t = translatorFor(localeOr((credentials as Record<string, unknown> | undefined)?.lang));
         const parsed = signInSchema.safeParse(credentials ?? {});
-        if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? SIGN_IN_FAILED);
+        if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? signInAnswer(t, "failed"));
         const { email, password } = parsed.data;
         const address = requestAddress();
         let outcome: "throttled" | "failed" | { deactivated: string } | { id: number; email: string; name: string; role: Role; sessionGeneration: number };
@@ -45,15 +48,15 @@ export const authOptions: NextAuthOptions = {
             // answer, so nobody without the password learns that the account exists or was deactivated.
             await recordAttempt(email, address, success);
             if (success) await updateLastSignIn(record.id);
-            outcome = success ? record : record !== null && ok ? { deactivated: signInDeactivated(await getDeactivationContact(record.id)) } : "failed";
+            outcome = success ? record : record !== null && ok ? { deactivated: signInDeactivated(await getDeactivationContact(record.id), t) } : "failed";
           }
         } catch (e) {
           // next-auth puts the thrown message in the URL, so internals (SQL, hosts) must never reach it.
           console.error("[auth] sign-in check failed:", e);
-          throw new Error(SIGN_IN_UNAVAILABLE);
+          throw new Error(signInAnswer(t, "unavailable"));
         }
-        if (outcome === "throttled") throw new Error(SIGN_IN_THROTTLED);
-        if (outcome === "failed") throw new Error(SIGN_IN_FAILED);
+        if (outcome === "throttled") throw new Error(signInAnswer(t, "throttled"));
+        if (outcome === "failed") throw new Error(signInAnswer(t, "failed"));
         if ("deactivated" in outcome) throw new Error(outcome.deactivated);
         return { id: String(outcome.id), email: outcome.email, name: outcome.name, role: outcome.role, sessionGeneration: outcome.sessionGeneration };
       },

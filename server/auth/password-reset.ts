@@ -5,6 +5,7 @@ import { passwordResetMail } from "@/lib/domain/mail/templates";
 import { deliverQueuedMail } from "@/server/mail/outbox";
 import { env } from "@/lib/env";
 import { hashToken, newToken } from "./tokens";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
 
 const RESET_MINUTES = 60;
 
@@ -21,7 +22,7 @@ export async function issuePasswordReset(p: { email: string; token?: string }): 
       userId: account.id,
       tokenHash: hashToken(token),
       expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000),
-      mail: passwordResetMail({ to: p.email, name: account.name, link: `${env.APP_URL}/reset-password/${token}` }),
+      mail: passwordResetMail({ to: p.email, name: account.name, link: `${env.APP_URL}${withLanguage(`/reset-password/${token}`, account.locale)}`, locale: account.locale }),
     });
     return true;
   });

@@ -1,9 +1,12 @@
 import "server-only";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
+import { summariseForGrowers } from "@/lib/domain/publish/summary";
 import { getPublicReportRow, listLatestLiveReportIds, listStoredSnapshots, type PublicVersion } from "@/db/queries/public";
 import { parsePublishedAddress } from "@/lib/domain/publish/address";
 import { toPublicSnapshot, type PublicSnapshot } from "@/lib/domain/publish/public-shape";
 import { publishedUnit } from "@/lib/domain/publish/open-data";
-import { inStatedOrder, leaderHeading, rankedValue } from "@/lib/domain/analysis/ranking";
+import { extremeWord, inStatedOrder, leaderHeading, rankedValue } from "@/lib/domain/analysis/ranking";
 import { valueWithUnit } from "@/lib/domain/analysis/format";
 import type { PublishedSnapshot } from "@/lib/domain/publish/types";
 import type { PublicTrialCard } from "@/lib/domain/publish/public-view";
@@ -73,8 +76,11 @@ export async function listLatestSnapshots(): Promise<PublicSnapshot[]> {
 
 export type { PublicTrialCard };
 
-/** Published trials for the public index, filtered by free text, crop and season. */
-export async function listPublicTrials(filters: { q?: string; crop?: string; season?: string }) {
+/**
+ * Published trials for the public index, filtered by free text, crop and season. Each card's summary line is
+ * the published one in English, or the same sentence worded from the published figures in `locale`.
+ */
+export async function listPublicTrials(filters: { q?: string; crop?: string; season?: string }, locale: Locale = "en") {
   const snapshots = await listLatestSnapshots();
   const cards: PublicTrialCard[] = snapshots.map((s) => ({
     code: s.trial.code,
@@ -87,7 +93,7 @@ export async function listPublicTrials(filters: { q?: string; crop?: string; sea
     entries: s.entries.map((e) => e.variety),
     publishedAt: s.publishedAt,
     version: s.version,
-    summary: s.summary[0] ?? "",
+    summary: (locale === "en" ? s.summary : summariseForGrowers(s.results.map((r) => r.result), translatorFor(locale)))[0] ?? "",
   }));
   const q = filters.q?.trim().toLowerCase();
   const filtered = cards.filter(
@@ -128,6 +134,7 @@ export async function getPublicVariety(varietyId: number) {
         const mine = block?.means.find((m) => m.blindCode === entry.blindCode) ?? null;
         return {
           trait: result.trait.analysedAs,
+          traitName: result.trait.name,
           traitCode: result.trait.code,
           unit: publishedUnit(result.trait),
           valueType: result.trait.valueType,
@@ -181,6 +188,10 @@ function leadersAt(s: PublicSnapshot, siteName: string) {
         heading: leaderHeading(result.trait),
         variety: first.varietyName ?? first.blindCode,
         value: valueWithUnit(result.trait, rankedValue(first)),
+        // what a page in another language words again: the trait, the figure and which end came first
+        traitShape: result.trait,
+        rawValue: rankedValue(first),
+        word: extremeWord(result.trait, "first"),
         percentOfCheck: first.percentOfCheck,
         isCheck: first.isCheck,
       },

@@ -21,6 +21,7 @@ import { newSeed } from "@/lib/domain/design/random";
 import { siteLayout } from "@/lib/domain/design/site-layout";
 import { canChangeSowingDate, canEnrolSites, canRandomiseSite } from "@/lib/domain/design/status";
 import { enrolmentNoticeMail } from "@/lib/domain/mail/templates";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
 import type { Viewer } from "@/lib/domain/viewer";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
@@ -64,7 +65,7 @@ export async function enrolSiteInTx(tx: Tx, viewer: Viewer, trial: LockedTrial, 
       for (const g of growers.filter((g) => !g.hasAccount && g.active)) await invite(g);
     }
     for (const g of growers.filter((g) => g.hasAccount && g.active)) {
-      await insertMail(tx, enrolmentNoticeMail({ to: g.email, name: g.name, siteName: site.name, trialTitle: trial.title, link: `${env.APP_URL}/portal` }));
+      await insertMail(tx, enrolmentNoticeMail({ to: g.email, name: g.name, siteName: site.name, trialTitle: trial.title, link: `${env.APP_URL}${withLanguage("/portal", g.locale)}`, locale: g.locale }));
     }
     const enrolmentId = await insertEnrolment(tx, { viewer, trialId: trial.id, siteId: site.id, cooperatorId: growers[0]?.id ?? null, sownOn: input.sownOn, invited, namedInResults: input.namedInResults ?? false });
     return { enrolmentId, invited };

@@ -11,6 +11,7 @@ import {
   voidInvitation,
 } from "@/db/mutations/users";
 import { inviteMail, staffInviteMail } from "@/lib/domain/mail/templates";
+import { withLanguage } from "@/lib/domain/i18n/language-choice";
 import { ROLE_LABELS } from "@/lib/domain/vocabulary/labels";
 import type { Viewer } from "@/lib/domain/viewer";
 import { AppError } from "@/lib/errors";
@@ -82,10 +83,10 @@ export async function resendInvitation(p: { viewer: Viewer; userId: number; toke
     const account = await lockAccountForAdmin(tx, p.viewer, p.userId);
     if (account.hasPassword) throw new AppError("conflict", `${account.name} has already set a password, so there is no invitation to resend.`);
     if (!account.active) throw new AppError("conflict", `${account.name}'s account is deactivated. Reactivate it before sending a new invitation.`);
-    const link = `${env.APP_URL}/invite/${token}`;
+    const link = `${env.APP_URL}${withLanguage(`/invite/${token}`, account.role === "cooperator" ? account.locale : "en")}`;
     const mail =
       account.role === "cooperator"
-        ? inviteMail({ to: account.email, name: account.name, inviterName: p.viewer.name, link })
+        ? inviteMail({ to: account.email, name: account.name, inviterName: p.viewer.name, link, locale: account.locale })
         : staffInviteMail({ to: account.email, name: account.name, inviterName: p.viewer.name, roleLabel: ROLE_LABELS[account.role], programNames: account.role === "coordinator" ? await listCoordinatorProgramNames(tx, account.id) : [], link });
     await insertInvitationLink(tx, { viewer: p.viewer, userId: account.id, tokenHash: hashToken(token), expiresAt: linkExpiry(), mail });
     return { email: account.email };

@@ -18,7 +18,7 @@ export async function waitForMailTo(address: string, options: { subject?: RegExp
 
 /** The one-time link (invitation or password reset) in a message. */
 export function oneTimeLink(mail: CapturedMail): string {
-  const link = /https?:\/\/\S+\/(invite|reset-password)\/[A-Za-z0-9_-]+/.exec(mail.text)?.[0];
+  const link = /https?:\/\/\S+\/(invite|reset-password)\/[A-Za-z0-9_-]+(?:\?lang=[a-z]{2})?/.exec(mail.text)?.[0];
   if (!link) throw new Error(`no link in "${mail.subject}"`);
   return link;
 }

@@ -2,8 +2,11 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/sign-in-form";
 import { getViewer } from "@/server/auth/guards";
+import { getTranslations } from "next-intl/server";
 
-export const metadata: Metadata = { title: "Sign in" };
+export async function generateMetadata(): Promise<Metadata> {
+  return { title: (await getTranslations("auth"))("signInTitle") };
+}
 
 // Only local paths are accepted as a destination after sign-in, so the link cannot send people elsewhere.
 function safeCallback(value: string | string[] | undefined): string {
@@ -21,11 +24,12 @@ function safeCallback(value: string | string[] | undefined): string {
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const params = await searchParams;
   if (await getViewer()) redirect("/portal");
-  const notice = params.welcome ? "Your password is set. Sign in to start recording." : params.reset ? "Your password was changed. Sign in with the new one." : undefined;
+  const t = await getTranslations("auth");
+  const notice = params.welcome ? t("welcomeNotice") : params.reset ? t("resetNotice") : undefined;
   return (
     <>
-      <h1 className="mb-1 text-2xl font-bold">Sign in</h1>
-      <p className="mb-6 text-loam-700">For program staff and partner growers.</p>
+      <h1 className="mb-1 text-2xl font-bold">{t("signInTitle")}</h1>
+      <p className="mb-6 text-loam-700">{t("signInIntro")}</p>
       <SignInForm callbackUrl={safeCallback(params.callbackUrl)} notice={notice} />
     </>
   );

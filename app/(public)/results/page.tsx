@@ -7,11 +7,12 @@ import { API_BASE, OPENAPI_PATH } from "@/lib/domain/publish/open-data";
 import { getLocale, getTranslations } from "next-intl/server";
 import { withLanguage } from "@/lib/domain/i18n/language-choice";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { localeOr } from "@/lib/domain/i18n/locales";
 
-export const metadata: Metadata = {
-  title: "Variety trial results",
-  description: "Published results of the Tamarack Valley on-farm vegetable and flower variety trials, by crop and season.",
-};
+export async function generateMetadata(): Promise<Metadata> {
+  const t = await getTranslations("publicPages");
+  return { title: t("resultsMeta"), description: t("resultsMetaText") };
+}
 
 type Search = Promise<Record<string, string | string[] | undefined>>;
 const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v)?.slice(0, 100) || undefined;
@@ -19,14 +20,14 @@ const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v)?
 export default async function ResultsIndex({ searchParams }: { searchParams: Search }) {
   const params = await searchParams;
   const filters = { q: one(params.q), crop: one(params.crop), season: one(params.season) };
-  const [{ trials, crops, seasons }, words, locale] = await Promise.all([listPublicTrials(filters), getTranslations("public"), getLocale()]);
+  const locale = localeOr(await getLocale());
+  const [{ trials, crops, seasons }, words] = await Promise.all([listPublicTrials(filters, locale), getTranslations("public")]);
   return (
     <div className="mx-auto max-w-6xl px-4 py-10">
       <h1 className="text-3xl font-bold">{words("resultsTitle")}</h1>
       <p className="mt-2 max-w-3xl text-loam-700">
         {words("resultsIntro")} <a href={`${API_BASE}/trials`}>{words("openData")}</a> (<a href={OPENAPI_PATH}>{words("openApi")}</a>).
       </p>
-      {locale !== "en" && <p className="mt-2 max-w-3xl text-sm text-loam-700">{words("englishOnly")}</p>}
       <form role="search" aria-label={words("find")} className="mt-6 grid gap-3 rounded-xl border border-husk-200 bg-white p-4 sm:grid-cols-[2fr_1fr_1fr_auto]">
         {locale !== "en" && <input type="hidden" name="lang" value={locale} />}
         <TextField label={words("search")} name="q" id="q" defaultValue={filters.q} placeholder={words("searchHint")} />

@@ -1,4 +1,8 @@
 /** Number formatting shared by notes, tables and exports, so every place shows the same figures. */
+import type { Locale } from "@/lib/domain/vocabulary/enums";
+
+// Spanish pages write numbers the Spanish way (decimal comma), as the Spanish printouts do; files for machines stay English.
+const NUMBER_LOCALES: Record<Locale, string> = { en: "en-US", es: "es" };
 
 /** A p-value as people read it: "p < 0.001" or "p = 0.034". */
 export function formatP(p: number | null): string {
@@ -6,30 +10,32 @@ export function formatP(p: number | null): string {
   return p < 0.001 ? "p < 0.001" : `p = ${p.toFixed(3)}`;
 }
 
-/** A value with a sensible number of decimals for its size. */
-export function formatNumber(x: number | null | undefined, digits?: number): string {
+/** A value with a sensible number of decimals for its size, in the reader's language ("2,812.5"; "2812,5"). */
+export function formatNumber(x: number | null | undefined, digits?: number, locale: Locale = "en"): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";
   const d = digits ?? (Math.abs(x) >= 100 ? 0 : Math.abs(x) >= 10 ? 1 : 2);
-  return numberFormat(d).format(x);
+  return numberFormat(d, locale).format(x);
 }
 
 // toLocaleString with options builds a new formatter on every call; an analysis formats thousands of numbers.
-const numberFormats = new Map<number, Intl.NumberFormat>();
-function numberFormat(digits: number): Intl.NumberFormat {
-  let format = numberFormats.get(digits);
+const numberFormats = new Map<string, Intl.NumberFormat>();
+function numberFormat(digits: number, locale: Locale): Intl.NumberFormat {
+  const key = `${locale}:${digits}`;
+  let format = numberFormats.get(key);
   if (!format) {
-    format = new Intl.NumberFormat("en-US", { minimumFractionDigits: digits, maximumFractionDigits: digits });
-    numberFormats.set(digits, format);
+    format = new Intl.NumberFormat(NUMBER_LOCALES[locale], { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    numberFormats.set(key, format);
   }
   return format;
 }
 
 /**
  * A difference (from the check) with its sign, as every table shows it: "+0.92", "−3.08", and "±0" for one
- * that rounds to nothing at the decimals its size gets, so "±0.00" and "−0.00" never appear.
+ * that rounds to nothing at the decimals its size gets, so "±0.00" and "−0.00" never appear. `format` writes
+ * the magnitude in the page's language ("0,92").
  */
-export function signedDifference(x: number): string {
-  const shown = formatNumber(Math.abs(x));
+export function signedDifference(x: number, format: (magnitude: number) => string = formatNumber): string {
+  const shown = format(Math.abs(x));
   return /[1-9]/.test(shown) ? `${x > 0 ? "+" : "−"}${shown}` : "±0";
 }
 
@@ -48,7 +54,7 @@ export interface UnitShape {
   computation: string;
 }
 
-const isDays = (trait: UnitShape) => trait.computation !== "none" || trait.valueType === "date";
+export const isDays = (trait: UnitShape) => trait.computation !== "none" || trait.valueType === "date";
 
 /**
  * The unit a column or axis of a trait's values is headed with: "days", "% yes", "1-9 scale", "g per plot",
@@ -89,12 +95,12 @@ function valueDigits(trait: UnitShape): number | undefined {
 }
 
 /** A value as a number under its `unitHeading` ("6.9", "2,812", "40" for 40% yes), with the decimals `valueWithUnit` uses. */
-export function numberInUnit(trait: UnitShape, x: number | null | undefined, digits?: number): string {
+export function numberInUnit(trait: UnitShape, x: number | null | undefined, digits?: number, locale: Locale = "en"): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";
   // A least-squares mean of 0/1 values can fall just outside 0-1 when plots are missing; no share of
   // plots is below 0% or above 100%, so it is shown at the nearer end.
   const value = trait.valueType === "yes_no" ? Math.min(1, Math.max(0, x)) : x;
-  return formatNumber(inShownUnit(trait, value), digits ?? valueDigits(trait));
+  return formatNumber(inShownUnit(trait, value), digits ?? valueDigits(trait), locale);
 }
 
 /**

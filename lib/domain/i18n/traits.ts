@@ -1,4 +1,5 @@
 import { CATALOGUES, type Translator } from "./catalogue";
+import { figuresFor, type Figures } from "./figures";
 
 // Built-in traits are data (the `traits` table), but their names are trade terms a grower reads on every
 // screen and sheet, so the catalogue carries them by code. A trait a coordinator made or renamed keeps the
@@ -27,4 +28,25 @@ export function localDueNote(t: Translator, trait: { code: string; dueNote: stri
 export function localUnit(t: Translator, unit: string | null): string | null {
   if (unit === null || !Object.hasOwn(CATALOGUES.en.units, unit)) return unit;
   return t(`units.${unit as Unit}`);
+}
+
+/** Figures ("6,9 en la escala 1-9", "p = 0,034") in a server translator's language. */
+export function figuresOf(t: Translator): Figures {
+  return figuresFor(t.locale, { figure: (key, values) => t(`figures.${key}`, values), unit: (u) => localUnit(t, u) ?? u });
+}
+
+type AnalysedTrait = { code: string; name: string; unit: string | null; valueType: string; computation: string; analysedAs: string };
+
+/**
+ * A trait's name as analysed ("Days to emergence (days from sowing)") in the reader's language: the stored
+ * English words in English, else the translated name with the same note of what was analysed.
+ */
+export function localAnalysedAs(t: Translator, trait: AnalysedTrait): string {
+  if (t.locale === "en") return trait.analysedAs;
+  const name = localTraitName(t, trait);
+  if (trait.computation === "days_from_sowing" || (trait.valueType === "date" && trait.computation === "none")) return t("figures.analysedSowing", { name });
+  if (trait.computation === "days_from_transplant") return t("figures.analysedTransplant", { name });
+  if (trait.valueType === "yes_no") return t("figures.analysedShare", { name });
+  if (trait.analysedAs === trait.name || !trait.unit) return name;
+  return t("figures.analysedUnit", { name, unit: localUnit(t, trait.unit) ?? trait.unit });
 }

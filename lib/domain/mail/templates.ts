@@ -1,3 +1,6 @@
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
+import type { Locale } from "@/lib/domain/vocabulary/enums";
+
 export interface OutgoingMail {
   to: string;
   subject: string;
@@ -22,54 +25,52 @@ export function staffInviteMail(p: { to: string; name: string; inviterName: stri
   };
 }
 
-/** Invitation for a partner grower, with the one-time link to set a password. */
-export function inviteMail(p: { to: string; name: string; inviterName: string; link: string; siteName?: string | null }): OutgoingMail {
-  const site = p.siteName ? ` for ${p.siteName}` : "";
+/** Invitation for a partner grower, with the one-time link to set a password, in the grower's language. */
+export function inviteMail(p: { to: string; name: string; inviterName: string; link: string; siteName?: string | null; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
   return {
     to: p.to,
-    subject: "You're invited to record variety trial data in Seedplot",
+    subject: t("accessMail.inviteSubject"),
     text:
-      `Hello ${p.name},\n\n${p.inviterName} has invited you to Seedplot${site}, where partner growers record ` +
-      `their variety trial plots.\n\nSet your password and sign in here (the link works once, for 7 days):\n${p.link}\n\n` +
-      `If you were not expecting this, you can ignore this message.` +
-      SIGNATURE,
+      `${t("mail.hello", { name: p.name })}\n\n${t("accessMail.inviteBody", { inviter: p.inviterName, site: p.siteName || "none" })}\n\n` +
+      `${t("accessMail.inviteAction")}\n${p.link}\n\n${t("accessMail.notExpecting")}` +
+      t("mail.signature"),
   };
 }
 
 /** Tells a grower who already has an account that a coordinator added them to a site. */
-export function siteAccessMail(p: { to: string; name: string; inviterName: string; siteName: string; link: string }): OutgoingMail {
+export function siteAccessMail(p: { to: string; name: string; inviterName: string; siteName: string; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
   return {
     to: p.to,
-    subject: `You can now record for ${p.siteName} in Seedplot`,
+    subject: t("accessMail.siteAccessSubject", { site: p.siteName }),
     text:
-      `Hello ${p.name},\n\n${p.inviterName} has added you as a grower for ${p.siteName}. Sign in with your Seedplot ` +
-      `account to see its trials and record its plots:\n${p.link}\n\nIf you were not expecting this, let ${p.inviterName} know.` +
-      SIGNATURE,
+      `${t("mail.hello", { name: p.name })}\n\n${t("accessMail.siteAccessBody", { inviter: p.inviterName, site: p.siteName })}\n${p.link}\n\n` +
+      t("accessMail.siteAccessNotExpecting", { inviter: p.inviterName }) +
+      t("mail.signature"),
   };
 }
 
 /** Password-reset link; valid for one hour. */
-export function passwordResetMail(p: { to: string; name: string; link: string }): OutgoingMail {
+export function passwordResetMail(p: { to: string; name: string; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
   return {
     to: p.to,
-    subject: "Reset your Seedplot password",
+    subject: t("accessMail.resetSubject"),
     text:
-      `Hello ${p.name},\n\nSomeone (hopefully you) asked to reset the password of your Seedplot account.\n\n` +
-      `Choose a new password here (the link works once, for 1 hour):\n${p.link}\n\n` +
-      `If you did not ask for this, ignore this message; your password stays as it is.` +
-      SIGNATURE,
+      `${t("mail.hello", { name: p.name })}\n\n${t("accessMail.resetBody")}\n\n${t("accessMail.resetAction")}\n${p.link}\n\n` +
+      t("accessMail.resetNotAsked") +
+      t("mail.signature"),
   };
 }
 
 /** Tells a grower who already has an account that their site joined a trial. */
-export function enrolmentNoticeMail(p: { to: string; name: string; siteName: string; trialTitle: string; link: string }): OutgoingMail {
+export function enrolmentNoticeMail(p: { to: string; name: string; siteName: string; trialTitle: string; link: string; locale?: Locale }): OutgoingMail {
+  const t = translatorFor(p.locale);
   return {
     to: p.to,
-    subject: `${p.siteName} is taking part in "${p.trialTitle}"`,
-    text:
-      `Hello ${p.name},\n\n${p.siteName} has been enrolled in the variety trial "${p.trialTitle}". Once your coordinator ` +
-      `has laid out the plots, your tray or field map, plot labels and data sheet will be ready to print in Seedplot:\n${p.link}` +
-      SIGNATURE,
+    subject: t("mail.enrolmentSubject", { site: p.siteName, trial: p.trialTitle }),
+    text: `${t("mail.hello", { name: p.name })}\n\n${t("mail.enrolmentBody", { site: p.siteName, trial: p.trialTitle })}\n${p.link}` + t("mail.signature"),
   };
 }
 

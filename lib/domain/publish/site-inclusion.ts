@@ -53,6 +53,18 @@ export function publicNotIncludedWhy(s: Pick<SiteInclusion, "reason" | "category
   return PUBLIC_NOT_INCLUDED[s.reason];
 }
 
+/**
+ * What a published "not included" reason says, read back from its words (published versions store them in
+ * English), so a page in another language can word it again; null for words of another form.
+ */
+export function notIncludedKind(why: string): { why: "unchecked" | "incomplete" | "noData" } | { category: ExclusionCategory } | null {
+  if (why === PUBLIC_NOT_INCLUDED.submitted) return { why: "unchecked" };
+  if (why === PUBLIC_NOT_INCLUDED.draft) return { why: "incomplete" };
+  if (why === PUBLIC_NOT_INCLUDED.no_data) return { why: "noData" };
+  const category = (Object.keys(EXCLUSION_CATEGORY_LABELS) as ExclusionCategory[]).find((c) => why === `left out: ${EXCLUSION_CATEGORY_LABELS[c]}`);
+  return category ? { category } : null;
+}
+
 /** The ids of the sites a publication would leave out, sorted. */
 export function leftOutSiteIds(inclusion: SiteInclusion[]): number[] {
   return inclusion.filter((s) => !s.included).map((s) => s.siteId).sort((a, b) => a - b);

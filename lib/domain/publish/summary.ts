@@ -1,65 +1,73 @@
 import { extremeWord, inStatedOrder, noPairDiffers, rankedValue } from "@/lib/domain/analysis/ranking";
-import type { AnalysisResult, EntryResult } from "@/lib/domain/analysis/types";
-import { formatP, valueWithUnit } from "@/lib/domain/analysis/format";
+import type { EntryResult } from "@/lib/domain/analysis/types";
+import type { BetterWhen } from "@/lib/domain/vocabulary/enums";
 import { capitalise } from "@/lib/domain/vocabulary/words";
+import { translatorFor, type Translator } from "@/lib/domain/i18n/catalogue";
+import { figuresOf, localAnalysedAs } from "@/lib/domain/i18n/traits";
 
-function nameOf(e: EntryResult): string {
+type SummaryEntry = Pick<EntryResult, "blindCode" | "varietyName" | "mean" | "lsMean" | "rank" | "letter">;
+type SummaryBlock = { means: SummaryEntry[]; entryP: number | null };
+
+/** What the summary reads of a trait's analysis: a full analysis, or the public shape of a published one. */
+export interface SummarisedResult {
+  trait: { code: string; name: string; unit: string | null; valueType: string; computation: string; betterWhen: BetterWhen; analysedAs: string };
+  combined: (SummaryBlock & { sites: number; interactionP: number | null }) | null;
+  perSite: { result: SummaryBlock | null }[];
+}
+
+function nameOf(e: SummaryEntry): string {
   return e.varietyName ?? e.blindCode;
 }
 
-function listNames(names: string[]): string {
+function listNames(t: Translator, names: string[]): string {
   if (names.length <= 1) return names.join("");
-  return `${names.slice(0, -1).join(", ")} and ${names[names.length - 1]}`;
+  return t("summary.list", { first: names.slice(0, -1).join(", "), last: names[names.length - 1]! });
 }
 
 /**
  * Plain-language lines for growers: which varieties did well on each trait, and how sure we are. The
  * wording follows the statistics: a difference is only claimed when the entry F test was significant
- * at 5%, and a large entry x site interaction turns the advice into "check your own site".
+ * at 5%, and a large entry x site interaction turns the advice into "check your own site". In the
+ * translator's language (English, the published text, by default); variety names stay as typed.
  */
-export function summariseForGrowers(results: AnalysisResult[]): string[] {
+export function summariseForGrowers(results: SummarisedResult[], t: Translator = translatorFor("en")): string[] {
+  const figures = figuresOf(t);
   const lines: string[] = [];
   for (const r of results) {
-    const trait = r.trait.analysedAs.toLowerCase();
+    const trait = capitalise(localAnalysedAs(t, r.trait).toLowerCase());
     const block = r.combined ?? r.perSite.find((s) => s.result)?.result ?? null;
     if (!block || block.means.length === 0) continue;
-    const sites = r.combined ? `across ${r.combined.sites} sites` : "at the one site analysed";
+    const sites = r.combined ? t("summary.acrossSites", { count: String(r.combined.sites) }) : t("summary.oneSite");
     const ordered = inStatedOrder(block.means);
     const first = ordered[0]!;
     const last = ordered[ordered.length - 1]!;
+    const p = figures.p(block.entryP);
     const significant = block.entryP !== null && block.entryP < 0.05;
     if (!significant) {
-      lines.push(`${capitalise(trait)}: the varieties did not differ clearly ${sites} (${formatP(block.entryP)}); treat any order as a tie.`);
+      lines.push(t("summary.notDiffer", { trait, sites, p }));
       continue;
     }
     if (noPairDiffers(block.means)) {
-      lines.push(`${capitalise(trait)}: the F test found the varieties different ${sites} (${formatP(block.entryP)}), but Tukey's test found no pair that clearly differs; treat the order as a tie.`);
+      lines.push(t("summary.noPair", { trait, sites, p }));
       continue;
     }
-    const value = (m: EntryResult) => valueWithUnit(r.trait, rankedValue(m));
+    const value = (m: SummaryEntry) => figures.value(r.trait, rankedValue(m));
     if (r.trait.betterWhen === "neither") {
       lines.push(
-        `${capitalise(trait)}: ${nameOf(first)} was ${extremeWord(r.trait, "first")} ${sites} (${value(first)}) and ${nameOf(last)} ${extremeWord(r.trait, "last")} (${value(last)}); neither end is better in itself.`,
+        t("summary.neither", { trait, sites, first: nameOf(first), firstWord: extremeWord(r.trait, "first"), firstValue: value(first), last: nameOf(last), lastWord: extremeWord(r.trait, "last"), lastValue: value(last) }),
       );
       continue;
     }
     const sameGroup = first.letter ? ordered.filter((e) => e !== first && e.letter && sharesLetter(e.letter, first.letter!)).map(nameOf) : [];
-    let line = `${capitalise(trait)}: ${nameOf(first)} came first ${sites} with the ${extremeWord(r.trait, "first")} mean (${value(first)})`;
-    line += !first.letter
-      ? "."
-      : sameGroup.length
-        ? `, not clearly different from ${listNames(sameGroup)}.`
-        : ", clearly ahead of the others.";
-    if (r.combined && r.combined.interactionP !== null && r.combined.interactionP < 0.05) {
-      line += " Rankings changed from site to site, so look at the site most like your own.";
-    }
+    let line = t("summary.cameFirst", { trait, first: nameOf(first), sites, word: extremeWord(r.trait, "first"), value: value(first) });
+    line += !first.letter ? t("summary.noLetters") : sameGroup.length ? t("summary.notClearlyDifferent", { names: listNames(t, sameGroup) }) : t("summary.clearlyAhead");
+    if (r.combined && r.combined.interactionP !== null && r.combined.interactionP < 0.05) line += t("summary.interaction");
     lines.push(line);
   }
-  if (lines.length === 0) lines.push("There were not enough data to compare the varieties.");
+  if (lines.length === 0) lines.push(t("summary.noData"));
   return lines;
 }
 
 function sharesLetter(a: string, b: string): boolean {
   return [...a].some((ch) => b.includes(ch));
 }
-

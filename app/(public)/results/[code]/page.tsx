@@ -12,6 +12,9 @@ import type { GrowingSetup } from "@/lib/domain/vocabulary/enums";
 import { getLocale, getTranslations } from "next-intl/server";
 import { withLanguage } from "@/lib/domain/i18n/language-choice";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { localeOr, translatorFor } from "@/lib/domain/i18n/catalogue";
+import { summariseForGrowers } from "@/lib/domain/publish/summary";
+import { localAnalysedAs } from "@/lib/domain/i18n/traits";
 
 type Params = Promise<{ code: string }>;
 type Search = Promise<Record<string, string | string[] | undefined>>;
@@ -23,22 +26,33 @@ async function load(params: Params, searchParams: Search) {
 }
 
 export async function generateMetadata({ params, searchParams }: { params: Params; searchParams: Search }): Promise<Metadata> {
-  const report = await load(params, searchParams);
-  if (!report) return { title: "Not found" };
-  if (report.kind === "withdrawn") return { title: `${report.title} (withdrawn)`, robots: { index: false } };
+  const [report, words, locale] = await Promise.all([load(params, searchParams), getTranslations("publicPages"), getLocale()]);
+  if (!report) return { title: words("notFound") };
+  if (report.kind === "withdrawn") return { title: words("withdrawnMeta", { title: report.title }), robots: { index: false } };
   const t = report.snapshot.trial;
+  const summary = summaryIn(report.snapshot, locale);
   return {
     title: `${t.title} (${t.season})`,
-    description: report.snapshot.summary.join(" ").slice(0, 300),
-    openGraph: { title: `${t.title} — ${t.crop} variety trial results`, description: report.snapshot.summary[0] ?? "", type: "article" },
+    description: summary.join(" ").slice(0, 300),
+    openGraph: { title: words("trialMeta", { title: t.title, crop: t.crop }), description: summary[0] ?? "", type: "article" },
   };
+}
+
+/**
+ * The summary in the page's language: the published English lines as they were published, or the same
+ * sentences worded again from the published figures in another language (variety names stay as typed).
+ */
+function summaryIn(snapshot: { summary: string[]; results: { result: Parameters<typeof summariseForGrowers>[0][number] }[] }, locale: string): string[] {
+  const language = localeOr(locale);
+  return language === "en" ? snapshot.summary : summariseForGrowers(snapshot.results.map((r) => r.result), translatorFor(language));
 }
 
 export default async function PublicTrialPage({ params, searchParams }: { params: Params; searchParams: Search }) {
   const report = await load(params, searchParams);
   if (!report) notFound();
-  // Page frames follow the address's language (?lang=es); the summary and tables are published English text.
-  const [words, nav, menu, locale] = await Promise.all([getTranslations("public"), getTranslations("home"), getTranslations("nav"), getLocale()]);
+  // Everything follows the address's language (?lang=es); names and what staff typed stay as typed.
+  const [words, nav, menu, pages, locale] = await Promise.all([getTranslations("public"), getTranslations("home"), getTranslations("nav"), getTranslations("publicPages"), getLocale()]);
+  const translator = translatorFor(localeOr(locale));
   const here = (href: string) => withLanguage(href, locale);
   if (report.kind === "withdrawn") {
     return (
@@ -58,7 +72,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
   const isLatest = snapshot.version === latestVersion;
   const versionQuery = isLatest ? "" : `?version=${snapshot.version}`;
   const notIncluded = new Set(snapshot.coverage.notIncluded.map((s) => s.name));
-  const germination = toPublicGerminationView(snapshot.results);
+  const germination = toPublicGerminationView(snapshot.results, translator);
   const api = linksFor(t.code, isLatest ? null : snapshot.version);
   return (
     <div className="mx-auto max-w-6xl space-y-8 px-4 py-10">
@@ -82,9 +96,8 @@ export default async function PublicTrialPage({ params, searchParams }: { params
 
       <section aria-labelledby="summary" className="rounded-xl border border-husk-200 bg-white p-5">
         <h2 id="summary" className="text-xl font-bold">{words("summary")}</h2>
-        {locale !== "en" && <p className="mt-1 text-sm text-loam-700">{words("englishOnly")}</p>}
         <ul className="mt-3 list-disc space-y-2 pl-5">
-          {snapshot.summary.map((line, i) => <li key={i}>{line}</li>)}
+          {summaryIn(snapshot, locale).map((line, i) => <li key={i}>{line}</li>)}
         </ul>
         <p className="mt-3 text-sm text-loam-700">
           {words("lettersNote")}
@@ -104,15 +117,19 @@ export default async function PublicTrialPage({ params, searchParams }: { params
           </a>
         </div>
         <p className="mt-3 text-sm text-loam-700">
-          The same data as open JSON: <a href={api.self}>trial</a>, <a href={api.results}>results</a> and <a href={api.plots}>plot data</a>, described in the{" "}
-          <a href={OPENAPI_PATH}>open data API description</a> (OpenAPI 3.1).
+          {pages.rich("openJson", {
+            trial: (chunks) => <a href={api.self}>{chunks}</a>,
+            results: (chunks) => <a href={api.results}>{chunks}</a>,
+            plots: (chunks) => <a href={api.plots}>{chunks}</a>,
+            api: (chunks) => <a href={OPENAPI_PATH}>{chunks}</a>,
+          })}
         </p>
       </section>
 
       {snapshot.results.map(({ trait, result }) => (
         <section key={trait} aria-labelledby={`trait-${trait}`} className="rounded-xl border border-husk-200 bg-white p-5">
-          <h2 id={`trait-${trait}`} className="mb-3 text-xl font-bold">{result.trait.analysedAs}</h2>
-          <PublicTraitResults view={toPublicTraitView(result)} />
+          <h2 id={`trait-${trait}`} className="mb-3 text-xl font-bold">{localAnalysedAs(translator, result.trait)}</h2>
+          <PublicTraitResults view={toPublicTraitView(result, translator)} />
           <LeftOutOfTrait exclusions={result.exclusions} />
         </section>
       ))}
@@ -156,7 +173,7 @@ export default async function PublicTrialPage({ params, searchParams }: { params
         <ul className="mt-2 space-y-1">
           {versions.map((v) => (
             <li key={v.version}>
-              <Link href={here(`/results/${t.code}${v.version === latestVersion ? "" : `?version=${v.version}`}`)}>{words("version", { version: String(v.version) })}</Link>, {v.publishedAt.toISOString().slice(0, 10)}
+              <Link href={here(`/results/${t.code}${v.version === latestVersion ? "" : `?version=${v.version}`}`)}>{words("version", { version: String(v.version) })}</Link>, {locale === "en" ? v.publishedAt.toISOString().slice(0, 10) : formatDate(v.publishedAt, locale)}
               {v.changeNote ? ` — ${v.changeNote}` : ""}
             </li>
           ))}
