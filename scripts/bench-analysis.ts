@@ -5,12 +5,16 @@
 // 50 sites x 40 entries x 4 blocks, yield plus seed counts, every site accepted), signs in as the coordinator and
 // times GET /api/trials/<id>/analysis over loopback: the first request after the data appeared (computed), plain
 // repeats (served from the server's cache), conditional repeats answering 304, requests straight after one value
-// was edited (new data version, computed again) and the analysis page once the result is cached. It then times
-// the same steps in-process (database read, calculation, JSON) and removes the trial, also any left behind by an
-// interrupted earlier run.
+// was edited (new data version, computed again), the analysis page once the result is cached (its HTML size, and
+// how much of it is the RSC flight data) and one site's section as the page fetches it when opened. It then times
+// the same steps in-process (settings and data version, database read, each step of the calculation, the viewer's
+// shape, JSON) and removes the trial, also any left behind by an interrupted earlier run.
 // Settings: BENCH_SITES / BENCH_ENTRIES / BENCH_BLOCKS (default 50 / 40 / 4), BENCH_REPEATS (cached and 304
-// requests, default 20), BENCH_CHANGES (edit-then-request rounds, default 5), BENCH_SECONDS (overall cap, default 300).
+// requests, default 20), BENCH_CHANGES (edit-then-request rounds, default 5), BENCH_SECONDS (overall cap, default 300),
+// BENCH_SERVER_PID (the `next-server` process: its CPU time per computed request is printed too, steadier than the
+// wall-clock time on a busy machine; Linux only).
 import http from "node:http";
+import { readFileSync } from "node:fs";
 import { brotliDecompressSync, gunzipSync, inflateSync } from "node:zlib";
 import { and, eq, inArray } from "drizzle-orm";
 import { createDatabase } from "../db/client";
@@ -28,6 +32,15 @@ const CHANGES = Number(process.env.BENCH_CHANGES ?? 5);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 300);
 const COORDINATOR = { email: process.env.BENCH_COORDINATOR ?? "rosa.delgado@tamarack-valley.example", password: process.env.BENCH_COORDINATOR_PASSWORD ?? "seedplot-coordinator-demo" };
 const PREFIX = "ANBENCH-";
+const SERVER_PID = process.env.BENCH_SERVER_PID ? Number(process.env.BENCH_SERVER_PID) : null;
+
+/** The server's CPU time so far (user + system) in ms, or null without BENCH_SERVER_PID. */
+function serverCpuMs(): number | null {
+  if (SERVER_PID === null) return null;
+  // fields after the command name: state is field 3, utime 14, stime 15 (clock ticks, 100 per second on Linux)
+  const fields = readFileSync(`/proc/${SERVER_PID}/stat`, "utf8").split(") ")[1]!.split(" ");
+  return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100;
+}
 
 if (!url) {
   console.error("Set DATABASE_URL to the database the server at BENCH_BASE_URL uses (npm run bench:analysis reads .env.local).");
@@ -199,7 +212,9 @@ try {
     if (r.status !== status) throw new Error(`${what}: expected HTTP ${status}, got ${r.status}: ${r.body.toString("utf8").slice(0, 300)}`);
   };
 
+  const cpuBefore = serverCpuMs();
   const cold = await get(path, { cookie });
+  const coldCpu = cpuBefore === null ? null : serverCpuMs()! - cpuBefore;
   expectStatus(cold, 200, "first request");
   const parsed = JSON.parse(cold.body.toString("utf8")) as { combined: { sites: number; n: number } | null; perSite: unknown[] };
   if (parsed.combined?.sites !== SITES) throw new Error(`The combined analysis covers ${parsed.combined?.sites ?? 0} sites, not ${SITES}.`);
@@ -227,10 +242,13 @@ try {
     .where(and(eq(s.plots.trialId, trialId), eq(s.observations.traitId, trial.traitId)))
     .limit(1);
   const changed: number[] = [];
+  const changedCpu: number[] = [];
   let etag = cold.etag;
   for (let i = 0; i < CHANGES; i += 1) {
     await db.update(s.observations).set({ valueNumber: target!.value! + (i + 1) / 2 }).where(eq(s.observations.id, target!.id));
+    const before = serverCpuMs();
     const r = await get(path, { cookie, "if-none-match": etag! });
+    if (before !== null) changedCpu.push(serverCpuMs()! - before);
     expectStatus(r, 200, "request after an edit");
     if (r.etag === etag) throw new Error("The ETag did not change after an edit.");
     etag = r.etag;
@@ -238,7 +256,7 @@ try {
   }
   const withPlots = await get(`${path}&plots=1`, { cookie });
   expectStatus(withPlots, 200, "request with plot rows");
-  // The page embeds the same analysis for its first paint, so its weight follows the JSON's.
+  // The page embeds its slim first view (lib/domain/analysis/page-view) for its first paint.
   const page: Timed[] = [];
   for (let i = 0; i < 3; i += 1) {
     const r = await get(`/portal/trials/${trialId}/analysis?trait=${trial.traitId}`, { cookie, accept: "text/html" });
@@ -246,17 +264,28 @@ try {
     page.push(r);
   }
 
-  line("first request after the data appeared", [cold.ms], "computed");
+  const firstSite = (parsed.perSite[0] as { siteId: number }).siteId;
+  const siteSection = await get(`/api/trials/${trialId}/analysis/sites/${firstSite}?trait=${trial.traitId}`, { cookie });
+  expectStatus(siteSection, 200, "one site's section");
+
+  line("first request after the data appeared", [cold.ms], `computed${coldCpu === null ? "" : `; server CPU ${coldCpu.toFixed(0)} ms`}`);
   line("repeat, same settings", cached, "200 from the server's cache");
   line("repeat with If-None-Match", notModified, "304, version check only");
   line("first request after one value edited", changed, "computed again");
+  if (changedCpu.length > 0) line("  server CPU for each of those", changedCpu, "(10 ms resolution)");
   console.log(`\nresponse ${sizes(cold)}`);
   console.log(`with raw plot rows (&plots=1): ${sizes(withPlots)}`);
   line("\nanalysis page, analysis already cached", page.map((p) => p.ms), `HTML ${sizes(page[0]!)}`);
+  const html = page[0]!.body.toString("utf8");
+  // The RSC flight data (the props the page hands its client components) rides in inline scripts beside the rendered HTML.
+  const flight = [...html.matchAll(/<script[^>]*>self\.__next_f\.push\(([\s\S]*?)\)<\/script>/g)].reduce((n, m) => n + m[1]!.length, 0);
+  console.log(`  of which RSC flight data in inline scripts: ${kib(flight)}; rendered markup and the rest: ${kib(html.length - flight)}`);
+  line("one site's section, as the page opens it", [siteSection.ms], sizes(siteSection));
+  if (process.env.BENCH_SAVE_PAGE) (await import("node:fs")).writeFileSync(process.env.BENCH_SAVE_PAGE, html);
 
   // The same work in-process, step by step, to show where the cold time goes. Imported late: it opens the app's own pool.
-  const { getAnalysisVersion } = await import("../db/queries/analysis");
-  const { loadAnalysisInput } = await import("../server/analysis/load-analysis");
+  const { loadAnalysisInput, prepareAnalysis } = await import("../server/analysis/load-analysis");
+  const { toPageView } = await import("../lib/domain/analysis/page-view");
   const { runAnalysis } = await import("../lib/domain/analysis/run");
   const { analysisFor } = await import("../lib/domain/analysis/blind");
   const { pool: appPool } = await import("../db/index");
@@ -264,10 +293,11 @@ try {
   const steps = new Map<string, number[]>();
   const time = (name: string, ms: number) => steps.set(name, [...(steps.get(name) ?? []), ms]);
   let bytes = 0;
+  let pageBytes = 0;
   for (let i = 0; i < 3 && Date.now() < deadline; i += 1) {
     t = performance.now();
-    await getAnalysisVersion(viewer, trialId, [trial.traitId]);
-    time("data version query", performance.now() - t);
+    await prepareAnalysis(viewer, trialId, { trait: trial.traitId });
+    time("settings and data version (queries)", performance.now() - t);
     t = performance.now();
     const input = await loadAnalysisInput(viewer, { trialId, traitId: trial.traitId });
     time("load: database read of plots and observations", performance.now() - t);
@@ -280,15 +310,19 @@ try {
     t = performance.now();
     bytes = JSON.stringify(view).length;
     time("serialise: JSON of what the API sends", performance.now() - t);
+    t = performance.now();
+    pageBytes = JSON.stringify(toPageView(view)).length;
+    time("the page's first view, as JSON", performance.now() - t);
   }
   await appPool.end();
   console.log("\nin-process, same trial (3 runs; the first is the coldest):");
-  for (const [name, samples] of steps) line(`  ${name}`, samples, name.startsWith("serialise") ? kib(bytes) : "");
+  for (const [name, samples] of steps) line(`  ${name}`, samples, name.startsWith("serialise") ? kib(bytes) : name.startsWith("the page") ? kib(pageBytes) : "");
 
   // One line per figure for `npm run bench` (tab-separated: figure, value, unit, ratio, target, met).
   const pageKib = page[0]!.raw / 1024;
   const result = (figure: string, value: string, unit: string, target: string, met: boolean) => console.log(["RESULT", figure, value, unit, "-", target, met ? "met" : "not met"].join("\t"));
   result(`first analysis, ${SITES} x ${ENTRIES} x ${BLOCKS}, uncached over HTTP`, cold.ms.toFixed(0), "ms", "< 300 ms", cold.ms < 300);
+  if (coldCpu !== null) console.log(["RESULT", "server CPU time of that first analysis", coldCpu.toFixed(0), "ms", "-", "-", "-"].join("\t"));
   result("analysis page HTML for that trial", pageKib.toFixed(0), "KiB", "< 500 KB", page[0]!.raw < 500 * 1000);
 } catch (e) {
   failed = true;

@@ -173,9 +173,8 @@ export function SiteResponseChart({ cells, order, unit, direction = PLAIN, slope
 }
 
 /** Pooled emergence % per entry with its 95% Wilson interval; small hollow marks are the single sites. */
-export function GerminationChart({ germination, label }: { germination: { byEntry: GerminationRowView[]; bySite: GerminationRowView[] }; label: EntryLabel }) {
+export function GerminationChart({ germination, sites, label }: { germination: { byEntry: GerminationRowView[] }; sites: { entry: string; percent: number; site: string }[]; label: EntryLabel }) {
   const pooled = germination.byEntry.map((r) => ({ entry: label(r), percent: r.percent, lower: r.lower, upper: r.upper }));
-  const sites = germination.bySite.map((r) => ({ entry: label(r), percent: r.percent, site: r.siteName ?? "" }));
   const summary = `Emergence per entry, pooled over sites, with 95% intervals: ${pooled.map((p) => `${p.entry} ${formatNumber(p.percent, 1)}% (${formatNumber(p.lower, 1)}–${formatNumber(p.upper, 1)})`).join("; ")}. Hollow marks show each site.`;
   return (
     <Chart

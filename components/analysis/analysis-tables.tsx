@@ -104,7 +104,7 @@ export function MissingTable({ missing }: { missing: MissingPlot[] }) {
   return <DataTable pageSize={null} data={missing} columns={columns} caption="Missing and excluded plots" filterLabel="Filter plots" />;
 }
 
-export function GerminationTable({ rows, label, bySite }: { rows: GerminationRowView[]; label: EntryLabel; bySite: boolean }) {
+export function GerminationTable({ rows, label, bySite, caption }: { rows: GerminationRowView[]; label: EntryLabel; bySite: boolean; caption?: string }) {
   const data: Labelled<GerminationRowView>[] = rows.map((r) => ({ ...r, shown: label(r) }));
   const columns: ColumnDef<Labelled<GerminationRowView>, unknown>[] = [
     ...(bySite ? [{ id: "site", header: "Site", accessorFn: (r: GerminationRowView) => r.siteName ?? "" } as ColumnDef<Labelled<GerminationRowView>, unknown>] : []),
@@ -114,7 +114,7 @@ export function GerminationTable({ rows, label, bySite }: { rows: GerminationRow
     { id: "percent", header: "Emergence %", accessorFn: (r) => r.percent, cell: (c) => formatNumber(c.getValue() as number, 1) },
     { id: "ci", header: "95% interval", accessorFn: (r) => r.lower, cell: (c) => `${formatNumber(c.row.original.lower, 1)}–${formatNumber(c.row.original.upper, 1)}` },
   ];
-  return <DataTable pageSize={null} data={data} columns={columns} caption={bySite ? "Emergence per entry and site" : "Emergence per entry"} filterLabel={bySite ? "Filter sites or entries" : undefined} />;
+  return <DataTable pageSize={null} data={data} columns={columns} caption={caption ?? (bySite ? "Emergence per entry and site" : "Emergence per entry")} filterLabel={bySite ? "Filter sites or entries" : undefined} />;
 }
 
 export function LabelTable({ rows, label }: { rows: LabelComparison[]; label: EntryLabel }) {

@@ -1,13 +1,15 @@
 "use client";
 import { useEffect, useMemo, useState } from "react";
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { AnalysisSettings, ViewerAnalysis } from "@/lib/domain/analysis/types";
+import type { AnalysisSettings } from "@/lib/domain/analysis/types";
+import { gridCells, type AnalysisPageView } from "@/lib/domain/analysis/page-view";
 import { cvWords, differenceWithUnit, formatP, inShownUnit, unitHeading, valueWithUnit } from "@/lib/domain/analysis/format";
 import type { AnalysisBlock } from "@/lib/domain/analysis/types";
 import { Card } from "@/components/ui/card";
 import { SubmissionStatusBadge } from "@/components/ui/status-badge";
 import { buttonClasses } from "@/components/ui/button";
 import { AnovaTable, EmergenceTimeTable, GerminationTable, LabelTable, MeansTable, MissingTable, type EntryLabel } from "./analysis-tables";
+import { SiteSectionBody } from "./site-section";
 import { EmergenceChart, GerminationChart, InteractionChart, MeansChart, SiteResponseChart } from "./analysis-charts";
 import { ExclusionPanel, type ExclusionTargets } from "./exclusion-panel";
 import { StabilityPanel } from "./stability-panel";
@@ -16,7 +18,6 @@ import { LazyDetails } from "./lazy-details";
 import { DirectionPanel } from "./direction-panel";
 import { MixedModelSection } from "./mixed-model-card";
 import { orderWords } from "@/lib/domain/analysis/ranking";
-import { capitalise } from "@/lib/domain/vocabulary/words";
 
 /** URL search string for settings; the same string is the API query, the export query and the page URL. */
 export function settingsQuery(s: AnalysisSettings): string {
@@ -29,16 +30,19 @@ export function settingsQuery(s: AnalysisSettings): string {
   return q.toString();
 }
 
-async function fetchAnalysis(trialId: number, query: string): Promise<ViewerAnalysis> {
-  const res = await fetch(`/api/trials/${trialId}/analysis?${query}`, { headers: { Accept: "application/json" } });
+async function fetchAnalysis(trialId: number, query: string): Promise<AnalysisPageView> {
+  const res = await fetch(`/api/trials/${trialId}/analysis?${query}&page=1`, { headers: { Accept: "application/json" } });
   const body = await res.json().catch(() => null);
   if (!res.ok) throw new Error(body?.error ?? "The analysis could not be loaded. Try again in a moment.");
-  return body as ViewerAnalysis;
+  return body as AnalysisPageView;
 }
 
 
-/** The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. */
-export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: ViewerAnalysis; targets: ExclusionTargets | null }) {
+/**
+ * The analysis page body: controls, notes, tables and charts, refetched as JSON when a setting changes. It holds
+ * the slim first view (lib/domain/analysis/page-view); each site's tables are fetched when its section opens.
+ */
+export function AnalysisView({ trialId, initial, targets }: { trialId: number; initial: AnalysisPageView; targets: ExclusionTargets | null }) {
   // Exclusions, sharing and exports are for staff; `targets` is only given to them. Variety names come
   // only in a keyed payload: staff, or a grower once the trial is published.
   const staff = targets !== null;
@@ -63,11 +67,24 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
   const label: EntryLabel = (e) => (names && e.varietyName ? e.varietyName : e.blindCode);
   const siteCells = useMemo(() => {
     const byId = new Map<number, { blindCode: string; varietyName?: string | null }>();
-    for (const m of result.combined?.means ?? result.perSite.find((s) => s.result)?.result?.means ?? []) byId.set(m.entryId, m);
-    return (result.combined?.cellMeans ?? []).map((c) => ({ siteName: c.siteName, mean: inShownUnit(result.trait, c.mean), entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId) }));
+    for (const m of result.combined?.means ?? []) byId.set(m.entryId, m);
+    const siteNames = new Map(result.sites.map((s) => [s.id, s.name]));
+    return (result.combined ? gridCells(result.combined.cellMeans) : []).map((c) => ({
+      siteName: siteNames.get(c.siteId) ?? String(c.siteId),
+      mean: inShownUnit(result.trait, c.value),
+      entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId),
+    }));
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [result, names]);
   const order = (result.combined?.means ?? []).map((m) => label(m));
+  // The chart's hollow per-site marks, from the first view's grid of per-site emergence %.
+  const germinationBySite = useMemo(() => {
+    if (!result.germination) return [];
+    const byId = new Map(result.germination.byEntry.map((g) => [g.entryId, g]));
+    const siteNames = new Map(result.sites.map((s) => [s.id, s.name]));
+    return gridCells(result.germination.bySite).map((c) => ({ entry: byId.has(c.entryId) ? label(byId.get(c.entryId)!) : String(c.entryId), percent: c.value, site: siteNames.get(c.siteId) ?? "" }));
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [result, names]);
   const emergenceOrder = [...new Set((result.emergence?.curve ?? []).map((c) => label(c)))];
   const unit = unitHeading(result.trait) ?? "";
   // Tables and charts show values in the unit named above them: a yes/no share as % yes.
@@ -263,6 +280,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         )}
 
         <Card title="Site by site">
+          {result.perSite.length > 1 && <p className="mb-3 text-sm text-loam-700">Open a site for its entry means with letters{result.germination ? ", its analysis of variance and its emergence counts" : " and its analysis of variance"}.</p>}
           <div className="space-y-3">
             {result.perSite.map((s) => (
               <LazyDetails
@@ -275,7 +293,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                     <span className="font-semibold">{s.siteName}</span> {s.status !== "accepted" && <SubmissionStatusBadge status={s.status} />}{" "}
                     {s.result ? (
                       <span className="text-sm text-loam-700">
-                        {spread(s.result)} · varieties {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${differenceWithUnit(result.trait, s.result.lsd)}` : s.result.means[0]?.letter ? "Tukey letters" : "no LSD"}
+                        {spread(s.result)} · varieties {formatP(s.result.entryP)} · {s.result.lsd !== null ? `LSD ${differenceWithUnit(result.trait, s.result.lsd)}` : s.result.lettered ? "Tukey letters" : "no LSD"}
                       </span>
                     ) : (
                       <span className="text-sm text-beet-700">{s.problem}</span>
@@ -283,13 +301,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                   </>
                 }
               >
-                {s.result && (
-                  <div className="space-y-3 pb-3">
-                    <MeansTable means={inUnit(s.result.means)} label={label} unit={unit} order={orderWords(result.trait)} caption={`Entry means at ${s.siteName}`} />
-                    <p className="text-sm">{capitalise(s.result.comparisonNote)}</p>
-                    <AnovaTable rows={s.result.rows} caption={`Analysis of variance at ${s.siteName}`} />
-                  </div>
-                )}
+                <SiteSectionBody trialId={trialId} siteId={s.siteId} siteName={s.siteName} query={query} label={label} unit={unit} order={orderWords(result.trait)} inUnit={inUnit} />
               </LazyDetails>
             ))}
             {result.perSite.length === 0 && <p>No site is in the analysis. Tick sites above, or include data not yet accepted.</p>}
@@ -297,7 +309,13 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
         </Card>
 
         <Card title={`Missing plots (${result.missing.length})`}>
-          {result.missing.length === 0 ? <p className="text-sm">Every plot in the analysed sites has a value.</p> : <MissingTable missing={result.missing} />}
+          {result.missing.length === 0 ? (
+            <p className="text-sm">Every plot in the analysed sites has a value.</p>
+          ) : (
+            <LazyDetails summaryClassName="min-h-11 cursor-pointer py-2 font-semibold" summary={result.missing.length === 1 ? "Show the missing plot and why it is missing" : `Show the ${result.missing.length} missing plots and why each is missing`}>
+              <MissingTable missing={result.missing} />
+            </LazyDetails>
+          )}
         </Card>
 
         {staff && keyed ? (
@@ -327,7 +345,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
           <Card title="Emergence (germination in the trial)">
             <p className="mb-3">{result.germination.note}</p>
             <div className="grid gap-6 *:min-w-0 xl:grid-cols-2">
-              <GerminationChart germination={result.germination} label={label} />
+              <GerminationChart germination={result.germination} sites={germinationBySite} label={label} />
               <GerminationTable rows={result.germination.byEntry} label={label} bySite={false} />
             </div>
             {keyed?.germination && (
@@ -336,9 +354,7 @@ export function AnalysisView({ trialId, initial, targets }: { trialId: number; i
                 <LabelTable rows={keyed.germination.labels} label={label} />
               </>
             )}
-            <LazyDetails className="mt-4" summaryClassName="min-h-11 cursor-pointer py-2 font-semibold" summary="Per site">
-              <GerminationTable rows={result.germination.bySite} label={label} bySite />
-            </LazyDetails>
+            <p className="mt-3 text-sm text-loam-700">Each site&apos;s counts are in its section under Site by site.</p>
           </Card>
         )}
 

@@ -21,10 +21,9 @@ declare module "@tanstack/react-table" {
   }
 }
 
-// On phones a cell shows its column's name before the value (columns whose header is not plain text,
-// such as row actions, show the value alone).
-const PHONE_LABEL =
-  "max-sm:before:w-28 max-sm:before:shrink-0 max-sm:before:font-sans max-sm:before:font-semibold max-sm:before:text-loam-700 max-sm:before:content-[attr(data-label)]";
+// A cell's look, and on phones its column's name before the value (columns whose header is not plain text,
+// such as row actions, show the value alone), is the `data-cell` class in app/globals.css: written once
+// there rather than on each of the thousands of cells a big analysis table has.
 
 /**
  * The one table for lists of records (catalogue, trials, sites, analysis results, admin lists): sortable,
@@ -127,9 +126,9 @@ export function DataTable<T>({
                         key={cell.id}
                         role="cell"
                         data-label={typeof label === "string" ? label : undefined}
-                        className={cn("py-2 pr-3 tabular-nums max-sm:flex max-sm:gap-3 max-sm:py-0.5", typeof label === "string" && PHONE_LABEL, cell.column.columnDef.meta?.cellClassName)}
+                        className={cn("data-cell", cell.column.columnDef.meta?.cellClassName)}
                       >
-                        <div className="min-w-0 break-words">{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
+                        <div>{flexRender(cell.column.columnDef.cell, cell.getContext())}</div>
                       </td>
                     );
                   })}

@@ -84,6 +84,15 @@ export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promi
   return traitRows.map((t) => ({ ...t, recorded: byTrait.get(t.id) ?? 0 }));
 }
 
+/**
+ * The trial's traits in display order without counting their values (a count reads every observation of the
+ * trial), for when the trait is already chosen; null when the trial is not the viewer's.
+ */
+export async function listTrialTraits(viewer: Viewer, trialId: number): Promise<InputTrait[] | null> {
+  const trial = await scopedTrial(viewer, trialId);
+  return trial && loadTraits(trialId);
+}
+
 function loadTraits(trialId: number): Promise<InputTrait[]> {
   return db
     .select({

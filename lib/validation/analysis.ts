@@ -22,6 +22,8 @@ export const analysisQuerySchema = z.object({
   mixed: flag.optional(),
   // Not a setting: asks the JSON API to add every plot's value, which the page itself never needs.
   plots: flag.optional(),
+  // Not a setting either: asks for the analysis page's slim first view (lib/domain/analysis/page-view), what the page refetches.
+  page: flag.optional(),
 });
 
 export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
@@ -29,7 +31,7 @@ export type AnalysisQuery = z.infer<typeof analysisQuerySchema>;
 /** Reads URL search parameters into analysis settings, with a plain message on the first problem. */
 export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: AnalysisQuery } | { ok: false; message: string } {
   const raw: Record<string, string> = {};
-  for (const key of ["trait", "sites", "unaccepted", "model", "compare", "mixed", "plots"]) {
+  for (const key of ["trait", "sites", "unaccepted", "model", "compare", "mixed", "plots", "page"]) {
     const v = search.get(key);
     if (v !== null && v !== "") raw[key] = v;
   }
@@ -37,7 +39,7 @@ export function parseAnalysisQuery(search: URLSearchParams): { ok: true; data: A
   if (parsed.success) return { ok: true, data: parsed.data };
   const issue = parsed.error.issues[0]!;
   const field = String(issue.path[0] ?? "settings");
-  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" || field === "plots" || field === "mixed" ? `${field} must be 1 or 0.` : issue.message;
+  const message = field === "trait" ? "The trait must be a trait id from this trial." : field === "unaccepted" || field === "plots" || field === "mixed" || field === "page" ? `${field} must be 1 or 0.` : issue.message;
   return { ok: false, message };
 }
 

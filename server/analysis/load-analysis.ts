@@ -1,10 +1,11 @@
 import "server-only";
 import { createHash } from "node:crypto";
-import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits } from "@/db/queries/analysis";
+import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits, listTrialTraits } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { mixedForTrial } from "@/lib/domain/analysis/mixed-trial";
 import { analysisFor } from "@/lib/domain/analysis/blind";
+import { siteSectionOf, toPageView, type SiteSection } from "@/lib/domain/analysis/page-view";
 import { canSeeBlindKey, isStaff } from "@/lib/domain/permissions";
 import type { AnalysisInput, AnalysisResult, AnalysisSettings, InputTrait, ViewerAnalysis } from "@/lib/domain/analysis/types";
 import type { AnalysisQuery } from "@/lib/validation/analysis";
@@ -39,11 +40,30 @@ export async function loadAnalysisInput(viewer: Viewer, p: { trialId: number; tr
   return getAnalysisInput(viewer, { ...p, includeKey: canSeeBlindKey(viewer, { status }) });
 }
 
+/**
+ * The trait asked for, checked against the trial's, or the default one. Counting each trait's values (to choose
+ * the default) reads every observation of the trial, so that happens only when no trait is asked for. Null when
+ * the trial is not the viewer's.
+ */
+async function chooseTrait(viewer: Viewer, trialId: number, asked: number | undefined): Promise<{ traitId: number; traits: InputTrait[] } | null> {
+  if (asked === undefined) {
+    const counted = await listAnalysisTraits(viewer, trialId);
+    if (!counted) return null;
+    const traitId = defaultTrait(counted)?.id;
+    if (traitId === undefined) throw new AppError("conflict", "This trial records no traits yet, so there is nothing to analyse.");
+    return { traitId, traits: counted };
+  }
+  const traits = await listTrialTraits(viewer, trialId);
+  if (!traits) return null;
+  if (!traits.some((t) => t.id === asked)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
+  return { traitId: asked, traits };
+}
+
 export interface PreparedAnalysis {
   settings: AnalysisSettings;
   /** names the result: trial, viewer scope, data version and settings */
   key: string;
-  /** names the response: the key plus whether plot rows were asked for, since the bodies differ */
+  /** names the response: the key plus whether plot rows or the page's first view were asked for, since the bodies differ */
   etag: string;
   version: string;
 }
@@ -53,12 +73,9 @@ export interface PreparedAnalysis {
  * has this version gets a 304. Null when the trial is not the viewer's.
  */
 export async function prepareAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery): Promise<PreparedAnalysis | null> {
-  const traits = await listAnalysisTraits(viewer, trialId);
-  if (!traits) return null;
-  let traitId = query.trait;
-  if (traitId !== undefined && !traits.some((t) => t.id === traitId)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
-  traitId ??= defaultTrait(traits)?.id;
-  if (traitId === undefined) throw new AppError("conflict", "This trial records no traits yet, so there is nothing to analyse.");
+  const chosen = await chooseTrait(viewer, trialId, query.trait);
+  if (chosen === null) return null;
+  const { traitId, traits } = chosen;
   const settings: AnalysisSettings = {
     traitId,
     siteIds: query.sites ? [...query.sites].sort((a, b) => a - b) : null,
@@ -74,7 +91,7 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
   // Staff and each cooperator see different slices of the trial, so the tag (and cache key) names the scope.
   const scope = viewer.role === "cooperator" ? `cooperator:${viewer.id}` : "staff";
   const key = createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27);
-  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : ""}"`, version };
+  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : query.page ? "-page" : ""}"`, version };
 }
 
 /** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
@@ -100,12 +117,25 @@ export async function viewAnalysis(viewer: Viewer, trialId: number, prepared: Pr
   return result && analysisFor(viewer, result, withPlots);
 }
 
-/** Both steps as the viewer may see them, for the page's first render. */
+/** Both steps as the viewer may see them, for the page's first render: its slim first view (lib/domain/analysis/page-view). */
 export async function loadAnalysisView(viewer: Viewer, trialId: number, query: AnalysisQuery) {
-  const prepared = await prepareAnalysis(viewer, trialId, query);
+  const prepared = await prepareAnalysis(viewer, trialId, { ...query, page: true });
   if (!prepared) return null;
   const view = await viewAnalysis(viewer, trialId, prepared);
-  return view ? { view, etag: prepared.etag } : null;
+  return view ? { view: toPageView(view), etag: prepared.etag } : null;
+}
+
+/**
+ * One site's section of the analysis for the settings, as the viewer may see it (the page fetches it when the
+ * section is opened). Null when the trial is not the viewer's or the site is not in its analysis: another
+ * trial's site, a site left out, or a grower's site not shared with this grower all answer alike.
+ */
+export async function loadSiteSection(viewer: Viewer, trialId: number, siteId: number, query: AnalysisQuery): Promise<{ section: SiteSection; etag: string } | null> {
+  const prepared = await prepareAnalysis(viewer, trialId, { ...query, plots: false, page: false });
+  if (!prepared) return null;
+  const view = await viewAnalysis(viewer, trialId, prepared);
+  const section = view && siteSectionOf(view, siteId);
+  return section ? { section, etag: `W/"${prepared.key}-site-${siteId}"` } : null;
 }
 
 /**

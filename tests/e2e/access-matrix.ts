@@ -176,6 +176,7 @@ export const HTTP_MATRIX: Record<string, Sample[]> = {
   "GET /api/trials/[trialId]/sites/[siteId]/layout": [{ note: "site B's layout", path: (i) => `/api/trials/${i.kal}/sites/${i.siteB}/layout`, expect: siteBObject("ok", "unauth") }],
   "GET /api/trials/[trialId]/analysis": [{ note: "spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis`, expect: firstProgramStaff("unauth") }],
   "GET /api/trials/across-seasons/export": [{ note: "kale (first program only) across seasons, trials csv", path: (i) => `/api/trials/across-seasons/export?crop=${i.kalCrop}&trait=marketable_yield&format=csv&table=trials`, expect: firstProgramStaff("unauth") }],
+  "GET /api/trials/[trialId]/analysis/sites/[siteId]": [{ note: "site A's section of the spinach analysis, not shared", path: (i) => `/api/trials/${i.spn}/analysis/sites/${i.siteA}`, expect: firstProgramStaff("unauth") }],
   "GET /api/trials/[trialId]/analysis/export": [{ note: "spinach means csv", path: (i) => `/api/trials/${i.spn}/analysis/export?format=csv&table=means`, expect: firstProgramStaff("unauth") }],
   // The demo has no second kale trial, so staff of the program get "not one of your trials of this crop" (spinach is
   // another crop); the answer with a CV is checked in tests/integration/stability-planning.test.ts.

@@ -61,6 +61,30 @@ describe("trial analysis in a real browser", () => {
     await context.close();
   }, 90_000);
 
+  it("a coordinator opens a site's section and reads its ANOVA, fetched for the settings on the page", async () => {
+    const { page, context } = await newPage(browser);
+    await signIn(page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
+    const sectionRequests: string[] = [];
+    page.on("request", (r) => {
+      if (/\/analysis\/sites\/\d+/.test(r.url())) sectionRequests.push(r.url());
+    });
+    await page.goto(`/portal/trials/${lettuceId}/analysis?compare=tukey`);
+    await page.getByRole("heading", { name: "Site by site" }).waitFor();
+    expect(await page.getByText("Open a site for its entry means with letters").count()).toBe(1);
+    // the first view carries no site's tables: they come when the section opens
+    expect(await page.locator("caption", { hasText: "Analysis of variance at Willow Bend Farm" }).count()).toBe(0);
+    expect(sectionRequests).toEqual([]);
+    await page.locator("summary", { hasText: "Willow Bend Farm" }).click();
+    const anova = page.getByRole("table", { name: "Analysis of variance at Willow Bend Farm" });
+    await anova.waitFor();
+    expect(sectionRequests).toHaveLength(1);
+    expect(sectionRequests[0]).toContain("compare=tukey");
+    const sources = await anova.locator("tbody tr td:first-child").allInnerTexts();
+    expect(sources.map((t) => t.trim())).toEqual(["Block", "Variety", "Residual (error)"]);
+    expect(await anova.locator("tbody tr").nth(1).locator("td").nth(1).innerText()).toBe("5");
+    await context.close();
+  }, 90_000);
+
   it("excludes one plot by the code on its label, refuses an unknown code, and includes it again", async () => {
     const { page, context } = await newPage(browser);
     await signIn(page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);

@@ -76,8 +76,10 @@ describe("a grower's shared results before publication", () => {
     await page.goto(`/portal/trials/${trialId}/analysis`);
     await page.getByRole("heading", { name: /^Analysis: / }).waitFor();
     const table = page.getByRole("table", { name: `Entry means at ${GROWER.name}` });
-    await page.locator("summary", { hasText: GROWER.name }).first().waitFor();
-    if (!(await table.isVisible())) await page.locator("summary", { hasText: GROWER.name }).first().click();
+    const summary = page.locator("summary", { hasText: GROWER.name }).first();
+    await summary.waitFor();
+    // The grower's one site opens by itself and fetches its tables; open it only if it is closed (its tables may still be loading).
+    if (!(await summary.evaluate((s) => (s.parentElement as HTMLDetailsElement).open))) await summary.click();
     await table.waitFor();
     expect(await table.locator("tbody tr").count()).toBe(SPINACH.entries.length);
     expect(await page.getByText("Show variety names instead of blind codes").count()).toBe(0);

@@ -90,9 +90,16 @@ export function analyseGermination(input: AnalysisInput, plots: InputPlot[], war
   };
   const order = (a: GerminationRow, b: GerminationRow) => entries.get(a.entryId)!.entryNumber - entries.get(b.entryId)!.entryNumber;
   const byEntry = germinationByEntry(gp).map((r) => row(r, null)).sort(order);
-  const siteIds = [...new Set(counts.map((c) => c.plot.siteId))];
+  // one pass to group the plots by site (in the order sites first appear), not one pass per site
+  const plotsBySite = new Map<number, GerminationPlot[]>();
+  counts.forEach((c, i) => {
+    const list = plotsBySite.get(c.plot.siteId);
+    if (list) list.push(gp[i]!);
+    else plotsBySite.set(c.plot.siteId, [gp[i]!]);
+  });
+  const siteIds = [...plotsBySite.keys()];
   const bySite = siteIds.flatMap((siteId) =>
-    germinationByEntry(gp.filter((p) => p.site === String(siteId)))
+    germinationByEntry(plotsBySite.get(siteId)!)
       .map((r) => row(r, siteId))
       .sort(order),
   );
@@ -157,6 +164,8 @@ export function analyseGermination(input: AnalysisInput, plots: InputPlot[], war
 
 /** Emergence curves (cumulative % by day after sowing) and mean emergence time per entry. */
 export function analyseEmergence(input: AnalysisInput, plots: InputPlot[], warnings: string[]): EmergenceAnalysis | null {
+  // without dated counts there is no curve, so the plots need not be read again
+  if (traitId(input, EMERGENCE_COUNT_CODE) === null) return null;
   const counts = plotCounts(input, plots).filter((c) => c.series.length > 0);
   if (counts.length === 0) return null;
   const entries = new Map(input.entries.map((e) => [e.id, e]));

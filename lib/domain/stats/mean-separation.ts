@@ -259,13 +259,18 @@ function lettersByIndex(labels: string[], means: number[], differAt: (i: number,
       // Only a column holding both entries splits; when none does, the columns (already absorbed) stay as they are.
       if (!columns.some((column) => has(column, i) && has(column, j))) continue;
       const split: Uint32Array[] = [];
+      const fresh: number[] = [];
       for (const column of columns) {
-        if (has(column, i) && has(column, j)) split.push(without(column, i), without(column, j));
-        else split.push(column);
+        if (has(column, i) && has(column, j)) {
+          fresh.push(split.length, split.length + 1);
+          split.push(without(column, i), without(column, j));
+        } else split.push(column);
       }
-      // absorb: drop a column contained in another (keeping the first of two equal columns)
+      // absorb: drop a column contained in another (keeping the first of two equal columns). Only a column
+      // just split off can be contained in another: the columns kept from before contain none of each other
+      // (absorbed last time), nor any part of a split column (which was not contained in them either).
       const keep = split.map(() => true);
-      for (let p = 0; p < split.length; p++) {
+      for (const p of fresh) {
         for (let r = 0; r < split.length; r++) {
           if (p === r || !keep[p] || !keep[r]) continue;
           const a = split[p]!;

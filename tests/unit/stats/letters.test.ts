@@ -47,4 +47,43 @@ describe("letters of the LSD comparison", () => {
       expect(share, `${c.a} and ${c.b}`).toBe(!c.differ);
     }
   });
+
+  it("the letters are those of the textbook insert-and-absorb over every column, for irregular patterns too", () => {
+    // Piepho's insert-absorb as written: after each split, drop every column contained in another (the first of two equal ones stays).
+    function reference(labels: string[], means: number[], differ: (i: number, j: number) => boolean): Record<string, string> {
+      const k = labels.length;
+      const order = labels.map((_, i) => i).sort((x, y) => means[y]! - means[x]! || x - y);
+      let columns: number[][] = [order.map((_, rank) => rank)];
+      for (let i = 0; i < k - 1; i++) {
+        for (let j = i + 1; j < k; j++) {
+          if (!differ(order[i]!, order[j]!)) continue;
+          const split = columns.flatMap((c) => (c.includes(i) && c.includes(j) ? [c.filter((x) => x !== i), c.filter((x) => x !== j)] : [c]));
+          const contained = (a: number[], b: number[]) => a.every((x) => b.includes(x));
+          columns = split.filter((a, p) => !split.some((b, r) => r !== p && contained(a, b) && (!contained(b, a) || p > r)));
+        }
+      }
+      columns.sort((a, b) => Math.min(...a) - Math.min(...b));
+      const letters: Record<string, string> = {};
+      order.forEach((entry, rank) => (letters[labels[entry]!] = columns.flatMap((c, n) => (c.includes(rank) ? ["abcdefghijklmnopqrstuvwxyz"[n] ?? `${n}`] : [])).join("")));
+      return Object.fromEntries(labels.map((l) => [l, letters[l]!]));
+    }
+    for (let seed = 1; seed <= 60; seed++) {
+      const random = lcg(seed);
+      const k = 3 + Math.floor(random() * 22);
+      const labels = Array.from({ length: k }, (_, i) => `E${i + 1}`);
+      const means = labels.map(() => Math.round(random() * 20));
+      // differences that need not follow the means (as with missing plots), so columns split in irregular ways
+      const differs = new Map<string, boolean>();
+      const comparisons = [];
+      for (let j = 0; j < k; j++) {
+        for (let i = j + 1; i < k; i++) {
+          const differ = Math.abs(means[i]! - means[j]!) > 6 || random() < 0.15;
+          differs.set(`${i}:${j}`, differ);
+          comparisons.push({ a: labels[i]!, b: labels[j]!, differ });
+        }
+      }
+      const expected = reference(labels, means, (a, b) => differs.get(`${Math.max(a, b)}:${Math.min(a, b)}`)!);
+      expect(compactLetters(labels, means, comparisons), `seed ${seed}`).toEqual(expected);
+    }
+  });
 });

@@ -4,6 +4,7 @@ import { idParam } from "@/lib/validation/common";
 import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { defineRoute } from "@/server/http/define-route";
 import { prepareAnalysis, viewAnalysis } from "@/server/analysis/load-analysis";
+import { toPageView } from "@/lib/domain/analysis/page-view";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -21,7 +22,8 @@ function analysisQueryOf(search: URLSearchParams) {
  * once a coordinator has shared them (blind codes only until the trial is published, see lib/domain/analysis/blind). The ETag changes whenever the
  * trial's data, reviews or exclusions change, so a repeat request with If-None-Match gets a 304.
  * Plot rows are left out unless `plots=1` asks for them: the page does not show them and they are
- * most of the body on a big trial (the exports carry them too).
+ * most of the body on a big trial (the exports carry them too). `page=1` answers the analysis page's slim
+ * first view instead (what the page refetches when a setting changes; each site's section comes from ./sites/[siteId]).
  */
 export const GET = defineRoute(
   {
@@ -35,8 +37,8 @@ export const GET = defineRoute(
     const headers = { ETag: prepared.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
     const match = request.headers.get("if-none-match");
     if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });
-    const view = await viewAnalysis(viewer, params.trialId, prepared, query.plots ?? false);
+    const view = await viewAnalysis(viewer, params.trialId, prepared, (query.plots ?? false) && !query.page);
     if (!view) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
-    return Response.json(view, { headers });
+    return Response.json(query.page ? toPageView(view) : view, { headers });
   },
 );
