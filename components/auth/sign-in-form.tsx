@@ -4,13 +4,14 @@ import { signIn } from "next-auth/react";
 import Link from "next/link";
 import { TextField } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
-import { signInSchema } from "@/lib/validation/auth";
+import { signInFields } from "@/lib/validation/auth";
 import { fieldErrorsOf } from "@/lib/validation/field-errors";
 import { useLocale, useTranslations } from "next-intl";
 import { withLanguage } from "@/lib/domain/i18n/language-choice";
 
 export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notice?: string }) {
   const t = useTranslations("auth");
+  const check = useTranslations("auth.check");
   const locale = useLocale();
   const [pending, setPending] = useState(false);
   const [error, setError] = useState<string | null>(null);
@@ -19,7 +20,7 @@ export function SignInForm({ callbackUrl, notice }: { callbackUrl: string; notic
   async function onSubmit(event: React.FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = new FormData(event.currentTarget);
-    const parsed = signInSchema.safeParse({ email: form.get("email"), password: form.get("password") });
+    const parsed = signInFields((key) => check(key)).safeParse({ email: form.get("email"), password: form.get("password") });
     if (!parsed.success) {
       setFieldErrors(fieldErrorsOf(parsed.error));
       setError(t("correctFields"));

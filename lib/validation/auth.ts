@@ -1,46 +1,69 @@
 import { LOCALES } from "@/lib/domain/vocabulary/enums";
 import { z } from "zod";
+import { translatorFor, type Messages, type Translator } from "@/lib/domain/i18n/catalogue";
 
-export const email = z
-  .string({ error: "Enter your e-mail address." })
-  .trim()
-  .toLowerCase()
-  .min(1, "Enter your e-mail address.")
-  .max(254, "That e-mail address is too long.")
-  .pipe(z.email({ error: "Enter an e-mail address like name@example.org." }));
+/** The words of the sign-in and password forms' checks, from the catalogue's "auth.check" in the page's language. */
+export type AuthCheckWords = (key: keyof Messages["auth"]["check"]) => string;
 
-export const signInSchema = z.object({
-  email,
-  password: z.string({ error: "Enter your password." }).min(1, "Enter your password.").max(200, "That password is too long."),
-});
+/** The checks' words from a Translator (server side; a client form passes its own `useTranslations("auth.check")`). */
+export const authCheckWords =
+  (t: Translator): AuthCheckWords =>
+  (key) =>
+    t(`auth.check.${key}`);
 
-export const newPasswordSchema = z
-  .object({
-    password: z
-      .string({ error: "Choose a password." })
-      .min(10, "Use at least 10 characters.")
-      .max(200, "Use at most 200 characters."),
-    confirm: z.string({ error: "Type the password again." }),
-  })
-  .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords are not the same." });
+export const emailIn = (w: AuthCheckWords) =>
+  z
+    .string({ error: w("enterEmail") })
+    .trim()
+    .toLowerCase()
+    .min(1, w("enterEmail"))
+    .max(254, w("emailTooLong"))
+    .pipe(z.email({ error: w("emailLike") }));
+
+/** Staff forms (inviting a grower) stay English. */
+export const email = emailIn(authCheckWords(translatorFor("en")));
+
+export const signInFields = (w: AuthCheckWords) =>
+  z.object({
+    email: emailIn(w),
+    password: z.string({ error: w("enterPassword") }).min(1, w("enterPassword")).max(200, w("passwordTooLong")),
+  });
+
+export const signInSchema = (t: Translator) => signInFields(authCheckWords(t));
+
+const newPasswordIn = (w: AuthCheckWords) =>
+  z
+    .object({
+      password: z.string({ error: w("choosePassword") }).min(10, w("passwordTooShort")).max(200, w("passwordMax")),
+      confirm: z.string({ error: w("typeAgain") }),
+    })
+    .refine((v) => v.password === v.confirm, { path: ["confirm"], message: w("passwordsDiffer") });
 
 export const tokenSchema = z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, "This link is not valid.");
+const tokenIn = (w: AuthCheckWords) => z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, w("linkInvalid"));
 
 /** The language of the page a signed-out form was sent from (its `?lang=`), for the words of the answer. */
 const pageLanguage = z.enum(LOCALES).catch("en");
 
-export const acceptInviteSchema = z.intersection(
-  newPasswordSchema,
-  z.object({
-    lang: pageLanguage,
-    token: tokenSchema,
-    name: z.string().trim().min(2, "Enter your name.").max(120, "Use at most 120 characters."),
-  }),
-);
+// The signed-out forms below are parsed in the language their page sent as `lang` (see defineAction).
+export const acceptInviteSchema = (t: Translator) => {
+  const w = authCheckWords(t);
+  return z.intersection(
+    newPasswordIn(w),
+    z.object({
+      lang: pageLanguage,
+      token: tokenIn(w),
+      name: z.string().trim().min(2, w("enterName")).max(120, w("nameMax")),
+    }),
+  );
+};
 
-export const resetPasswordSchema = z.intersection(newPasswordSchema, z.object({ token: tokenSchema, lang: pageLanguage }));
+export const resetPasswordSchema = (t: Translator) => {
+  const w = authCheckWords(t);
+  return z.intersection(newPasswordIn(w), z.object({ token: tokenIn(w), lang: pageLanguage }));
+};
 
-export const forgotPasswordSchema = z.object({ email, lang: pageLanguage });
+export const forgotPasswordSchema = (t: Translator) => z.object({ email: emailIn(authCheckWords(t)), lang: pageLanguage });
 
 // A grower is always invited to a site: the site's program is what lets its coordinators see them.
 export const inviteCooperatorSchema = z.object({

@@ -30,7 +30,7 @@ const refusalWords = (t: Translator): LinkRefusalWords => ({
  * signs them in with that password through the usual sign-in (throttle, last sign-in and all), so they
  * land in the portal rather than on an empty sign-in form.
  */
-export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | null>(
+export const acceptInvite = defineAction<ReturnType<typeof acceptInviteSchema>, Viewer | null>(
   { roles: "public", schema: acceptInviteSchema },
   async (input) => {
     const t = translatorFor(input.lang);
@@ -44,7 +44,7 @@ export const acceptInvite = defineAction<typeof acceptInviteSchema, Viewer | nul
  * answer depends only on the rate limits, and looking the account up, issuing the link and mailing it
  * happen after the answer has gone out.
  */
-export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Viewer | null>(
+export const requestPasswordReset = defineAction<ReturnType<typeof forgotPasswordSchema>, Viewer | null>(
   { roles: "public", schema: forgotPasswordSchema },
   async (input) => {
     const sameAnswer = { ok: true as const, message: translatorFor(input.lang)("auth.resetSent") };
@@ -61,7 +61,7 @@ export const requestPasswordReset = defineAction<typeof forgotPasswordSchema, Vi
   },
 );
 
-export const resetPassword = defineAction<typeof resetPasswordSchema, Viewer | null>(
+export const resetPassword = defineAction<ReturnType<typeof resetPasswordSchema>, Viewer | null>(
   { roles: "public", schema: resetPasswordSchema },
   async (input) => {
     const t = translatorFor(input.lang);

@@ -6,7 +6,7 @@ import type { Role } from "@/lib/domain/vocabulary/enums";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { ActionResult } from "@/lib/validation/action-result";
 import { fieldErrorsOf, parseIn, type SchemaIn } from "@/lib/validation/field-errors";
-import { translatorFor } from "@/lib/domain/i18n/catalogue";
+import { localeOr, translatorFor } from "@/lib/domain/i18n/catalogue";
 
 // Fields never echoed back to the form after a failure.
 const SECRET_FIELDS = new Set(["password", "confirm", "token"]);
@@ -41,7 +41,8 @@ export function defineAction<S extends z.ZodType, V extends Viewer | null = View
     let t = translatorFor();
     try {
       const viewer = await getViewer();
-      t = translatorFor(viewer?.locale);
+      // A signed-out form (sign-in, reset, invitation) sends its page's language as `lang`.
+      t = translatorFor(viewer ? viewer.locale : localeOr(formData.get("lang")));
       if (options.roles !== "public") {
         if (!viewer) return { ok: false, formError: t("forms.sessionEnded"), values };
         if (!options.roles.includes(viewer.role)) return { ok: false, formError: t("forms.noAccess"), values };

@@ -5,6 +5,7 @@ import { env } from "@/lib/env";
 import { getActiveViewer, getDeactivationContact, getSignInRecord } from "@/db/queries/users";
 import { endSessions, updateLastSignIn } from "@/db/mutations/users";
 import { signInSchema } from "@/lib/validation/auth";
+import { parseIn } from "@/lib/validation/field-errors";
 import { verifyPassword } from "./password";
 import { isThrottled, recordAttempt } from "./throttle";
 import { requestAddress } from "./request-address";
@@ -31,7 +32,7 @@ export const authOptions: NextAuthOptions = {
       async authorize(credentials) {
         // The form sends its page's language (`lang`, as in the address), so the answers below are in it.
         const t = translatorFor(localeOr((credentials as Record<string, unknown> | undefined)?.lang));
-        const parsed = signInSchema.safeParse(credentials ?? {});
+        const parsed = parseIn(signInSchema, credentials ?? {}, t);
         if (!parsed.success) throw new Error(parsed.error.issues[0]?.message ?? signInAnswer(t, "failed"));
         const { email, password } = parsed.data;
         const address = requestAddress();

@@ -5,6 +5,10 @@ import { addDays, scheduleForSite, scheduleSummary } from "@/lib/domain/schedule
 import { randomiseBlocks } from "@/lib/domain/design/randomise";
 import { blindCodes } from "@/lib/domain/design/blind-codes";
 import type { Viewer } from "@/lib/domain/viewer";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
+
+const english = translatorFor("en");
+const spanish = translatorFor("es");
 
 const admin: Viewer = { id: 1, email: "a@x.org", name: "A", role: "admin" };
 const coordinator: Viewer = { id: 2, email: "c@x.org", name: "C", role: "coordinator" };
@@ -34,20 +38,30 @@ describe("permissions", () => {
 
 describe("form validation answers in plain words", () => {
   it("explains a malformed e-mail and a missing password", () => {
-    const r = signInSchema.safeParse({ email: "not-an-email", password: "" });
+    const r = signInSchema(english).safeParse({ email: "not-an-email", password: "" });
     expect(r.success).toBe(false);
     const messages = r.error!.issues.map((i) => i.message);
     expect(messages).toContain("Enter an e-mail address like name@example.org.");
     expect(messages).toContain("Enter your password.");
   });
   it("normalises e-mail case and spaces", () => {
-    expect(signInSchema.parse({ email: "  Rosa@Example.ORG ", password: "x" }).email).toBe("rosa@example.org");
+    expect(signInSchema(english).parse({ email: "  Rosa@Example.ORG ", password: "x" }).email).toBe("rosa@example.org");
   });
   it("requires matching passwords of at least 10 characters", () => {
-    const short = acceptInviteSchema.safeParse({ token: "a".repeat(43), name: "Al Grower", password: "short", confirm: "short" });
+    const short = acceptInviteSchema(english).safeParse({ token: "a".repeat(43), name: "Al Grower", password: "short", confirm: "short" });
     expect(short.error!.issues[0]!.message).toBe("Use at least 10 characters.");
-    const mismatch = acceptInviteSchema.safeParse({ token: "a".repeat(43), name: "Al Grower", password: "long-enough-1", confirm: "long-enough-2" });
+    const mismatch = acceptInviteSchema(english).safeParse({ token: "a".repeat(43), name: "Al Grower", password: "long-enough-1", confirm: "long-enough-2" });
     expect(mismatch.error!.issues[0]!.message).toBe("The two passwords are not the same.");
+  });
+  it("a Spanish reader's sign-in and new-password checks come out in Spanish", () => {
+    const signIn = signInSchema(spanish).safeParse({ email: "not-an-email", password: "" });
+    const messages = signIn.error!.issues.map((i) => i.message);
+    expect(messages).toContain("Escriba una dirección de correo como nombre@ejemplo.org.");
+    expect(messages).toContain("Escriba su contraseña.");
+    const short = acceptInviteSchema(spanish).safeParse({ token: "a".repeat(43), name: "Ana", password: "corta", confirm: "corta" });
+    expect(short.error!.issues[0]!.message).toBe("Use al menos 10 caracteres.");
+    const mismatch = acceptInviteSchema(spanish).safeParse({ token: "a".repeat(43), name: "Ana", password: "bastante-larga-1", confirm: "bastante-larga-2" });
+    expect(mismatch.error!.issues[0]!.message).toBe("Las dos contraseñas no coinciden.");
   });
   it("asks for the grower's site when it is blank or not a site", () => {
     for (const siteId of ["", "abc", undefined]) {
