@@ -65,7 +65,8 @@ export function toPublicTraitView(result: PublicTraitResult, t: Translator = tra
     computation: result.trait.computation,
     order: order.short,
     orderSentence: order.sentence,
-    problem: result.combinedProblem,
+    // The reason is stored as the analysis worded it, in English; other languages say there is too little data.
+    problem: t.locale === "en" ? result.combinedProblem : null,
     scope: result.combined
       ? t("publicTables.scopeSites", { count: String(result.combined.sites) })
       : site
@@ -103,10 +104,10 @@ export function toPublicGerminationView(results: { result: PublicTraitResult }[]
 
 /**
  * The germination notes worded again from the published figures (published versions keep them in English);
- * a note that reports a test that could not be run stays as published.
+ * a test that could not be run is said so plainly (its reason is stored in English).
  */
 function localGerminationNote(t: Translator, g: PublicGerminationView): string {
-  if (g.note.includes("could not be run")) return g.note;
+  if (g.note.includes("could not be run")) return t("summary.germinationNotRun");
   const figures = figuresOf(t);
   const parts: string[] = [];
   if (g.chiSquare) parts.push(t("summary.germinationPooled", { differed: g.chiSquare.p < 0.05 ? "yes" : "no", statistic: figures.number(g.chiSquare.statistic, 2), df: String(g.chiSquare.df), p: figures.p(g.chiSquare.p) }));

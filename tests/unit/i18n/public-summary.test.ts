@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { summariseForGrowers, type SummarisedResult } from "@/lib/domain/publish/summary";
-import { localComparisonNote, toPublicTraitView } from "@/lib/domain/publish/public-view";
+import { localComparisonNote, toPublicGerminationView, toPublicTraitView } from "@/lib/domain/publish/public-view";
 import { translatorFor } from "@/lib/domain/i18n/catalogue";
 import type { PublicTraitResult } from "@/lib/domain/publish/public-shape";
 
@@ -62,5 +62,17 @@ describe("the public trial page's summary in Spanish", () => {
     expect(toPublicTraitView({ ...view, trait, perSite: [], combined: null, combinedProblem: null } as unknown as PublicTraitResult).orderSentence).toBe(
       "Listed highest first: higher is better for this trait, so rank 1 has the highest mean.",
     );
+  });
+
+  it("a reason stored in English (no combined analysis, a germination test that could not run) is not shown to a Spanish reader", () => {
+    const es = translatorFor("es");
+    const trait = { ...YIELD.trait } as PublicTraitResult["trait"];
+    const empty = { trait, perSite: [], combined: null, combinedProblem: "A combined analysis needs at least 2 analysed sites (there is 1).", missing: [], exclusions: [], warnings: [], notes: [], germination: null, emergence: null } as unknown as PublicTraitResult;
+    expect(toPublicTraitView(empty, es).problem).toBeNull();
+    expect(toPublicTraitView(empty).problem).toBe("A combined analysis needs at least 2 analysed sites (there is 1).");
+    const germination = { byEntry: [], bySite: [], chiSquare: null, cmh: null, labels: [], note: "The germination chi-square could not be run: every count is zero." };
+    const withCounts = [{ result: { ...empty, germination } as unknown as PublicTraitResult }];
+    expect(toPublicGerminationView(withCounts, es)!.note).toBe("No se pudieron realizar las pruebas de germinación con estos conteos.");
+    expect(toPublicGerminationView(withCounts)!.note).toBe(germination.note);
   });
 });
