@@ -1,7 +1,7 @@
 "use client";
 import { useEffect, useRef, useState } from "react";
 import * as Plot from "@observablehq/plot";
-import { useTranslations } from "next-intl";
+import { useLocale, useTranslations } from "next-intl";
 
 /**
  * An Observable Plot chart that redraws at the width of its container (phone or desktop). The chart
@@ -25,6 +25,7 @@ export function Chart({
 }) {
   const box = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(0);
+  const locale = useLocale();
 
   useEffect(() => {
     const el = box.current;
@@ -37,11 +38,12 @@ export function Chart({
   useEffect(() => {
     const el = box.current;
     if (!el || width === 0) return;
-    const chart = Plot.plot({ height, style: { fontSize: width < 500 ? "11px" : "13px", background: "transparent" }, ...build(width), width });
+    const options = build(width);
+    const chart = Plot.plot({ height, style: { fontSize: width < 500 ? "11px" : "13px", background: "transparent" }, ...(locale === "en" ? options : withNumberTicksIn(locale, options)), width });
     chart.setAttribute("aria-hidden", "true");
     el.append(chart);
     return () => chart.remove();
-  }, [build, width, height]);
+  }, [build, width, height, locale]);
 
   const t = useTranslations("frame");
   return (
@@ -55,4 +57,11 @@ export function Chart({
       {children}
     </figure>
   );
+}
+
+/** Number ticks in the page's language ("19,5" in Spanish); a scale's own tick format, and names on a band scale, stay as they are. */
+function withNumberTicksIn(locale: string, options: Plot.PlotOptions): Plot.PlotOptions {
+  const tick = (d: unknown) => (typeof d === "number" ? d.toLocaleString(locale) : String(d));
+  const scale = (s: Plot.ScaleOptions | undefined): Plot.ScaleOptions => (s?.tickFormat !== undefined ? s : { ...s, tickFormat: tick });
+  return { ...options, x: scale(options.x), y: scale(options.y) };
 }

@@ -84,6 +84,11 @@ describe("public pages in Spanish", () => {
     expect(trial).toContain("Puesto");
     expect(trial).toMatch(/\d,\d/); // Spanish figures: a decimal comma
     expect(trial).toMatch(/Resultados de \d+ de \d+ sitios\./);
+    // The charts' axes number their ticks in Spanish too ("19,5", not "19.5").
+    await page.locator("main figure svg text").first().waitFor({ state: "attached" });
+    const ticks = (await page.locator("main figure svg text").allTextContents()).map((x) => x.trim()).filter((x) => /^[\d.,−-]+$/.test(x));
+    expect(ticks.length).toBeGreaterThan(0);
+    expect(ticks.filter((x) => /\d\.\d/.test(x))).toEqual([]);
 
     const variety = page.locator("main a[href*='/varieties/']").first();
     expect(await variety.getAttribute("href")).toMatch(/^\/varieties\/\d+\?lang=es$/);
