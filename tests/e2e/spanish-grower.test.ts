@@ -207,6 +207,12 @@ describe("a grower whose language is Spanish", () => {
     expect(map).toContain("Mapa de bandejas");
     expect(map).toContain("TRATADA");
     expect(map).toMatch(/Página 1 de \d/);
+    // The page the printouts are fetched from speaks her language too: the map, the plot list, the cautions.
+    await page.goto(`/portal/trials/${trialId}/sites/${siteId}`);
+    await page.getByRole("heading", { name: "Dónde va cada código" }).waitFor();
+    const layoutPage = await page.locator("main").innerText();
+    for (const spanish of ["Hoja de datos de campo (PDF)", "Toca en cada parcela", "Protocolo y seguridad", "Semilla tratada en este kit", "Todas las parcelas de este sitio"]) expect(layoutPage).toContain(spanish);
+    expect(layoutPage).not.toMatch(/Field data sheet|Where each code goes|Due on every plot|Protocol and safety|Treated seed in this kit|Every plot at this site/);
     await context.close();
 
     // Staff set the site's printouts to Spanish: the packing list prints in Spanish for an English-reading coordinator.

@@ -13,8 +13,12 @@ import { cautionsFor, sheetColumns } from "@/lib/domain/design/cautions";
 import { treatedCodes } from "@/lib/domain/design/kits";
 import { addDays } from "@/lib/domain/schedule";
 import { formatDate } from "@/lib/domain/vocabulary/labels";
+import { getLocale } from "next-intl/server";
+import { localeOr, translatorFor } from "@/lib/domain/i18n/catalogue";
 
-export const metadata: Metadata = { title: "Site layout" };
+export async function generateMetadata(): Promise<Metadata> {
+  return { title: translatorFor(localeOr(await getLocale()))("siteLayout.title") };
+}
 
 export default async function SiteLayoutPage({ params }: { params: Promise<{ trialId: string; siteId: string }> }) {
   const viewer = await requireUser();
@@ -24,60 +28,82 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
   if (!trialId.success || !siteId.success) notFound();
   const layout = await getSiteLayout(viewer, { trialId: trialId.data, siteId: siteId.data });
   if (!layout) notFound();
-  const cautions = cautionsFor({ treatedCodes: treatedCodes(layout.entries), plotUnit: layout.plotUnit, growingSetup: layout.growingSetup });
-  const columns = sheetColumns(layout.traits, (day) => (layout.sownOn ? formatDate(addDays(layout.sownOn, day)) : null));
+  // In the reader's own language, as the printouts are (a grower reading Spanish gets this page in Spanish).
+  const locale = localeOr(await getLocale());
+  const t = translatorFor(locale);
+  const cautions = cautionsFor({ treatedCodes: treatedCodes(layout.entries), plotUnit: layout.plotUnit, growingSetup: layout.growingSetup }, t);
+  const columns = sheetColumns(layout.traits, (day) => (layout.sownOn ? formatDate(addDays(layout.sownOn, day), locale) : null), t);
   const pdf = (kind: string) => `/portal/trials/${layout.trialId}/sites/${layout.siteId}/sheets?kind=${kind}`;
-  const mapName = layout.plotUnit === "bed_row" ? "Field map" : "Tray map";
+  const mapName = layout.plotUnit === "bed_row" ? t("sheets.fieldMap") : t("sheets.trayMap");
+  const mapWords = {
+    noLayout: t("siteLayout.noLayout"),
+    block: (block: number) => t("sheets.block", { block: String(block) }),
+    flat: (tray: number) => t("sheets.flat", { tray: String(tray) }),
+    insert: (n: number) => t("sheets.insert", { n: String(n) }),
+    empty: t("sheets.empty"),
+    insertOrder: t("siteLayout.insertOrder"),
+  };
+  const tableWords = {
+    plot: t("sheets.colPlot"),
+    block: t("sheets.colBlock"),
+    code: t("sheets.colCode"),
+    varietyKey: t("siteLayout.colVarietyKey"),
+    flatInsert: t("siteLayout.colFlatInsert"),
+    flatCell: t("siteLayout.colFlatCell"),
+    caption: t("siteLayout.everyPlot"),
+    filter: t("siteLayout.filterPlots"),
+  };
 
   return (
     <div className="space-y-6">
-      <p className="no-print text-sm">{layout.showKey ? <Link href={`/portal/trials/${layout.trialId}`}>← {layout.title}</Link> : <Link href="/portal">← Home</Link>}</p>
+      <p className="no-print text-sm">{layout.showKey ? <Link href={`/portal/trials/${layout.trialId}`}>← {layout.title}</Link> : <Link href="/portal">← {t("siteLayout.backHome")}</Link>}</p>
       <div>
         <h1 className="text-3xl font-bold">
           {mapName}: {layout.siteName}
         </h1>
         <p className="text-loam-700">
-          {layout.title} (<span className="font-mono">{layout.code}</span>) · {layout.crop} · sowing {formatDate(layout.sownOn)} · layout seed{" "}
+          {layout.title} (<span className="font-mono">{layout.code}</span>) · {layout.crop} · {t("siteLayout.sowing", { date: formatDate(layout.sownOn, locale) })} · {t("siteLayout.layoutSeed")}{" "}
           <span className="font-mono">{layout.randomSeed ?? "—"}</span>
         </p>
       </div>
 
       {layout.plots.length > 0 && (
-        <Card title="Print" className="no-print">
+        <Card title={t("siteLayout.print")} className="no-print">
           <div className="flex flex-wrap gap-2">
             <a href={pdf("map")} className={buttonClasses("primary")}>
-              {mapName} (PDF)
+              {t("siteLayout.mapPdf", { map: mapName })}
             </a>
             <a href={pdf("labels")} className={buttonClasses("secondary")}>
-              Plot labels with QR codes (PDF)
+              {t("siteLayout.labelsPdf")}
             </a>
             <a href={pdf("sheet")} className={buttonClasses("secondary")}>
-              Field data sheet (PDF)
+              {t("siteLayout.sheetPdf")}
             </a>
             {viewer.role !== "cooperator" && (
               <a href={pdf("packing")} className={buttonClasses("secondary")}>
-                Kit packing list (PDF)
+                {t("siteLayout.packingPdf")}
               </a>
             )}
             <PrintButton />
           </div>
           <p className="mt-2 text-sm text-loam-700">
-            PDFs are US Letter; add <span className="font-mono">&amp;size=A4</span> to the address for A4.
+            {t("siteLayout.paperSize", { param: "&size=A4" })}
           </p>
         </Card>
       )}
 
-      <Card title="Where each code goes">
-        <SiteMap layout={layout} />
+      <Card title={t("siteLayout.whereCodesGo")}>
+        <SiteMap layout={layout} words={mapWords} />
       </Card>
 
-      <Card title="Plots and what to record" className="break-before-page">
+      <Card title={t("siteLayout.plotsToRecord")} className="break-before-page">
         <SitePlotsTable
           plots={layout.plots.map((p) => ({ id: p.id, plotCode: p.plotCode, block: p.block, blindCode: p.blindCode, tray: p.tray, traySlot: p.traySlot, variety: layout.showKey ? p.variety : null }))}
           showKey={layout.showKey}
           plotUnit={layout.plotUnit}
+          words={tableWords}
         />
-        <h3 className="mt-4 font-semibold">Due on every plot</h3>
+        <h3 className="mt-4 font-semibold">{t("siteLayout.duePerPlot")}</h3>
         <ul className="list-inside list-disc text-sm">
           {columns.map((c, i) => (
             <li key={i}>
@@ -87,7 +113,7 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
         </ul>
       </Card>
 
-      <Card title="Protocol and safety">
+      <Card title={t("siteLayout.protocolSafety")}>
         {layout.protocol && <p className="mb-3 text-sm">{layout.protocol}</p>}
         <CautionList cautions={cautions} />
       </Card>
