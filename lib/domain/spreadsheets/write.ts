@@ -1,4 +1,4 @@
-import type ExcelJS from "exceljs";
+import ExcelJS from "exceljs";
 
 // The one writer for every spreadsheet Seedplot hands out, CSV or xlsx: analysis exports, site data
 // sheets and templates, public downloads. Names and notes come from coordinators and growers, so any text
@@ -84,4 +84,25 @@ export function xlsxValue(cell: SheetCell): ExcelJS.CellValue {
 /** Adds one row to a worksheet through `xlsxValue`. */
 export function addSheetRow(sheet: ExcelJS.Worksheet, cells: readonly SheetCell[]): ExcelJS.Row {
   return sheet.addRow(cells.map(xlsxValue));
+}
+
+/** A named table of rows: one sheet of a workbook, or one CSV file. */
+export interface SheetTable {
+  name: string;
+  columns: readonly string[];
+  rows: readonly (readonly SheetCell[])[];
+}
+
+/** Tables as one .xlsx workbook: a sheet each, its heading row bold and frozen, columns as wide as their headings need. */
+export async function tablesXlsx(tables: readonly SheetTable[]): Promise<Uint8Array<ArrayBuffer>> {
+  const workbook = new ExcelJS.Workbook();
+  workbook.creator = "Seedplot";
+  for (const table of tables) {
+    const sheet = workbook.addWorksheet(table.name);
+    addSheetRow(sheet, table.columns).font = { bold: true };
+    for (const row of table.rows) addSheetRow(sheet, row);
+    sheet.views = [{ state: "frozen", ySplit: 1 }];
+    sheet.columns.forEach((column, i) => (column.width = Math.min(60, Math.max(10, table.columns[i]!.length + 4))));
+  }
+  return new Uint8Array((await workbook.xlsx.writeBuffer()) as ArrayBuffer);
 }

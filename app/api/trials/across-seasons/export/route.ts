@@ -1,9 +1,8 @@
-import ExcelJS from "exceljs";
 import { AppError } from "@/lib/errors";
 import { acrossSeasonsExportSchema } from "@/lib/validation/analysis";
 import { loadAcrossSeasons } from "@/server/analysis/across-seasons";
 import { ACROSS_SEASONS_CSV, acrossSeasonsTables } from "@/lib/domain/analysis/across-seasons-export";
-import { addSheetRow, csvFile } from "@/lib/domain/spreadsheets/write";
+import { csvFile, tablesXlsx } from "@/lib/domain/spreadsheets/write";
 import { defineRoute } from "@/server/http/define-route";
 
 export const runtime = "nodejs";
@@ -27,17 +26,7 @@ export const GET = defineRoute({ roles: ["coordinator", "admin"], query: { schem
     });
   }
 
-  const workbook = new ExcelJS.Workbook();
-  workbook.creator = "Seedplot";
-  for (const table of tables) {
-    const sheet = workbook.addWorksheet(table.name);
-    addSheetRow(sheet, table.columns).font = { bold: true };
-    for (const row of table.rows) addSheetRow(sheet, row);
-    sheet.views = [{ state: "frozen", ySplit: 1 }];
-    sheet.columns.forEach((column, i) => (column.width = Math.min(60, Math.max(10, table.columns[i]!.length + 4))));
-  }
-  const buffer = await workbook.xlsx.writeBuffer();
-  return new Response(new Uint8Array(buffer as ArrayBuffer), {
+  return new Response(await tablesXlsx(tables), {
     headers: { ...headers, "Content-Type": "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet", "Content-Disposition": `attachment; filename="${base}.xlsx"` },
   });
 });
