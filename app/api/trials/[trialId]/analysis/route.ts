@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { AppError } from "@/lib/errors";
+import { analysisQueryOf, versionedAnswer } from "@/server/analysis/http";
 import { idParam } from "@/lib/validation/common";
-import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { defineRoute } from "@/server/http/define-route";
 import { prepareAnalysis, viewAnalysis } from "@/server/analysis/load-analysis";
 import { toPageView } from "@/lib/domain/analysis/page-view";
@@ -10,12 +10,6 @@ export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
 
 const paramsSchema = z.object({ trialId: idParam });
-
-function analysisQueryOf(search: URLSearchParams) {
-  const query = parseAnalysisQuery(search);
-  if (!query.ok) throw new AppError("bad_request", query.message);
-  return query.data;
-}
 
 /**
  * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
@@ -34,9 +28,8 @@ export const GET = defineRoute(
   async ({ viewer, params, query, request }) => {
     const prepared = await prepareAnalysis(viewer, params.trialId, query);
     if (!prepared) throw new AppError("not_found", "That trial does not exist, or its results have not been shared with you.");
-    const headers = { ETag: prepared.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
-    const match = request.headers.get("if-none-match");
-    if (match && match.split(",").some((t) => t.trim() === prepared.etag)) return new Response(null, { status: 304, headers });
+    const { headers, notModified } = versionedAnswer(request, prepared.etag);
+    if (notModified) return notModified;
     const view = await viewAnalysis(viewer, params.trialId, prepared, (query.plots ?? false) && !query.page);
     if (!view) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
     return Response.json(query.page ? toPageView(view) : view, { headers });

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { AppError } from "@/lib/errors";
+import { analysisQueryOf, versionedAnswer } from "@/server/analysis/http";
 import { idParam } from "@/lib/validation/common";
-import { parseAnalysisQuery } from "@/lib/validation/analysis";
 import { defineRoute } from "@/server/http/define-route";
 import { loadSiteSection } from "@/server/analysis/load-analysis";
 
@@ -9,12 +9,6 @@ export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
 
 const paramsSchema = z.object({ trialId: idParam, siteId: idParam });
-
-function analysisQueryOf(search: URLSearchParams) {
-  const query = parseAnalysisQuery(search);
-  if (!query.ok) throw new AppError("bad_request", query.message);
-  return query.data;
-}
 
 /**
  * One site's section of the analysis page for the same settings as the page (its means with letters, its
@@ -31,9 +25,8 @@ export const GET = defineRoute(
   async ({ viewer, params, query, request }) => {
     const loaded = await loadSiteSection(viewer, params.trialId, params.siteId, query);
     if (!loaded) throw new AppError("not_found", "That site is not in this analysis, or its results have not been shared with you.");
-    const headers = { ETag: loaded.etag, "Cache-Control": "private, no-cache", Vary: "Cookie" };
-    const match = request.headers.get("if-none-match");
-    if (match && match.split(",").some((t) => t.trim() === loaded.etag)) return new Response(null, { status: 304, headers });
+    const { headers, notModified } = versionedAnswer(request, loaded.etag);
+    if (notModified) return notModified;
     return Response.json(loaded.section, { headers });
   },
 );
