@@ -20,8 +20,10 @@ export const emailIn = (w: AuthCheckWords) =>
     .max(254, w("emailTooLong"))
     .pipe(z.email({ error: w("emailLike") }));
 
+const englishChecks = authCheckWords(translatorFor("en"));
+
 /** Staff forms (inviting a grower) stay English. */
-export const email = emailIn(authCheckWords(translatorFor("en")));
+export const email = emailIn(englishChecks);
 
 export const signInFields = (w: AuthCheckWords) =>
   z.object({
@@ -39,8 +41,9 @@ const newPasswordIn = (w: AuthCheckWords) =>
     })
     .refine((v) => v.password === v.confirm, { path: ["confirm"], message: w("passwordsDiffer") });
 
-export const tokenSchema = z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, "This link is not valid.");
 const tokenIn = (w: AuthCheckWords) => z.string().regex(/^[A-Za-z0-9_-]{32,64}$/, w("linkInvalid"));
+/** A link's token read from the address by the reset and invitation pages (which show their own words for a bad one). */
+export const tokenSchema = tokenIn(englishChecks);
 
 /** The language of the page a signed-out form was sent from (its `?lang=`), for the words of the answer. */
 const pageLanguage = z.enum(LOCALES).catch("en");
