@@ -211,8 +211,8 @@ describe("a grower whose language is Spanish", () => {
     await page.goto(`/portal/trials/${trialId}/sites/${siteId}`);
     await page.getByRole("heading", { name: "Dónde va cada código" }).waitFor();
     const layoutPage = await page.locator("main").innerText();
-    for (const spanish of ["Hoja de datos de campo (PDF)", "Toca en cada parcela", "Protocolo y seguridad", "Semilla tratada en este kit", "Todas las parcelas de este sitio"]) expect(layoutPage).toContain(spanish);
-    expect(layoutPage).not.toMatch(/Field data sheet|Where each code goes|Due on every plot|Protocol and safety|Treated seed in this kit|Every plot at this site/);
+    for (const spanish of ["Hoja de datos de campo (PDF)", "Imprimir esta página", "Toca en cada parcela", "Protocolo y seguridad", "Semilla tratada en este kit", "Todas las parcelas de este sitio"]) expect(layoutPage).toContain(spanish);
+    expect(layoutPage).not.toMatch(/Field data sheet|Print this page|Where each code goes|Due on every plot|Protocol and safety|Treated seed in this kit|Every plot at this site/);
     await context.close();
 
     // Staff set the site's printouts to Spanish: the packing list prints in Spanish for an English-reading coordinator.

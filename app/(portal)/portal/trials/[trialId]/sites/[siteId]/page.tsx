@@ -84,7 +84,7 @@ export default async function SiteLayoutPage({ params }: { params: Promise<{ tri
                 {t("siteLayout.packingPdf")}
               </a>
             )}
-            <PrintButton />
+            <PrintButton>{t("siteLayout.printPage")}</PrintButton>
           </div>
           <p className="mt-2 text-sm text-loam-700">
             {t("siteLayout.paperSize", { param: "&size=A4" })}
