@@ -6,6 +6,11 @@ function homeSlot(label: string, mask: number): number {
   return (length * 0x9e37 + label.charCodeAt(length - 1)) & mask;
 }
 
+/** A packed array of nulls: a holey one (`new Array(n).fill(null)`) makes every lookup check for holes. */
+function emptySlots(size: number): (string | null)[] {
+  return Array.from({ length: size }, () => null);
+}
+
 /**
  * Maps entry / block / site labels to dense indices in order of first appearance, rejecting empty
  * and non-string labels. A small open-addressing table: labels repeat, so nearly every lookup hits
@@ -18,7 +23,7 @@ export class LabelIndex {
   private mask: number;
 
   constructor(private readonly kind: string) {
-    this.slots = new Array<string | null>(64).fill(null);
+    this.slots = emptySlots(64);
     this.slotIndex = new Int32Array(64);
     this.mask = 63;
   }
@@ -68,7 +73,7 @@ export class LabelIndex {
 
   private grow(): void {
     const size = this.slots.length * 4;
-    this.slots = new Array<string | null>(size).fill(null);
+    this.slots = emptySlots(size);
     this.slotIndex = new Int32Array(size);
     this.mask = size - 1;
     for (let i = 0; i < this.labels.length; i++) {
