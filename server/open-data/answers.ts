@@ -1,10 +1,10 @@
 import "server-only";
 
 // The open data API's answers: anonymous, read-only, published versions only. Any site may read them from
-// a browser (no cookies are involved), and caches may keep them briefly: a withdrawn version disappears
-// within a minute.
+// a browser (no cookies are involved). Caches may keep them but must ask again before each use, so a
+// withdrawn version is gone for every reader at once.
 export const OPEN_DATA_HEADERS: Record<string, string> = {
-  "Cache-Control": "public, max-age=60",
+  "Cache-Control": "public, no-cache",
   "Access-Control-Allow-Origin": "*",
   "X-Content-Type-Options": "nosniff",
 };

@@ -92,8 +92,25 @@ describe("the public cache", () => {
       }
     }
 
+    // No public answer may be reused by a browser or shared cache without asking first: the report PDF
+    // and the open data answers say so, and a client holding the report's tag is answered 304 while the
+    // version stands.
+    const report = `/results/${CODE}/report`;
+    const pdf = await get(a, report);
+    expect([pdf.status, pdf.headers.get("content-type"), pdf.headers.get("cache-control")]).toEqual([200, "application/pdf", "public, no-cache"]);
+    await pdf.arrayBuffer();
+    const reportTag = pdf.headers.get("etag")!;
+    expect(reportTag).toMatch(/^".+"$/);
+    for (const server of [a, b]) expect([server.base, (await get(server, report, { "If-None-Match": reportTag })).status]).toEqual([server.base, 304]);
+    for (const path of trialAddresses().slice(1)) {
+      const res = await get(a, path);
+      await res.arrayBuffer();
+      expect([path, res.headers.get("cache-control")]).toEqual([path, "public, no-cache"]);
+    }
+
     await withdrawResults(coordinator, { trialId, reason: "A labelling mix-up at one site is being checked." });
     try {
+      for (const server of [a, b]) expect([server.base, (await get(server, report, { "If-None-Match": reportTag })).status]).toEqual([server.base, 404]);
       for (const server of [a, b]) {
         const page = await get(server, `/results/${CODE}`);
         expect(page.status).toBe(200);
