@@ -6,6 +6,7 @@ import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 import { saveObservationsForViewer } from "@/server/observations/recording";
+import { translatorFor } from "@/lib/domain/i18n/catalogue";
 
 // Saves at the same moment, on a trial of this file's own program (two sites, a grower each), so other test files'
 // saves never hold the locks these tests look at. A second connection plays "everyone else".
@@ -122,5 +123,29 @@ describe("saves at the same moment", () => {
     expect(audit.map((a) => a.action).sort()).toEqual(["observation.change", "observation.record"]);
     const [submission] = await db.select({ status: s.submissions.status }).from(s.submissions).where(inArray(s.submissions.enrolmentId, [site.enrolmentId]));
     expect(submission?.status).toBe("draft");
+  });
+
+  it("a save waiting for its site behind a send for review is refused once that commits, not written from an older snapshot", async () => {
+    const site = sites[0]!;
+    const [submission] = await db.select({ status: s.submissions.status }).from(s.submissions).where(eq(s.submissions.enrolmentId, site.enrolmentId));
+    const sender = await mysql.createConnection(url);
+    try {
+      // Another request holds the site's row and sends its data set for review.
+      await sender.query("BEGIN");
+      await sender.query("SELECT id FROM enrolments WHERE id = ? FOR UPDATE", [site.enrolmentId]);
+      await sender.query("INSERT INTO submissions (enrolment_id, status) VALUES (?, 'submitted') ON DUPLICATE KEY UPDATE status = 'submitted'", [site.enrolmentId]);
+      const saving = save(site, site.plotIds[0]!, "1250");
+      saving.catch(() => undefined);
+      // The save has read the trial (its share lock is held) and now waits for the site's row.
+      while (await canLock("SELECT id FROM trials WHERE id = ? FOR UPDATE", [trialId])) await new Promise((r) => setTimeout(r, 20));
+      await sender.query("COMMIT");
+      await expect(saving).rejects.toThrow(translatorFor("en")("forms.submittedLocked"));
+      const [row] = await db.select({ value: s.observations.valueNumber }).from(s.observations).where(and(eq(s.observations.plotId, site.plotIds[0]!), eq(s.observations.traitId, traitId)));
+      expect(row?.value).not.toBe(1250);
+    } finally {
+      await sender.query("ROLLBACK").catch(() => undefined);
+      await sender.end();
+      await db.update(s.submissions).set({ status: submission?.status ?? "draft" }).where(eq(s.submissions.enrolmentId, site.enrolmentId));
+    }
   });
 });
