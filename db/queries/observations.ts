@@ -4,6 +4,7 @@ import { db, type Tx } from "../index";
 import { clientSaves, enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import { plotLayoutFields } from "./trial-parts";
+import { fixedSql } from "../fixed-sql";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { TraitForColumns } from "@/lib/domain/observations/columns";
 import type { CellValue } from "@/lib/domain/observations/values";
@@ -120,19 +121,13 @@ export interface SaveSite {
  */
 export async function getSaveTarget(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false): Promise<{ site: SaveSite; traits: TraitForColumns[] } | null> {
   const grower = viewer.role === "cooperator";
-  const [traitRows] = (await ex.execute(sql`
-    SELECT ${trials.status} AS trial_status, ${traits.id} AS id, ${traits.code} AS code, ${traits.name} AS name, ${traits.unit} AS unit,
-      ${traits.valueType} AS value_type, ${traits.minValue} AS min_value, ${traits.maxValue} AS max_value,
-      ${traits.dueDaysAfterSowing} AS due_days, ${traits.dueByDay} AS due_by_day, ${traits.dueNote} AS due_note, ${traits.computation} AS computation
-    FROM ${trials} LEFT JOIN ${trialTraits} ON ${trialTraits.trialId} = ${trials.id} LEFT JOIN ${traits} ON ${traits.id} = ${trialTraits.traitId}
-    WHERE ${trials.id} = ${p.trialId}${grower ? sql`` : sql` AND ${staffTrialScope(viewer)}`}
-    ORDER BY ${trialTraits.sortOrder}, ${trialTraits.id}${lock ? sql` LOCK IN SHARE MODE` : sql``}`)) as unknown as [SaveTraitRow[]];
+  const [traitRows] = (await ex.execute(
+    sql`${SAVE_TRIAL.select}${p.trialId}${grower ? NOTHING : sql` AND ${staffTrialScope(viewer)}`}${SAVE_TRIAL.order}${lock ? SHARE_LOCK : NOTHING}`,
+  )) as unknown as [SaveTraitRow[]];
   if (traitRows.length === 0) return null;
-  const [siteRows] = (await ex.execute(sql`
-    SELECT ${enrolments.id} AS id, ${enrolments.sownOn} AS sown_on, ${enrolments.transplantedOn} AS transplanted_on,
-      (SELECT s.status FROM ${submissions} s WHERE s.enrolment_id = ${enrolments.id}) AS submission_status
-    FROM ${enrolments}
-    WHERE ${enrolments.trialId} = ${p.trialId} AND ${enrolments.siteId} = ${p.siteId}${grower ? sql` AND ${cooperatorEnrolmentScope(viewer)}` : sql``}${lock ? sql` FOR UPDATE` : sql``}`)) as unknown as [SaveSiteRow[]];
+  const [siteRows] = (await ex.execute(
+    sql`${SAVE_SITE.select}${p.trialId}${SAVE_SITE.andSite}${p.siteId}${grower ? sql` AND ${cooperatorEnrolmentScope(viewer)}` : NOTHING}${lock ? UPDATE_LOCK : NOTHING}`,
+  )) as unknown as [SaveSiteRow[]];
   const row = siteRows[0];
   if (!row) return null;
   const site: SaveSite = { enrolmentId: row.id, trialId: p.trialId, trialStatus: traitRows[0]!.trial_status, sownOn: row.sown_on, transplantedOn: row.transplanted_on, submissionStatus: row.submission_status };
@@ -155,6 +150,28 @@ export async function getSaveTarget(ex: Executor, viewer: Viewer, p: { trialId: 
   }
   return { site, traits: traitList };
 }
+
+const NOTHING = sql``;
+const SHARE_LOCK = sql` LOCK IN SHARE MODE`;
+const UPDATE_LOCK = sql` FOR UPDATE`;
+
+/** getSaveTarget's first read: the trial's status and its traits in the trial's order (none: one row with no trait). */
+const SAVE_TRIAL = {
+  select: fixedSql(sql`SELECT ${trials.status} AS trial_status, ${traits.id} AS id, ${traits.code} AS code, ${traits.name} AS name, ${traits.unit} AS unit,
+      ${traits.valueType} AS value_type, ${traits.minValue} AS min_value, ${traits.maxValue} AS max_value,
+      ${traits.dueDaysAfterSowing} AS due_days, ${traits.dueByDay} AS due_by_day, ${traits.dueNote} AS due_note, ${traits.computation} AS computation
+    FROM ${trials} LEFT JOIN ${trialTraits} ON ${trialTraits.trialId} = ${trials.id} LEFT JOIN ${traits} ON ${traits.id} = ${trialTraits.traitId}
+    WHERE ${trials.id} = `),
+  order: fixedSql(sql` ORDER BY ${trialTraits.sortOrder}, ${trialTraits.id}`),
+};
+
+/** getSaveTarget's second read: the site's enrolment, and the review state of its data set (a plain read, made once the row is held). */
+const SAVE_SITE = {
+  select: fixedSql(sql`SELECT ${enrolments.id} AS id, ${enrolments.sownOn} AS sown_on, ${enrolments.transplantedOn} AS transplanted_on,
+      (SELECT s.status FROM ${submissions} s WHERE s.enrolment_id = ${enrolments.id}) AS submission_status
+    FROM ${enrolments} WHERE ${enrolments.trialId} = `),
+  andSite: fixedSql(sql` AND ${enrolments.siteId} = `),
+};
 
 /** A row of getSaveTarget's first read, as the driver returns it: the trial's status, and one trait or none. */
 interface SaveTraitRow {
@@ -235,17 +252,10 @@ export async function listEnrolmentObservations(ex: Executor, enrolmentId: numbe
  * the server's checks only, never sent to a grower.
  */
 export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
-  // Written as one SQL template rather than with the query builder: every save runs it, and building and
-  // mapping the builder's joined select cost more than the rest of the read.
-  const [rows] = (await ex.execute(sql`
-    SELECT ${plots.id} AS id, ${plots.plotCode} AS plot_code, ${seedLots.packetDaysToMaturity} AS packet_days,
-      ${observations.id} AS observation_id, ${observations.traitId} AS trait_id, ${observations.occasion} AS occasion,
-      ${observations.valueNumber} AS value_number, ${observations.valueDate} AS value_date, ${observations.valueText} AS value_text, ${observations.missingReason} AS missing_reason
-    FROM ${plots}
-      JOIN ${trialEntries} ON ${trialEntries.id} = ${plots.entryId}
-      LEFT JOIN ${seedLots} ON ${seedLots.id} = ${trialEntries.seedLotId}
-      LEFT JOIN ${observations} ON ${observations.plotId} = ${plots.id}
-    WHERE ${plotFilter(enrolmentId, onlyPlots)}`)) as unknown as [PlotForSaveRow[]];
+  // Text rendered once rather than the query builder's select: every save runs it, and building and mapping
+  // the builder's joined select cost more than the rest of the read.
+  const named = onlyPlots && onlyPlots.length > 0 ? sql`${PLOTS_FOR_SAVE.andPlotIn}${onlyPlots}` : NOTHING;
+  const [rows] = (await ex.execute(sql`${PLOTS_FOR_SAVE.select}${enrolmentId}${named}`)) as unknown as [PlotForSaveRow[]];
   const plotRows: { id: number; plotCode: string }[] = [];
   const stored: ObservationRow[] = [];
   const packetDays: Record<number, number | null> = {};
@@ -260,6 +270,18 @@ export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPl
   }
   return { plots: plotRows, stored, packetDays };
 }
+
+const PLOTS_FOR_SAVE = {
+  select: fixedSql(sql`SELECT ${plots.id} AS id, ${plots.plotCode} AS plot_code, ${seedLots.packetDaysToMaturity} AS packet_days,
+      ${observations.id} AS observation_id, ${observations.traitId} AS trait_id, ${observations.occasion} AS occasion,
+      ${observations.valueNumber} AS value_number, ${observations.valueDate} AS value_date, ${observations.valueText} AS value_text, ${observations.missingReason} AS missing_reason
+    FROM ${plots}
+      JOIN ${trialEntries} ON ${trialEntries.id} = ${plots.entryId}
+      LEFT JOIN ${seedLots} ON ${seedLots.id} = ${trialEntries.seedLotId}
+      LEFT JOIN ${observations} ON ${observations.plotId} = ${plots.id}
+    WHERE ${plots.enrolmentId} = `),
+  andPlotIn: fixedSql(sql` AND ${plots.id} IN `),
+};
 
 /** A row of listPlotsForSave's read, as the driver returns it: a plot, and one of its stored values or none. */
 interface PlotForSaveRow {
