@@ -148,4 +148,28 @@ describe("saves at the same moment", () => {
       await db.update(s.submissions).set({ status: submission?.status ?? "draft" }).where(eq(s.submissions.enrolmentId, site.enrolmentId));
     }
   });
+
+  it("a save waiting behind a change of its trial's status has not taken its site yet: the trial comes first, as status changes take them", async () => {
+    const site = sites[1]!;
+    const changer = await mysql.createConnection(url);
+    try {
+      // A status change holds the trial for writing (and would lock the trial's sites after it).
+      await changer.query("BEGIN");
+      await changer.query("SELECT id FROM trials WHERE id = ? FOR UPDATE", [trialId]);
+      const saving = save(site, site.plotIds[0]!, "1400");
+      saving.catch(() => undefined);
+      // The save's read of the trial is now waiting for that lock (this account's own statements are visible to it).
+      const waiting = async () => {
+        const [rows] = await other.query("SELECT COUNT(*) AS n FROM information_schema.PROCESSLIST WHERE INFO LIKE '%LOCK IN SHARE MODE%' AND ID <> CONNECTION_ID()");
+        return Number((rows as { n: number }[])[0]!.n) > 0;
+      };
+      while (!(await waiting())) await new Promise((r) => setTimeout(r, 20));
+      expect(await canLock("SELECT id FROM enrolments WHERE id = ? FOR UPDATE", [site.enrolmentId])).toBe(true);
+      await changer.query("COMMIT");
+      expect((await saving).saved).toBe(1);
+    } finally {
+      await changer.query("ROLLBACK").catch(() => undefined);
+      await changer.end();
+    }
+  });
 });
