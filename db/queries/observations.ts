@@ -116,13 +116,16 @@ export interface SaveSite {
  * trial for writing first) waits; the second then takes the site's enrolment row for writing, so saves for
  * one site run one after another. Locking reads start no snapshot: the first plain read of the transaction is
  * the review state read inside the second statement, once the site's row is held, so it and every later read
- * (the plots' stored values) see the latest committed save. A grower's first read names the trial by id only;
- * the ownership check is the second, scoped to their own sites; staff scope is checked on the trial.
+ * (the plots' stored values) see the latest committed save. Neither locking read may hold another subquery that
+ * runs before the site's row is taken: a subquery inside a locking read is a plain read and would start the
+ * snapshot early. So the first read names the trial by id only; a grower's ownership check is the second, scoped
+ * to their own sites (evaluated on the row once held); a staff member's programs are checked by a third read
+ * after both locks.
  */
 export async function getSaveTarget(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false): Promise<{ site: SaveSite; traits: TraitForColumns[] } | null> {
   const grower = viewer.role === "cooperator";
   const [traitRows] = (await ex.execute(
-    sql`${SAVE_TRIAL.select}${p.trialId}${grower ? NOTHING : sql` AND ${staffTrialScope(viewer)}`}${SAVE_TRIAL.order}${lock ? SHARE_LOCK : NOTHING}`,
+    sql`${SAVE_TRIAL.select}${p.trialId}${SAVE_TRIAL.order}${lock ? SHARE_LOCK : NOTHING}`,
   )) as unknown as [SaveTraitRow[]];
   if (traitRows.length === 0) return null;
   const [siteRows] = (await ex.execute(
@@ -130,6 +133,10 @@ export async function getSaveTarget(ex: Executor, viewer: Viewer, p: { trialId: 
   )) as unknown as [SaveSiteRow[]];
   const row = siteRows[0];
   if (!row) return null;
+  if (!grower) {
+    const [managed] = await ex.select({ id: trials.id }).from(trials).where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)));
+    if (!managed) return null;
+  }
   const site: SaveSite = { enrolmentId: row.id, trialId: p.trialId, trialStatus: traitRows[0]!.trial_status, sownOn: row.sown_on, transplantedOn: row.transplanted_on, submissionStatus: row.submission_status };
   const traitList: TraitForColumns[] = [];
   for (const r of traitRows) {

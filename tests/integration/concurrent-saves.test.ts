@@ -17,6 +17,7 @@ let other: mysql.Connection;
 let trialId: number;
 let traitId: number;
 const sites: { siteId: number; enrolmentId: number; grower: Viewer; plotIds: number[] }[] = [];
+let coordinator: Viewer;
 
 beforeAll(async () => {
   other = await mysql.createConnection(url);
@@ -33,6 +34,10 @@ beforeAll(async () => {
   const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
   traitId = trait!.id;
   await db.insert(s.trialTraits).values({ trialId, traitId, sortOrder: 0 });
+  const coordinatorEmail = `${tag}-coordinator@example.test`;
+  const [staff] = await db.insert(s.users).values({ email: coordinatorEmail, name: "Coordinator", role: "coordinator" }).$returningId();
+  await db.insert(s.programCoordinators).values({ programId: program!.id, userId: staff!.id });
+  coordinator = { id: staff!.id, email: coordinatorEmail, name: "Coordinator", role: "coordinator" };
   const [variety] = await db.insert(s.varieties).values({ programId: program!.id, cropId: crop!.id, name: `Variety ${tag}` }).$returningId();
   const [entry] = await db.insert(s.trialEntries).values({ trialId, varietyId: variety!.id, blindCode: "C1", entryNumber: 1 }).$returningId();
   for (const n of [1, 2]) {
@@ -171,5 +176,31 @@ describe("saves at the same moment", () => {
       await changer.query("ROLLBACK").catch(() => undefined);
       await changer.end();
     }
+  });
+
+  it("a coordinator's save waiting for the site behind a grower's save sees the grower's value, and keeps it in history", async () => {
+    const site = sites[0]!;
+    const plotId = site.plotIds[1]!;
+    const [before] = await db.select({ id: s.observations.id }).from(s.observations).where(and(eq(s.observations.plotId, plotId), eq(s.observations.traitId, traitId)));
+    expect(before).toBeUndefined();
+    const held = await saveHeldMidway(site, plotId, "3100");
+    const correcting = saveObservationsForViewer(coordinator, { trialId, siteId: site.siteId, values: [{ plotId, key: "marketable_yield", value: "3200" }] });
+    correcting.catch(() => undefined);
+    try {
+      // The coordinator's save has checked nothing yet: it waits for the site's row, which the grower's save holds.
+      const waiting = async () => {
+        const [rows] = await other.query("SELECT COUNT(*) AS n FROM information_schema.PROCESSLIST WHERE INFO LIKE '%FOR UPDATE%' AND INFO LIKE '%enrolments%' AND ID <> CONNECTION_ID()");
+        return Number((rows as { n: number }[])[0]!.n) > 0;
+      };
+      while (!(await waiting())) await new Promise((r) => setTimeout(r, 20));
+    } finally {
+      await held.release();
+    }
+    expect((await held.saving).saved).toBe(1);
+    expect((await correcting).counts).toEqual({ new: 0, changed: 1, unchanged: 0 });
+    const rows = await db.select().from(s.observations).where(and(eq(s.observations.plotId, plotId), eq(s.observations.traitId, traitId)));
+    expect(rows.map((r) => r.valueNumber)).toEqual([3200]);
+    const history = await db.select().from(s.observationHistory).where(eq(s.observationHistory.observationId, rows[0]!.id));
+    expect(history.map((h) => h.valueNumber)).toEqual([3100]);
   });
 });
