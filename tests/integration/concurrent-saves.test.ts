@@ -18,6 +18,8 @@ let trialId: number;
 let traitId: number;
 const sites: { siteId: number; enrolmentId: number; grower: Viewer; plotIds: number[] }[] = [];
 let coordinator: Viewer;
+/** A second grower of the first site, attached to it (site_cooperators) rather than named on the enrolment. */
+let attachedGrower: Viewer;
 
 beforeAll(async () => {
   other = await mysql.createConnection(url);
@@ -38,6 +40,9 @@ beforeAll(async () => {
   const [staff] = await db.insert(s.users).values({ email: coordinatorEmail, name: "Coordinator", role: "coordinator" }).$returningId();
   await db.insert(s.programCoordinators).values({ programId: program!.id, userId: staff!.id });
   coordinator = { id: staff!.id, email: coordinatorEmail, name: "Coordinator", role: "coordinator" };
+  const attachedEmail = `${tag}-attached@example.test`;
+  const [attached] = await db.insert(s.users).values({ email: attachedEmail, name: "Attached grower", role: "cooperator" }).$returningId();
+  attachedGrower = { id: attached!.id, email: attachedEmail, name: "Attached grower", role: "cooperator" };
   const [variety] = await db.insert(s.varieties).values({ programId: program!.id, cropId: crop!.id, name: `Variety ${tag}` }).$returningId();
   const [entry] = await db.insert(s.trialEntries).values({ trialId, varietyId: variety!.id, blindCode: "C1", entryNumber: 1 }).$returningId();
   for (const n of [1, 2]) {
@@ -48,6 +53,7 @@ beforeAll(async () => {
     await db.insert(s.plots).values([1, 2].map((position) => ({ enrolmentId: enrolment!.id, trialId, siteId: site!.id, entryId: entry!.id, plotCode: `Q${n}${position}${tag.slice(-4)}`, block: 1, position })));
     const plotRows = await db.select({ id: s.plots.id }).from(s.plots).where(eq(s.plots.enrolmentId, enrolment!.id)).orderBy(s.plots.position);
     sites.push({ siteId: site!.id, enrolmentId: enrolment!.id, grower: { id: user!.id, email, name: `Grower ${n}`, role: "cooperator" }, plotIds: plotRows.map((p) => p.id) });
+    if (n === 1) await db.insert(s.siteCooperators).values({ siteId: site!.id, userId: attachedGrower.id });
   }
 });
 
@@ -130,8 +136,9 @@ describe("saves at the same moment", () => {
     expect(submission?.status).toBe("draft");
   });
 
-  it("a save waiting for its site behind a send for review is refused once that commits, not written from an older snapshot", async () => {
+  it.each(["named", "attached"] as const)("a save by the site's %s grower waiting for its site behind a send for review is refused once that commits, not written from an older snapshot", async (which) => {
     const site = sites[0]!;
+    const grower = which === "named" ? site.grower : attachedGrower;
     const [submission] = await db.select({ status: s.submissions.status }).from(s.submissions).where(eq(s.submissions.enrolmentId, site.enrolmentId));
     const sender = await mysql.createConnection(url);
     try {
@@ -139,7 +146,7 @@ describe("saves at the same moment", () => {
       await sender.query("BEGIN");
       await sender.query("SELECT id FROM enrolments WHERE id = ? FOR UPDATE", [site.enrolmentId]);
       await sender.query("INSERT INTO submissions (enrolment_id, status) VALUES (?, 'submitted') ON DUPLICATE KEY UPDATE status = 'submitted'", [site.enrolmentId]);
-      const saving = save(site, site.plotIds[0]!, "1250");
+      const saving = saveObservationsForViewer(grower, { trialId, siteId: site.siteId, values: [{ plotId: site.plotIds[0]!, key: "marketable_yield", value: "1250" }] });
       saving.catch(() => undefined);
       // The save has read the trial (its share lock is held) and now waits for the site's row.
       while (await canLock("SELECT id FROM trials WHERE id = ? FOR UPDATE", [trialId])) await new Promise((r) => setTimeout(r, 20));
