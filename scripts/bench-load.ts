@@ -6,7 +6,9 @@
 // end) and afterwards reads back every value it saved. Scenarios: the public trial page, the analysis API as a coordinator, and
 // 50 growers saving values at the same time. Each is bounded by a request count and a time limit.
 // Settings: LOAD_REQUESTS (per read scenario, default 400), LOAD_CONNECTIONS (default 10), LOAD_SAVES
-// (saves per grower, default 20), LOAD_GROWERS (default 50), LOAD_SECONDS (time cap per scenario, default 60).
+// (saves per grower, default 20), LOAD_GROWERS (default 50), LOAD_SECONDS (time cap per scenario, default 60),
+// LOAD_WARMUP_SAVES (saves per grower sent before the timed saves and left out of their figures, default 0: a
+// fresh server's first thousand saves run partly unoptimised code, so the default measures a cold server).
 import { readFileSync } from "node:fs";
 import autocannon from "autocannon";
 import { and, eq, inArray, isNull } from "drizzle-orm";
@@ -20,6 +22,7 @@ const url = process.env.DATABASE_URL ?? "";
 const REQUESTS = Number(process.env.LOAD_REQUESTS ?? 400);
 const CONNECTIONS = Number(process.env.LOAD_CONNECTIONS ?? 10);
 const SAVES = Number(process.env.LOAD_SAVES ?? 20);
+const WARMUP_SAVES = Number(process.env.LOAD_WARMUP_SAVES ?? 0);
 const GROWERS = Number(process.env.LOAD_GROWERS ?? 50);
 const SECONDS = Number(process.env.LOAD_SECONDS ?? 60);
 const PLOTS_PER_SITE = 20;
@@ -203,38 +206,46 @@ try {
 
   // Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
   // three plots with values unique to (grower, save), so the last accepted value of each plot is known.
-  const cpuBefore = processCpu();
-  const statementsBefore = await statementsRun();
   const lastWritten = new Map<number, string>();
   const saveLatencies: number[] = [];
   let saveErrors = 0;
   let saveCount = 0;
-  const deadline = Date.now() + SECONDS * 1000;
-  const savesStarted = performance.now();
-  await Promise.all(
-    load.growers.map(async (g, gi) => {
-      for (let round = 0; round < SAVES && Date.now() < deadline; round += 1) {
-        const plots = [0, 1, 2].map((k) => g.plotIds[(round * 3 + k) % g.plotIds.length]!);
-        const values = plots.map((plotId, k) => ({ plotId, key: "marketable_yield", value: String(1000 + gi * 100 + round * 3 + k) }));
-        const t0 = performance.now();
-        try {
-          const res = await fetch(`${BASE}/api/observations`, {
-            method: "POST",
-            headers: { "Content-Type": "application/json", Cookie: growerCookies[gi]! },
-            body: JSON.stringify({ trialId: load.trialId, siteId: g.siteId, values }),
-            signal: AbortSignal.timeout(30_000),
-          });
-          await res.arrayBuffer();
-          if (res.ok) for (const v of values) lastWritten.set(v.plotId, v.value!);
-          else saveErrors += 1;
-        } catch {
-          saveErrors += 1;
+  const saveRounds = async (first: number, count: number, deadline: number, timed: boolean) =>
+    Promise.all(
+      load.growers.map(async (g, gi) => {
+        for (let round = first; round < first + count && Date.now() < deadline; round += 1) {
+          const plots = [0, 1, 2].map((k) => g.plotIds[(round * 3 + k) % g.plotIds.length]!);
+          const values = plots.map((plotId, k) => ({ plotId, key: "marketable_yield", value: String(1000 + gi * 100 + round * 3 + k) }));
+          const t0 = performance.now();
+          let failed = false;
+          try {
+            const res = await fetch(`${BASE}/api/observations`, {
+              method: "POST",
+              headers: { "Content-Type": "application/json", Cookie: growerCookies[gi]! },
+              body: JSON.stringify({ trialId: load.trialId, siteId: g.siteId, values }),
+              signal: AbortSignal.timeout(30_000),
+            });
+            await res.arrayBuffer();
+            if (res.ok) for (const v of values) lastWritten.set(v.plotId, v.value!);
+            else failed = true;
+          } catch {
+            failed = true;
+          }
+          if (failed) saveErrors += 1;
+          if (!timed) continue;
+          saveLatencies.push(performance.now() - t0);
+          saveCount += 1;
         }
-        saveLatencies.push(performance.now() - t0);
-        saveCount += 1;
-      }
-    }),
-  );
+      }),
+    );
+  if (WARMUP_SAVES > 0) {
+    await saveRounds(0, WARMUP_SAVES, Date.now() + SECONDS * 1000, false);
+    console.log(`Warm-up: ${WARMUP_SAVES} saves per grower sent first, left out of the figures below (LOAD_WARMUP_SAVES).`);
+  }
+  const cpuBefore = processCpu();
+  const statementsBefore = await statementsRun();
+  const savesStarted = performance.now();
+  await saveRounds(WARMUP_SAVES, SAVES, Date.now() + SECONDS * 1000, true);
   const statementsPerSave = (await statementsRun()) - statementsBefore;
   const cpuPerSave = [...processCpu()].map(([pid, ms]) => `${pid} ${((ms - (cpuBefore.get(pid) ?? 0)) / Math.max(1, saveCount)).toFixed(1)} ms`);
   figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });

@@ -4,10 +4,12 @@ import { db, type Tx } from "../index";
 import { clientSaves, enrolments, observations, plots, reviewComments, seedLots, sites, submissions, trialEntries, trialTraits, traits, trials, users } from "../schema";
 import { cooperatorEnrolmentScope, staffTrialScope } from "../access";
 import { plotLayoutFields } from "./trial-parts";
+import { fixedSql } from "../fixed-sql";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { TraitForColumns } from "@/lib/domain/observations/columns";
 import type { CellValue } from "@/lib/domain/observations/values";
 import type { MissingReason } from "@/lib/domain/observations/missing";
+import type { SubmissionStatus, TraitComputation, TraitType, TrialStatus } from "@/lib/domain/vocabulary/enums";
 
 /** Enrolments the viewer may record for: a cooperator's own sites, or the trials a staff member manages. */
 export function recordScope(viewer: Viewer): SQL {
@@ -95,27 +97,112 @@ export async function listTrialTraits(ex: Executor, trialId: number): Promise<Tr
     .orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
 }
 
+/** What a save checks its values against, of the trial and of the site (see getSaveTarget). */
+export interface SaveSite {
+  enrolmentId: number;
+  trialId: number;
+  trialStatus: TrialStatus;
+  sownOn: string | null;
+  transplantedOn: string | null;
+  /** the review state of the site's data set; null before anything was recorded */
+  submissionStatus: SubmissionStatus | null;
+}
+
 /**
- * getRecordableEnrolment and listTrialTraits in one read, for a save: one row per trait of the trial (in the
- * trial's trait order) carrying the enrolment, or one row with no trait when the trial has none. Null when
- * the enrolment is not the viewer's. `lock` takes the same locks as getRecordableEnrolment, before the read.
+ * The trial and site a save writes to, with the trial's traits in the trial's trait order; null when the
+ * site is not the viewer's to record (a grower's own sites, the trials a staff member manages: recordScope).
+ * Two reads. With `lock`, the first takes the trial row for reading (LOCK IN SHARE MODE, with its trait rows),
+ * so saves at the trial's other sites run alongside while a change of its status or traits (which lock the
+ * trial for writing first) waits; the second then takes the site's enrolment row for writing, so saves for
+ * one site run one after another. Locking reads start no snapshot: the first plain read of the transaction is
+ * the review state read inside the second statement, once the site's row is held, so it and every later read
+ * (the plots' stored values) see the latest committed save. Neither locking read may hold another subquery that
+ * runs before the site's row is taken: a subquery inside a locking read is a plain read and would start the
+ * snapshot early. So the first read names the trial by id only; a grower's ownership check is the second, scoped
+ * to their own sites (evaluated on the row once held); a staff member's programs are checked by a third read
+ * after both locks.
  */
-export async function getRecordableEnrolmentWithTraits(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false) {
-  if (lock) await lockRecordableEnrolment(ex, viewer, p);
-  const rows = await ex
-    .select({ enrolment: recordableEnrolmentFields, trait: traitColumnFields })
-    .from(enrolments)
-    .innerJoin(trials, eq(trials.id, enrolments.trialId))
-    .innerJoin(sites, eq(sites.id, enrolments.siteId))
-    .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
-    .leftJoin(trialTraits, eq(trialTraits.trialId, trials.id))
-    .leftJoin(traits, eq(traits.id, trialTraits.traitId))
-    .where(recordableEnrolmentWhere(viewer, p))
-    .orderBy(asc(trialTraits.sortOrder), asc(trialTraits.id));
-  if (rows.length === 0) return null;
-  const traitRows: TraitForColumns[] = [];
-  for (const r of rows) if (r.trait) traitRows.push(r.trait);
-  return { enrolment: rows[0]!.enrolment, traits: traitRows };
+export async function getSaveTarget(ex: Executor, viewer: Viewer, p: { trialId: number; siteId: number }, lock = false): Promise<{ site: SaveSite; traits: TraitForColumns[] } | null> {
+  const grower = viewer.role === "cooperator";
+  const [traitRows] = (await ex.execute(
+    sql`${SAVE_TRIAL.select}${p.trialId}${SAVE_TRIAL.order}${lock ? SHARE_LOCK : NOTHING}`,
+  )) as unknown as [SaveTraitRow[]];
+  if (traitRows.length === 0) return null;
+  const [siteRows] = (await ex.execute(
+    sql`${SAVE_SITE.select}${p.trialId}${SAVE_SITE.andSite}${p.siteId}${grower ? sql` AND ${cooperatorEnrolmentScope(viewer)}` : NOTHING}${lock ? UPDATE_LOCK : NOTHING}`,
+  )) as unknown as [SaveSiteRow[]];
+  const row = siteRows[0];
+  if (!row) return null;
+  if (!grower) {
+    const [managed] = await ex.select({ id: trials.id }).from(trials).where(and(eq(trials.id, p.trialId), staffTrialScope(viewer)));
+    if (!managed) return null;
+  }
+  const site: SaveSite = { enrolmentId: row.id, trialId: p.trialId, trialStatus: traitRows[0]!.trial_status, sownOn: row.sown_on, transplantedOn: row.transplanted_on, submissionStatus: row.submission_status };
+  const traitList: TraitForColumns[] = [];
+  for (const r of traitRows) {
+    if (r.id === null) continue;
+    traitList.push({
+      id: r.id,
+      code: r.code,
+      name: r.name,
+      unit: r.unit,
+      valueType: r.value_type,
+      minValue: r.min_value === null ? null : Number(r.min_value),
+      maxValue: r.max_value === null ? null : Number(r.max_value),
+      dueDaysAfterSowing: r.due_days,
+      dueByDay: r.due_by_day,
+      dueNote: r.due_note,
+      computation: r.computation,
+    });
+  }
+  return { site, traits: traitList };
+}
+
+const NOTHING = sql``;
+const SHARE_LOCK = sql` LOCK IN SHARE MODE`;
+const UPDATE_LOCK = sql` FOR UPDATE`;
+
+/** getSaveTarget's first read: the trial's status and its traits in the trial's order (none: one row with no trait). */
+const SAVE_TRIAL = {
+  select: fixedSql(sql`SELECT ${trials.status} AS trial_status, ${traits.id} AS id, ${traits.code} AS code, ${traits.name} AS name, ${traits.unit} AS unit,
+      ${traits.valueType} AS value_type, ${traits.minValue} AS min_value, ${traits.maxValue} AS max_value,
+      ${traits.dueDaysAfterSowing} AS due_days, ${traits.dueByDay} AS due_by_day, ${traits.dueNote} AS due_note, ${traits.computation} AS computation
+    FROM ${trials} LEFT JOIN ${trialTraits} ON ${trialTraits.trialId} = ${trials.id} LEFT JOIN ${traits} ON ${traits.id} = ${trialTraits.traitId}
+    WHERE ${trials.id} = `),
+  order: fixedSql(sql` ORDER BY ${trialTraits.sortOrder}, ${trialTraits.id}`),
+};
+
+/** getSaveTarget's second read: the site's enrolment, and the review state of its data set (a plain read, made once the row is held). */
+const SAVE_SITE = {
+  select: fixedSql(sql`SELECT ${enrolments.id} AS id, ${enrolments.sownOn} AS sown_on, ${enrolments.transplantedOn} AS transplanted_on,
+      (SELECT s.status FROM ${submissions} s WHERE s.enrolment_id = ${enrolments.id}) AS submission_status
+    FROM ${enrolments} WHERE ${enrolments.trialId} = `),
+  andSite: fixedSql(sql` AND ${enrolments.siteId} = `),
+};
+
+/** A row of getSaveTarget's first read, as the driver returns it: the trial's status, and one trait or none. */
+interface SaveTraitRow {
+  trial_status: TrialStatus;
+  id: number | null;
+  code: string;
+  name: string;
+  unit: string | null;
+  value_type: TraitType;
+  /** DECIMAL: a number (the pool reads decimals as numbers), or its text from a driver that does not */
+  min_value: string | number | null;
+  max_value: string | number | null;
+  /** the driver reads JSON columns itself, as the query builder's rows */
+  due_days: number[] | null;
+  due_by_day: number | null;
+  due_note: string | null;
+  computation: TraitComputation;
+}
+
+interface SaveSiteRow {
+  id: number;
+  sown_on: string | null;
+  transplanted_on: string | null;
+  submission_status: SubmissionStatus | null;
 }
 
 /** Plots of an enrolment in layout order (block, then position), with blind codes only. */
@@ -167,42 +254,56 @@ export async function listEnrolmentObservations(ex: Executor, enrolmentId: numbe
 }
 
 /**
- * What a save checks its values against, in one read: the enrolment's plots in layout order (all, or only
- * `onlyPlots`), their stored values and the days to maturity on each plot's seed packet. The packet days are
- * unblinding data: for the server's checks only, never sent to a grower.
+ * What a save checks its values against, in one read: the enrolment's plots (all, or only `onlyPlots`), their
+ * stored values and the days to maturity on each plot's seed packet. The packet days are unblinding data: for
+ * the server's checks only, never sent to a grower.
  */
 export async function listPlotsForSave(ex: Executor, enrolmentId: number, onlyPlots?: number[]) {
-  const rows = await ex
-    .select({
-      ...plotLayoutFields,
-      packetDays: seedLots.packetDaysToMaturity,
-      observationId: observations.id,
-      traitId: observations.traitId,
-      occasion: observations.occasion,
-      valueNumber: observations.valueNumber,
-      valueDate: observations.valueDate,
-      valueText: observations.valueText,
-      missingReason: observations.missingReason,
-    })
-    .from(plots)
-    .innerJoin(trialEntries, eq(trialEntries.id, plots.entryId))
-    .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-    .leftJoin(observations, eq(observations.plotId, plots.id))
-    .where(plotFilter(enrolmentId, onlyPlots))
-    .orderBy(asc(plots.block), asc(plots.position));
-  const plotRows: EnrolmentPlot[] = [];
+  // Text rendered once rather than the query builder's select: every save runs it, and building and mapping
+  // the builder's joined select cost more than the rest of the read.
+  const named = onlyPlots && onlyPlots.length > 0 ? sql`${PLOTS_FOR_SAVE.andPlotIn}${onlyPlots}` : NOTHING;
+  const [rows] = (await ex.execute(sql`${PLOTS_FOR_SAVE.select}${enrolmentId}${named}`)) as unknown as [PlotForSaveRow[]];
+  const plotRows: { id: number; plotCode: string }[] = [];
   const stored: ObservationRow[] = [];
   const packetDays: Record<number, number | null> = {};
   for (const r of rows) {
     if (!(r.id in packetDays)) {
-      packetDays[r.id] = r.packetDays;
-      plotRows.push({ id: r.id, plotCode: r.plotCode, block: r.block, position: r.position, tray: r.tray, traySlot: r.traySlot, blindCode: r.blindCode });
+      packetDays[r.id] = r.packet_days;
+      plotRows.push({ id: r.id, plotCode: r.plot_code });
     }
-    if (r.observationId !== null && r.traitId !== null && r.occasion !== null) {
-      stored.push({ id: r.observationId, plotId: r.id, traitId: r.traitId, occasion: r.occasion, valueNumber: r.valueNumber === null ? null : Number(r.valueNumber), valueDate: r.valueDate, valueText: r.valueText, missingReason: r.missingReason });
+    if (r.observation_id !== null) {
+      stored.push({ id: r.observation_id, plotId: r.id, traitId: r.trait_id!, occasion: r.occasion!, valueNumber: r.value_number === null ? null : Number(r.value_number), valueDate: r.value_date, valueText: r.value_text, missingReason: r.missing_reason });
     }
   }
   return { plots: plotRows, stored, packetDays };
+}
+
+const PLOTS_FOR_SAVE = {
+  select: fixedSql(sql`SELECT ${plots.id} AS id, ${plots.plotCode} AS plot_code, ${seedLots.packetDaysToMaturity} AS packet_days,
+      ${observations.id} AS observation_id, ${observations.traitId} AS trait_id, ${observations.occasion} AS occasion,
+      ${observations.valueNumber} AS value_number, ${observations.valueDate} AS value_date, ${observations.valueText} AS value_text, ${observations.missingReason} AS missing_reason
+    FROM ${plots}
+      JOIN ${trialEntries} ON ${trialEntries.id} = ${plots.entryId}
+      LEFT JOIN ${seedLots} ON ${seedLots.id} = ${trialEntries.seedLotId}
+      LEFT JOIN ${observations} ON ${observations.plotId} = ${plots.id}
+    WHERE ${plots.enrolmentId} = `),
+  andPlotIn: fixedSql(sql` AND ${plots.id} IN `),
+};
+
+/** A row of listPlotsForSave's read, as the driver returns it: a plot, and one of its stored values or none. */
+interface PlotForSaveRow {
+  id: number;
+  plot_code: string;
+  packet_days: number | null;
+  observation_id: number | null;
+  trait_id: number | null;
+  occasion: number | null;
+  /** DECIMAL: a number (the pool reads decimals as numbers), or its text from a driver that does not */
+  value_number: string | number | null;
+  /** DATE, as text (the pool reads dates as strings) */
+  value_date: string | null;
+  value_text: string | null;
+  missing_reason: MissingReason | null;
 }
 
 /** The stored answer to a save the viewer sent earlier with this id (ids are scoped to their user), or null. */

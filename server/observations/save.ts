@@ -1,6 +1,6 @@
 import "server-only";
 import { db, type Tx } from "@/db/index";
-import { getClientSave, getRecordableEnrolmentWithTraits, listPlotsForSave, type RecordableEnrolment } from "@/db/queries/observations";
+import { getClientSave, getSaveTarget, listPlotsForSave, type SaveSite } from "@/db/queries/observations";
 import { insertClientSave, insertDraftSubmission, insertObservationAudits, insertObservationHistory, insertObservations, updateObservations, type AuditEntry } from "@/db/mutations/observations";
 import { AppError } from "@/lib/errors";
 import type { Viewer } from "@/lib/domain/viewer";
@@ -71,7 +71,7 @@ export interface PlannedChange {
 }
 
 export interface ObservationPlan {
-  enrolment: RecordableEnrolment;
+  enrolment: SaveSite;
   problems: Problem[];
   conflicts: Conflict[];
   warnings: Warning[];
@@ -82,7 +82,7 @@ export interface ObservationPlan {
 const NO_VALUE: CellValue = { valueNumber: null, valueDate: null, valueText: null };
 
 /** Whether the viewer may still change this site's values (sent or accepted data is locked for growers). */
-function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: string | null) {
+function assertEditable(viewer: Viewer, enrolment: SaveSite, status: string | null) {
   const t = translatorFor(viewer.locale);
   if (enrolment.trialStatus === "published" || enrolment.trialStatus === "archived") throw new AppError("conflict", t("forms.publishedLocked"));
   if (viewer.role !== "cooperator") return;
@@ -93,13 +93,13 @@ function assertEditable(viewer: Viewer, enrolment: RecordableEnrolment, status: 
 
 /** The site a save writes to and the trial's columns, read together (and locked, inside a save). */
 interface SaveTarget {
-  enrolment: RecordableEnrolment;
+  enrolment: SaveSite;
   columns: EntryColumn[];
 }
 
 async function readSaveTarget(ex: Tx | typeof db, viewer: Viewer, p: { trialId: number; siteId: number }, lock: boolean): Promise<SaveTarget | null> {
-  const found = await getRecordableEnrolmentWithTraits(ex, viewer, p, lock);
-  return found && { enrolment: found.enrolment, columns: entryColumns(found.traits) };
+  const found = await getSaveTarget(ex, viewer, p, lock);
+  return found && { enrolment: found.site, columns: entryColumns(found.traits) };
 }
 
 function assertRecordable(viewer: Viewer, target: SaveTarget | null): asserts target is SaveTarget {

@@ -25,3 +25,18 @@ describe("field errors from a zod failure", () => {
     expect(parseIn(schema, { name: "ok", count: 1, caption: "ab" }, translatorFor("es")).data).toEqual({ name: "ok", count: 1, caption: "ab" });
   });
 });
+
+describe("schemas built in the reader's language", () => {
+  it("a schema is built once per language and each language keeps its own words", () => {
+    const built: string[] = [];
+    const schema = (t: Translator) => {
+      built.push(t.locale);
+      return z.object({ caption: z.string().max(3, t("forms.atMostChars", { max: "3" })) });
+    };
+    for (let i = 0; i < 3; i += 1) {
+      expect(fieldErrorsOf(parseIn(schema, { caption: "long" }, translatorFor("es")).error!)).toEqual({ caption: ["Use como máximo 3 caracteres."] });
+      expect(fieldErrorsOf(parseIn(schema, { caption: "long" }, translatorFor("en")).error!)).toEqual({ caption: ["Use at most 3 characters."] });
+    }
+    expect(built).toEqual(["es", "en"]);
+  });
+});
