@@ -60,6 +60,26 @@ async function scopedTrial(viewer: Viewer, trialId: number): Promise<ScopedTrial
 const siteFilter = (trial: ScopedTrial, column: typeof plots.siteId | typeof enrolments.siteId) => (trial.siteIds === null ? sql`true` : inArray(column, trial.siteIds));
 
 /**
+ * What one analysis request may read of a trial, checked once: the trial as the viewer may see it (sites in
+ * scope) and its traits in display order. Only getAnalysisAccess makes one, so a holder has passed the check;
+ * the reads below take it instead of checking again.
+ */
+export interface AnalysisAccess {
+  readonly viewer: Viewer;
+  readonly trial: Readonly<ScopedTrial>;
+  readonly traits: readonly InputTrait[];
+}
+
+/**
+ * The access check of an analysis and the trial's traits, read side by side (the traits are handed out only
+ * when the check passes); null when the trial is not the viewer's.
+ */
+export async function getAnalysisAccess(viewer: Viewer, trialId: number): Promise<AnalysisAccess | null> {
+  const [trial, traitRows] = await Promise.all([scopedTrial(viewer, trialId), loadTraits(trialId)]);
+  return trial ? { viewer, trial, traits: traitRows } : null;
+}
+
+/**
  * The status of a trial whose analysis the viewer may read (staff of its program, or a cooperator with a
  * shared site); null otherwise. The server decides from it whether the blind key may be read.
  */
@@ -69,28 +89,21 @@ export async function getAnalysisTrialStatus(viewer: Viewer, trialId: number): P
 
 /** The trial's recorded traits in display order (staff only); null when the trial is not the viewer's. */
 export async function listAnalysisTraits(viewer: Viewer, trialId: number): Promise<(InputTrait & { recorded: number })[] | null> {
-  const trial = await scopedTrial(viewer, trialId);
-  if (!trial) return null;
-  const [traitRows, counts] = await Promise.all([
-    loadTraits(trialId),
-    db
-      .select({ traitId: observations.traitId, n: sql<number>`COUNT(*)`.mapWith(Number) })
-      .from(observations)
-      .innerJoin(plots, eq(plots.id, observations.plotId))
-      .where(and(eq(plots.trialId, trialId), siteFilter(trial, plots.siteId), sql`(${observations.valueNumber} IS NOT NULL OR ${observations.valueDate} IS NOT NULL)`))
-      .groupBy(observations.traitId),
-  ]);
-  const byTrait = new Map(counts.map((c) => [c.traitId, c.n]));
-  return traitRows.map((t) => ({ ...t, recorded: byTrait.get(t.id) ?? 0 }));
+  const access = await getAnalysisAccess(viewer, trialId);
+  return access && countRecordedValues(access);
 }
 
-/**
- * The trial's traits in display order without counting their values (a count reads every observation of the
- * trial), for when the trait is already chosen; null when the trial is not the viewer's.
- */
-export async function listTrialTraits(viewer: Viewer, trialId: number): Promise<InputTrait[] | null> {
-  const trial = await scopedTrial(viewer, trialId);
-  return trial && loadTraits(trialId);
+/** Each of the trial's traits with how many plots have a value for it (a count reads every observation of the trial). */
+export async function countRecordedValues(access: AnalysisAccess): Promise<(InputTrait & { recorded: number })[]> {
+  const { trial } = access;
+  const counts = await db
+    .select({ traitId: observations.traitId, n: sql<number>`COUNT(*)`.mapWith(Number) })
+    .from(observations)
+    .innerJoin(plots, eq(plots.id, observations.plotId))
+    .where(and(eq(plots.trialId, trial.id), siteFilter(trial, plots.siteId), sql`(${observations.valueNumber} IS NOT NULL OR ${observations.valueDate} IS NOT NULL)`))
+    .groupBy(observations.traitId);
+  const byTrait = new Map(counts.map((c) => [c.traitId, c.n]));
+  return access.traits.map((t) => ({ ...t, recorded: byTrait.get(t.id) ?? 0 }));
 }
 
 function loadTraits(trialId: number): Promise<InputTrait[]> {
@@ -121,9 +134,15 @@ export type AnalysisInputRows = AnalysisInput;
  * recorded it only for staff. Null when the trial is not the viewer's.
  */
 export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number; includeKey: boolean }): Promise<AnalysisInputRows | null> {
-  const trial = await scopedTrial(viewer, p.trialId);
-  if (!trial) return null;
-  const traitRows = await loadTraits(p.trialId);
+  const access = await getAnalysisAccess(viewer, p.trialId);
+  return access && readAnalysisInput(access, p);
+}
+
+/** getAnalysisInput for a trial whose access is already checked. */
+export async function readAnalysisInput(access: AnalysisAccess, p: { traitId: number; includeKey: boolean }): Promise<AnalysisInputRows> {
+  const { trial } = access;
+  const trialId = trial.id;
+  const traitRows = [...access.traits];
   const wanted = traitRows.filter((t) => t.id === p.traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
   const [entryRows, siteRows, plotRows, obsRows, exclusionRows] = await Promise.all([
     db
@@ -141,19 +160,19 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       .from(trialEntries)
       .innerJoin(varieties, eq(varieties.id, trialEntries.varietyId))
       .leftJoin(seedLots, eq(seedLots.id, trialEntries.seedLotId))
-      .where(eq(trialEntries.trialId, p.trialId))
+      .where(eq(trialEntries.trialId, trialId))
       .orderBy(asc(trialEntries.entryNumber)),
     db
       .select({ id: sites.id, name: sites.name, sownOn: enrolments.sownOn, transplantedOn: enrolments.transplantedOn, status: submissions.status, resultsShared: enrolments.resultsShared })
       .from(enrolments)
       .innerJoin(sites, eq(sites.id, enrolments.siteId))
       .leftJoin(submissions, eq(submissions.enrolmentId, enrolments.id))
-      .where(and(eq(enrolments.trialId, p.trialId), siteFilter(trial, enrolments.siteId)))
+      .where(and(eq(enrolments.trialId, trialId), siteFilter(trial, enrolments.siteId)))
       .orderBy(asc(enrolments.id)),
     db
       .select({ id: plots.id, plotCode: plots.plotCode, siteId: plots.siteId, entryId: plots.entryId, block: plots.block })
       .from(plots)
-      .where(and(eq(plots.trialId, p.trialId), siteFilter(trial, plots.siteId)))
+      .where(and(eq(plots.trialId, trialId), siteFilter(trial, plots.siteId)))
       .orderBy(asc(plots.siteId), asc(plots.block), asc(plots.position)),
     wanted.length === 0
       ? Promise.resolve([])
@@ -168,7 +187,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
           })
           .from(observations)
           .innerJoin(plots, eq(plots.id, observations.plotId))
-          .where(and(eq(plots.trialId, p.trialId), siteFilter(trial, plots.siteId), inArray(observations.traitId, wanted))),
+          .where(and(eq(plots.trialId, trialId), siteFilter(trial, plots.siteId), inArray(observations.traitId, wanted))),
     db
       .select({
         id: analysisExclusions.id,
@@ -182,7 +201,7 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
       })
       .from(analysisExclusions)
       .leftJoin(users, eq(users.id, analysisExclusions.createdById))
-      .where(eq(analysisExclusions.trialId, p.trialId))
+      .where(eq(analysisExclusions.trialId, trialId))
       .orderBy(asc(analysisExclusions.id)),
   ]);
   // Cooperators see their own sites' exclusions only, by category: the staff's note stays with the staff.
@@ -227,8 +246,14 @@ export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; tra
  * weighted by the row id, so changing one reason for another changes the version too). Null when the trial is not the viewer's.
  */
 export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitIds: number[]): Promise<string | null> {
-  const trial = await scopedTrial(viewer, trialId);
-  if (!trial) return null;
+  const access = await getAnalysisAccess(viewer, trialId);
+  return access && readAnalysisVersion(access, traitIds);
+}
+
+/** getAnalysisVersion for a trial whose access is already checked. */
+export async function readAnalysisVersion(access: AnalysisAccess, traitIds: number[]): Promise<string> {
+  const { trial } = access;
+  const trialId = trial.id;
   // Only the traits the analysis reads count, so a plot note typed elsewhere keeps the yield analysis cached.
   const enrolmentFilter = trial.siteIds === null ? sql`` : sql`AND e.site_id IN (${sql.join(trial.siteIds.map((id) => sql`${id}`), sql`, `)})`;
   const plotFilter = trial.siteIds === null ? sql`` : sql`AND p.site_id IN (${sql.join(trial.siteIds.map((id) => sql`${id}`), sql`, `)})`;

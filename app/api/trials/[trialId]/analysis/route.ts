@@ -30,8 +30,7 @@ export const GET = defineRoute(
     if (!prepared) throw new AppError("not_found", "That trial does not exist, or its results have not been shared with you.");
     const { headers, notModified } = versionedAnswer(request, prepared.etag);
     if (notModified) return notModified;
-    const view = await viewAnalysis(viewer, params.trialId, prepared, (query.plots ?? false) && !query.page);
-    if (!view) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const view = await viewAnalysis(prepared, (query.plots ?? false) && !query.page);
     return Response.json(query.page ? toPageView(view) : view, { headers });
   },
 );
