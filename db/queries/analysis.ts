@@ -65,7 +65,10 @@ const siteFilter = (trial: ScopedTrial, column: typeof plots.siteId | typeof enr
  * scope) and its traits in display order. Only getAnalysisAccess makes one, so a holder has passed the check;
  * the reads below take it instead of checking again.
  */
+declare const checkedAccess: unique symbol;
 export interface AnalysisAccess {
+  /** unnamed outside this module, so no other code can make an access without the check (short of a cast) */
+  readonly [checkedAccess]: true;
   readonly viewer: Viewer;
   readonly trial: Readonly<ScopedTrial>;
   readonly traits: readonly InputTrait[];
@@ -77,7 +80,7 @@ export interface AnalysisAccess {
  */
 export async function getAnalysisAccess(viewer: Viewer, trialId: number): Promise<AnalysisAccess | null> {
   const [trial, traitRows] = await Promise.all([scopedTrial(viewer, trialId), loadTraits(trialId)]);
-  return trial ? { viewer, trial, traits: traitRows } : null;
+  return trial ? ({ viewer, trial, traits: traitRows } as unknown as AnalysisAccess) : null;
 }
 
 /**
