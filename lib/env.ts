@@ -43,6 +43,9 @@ const schema = z.object({
   // How often each instance retries queued mail (each message is claimed in the database, so instances never send one twice).
   MAIL_RETRY_SECONDS: z.coerce.number().min(1).max(3600).default(30),
   JOBS_FIRST_LOOK_SECONDS: z.coerce.number().min(0).max(3600).default(60),
+  // How many times a production server analyses a made-up trial when it starts, so the first real analysis
+  // runs compiled code (server/analysis/warm-up.ts); 0 turns it off.
+  ANALYSIS_WARM_UP_ROUNDS: z.coerce.number().int().min(0).max(50).default(4),
   // The build folder next.config.ts builds into (test runs use their own): the health check reads the build id
   // from it and the service worker is served from it.
   NEXT_DIST_DIR: z.string().default(".next"),
@@ -64,8 +67,7 @@ function parseEnv(): Env {
     const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
     throw new Error(`Seedplot settings are invalid: ${problems}`);
   }
-  const building = process.env.NEXT_PHASE === "phase-production-build";
-  if (!building && parsed.data.NODE_ENV === "production" && parsed.data.NEXTAUTH_SECRET.includes("development-secret")) {
+  if (!isBuildPhase() && parsed.data.NODE_ENV === "production" && parsed.data.NEXTAUTH_SECRET.includes("development-secret")) {
     // A production server with the development secret would accept forged sessions.
     if (process.env.SEEDPLOT_ALLOW_DEV_SECRET !== "1") throw new Error("Set NEXTAUTH_SECRET for production.");
   }
@@ -74,6 +76,11 @@ function parseEnv(): Env {
 }
 
 export const env: Env = parseEnv();
+
+/** Whether this process is `next build` collecting pages rather than a server answering requests. */
+export function isBuildPhase(): boolean {
+  return process.env.NEXT_PHASE === "phase-production-build";
+}
 
 /**
  * The port this server listens on, read when asked: `next start` sets PORT once it listens, after the

@@ -284,7 +284,7 @@ try {
   if (process.env.BENCH_SAVE_PAGE) (await import("node:fs")).writeFileSync(process.env.BENCH_SAVE_PAGE, html);
 
   // The same work in-process, step by step, to show where the cold time goes. Imported late: it opens the app's own pool.
-  const { loadAnalysisInput, prepareAnalysis } = await import("../server/analysis/load-analysis");
+  const { loadPreparedInput, prepareAnalysis } = await import("../server/analysis/load-analysis");
   const { toPageView } = await import("../lib/domain/analysis/page-view");
   const { runAnalysis } = await import("../lib/domain/analysis/run");
   const { analysisFor } = await import("../lib/domain/analysis/blind");
@@ -296,13 +296,13 @@ try {
   let pageBytes = 0;
   for (let i = 0; i < 3 && Date.now() < deadline; i += 1) {
     t = performance.now();
-    await prepareAnalysis(viewer, trialId, { trait: trial.traitId });
-    time("settings and data version (queries)", performance.now() - t);
+    const prepared = await prepareAnalysis(viewer, trialId, { trait: trial.traitId });
+    time("access, settings and data version (queries)", performance.now() - t);
     t = performance.now();
-    const input = await loadAnalysisInput(viewer, { trialId, traitId: trial.traitId });
+    const input = await loadPreparedInput(prepared!);
     time("load: database read of plots and observations", performance.now() - t);
     t = performance.now();
-    const result = runAnalysis(input!, { traitId: trial.traitId, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" }, { onStep: (name, ms) => time(`  analysis: ${name}`, ms) });
+    const result = runAnalysis(input, { traitId: trial.traitId, siteIds: null, includeUnaccepted: false, siteModel: "random", separation: "lsd" }, { onStep: (name, ms) => time(`  analysis: ${name}`, ms) });
     time("analysis, all steps", performance.now() - t);
     t = performance.now();
     const view = analysisFor(viewer, result, false);

@@ -30,6 +30,9 @@ export const observations = mysqlTable(
   (t) => [
     uniqueIndex("observations_plot_trait_occasion_unique").on(t.plotId, t.traitId, t.occasion),
     index("observations_trait_idx").on(t.traitId),
+    // Covers the analysis's read of a trial's values and its data-version fingerprint (db/queries/analysis.ts),
+    // which reach every observation of a trial through its plots: without it each row is a second lookup.
+    index("observations_plot_values_idx").on(t.plotId, t.traitId, t.occasion, t.valueNumber, t.valueDate, t.missingReason, t.updatedAt),
   ],
 );
 

@@ -1,6 +1,6 @@
 import "server-only";
 import { createHash } from "node:crypto";
-import { getAnalysisInput, getAnalysisTrialStatus, getAnalysisVersion, listAnalysisTraits, listTrialTraits } from "@/db/queries/analysis";
+import { countRecordedValues, getAnalysisAccess, readAnalysisInput, readAnalysisVersion, type AnalysisAccess } from "@/db/queries/analysis";
 import { AppError } from "@/lib/errors";
 import { runAnalysis } from "@/lib/domain/analysis/run";
 import { mixedForTrial } from "@/lib/domain/analysis/mixed-trial";
@@ -35,28 +35,26 @@ export function defaultTrait(traits: (InputTrait & { recorded: number })[]): Inp
  * Null when the trial is not the viewer's.
  */
 export async function loadAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number }): Promise<AnalysisInput | null> {
-  const status = await getAnalysisTrialStatus(viewer, p.trialId);
-  if (status === null) return null;
-  return getAnalysisInput(viewer, { ...p, includeKey: canSeeBlindKey(viewer, { status }) });
+  const access = await getAnalysisAccess(viewer, p.trialId);
+  return access && inputFor(access, p.traitId);
+}
+
+function inputFor(access: AnalysisAccess, traitId: number): Promise<AnalysisInput> {
+  return readAnalysisInput(access, { traitId, includeKey: canSeeBlindKey(access.viewer, { status: access.trial.status }) });
 }
 
 /**
  * The trait asked for, checked against the trial's, or the default one. Counting each trait's values (to choose
- * the default) reads every observation of the trial, so that happens only when no trait is asked for. Null when
- * the trial is not the viewer's.
+ * the default) reads every observation of the trial, so that happens only when no trait is asked for.
  */
-async function chooseTrait(viewer: Viewer, trialId: number, asked: number | undefined): Promise<{ traitId: number; traits: InputTrait[] } | null> {
+async function chooseTrait(access: AnalysisAccess, asked: number | undefined): Promise<number> {
   if (asked === undefined) {
-    const counted = await listAnalysisTraits(viewer, trialId);
-    if (!counted) return null;
-    const traitId = defaultTrait(counted)?.id;
+    const traitId = defaultTrait(await countRecordedValues(access))?.id;
     if (traitId === undefined) throw new AppError("conflict", "This trial records no traits yet, so there is nothing to analyse.");
-    return { traitId, traits: counted };
+    return traitId;
   }
-  const traits = await listTrialTraits(viewer, trialId);
-  if (!traits) return null;
-  if (!traits.some((t) => t.id === asked)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
-  return { traitId: asked, traits };
+  if (!access.traits.some((t) => t.id === asked)) throw new AppError("bad_request", "That trait is not recorded in this trial. Choose one from the list.");
+  return asked;
 }
 
 export interface PreparedAnalysis {
@@ -66,16 +64,18 @@ export interface PreparedAnalysis {
   /** names the response: the key plus whether plot rows or the page's first view were asked for, since the bodies differ */
   etag: string;
   version: string;
+  /** the one access check of this request (trial, sites in scope, traits), reused by the steps after it */
+  access: AnalysisAccess;
 }
 
 /**
- * Resolves the settings and the cache tag without running the analysis, so a client that already
- * has this version gets a 304. Null when the trial is not the viewer's.
+ * Checks the viewer's access once and resolves the settings and the cache tag without running the analysis,
+ * so a client that already has this version gets a 304. Null when the trial is not the viewer's.
  */
 export async function prepareAnalysis(viewer: Viewer, trialId: number, query: AnalysisQuery): Promise<PreparedAnalysis | null> {
-  const chosen = await chooseTrait(viewer, trialId, query.trait);
-  if (chosen === null) return null;
-  const { traitId, traits } = chosen;
+  const access = await getAnalysisAccess(viewer, trialId);
+  if (access === null) return null;
+  const traitId = await chooseTrait(access, query.trait);
   const settings: AnalysisSettings = {
     traitId,
     siteIds: query.sites ? [...query.sites].sort((a, b) => a - b) : null,
@@ -85,22 +85,25 @@ export async function prepareAnalysis(viewer: Viewer, trialId: number, query: An
     // staff only: a grower's view stays what it was (blind.ts builds theirs field by field)
     ...(query.mixed && isStaff(viewer) ? { mixed: true } : {}),
   };
-  const read = traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
-  const version = await getAnalysisVersion(viewer, trialId, read);
-  if (version === null) return null;
+  const read = access.traits.filter((t) => t.id === traitId || (SEED_COUNT_TRAITS as readonly string[]).includes(t.code)).map((t) => t.id);
+  const version = await readAnalysisVersion(access, read);
   // Staff and each cooperator see different slices of the trial, so the tag (and cache key) names the scope.
   const scope = viewer.role === "cooperator" ? `cooperator:${viewer.id}` : "staff";
   const key = createHash("sha1").update(`${trialId}|${scope}|${version}|${JSON.stringify(settings)}`).digest("base64url").slice(0, 27);
-  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : query.page ? "-page" : ""}"`, version };
+  return { settings, key, etag: `W/"${key}${query.plots ? "-plots" : query.page ? "-page" : ""}"`, version, access };
 }
 
-/** Runs (or reuses) the analysis for prepared settings. Null when the trial is not the viewer's. */
-async function computeAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis): Promise<AnalysisResult | null> {
-  const key = `${trialId}|${prepared.key}`;
+/** The input of the prepared analysis, read within the access it was prepared under (what a computation reads). */
+export function loadPreparedInput(prepared: PreparedAnalysis): Promise<AnalysisInput> {
+  return inputFor(prepared.access, prepared.settings.traitId);
+}
+
+/** Runs (or reuses) the analysis for prepared settings, within the access they were prepared under. */
+async function computeAnalysis(prepared: PreparedAnalysis): Promise<AnalysisResult> {
+  const key = `${prepared.access.trial.id}|${prepared.key}`;
   const hit = cache.get(key);
   if (hit) return hit;
-  const input = await loadAnalysisInput(viewer, { trialId, traitId: prepared.settings.traitId });
-  if (!input) return null;
+  const input = await loadPreparedInput(prepared);
   const plain = runAnalysis(input, prepared.settings);
   const result = prepared.settings.mixed ? { ...plain, ...mixedForTrial(plain) } : plain;
   cache.set(key, result);
@@ -109,20 +112,18 @@ async function computeAnalysis(viewer: Viewer, trialId: number, prepared: Prepar
 }
 
 /**
- * The analysis for prepared settings as this viewer may see it (lib/domain/analysis/blind: blind codes only for
- * growers until the trial is published). What the JSON API and the page send. Null when not the viewer's.
+ * The analysis for prepared settings as their viewer may see it (lib/domain/analysis/blind: blind codes only for
+ * growers until the trial is published). What the JSON API and the page send.
  */
-export async function viewAnalysis(viewer: Viewer, trialId: number, prepared: PreparedAnalysis, withPlots = false): Promise<ViewerAnalysis | null> {
-  const result = await computeAnalysis(viewer, trialId, prepared);
-  return result && analysisFor(viewer, result, withPlots);
+export async function viewAnalysis(prepared: PreparedAnalysis, withPlots = false): Promise<ViewerAnalysis> {
+  return analysisFor(prepared.access.viewer, await computeAnalysis(prepared), withPlots);
 }
 
 /** Both steps as the viewer may see them, for the page's first render: its slim first view (lib/domain/analysis/page-view). */
 export async function loadAnalysisView(viewer: Viewer, trialId: number, query: AnalysisQuery) {
   const prepared = await prepareAnalysis(viewer, trialId, { ...query, page: true });
   if (!prepared) return null;
-  const view = await viewAnalysis(viewer, trialId, prepared);
-  return view ? { view: toPageView(view), etag: prepared.etag } : null;
+  return { view: toPageView(await viewAnalysis(prepared)), etag: prepared.etag };
 }
 
 /**
@@ -133,8 +134,7 @@ export async function loadAnalysisView(viewer: Viewer, trialId: number, query: A
 export async function loadSiteSection(viewer: Viewer, trialId: number, siteId: number, query: AnalysisQuery): Promise<{ section: SiteSection; etag: string } | null> {
   const prepared = await prepareAnalysis(viewer, trialId, { ...query, plots: false, page: false });
   if (!prepared) return null;
-  const view = await viewAnalysis(viewer, trialId, prepared);
-  const section = view && siteSectionOf(view, siteId);
+  const section = siteSectionOf(await viewAnalysis(prepared), siteId);
   return section ? { section, etag: `W/"${prepared.key}-site-${siteId}"` } : null;
 }
 
@@ -146,6 +146,5 @@ export async function loadAnalysis(viewer: Viewer, trialId: number, query: Analy
   if (!isStaff(viewer)) return null;
   const prepared = await prepareAnalysis(viewer, trialId, query);
   if (!prepared) return null;
-  const result = await computeAnalysis(viewer, trialId, prepared);
-  return result ? { result, etag: prepared.etag } : null;
+  return { result: await computeAnalysis(prepared), etag: prepared.etag };
 }

@@ -228,80 +228,125 @@ export function compactLetters(
   return lettersByIndex(labels, means, (i, j) => differs.get(i * labels.length + j) ?? false);
 }
 
-/** compactLetters with whether entries i > j differ told by index, so no comparison list is built. */
+/**
+ * compactLetters with whether entries i > j differ told by index, so no comparison list is built. Columns are
+ * bit sets over ranks (32 per word) kept side by side in one buffer, so the subset tests of the absorb step,
+ * which run for every pair of columns after every split, cost a few word operations, and a split allocates
+ * nothing: this runs once per site and once across sites (51 times for a 50-site trial), much of it before
+ * V8 has compiled it.
+ */
 function lettersByIndex(labels: string[], means: number[], differAt: (i: number, j: number) => boolean): Record<string, string> {
   const k = labels.length;
   // rank entries by mean, highest first (stable for ties)
   const order = labels.map((_, i) => i).sort((x, y) => means[y] - means[x] || x - y);
-  const position = new Array<number>(k);
-  order.forEach((entryIndex, rank) => (position[entryIndex] = rank));
-  const differ: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
-  forEachPair(k, (i, j) => {
-    const d = differAt(i, j);
-    differ[position[i]][position[j]] = d;
-    differ[position[j]][position[i]] = d;
-  });
-  // A column is a bit set over ranks (32 per word): the subset tests of the absorb step, which run for
-  // every pair of columns after every split, then cost a few word operations instead of a pass over k.
+  const position = new Int32Array(k);
+  for (let rank = 0; rank < k; rank++) position[order[rank]!] = rank;
+  const differ = new Uint8Array(k * k);
+  for (let j = 0; j < k; j++) {
+    for (let i = j + 1; i < k; i++) {
+      if (!differAt(i, j)) continue;
+      differ[position[i]! * k + position[j]!] = 1;
+      differ[position[j]! * k + position[i]!] = 1;
+    }
+  }
   const words = Math.ceil(k / 32);
-  const has = (column: Uint32Array, x: number) => (column[x >>> 5]! & (1 << (x & 31))) !== 0;
-  const without = (column: Uint32Array, x: number) => {
-    const copy = column.slice();
-    copy[x >>> 5]! &= ~(1 << (x & 31));
-    return copy;
-  };
-  const all = new Uint32Array(words);
-  for (let x = 0; x < k; x++) all[x >>> 5]! |= 1 << (x & 31);
-  let columns: Uint32Array[] = [all];
+  // columns[c * words + w]: word w of column c; a split writes the next list into `spare`, then the two swap
+  let capacity = 8;
+  let columns = new Uint32Array(capacity * words);
+  let spare = new Uint32Array(capacity * words);
+  let fresh = new Uint8Array(capacity);
+  let keep = new Uint8Array(capacity);
+  let count = 1;
+  for (let x = 0; x < k; x++) columns[x >>> 5]! |= 1 << (x & 31);
   for (let i = 0; i < k - 1; i++) {
+    const wordI = i >>> 5;
+    const bitI = 1 << (i & 31);
     for (let j = i + 1; j < k; j++) {
-      if (!differ[i][j]) continue;
+      if (differ[i * k + j] === 0) continue;
+      const wordJ = j >>> 5;
+      const bitJ = 1 << (j & 31);
       // Only a column holding both entries splits; when none does, the columns (already absorbed) stay as they are.
-      if (!columns.some((column) => has(column, i) && has(column, j))) continue;
-      const split: Uint32Array[] = [];
-      const fresh: number[] = [];
-      for (const column of columns) {
-        if (has(column, i) && has(column, j)) {
-          fresh.push(split.length, split.length + 1);
-          split.push(without(column, i), without(column, j));
-        } else split.push(column);
+      let holding = 0;
+      for (let c = 0; c < count; c++) if ((columns[c * words + wordI]! & bitI) !== 0 && (columns[c * words + wordJ]! & bitJ) !== 0) holding++;
+      if (holding === 0) continue;
+      const size = count + holding;
+      if (size > capacity) {
+        while (capacity < size) capacity *= 2;
+        spare = new Uint32Array(capacity * words);
+        fresh = new Uint8Array(capacity);
+        keep = new Uint8Array(capacity);
+      }
+      // split: a column holding both becomes two, one without i and one without j, in its place
+      let next = 0;
+      for (let c = 0; c < count; c++) {
+        const from = c * words;
+        if ((columns[from + wordI]! & bitI) !== 0 && (columns[from + wordJ]! & bitJ) !== 0) {
+          spare.set(columns.subarray(from, from + words), next * words);
+          spare[next * words + wordI]! &= ~bitI;
+          fresh[next] = 1;
+          next++;
+          spare.set(columns.subarray(from, from + words), next * words);
+          spare[next * words + wordJ]! &= ~bitJ;
+          fresh[next] = 1;
+          next++;
+        } else {
+          spare.set(columns.subarray(from, from + words), next * words);
+          fresh[next] = 0;
+          next++;
+        }
       }
       // absorb: drop a column contained in another (keeping the first of two equal columns). Only a column
       // just split off can be contained in another: the columns kept from before contain none of each other
       // (absorbed last time), nor any part of a split column (which was not contained in them either).
-      const keep = split.map(() => true);
-      for (const p of fresh) {
-        for (let r = 0; r < split.length; r++) {
-          if (p === r || !keep[p] || !keep[r]) continue;
-          const a = split[p]!;
-          const b = split[r]!;
+      keep.fill(1, 0, size);
+      for (let p = 0; p < size; p++) {
+        if (fresh[p] === 0) continue;
+        for (let r = 0; r < size; r++) {
+          if (p === r || keep[p] === 0 || keep[r] === 0) continue;
           let subset = true;
           let strict = false;
           for (let w = 0; w < words; w++) {
-            if ((a[w]! & ~b[w]!) !== 0) {
+            const a = spare[p * words + w]!;
+            const b = spare[r * words + w]!;
+            if ((a & ~b) !== 0) {
               subset = false;
               break;
             }
-            if ((b[w]! & ~a[w]!) !== 0) strict = true;
+            if ((b & ~a) !== 0) strict = true;
           }
-          if (subset && (strict || p > r)) keep[p] = false;
+          if (subset && (strict || p > r)) keep[p] = 0;
         }
       }
-      columns = split.filter((_, p) => keep[p]);
+      // the kept columns, in order, become the list; the old list's buffer is the next spare
+      if (columns.length < capacity * words) columns = new Uint32Array(capacity * words);
+      count = 0;
+      for (let p = 0; p < size; p++) {
+        if (keep[p] === 0) continue;
+        columns.set(spare.subarray(p * words, p * words + words), count * words);
+        count++;
+      }
     }
   }
-  const firstRank = (column: Uint32Array) => {
-    for (let x = 0; x < k; x++) if (has(column, x)) return x;
-    return -1;
-  };
-  columns.sort((x, y) => firstRank(x) - firstRank(y));
+  // letters go to columns in order of their best-ranked entry ('a' holds the highest mean; ties keep their order)
+  const firstRank = new Int32Array(count);
+  for (let c = 0; c < count; c++) {
+    firstRank[c] = -1;
+    for (let x = 0; x < k; x++) {
+      if ((columns[c * words + (x >>> 5)]! & (1 << (x & 31))) !== 0) {
+        firstRank[c] = x;
+        break;
+      }
+    }
+  }
+  const columnOrder = Array.from({ length: count }, (_, c) => c).sort((x, y) => firstRank[x]! - firstRank[y]!);
   const result: Record<string, string> = {};
   for (let rank = 0; rank < k; rank++) {
     let text = "";
-    columns.forEach((column, c) => {
-      if (has(column, rank)) text += letterName(c);
-    });
-    result[labels[order[rank]]] = text;
+    for (let c = 0; c < count; c++) {
+      const column = columnOrder[c]!;
+      if ((columns[column * words + (rank >>> 5)]! & (1 << (rank & 31))) !== 0) text += letterName(c);
+    }
+    result[labels[order[rank]!]!] = text;
   }
   // same key order as the input labels
   return Object.fromEntries(labels.map((label) => [label, result[label]]));

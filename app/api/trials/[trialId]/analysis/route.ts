@@ -5,11 +5,16 @@ import { idParam } from "@/lib/validation/common";
 import { defineRoute } from "@/server/http/define-route";
 import { prepareAnalysis, viewAnalysis } from "@/server/analysis/load-analysis";
 import { toPageView } from "@/lib/domain/analysis/page-view";
+import { warmUpAnalysisInThisCopy } from "@/server/analysis/warm-up";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
 
 const paramsSchema = z.object({ trialId: idParam });
+
+// Compiles this bundle's copy of the analysis on a made-up trial when a production server loads the route
+// (at start: instrumentation.ts asks it once); see server/analysis/warm-up.ts.
+warmUpAnalysisInThisCopy();
 
 /**
  * One trait's analysis as JSON: all sites for staff of the trial's program, a cooperator's own sites
@@ -30,8 +35,7 @@ export const GET = defineRoute(
     if (!prepared) throw new AppError("not_found", "That trial does not exist, or its results have not been shared with you.");
     const { headers, notModified } = versionedAnswer(request, prepared.etag);
     if (notModified) return notModified;
-    const view = await viewAnalysis(viewer, params.trialId, prepared, (query.plots ?? false) && !query.page);
-    if (!view) throw new AppError("not_found", "That trial does not exist or is not in your programs.");
+    const view = await viewAnalysis(prepared, (query.plots ?? false) && !query.page);
     return Response.json(query.page ? toPageView(view) : view, { headers });
   },
 );

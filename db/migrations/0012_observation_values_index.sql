@@ -1,0 +1,1 @@
+CREATE INDEX `observations_plot_values_idx` ON `observations` (`plot_id`,`trait_id`,`occasion`,`value_number`,`value_date`,`missing_reason`,`updated_at`);
