@@ -4,6 +4,8 @@ import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { AnalysisPayload } from "@/lib/domain/analysis/types";
 import { testDatabase } from "../helpers/db";
+import { demoViewer } from "../helpers/demo";
+import { statementsDuring } from "../helpers/statements";
 import { DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 // One analysis request checks the viewer's access to the trial once and reads the trial's traits once,
@@ -21,27 +23,8 @@ let lettuceId: number;
 let yieldId: number;
 let growerSiteId: number;
 
-async function viewerByEmail(email: string): Promise<Viewer> {
-  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
-  return u!;
-}
-
 /** The SQL the app's pool is sent while `run` runs. */
-async function statementsDuring(run: () => Promise<unknown>): Promise<string[]> {
-  const sent: string[] = [];
-  const original = appPool.query.bind(appPool) as (...args: unknown[]) => unknown;
-  const spy = vi.spyOn(appPool, "query").mockImplementation(((...args: unknown[]) => {
-    const [query] = args as [string | { sql: string }];
-    sent.push(typeof query === "string" ? query : query.sql);
-    return original(...args);
-  }) as never);
-  try {
-    await run();
-  } finally {
-    spy.mockRestore();
-  }
-  return sent;
-}
+const sqlDuring = async (run: () => Promise<unknown>) => (await statementsDuring(appPool, run)).map((statement) => statement.sql);
 
 // The access check reads the trial with its crop (staff) or the viewer's shared enrolments (a grower); the
 // traits are the trial's rows of trial_traits.
@@ -51,15 +34,15 @@ const isTraitsRead = (sql: string) => /from `trial_traits` inner join `traits`/i
 
 async function analysis(query: string, headers: Record<string, string> = {}) {
   let res: Response | null = null;
-  const sent = await statementsDuring(async () => {
+  const sent = await sqlDuring(async () => {
     res = await GET(new Request(`http://test.local/api/trials/${lettuceId}/analysis?${query}`, { headers }), { params: Promise.resolve({ trialId: String(lettuceId) }) });
   });
   return { res: res! as Response, sent };
 }
 
 beforeAll(async () => {
-  coordinator = await viewerByEmail(DEMO_STAFF[1].email);
-  grower = await viewerByEmail(DEMO_SITES[0].grower.email);
+  coordinator = await demoViewer(db, DEMO_STAFF[1].email);
+  grower = await demoViewer(db, DEMO_SITES[0].grower.email);
   const [trial] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
   lettuceId = trial!.id;
   const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
@@ -123,7 +106,7 @@ describe("the reads of one analysis request", () => {
   });
 
   it("a coordinator of another program still gets the same not-found answer, with no data read", async () => {
-    auth.viewer = await viewerByEmail(DEMO_SECOND_PROGRAM.coordinator.email);
+    auth.viewer = await demoViewer(db, DEMO_SECOND_PROGRAM.coordinator.email);
     try {
       const { res, sent } = await analysis(`trait=${yieldId}`);
       expect(res.status).toBe(404);

@@ -4,6 +4,7 @@ import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import { testDatabase } from "../helpers/db";
 import { demoViewer } from "../helpers/demo";
+import { statementsDuring } from "../helpers/statements";
 import { DEMO_SECOND_PROGRAM, DEMO_STAFF } from "@/db/demo-data";
 
 const { getTrialLineage } = await import("@/db/queries/trials");
@@ -26,27 +27,10 @@ afterAll(async () => {
   await appPool.end();
 });
 
-/** The SQL the app's pool is sent while `run` runs. */
-async function statementsDuring(run: () => Promise<unknown>) {
-  const sent: { sql: string; params: unknown[] }[] = [];
-  const original = appPool.query.bind(appPool) as (...args: unknown[]) => unknown;
-  const spy = vi.spyOn(appPool, "query").mockImplementation(((...args: unknown[]) => {
-    const [query, params] = args as [string | { sql: string }, unknown[] | undefined];
-    sent.push({ sql: typeof query === "string" ? query : query.sql, params: params ?? [] });
-    return original(...args);
-  }) as never);
-  try {
-    await run();
-  } finally {
-    spy.mockRestore();
-  }
-  return sent;
-}
-
 describe("a trial's lineage (planned from, followed by, open seasons)", () => {
   it("reads the trial's own row once, scoped to the viewer's programs", async () => {
     let lineage: Awaited<ReturnType<typeof getTrialLineage>> = null;
-    const sent = await statementsDuring(async () => {
+    const sent = await statementsDuring(appPool, async () => {
       lineage = await getTrialLineage(coordinator, trialId);
     });
     expect(lineage).toMatchObject({ previous: null, next: expect.any(Array), seasons: expect.any(Array) });
