@@ -1,21 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { createDatabase } from "@/db/client";
+import { describe, expect, it } from "vitest";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
 import { hashPassword } from "@/server/auth/password";
 import { SIGN_IN_THROTTLED } from "@/lib/domain/sign-in-messages";
-import { launchBrowser, newPage, signIn } from "../helpers/browser";
+import { signIn } from "../helpers/browser";
+import { e2eBrowserAndDatabase } from "../helpers/e2e-file";
 import { credentialsSignIn, httpSession, request } from "../helpers/http";
 
-const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await e2e.pool.end();
-});
+const { e2e, openPage } = e2eBrowserAndDatabase();
 
 const HOSTILE = `<script>alert(1)</script>'; DROP TABLE users; --`;
 
@@ -71,7 +62,7 @@ describe("sign-in throttle", () => {
 
 describe("injection strings in catalogue text", () => {
   it("shows a hostile crop and variety name as text, never as markup, and leaves the users table in place", async () => {
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     const scriptRan: string[] = [];
     page.on("dialog", async (d) => {
       scriptRan.push(d.message());

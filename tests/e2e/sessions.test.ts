@@ -1,24 +1,16 @@
 // Sessions end on the server, not only in the browser: sign-out, a new password and deactivation each
 // end every session the account had, so a copied cookie stops working; only the newest reset link works.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { createDatabase } from "@/db/client";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
 import { insertThrowawayGrower } from "../helpers/throwaway-account";
 import { DEMO_PASSWORDS, DEMO_STAFF } from "@/db/demo-data";
-import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
+import { baseUrl, signIn } from "../helpers/browser";
+import { e2eBrowserAndDatabase } from "../helpers/e2e-file";
 import { httpSession, request, type HttpSession } from "../helpers/http";
 import { loadSampleIds } from "../helpers/samples";
 import { oneTimeLink, waitForMailTo } from "../helpers/captured-mail";
 
-const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await e2e.pool.end();
-});
+const { e2e, openPage } = e2eBrowserAndDatabase();
 
 const newAccount = (tag: string) => insertThrowawayGrower(e2e, tag, "Session Check");
 
@@ -124,7 +116,7 @@ describe("sessions end on the server", () => {
     const account = await newAccount("reset");
     const before = await httpSession(account.email, account.password);
     expect(await stillWorks(before)).toEqual(WORKS);
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await askForResetLink(page, account.email);
     const [mail] = await waitForMailTo(account.email, { subject: /Reset your Seedplot password/ });
     await setNewPassword(page, oneTimeLink(mail!), "second-password-reset");
@@ -135,7 +127,7 @@ describe("sessions end on the server", () => {
 
   it("issuing a reset link voids the earlier one: of two links only the newer works", async () => {
     const account = await newAccount("twolinks");
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await askForResetLink(page, account.email);
     await waitForMailTo(account.email, { subject: /Reset your Seedplot password/ });
     await askForResetLink(page, account.email);
@@ -154,7 +146,7 @@ describe("sessions end on the server", () => {
     const account = await newAccount("deactivate");
     const session = await httpSession(account.email, account.password);
     expect(await stillWorks(session)).toEqual(WORKS);
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await signIn(page, DEMO_STAFF[0].email, DEMO_PASSWORDS.admin);
     await page.goto("/portal/admin/users");
     const row = page.getByRole("row", { name: new RegExp(account.email.replace(/[.]/g, "\\.")) });

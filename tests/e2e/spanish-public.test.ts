@@ -1,26 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { baseUrl, signIn } from "../helpers/browser";
+import { e2eBrowserAndDatabase } from "../helpers/e2e-file";
 import { oneTimeLink, waitForMailTo } from "../helpers/captured-mail";
 import { insertThrowawayGrower } from "../helpers/throwaway-account";
-import { createDatabase } from "@/db/client";
 import { DEMO_PASSWORDS, DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 
 // A reader who asks for Spanish (?lang=es) gets the whole public trial, variety and site page in Spanish, not
 // just their frame; sign-in, reset and invitation pages follow the same address, and the mails Seedplot sends
 // a Spanish reader are Spanish with links that open Spanish pages.
 
-const e2e = createDatabase(process.env.E2E_DATABASE_URL!, 2);
+const { e2e, openPage } = e2eBrowserAndDatabase();
 const TRIAL = DEMO_TRIALS.find((t) => t.publishedAtSeed)!;
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await e2e.pool.end();
-});
 
 /** English sentences and headings the public pages used to show under ?lang=es; none of them may remain. */
 const ENGLISH = [
@@ -74,7 +65,7 @@ async function namesOnTrialPage(page: Page) {
 
 describe("public pages in Spanish", () => {
   it("the public trial, variety and site pages under ?lang=es show none of the English sentences they used to, and their links keep ?lang=es", async () => {
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await page.goto(`/results/${TRIAL.code}?lang=es`);
     await page.getByRole("heading", { name: "Resumen para productores" }).waitFor();
     const names = await namesOnTrialPage(page);
@@ -115,7 +106,7 @@ describe("public pages in Spanish", () => {
   }, 120_000);
 
   it("without ?lang=es the same pages are English", async () => {
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await page.goto(`/results/${TRIAL.code}`);
     await page.getByRole("heading", { name: "Summary for growers" }).waitFor();
     const text = await page.locator("main").innerText();
@@ -153,7 +144,7 @@ describe("sign-in, reset and invitation in Spanish", () => {
   it("a Spanish grower's reset mail is Spanish, its link carries lang=es and opens Spanish pages through to a Spanish sign-in", async () => {
     const { email } = await insertThrowawayGrower(e2e, "es-reset", "Lucía Prado");
     await e2e.pool.query("UPDATE users SET locale = 'es' WHERE email = ?", [email]);
-    const { page, context } = await newPage(browser);
+    const { page, context } = await openPage();
     await page.goto("/forgot-password?lang=es");
     await page.getByLabel("Correo electrónico").fill(email);
     await page.getByRole("button", { name: "Enviar el enlace" }).click();
@@ -190,7 +181,7 @@ describe("sign-in, reset and invitation in Spanish", () => {
 
   it("a coordinator invites a new grower in Spanish: the account keeps Spanish, the mail is Spanish and its link opens the Spanish invitation page", async () => {
     const email = `es-invite-${Date.now()}@example.org`;
-    const staff = await newPage(browser);
+    const staff = await openPage();
     await signIn(staff.page, DEMO_STAFF[1].email, DEMO_PASSWORDS.coordinator);
     await staff.page.goto("/portal/cooperators");
     await staff.page.getByLabel("Grower's name").fill("Tomás Rivera");
@@ -211,7 +202,7 @@ describe("sign-in, reset and invitation in Spanish", () => {
     const link = oneTimeLink(mail!);
     expect(link).toMatch(/\/invite\/[A-Za-z0-9_-]+\?lang=es$/);
 
-    const grower = await newPage(browser, { width: 390, height: 844 });
+    const grower = await openPage({ width: 390, height: 844 });
     await grower.page.goto(link);
     await grower.page.getByRole("heading", { name: "Bienvenido a Seedplot" }).waitFor();
     expect(await grower.page.getByLabel("Elija una contraseña").count()).toBe(1);
