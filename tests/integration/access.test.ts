@@ -1,12 +1,12 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import * as s from "@/db/schema";
-import type { Viewer } from "@/lib/domain/viewer";
 import { listMySites, listSiteOptions, listTrialsForViewer } from "@/db/queries/overview";
 import { listLateSites, listMySchedules } from "@/server/observations/schedules";
 import { countUsersByRole, getActiveViewer, listCooperators, listUsersForAdmin } from "@/db/queries/users";
 import { pool as appPool } from "@/db/index";
 import { testDatabase } from "../helpers/db";
+import { demoViewer } from "../helpers/demo";
 import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 import { addDays } from "@/lib/domain/schedule";
 
@@ -16,16 +16,12 @@ afterAll(async () => {
   await appPool.end();
 });
 
-async function viewerByEmail(email: string): Promise<Viewer> {
-  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
-  return u!;
-}
 
 describe("role and ownership checks in the data-access layer (demo data)", () => {
   it("gives the user list only to admins", async () => {
-    const admin = await viewerByEmail(DEMO_STAFF[0].email);
-    const coordinator = await viewerByEmail(DEMO_STAFF[1].email);
-    const grower = await viewerByEmail(DEMO_SITES[0].grower.email);
+    const admin = await demoViewer(db, DEMO_STAFF[0].email);
+    const coordinator = await demoViewer(db, DEMO_STAFF[1].email);
+    const grower = await demoViewer(db, DEMO_SITES[0].grower.email);
     expect((await listUsersForAdmin(admin)).length).toBeGreaterThanOrEqual(9);
     expect(await listUsersForAdmin(coordinator)).toEqual([]);
     expect(await listUsersForAdmin(grower)).toEqual([]);
@@ -33,15 +29,15 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
   });
 
   it("never returns password hashes in the admin user list", async () => {
-    const admin = await viewerByEmail(DEMO_STAFF[0].email);
+    const admin = await demoViewer(db, DEMO_STAFF[0].email);
     const rows = await listUsersForAdmin(admin);
     for (const row of rows) expect(Object.keys(row)).not.toContain("passwordHash");
     expect(JSON.stringify(rows)).not.toContain("$argon2");
   });
 
   it("shows trials, late sites, growers and site lists to staff but not to cooperators", async () => {
-    const coordinator = await viewerByEmail(DEMO_STAFF[1].email);
-    const grower = await viewerByEmail(DEMO_SITES[0].grower.email);
+    const coordinator = await demoViewer(db, DEMO_STAFF[1].email);
+    const grower = await demoViewer(db, DEMO_SITES[0].grower.email);
     expect((await listTrialsForViewer(coordinator)).map((t) => t.code).sort()).toEqual(["TV26-LET", "TV26-SPN", "TV27-KAL"]);
     expect(await listTrialsForViewer(grower)).toEqual([]);
     expect(await listLateSites(grower)).toEqual([]);
@@ -58,7 +54,7 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
   });
 
   it("shows a cooperator only their own sites and schedules", async () => {
-    const grower = await viewerByEmail(DEMO_SITES[1].grower.email);
+    const grower = await demoViewer(db, DEMO_SITES[1].grower.email);
     const sites = await listMySites(grower);
     expect(sites.map((x) => x.name)).toEqual([DEMO_SITES[1].name]);
     const schedules = await listMySchedules(grower);
@@ -67,7 +63,7 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
   });
 
   it("flags the demo sites that skipped scheduled counts as late, and no others", async () => {
-    const coordinator = await viewerByEmail(DEMO_STAFF[1].email);
+    const coordinator = await demoViewer(db, DEMO_STAFF[1].email);
     // The demo's current season starts 30 days before the day it was seeded; counting lateness from that day
     // keeps the check true when the run crosses midnight after seeding.
     const [winter] = await db.select({ startsOn: s.seasons.startsOn }).from(s.seasons).where(eq(s.seasons.name, "Winter 2026–27"));

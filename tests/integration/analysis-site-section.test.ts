@@ -5,6 +5,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import type { AnalysisPayload } from "@/lib/domain/analysis/types";
 import type { AnalysisPageView, SiteSection } from "@/lib/domain/analysis/page-view";
 import { testDatabase } from "../helpers/db";
+import { demoViewer } from "../helpers/demo";
 import { DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 // The analysis page sends a slim first view and fetches each site's section when it is opened; the section's
@@ -24,10 +25,6 @@ let ownSiteId: number;
 let neighbourSiteId: number;
 let otherTrialSiteId: number;
 
-async function viewerByEmail(email: string): Promise<Viewer> {
-  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
-  return u!;
-}
 
 function section(siteId: number | string, query = `trait=${yieldId}`, trialId = lettuceId) {
   return sectionGet(new Request(`http://test.local/api/trials/${trialId}/analysis/sites/${siteId}?${query}`), {
@@ -47,7 +44,7 @@ async function siteIdByName(name: string) {
 }
 
 beforeAll(async () => {
-  coordinator = await viewerByEmail(DEMO_STAFF[1].email);
+  coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   const [trial] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
   lettuceId = trial!.id;
   const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
@@ -102,7 +99,7 @@ describe("the analysis page's site sections", () => {
   });
 
   it("refuses a cooperator: their site until its results are shared, and a neighbour's site even then", async () => {
-    const grower = await viewerByEmail(DEMO_SITES[0].grower.email);
+    const grower = await demoViewer(db, DEMO_SITES[0].grower.email);
     auth.viewer = grower;
     expect((await section(ownSiteId)).status).toBe(404);
     await updateResultsShared(coordinator, { trialId: lettuceId, siteId: ownSiteId, shared: true });
@@ -122,7 +119,7 @@ describe("the analysis page's site sections", () => {
   });
 
   it("refuses a coordinator of another program as if the trial did not exist", async () => {
-    auth.viewer = await viewerByEmail(DEMO_SECOND_PROGRAM.coordinator.email);
+    auth.viewer = await demoViewer(db, DEMO_SECOND_PROGRAM.coordinator.email);
     const res = await section(neighbourSiteId);
     expect(res.status).toBe(404);
     expect(await res.text()).not.toContain("entryP");

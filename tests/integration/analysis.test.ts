@@ -5,6 +5,7 @@ import type { Viewer } from "@/lib/domain/viewer";
 import { anovaMultiSite, anovaRcbd, lsd, type MultiSitePlot } from "@/lib/domain/stats";
 import type { AnalysisResult } from "@/lib/domain/analysis/types";
 import { testDatabase, unique } from "../helpers/db";
+import { demoViewer } from "../helpers/demo";
 import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
 // The route handler's guard reads the session; tests set the viewer directly instead.
@@ -20,10 +21,6 @@ let coordinator: Viewer;
 let lettuceId: number;
 let yieldId: number;
 
-async function viewerByEmail(email: string): Promise<Viewer> {
-  const [u] = await db.select({ id: s.users.id, email: s.users.email, name: s.users.name, role: s.users.role }).from(s.users).where(eq(s.users.email, email));
-  return u!;
-}
 
 async function call(query: string, headers: Record<string, string> = {}, trialId = lettuceId) {
   return GET(new Request(`http://test.local/api/trials/${trialId}/analysis?${query}`, { headers }), { params: Promise.resolve({ trialId: String(trialId) }) });
@@ -51,7 +48,7 @@ async function plainRows(includeUnaccepted = false) {
 }
 
 beforeAll(async () => {
-  coordinator = await viewerByEmail(DEMO_STAFF[1].email);
+  coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   const [trial] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
   lettuceId = trial!.id;
   const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
@@ -275,7 +272,7 @@ describe("who may read an analysis", () => {
     try {
       auth.viewer = null;
       expect((await call(`trait=${yieldId}`)).status).toBe(401);
-      auth.viewer = await viewerByEmail(DEMO_SITES[0].grower.email);
+      auth.viewer = await demoViewer(db, DEMO_SITES[0].grower.email);
       expect((await call(`trait=${yieldId}`)).status).toBe(404);
       const email = `${unique("other")}@example.test`;
       const [u] = await db.insert(s.users).values({ email, name: "Other Coordinator", role: "coordinator", passwordHash: "x" }).$returningId();
@@ -316,7 +313,7 @@ describe("variety history", () => {
     expect(standing.of).toBe(6);
     expect(standing.sitesAnalysed).toBe(5);
     expect(standing.percentOfTrialMean).toBeCloseTo((100 * combined.lsMean!) / loaded!.result.combined!.grandMean, 9);
-    expect(await getVarietyHistory(await viewerByEmail(DEMO_SITES[0].grower.email), variety!.id)).toBeNull();
+    expect(await getVarietyHistory(await demoViewer(db, DEMO_SITES[0].grower.email), variety!.id)).toBeNull();
   });
 });
 
@@ -324,8 +321,8 @@ describe("sharing a site's results with its cooperators", () => {
   it("shows a cooperator their own shared site only, with blind codes, and hides it again when unshared", async () => {
     const { updateResultsShared } = await import("@/db/mutations/exclusions");
     const [own] = await db.select({ id: s.sites.id }).from(s.sites).where(eq(s.sites.name, DEMO_SITES[0].name));
-    const grower = await viewerByEmail(DEMO_SITES[0].grower.email);
-    const neighbour = await viewerByEmail(DEMO_SITES[1].grower.email);
+    const grower = await demoViewer(db, DEMO_SITES[0].grower.email);
+    const neighbour = await demoViewer(db, DEMO_SITES[1].grower.email);
     await updateResultsShared(coordinator, { trialId: lettuceId, siteId: own!.id, shared: true });
     try {
       const staffView = await analysis(`trait=${yieldId}`);
