@@ -147,14 +147,8 @@ export type AnalysisInputRows = AnalysisInput;
  * the trait's and the seed counts' observations, and exclusions, for the sites the viewer may see. With
  * `includeKey` false nothing that decodes a blind code leaves here: no variety names or ids, seed lots,
  * check flags or label germination. Exclusions carry their public category; the private note and who
- * recorded it only for staff. Null when the trial is not the viewer's.
+ * recorded it only for staff. The access is checked already (getAnalysisAccess).
  */
-export async function getAnalysisInput(viewer: Viewer, p: { trialId: number; traitId: number; includeKey: boolean }): Promise<AnalysisInputRows | null> {
-  const access = await getAnalysisAccess(viewer, p.trialId);
-  return access && readAnalysisInput(access, p);
-}
-
-/** getAnalysisInput for a trial whose access is already checked. */
 export async function readAnalysisInput(access: AnalysisAccess, p: { traitId: number; includeKey: boolean }): Promise<AnalysisInputRows> {
   const { trial } = access;
   const trialId = trial.id;
@@ -272,14 +266,8 @@ export async function readAnalysisInput(access: AnalysisAccess, p: { traitId: nu
  * statuses, sowing dates, entries and seed lots, exclusions). It changes whenever the data do, so it
  * serves as the cache key and ETag. Value sums are part of it because timestamps have whole-second
  * resolution and two edits can land in the same second (a reason counts by its enum index
- * weighted by the row id, so changing one reason for another changes the version too). Null when the trial is not the viewer's.
+ * weighted by the row id, so changing one reason for another changes the version too). The access is checked already (getAnalysisAccess).
  */
-export async function getAnalysisVersion(viewer: Viewer, trialId: number, traitIds: number[]): Promise<string | null> {
-  const access = await getAnalysisAccess(viewer, trialId);
-  return access && readAnalysisVersion(access, traitIds);
-}
-
-/** getAnalysisVersion for a trial whose access is already checked. */
 export async function readAnalysisVersion(access: AnalysisAccess, traitIds: number[]): Promise<string> {
   const { trial } = access;
   const trialId = trial.id;

@@ -13,7 +13,7 @@ import { csvExportForViewer, templateForViewer } from "@/server/spreadsheets/fil
 import { commitUpload, previewUpload } from "@/server/spreadsheets/upload";
 import { parseCsv } from "@/lib/domain/spreadsheets/csv";
 import { loadAnalysis } from "@/server/analysis/load-analysis";
-import { getAnalysisVersion } from "@/db/queries/analysis";
+import { getAnalysisAccess, readAnalysisVersion } from "@/db/queries/analysis";
 
 const { db, pool } = testDatabase();
 let mei: Viewer;
@@ -113,9 +113,9 @@ describe("saying why a plot has no value, on the phone form", () => {
     // One reason swapped for another within the same second (updated_at kept) still gives a new version,
     // so the cached analysis is not served with the old words.
     const traits = [cedar.traitId.marketable_yield!];
-    const before = await getAnalysisVersion(rosa, cedar.trialId, traits);
+    const before = await readAnalysisVersion((await getAnalysisAccess(rosa, cedar.trialId))!, traits);
     await db.update(s.observations).set({ missingReason: "weather", updatedAt: sql`updated_at` }).where(and(eq(s.observations.plotId, plot.id), eq(s.observations.traitId, traits[0]!)));
-    expect(await getAnalysisVersion(rosa, cedar.trialId, traits)).not.toBe(before);
+    expect(await readAnalysisVersion((await getAnalysisAccess(rosa, cedar.trialId))!, traits)).not.toBe(before);
   });
 });
 
