@@ -143,8 +143,7 @@ function requireResidual(df: number, ss: number): void {
  */
 export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   requireArray(data, "one-way data");
-  const plots = readOneWayPlots(data);
-  const { labels, counts, withinSs } = plots;
+  const { labels, tallies, missing } = tallyOneWayPlots(data);
   const k = labels.length;
   if (k < 2) {
     throw new StatsError("TOO_FEW_ENTRIES", `At least two entries are needed for an analysis of variance (found ${k}).`, {
@@ -152,22 +151,22 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
     });
   }
   for (let e = 0; e < k; e++) {
-    if (counts[e] === 0) throw new StatsError("EMPTY_ENTRY", `Entry "${labels[e]}" has no observed plots.`, { entry: labels[e] });
+    if (tallies[e].count === 0) throw new StatsError("EMPTY_ENTRY", `Entry "${labels[e]}" has no observed plots.`, { entry: labels[e] });
   }
   // Entry means relative to one common reference, the first entry's first value: values that share
   // their leading digits (NIST SmLs07-09) keep the differences between entry means exact.
-  const reference = plots.firstValues[0];
-  const means = new Float64Array(k);
-  for (let e = 0; e < k; e++) means[e] = plots.firstValues[e] - reference + plots.shiftedMeans[e];
+  const reference = tallies[0].first;
+  const means = tallies.map((tally) => tally.first - reference + tally.shiftedMean);
 
-  const n = plots.observed;
+  let n = 0;
+  for (const tally of tallies) n += tally.count;
   let centre = 0; // grand mean minus the reference
-  for (let e = 0; e < k; e++) centre += (counts[e] * means[e]) / n;
+  for (let e = 0; e < k; e++) centre += (tallies[e].count * means[e]) / n;
   let betweenSs = 0;
   let residualSs = 0;
   for (let e = 0; e < k; e++) {
-    betweenSs += counts[e] * (means[e] - centre) ** 2;
-    residualSs += withinSs[e];
+    betweenSs += tallies[e].count * (means[e] - centre) ** 2;
+    residualSs += tallies[e].ss;
   }
   const grandMean = reference + centre;
   const dfResidual = n - k;
@@ -181,18 +180,19 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
   const lsMeans: LsMean[] = [];
   const covariance: number[][] = [];
   for (let e = 0; e < k; e++) {
+    const count = tallies[e].count;
     const mean = reference + means[e];
-    const se = Math.sqrt(errorMs / counts[e]);
-    entryMeanRows.push({ entry: labels[e], mean, n: counts[e], se });
+    const se = Math.sqrt(errorMs / count);
+    entryMeanRows.push({ entry: labels[e], mean, n: count, se });
     lsMeans.push({ entry: labels[e], mean, se });
     const covarianceRow = new Array<number>(k).fill(0);
-    covarianceRow[e] = 1 / counts[e];
+    covarianceRow[e] = 1 / count;
     covariance.push(covarianceRow);
   }
   return {
     rows: [entryRow, residualRow],
     n,
-    missing: plots.missing,
+    missing,
     grandMean,
     errorMs,
     errorDf: dfResidual,
@@ -200,78 +200,52 @@ export function anovaOneWay(data: readonly OneWayPlot[]): AnovaTable {
     entryMeans: entryMeanRows,
     design: "one-way",
     rSquared: betweenSs / (betweenSs + residualSs),
-    balanced: counts.every((count) => count === counts[0]),
+    balanced: tallies.every((tally) => tally.count === tallies[0].count),
     lsMeans,
     lsMeanCovariance: covariance,
   };
 }
 
-interface OneWayValues {
-  /** entry labels in order of first appearance */
-  labels: string[];
-  /** per entry: observed plots, first value, mean minus the first value, sum of squared deviations from the mean */
-  counts: Float64Array;
-  firstValues: Float64Array;
-  shiftedMeans: Float64Array;
-  withinSs: Float64Array;
-  observed: number;
-  missing: number;
+/**
+ * One entry's observed plots so far, by Welford's updates on values taken relative to the entry's
+ * first value, so the updates work on small numbers even when the values share many leading digits.
+ */
+class EntryTally {
+  count = 0;
+  first = 0;
+  /** the mean minus the first value */
+  shiftedMean = 0;
+  /** the sum of squared deviations from the mean */
+  ss = 0;
+
+  add(value: number): void {
+    const count = ++this.count;
+    if (count === 1) this.first = value;
+    const shifted = value - this.first;
+    const deviation = shifted - this.shiftedMean;
+    this.shiftedMean += deviation / count;
+    this.ss += deviation * (shifted - this.shiftedMean);
+  }
 }
 
-/**
- * Checks the plots and accumulates each entry's count, mean and within-entry SS in one pass with
- * Welford's updates. Each entry's values are taken relative to its own first value, so the
- * updates work on small numbers even when an entry's values share many leading digits.
- */
-function readOneWayPlots(data: readonly OneWayPlot[]): OneWayValues {
+/** Checks the plots and tallies each entry's observed values in one pass (entries in order of first appearance). */
+function tallyOneWayPlots(data: readonly OneWayPlot[]): { labels: string[]; tallies: EntryTally[]; missing: number } {
   const entries = new LabelIndex("entry");
-  let capacity = 16;
-  let counts = new Float64Array(capacity);
-  let firstValues = new Float64Array(capacity);
-  let shiftedMeans = new Float64Array(capacity); // mean minus the entry's first value
-  let withinSs = new Float64Array(capacity);
-  let observed = 0;
+  const tallies: EntryTally[] = [];
   let missing = 0;
   for (let i = 0; i < data.length; i++) {
     const plot = data[i];
     const e = entries.indexOf(plot.entry);
+    if (e === tallies.length) tallies.push(new EntryTally());
     const value = plot.value;
     if (value == null) {
       missing++;
       continue;
     }
     if (!Number.isFinite(value)) nonFinite(i, value);
-    if (e >= capacity) {
-      capacity *= 4;
-      counts = grown(counts, capacity);
-      firstValues = grown(firstValues, capacity);
-      shiftedMeans = grown(shiftedMeans, capacity);
-      withinSs = grown(withinSs, capacity);
-    }
-    observed++;
-    const count = ++counts[e];
-    if (count === 1) firstValues[e] = value;
-    const v = value - firstValues[e];
-    const deviation = v - shiftedMeans[e];
-    shiftedMeans[e] += deviation / count;
-    withinSs[e] += deviation * (v - shiftedMeans[e]);
+    tallies[e].add(value);
   }
-  const k = entries.size;
-  return {
-    labels: entries.labels,
-    counts: counts.subarray(0, k),
-    firstValues: firstValues.subarray(0, k),
-    shiftedMeans: shiftedMeans.subarray(0, k),
-    withinSs: withinSs.subarray(0, k),
-    observed,
-    missing,
-  };
-}
-
-function grown(values: Float64Array, length: number): Float64Array<ArrayBuffer> {
-  const copy = new Float64Array(length);
-  copy.set(values);
-  return copy;
+  return { labels: entries.labels, tallies, missing };
 }
 
 interface IndexedPlots {

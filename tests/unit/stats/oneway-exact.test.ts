@@ -1,7 +1,6 @@
-// One-way ANOVA on integer data checked against exact rational arithmetic (BigInt): many entries
-// (more than the accumulators' first allocation), plots in random order across many chunks, missing
-// plots, and one entry whose values sit near 1e9 while the others sit near 50, which forces the
-// two-pass recomputation for that entry. Reference: the textbook identities
+// One-way ANOVA on integer data checked against exact rational arithmetic (BigInt): many entries,
+// plots in random order, missing plots, and one entry whose values sit near 1e9 while the others sit
+// near 50, which a single reference value shared by all entries would not survive. Reference: the textbook identities
 // within SS = sum over entries of (sum x^2 - (sum x)^2 / n), between SS = sum (sum x)^2 / n - (sum x)^2 / N,
 // evaluated exactly.
 import { describe, expect, it } from "vitest";
@@ -51,7 +50,6 @@ describe("anovaOneWay against exact arithmetic", () => {
   it("matches on 120 entries, 30,001 plots in random order with missing plots and one far-off entry", () => {
     const next = random(7);
     const data: { entry: string; value: number | null }[] = [];
-    // an odd number of plots: the accumulator takes plots two at a time and must not lose the last
     for (let i = 0; i < 30_001; i++) {
       const e = Math.floor(next() * 120);
       const base = e === 77 ? 1_000_000_000 : 50 + e;
