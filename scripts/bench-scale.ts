@@ -43,7 +43,7 @@ const children: ChildProcess[] = [];
 
 /** Starts one `next start` of the build; resolves once it answers. */
 async function startInstance(port: number, name: string): Promise<ChildProcess> {
-  const child = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
+  const child = spawn("bash", [path.join(root, "scripts/next-start.sh"), "-H", "127.0.0.1", "-p", String(port)], {
     cwd: root,
     detached: true,
     stdio: ["ignore", "ignore", "pipe"],

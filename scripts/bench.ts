@@ -41,6 +41,7 @@ interface Row {
 
 const tsx = path.join(root, "node_modules/.bin/tsx");
 const next = path.join(root, "node_modules/.bin/next");
+const nextStart = path.join(root, "scripts/next-start.sh");
 
 function run(command: string, args: string[], env: Record<string, string> = {}): Promise<{ status: number; output: string }> {
   return new Promise((resolve) => {
@@ -103,7 +104,7 @@ if (!base) {
   }
   base = `http://127.0.0.1:${PORT}`;
   console.log(`Starting next start on ${base} (build ${DIST}, database from DATABASE_URL).`);
-  server = spawn(next, ["start", "-H", "127.0.0.1", "-p", String(PORT)], {
+  server = spawn("bash", [nextStart, "-H", "127.0.0.1", "-p", String(PORT)], {
     cwd: root,
     detached: true,
     stdio: "ignore",

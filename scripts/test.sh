@@ -67,7 +67,7 @@ SMTP_PORT="$E2E_SMTP_PORT" MAILBOX_DIR="$E2E_MAILBOX" start_background 9>&- .dat
 DATABASE_URL="$E2E_DATABASE_URL" APP_URL="http://localhost:$E2E_PORT" NEXTAUTH_URL="http://localhost:$E2E_PORT" \
   NEXTAUTH_SECRET="seedplot-e2e-secret-not-for-production" SMTP_PORT="$E2E_SMTP_PORT" MAILBOX_DIR="$E2E_MAILBOX" MAIL_MODE=capture \
   STORAGE_DIR="$ROOT/.data/test-storage" start_background 9>&- .data/test-next.pid .data/test-next.log \
-  node_modules/.bin/next start -H 127.0.0.1 -p "$E2E_PORT"
+  bash scripts/next-start.sh -H 127.0.0.1 -p "$E2E_PORT"
 wait_for_http "http://127.0.0.1:$E2E_PORT/" 60 || { tail -20 .data/test-next.log; die "The test server did not start"; }
 
 log "Running the tests"

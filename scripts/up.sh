@@ -61,6 +61,6 @@ fi
 log "Seedplot is starting on $APP_URL (demo sign-ins are in README.md; captured mail: npm run mailbox). Ctrl-C to stop."
 require_free_port "$PORT" PORT
 # In the background with `wait`, so Ctrl-C or a TERM to this script stops everything at once.
-setsid node_modules/.bin/next start -H 127.0.0.1 -p "$PORT" &
+setsid bash scripts/next-start.sh -H 127.0.0.1 -p "$PORT" &
 echo $! > .data/next.pid
 wait "$(cat .data/next.pid)"

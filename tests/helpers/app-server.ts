@@ -39,7 +39,7 @@ export async function startAppServer(settings: Record<string, string | undefined
   let log = "";
   let exited = false;
   // Its own process group, so stopping it also stops whatever next starts.
-  const child: ChildProcess = spawn(path.join(root, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
+  const child: ChildProcess = spawn("bash", [path.join(root, "scripts/next-start.sh"), "-H", "127.0.0.1", "-p", String(port)], {
     cwd: root,
     detached: true,
     stdio: ["ignore", "pipe", "pipe"],
