@@ -7,8 +7,9 @@
 // 50 growers saving values at the same time. Each is bounded by a request count and a time limit.
 // Settings: LOAD_REQUESTS (per read scenario, default 400), LOAD_CONNECTIONS (default 10), LOAD_SAVES
 // (saves per grower, default 20), LOAD_GROWERS (default 50), LOAD_SECONDS (time cap per scenario, default 60),
-// LOAD_WARMUP_SAVES (saves per grower sent before the timed saves and left out of their figures, default 0: a
-// fresh server's first thousand saves run partly unoptimised code, so the default measures a cold server).
+// LOAD_WARMUP_SAVES (saves per grower sent before the timed saves, default 0: a fresh server's first thousands
+// of saves run partly unoptimised code; with a warm-up the timed saves measure the steady state, and the
+// warm-up's own figures are printed on their own lines).
 import { readFileSync } from "node:fs";
 import { Agent, request } from "node:http";
 import autocannon from "autocannon";
@@ -236,42 +237,42 @@ try {
   // Saves: every grower saves SAVES times to its own plots at the same moment as the others. A save writes
   // three plots with values unique to (grower, save), so the last accepted value of each plot is known.
   const lastWritten = new Map<number, string>();
-  const saveLatencies: number[] = [];
-  let saveErrors = 0;
-  let saveCount = 0;
-  const saveRounds = async (first: number, count: number, deadline: number, timed: boolean) =>
-    Promise.all(
+  /** Every grower sends `count` saves one after another, all growers at once; the phase's figures. */
+  const saveRounds = async (first: number, count: number, scenario: string): Promise<Figures> => {
+    const deadline = Date.now() + SECONDS * 1000;
+    const latencies: number[] = [];
+    let errors = 0;
+    const started = performance.now();
+    await Promise.all(
       load.growers.map(async (g, gi) => {
         for (let round = first; round < first + count && Date.now() < deadline; round += 1) {
           const plots = [0, 1, 2].map((k) => g.plotIds[(round * 3 + k) % g.plotIds.length]!);
           const values = plots.map((plotId, k) => ({ plotId, key: "marketable_yield", value: String(1000 + gi * 100 + round * 3 + k) }));
           const t0 = performance.now();
-          let failed = false;
           try {
             const status = await postJson("/api/observations", { trialId: load.trialId, siteId: g.siteId, values }, growerCookies[gi]!);
             if (status === 200) for (const v of values) lastWritten.set(v.plotId, v.value!);
-            else failed = true;
+            else errors += 1;
           } catch {
-            failed = true;
+            errors += 1;
           }
-          if (failed) saveErrors += 1;
-          if (!timed) continue;
-          saveLatencies.push(performance.now() - t0);
-          saveCount += 1;
+          latencies.push(performance.now() - t0);
         }
       }),
     );
-  if (WARMUP_SAVES > 0) {
-    await saveRounds(0, WARMUP_SAVES, Date.now() + SECONDS * 1000, false);
-    console.log(`Warm-up: ${WARMUP_SAVES} saves per grower sent first, left out of the figures below (LOAD_WARMUP_SAVES).`);
-  }
+    return { scenario, requests: latencies.length, seconds: (performance.now() - started) / 1000, errors, latencies, note: "3 values per save" };
+  };
+  // The warm-up's saves are real saves (checked row by row below) on a server whose save code has not run
+  // yet: their figures are printed beside the timed ones, not left out of sight.
+  const warmUp = WARMUP_SAVES > 0 ? await saveRounds(0, WARMUP_SAVES, `saves, warm-up (first ${WARMUP_SAVES * load.growers.length})`) : null;
+  if (warmUp) figures.push(warmUp);
   const cpuBefore = processCpu();
   const statementsBefore = await statementsRun();
-  const savesStarted = performance.now();
-  await saveRounds(WARMUP_SAVES, SAVES, Date.now() + SECONDS * 1000, true);
+  const saves = await saveRounds(WARMUP_SAVES, SAVES, `observation saves (${load.growers.length} growers)`);
+  const saveCount = saves.requests;
   const statementsPerSave = (await statementsRun()) - statementsBefore;
   const cpuPerSave = [...processCpu()].map(([pid, ms]) => `${pid} ${((ms - (cpuBefore.get(pid) ?? 0)) / Math.max(1, saveCount)).toFixed(1)} ms`);
-  figures.push({ scenario: `observation saves (${load.growers.length} growers)`, requests: saveCount, seconds: (performance.now() - savesStarted) / 1000, errors: saveErrors, latencies: saveLatencies, note: "3 values per save" });
+  figures.push(saves);
 
   console.log("scenario                           requests    throughput   latency");
   for (const f of figures) print(f);
@@ -290,14 +291,19 @@ try {
   passed = wrong.length === 0 && figures.every((f) => f.errors === 0);
 
   // One line per figure for `npm run bench` (tab-separated: figure, value, unit, ratio, target, met).
-  const saves = figures.at(-1)!;
   const perSecond = saves.requests / saves.seconds;
   const p95 = pct([...saves.latencies].sort((a, b) => a - b), 95);
   const result = (figure: string, value: string, unit: string, target: string, met: boolean) => console.log(["RESULT", figure, value, unit, "-", target, met ? "met" : "not met"].join("\t"));
-  result(`saves, ${load.growers.length} growers x 3 values`, perSecond.toFixed(0), "saves/s", ">= 200 saves/s", perSecond >= 200);
-  result("saves p95", p95.toFixed(0), "ms", "< 200 ms", p95 < 200);
+  const steady = warmUp ? ` (after ${warmUp.requests} warm-up saves)` : " (fresh server)";
+  result(`saves, ${load.growers.length} growers x 3 values${steady}`, perSecond.toFixed(0), "saves/s", ">= 200 saves/s", perSecond >= 200);
+  result(`saves p95${steady}`, p95.toFixed(0), "ms", "< 200 ms", p95 < 200);
+  if (warmUp) {
+    const info = (figure: string, value: string, unit: string) => console.log(["RESULT", figure, value, unit, "-", "-", "-"].join("\t"));
+    info(`saves during the warm-up (the server's first ${warmUp.requests})`, (warmUp.requests / warmUp.seconds).toFixed(0), "saves/s");
+    info("saves p95 during the warm-up", pct([...warmUp.latencies].sort((a, b) => a - b), 95).toFixed(0), "ms");
+  }
   console.log(["RESULT", "database statements per save", (statementsPerSave / Math.max(1, saveCount)).toFixed(1), "statements", "-", "-", "-"].join("\t"));
-  result("saved plot values lost or stale (row by row)", String(wrong.length), "plots", "0, and no failed save", wrong.length === 0 && saves.errors === 0);
+  result("saved plot values lost or stale (row by row)", String(wrong.length), "plots", "0, and no failed save", passed);
 } finally {
   await removeThrowawayTrial(db, load.trialId, THROWAWAY);
   console.log(`Removed the throwaway trial LOAD-${tag} with its ${load.growers.length} sites and grower accounts.`);
