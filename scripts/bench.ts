@@ -126,13 +126,18 @@ const stopServer = () => {
 process.on("exit", stopServer);
 process.on("SIGINT", () => process.exit(130));
 
+/** The server's CPU time per save is printed by bench:load when it knows the server's process (LOAD_CPU_PIDS). */
+function serverCpu(): Record<string, string> {
+  return process.env.LOAD_CPU_PIDS || !serverPid ? {} : { LOAD_CPU_PIDS: `server=${serverPid}` };
+}
+
 const uploadUrl = process.env.BENCH_UPLOAD_DATABASE_URL ?? "";
 const benches: Bench[] = [
   { name: "bench:stats", args: ["scripts/bench-stats.ts"] },
   { name: "bench:public", args: ["scripts/bench-public.ts"], env: { BENCH_BASE_URL: base }, load: true },
   // The saves are timed at the steady state, after 40 saves per grower that warm the save code up; the warm-up's
   // own figures (a fresh server's first 2,000 saves) are printed as well. LOAD_WARMUP_SAVES=0 times a cold server.
-  { name: "bench:load", args: ["--conditions", "react-server", "scripts/bench-load.ts"], env: { LOAD_BASE_URL: base, DATABASE_URL, LOAD_WARMUP_SAVES: process.env.LOAD_WARMUP_SAVES ?? "40" }, load: true },
+  { name: "bench:load", args: ["--conditions", "react-server", "scripts/bench-load.ts"], env: { LOAD_BASE_URL: base, DATABASE_URL, LOAD_WARMUP_SAVES: process.env.LOAD_WARMUP_SAVES ?? "40", ...serverCpu() }, load: true },
   { name: "bench:analysis", args: ["--conditions", "react-server", "scripts/bench-analysis.ts"], env: { BENCH_BASE_URL: base, DATABASE_URL } },
   { name: "bench:report", args: ["scripts/bench-report.mts"] },
   {
