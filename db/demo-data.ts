@@ -59,7 +59,8 @@ export interface DemoTrial {
   code: string;
   title: string;
   crop: (typeof DEMO_CROPS)[number]["name"];
-  season: "spring" | "winter";
+  /** "lastSpring" is the spring a year before "spring": a second season of a crop for the across-seasons views */
+  season: "lastSpring" | "spring" | "winter";
   status: "analysing" | "collecting";
   /**
    * Published when the demo is loaded (every site accepted, then the publish use case), so a newcomer sees
@@ -145,6 +146,31 @@ export const DEMO_TRIALS: DemoTrial[] = [
       { variety: "Northwind Siberian", source: "Northern Furrow Seeds", labelGermination: 92, packetDays: 21, treated: true, effect: { yield: 25, days: -2, emergence: 0.06, quality: -0.2 } },
       { variety: "Dusk Purple", source: "Hollowtree Seed Co.", labelGermination: 78, packetDays: 26, effect: { yield: -25, days: 2, emergence: -0.1, quality: 0.4 } },
       { variety: "Mossy Dwarf", source: "Tamarack Seed Library", labelGermination: 84, packetDays: 23, effect: { yield: 5, days: 1, emergence: -0.02, quality: -0.5 } },
+    ],
+  },
+  // The spring before TV26-LET: four of its varieties were grown then too, so the lettuce varieties have
+  // more than one season to compare (the across-seasons page and each variety's history). Last in the list, so
+  // the other trials draw the same random numbers as before it was added.
+  {
+    code: "TV25-LET",
+    title: "Leaf lettuce for spring markets, first year",
+    crop: "Lettuce",
+    season: "lastSpring",
+    status: "analysing",
+    publishedAtSeed: true,
+    blocks: 3,
+    plotUnit: "bed_row",
+    plotSize: 10,
+    purpose: "A first look at leaf lettuces for an early spring planting: marketable heads and bolting.",
+    siteIndexes: [0, 1, 2, 5],
+    traits: ["seeds_sown", "emerged_final", "emergence_date", "harvest_date", "marketable_yield", "quality", "bolting"],
+    baseline: { yield: 2250, days: 49, emergence: 0.84, quality: 6 },
+    entries: [
+      { variety: "Copper Ruffle", source: "Hollowtree Seed Co.", labelGermination: 91, packetDays: 46, effect: { yield: 120, days: -2, emergence: 0.02, quality: 0.5 } },
+      { variety: "Tamarack Green Leaf", source: "Tamarack Seed Library", labelGermination: 86, packetDays: 50, isCheck: true, effect: { yield: 0, days: 0, emergence: 0, quality: 0 } },
+      { variety: "Velvet Oak", source: "Northern Furrow Seeds", labelGermination: 90, packetDays: 52, effect: { yield: -180, days: 3, emergence: 0.03, quality: 0.8 } },
+      { variety: "Prairie Bibb", source: "Hollowtree Seed Co.", labelGermination: 87, packetDays: 55, effect: { yield: -350, days: 5, emergence: -0.04, quality: -0.3 } },
+      { variety: "Lantern Red Leaf", source: "Northern Furrow Seeds", labelGermination: 83, packetDays: 49, effect: { yield: -90, days: 1, emergence: -0.06, quality: 0.2 } },
     ],
   },
 ];

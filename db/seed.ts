@@ -13,7 +13,11 @@ import { siteLayout } from "@/lib/domain/design/site-layout";
 import { blindCodes } from "@/lib/domain/design/blind-codes";
 import { addDays, todayIso } from "@/lib/domain/schedule";
 
-const SPRING_FIRST_SOWING = "2026-03-18";
+/** The fixed dates of the two spring seasons (the winter season follows the day the demo is loaded). */
+const SPRINGS = {
+  lastSpring: { name: "Spring 2025", year: 2025, startsOn: "2025-03-01", endsOn: "2025-06-30", firstSowing: "2025-03-20", germinationTest: "2024-11-12", submittedAt: "2025-06-21T15:00:00Z", reviewedAt: "2025-06-30T10:00:00Z" },
+  spring: { name: "Spring 2026", year: 2026, startsOn: "2026-03-01", endsOn: "2026-06-30", firstSowing: "2026-03-18", germinationTest: "2025-11-15", submittedAt: "2026-06-20T15:00:00Z", reviewedAt: "2026-06-28T10:00:00Z" },
+} as const;
 
 /** Normal deviate from a uniform generator (Box-Muller). */
 function normal(random: () => number, sd: number) {
@@ -67,8 +71,14 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
       .$returningId();
     const programId = program!.id;
     await tx.insert(s.programCoordinators).values({ programId, userId: coordinatorId });
-    const [spring] = await tx.insert(s.seasons).values({ programId, name: "Spring 2026", year: 2026, startsOn: "2026-03-01", endsOn: "2026-06-30" }).$returningId();
+    const seasonIds: Record<DemoTrial["season"], number> = { lastSpring: 0, spring: 0, winter: 0 };
+    for (const key of ["lastSpring", "spring"] as const) {
+      const { name, year, startsOn, endsOn } = SPRINGS[key];
+      const [row] = await tx.insert(s.seasons).values({ programId, name, year, startsOn, endsOn }).$returningId();
+      seasonIds[key] = row!.id;
+    }
     const [winter] = await tx.insert(s.seasons).values({ programId, name: "Winter 2026–27", year: 2027, startsOn: addDays(today, -30), endsOn: addDays(today, 90) }).$returningId();
+    seasonIds.winter = winter!.id;
 
     const siteIds: number[] = [];
     const growerIds: number[] = [];
@@ -107,17 +117,20 @@ export async function seedDemo(db: Database, options: { today?: string } = {}) {
       traitIds[t.code] = row!.id;
     }
 
+    // A variety grown in several seasons is one variety with a seed lot per trial (by crop and name).
+    const varietyIds = new Map<string, number>();
     for (const [trialIndex, trial] of DEMO_TRIALS.entries()) {
       await seedTrial(tx as unknown as Database, {
         trial,
         trialIndex,
         programId,
-        seasonId: trial.season === "spring" ? spring!.id : winter!.id,
+        seasonId: seasonIds[trial.season],
         cropId: cropIds[trial.crop]!,
         coordinatorId,
         siteIds,
         growerIds,
         traitIds,
+        varietyIds,
         today,
         random,
       });
@@ -210,11 +223,13 @@ async function seedTrial(
     siteIds: number[];
     growerIds: number[];
     traitIds: Record<string, number>;
+    varietyIds: Map<string, number>;
     today: string;
     random: () => number;
   },
 ) {
   const { trial, random } = p;
+  const spring = trial.season === "winter" ? null : SPRINGS[trial.season];
   const seedsPerPlot = trial.plotUnit === "insert" ? trial.plotSize : 30;
   const [trialRow] = await tx
     .insert(s.trials)
@@ -244,15 +259,21 @@ async function seedTrial(
   const codes = blindCodes(trial.entries.length, 7000 + p.trialIndex);
   const entryIds: number[] = [];
   for (const [i, entry] of trial.entries.entries()) {
-    const [variety] = await tx.insert(s.varieties).values({ programId: p.programId, cropId: p.cropId, name: entry.variety }).$returningId();
+    const varietyKey = `${p.cropId}:${entry.variety}`;
+    let varietyId = p.varietyIds.get(varietyKey);
+    if (varietyId === undefined) {
+      const [variety] = await tx.insert(s.varieties).values({ programId: p.programId, cropId: p.cropId, name: entry.variety }).$returningId();
+      varietyId = variety!.id;
+      p.varietyIds.set(varietyKey, varietyId);
+    }
     const [lot] = await tx
       .insert(s.seedLots)
       .values({
-        varietyId: variety!.id,
+        varietyId,
         source: entry.source,
         lotCode: `${trial.code.slice(2, 4)}-${String(101 + i)}`,
         labelGerminationPct: entry.labelGermination,
-        germinationTestDate: entry.labelGermination === null ? null : "2025-11-15",
+        germinationTestDate: entry.labelGermination === null ? null : (spring?.germinationTest ?? SPRINGS.spring.germinationTest),
         packetDaysToMaturity: entry.packetDays,
         treated: entry.treated ?? false,
         treatment: entry.treated ? "Fungicide seed treatment (see seed tag)" : null,
@@ -260,14 +281,14 @@ async function seedTrial(
       .$returningId();
     const [row] = await tx
       .insert(s.trialEntries)
-      .values({ trialId, varietyId: variety!.id, seedLotId: lot!.id, blindCode: codes[i]!, entryNumber: i + 1, isCheck: entry.isCheck ?? false })
+      .values({ trialId, varietyId, seedLotId: lot!.id, blindCode: codes[i]!, entryNumber: i + 1, isCheck: entry.isCheck ?? false })
       .$returningId();
     entryIds.push(row!.id);
   }
 
   for (const [order, siteIndex] of trial.siteIndexes.entries()) {
     const siteId = p.siteIds[siteIndex]!;
-    const sownOn = trial.season === "spring" ? addDays(SPRING_FIRST_SOWING, order * 3) : addDays(p.today, -(16 - 2 * order));
+    const sownOn = spring ? addDays(spring.firstSowing, order * 3) : addDays(p.today, -(16 - 2 * order));
     const seed = 1000 * (p.trialIndex + 1) + siteIndex;
     const [enrolment] = await tx
       .insert(s.enrolments)
@@ -360,9 +381,9 @@ async function seedTrial(
     await tx.insert(s.submissions).values({
       enrolmentId: enrolment!.id,
       status: trial.status === "collecting" ? "draft" : accepted ? "accepted" : "submitted",
-      submittedAt: trial.status === "analysing" ? new Date("2026-06-20T15:00:00Z") : null,
+      submittedAt: trial.status === "analysing" && spring ? new Date(spring.submittedAt) : null,
       submittedById: trial.status === "analysing" ? p.growerIds[siteIndex]! : null,
-      reviewedAt: accepted ? new Date("2026-06-28T10:00:00Z") : null,
+      reviewedAt: accepted && spring ? new Date(spring.reviewedAt) : null,
       reviewedById: accepted ? p.coordinatorId : null,
     });
   }

@@ -4,7 +4,7 @@ import { execFileSync } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, ne } from "drizzle-orm";
 import { seriousAccessibilityProblems } from "../helpers/axe";
 import { baseUrl, launchBrowser, newPage, signIn } from "../helpers/browser";
 import { createDatabase } from "@/db/client";
@@ -36,14 +36,26 @@ async function status(pathname: string) {
   return (await fetch(new URL(pathname, baseUrl), { redirect: "manual" })).status;
 }
 
-/** Every public address that could show something of a trial, its varieties or its sites. */
+/**
+ * Every public address that could show something of a trial, its varieties or its sites. A variety also
+ * entered in another trial that is published (the demo's lettuces grown in 2025 and 2026) has a public page of
+ * its own: `sharedVarieties` lists those.
+ */
 async function publicAddressesOf(code: string) {
-  const [trial] = await e2e.db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, code));
+  const [trial] = await e2e.db.select({ id: s.trials.id, title: s.trials.title }).from(s.trials).where(eq(s.trials.code, code));
   const entries = await e2e.db.select({ varietyId: s.trialEntries.varietyId }).from(s.trialEntries).where(eq(s.trialEntries.trialId, trial!.id));
+  const elsewhere = await e2e.db
+    .select({ varietyId: s.trialEntries.varietyId })
+    .from(s.trialEntries)
+    .innerJoin(s.trials, eq(s.trials.id, s.trialEntries.trialId))
+    .where(and(ne(s.trials.id, trial!.id), eq(s.trials.status, "published")));
+  const published = new Set(elsewhere.map((e) => e.varietyId));
   return {
     trialId: trial!.id,
+    title: trial!.title,
     pages: [`/results/${code}`, `/results/${code}?version=1`, `/results/${code}/report`, `/results/${code}/data?format=csv`, `/results/${code}/data?format=xlsx`, `/api/public/v1/trials/${code}`, `/api/public/v1/trials/${code}/results`, `/api/public/v1/trials/${code}/plots`],
-    varieties: entries.map((e) => `/varieties/${e.varietyId}`),
+    varieties: entries.filter((e) => !published.has(e.varietyId)).map((e) => `/varieties/${e.varietyId}`),
+    sharedVarieties: entries.filter((e) => published.has(e.varietyId)).map((e) => `/varieties/${e.varietyId}`),
   };
 }
 
@@ -59,8 +71,14 @@ async function sitesOnlyIn(codes: string[]) {
 }
 
 async function expectNothingPublic(code: string) {
-  const { pages, varieties } = await publicAddressesOf(code);
+  const { pages, varieties, sharedVarieties, title } = await publicAddressesOf(code);
   for (const p of [...pages, ...varieties]) expect([p, await status(p)]).toEqual([p, 404]);
+  // A variety's public page lists its published trials only: nothing of this one.
+  for (const p of sharedVarieties) {
+    const html = await (await fetch(new URL(p, baseUrl))).text();
+    // the title as a whole text or string ("…, first year" is the published trial's own title)
+    expect([p, html.includes(code), html.includes(`>${title}<`) || html.includes(`"${title}"`)]).toEqual([p, false, false]);
+  }
   const index = await (await fetch(new URL(`/api/public/v1/trials?q=${encodeURIComponent(code)}`, baseUrl))).json();
   expect(index.trials).toEqual([]);
   const html = await (await fetch(new URL(`/results?q=${encodeURIComponent(code)}`, baseUrl))).text();
@@ -69,8 +87,10 @@ async function expectNothingPublic(code: string) {
 
 describe("publishing and the public pages", () => {
   it("shows nothing of unpublished trials at any public address, including guessed ids", async () => {
-    // the demo publishes its spring spinach trial; the others start unpublished
+    // the demo publishes its spring spinach trial and the 2025 lettuce trial; the others start unpublished
     const unpublished = DEMO_TRIALS.filter((t) => !t.publishedAtSeed);
+    // TV26-LET shares four varieties with the published TV25-LET, so the shared-variety check below has work to do.
+    expect((await publicAddressesOf(PUBLISHED.code)).sharedVarieties.length).toBeGreaterThan(0);
     for (const t of unpublished) await expectNothingPublic(t.code);
     for (const p of await sitesOnlyIn(unpublished.map((t) => t.code))) expect([p, await status(p)]).toEqual([p, 404]);
     for (const p of ["/results/NOPE-123", "/results/..%2f..%2fetc", "/varieties/999999", "/varieties/abc", "/sites/0", "/api/public/v1/trials/%27%20OR%201%3D1", "/api/public/trials/%27%20OR%201%3D1"]) {

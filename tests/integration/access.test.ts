@@ -7,7 +7,7 @@ import { countUsersByRole, getActiveViewer, listCooperators, listUsersForAdmin }
 import { pool as appPool } from "@/db/index";
 import { testDatabase } from "../helpers/db";
 import { demoViewer } from "../helpers/demo";
-import { DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
+import { DEMO_SITES, DEMO_STAFF, DEMO_TRIALS } from "@/db/demo-data";
 import { addDays } from "@/lib/domain/schedule";
 
 const { db, pool } = testDatabase();
@@ -38,7 +38,7 @@ describe("role and ownership checks in the data-access layer (demo data)", () =>
   it("shows trials, late sites, growers and site lists to staff but not to cooperators", async () => {
     const coordinator = await demoViewer(db, DEMO_STAFF[1].email);
     const grower = await demoViewer(db, DEMO_SITES[0].grower.email);
-    expect((await listTrialsForViewer(coordinator)).map((t) => t.code).sort()).toEqual(["TV26-LET", "TV26-SPN", "TV27-KAL"]);
+    expect((await listTrialsForViewer(coordinator)).map((t) => t.code).sort()).toEqual(DEMO_TRIALS.map((t) => t.code).sort());
     expect(await listTrialsForViewer(grower)).toEqual([]);
     expect(await listLateSites(grower)).toEqual([]);
     expect(await listCooperators(grower)).toEqual([]);

@@ -68,10 +68,11 @@ describe("demo layouts", () => {
           seedsPerCell: String(trial!.seedsPerCell),
         }),
       );
-      // Entries use their own program's varieties, so the clone gets copies of the demo varieties.
+      // Entries use their own program's varieties, so the clone gets copies of the demo varieties, named apart
+      // from them (a program has one variety of a crop by each name, and a variety may recur across seasons).
       for (const e of entries) {
         const [variety] = await db.select({ name: s.varieties.name }).from(s.varieties).where(eq(s.varieties.id, e.varietyId));
-        const varietyId = await insertVariety(coordinator, { cropId: trial!.cropId, name: variety!.name });
+        const varietyId = await insertVariety(coordinator, { cropId: trial!.cropId, name: unique(variety!.name) });
         await addTrialEntry(coordinator, { trialId: cloneId, varietyId, isCheck: e.isCheck });
       }
       for (const [i, enrolment] of enrolments.entries()) {

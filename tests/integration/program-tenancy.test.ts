@@ -207,7 +207,9 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
   it("refuses a coordinator's rename, edit or delete of another program's variety or seed lot", async () => {
     const copper = await varietyId("Copper Ruffle");
     const [variety] = await db.select().from(s.varieties).where(eq(s.varieties.id, copper));
-    const [lot] = await db.select().from(s.seedLots).where(eq(s.seedLots.varietyId, copper));
+    // Copper Ruffle was grown in two seasons, with a seed lot for each.
+    const lots = await db.select().from(s.seedLots).where(eq(s.seedLots.varietyId, copper)).orderBy(s.seedLots.id);
+    const lot = lots[0];
     const refusals = [
       await refusal(catalogue.updateVariety(owen, { varietyId: copper, cropId: variety!.cropId, name: "Renamed by another program" })),
       await refusal(catalogue.deleteVariety(owen, { varietyId: copper })),
@@ -217,7 +219,7 @@ describe("varieties, seed lots and custom traits belong to one program", () => {
     ];
     for (const r of refusals) expectNoFirstProgramNames(`${r.message} ${JSON.stringify(r.fieldErrors ?? {})}`);
     expect(await db.select({ name: s.varieties.name }).from(s.varieties).where(eq(s.varieties.id, copper))).toEqual([{ name: "Copper Ruffle" }]);
-    expect(await db.select().from(s.seedLots).where(eq(s.seedLots.varietyId, copper))).toEqual([lot]);
+    expect(await db.select().from(s.seedLots).where(eq(s.seedLots.varietyId, copper)).orderBy(s.seedLots.id)).toEqual(lots);
     expect(await getVarietyHistory(owen, copper)).toBeNull();
   });
 
