@@ -352,12 +352,20 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
     const differed = analysedSites.filter((s) => s.result!.entryP !== null && s.result!.entryP < ALPHA).length;
     notes.push(`${sitesDifferedWords(lowerLabel, differed, analysedSites.length)} (F test, α = ${ALPHA}).`);
   }
-  if (missing.length > 0) {
-    const lost = missing.filter((m) => !m.reason.startsWith("excluded")).length;
-    const out = missing.length - lost;
+  // A plot missing at a site that could not be analysed takes no part in any mean, so it is said apart.
+  const analysedNames = new Set(analysedSites.map((s) => s.siteName));
+  const inAnalysis = missing.filter((m) => analysedNames.has(m.siteName));
+  const elsewhere = missing.length - inAnalysis.length;
+  const elsewhereSites = new Set(missing.filter((m) => !analysedNames.has(m.siteName)).map((m) => m.siteName)).size;
+  if (inAnalysis.length > 0) {
+    const out = inAnalysis.filter((m) => m.reason.startsWith("excluded")).length;
     notes.push(
-      `${plural(missing.length, "plot")} ${missing.length === 1 ? "is" : "are"} missing${out ? ` (${out} excluded by a coordinator)` : ""}; ${missing.length === 1 ? "it is" : "they are"} left out and the means are least-squares estimates, which equal plain means when nothing is missing.`,
+      `${plural(inAnalysis.length, "plot")} ${inAnalysis.length === 1 ? "is" : "are"} missing${out ? ` (${out} excluded by a coordinator)` : ""}; ${inAnalysis.length === 1 ? "it is" : "they are"} left out and the means are least-squares estimates, which equal plain means when nothing is missing.`,
     );
+  }
+  if (elsewhere > 0) {
+    const where = elsewhereSites === 1 ? "a site that could not be analysed for this trait (its reason is given)" : `${elsewhereSites} sites that could not be analysed for this trait (their reasons are given)`;
+    notes.push(`${plural(elsewhere, "missing plot")} ${elsewhere === 1 ? "is" : "are"} at ${where}, so ${elsewhere === 1 ? "it takes" : "they take"} no part in these means.`);
   }
   return notes;
 }

@@ -60,6 +60,24 @@ describe("plain-language notes", () => {
     expect(result.notes).toContain("1 plot is missing; it is left out and the means are least-squares estimates, which equal plain means when nothing is missing.");
   });
 
+  it("says apart the missing plots of a site that could not be analysed, which take no part in the means", () => {
+    const input = build({ sites: 3 });
+    const yieldOf = (siteId: number, block?: number) =>
+      input.observations.filter((o) => o.traitId === 1 && input.plots.some((p) => p.id === o.plotId && p.siteId === siteId && (block === undefined || p.block === block)));
+    // Site 3 keeps one block of yields only, so it cannot be analysed; one of its plots in that block is lost.
+    for (const o of yieldOf(52).filter((o) => !yieldOf(52, 1).includes(o))) o.valueNumber = null;
+    const lost = yieldOf(52, 1)[0]!;
+    lost.valueNumber = null;
+    lost.missingReason = "animal_damage";
+    // And one plot at the analysed Site 1.
+    yieldOf(50)[0]!.valueNumber = null;
+    const result = runAnalysis(input, settings());
+    expect(result.perSite.find((s) => s.siteId === 52)!.result).toBeNull();
+    expect(result.missing.filter((m) => m.siteName === "Site 3")).toHaveLength(13);
+    expect(result.notes).toContain("1 plot is missing; it is left out and the means are least-squares estimates, which equal plain means when nothing is missing.");
+    expect(result.notes).toContain("13 missing plots are at a site that could not be analysed for this trait (its reason is given), so they take no part in these means.");
+  });
+
   it("explains each analysis choice in one line", () => {
     const random = runAnalysis(build({ sites: 2 }), settings());
     const fixed = runAnalysis(build({ sites: 2 }), settings({ siteModel: "fixed", separation: "tukey" }));
