@@ -355,8 +355,9 @@ function siteNotes(trait: InputTrait, analysedSites: SiteAnalysis[], missing: Mi
   // A plot missing at a site that could not be analysed takes no part in any mean, so it is said apart.
   const analysedNames = new Set(analysedSites.map((s) => s.siteName));
   const inAnalysis = missing.filter((m) => analysedNames.has(m.siteName));
-  const elsewhere = missing.length - inAnalysis.length;
-  const elsewhereSites = new Set(missing.filter((m) => !analysedNames.has(m.siteName)).map((m) => m.siteName)).size;
+  const notAnalysed = missing.filter((m) => !analysedNames.has(m.siteName));
+  const elsewhere = notAnalysed.length;
+  const elsewhereSites = new Set(notAnalysed.map((m) => m.siteName)).size;
   if (inAnalysis.length > 0) {
     const out = inAnalysis.filter((m) => m.reason.startsWith("excluded")).length;
     notes.push(
