@@ -1,10 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { eq } from "drizzle-orm";
-import * as s from "@/db/schema";
 import type { Viewer } from "@/lib/domain/viewer";
 import type { AnalysisPayload } from "@/lib/domain/analysis/types";
 import { testDatabase } from "../helpers/db";
-import { demoViewer } from "../helpers/demo";
+import { demoSite, demoViewer } from "../helpers/demo";
 import { statementsDuring } from "../helpers/statements";
 import { DEMO_SECOND_PROGRAM, DEMO_SITES, DEMO_STAFF } from "@/db/demo-data";
 
@@ -43,12 +41,10 @@ async function analysis(query: string, headers: Record<string, string> = {}) {
 beforeAll(async () => {
   coordinator = await demoViewer(db, DEMO_STAFF[1].email);
   grower = await demoViewer(db, DEMO_SITES[0].grower.email);
-  const [trial] = await db.select({ id: s.trials.id }).from(s.trials).where(eq(s.trials.code, "TV26-LET"));
-  lettuceId = trial!.id;
-  const [trait] = await db.select({ id: s.traits.id }).from(s.traits).where(eq(s.traits.code, "marketable_yield"));
-  yieldId = trait!.id;
-  const [site] = await db.select({ id: s.sites.id }).from(s.sites).where(eq(s.sites.name, DEMO_SITES[0].name));
-  growerSiteId = site!.id;
+  const site = await demoSite(db, "TV26-LET", DEMO_SITES[0].name);
+  lettuceId = site.trialId;
+  yieldId = site.traitId.marketable_yield!;
+  growerSiteId = site.siteId;
 });
 
 afterAll(async () => {
